@@ -1,0 +1,25 @@
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useForm, type DefaultValues, type FieldValues } from "react-hook-form";
+import { useSubmit } from "react-router";
+import type { z } from "zod";
+
+/**
+ * react-hook-form with the route's zod schema. The form still posts as an ordinary HTML form (so it
+ * works before JavaScript loads); with JavaScript the same schema checks it first and the post goes
+ * through React Router's submit, and the action re-validates with that schema.
+ */
+export function useZodForm<S extends z.ZodType<FieldValues, FieldValues>>(schema: S, defaultValues?: DefaultValues<z.input<S>>) {
+  const submit = useSubmit();
+  const form = useForm<z.input<S>, unknown, z.output<S>>({ resolver: zodResolver(schema as never) as never, defaultValues, mode: "onTouched" });
+  const onSubmit = form.handleSubmit((_values, event) => {
+    const el = (event?.target ?? null) as HTMLFormElement | null;
+    if (el) submit(el, { method: "post" });
+  });
+  return { form, onSubmit };
+}
+
+/** Messages for one field: the browser's check first, then what the server said. */
+export function errorsFor(form: { formState: { errors: Record<string, { message?: unknown } | undefined> } }, server: Record<string, string[] | undefined> | undefined, name: string) {
+  const client = form.formState.errors[name]?.message;
+  return [typeof client === "string" ? client : undefined, ...(server?.[name] ?? [])];
+}

@@ -1,0 +1,35 @@
+import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import * as schema from "./schema";
+
+export type Db = NodePgDatabase<typeof schema>;
+/** A transaction handle; services accept `Db | Tx` so callers can compose them in one transaction. */
+export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+// One pool per process, kept across dev-server module reloads.
+const globalForDb = globalThis as unknown as { __spanwrightPool?: pg.Pool; __spanwrightDb?: Db };
+
+function connectionString(): string {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error("DATABASE_URL is not set");
+  return url;
+}
+
+export function pool(): pg.Pool {
+  globalForDb.__spanwrightPool ??= new pg.Pool({ connectionString: connectionString(), max: 10 });
+  return globalForDb.__spanwrightPool;
+}
+
+export const db: Db = new Proxy({} as Db, {
+  // Created on first use so that importing this module never needs a database.
+  get(_target, prop, receiver) {
+    globalForDb.__spanwrightDb ??= drizzle(pool(), { schema });
+    return Reflect.get(globalForDb.__spanwrightDb, prop, receiver);
+  },
+});
+
+export async function closeDb(): Promise<void> {
+  await globalForDb.__spanwrightPool?.end();
+  globalForDb.__spanwrightPool = undefined;
+  globalForDb.__spanwrightDb = undefined;
+}

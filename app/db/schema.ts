@@ -1,0 +1,183 @@
+import { relations, sql } from "drizzle-orm";
+import {
+  bigserial,
+  boolean,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+
+const createdAt = () => timestamp("created_at", { withTimezone: true }).defaultNow().notNull();
+
+export const ROLES = ["engineer", "checker", "quality", "admin"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const organisations = pgTable("organisations", {
+  id: uuid().primaryKey().defaultRandom(),
+  name: text().notNull(),
+  slug: text().notNull().unique(),
+  createdAt: createdAt(),
+});
+
+export const users = pgTable(
+  "users",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    /** Stored lower-case; compared lower-case. */
+    email: text().notNull(),
+    name: text().notNull(),
+    /** argon2id PHC string; null for accounts that only use company sign-in. */
+    passwordHash: text("password_hash"),
+    /** Subject at the company identity provider once linked. */
+    ssoSubject: text("sso_subject"),
+    disabled: boolean().default(false).notNull(),
+    createdAt: createdAt(),
+    lastSignInAt: timestamp("last_sign_in_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("users_email_key").on(t.email), uniqueIndex("users_sso_subject_key").on(t.ssoSubject)],
+);
+
+export const memberships = pgTable(
+  "memberships",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    roles: text().array().$type<Role[]>().notNull().default(sql`'{}'::text[]`),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("memberships_user_org_key").on(t.userId, t.organisationId)],
+);
+
+export const sessions = pgTable(
+  "sessions",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    /** SHA-256 (hex) of the random token in the cookie; the token itself is never stored. */
+    tokenHash: text("token_hash").notNull(),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    method: text().$type<"password" | "sso">().notNull(),
+    createdAt: createdAt(),
+    lastSeenAt: timestamp("last_seen_at", { withTimezone: true }).defaultNow().notNull(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    userAgent: text("user_agent"),
+  },
+  (t) => [uniqueIndex("sessions_token_hash_key").on(t.tokenHash), index("sessions_user_idx").on(t.userId)],
+);
+
+/** Every sign-in attempt, kept for throttling per account and per client address. */
+export const signInAttempts = pgTable(
+  "sign_in_attempts",
+  {
+    id: bigserial({ mode: "number" }).primaryKey(),
+    email: text().notNull(),
+    address: text().notNull(),
+    succeeded: boolean().notNull(),
+    at: timestamp({ withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [index("sign_in_attempts_email_idx").on(t.email, t.at), index("sign_in_attempts_address_idx").on(t.address, t.at)],
+);
+
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    email: text().notNull(),
+    roles: text().array().$type<Role[]>().notNull(),
+    tokenHash: text("token_hash").notNull(),
+    invitedBy: uuid("invited_by").notNull().references(() => users.id),
+    createdAt: createdAt(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("invitations_token_hash_key").on(t.tokenHash)],
+);
+
+/** An aircraft type programme: the certification project a set of cases belongs to. */
+export const programmes = pgTable(
+  "programmes",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    code: text().notNull(),
+    name: text().notNull(),
+    aircraft: text().notNull(),
+    description: text().default("").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("programmes_org_code_key").on(t.organisationId, t.code)],
+);
+
+export const CASE_STATUSES = ["draft", "submitted", "returned", "approved", "issued", "released"] as const;
+export type CaseStatus = (typeof CASE_STATUSES)[number];
+
+/** A loads case file: the wing-loads part of a certification case. */
+export const cases = pgTable(
+  "cases",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    programmeId: uuid("programme_id").notNull().references(() => programmes.id, { onDelete: "cascade" }),
+    /** Copied from the programme so every query can filter by organisation directly. */
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    reference: text().notNull(),
+    title: text().notNull(),
+    description: text().default("").notNull(),
+    status: text().$type<CaseStatus>().default("draft").notNull(),
+    revision: integer().default(1).notNull(),
+    createdBy: uuid("created_by").notNull().references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [uniqueIndex("cases_programme_reference_key").on(t.programmeId, t.reference), index("cases_org_idx").on(t.organisationId)],
+);
+
+/**
+ * Append-only audit trail, written in the same transaction as the change it records. Each entry
+ * carries the hash of the one before, so any edit or deletion breaks the chain visibly.
+ */
+export const auditLog = pgTable(
+  "audit_log",
+  {
+    id: bigserial({ mode: "number" }).primaryKey(),
+    at: timestamp({ withTimezone: true }).defaultNow().notNull(),
+    organisationId: uuid("organisation_id").references(() => organisations.id, { onDelete: "set null" }),
+    actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
+    actorEmail: text("actor_email"),
+    action: text().notNull(),
+    entityType: text("entity_type").notNull(),
+    entityId: text("entity_id"),
+    before: jsonb(),
+    after: jsonb(),
+    prevHash: text("prev_hash").notNull(),
+    hash: text().notNull(),
+  },
+  (t) => [index("audit_log_org_idx").on(t.organisationId, t.id), index("audit_log_entity_idx").on(t.entityType, t.entityId)],
+);
+
+export const usersRelations = relations(users, ({ many }) => ({ memberships: many(memberships) }));
+export const membershipsRelations = relations(memberships, ({ one }) => ({
+  user: one(users, { fields: [memberships.userId], references: [users.id] }),
+  organisation: one(organisations, { fields: [memberships.organisationId], references: [organisations.id] }),
+}));
+export const programmesRelations = relations(programmes, ({ one, many }) => ({
+  organisation: one(organisations, { fields: [programmes.organisationId], references: [organisations.id] }),
+  cases: many(cases),
+}));
+export const casesRelations = relations(cases, ({ one }) => ({
+  programme: one(programmes, { fields: [cases.programmeId], references: [programmes.id] }),
+  creator: one(users, { fields: [cases.createdBy], references: [users.id] }),
+}));
+
+export type User = typeof users.$inferSelect;
+export type Organisation = typeof organisations.$inferSelect;
+export type Programme = typeof programmes.$inferSelect;
+export type Case = typeof cases.$inferSelect;
+export type AuditEntry = typeof auditLog.$inferSelect;

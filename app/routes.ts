@@ -1,0 +1,27 @@
+import { type RouteConfig, index, layout, prefix, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("login", "routes/auth/login.tsx"),
+  route("logout", "routes/auth/logout.ts"),
+  route("auth/sso", "routes/auth/sso.ts"),
+  route("auth/sso/callback", "routes/auth/sso-callback.ts"),
+  route("invite/:token", "routes/auth/invite.tsx"),
+  layout("routes/app-layout.tsx", [
+    ...prefix("cases", [
+      index("routes/cases/list.tsx"),
+      route("new", "routes/cases/new.tsx"),
+      route(":caseId", "routes/cases/overview.tsx"),
+    ]),
+    ...prefix("programmes", [
+      index("routes/programmes/list.tsx"),
+      route(":programmeId", "routes/programmes/detail.tsx"),
+    ]),
+    route("checks", "routes/checks.tsx"),
+    route("audit", "routes/audit.tsx"),
+    route("admin", "routes/admin/members.tsx"),
+    route("account", "routes/account.tsx"),
+  ]),
+  route("dev/mailbox", "routes/dev/mailbox.tsx"),
+  route("healthz", "routes/api/healthz.ts"),
+] satisfies RouteConfig;

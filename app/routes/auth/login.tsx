@@ -1,0 +1,92 @@
+import { data, Form, redirect, useNavigation } from "react-router";
+import { landingPath } from "~/auth/permissions";
+import { getOptionalUser, signInWithPassword } from "~/auth/auth.server";
+import { ssoEnabled } from "~/auth/sso.server";
+import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
+import { TextField } from "~/components/forms/field";
+import { Button } from "~/components/ui/button";
+import { Alert } from "~/components/ui/page-header";
+import { clientAddressContext } from "~/context";
+import { env } from "~/utils/env.server";
+import { parseBody, safeRedirectPath } from "~/utils/http.server";
+import type { Route } from "./+types/login";
+import { LoginSchema } from "./login.schema";
+
+const REASONS: Record<string, string> = {
+  session: "Your session has ended or is not valid any more. Sign in again.",
+  "signed-out": "You have signed out.",
+};
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const url = new URL(request.url);
+  const current = await getOptionalUser(request);
+  if (current) throw redirect(safeRedirectPath(url.searchParams.get("redirectTo"), landingPath(current.roles)));
+  const reason = url.searchParams.get("reason");
+  const ssoError = url.searchParams.get("sso-error");
+  return {
+    redirectTo: safeRedirectPath(url.searchParams.get("redirectTo"), ""),
+    notice: reason ? (REASONS[reason] ?? null) : null,
+    ssoError: ssoError ? ssoError.slice(0, 300) : null,
+    sso: ssoEnabled() ? { label: env().OIDC_LABEL } : null,
+  };
+}
+
+export async function action({ request, context }: Route.ActionArgs) {
+  const parsed = await parseBody(request, LoginSchema);
+  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, formError: null as string | null }, { status: 400 });
+  const result = await signInWithPassword({
+    email: parsed.value.email,
+    password: parsed.value.password,
+    address: context.get(clientAddressContext),
+    userAgent: request.headers.get("User-Agent"),
+  });
+  if (!result.ok) return data({ fieldErrors: {}, formError: result.message as string | null }, { status: result.status });
+  throw redirect(safeRedirectPath(parsed.value.redirectTo, landingPath(result.current.roles)), { headers: { "Set-Cookie": result.setCookie } });
+}
+
+export default function LoginRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const { form, onSubmit } = useZodForm(LoginSchema, { email: "", password: "", redirectTo: loaderData.redirectTo });
+  const navigation = useNavigation();
+  const busy = navigation.state !== "idle" && navigation.formAction === "/login";
+  return (
+    <main className="flex min-h-screen items-center justify-center px-4 py-10">
+      <div className="w-full max-w-md">
+        <p className="mb-1 text-2xl font-semibold tracking-tight">Spanwright</p>
+        <p className="mb-6 text-sm text-ink-muted">Wing loads casework: distributions, loads, checks and signed reports.</p>
+        <div className="rounded border border-line bg-surface p-6 shadow-sm">
+          <h1 className="mb-4 text-lg font-semibold">Sign in</h1>
+          {loaderData.notice ? <div className="mb-4"><Alert tone="info">{loaderData.notice}</Alert></div> : null}
+          {loaderData.ssoError ? <div className="mb-4"><Alert>{loaderData.ssoError}</Alert></div> : null}
+          {actionData?.formError ? <div className="mb-4"><Alert>{actionData.formError}</Alert></div> : null}
+          <Form method="post" action="/login" onSubmit={onSubmit} noValidate>
+            <input type="hidden" {...form.register("redirectTo")} />
+            <TextField label="E-mail" type="email" autoComplete="username" autoFocus {...form.register("email")} errors={errorsFor(form, actionData?.fieldErrors, "email")} />
+            <TextField label="Password" type="password" autoComplete="current-password" {...form.register("password")} errors={errorsFor(form, actionData?.fieldErrors, "password")} />
+            <Button type="submit" className="mt-2 w-full" disabled={busy}>
+              {busy ? "Signing in…" : "Sign in"}
+            </Button>
+          </Form>
+          {loaderData.sso ? (
+            <div className="mt-6 border-t border-line pt-5">
+              <h2 className="mb-2 text-sm font-semibold">{loaderData.sso.label}</h2>
+              <Form method="get" action="/auth/sso">
+                <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+                <TextField label="Company e-mail" name="email" type="email" id="sso-email" autoComplete="email" required />
+                <Button type="submit" variant="secondary" className="w-full">
+                  Continue with company sign-in
+                </Button>
+              </Form>
+            </div>
+          ) : null}
+        </div>
+        <p className="mt-6 text-xs text-ink-faint">
+          Spanwright supports analysis that the certifying authority accepts; it does not replace it. The applicable regulations and licensed practice govern.
+        </p>
+      </div>
+    </main>
+  );
+}
+
+export function meta() {
+  return [{ title: "Sign in · Spanwright" }];
+}

@@ -1,0 +1,108 @@
+import { Form, Link } from "react-router";
+import { requirePermission } from "~/auth/auth.server";
+import { hasPermission } from "~/auth/permissions";
+import { CASE_STATUSES, type CaseStatus } from "~/db/schema";
+import { StatusBadge } from "~/components/ui/status-badge";
+import { EmptyState, PageHeader } from "~/components/ui/page-header";
+import { listCases, listProgrammes } from "~/services/programmes.server";
+import { formatUtc } from "~/utils/format";
+import type { Route } from "./+types/list";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const current = await requirePermission(request, "case:read");
+  const url = new URL(request.url);
+  const programmes = await listProgrammes(current.organisation.id);
+  const programmeId = programmes.some((p) => p.id === url.searchParams.get("programme")) ? url.searchParams.get("programme")! : undefined;
+  const statusParam = url.searchParams.get("status");
+  const status = CASE_STATUSES.includes(statusParam as CaseStatus) ? (statusParam as CaseStatus) : undefined;
+  const cases = await listCases(current.organisation.id, { programmeId, status });
+  return { cases, programmes, filters: { programmeId: programmeId ?? "", status: status ?? "" }, canCreate: hasPermission(current.roles, "case:create") };
+}
+
+export default function CasesRoute({ loaderData }: Route.ComponentProps) {
+  const { cases, programmes, filters, canCreate } = loaderData;
+  return (
+    <>
+      <PageHeader
+        title="Cases"
+        description="Loads case files of your organisation's programmes."
+        actions={
+          canCreate ? (
+            <Link to="/cases/new" className="rounded border border-accent bg-accent px-3 py-1.5 text-sm font-semibold text-white no-underline hover:bg-accent-strong hover:text-white">
+              New case
+            </Link>
+          ) : null
+        }
+      />
+      <Form method="get" className="mb-4 flex flex-wrap items-end gap-3 text-sm">
+        <label className="flex flex-col">
+          <span className="font-semibold">Programme</span>
+          <select name="programme" defaultValue={filters.programmeId} className="mt-1 rounded border border-line-strong bg-surface px-2 py-1">
+            <option value="">All programmes</option>
+            {programmes.map((p) => (
+              <option key={p.id} value={p.id}>
+                {p.code} — {p.name}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="flex flex-col">
+          <span className="font-semibold">Status</span>
+          <select name="status" defaultValue={filters.status} className="mt-1 rounded border border-line-strong bg-surface px-2 py-1">
+            <option value="">Any status</option>
+            {CASE_STATUSES.map((s) => (
+              <option key={s} value={s}>
+                {s}
+              </option>
+            ))}
+          </select>
+        </label>
+        <button type="submit" className="rounded border border-line-strong bg-surface px-3 py-1 font-semibold hover:bg-canvas">
+          Filter
+        </button>
+      </Form>
+      {cases.length === 0 ? (
+        <EmptyState title="No cases match">
+          {canCreate ? "Start one with “New case”: it opens with the certification basis step." : "Cases appear here once an engineer starts one."}
+        </EmptyState>
+      ) : (
+        <div className="overflow-x-auto rounded border border-line bg-surface">
+          <table className="w-full text-left text-sm">
+            <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
+              <tr>
+                <th className="px-3 py-2">Reference</th>
+                <th className="px-3 py-2">Title</th>
+                <th className="px-3 py-2">Programme</th>
+                <th className="px-3 py-2">Status</th>
+                <th className="px-3 py-2 text-right">Revision</th>
+                <th className="px-3 py-2">Started by</th>
+                <th className="px-3 py-2">Last change</th>
+              </tr>
+            </thead>
+            <tbody>
+              {cases.map((c) => (
+                <tr key={c.id} className="border-b border-line last:border-0 hover:bg-canvas">
+                  <td className="px-3 py-2 font-semibold">
+                    <Link to={`/cases/${c.id}`}>{c.reference}</Link>
+                  </td>
+                  <td className="px-3 py-2">{c.title}</td>
+                  <td className="px-3 py-2">{c.programmeCode}</td>
+                  <td className="px-3 py-2">
+                    <StatusBadge status={c.status} />
+                  </td>
+                  <td className="px-3 py-2 text-right">{c.revision}</td>
+                  <td className="px-3 py-2">{c.createdByName}</td>
+                  <td className="px-3 py-2 text-ink-muted">{formatUtc(c.updatedAt)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </>
+  );
+}
+
+export function meta() {
+  return [{ title: "Cases · Spanwright" }];
+}

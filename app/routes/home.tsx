@@ -1,0 +1,10 @@
+import { redirect } from "react-router";
+import { landingPath } from "~/auth/permissions";
+import { getOptionalUser } from "~/auth/auth.server";
+import type { Route } from "./+types/home";
+
+/** The start page is the page made for the person's role, or the sign-in page. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const current = await getOptionalUser(request);
+  throw redirect(current ? landingPath(current.roles) : "/login");
+}

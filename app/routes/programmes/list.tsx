@@ -1,0 +1,92 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import { requirePermission } from "~/auth/auth.server";
+import { hasPermission } from "~/auth/permissions";
+import { TextAreaField, TextField } from "~/components/forms/field";
+import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
+import { Button } from "~/components/ui/button";
+import { EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { DomainError } from "~/services/organisation.server";
+import { createProgramme, listProgrammes } from "~/services/programmes.server";
+import { parseBody } from "~/utils/http.server";
+import type { Route } from "./+types/list";
+import { NewProgrammeSchema } from "./list.schema";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const current = await requirePermission(request, "programme:read");
+  return { programmes: await listProgrammes(current.organisation.id), canManage: hasPermission(current.roles, "programme:manage") };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const current = await requirePermission(request, "programme:manage");
+  const parsed = await parseBody(request, NewProgrammeSchema);
+  if (!parsed.ok) return data({ ok: false, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  try {
+    await createProgramme({ organisationId: current.organisation.id, actor: current.user, ...parsed.value });
+    return { ok: true, fieldErrors: {} };
+  } catch (error) {
+    if (error instanceof DomainError) return data({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
+    throw error;
+  }
+}
+
+export default function ProgrammesRoute({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <>
+      <PageHeader title="Programmes" description="Aircraft type programmes of your organisation. Each holds the loads case files of its certification." />
+      <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
+        {loaderData.programmes.length === 0 ? (
+          <EmptyState title="No programmes yet">{loaderData.canManage ? "Create the first one with the form." : "An administrator creates programmes."}</EmptyState>
+        ) : (
+          <div className="overflow-x-auto rounded border border-line bg-surface">
+            <table className="w-full text-left text-sm">
+              <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
+                <tr>
+                  <th className="px-3 py-2">Code</th>
+                  <th className="px-3 py-2">Name</th>
+                  <th className="px-3 py-2">Aircraft</th>
+                  <th className="px-3 py-2 text-right">Cases</th>
+                </tr>
+              </thead>
+              <tbody>
+                {loaderData.programmes.map((p) => (
+                  <tr key={p.id} className="border-b border-line last:border-0">
+                    <td className="px-3 py-2 font-semibold">
+                      <Link to={`/programmes/${p.id}`}>{p.code}</Link>
+                    </td>
+                    <td className="px-3 py-2">{p.name}</td>
+                    <td className="px-3 py-2">{p.aircraft}</td>
+                    <td className="px-3 py-2 text-right">{p.caseCount}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+        {loaderData.canManage ? <NewProgrammeForm serverErrors={actionData?.fieldErrors} created={actionData?.ok} /> : null}
+      </div>
+    </>
+  );
+}
+
+function NewProgrammeForm({ serverErrors, created }: { serverErrors?: Record<string, string[] | undefined>; created?: boolean }) {
+  const { form, onSubmit } = useZodForm(NewProgrammeSchema, { code: "", name: "", aircraft: "", description: "" });
+  const busy = useNavigation().state === "submitting";
+  return (
+    <Panel title="New programme">
+      <Form method="post" onSubmit={onSubmit} noValidate>
+        {created ? <p role="status" className="mb-3 text-sm text-status-approved">Programme created.</p> : null}
+        <TextField label="Code" {...form.register("code")} errors={errorsFor(form, serverErrors, "code")} />
+        <TextField label="Name" {...form.register("name")} errors={errorsFor(form, serverErrors, "name")} />
+        <TextField label="Aircraft type" {...form.register("aircraft")} errors={errorsFor(form, serverErrors, "aircraft")} />
+        <TextAreaField label="Description" {...form.register("description")} errors={errorsFor(form, serverErrors, "description")} />
+        <Button type="submit" disabled={busy}>
+          Create programme
+        </Button>
+      </Form>
+    </Panel>
+  );
+}
+
+export function meta() {
+  return [{ title: "Programmes · Spanwright" }];
+}
