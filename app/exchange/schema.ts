@@ -1,0 +1,200 @@
+import { z } from "zod";
+import { ISA_MAX_ALTITUDE, ISA_MIN_ALTITUDE } from "../engine/atmosphere";
+
+/** Schema identifiers of the exchange contract (docs: /work/shared/CASE-EXCHANGE.md). */
+export const CASE_SCHEMA_ID = "spanwright.case/1";
+export const RESULT_SCHEMA_ID = "spanwright.result/1";
+
+/** Output station count limits per semispan. */
+export const MIN_OUTPUT_STATIONS = 2;
+export const MAX_OUTPUT_STATIONS = 400;
+
+const num = (what = "a number") => z.number({ error: `must be ${what}` });
+
+export const StationSchema = z.strictObject({
+  y: num().min(0, { error: "must be 0 or more (m from the plane of symmetry)" }),
+  xLe: num(),
+  chord: num().gt(0, { error: "must be greater than 0" }),
+  twist: num(),
+  a0: num().gt(0, { error: "must be greater than 0 (per radian)" }),
+  alphaL0: num(),
+  cmAc: num(),
+  clMax: num().gt(0, { error: "must be greater than 0" }).optional(),
+  cpMin: num().lt(0, { error: "must be below 0 (a suction peak)" }).optional(),
+});
+
+const fraction = num().min(0, { error: "must be between 0 and 1 (a chord fraction)" }).max(1, {
+  error: "must be between 0 and 1 (a chord fraction)",
+});
+
+export const AxisSchema = z.strictObject({
+  rootChordFraction: fraction.default(0.25),
+  tipChordFraction: fraction.default(0.25),
+});
+
+export const MassSchema = z.strictObject({
+  kg: num().gt(0, { error: "must be greater than 0 (kg, one semispan)" }),
+  distribution: z.literal("chord", { error: 'must be "chord" (mass spread in proportion to chord)' }).default("chord"),
+});
+
+export const WingSchema = z
+  .strictObject({
+    stations: z.array(StationSchema).min(2, { error: "needs at least 2 stations (root and tip)" }),
+    axis: AxisSchema.default({ rootChordFraction: 0.25, tipChordFraction: 0.25 }),
+    mass: MassSchema.optional(),
+  })
+  .superRefine((w, ctx) => {
+    w.stations.forEach((s, i) => {
+      if (i === 0 && s.y !== 0) {
+        ctx.addIssue({ code: "custom", path: ["stations", 0, "y"], message: "the first station must be at y = 0 (the root)" });
+      }
+      if (i > 0 && !(s.y > w.stations[i - 1].y)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["stations", i, "y"],
+          message: `must be greater than the previous station's y (${w.stations[i - 1].y}); y is strictly increasing`,
+        });
+      }
+    });
+  });
+
+export const MethodSchema = z.strictObject({
+  compressibility: z
+    .enum(["prandtl-glauert", "karman-tsien", "laitone"], {
+      error: 'must be "prandtl-glauert", "karman-tsien" or "laitone"',
+    })
+    .default("prandtl-glauert"),
+  spanwise: z
+    .enum(["lifting-line", "vortex-lattice"], { error: 'must be "lifting-line" or "vortex-lattice"' })
+    .default("vortex-lattice"),
+  stations: z
+    .int({ error: "must be a whole number" })
+    .min(MIN_OUTPUT_STATIONS, { error: `must be at least ${MIN_OUTPUT_STATIONS}` })
+    .max(MAX_OUTPUT_STATIONS, { error: `must be at most ${MAX_OUTPUT_STATIONS}` })
+    .default(40),
+  output: z.enum(["full", "summary"], { error: 'must be "full" or "summary"' }).default("full"),
+});
+
+const altitudeRule = `must be between ${ISA_MIN_ALTITUDE} and ${ISA_MAX_ALTITUDE} m (geopotential, standard atmosphere range)`;
+
+export const CaseSchema = z.strictObject({
+  id: z.string({ error: "must be a string" }).min(1, { error: "must not be empty" }),
+  mach: num()
+    .min(0, { error: "must be 0 or more" })
+    .lt(1, { error: "must be below 1 (subsonic rules only)" }),
+  altitude: num().min(ISA_MIN_ALTITUDE, { error: altitudeRule }).max(ISA_MAX_ALTITUDE, { error: altitudeRule }),
+  alpha: num().optional(),
+  weight: num().gt(0, { error: "must be greater than 0 (N, whole aircraft)" }).optional(),
+  nz: num().optional(),
+});
+
+export const CaseFileSchema = z
+  .strictObject({
+    schema: z.literal(CASE_SCHEMA_ID, { error: `must be "${CASE_SCHEMA_ID}"` }),
+    title: z.string({ error: "must be a string" }).optional(),
+    wing: WingSchema,
+    method: MethodSchema.default({
+      compressibility: "prandtl-glauert",
+      spanwise: "vortex-lattice",
+      stations: 40,
+      output: "full",
+    }),
+    cases: z.array(CaseSchema).min(1, { error: "needs at least 1 case" }),
+  })
+  .superRefine((file, ctx) => {
+    const seen = new Set<string>();
+    file.cases.forEach((c, i) => {
+      const hasAlpha = c.alpha !== undefined;
+      const hasW = c.weight !== undefined;
+      const hasN = c.nz !== undefined;
+      if (hasAlpha && (hasW || hasN)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["cases", i, hasW ? "weight" : "nz"],
+          message: "give either alpha or weight with nz, not both",
+        });
+      } else if (!hasAlpha && !(hasW && hasN)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["cases", i, hasW ? "nz" : hasN ? "weight" : "alpha"],
+          message: hasW || hasN ? "is required with the other of weight and nz" : "is required: give either alpha or weight with nz",
+        });
+      }
+      if (seen.has(c.id)) ctx.addIssue({ code: "custom", path: ["cases", i, "id"], message: `must be unique ("${c.id}" repeats)` });
+      seen.add(c.id);
+    });
+  });
+
+/** A parsed, defaulted `spanwright.case/1` document. */
+export type CaseFile = z.output<typeof CaseFileSchema>;
+/** The input as written (defaults optional). */
+export type CaseFileInput = z.input<typeof CaseFileSchema>;
+export type LoadCaseInput = z.output<typeof CaseSchema>;
+
+/** One station row of a result case. */
+export interface ResultStation {
+  y: number;
+  chord: number;
+  cl: number;
+  cm: number;
+  lift: number;
+  shear: number;
+  bending: number;
+  torsion: number;
+}
+
+export interface ResultRootLoads {
+  shear: number;
+  bending: number;
+  torsion: number;
+}
+
+export interface ResultCase {
+  id: string;
+  mach: number;
+  altitude: number;
+  beta: number;
+  dynamicPressure: number;
+  alpha: number;
+  cl: number;
+  clAlpha: number;
+  machCritical: number | null;
+  regime: "subcritical" | "supercritical" | "unchecked";
+  warnings: string[];
+  /** Absent when `method.output` is `summary`. */
+  stations?: ResultStation[];
+  root: ResultRootLoads;
+}
+
+export interface ResultEnvelopeStation {
+  y: number;
+  shearMax: number;
+  shearMaxCase: string;
+  shearMin: number;
+  shearMinCase: string;
+  bendingMax: number;
+  bendingMaxCase: string;
+  bendingMin: number;
+  bendingMinCase: string;
+  torsionMax: number;
+  torsionMaxCase: string;
+  torsionMin: number;
+  torsionMinCase: string;
+}
+
+/** The `spanwright.result/1` document. */
+export interface CaseResult {
+  schema: typeof RESULT_SCHEMA_ID;
+  engine: string;
+  wing: {
+    area: number;
+    span: number;
+    aspectRatio: number;
+    taperRatio: number;
+    mac: number;
+    yMac: number;
+    xLeMac: number;
+  };
+  cases: ResultCase[];
+  envelope: ResultEnvelopeStation[];
+}
