@@ -40,3 +40,10 @@ export async function parseBody<S extends z.ZodType>(request: Request, schema: S
   const parsed = schema.safeParse(raw);
   return parsed.success ? { ok: true, value: parsed.data } : { ok: false, fieldErrors: fieldErrorsOf(parsed.error) };
 }
+
+/** Set by our HTTP server on every request from the socket's address, replacing anything the client sent. */
+export const CLIENT_ADDRESS_HEADER = "x-spanwright-client-address";
+
+export function clientAddress(request: Request): string {
+  return request.headers.get(CLIENT_ADDRESS_HEADER) ?? "unknown";
+}

@@ -6,9 +6,8 @@ import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { TextField } from "~/components/forms/field";
 import { Button } from "~/components/ui/button";
 import { Alert } from "~/components/ui/page-header";
-import { clientAddressContext } from "~/context";
 import { env } from "~/utils/env.server";
-import { parseBody, safeRedirectPath } from "~/utils/http.server";
+import { clientAddress, parseBody, safeRedirectPath } from "~/utils/http.server";
 import type { Route } from "./+types/login";
 import { LoginSchema } from "./login.schema";
 
@@ -31,13 +30,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, context }: Route.ActionArgs) {
+export async function action({ request }: Route.ActionArgs) {
   const parsed = await parseBody(request, LoginSchema);
   if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, formError: null as string | null }, { status: 400 });
   const result = await signInWithPassword({
     email: parsed.value.email,
     password: parsed.value.password,
-    address: context.get(clientAddressContext),
+    address: clientAddress(request),
     userAgent: request.headers.get("User-Agent"),
   });
   if (!result.ok) return data({ fieldErrors: {}, formError: result.message as string | null }, { status: result.status });

@@ -1,0 +1,120 @@
+/**
+ * `npm start`: brings up, on loopback, everything Spanwright needs on one workstation — PostgreSQL
+ * from Debian's packages in a project folder, the S3 stand-in, the mail capture, the company
+ * sign-in stand-in — then migrates, seeds the demo and serves the app. Each service is skipped when
+ * its variable points at a real one (DATABASE_URL, S3_ENDPOINT, SMTP_URL, OIDC_ISSUER). Ctrl-C stops
+ * the whole tree.
+ */
+import { spawnSync } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+import { DEMO_USERS } from "../db/demo";
+
+const dev = process.argv.includes("--dev");
+const dataDir = path.resolve(process.env.SPANWRIGHT_DATA_DIR ?? ".data");
+const port = (name: string, fallback: number) => Number(process.env[name] ?? fallback);
+const host = "127.0.0.1";
+
+type Stoppable = { name: string; stop(): Promise<void> };
+const running: Stoppable[] = [];
+let stopping = false;
+
+async function shutdown(code: number): Promise<never> {
+  if (!stopping) {
+    stopping = true;
+    for (const s of running.reverse()) {
+      await s.stop().catch((error: unknown) => console.warn(`stopping ${s.name}: ${String(error)}`));
+    }
+  }
+  process.exit(code);
+}
+
+process.on("SIGINT", () => void shutdown(0));
+process.on("SIGTERM", () => void shutdown(0));
+
+function say(line: string) {
+  process.stdout.write(`[spanwright] ${line}\n`);
+}
+
+/** Rebuilds only when a source file is newer than the last build, so later starts take seconds. */
+function buildIfStale() {
+  const marker = path.resolve("build/server/index.js");
+  const builtAt = fs.existsSync(marker) ? fs.statSync(marker).mtimeMs : 0;
+  const newest = (p: string): number => {
+    if (!fs.existsSync(p)) return 0;
+    const st = fs.statSync(p);
+    if (!st.isDirectory()) return st.mtimeMs;
+    return Math.max(st.mtimeMs, ...fs.readdirSync(p).map((f) => newest(path.join(p, f))));
+  };
+  const sourcesAt = Math.max(...["app", "public", "package-lock.json", "vite.config.ts", "react-router.config.ts"].map((p) => newest(path.resolve(p))));
+  if (builtAt > sourcesAt) return;
+  say("building the app (first start, or sources changed)…");
+  const result = spawnSync(process.execPath, [path.resolve("node_modules/@react-router/dev/bin.js"), "build"], { stdio: ["ignore", "ignore", "inherit"] });
+  if (result.status !== 0) throw new Error("the build failed (see above)");
+}
+
+async function main() {
+  fs.mkdirSync(dataDir, { recursive: true });
+  const appOrigin = process.env.APP_ORIGIN ?? `http://${host}:${port("PORT", 3000)}`;
+  process.env.APP_ORIGIN = appOrigin;
+  process.env.NODE_ENV ??= dev ? "development" : "production";
+
+  if (!process.env.DATABASE_URL) {
+    const { findPostgresBin, startPostgres } = await import("./dev-services/postgres");
+    try {
+      await findPostgresBin();
+    } catch (error) {
+      console.error(`PostgreSQL's server is not installed. Install it with:\n\n  ${(error as Error).message}\n\nthen run npm start again.`);
+      process.exit(1);
+    }
+    const pg = await startPostgres({ dataDir: path.join(dataDir, "pg"), port: port("PG_PORT", 54329), database: "spanwright" });
+    running.push({ name: "PostgreSQL", stop: pg.stop });
+    process.env.DATABASE_URL = pg.url;
+    say(`PostgreSQL   ${pg.url} (data in ${path.relative(process.cwd(), pg.dataDir) || pg.dataDir})`);
+  }
+  if (!process.env.S3_ENDPOINT) {
+    const { startS3 } = await import("./dev-services/s3");
+    const s3 = await startS3({ dir: path.join(dataDir, "s3"), port: port("S3_PORT", 4569), buckets: ["spanwright-uploads", "spanwright-reports"] });
+    running.push({ name: "S3 stand-in", stop: s3.stop });
+    process.env.S3_ENDPOINT = s3.endpoint;
+    say(`S3 stand-in  ${s3.endpoint}`);
+  }
+  if (!process.env.SMTP_URL) {
+    const { startMailCapture } = await import("./dev-services/mail");
+    const mailDir = path.join(dataDir, "mail");
+    const mail = await startMailCapture({ port: port("SMTP_PORT", 2525), dir: mailDir });
+    running.push({ name: "mail capture", stop: mail.stop });
+    process.env.SMTP_URL = `smtp://${host}:${mail.port}`;
+    process.env.MAIL_CAPTURE_DIR = mailDir;
+    say(`Mail capture smtp://${host}:${mail.port} — read it at ${appOrigin}/dev/mailbox`);
+  }
+  if (!process.env.OIDC_ISSUER) {
+    const { startOidcProvider } = await import("./dev-services/oidc");
+    const oidc = await startOidcProvider({ port: port("OIDC_PORT", 4580), users: DEMO_USERS.map((u) => ({ email: u.email, name: u.name })) });
+    running.push({ name: "sign-in stand-in", stop: oidc.stop });
+    process.env.OIDC_ISSUER = oidc.issuer;
+    say(`Sign-in stand-in ${oidc.issuer}`);
+  }
+
+  const { runMigrations } = await import("../db/migrate.server");
+  await runMigrations(process.env.DATABASE_URL!);
+  const { db, closeDb } = await import("../db/client.server");
+  const { seedDemo } = await import("../db/seed.server");
+  const seeded = await seedDemo(db);
+  await closeDb();
+  say(`database migrated; demo seed ${seeded.created ? `created ${seeded.created} records` : "already present"}`);
+
+  if (!dev) buildIfStale();
+  const { startHttpServer } = await import("./http");
+  const server = await startHttpServer({ host, port: port("PORT", 3000), origin: appOrigin, dev });
+  running.push({ name: "web server", stop: () => new Promise<void>((resolve) => { server.close(() => resolve()); server.closeAllConnections(); }) });
+
+  say("demo users (local demonstration only):");
+  for (const u of DEMO_USERS) say(`  ${u.label.padEnd(9)} ${u.email.padEnd(42)} ${u.password}`);
+  say(`Spanwright is serving on ${appOrigin} — Ctrl-C stops everything.`);
+}
+
+main().catch(async (error: unknown) => {
+  console.error(`[spanwright] start-up failed: ${error instanceof Error ? error.message : String(error)}`);
+  await shutdown(1);
+});

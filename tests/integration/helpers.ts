@@ -1,0 +1,56 @@
+import { db } from "~/db/client.server";
+import { DEMO_USERS, type DemoUser } from "~/db/demo";
+import { seedDemo } from "~/db/seed.server";
+import { signInWithPassword } from "~/auth/auth.server";
+import { CLIENT_ADDRESS_HEADER } from "~/utils/http.server";
+
+export const ORIGIN = "http://127.0.0.1:3000";
+
+export async function seed() {
+  return seedDemo(db);
+}
+
+export function demoUser(label: DemoUser["label"]): DemoUser {
+  return DEMO_USERS.find((u) => u.label === label)!;
+}
+
+/** Signs a demo user in through the real password path and returns the Cookie header value. */
+export async function cookieFor(label: DemoUser["label"]): Promise<string> {
+  const u = demoUser(label);
+  const result = await signInWithPassword({ email: u.email, password: u.password, address: `10.${label.length}.0.1`, userAgent: "vitest" });
+  if (!result.ok) throw new Error(`sign-in of ${label} failed: ${result.message}`);
+  return result.setCookie.split(";")[0]!;
+}
+
+export function request(path: string, init: RequestInit & { cookie?: string } = {}): Request {
+  const headers = new Headers(init.headers);
+  if (init.cookie) headers.set("Cookie", init.cookie);
+  headers.set(CLIENT_ADDRESS_HEADER, "127.0.0.1");
+  return new Request(new URL(path, ORIGIN), { ...init, headers });
+}
+
+export function form(fields: Record<string, string | string[]>): FormData {
+  const fd = new FormData();
+  for (const [k, v] of Object.entries(fields)) for (const item of Array.isArray(v) ? v : [v]) fd.append(k, item);
+  return fd;
+}
+
+/** Runs a loader or action and returns the Response it threw or returned (redirects and errors are thrown). */
+export async function run(fn: (args: never) => unknown, args: { request: Request; params?: Record<string, string> }): Promise<{ status: number; body: unknown; headers: Headers }> {
+  try {
+    const out = await fn({ request: args.request, params: args.params ?? {}, context: {} } as never);
+    return normalise(out);
+  } catch (thrown) {
+    return normalise(thrown);
+  }
+}
+
+function normalise(value: unknown): { status: number; body: unknown; headers: Headers } {
+  if (value instanceof Response) return { status: value.status, body: null, headers: value.headers };
+  if (value && typeof value === "object" && "type" in value && (value as { type: string }).type === "DataWithResponseInit") {
+    const d = value as unknown as { data: unknown; init: ResponseInit | null };
+    return { status: d.init?.status ?? 200, body: d.data, headers: new Headers(d.init?.headers) };
+  }
+  if (value instanceof Error) throw value;
+  return { status: 200, body: value, headers: new Headers() };
+}

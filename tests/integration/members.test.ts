@@ -1,0 +1,67 @@
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { listCapturedMail } from "~/server/dev-services/mail";
+import { db } from "~/db/client.server";
+import { invitations, memberships, users } from "~/db/schema";
+import { action as membersAction } from "~/routes/admin/members";
+import { action as inviteAction, loader as inviteLoader } from "~/routes/auth/invite";
+import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+
+beforeAll(async () => {
+  await seed();
+});
+
+describe("invitations", () => {
+  it("e-mails a one-time link that creates the account with the invited roles", async () => {
+    const email = `new.checker.${Date.now()}@kestrel-fieldworks.example`;
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "invite", email, roles: ["checker", "quality"] }) }) });
+    expect(res.status).toBe(200);
+    const [stored] = await db.select().from(invitations).where(eq(invitations.email, email));
+    const mail = (await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: email }))[0];
+    expect(mail?.subject).toContain("Kestrel Fieldworks");
+    expect(mail?.html).toContain("<a href=");
+    const token = /\/invite\/([a-z2-7]+)/.exec(mail!.text ?? "")![1]!;
+    expect(stored!.tokenHash).not.toBe(token);
+
+    const shown = await run(inviteLoader, { request: request(`/invite/${token}`), params: { token } });
+    expect(shown.body).toMatchObject({ email, accountExists: false });
+
+    const weak = await run(inviteAction, { request: request(`/invite/${token}`, { method: "POST", body: form({ name: "New Checker", password: "short", confirm: "short" }) }), params: { token } });
+    expect(weak.status).toBe(400);
+    expect((weak.body as { fieldErrors: Record<string, string[]> }).fieldErrors.password?.[0]).toMatch(/12 characters/);
+    expect(await db.select().from(users).where(eq(users.email, email))).toHaveLength(0);
+
+    const ok = await run(inviteAction, { request: request(`/invite/${token}`, { method: "POST", body: form({ name: "New Checker", password: "a-long-enough-secret", confirm: "a-long-enough-secret" }) }), params: { token } });
+    expect(ok.status).toBe(302);
+    expect(ok.headers.get("Location")).toBe("/checks");
+    const [user] = await db.select().from(users).where(eq(users.email, email));
+    const [m] = await db.select().from(memberships).where(eq(memberships.userId, user!.id));
+    expect(m!.roles.sort()).toEqual(["checker", "quality"]);
+
+    const reused = await run(inviteLoader, { request: request(`/invite/${token}`), params: { token } });
+    expect(reused.status).toBe(404);
+  });
+
+  it("refuses an invitation with no role, naming the field, and writes nothing", async () => {
+    const before = (await db.select().from(invitations)).length;
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "invite", email: "x@kestrel-fieldworks.example" }) }) });
+    expect(res.status).toBe(400);
+    expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors.roles).toBeDefined();
+    expect((await db.select().from(invitations)).length).toBe(before);
+  });
+
+  it("keeps at least one administrator", async () => {
+    const [admin] = await db.select().from(users).where(eq(users.email, demoUser("admin").email));
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "set-roles", userId: admin!.id, roles: ["engineer"] }) }) });
+    expect(res.status).toBe(400);
+    expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors.roles?.[0]).toMatch(/at least one administrator/);
+  });
+
+  it("does not let an administrator change another organisation's member", async () => {
+    const [outsider] = await db.select().from(users).where(eq(users.email, demoUser("outsider").email));
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "set-roles", userId: outsider!.id, roles: ["checker"] }) }) });
+    expect(res.status).toBe(404);
+    const [m] = await db.select().from(memberships).where(eq(memberships.userId, outsider!.id));
+    expect(m!.roles).toEqual(["engineer", "admin"]);
+  });
+});
