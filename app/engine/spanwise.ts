@@ -14,6 +14,8 @@ export interface SpanwiseOptions {
   resolution?: number;
   /** Vortex lattice only: chordwise panels per strip (default 1). */
   chordwisePanels?: number;
+  /** Vortex lattice only: spanwise strip spacing (default cosine, fine at the tip). */
+  spacing?: "cosine" | "uniform";
 }
 
 /** Section values at a solver point, with the rule-scaled (compressible) slope. */
