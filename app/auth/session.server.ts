@@ -78,9 +78,12 @@ export function readSession(request: Request): Promise<SessionState> {
 }
 
 async function loadSession(request: Request): Promise<SessionState> {
-  const token = (await sessionCookie().parse(request.headers.get("Cookie"))) as unknown;
-  if (typeof token !== "string" || token.length === 0) return { status: "none" };
-  if (!/^[a-z2-7]{32}$/.test(token)) return { status: "invalid" };
+  const header = request.headers.get("Cookie");
+  // A cookie that is present but does not decode (altered by hand) is "invalid", not "none", so
+  // the person is told their session is not valid rather than silently treated as a stranger.
+  if (!header || !/(?:^|;\s*)sw_session=[^;]+/.test(header)) return { status: "none" };
+  const token = (await sessionCookie().parse(header).catch(() => null)) as unknown;
+  if (typeof token !== "string" || !/^[a-z2-7]{32}$/.test(token)) return { status: "invalid" };
   const now = new Date();
   const [row] = await db
     .select({
