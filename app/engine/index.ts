@@ -1,0 +1,18 @@
+/** Version of the numerical engine, written into every result. */
+export const ENGINE_VERSION = "0.1.0";
+
+export { EngineError, isEngineError } from "./errors";
+export type { EngineErrorCode } from "./errors";
+export * from "./atmosphere";
+export * from "./compressibility";
+export * from "./planform";
+export * from "./sections";
+export type { SpanwiseMethod, SpanwiseOptions, SpanwiseResult, SpanwiseSystem, CompressibleSection } from "./spanwise";
+export { compressibleSectionAt, sectionCriticalMach } from "./spanwise";
+export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS } from "./lifting-line";
+export type { LiftingLineResult } from "./lifting-line";
+export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS } from "./vortex-lattice";
+export * from "./loads";
+export * from "./superposition";
+export * from "./load-case";
+export * from "./envelope";

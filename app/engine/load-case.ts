@@ -1,0 +1,128 @@
+import { dynamicPressure, isa } from "./atmosphere";
+import { EngineError } from "./errors";
+import type { MachSolution } from "./superposition";
+import { DEG } from "./spanwise";
+
+/** One flight condition: by root-chord angle of attack, or trimmed to L = nz·W. */
+export type LoadCase =
+  | { id: string; mach: number; altitude: number; alphaDeg: number }
+  | { id: string; mach: number; altitude: number; weightN: number; nz: number };
+
+/** Loads of one case at the output stations (per semispan, net of inertia relief where applied). */
+export interface CaseLoads {
+  id: string;
+  mach: number;
+  altitude: number;
+  beta: number;
+  /** Dynamic pressure, Pa. */
+  dynamicPressure: number;
+  /** Root-chord angle of attack, deg. */
+  alphaDeg: number;
+  /** Wing lift coefficient on the whole-wing area. */
+  CL: number;
+  clAlphaPerRad: number;
+  /** Load factor used for inertia relief, or null for a case given by α. */
+  nz: number | null;
+  inertiaApplied: boolean;
+  machCritical: number | null;
+  regime: "subcritical" | "supercritical" | "unchecked";
+  warnings: string[];
+  y: number[];
+  chord: number[];
+  cl: number[];
+  cm: number[];
+  /** Aerodynamic running load, N/m. */
+  lift: number[];
+  shear: number[];
+  bending: number[];
+  torsion: number[];
+  root: { shear: number; bending: number; torsion: number };
+}
+
+/**
+ * Combine the Mach solution for one case (superposition: no new solve).
+ * A case given by weight and nz is trimmed to CL = nz·W/(q·S) and carries inertia relief of the
+ * structural mass at nz; a case given by α has no weight, so its load factor is unknown and
+ * inertia relief is not applied (a warning says so when the wing has mass).
+ * `field` prefixes error fields, e.g. "cases[3]".
+ * @throws EngineError when the case's Mach number differs from the solution's or q = 0 for a trimmed case.
+ */
+export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): CaseLoads {
+  if (lc.mach !== sol.mach) throw new EngineError("invalid-argument", `Mach ${lc.mach} was given a solution for Mach ${sol.mach}`, `${field}.mach`);
+  const atm = isa(lc.altitude, `${field}.altitude`);
+  const q = dynamicPressure(lc.mach, atm.altitude);
+  const S = sol.geometry.area;
+  const warnings = [...sol.warnings];
+  let CL: number;
+  let alphaDeg: number;
+  let nz: number | null = null;
+  if ("alphaDeg" in lc) {
+    alphaDeg = lc.alphaDeg;
+    CL = sol.clAlphaPerRad * (alphaDeg - sol.alphaZeroLiftDeg) * DEG;
+    if (sol.massKg > 0) {
+      warnings.push("case given by alpha: the load factor is unknown, so inertia relief is not applied (aerodynamic loads only)");
+    }
+  } else {
+    if (!(q > 0)) throw new EngineError("invalid-argument", "must be above 0 for a case given by weight and nz (no dynamic pressure to trim)", `${field}.mach`);
+    nz = lc.nz;
+    CL = (lc.nz * lc.weightN) / (q * S);
+    alphaDeg = sol.alphaZeroLiftDeg + CL / sol.clAlphaPerRad / DEG;
+  }
+  const n = sol.y.length;
+  const relief = nz !== null && sol.massKg > 0 ? nz : 0;
+  const lift = new Array<number>(n);
+  const cl = new Array<number>(n);
+  const shear = new Array<number>(n);
+  const bending = new Array<number>(n);
+  const torsion = new Array<number>(n);
+  const b = sol.basicPerQ;
+  const a = sol.additionalPerQ;
+  const m = sol.massPerNz;
+  for (let i = 0; i < n; i++) {
+    const ccl = sol.cclBasic[i] + CL * sol.cclAdditional[i];
+    lift[i] = q * ccl;
+    cl[i] = ccl / sol.chord[i];
+    shear[i] = q * (b.shear[i] + CL * a.shear[i]) - relief * m.shear[i];
+    bending[i] = q * (b.bending[i] + CL * a.bending[i]) - relief * m.bending[i];
+    torsion[i] = q * (b.torsion[i] + CL * a.torsion[i]) - relief * m.torsion[i];
+  }
+  for (let i = 0; i < n; i++) {
+    const cmax = sol.clMax[i];
+    if (cmax !== null && cl[i] > cmax) {
+      warnings.push(`station y = ${sol.y[i].toFixed(3)} m: cl ${cl[i].toFixed(3)} exceeds the section clMax ${cmax.toFixed(3)}`);
+    }
+  }
+  let regime: CaseLoads["regime"] = "unchecked";
+  if (sol.machCritical !== null) {
+    regime = lc.mach < sol.machCritical ? "subcritical" : "supercritical";
+    if (regime === "supercritical") {
+      warnings.push(
+        `Mach ${lc.mach} is at or above the critical Mach number ${sol.machCritical.toFixed(4)} (${sol.rule}): the subsonic compressibility rules are outside their validity; results are computed anyway`,
+      );
+    }
+  }
+  return {
+    id: lc.id,
+    mach: lc.mach,
+    altitude: lc.altitude,
+    beta: sol.beta,
+    dynamicPressure: q,
+    alphaDeg,
+    CL,
+    clAlphaPerRad: sol.clAlphaPerRad,
+    nz,
+    inertiaApplied: relief !== 0,
+    machCritical: sol.machCritical,
+    regime,
+    warnings,
+    y: sol.y,
+    chord: sol.chord,
+    cl,
+    cm: sol.cm,
+    lift,
+    shear,
+    bending,
+    torsion,
+    root: { shear: shear[0], bending: bending[0], torsion: torsion[0] },
+  };
+}

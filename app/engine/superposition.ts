@@ -1,0 +1,275 @@
+import { ISA } from "./atmosphere";
+import type { CompressibilityRule } from "./compressibility";
+import { criticalMach } from "./compressibility";
+import { EngineError } from "./errors";
+import { buildLiftingLine } from "./lifting-line";
+import type { BeamLoads, PointForce } from "./loads";
+import { addPointForces, beamLoads, integrate, integrateProduct } from "./loads";
+import type { WingGeometry, WingStation } from "./planform";
+import { sectionAt, validateStations, wingGeometry } from "./planform";
+import type { SpanwiseMethod, SpanwiseSystem } from "./spanwise";
+import { DEG, compressibleSectionAt } from "./spanwise";
+import { buildVortexLattice } from "./vortex-lattice";
+
+/** A concentrated mass on one semispan (internal API): position m, mass kg. */
+export interface PointMass {
+  y: number;
+  x: number;
+  kg: number;
+}
+
+/** The wing as the engine sees it: planform + sections, torsion axis, semispan structural mass. */
+export interface WingModel {
+  stations: WingStation[];
+  /** Straight reference axis as chord fractions at the root and tip stations (default 0.25/0.25). */
+  axis?: { rootChordFraction: number; tipChordFraction: number };
+  /** Structural mass of one semispan, kg, spread in proportion to chord and located on the reference axis. */
+  massKg?: number;
+  pointMasses?: PointMass[];
+}
+
+/** How to solve the spanwise problem. */
+export interface SolveOptions {
+  spanwise: SpanwiseMethod;
+  rule: CompressibilityRule;
+  /** Output stations per semispan, cosine-spaced, the first at the root (y = 0). */
+  stations: number;
+  /** Solver resolution (Fourier terms or spanwise strips); solver default when absent. */
+  resolution?: number;
+  chordwisePanels?: number;
+  /** Integration nodes for the loads (default 400, full-cosine spaced, plus breakpoints and stations). */
+  integrationPoints?: number;
+}
+
+/** Unit loads at the output stations: shear N, bending N·m, torsion N·m, per unit multiplier. */
+export interface UnitLoads {
+  shear: number[];
+  bending: number[];
+  torsion: number[];
+}
+
+/**
+ * Everything about the wing at one Mach number that does not depend on the load case. The
+ * distribution is linear in α, so per case: c·cl = cclBasic + CL·cclAdditional, loads =
+ * q·(basic + CL·additional) − nz·mass.
+ */
+export interface MachSolution {
+  mach: number;
+  beta: number;
+  rule: CompressibilityRule;
+  spanwise: SpanwiseMethod;
+  /** Wing lift slope, per rad, on the whole-wing area. */
+  clAlphaPerRad: number;
+  /** Root-chord angle of attack (deg) at which CL = 0. */
+  alphaZeroLiftDeg: number;
+  /** Lowest section critical Mach number over the span (by the rule), or null without cpMin. */
+  machCritical: number | null;
+  /** Mach-level warnings (sweep outside lifting-line validity, rule singular at a section). */
+  warnings: string[];
+  /** Output stations, m. */
+  y: number[];
+  chord: number[];
+  /** Basic loading c·cl (m) at CL = 0, from twist and αL0. */
+  cclBasic: number[];
+  /** Additional loading c·cl (m) per unit CL. */
+  cclAdditional: number[];
+  /** c·cl/(c̄·CL) of the additional loading, c̄ = S/b. */
+  loadingRatio: number[];
+  /** Section cm about the quarter chord at this Mach number (rule-scaled cmAc). */
+  cm: number[];
+  /** Rule factor applied to a0 and cmAc at each station. */
+  scale: number[];
+  clMax: (number | null)[];
+  stationMachCritical: (number | null)[];
+  /** Loads per unit dynamic pressure at CL = 0 (basic lift plus section moments), per Pa. */
+  basicPerQ: UnitLoads;
+  /** Loads per unit dynamic pressure and unit CL (additional lift), per Pa. */
+  additionalPerQ: UnitLoads;
+  /** Loads of the structural mass per unit load factor (its weight, upward positive). */
+  massPerNz: UnitLoads;
+  /** Whole-wing pitching-moment integrals for Cm about any point: see wingPitchingMoment. */
+  moments: { cmTerm: number; basicX: number; additionalX: number };
+  geometry: WingGeometry;
+  /** Semispan structural mass including point masses, kg. */
+  massKg: number;
+}
+
+/** Output station positions: y_i = s·cos(iπ/(2N)), i = N…1, so the root is the first and the last is just inboard of the tip. */
+export function outputStations(semispan: number, count: number): number[] {
+  const out: number[] = [];
+  for (let i = count; i >= 1; i--) out.push(i === count ? 0 : semispan * Math.cos((i * Math.PI) / (2 * count)));
+  return out;
+}
+
+function integrationGrid(semispan: number, extra: readonly number[], points: number): number[] {
+  const raw: number[] = [];
+  for (let k = 0; k <= points; k++) raw.push((semispan * (1 - Math.cos((k * Math.PI) / points))) / 2);
+  raw.push(...extra);
+  raw.sort((a, b) => a - b);
+  const tol = 1e-9 * semispan;
+  const out: number[] = [];
+  for (const v of raw) {
+    const c = Math.min(Math.max(v, 0), semispan);
+    if (out.length === 0 || c - out[out.length - 1] > tol) out.push(c);
+    else if (extra.includes(c)) out[out.length - 1] = c;
+  }
+  out[0] = 0;
+  out[out.length - 1] = semispan;
+  return out;
+}
+
+/** x of the straight reference axis at y (m). */
+export function referenceAxisX(model: WingModel, y: number): number {
+  const st = model.stations;
+  const r = st[0];
+  const t = st[st.length - 1];
+  const fr = model.axis?.rootChordFraction ?? 0.25;
+  const ft = model.axis?.tipChordFraction ?? 0.25;
+  const x0 = r.xLe + fr * r.chord;
+  const x1 = t.xLe + ft * t.chord;
+  return x0 + ((x1 - x0) * y) / t.y;
+}
+
+function buildSystem(stations: WingStation[], mach: number, opts: SolveOptions): SpanwiseSystem {
+  const o = { mach, rule: opts.rule, resolution: opts.resolution, chordwisePanels: opts.chordwisePanels };
+  return opts.spanwise === "lifting-line" ? buildLiftingLine(stations, o) : buildVortexLattice(stations, o);
+}
+
+function pick(v: ArrayLike<number>, idx: number[]): number[] {
+  return idx.map((i) => v[i]);
+}
+
+function pickLoads(l: BeamLoads, idx: number[]): UnitLoads {
+  return { shear: pick(l.shear, idx), bending: pick(l.bending, idx), torsion: pick(l.torsion, idx) };
+}
+
+/**
+ * Solve the wing once at a Mach number: basic and additional distributions, section data,
+ * critical Mach numbers and unit loads at the output stations.
+ * @throws EngineError for a bad planform, Mach ≥ 1 or bad options.
+ */
+export function solveMach(model: WingModel, mach: number, opts: SolveOptions): MachSolution {
+  validateStations(model.stations);
+  if (!Number.isInteger(opts.stations) || opts.stations < 2) {
+    throw new EngineError("invalid-argument", "must be a whole number of at least 2", "method.stations");
+  }
+  const st = model.stations;
+  const g = wingGeometry(st);
+  const s = g.semispan;
+  const sys = buildSystem(st, mach, opts);
+  const warnings: string[] = [];
+  if (opts.spanwise === "lifting-line") {
+    const maxSweep = Math.max(...g.panels.map((p) => Math.abs(p.sweepQuarterChordDeg)));
+    if (maxSweep > 10) {
+      warnings.push(
+        `quarter-chord sweep reaches ${maxSweep.toFixed(1)}°: the lifting line is meant for small sweep; the vortex lattice is recommended`,
+      );
+    }
+  }
+  const [twist, unit] = sys.solveMany([(sec) => (sec.twist - sec.alphaL0) * DEG, () => 1]);
+  const yOut = outputStations(s, opts.stations);
+  const grid = integrationGrid(s, [...st.map((x) => x.y), ...yOut], opts.integrationPoints ?? 400);
+  const idx = yOut.map((y) => grid.findIndex((v) => Math.abs(v - y) <= 1e-9 * s));
+  const K = grid.length;
+  const halfArea = g.area / 2;
+  // Additional loading: the solver's shape scaled so its integral is exactly S/2 per unit CL
+  // (equilibrium holds to round-off); basic loading: the α = 0 solution minus its CL share.
+  const cu = grid.map((y) => unit.cclAt(y));
+  const ct = grid.map((y) => twist.cclAt(y));
+  const iu = integrate(grid, cu);
+  const it = integrate(grid, ct);
+  const ccla = cu.map((v) => (v * halfArea) / iu);
+  const cclb = ct.map((v, k) => v - (it / halfArea) * ccla[k]);
+  const clAlpha = unit.CL;
+  const alphaZeroLiftDeg = -twist.CL / unit.CL / DEG;
+  const secs = grid.map((y) => compressibleSectionAt(st, y, opts.rule, mach));
+  const chord = secs.map((x) => x.chord);
+  const xAc = secs.map((x) => x.xLe + 0.25 * x.chord);
+  const cm = secs.map((x) => x.scale * x.cmAc);
+  const cmTerm = secs.map((x, k) => x.chord * x.chord * cm[k]);
+  const xRef = grid.map((y) => referenceAxisX(model, y));
+  const basic = beamLoads(grid, cclb, xAc, xRef, cmTerm);
+  const add = beamLoads(grid, ccla, xAc, xRef);
+  // Structural mass: weight per unit load factor, spread ∝ chord, on the reference axis.
+  const massDist = model.massKg ? chord.map((c) => (model.massKg! * c * ISA.g0) / halfArea) : new Array(K).fill(0);
+  const massLoads = beamLoads(grid, massDist, xRef, xRef);
+  const points: PointForce[] = (model.pointMasses ?? []).map((p) => ({ y: p.y, x: p.x, force: p.kg * ISA.g0 }));
+  addPointForces(massLoads, grid, xRef, points);
+  const singular = secs.filter((x) => x.singular);
+  if (singular.length > 0) {
+    warnings.push(
+      `the ${opts.rule} rule is singular at the working Cp of the sections from y = ${singular[0].y.toFixed(3)} m to ${singular[singular.length - 1].y.toFixed(3)} m at Mach ${mach}; Prandtl–Glauert scaling was used there`,
+    );
+  }
+  const stationMachCritical = yOut.map((y) => {
+    const c = sectionAt(st, y).cpMin;
+    return c === undefined ? null : criticalMach(opts.rule, c);
+  });
+  const mcrs = [
+    ...stationMachCritical.filter((v): v is number => v !== null),
+    ...st.filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!)),
+  ];
+  const mbar = g.meanGeometricChord;
+  return {
+    mach,
+    beta: sys.beta,
+    rule: opts.rule,
+    spanwise: opts.spanwise,
+    clAlphaPerRad: clAlpha,
+    alphaZeroLiftDeg,
+    machCritical: mcrs.length ? Math.min(...mcrs) : null,
+    warnings,
+    y: yOut,
+    chord: pick(chord, idx),
+    cclBasic: pick(cclb, idx),
+    cclAdditional: pick(ccla, idx),
+    loadingRatio: pick(ccla, idx).map((v) => v / mbar),
+    cm: pick(cm, idx),
+    scale: pick(secs.map((x) => x.scale), idx),
+    clMax: idx.map((i) => secs[i].clMax ?? null),
+    stationMachCritical,
+    basicPerQ: pickLoads(basic, idx),
+    additionalPerQ: pickLoads(add, idx),
+    massPerNz: pickLoads(massLoads, idx),
+    moments: {
+      cmTerm: integrate(grid, cmTerm),
+      basicX: integrateProduct(grid, cclb, xAc),
+      additionalX: integrateProduct(grid, ccla, xAc),
+    },
+    geometry: g,
+    massKg: (model.massKg ?? 0) + (model.pointMasses ?? []).reduce((a, p) => a + p.kg, 0),
+  };
+}
+
+/**
+ * Whole-wing pitching-moment coefficient about a lateral axis at x = xRef (m), nose up positive,
+ * on S and the MAC: Cm = (2/(S·c̄_MAC))·[∫c²cm dy + ∫c·cl·(xRef − x_ac) dy].
+ */
+export function wingPitchingMoment(sol: MachSolution, CL: number, xRef: number): number {
+  const g = sol.geometry;
+  const m = sol.moments;
+  const lift = (CL * g.area) / 2;
+  const M = m.cmTerm + xRef * lift - (m.basicX + CL * m.additionalX);
+  return (2 * M) / (g.area * g.mac);
+}
+
+/** Streamwise position (m) of the wing's aerodynamic centre (where Cm does not change with CL). */
+export function wingAerodynamicCentre(sol: MachSolution): number {
+  return sol.moments.additionalX / (sol.geometry.area / 2);
+}
+
+/**
+ * Re-solve the spanwise problem directly at a root-chord α (deg), without superposition: the
+ * c·cl (m) at the output stations and CL. Slow path, for checks and single studies.
+ */
+export function solveAtAlpha(
+  model: WingModel,
+  mach: number,
+  alphaDeg: number,
+  opts: SolveOptions,
+): { CL: number; y: number[]; ccl: number[] } {
+  const sys = buildSystem(model.stations, mach, opts);
+  const r = sys.solve((sec) => (alphaDeg + sec.twist - sec.alphaL0) * DEG);
+  const y = outputStations(model.stations[model.stations.length - 1].y, opts.stations);
+  return { CL: r.CL, y, ccl: y.map((v) => r.cclAt(v)) };
+}

@@ -1,0 +1,98 @@
+import { ENGINE_VERSION } from "../engine/index";
+import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";
+import { evaluateCase } from "../engine/load-case";
+import type { LoadCase } from "../engine/load-case";
+import type { MachSolution, WingModel } from "../engine/superposition";
+import { solveMach } from "../engine/superposition";
+import { RESULT_SCHEMA_ID } from "./schema";
+import type { CaseFile, CaseResult, ResultCase } from "./schema";
+
+/** The engine's wing model for a parsed case file. */
+export function wingModelOf(file: CaseFile): WingModel {
+  return {
+    stations: file.wing.stations.map((s) => ({ ...s })),
+    axis: { ...file.wing.axis },
+    massKg: file.wing.mass?.kg,
+  };
+}
+
+/** Options for runCase beyond the contract. */
+export interface RunOptions {
+  /** Force station tables even when the file asks for `summary` (the CSV output needs them). */
+  forceStations?: boolean;
+}
+
+/**
+ * Run a parsed `spanwright.case/1` document: one spanwise solve per distinct Mach number,
+ * every case by superposition, and the envelope. Returns exactly the `spanwright.result/1` object.
+ * @throws EngineError for a domain failure the schema cannot see (naming the field).
+ */
+export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
+  const model = wingModelOf(file);
+  const opts = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations };
+  const solutions = new Map<number, MachSolution>();
+  const withStations = options.forceStations || file.method.output === "full";
+  let env: ReturnType<typeof createEnvelope> | undefined;
+  let geometry: MachSolution["geometry"] | undefined;
+  const cases: ResultCase[] = file.cases.map((c, i) => {
+    let sol = solutions.get(c.mach);
+    if (!sol) {
+      sol = solveMach(model, c.mach, opts);
+      solutions.set(c.mach, sol);
+    }
+    geometry ??= sol.geometry;
+    const lc: LoadCase =
+      c.alpha !== undefined
+        ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha }
+        : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz! };
+    const r = evaluateCase(sol, lc, `cases[${i}]`);
+    env ??= createEnvelope(r.y);
+    addToEnvelope(env, r.id, r);
+    const out: ResultCase = {
+      id: r.id,
+      mach: r.mach,
+      altitude: r.altitude,
+      beta: r.beta,
+      dynamicPressure: r.dynamicPressure,
+      alpha: r.alphaDeg,
+      cl: r.CL,
+      clAlpha: r.clAlphaPerRad,
+      machCritical: r.machCritical,
+      regime: r.regime,
+      warnings: r.warnings,
+      root: r.root,
+    };
+    if (withStations) {
+      out.stations = r.y.map((y, k) => ({
+        y,
+        chord: r.chord[k],
+        cl: r.cl[k],
+        cm: r.cm[k],
+        lift: r.lift[k],
+        shear: r.shear[k],
+        bending: r.bending[k],
+        torsion: r.torsion[k],
+      }));
+      // Keep the contract's field order: stations before root.
+      const { root, ...rest } = out;
+      return { ...rest, root } as ResultCase;
+    }
+    return out;
+  });
+  const g = geometry!;
+  return {
+    schema: RESULT_SCHEMA_ID,
+    engine: ENGINE_VERSION,
+    wing: {
+      area: g.area,
+      span: g.span,
+      aspectRatio: g.aspectRatio,
+      taperRatio: g.taperRatio,
+      mac: g.mac,
+      yMac: g.yMac,
+      xLeMac: g.xLeMac,
+    },
+    cases,
+    envelope: env ? envelopeRows(env) : [],
+  };
+}
