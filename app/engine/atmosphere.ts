@@ -26,7 +26,7 @@ const LAYERS = [
 
 /** Base pressures of each layer, derived once from p0 by the hydrostatic equation. */
 const LAYER_P: number[] = (() => {
-  const p = [ISA.p0];
+  const p: number[] = [ISA.p0];
   for (let i = 1; i < LAYERS.length; i++) {
     const b = LAYERS[i - 1];
     p.push(layerPressure(p[i - 1], b.T, b.L, LAYERS[i].h - b.h));

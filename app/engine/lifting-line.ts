@@ -4,6 +4,7 @@ import type { SectionAt, WingStation } from "./planform";
 import { validateStations, wingGeometry } from "./planform";
 import type { SpanwiseOptions, SpanwiseResult, SpanwiseSystem } from "./spanwise";
 import { checkMach, compressibleSectionAt } from "./spanwise";
+import type { CompressibleSection } from "./spanwise";
 
 /** Default number of odd Fourier terms per semispan. */
 export const LIFTING_LINE_DEFAULT_TERMS = 80;
@@ -38,7 +39,7 @@ export function buildLiftingLine(
   const b = g.span;
   const s = g.semispan;
   const theta: number[] = [];
-  const secs = [];
+  const secs: CompressibleSection[] = [];
   const A = new Float64Array(N * N);
   for (let i = 0; i < N; i++) {
     const th = ((i + 1) * Math.PI) / (2 * N);

@@ -9,7 +9,8 @@ export const RESULT_SCHEMA_ID = "spanwright.result/1";
 export const MIN_OUTPUT_STATIONS = 2;
 export const MAX_OUTPUT_STATIONS = 400;
 
-const num = (what = "a number") => z.number({ error: `must be ${what}` });
+const typeError = (what: string) => (iss: { input?: unknown }) => (iss.input === undefined ? "is required" : `must be ${what}`);
+const num = () => z.number({ error: typeError("a number") });
 
 export const StationSchema = z.strictObject({
   y: num().min(0, { error: "must be 0 or more (m from the plane of symmetry)" }),
@@ -68,7 +69,7 @@ export const MethodSchema = z.strictObject({
     .enum(["lifting-line", "vortex-lattice"], { error: 'must be "lifting-line" or "vortex-lattice"' })
     .default("vortex-lattice"),
   stations: z
-    .int({ error: "must be a whole number" })
+    .int({ error: typeError("a whole number") })
     .min(MIN_OUTPUT_STATIONS, { error: `must be at least ${MIN_OUTPUT_STATIONS}` })
     .max(MAX_OUTPUT_STATIONS, { error: `must be at most ${MAX_OUTPUT_STATIONS}` })
     .default(40),
@@ -78,7 +79,7 @@ export const MethodSchema = z.strictObject({
 const altitudeRule = `must be between ${ISA_MIN_ALTITUDE} and ${ISA_MAX_ALTITUDE} m (geopotential, standard atmosphere range)`;
 
 export const CaseSchema = z.strictObject({
-  id: z.string({ error: "must be a string" }).min(1, { error: "must not be empty" }),
+  id: z.string({ error: typeError("a string") }).min(1, { error: "must not be empty" }),
   mach: num()
     .min(0, { error: "must be 0 or more" })
     .lt(1, { error: "must be below 1 (subsonic rules only)" }),
@@ -91,7 +92,7 @@ export const CaseSchema = z.strictObject({
 export const CaseFileSchema = z
   .strictObject({
     schema: z.literal(CASE_SCHEMA_ID, { error: `must be "${CASE_SCHEMA_ID}"` }),
-    title: z.string({ error: "must be a string" }).optional(),
+    title: z.string({ error: typeError("a string") }).optional(),
     wing: WingSchema,
     method: MethodSchema.default({
       compressibility: "prandtl-glauert",

@@ -1,0 +1,65 @@
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+
+const root = join(__dirname, "..", "..");
+const tsx = join(root, "node_modules", ".bin", "tsx");
+const cli = join(root, "app", "cli", "analyze.ts");
+const run = (args: string[], input?: string) => spawnSync(tsx, [cli, ...args], { cwd: root, input, encoding: "utf8" });
+
+const doc = {
+  schema: "spanwright.case/1",
+  wing: {
+    stations: [
+      { y: 0, xLe: 0, chord: 2.2, twist: 0, a0: 6.05, alphaL0: -2.2, cmAc: -0.055 },
+      { y: 8.7, xLe: 0.5, chord: 0.95, twist: -2, a0: 5.9, alphaL0: -1.6, cmAc: -0.04 },
+    ],
+  },
+  method: { stations: 8, spanwise: "lifting-line" },
+  cases: [{ id: "cruise", mach: 0.45, altitude: 5000, weight: 62000, nz: 1 }],
+};
+const dir = mkdtempSync(join(tmpdir(), "spanwright-cli-"));
+const good = join(dir, "good.json");
+writeFileSync(good, JSON.stringify(doc));
+
+describe("analyze CLI", () => {
+  it("prints the result JSON for a file", () => {
+    const r = run([good]);
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.schema).toBe("spanwright.result/1");
+    expect(out.cases[0].root.shear).toBeCloseTo(31000, 3);
+  });
+
+  it("reads stdin with - and prints CSV with --csv", () => {
+    const r = run(["--csv", "-"], JSON.stringify(doc));
+    expect(r.status).toBe(0);
+    const lines = r.stdout.trim().split("\n");
+    expect(lines[0]).toBe("case,y,chord,cl,cm,lift,shear,bending,torsion");
+    expect(lines).toHaveLength(9);
+  });
+
+  it("exits 2 with one line per problem for a bad case, writing nothing to stdout", () => {
+    const bad = structuredClone(doc) as typeof doc & { cases: Record<string, unknown>[] };
+    bad.cases[0].mach = 1.2;
+    bad.cases[0].colour = "red";
+    const r = run(["-"], JSON.stringify(bad));
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe("");
+    const lines = r.stderr.trim().split("\n");
+    expect(lines).toContain("cases[0].mach: must be below 1 (subsonic rules only)");
+    expect(lines.some((l) => l.startsWith("cases[0].colour: "))).toBe(true);
+  });
+
+  it("fails clearly for a missing file and for invalid JSON", () => {
+    const m = run([join(dir, "nope.json")]);
+    expect(m.status).not.toBe(0);
+    expect(m.stderr).toMatch(/no such file/);
+    const j = run(["-"], "{ not json");
+    expect(j.status).not.toBe(0);
+    expect(j.stderr).toMatch(/not valid JSON/);
+    expect(run([]).status).not.toBe(0);
+  });
+});
