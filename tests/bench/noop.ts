@@ -1,0 +1,1 @@
+// Empty script: measures node + tsx start-up for the benchmark.
