@@ -16,7 +16,13 @@ function connectionString(): string {
 }
 
 export function pool(): pg.Pool {
-  globalForDb.__spanwrightPool ??= new pg.Pool({ connectionString: connectionString(), max: 10 });
+  if (!globalForDb.__spanwrightPool) {
+    const created = new pg.Pool({ connectionString: connectionString(), max: 10 });
+    // An idle connection dropped by the server (restart, shutdown) must not crash the process:
+    // the pool replaces it, and the next query reports a real failure if the server stays away.
+    created.on("error", (error) => console.warn(`database connection lost: ${error.message}`));
+    globalForDb.__spanwrightPool = created;
+  }
   return globalForDb.__spanwrightPool;
 }
 

@@ -162,6 +162,100 @@ export const auditLog = pgTable(
   (t) => [index("audit_log_org_idx").on(t.organisationId, t.id), index("audit_log_entity_idx").on(t.entityType, t.entityId)],
 );
 
+export const STEP_KEYS = ["basis", "planform", "sections", "envelope", "distribution", "loads"] as const;
+export type StepKey = (typeof STEP_KEYS)[number];
+export const STEP_STATUSES = ["empty", "draft", "submitted", "returned", "approved"] as const;
+export type StepStatus = (typeof STEP_STATUSES)[number];
+
+/**
+ * The current state of each step of a case. `revision` grows by one with every save and is the
+ * optimistic-concurrency token: a save names the revision it started from and is refused if another
+ * save came first.
+ */
+export const caseSteps = pgTable(
+  "case_steps",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    step: text().$type<StepKey>().notNull(),
+    revision: integer().default(0).notNull(),
+    status: text().$type<StepStatus>().default("empty").notNull(),
+    data: jsonb().$type<Record<string, unknown>>(),
+    updatedBy: uuid("updated_by").references(() => users.id),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [uniqueIndex("case_steps_case_step_key").on(t.caseId, t.step)],
+);
+
+/** Every saved revision of every step, kept whole, with the SHA-256 of its canonical JSON. */
+export const stepRevisions = pgTable(
+  "step_revisions",
+  {
+    id: bigserial({ mode: "number" }).primaryKey(),
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    step: text().$type<StepKey>().notNull(),
+    revision: integer().notNull(),
+    data: jsonb().$type<Record<string, unknown>>().notNull(),
+    hash: text().notNull(),
+    createdBy: uuid("created_by").notNull().references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("step_revisions_case_step_rev_key").on(t.caseId, t.step, t.revision)],
+);
+
+/** Engine results of a case, keyed by the hash of the exchange-format input they were computed from. */
+export const caseResults = pgTable(
+  "case_results",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    inputHash: text("input_hash").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    input: jsonb().$type<Record<string, unknown>>().notNull(),
+    result: jsonb().$type<Record<string, unknown>>().notNull(),
+    computedBy: uuid("computed_by").references(() => users.id),
+    computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [index("case_results_case_idx").on(t.caseId, t.computedAt)],
+);
+
+/** Files received from people (section-data CSV), stored whole in S3 with their SHA-256. */
+export const uploads = pgTable(
+  "uploads",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    bucket: text().notNull(),
+    key: text().notNull(),
+    filename: text().notNull(),
+    contentType: text("content_type").notNull(),
+    size: integer().notNull(),
+    sha256: text().notNull(),
+    createdBy: uuid("created_by").notNull().references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("uploads_case_idx").on(t.caseId)],
+);
+
+/** Personal API tokens: shown once at creation, only the SHA-256 kept. */
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    name: text().notNull(),
+    tokenHash: text("token_hash").notNull(),
+    /** The first characters, so a person can tell their tokens apart. */
+    prefix: text().notNull(),
+    createdAt: createdAt(),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("api_tokens_token_hash_key").on(t.tokenHash), index("api_tokens_user_idx").on(t.userId)],
+);
+
 export const usersRelations = relations(users, ({ many }) => ({ memberships: many(memberships) }));
 export const membershipsRelations = relations(memberships, ({ one }) => ({
   user: one(users, { fields: [memberships.userId], references: [users.id] }),
@@ -181,3 +275,7 @@ export type Organisation = typeof organisations.$inferSelect;
 export type Programme = typeof programmes.$inferSelect;
 export type Case = typeof cases.$inferSelect;
 export type AuditEntry = typeof auditLog.$inferSelect;
+export type CaseStep = typeof caseSteps.$inferSelect;
+export type StepRevision = typeof stepRevisions.$inferSelect;
+export type CaseResultRow = typeof caseResults.$inferSelect;
+export type Upload = typeof uploads.$inferSelect;

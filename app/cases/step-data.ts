@@ -1,0 +1,171 @@
+import { z } from "zod";
+
+/**
+ * What each step of a case stores, in SI units (m, kg, N, m/s EAS, degrees). These schemas are the
+ * one definition of the rules: the browser checks forms with them and every action re-checks.
+ */
+
+const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
+const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be greater than 0` });
+
+export const CATEGORIES = ["part25", "part23-normal", "part23-utility", "part23-acrobatic", "part23-commuter"] as const;
+export type Category = (typeof CATEGORIES)[number];
+
+export const CATEGORY_LABELS: Record<Category, string> = {
+  part25: "Transport category aeroplane (14 CFR Part 25 / CS-25)",
+  "part23-normal": "Normal category small aeroplane (14 CFR Part 23 before amendment 23-64 / CS-23)",
+  "part23-utility": "Utility category small aeroplane (14 CFR Part 23 / CS-23)",
+  "part23-acrobatic": "Acrobatic category small aeroplane (14 CFR Part 23 / CS-23)",
+  "part23-commuter": "Commuter category aeroplane (14 CFR Part 23 / CS-23)",
+};
+
+/** The regulation references a basis starts with; the engineer edits them to the agreed basis. */
+export const DEFAULT_REGULATIONS: Record<Category, string> = {
+  part25: "14 CFR 25.301, 25.303, 25.321, 25.333, 25.335, 25.337, 25.341(a)",
+  "part23-normal": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-utility": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-acrobatic": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-commuter": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+};
+
+export const BasisSchema = z
+  .object({
+    units: z.enum(["SI", "US"], "Choose SI or US customary units"),
+    category: z.enum(CATEGORIES, "Choose the category of the certification basis"),
+    regulations: z.string().trim().min(3, "List the applicable regulation references").max(2000, "At most 2000 characters"),
+    mtow: positive("Maximum design take-off weight"),
+    mzfw: positive("Maximum zero-fuel weight"),
+    minWeight: positive("Minimum design weight"),
+    vs1: positive("VS1"),
+    va: positive("VA"),
+    vc: positive("VC"),
+    vd: positive("VD"),
+    altitudes: z.array(finite("Altitude")).min(1, "Give at least one altitude").max(12, "At most 12 altitudes"),
+    wingArea: positive("Wing reference area"),
+    clMax: positive("Aircraft CLmax"),
+    clMaxNegative: finite("Negative CLmax").refine((v) => v < 0, { message: "Negative CLmax must be below 0" }),
+  })
+  .superRefine((b, ctx) => {
+    if (b.mzfw > b.mtow) ctx.addIssue({ code: "custom", path: ["mzfw"], message: "Maximum zero-fuel weight cannot exceed the take-off weight" });
+    if (b.minWeight > b.mtow) ctx.addIssue({ code: "custom", path: ["minWeight"], message: "Minimum design weight cannot exceed the take-off weight" });
+    if (!(b.vs1 < b.va)) ctx.addIssue({ code: "custom", path: ["va"], message: "VA must be above VS1" });
+    if (!(b.va <= b.vc)) ctx.addIssue({ code: "custom", path: ["vc"], message: "VC must be at least VA" });
+    if (!(b.vc < b.vd)) ctx.addIssue({ code: "custom", path: ["vd"], message: "VD must be above VC" });
+    b.altitudes.forEach((h, i) => {
+      if (h < 0 || h > 20000) ctx.addIssue({ code: "custom", path: ["altitudes", i], message: "Altitudes must lie between 0 and 20 000 m (the standard atmosphere range of the engine)" });
+    });
+  });
+export type BasisData = z.output<typeof BasisSchema>;
+
+export const PlanformStationSchema = z.object({
+  y: finite("y"),
+  xLe: finite("Leading edge x"),
+  chord: positive("Chord"),
+  twist: finite("Twist").refine((v) => Math.abs(v) <= 20, { message: "Twist must lie within ±20°" }),
+});
+
+export const PlanformSchema = z
+  .object({
+    stations: z.array(PlanformStationSchema).min(2, "Give at least two stations: root and tip").max(60, "At most 60 stations"),
+    axisRoot: finite("Reference axis at the root").refine((v) => v >= 0 && v <= 1, { message: "The reference axis is a chord fraction between 0 and 1" }),
+    axisTip: finite("Reference axis at the tip").refine((v) => v >= 0 && v <= 1, { message: "The reference axis is a chord fraction between 0 and 1" }),
+  })
+  .superRefine((p, ctx) => {
+    p.stations.forEach((s, i) => {
+      if (i === 0 && s.y !== 0) ctx.addIssue({ code: "custom", path: ["stations", 0, "y"], message: "The first station must be at y = 0 (the root)" });
+      if (i > 0 && !(s.y > p.stations[i - 1]!.y)) {
+        ctx.addIssue({ code: "custom", path: ["stations", i, "y"], message: `Station ${i + 1}: y must be greater than the station before (y increases from root to tip)` });
+      }
+    });
+  });
+export type PlanformData = z.output<typeof PlanformSchema>;
+
+export const SectionRowSchema = z.object({
+  y: finite("y").refine((v) => v >= 0, { message: "y must be 0 or more" }),
+  a0: positive("Lift-curve slope a0"),
+  alphaL0: finite("Zero-lift angle"),
+  cmAc: finite("cm about the aerodynamic centre"),
+  clMax: positive("clmax").optional(),
+  cpMin: finite("Minimum Cp").refine((v) => v < 0, { message: "Minimum Cp must be below 0 (a suction peak)" }).optional(),
+});
+
+export const SectionsSchema = z
+  .object({
+    rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(60, "At most 60 section stations"),
+    source: z.object({ kind: z.enum(["typed", "upload"]), uploadId: z.uuid().optional(), filename: z.string().optional(), sha256: z.string().optional() }),
+    tables: z
+      .array(z.object({ y: z.number(), points: z.array(z.object({ alpha: z.number(), cl: z.number(), cm: z.number() })), linearFrom: z.number(), linearTo: z.number() }))
+      .default([]),
+  })
+  .superRefine((s, ctx) => {
+    s.rows.forEach((r, i) => {
+      if (i > 0 && !(r.y > s.rows[i - 1]!.y)) ctx.addIssue({ code: "custom", path: ["rows", i, "y"], message: `Row ${i + 1}: y must be greater than the row before` });
+    });
+  });
+export type SectionsData = z.output<typeof SectionsSchema>;
+
+export const COMPRESSIBILITY_RULES = ["prandtl-glauert", "karman-tsien", "laitone"] as const;
+export const SPANWISE_METHODS = ["vortex-lattice", "lifting-line"] as const;
+export const RULE_LABELS: Record<(typeof COMPRESSIBILITY_RULES)[number], string> = {
+  "prandtl-glauert": "Prandtl–Glauert (Göthert for the wing)",
+  "karman-tsien": "Kármán–Tsien",
+  laitone: "Laitone",
+};
+export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> = {
+  "vortex-lattice": "Vortex lattice",
+  "lifting-line": "Lifting line (small sweep only)",
+};
+
+export const LoadCaseSchema = z.object({
+  id: z.string().trim().min(1, "Give the case an id").max(40, "A case id has at most 40 characters").regex(/^[A-Za-z0-9._\-+]+$/, "Use letters, digits and . _ - + only"),
+  kind: z.enum(["manoeuvre", "gust", "manual"]),
+  rule: z.string().max(200).default(""),
+  mach: finite("Mach").refine((v) => v >= 0 && v < 1, { message: "Mach must be at least 0 and below 1 (subsonic rules only)" }),
+  altitude: finite("Altitude").refine((v) => v >= 0 && v <= 20000, { message: "Altitude must lie between 0 and 20 000 m" }),
+  eas: finite("Equivalent airspeed").refine((v) => v > 0, { message: "Equivalent airspeed must be greater than 0" }),
+  weight: positive("Weight"),
+  nz: finite("Load factor").refine((v) => Math.abs(v) <= 15, { message: "Load factor must lie within ±15" }),
+  excluded: z.boolean().default(false),
+});
+export type LoadCase = z.output<typeof LoadCaseSchema>;
+
+export const EnvelopeSchema = z
+  .object({
+    compressibility: z.enum(COMPRESSIBILITY_RULES, "Choose a compressibility rule"),
+    spanwise: z.enum(SPANWISE_METHODS, "Choose a spanwise solver"),
+    stations: z.number().int("Stations must be a whole number").min(8, "At least 8 stations").max(200, "At most 200 stations"),
+    cases: z.array(LoadCaseSchema).min(1, "Give at least one load case").max(2000, "At most 2000 load cases"),
+  })
+  .superRefine((e, ctx) => {
+    const seen = new Set<string>();
+    e.cases.forEach((c, i) => {
+      if (seen.has(c.id)) ctx.addIssue({ code: "custom", path: ["cases", i, "id"], message: `Case id ${c.id} is used twice` });
+      seen.add(c.id);
+    });
+  });
+export type EnvelopeData = z.output<typeof EnvelopeSchema>;
+
+export const DistributionSchema = z.object({
+  dispositions: z.record(
+    z.string(),
+    z.object({ action: z.enum(["exclude", "justify"]), comment: z.string().trim().max(2000, "At most 2000 characters") }).refine((d) => d.action === "exclude" || d.comment.length >= 10, {
+      message: "A justification needs a comment of at least 10 characters",
+      path: ["comment"],
+    }),
+  ),
+});
+export type DistributionData = z.output<typeof DistributionSchema>;
+
+export const LoadsSchema = z.object({
+  semispanMass: finite("Semispan structural mass").refine((v) => v >= 0, { message: "Semispan structural mass must be 0 or more (kg)" }),
+});
+export type LoadsData = z.output<typeof LoadsSchema>;
+
+export const STEP_SCHEMAS = {
+  basis: BasisSchema,
+  planform: PlanformSchema,
+  sections: SectionsSchema,
+  envelope: EnvelopeSchema,
+  distribution: DistributionSchema,
+  loads: LoadsSchema,
+} as const;

@@ -1,0 +1,32 @@
+import type { StepKey, StepStatus } from "~/db/schema";
+
+/** The steps of a case, in working order. Each is a nested route under /cases/:caseId/. */
+export const STEPS: readonly { key: StepKey; label: string; summary: string }[] = [
+  { key: "basis", label: "Basis", summary: "Certification basis, weights, design speeds, altitudes" },
+  { key: "planform", label: "Planform", summary: "Wing stations: position, chord, twist" },
+  { key: "sections", label: "Sections", summary: "Incompressible section data along the span" },
+  { key: "envelope", label: "Envelope", summary: "Manoeuvre and gust load cases, method choice" },
+  { key: "distribution", label: "Distribution", summary: "Spanwise lift and moment, critical Mach, flags" },
+  { key: "loads", label: "Loads", summary: "Shear, bending, torsion, envelope and root loads" },
+];
+
+export const STEP_STATUS_LABELS: Record<StepStatus, { label: string; icon: string }> = {
+  empty: { label: "Not started", icon: "·" },
+  draft: { label: "Draft", icon: "○" },
+  submitted: { label: "Submitted", icon: "◔" },
+  returned: { label: "Returned", icon: "↺" },
+  approved: { label: "Approved", icon: "✓" },
+};
+
+export function stepIndex(key: StepKey): number {
+  return STEPS.findIndex((s) => s.key === key);
+}
+
+/** The steps whose inputs depend on the given step (everything after it). */
+export function downstreamOf(key: StepKey): StepKey[] {
+  return STEPS.slice(stepIndex(key) + 1).map((s) => s.key);
+}
+
+export function nextStep(key: StepKey): StepKey | null {
+  return STEPS[stepIndex(key) + 1]?.key ?? null;
+}

@@ -1,0 +1,73 @@
+/**
+ * Display units. Storage and the engine are SI throughout; people may read and type US customary.
+ * Conversion factors are exact by definition (1 ft = 0.3048 m, 1 lb = 0.45359237 kg,
+ * 1 kt = 1852/3600 m/s, g0 = 9.80665 m/s²).
+ */
+export type UnitSystem = "SI" | "US";
+
+export type Quantity = "length" | "area" | "mass" | "force" | "speed" | "altitude" | "moment" | "runningLoad" | "angle" | "none";
+
+const FT = 0.3048;
+const LB = 0.45359237;
+const LBF = LB * 9.80665;
+const KT = 1852 / 3600;
+
+interface UnitDef {
+  symbol: string;
+  /** SI value = display value × factor. */
+  factor: number;
+}
+
+const UNITS: Record<UnitSystem, Record<Quantity, UnitDef>> = {
+  SI: {
+    length: { symbol: "m", factor: 1 },
+    area: { symbol: "m²", factor: 1 },
+    mass: { symbol: "kg", factor: 1 },
+    force: { symbol: "kN", factor: 1000 },
+    speed: { symbol: "m/s", factor: 1 },
+    altitude: { symbol: "m", factor: 1 },
+    moment: { symbol: "kN·m", factor: 1000 },
+    runningLoad: { symbol: "kN/m", factor: 1000 },
+    angle: { symbol: "°", factor: 1 },
+    none: { symbol: "", factor: 1 },
+  },
+  US: {
+    length: { symbol: "ft", factor: FT },
+    area: { symbol: "ft²", factor: FT * FT },
+    mass: { symbol: "lb", factor: LB },
+    force: { symbol: "lbf", factor: LBF },
+    speed: { symbol: "kt", factor: KT },
+    altitude: { symbol: "ft", factor: FT },
+    moment: { symbol: "lbf·ft", factor: LBF * FT },
+    runningLoad: { symbol: "lbf/ft", factor: LBF / FT },
+    angle: { symbol: "°", factor: 1 },
+    none: { symbol: "", factor: 1 },
+  },
+};
+
+export function unitSymbol(system: UnitSystem, q: Quantity): string {
+  return UNITS[system][q].symbol;
+}
+
+export function toSI(system: UnitSystem, q: Quantity, value: number): number {
+  return value * UNITS[system][q].factor;
+}
+
+export function fromSI(system: UnitSystem, q: Quantity, value: number): number {
+  return value / UNITS[system][q].factor;
+}
+
+/** Rounds to a sensible number of significant figures for tables and read-outs. */
+export function formatNumber(value: number | null | undefined, sig = 4): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
+  if (value === 0) return "0";
+  const digits = Math.max(0, sig - 1 - Math.floor(Math.log10(Math.abs(value))));
+  return value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(digits, 6), minimumFractionDigits: 0 }).replace(/,/g, " ");
+}
+
+/** A value in display units with its symbol: "12.3 kN·m". */
+export function formatQuantity(system: UnitSystem, q: Quantity, si: number | null | undefined, sig = 4): string {
+  if (si === null || si === undefined) return "—";
+  const sym = unitSymbol(system, q);
+  return `${formatNumber(fromSI(system, q, si), sig)}${sym ? ` ${sym}` : ""}`;
+}

@@ -1,0 +1,93 @@
+import { and, eq } from "drizzle-orm";
+import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
+import { db, type Db, type Tx } from "~/db/client.server";
+import { caseSteps, cases, STEP_KEYS, stepRevisions, users, type CaseStep, type StepKey } from "~/db/schema";
+import { STEP_SCHEMAS } from "~/cases/step-data";
+import { DomainError } from "./organisation.server";
+
+type Actor = { id: string; email: string };
+
+export interface StepState {
+  step: StepKey;
+  revision: number;
+  status: CaseStep["status"];
+  data: Record<string, unknown> | null;
+  updatedAt: Date | null;
+  updatedByName: string | null;
+}
+
+/** Every step of a case, in order; steps never saved come back as revision 0, "empty". */
+export async function getCaseSteps(caseId: string, database: Db | Tx = db): Promise<Record<StepKey, StepState>> {
+  const rows = await database
+    .select({ row: caseSteps, updatedByName: users.name })
+    .from(caseSteps)
+    .leftJoin(users, eq(users.id, caseSteps.updatedBy))
+    .where(eq(caseSteps.caseId, caseId));
+  const out = {} as Record<StepKey, StepState>;
+  for (const key of STEP_KEYS) {
+    const found = rows.find((r) => r.row.step === key);
+    out[key] = found
+      ? { step: key, revision: found.row.revision, status: found.row.status, data: found.row.data, updatedAt: found.row.updatedAt, updatedByName: found.updatedByName }
+      : { step: key, revision: 0, status: "empty", data: null, updatedAt: null, updatedByName: null };
+  }
+  return out;
+}
+
+/** The stored data of one step, parsed with its schema, or null when the step has not been saved. */
+export function stepData<K extends StepKey>(steps: Record<StepKey, StepState>, key: K) {
+  const raw = steps[key].data;
+  if (!raw) return null;
+  const parsed = STEP_SCHEMAS[key].safeParse(raw);
+  return parsed.success ? (parsed.data as import("zod").output<(typeof STEP_SCHEMAS)[K]>) : null;
+}
+
+export class StaleRevisionError extends DomainError {
+  constructor(message: string) {
+    super(message, "revision", 409);
+  }
+}
+
+/**
+ * Saves a new revision of a step. `baseRevision` is the revision the person started editing from:
+ * if anyone saved since, nothing is written and the person is told who and when (optimistic
+ * concurrency). The revision, its hash, the step's new state and the audit entry are one transaction.
+ */
+export async function saveStep(input: { caseId: string; step: StepKey; baseRevision: number; data: Record<string, unknown>; actor: Actor }) {
+  const parsed = STEP_SCHEMAS[input.step].safeParse(input.data);
+  if (!parsed.success) throw new DomainError(parsed.error.issues[0]?.message ?? "The step's data are not valid", parsed.error.issues[0]?.path.join("."));
+  const data = parsed.data as Record<string, unknown>;
+  return db.transaction(async (tx) => {
+    await tx.insert(caseSteps).values({ caseId: input.caseId, step: input.step }).onConflictDoNothing();
+    const [current] = await tx
+      .select({ row: caseSteps, updatedByName: users.name })
+      .from(caseSteps)
+      .leftJoin(users, eq(users.id, caseSteps.updatedBy))
+      .where(and(eq(caseSteps.caseId, input.caseId), eq(caseSteps.step, input.step)))
+      .for("update", { of: caseSteps });
+    const row = current!.row;
+    if (row.revision !== input.baseRevision) {
+      throw new StaleRevisionError(
+        `Not saved: ${current!.updatedByName ?? "someone"} saved this step (revision ${row.revision}) at ${row.updatedAt.toISOString().slice(0, 16).replace("T", " ")} UTC, after you opened revision ${input.baseRevision}. Reload to see their version; your changes were not written.`,
+      );
+    }
+    if (row.status === "submitted") {
+      throw new DomainError("This step is submitted for check and is read-only until the checker returns or approves it.", "status", 409);
+    }
+    const revision = row.revision + 1;
+    const hash = sha256Hex(canonicalJson(data));
+    await tx.insert(stepRevisions).values({ caseId: input.caseId, step: input.step, revision, data, hash, createdBy: input.actor.id });
+    const now = new Date();
+    await tx.update(caseSteps).set({ revision, status: "draft", data, updatedBy: input.actor.id, updatedAt: now }).where(eq(caseSteps.id, row.id));
+    const [caseRow] = await tx.update(cases).set({ updatedAt: now }).where(eq(cases.id, input.caseId)).returning({ organisationId: cases.organisationId });
+    await writeAudit(tx, {
+      organisationId: caseRow!.organisationId,
+      actor: input.actor,
+      action: `step.${input.step}.save`,
+      entityType: "case",
+      entityId: input.caseId,
+      before: row.data ? { revision: row.revision, data: row.data } : null,
+      after: { revision, hash, data },
+    });
+    return { revision, hash };
+  });
+}
