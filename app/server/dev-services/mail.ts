@@ -51,6 +51,8 @@ function envelopeAddress(address: { address: string } | false): string {
 export async function startMailCapture(opts: StartMailCaptureOptions): Promise<RunningMailCapture> {
   const dir = resolve(opts.dir);
   await mkdir(dir, { recursive: true });
+  // Strictly increasing receive times keep "newest first" well defined for messages in the same millisecond.
+  let lastReceived = 0;
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ["STARTTLS"],
@@ -59,7 +61,8 @@ export async function startMailCapture(opts: StartMailCaptureOptions): Promise<R
     onData(stream, session, callback) {
       simpleParser(stream)
         .then(async (parsed) => {
-          const receivedAt = new Date();
+          lastReceived = Math.max(Date.now(), lastReceived + 1);
+          const receivedAt = new Date(lastReceived);
           const mail: CapturedMail = {
             id: randomUUID(),
             receivedAt: receivedAt.toISOString(),

@@ -12,15 +12,14 @@ export interface StartS3Options {
 }
 
 export interface RunningS3 {
-  /** `http://127.0.0.1:PORT`; clients need `forcePathStyle: true`. Credentials: S3RVER / S3RVER. */
+  /** `http://127.0.0.1:PORT`; clients need `forcePathStyle: true`. */
   endpoint: string;
   stop(): Promise<void>;
 }
 
 /**
  * Starts the local S3 stand-in (s3rver) on 127.0.0.1:`port`, silent, with its data under `dir`,
- * and creates `buckets`. It checks request signatures against the access key `S3RVER` and secret
- * `S3RVER`.
+ * and creates `buckets`. Any credentials are accepted; the app's defaults are S3RVER / S3RVER.
  */
 export async function startS3(opts: StartS3Options): Promise<RunningS3> {
   const directory = resolve(opts.dir);
