@@ -16,3 +16,5 @@ export * from "./loads";
 export * from "./superposition";
 export * from "./load-case";
 export * from "./envelope";
+export * from "./certification";
+export * from "./schrenk";
