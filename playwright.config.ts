@@ -1,0 +1,95 @@
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { defineConfig, devices } from "@playwright/test";
+
+const PORT = 3100;
+const ORIGIN = `http://127.0.0.1:${PORT}`;
+const PREFIX = "spanwright-e2e-";
+
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === "EPERM";
+  }
+}
+
+/**
+ * A fresh data folder per run, named after the runner's PID. Playwright loads this file again in
+ * every worker, so the first load records the folder in the environment the workers inherit. Folders
+ * of earlier runs whose runner is gone are removed here (the app server still uses its own until the
+ * run ends, so it cannot be removed at teardown).
+ */
+function e2eDataDir(): string {
+  const existing = process.env.SPANWRIGHT_E2E_DATA_DIR;
+  if (existing) return existing;
+  for (const name of fs.readdirSync(os.tmpdir())) {
+    const pid = Number(name.slice(PREFIX.length));
+    if (name.startsWith(PREFIX) && Number.isInteger(pid) && !alive(pid)) {
+      fs.rmSync(path.join(os.tmpdir(), name), { recursive: true, force: true });
+    }
+  }
+  const dir = path.join(os.tmpdir(), `${PREFIX}${process.pid}`);
+  fs.rmSync(dir, { recursive: true, force: true });
+  // 0755, not mkdtemp's 0700: as root, the postgres user must be able to enter it.
+  fs.mkdirSync(dir, { recursive: true, mode: 0o755 });
+  process.env.SPANWRIGHT_E2E_DATA_DIR = dir;
+  return dir;
+}
+
+export default defineConfig({
+  testDir: "tests/e2e",
+  testMatch: "*.spec.ts",
+  workers: 1,
+  fullyParallel: false,
+  forbidOnly: Boolean(process.env.CI),
+  retries: 0,
+  timeout: 30_000,
+  reporter: "list",
+  use: {
+    ...devices["Desktop Chrome"],
+    baseURL: ORIGIN,
+    viewport: { width: 1280, height: 800 },
+    screenshot: "only-on-failure",
+    trace: "off",
+    launchOptions: {
+      // Debian's Chromium: Playwright's own browser downloads are not available here.
+      executablePath: "/usr/bin/chromium",
+      args: [
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+        "--no-first-run",
+        "--disable-quic",
+      ],
+    },
+  },
+  webServer: {
+    command: "npx tsx app/server/start.ts",
+    url: `${ORIGIN}/healthz`,
+    timeout: 240_000,
+    reuseExistingServer: false,
+    stdout: "pipe",
+    stderr: "pipe",
+    // SIGINT to the whole group: start.ts shuts its services down, PostgreSQL does a fast shutdown.
+    gracefulShutdown: { signal: "SIGINT", timeout: 20_000 },
+    env: {
+      SPANWRIGHT_DATA_DIR: e2eDataDir(),
+      PORT: String(PORT),
+      PG_PORT: "54339",
+      S3_PORT: "4579",
+      SMTP_PORT: "2535",
+      OIDC_PORT: "4590",
+      APP_ORIGIN: ORIGIN,
+      // Always the stand-ins, even when the calling shell points at real services.
+      DATABASE_URL: "",
+      S3_ENDPOINT: "",
+      SMTP_URL: "",
+      OIDC_ISSUER: "",
+    },
+  },
+});
