@@ -1,0 +1,25 @@
+import { readFileSync, readdirSync } from "node:fs";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { parseCase } from "./parse";
+import { runCase } from "./run";
+
+const dir = join(__dirname, "..", "..", "docs", "examples");
+const files = readdirSync(dir).filter((f) => f.endsWith(".json"));
+
+describe("docs/examples", () => {
+  it("has the demo cases", () => expect(files.length).toBeGreaterThanOrEqual(3));
+
+  it.each(files)("%s parses and runs, and trimmed cases are in equilibrium", (f) => {
+    const p = parseCase(JSON.parse(readFileSync(join(dir, f), "utf8")));
+    expect(p.ok ? [] : p.problems).toEqual([]);
+    if (!p.ok) return;
+    const r = runCase(p.value);
+    const mass = p.value.wing.mass?.kg ?? 0;
+    p.value.cases.forEach((c, i) => {
+      if (c.weight === undefined) return;
+      // Beam statics: root shear = nz·W/2 − nz·g·m per semispan.
+      expect(r.cases[i].root.shear).toBeCloseTo((c.nz! * c.weight) / 2 - c.nz! * 9.80665 * mass, 3);
+    });
+  });
+});
