@@ -240,8 +240,11 @@ async function writeConfig(dataDir: string, port: number, throwaway: boolean, us
  */
 function spawnWatchdog(serverPid: number): ChildProcess {
   // `read` is a shell builtin: no grandchild is left behind when the watchdog itself is killed.
-  const watchdog = spawn("sh", ["-c", `while read -r _; do :; done; kill -INT ${serverPid} 2>/dev/null`], {
+  // Its own process group and deaf to signals: a Ctrl-C or group kill aimed at the caller must not
+  // end the watchdog before it has done its one job.
+  const watchdog = spawn("sh", ["-c", `trap '' INT TERM HUP; while read -r _; do :; done; kill -INT ${serverPid} 2>/dev/null`], {
     stdio: ["pipe", "ignore", "ignore"],
+    detached: true,
   });
   watchdog.unref();
   (watchdog.stdin as unknown as { unref?: () => void } | null)?.unref?.();
@@ -325,8 +328,11 @@ export async function startPostgres(opts: PostgresOptions): Promise<RunningPostg
   for (let attempt = 1; ; attempt++) {
     tail.length = 0;
     // Spawned directly (uid/gid) rather than through runuser, so our signals reach the server itself.
+    // Its own process group: a Ctrl-C meant for the caller reaches the caller, which stops its
+    // clients first and then calls stop(); if the caller dies instead, the watchdog stops the server.
     const child = spawn(join(bin, "postgres"), ["-D", dataDir], {
       cwd: "/",
+      detached: true,
       stdio: ["ignore", "pipe", "pipe"],
       ...(user ? { uid: user.uid, gid: user.gid } : {}),
     });
