@@ -1,14 +1,31 @@
 import type { z } from "zod";
 
-/** FormData → plain object; keys named in `arrays` always become arrays (checkbox groups). */
+/**
+ * FormData → plain object. Keys named in `arrays` always become arrays (checkbox groups); dotted
+ * keys as react-hook-form names them ("stations.2.chord") become nested arrays and objects.
+ */
 export function formDataToObject(form: FormData, arrays: readonly string[] = []): Record<string, unknown> {
   const out: Record<string, unknown> = {};
   for (const key of new Set(form.keys())) {
     const values = form.getAll(key).filter((v): v is string => typeof v === "string");
-    out[key] = arrays.includes(key) ? values : values[values.length - 1];
+    setPath(out, key.split("."), arrays.includes(key) ? values : values[values.length - 1]);
   }
   for (const key of arrays) out[key] ??= [];
   return out;
+}
+
+function setPath(target: Record<string, unknown> | unknown[], path: string[], value: unknown) {
+  const [head, ...rest] = path;
+  // Field names come from the client: never let one reach an object's prototype.
+  if (head === "__proto__" || head === "constructor" || head === "prototype") return;
+  const key: string | number = /^\d+$/.test(head!) ? Number(head) : head!;
+  const container = target as Record<string | number, unknown>;
+  if (rest.length === 0) {
+    container[key] = value;
+    return;
+  }
+  if (typeof container[key] !== "object" || container[key] === null) container[key] = /^\d+$/.test(rest[0]!) ? [] : {};
+  setPath(container[key] as Record<string, unknown>, rest, value);
 }
 
 export type FieldErrors = Record<string, string[] | undefined>;

@@ -1,4 +1,5 @@
 import { zodResolver } from "@hookform/resolvers/zod";
+import { useEffect } from "react";
 import { useForm, type DefaultValues, type FieldValues } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
@@ -8,9 +9,13 @@ import type { z } from "zod";
  * works before JavaScript loads); with JavaScript the same schema checks it first and the post goes
  * through React Router's submit, and the action re-validates with that schema.
  */
-export function useZodForm<S extends z.ZodType<FieldValues, FieldValues>>(schema: S, defaultValues?: DefaultValues<z.input<S>>) {
+export function useZodForm<S extends z.ZodType<FieldValues, FieldValues>>(schema: S, defaultValues?: DefaultValues<z.input<S>>, resetKey?: unknown) {
   const submit = useSubmit();
   const form = useForm<z.input<S>, unknown, z.output<S>>({ resolver: zodResolver(schema as never) as never, defaultValues, mode: "onTouched" });
+  // A new saved revision (resetKey) replaces what the form holds, including its base revision.
+  useEffect(() => {
+    if (resetKey !== undefined) form.reset(defaultValues);
+  }, [resetKey]);
   const onSubmit = form.handleSubmit((_values, event) => {
     const el = (event?.target ?? null) as HTMLFormElement | null;
     if (el) submit(el, { method: "post" });
@@ -21,5 +26,9 @@ export function useZodForm<S extends z.ZodType<FieldValues, FieldValues>>(schema
 /** Messages for one field: the browser's check first, then what the server said. */
 export function errorsFor(form: { formState: { errors: Record<string, { message?: unknown } | undefined> } }, server: Record<string, string[] | undefined> | undefined, name: string) {
   const client = form.formState.errors[name]?.message;
-  return [typeof client === "string" ? client : undefined, ...(server?.[name] ?? [])];
+  // Server messages about list entries ("altitudes.2") belong to the list's field.
+  const fromServer = Object.entries(server ?? {})
+    .filter(([key]) => key === name || key.startsWith(`${name}.`))
+    .flatMap(([, messages]) => messages ?? []);
+  return [typeof client === "string" ? client : undefined, ...fromServer];
 }

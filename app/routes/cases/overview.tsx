@@ -1,35 +1,61 @@
 import { Link } from "react-router";
-import { requirePermission } from "~/auth/auth.server";
+import { requireCase } from "~/auth/case-access.server";
+import { STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
 import { auditForEntity } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { StatusBadge } from "~/components/ui/status-badge";
 import { PageHeader, Panel } from "~/components/ui/page-header";
-import { getCase } from "~/services/programmes.server";
+import { getCaseSteps } from "~/services/case-steps.server";
 import { formatUtc } from "~/utils/format";
-import { notFound } from "~/utils/http.server";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "case:read");
-  const found = await getCase(current.organisation.id, params.caseId);
-  if (!found) notFound("Case");
-  const history = await auditForEntity(db, "case", found.case.id, 20);
+  const { case: c, programme, createdByName } = await requireCase(request, params.caseId, "case:read");
+  const [steps, history] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20)]);
   return {
-    case: found.case,
-    programme: { id: found.programme.id, code: found.programme.code, name: found.programme.name, aircraft: found.programme.aircraft },
-    createdByName: found.createdByName,
+    case: c,
+    programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft },
+    createdByName,
+    steps: STEPS.map((s) => ({ ...s, status: steps[s.key].status, revision: steps[s.key].revision, updatedAt: steps[s.key].updatedAt, updatedByName: steps[s.key].updatedByName })),
     history: history.map((h) => ({ id: h.id, at: h.at, action: h.action, actorEmail: h.actorEmail })),
   };
 }
 
 export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) {
-  const { case: c, programme, history } = loaderData;
+  const { case: c, programme, steps, history } = loaderData;
   return (
     <>
-      <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-muted">
-        <Link to={`/programmes/${programme.id}`}>{programme.code}</Link> › {c.reference}
-      </nav>
-      <PageHeader title={`${c.reference} — ${c.title}`} description={c.description || undefined} actions={<StatusBadge status={c.status} />} />
+      <PageHeader title={`${c.reference} — overview`} description={c.description || undefined} />
+      <Panel title="Steps" className="mb-5">
+        <table className="w-full text-left text-sm">
+          <thead className="text-xs uppercase tracking-wide text-ink-muted">
+            <tr>
+              <th className="py-1.5 pr-3">Step</th>
+              <th className="py-1.5 pr-3">Status</th>
+              <th className="py-1.5 pr-3 text-right">Revision</th>
+              <th className="py-1.5 pr-3">Last changed by</th>
+              <th className="py-1.5">When</th>
+            </tr>
+          </thead>
+          <tbody>
+            {steps.map((s, i) => (
+              <tr key={s.key} className="border-t border-line">
+                <td className="py-1.5 pr-3">
+                  <Link to={`/cases/${c.id}/${s.key}`} className="font-semibold">
+                    {i + 1}. {s.label}
+                  </Link>
+                  <span className="block text-xs text-ink-muted">{s.summary}</span>
+                </td>
+                <td className="py-1.5 pr-3">
+                  <span aria-hidden="true">{STEP_STATUS_LABELS[s.status].icon}</span> {STEP_STATUS_LABELS[s.status].label}
+                </td>
+                <td className="py-1.5 pr-3 text-right tabular">{s.revision || "—"}</td>
+                <td className="py-1.5 pr-3">{s.updatedByName ?? "—"}</td>
+                <td className="py-1.5 tabular text-ink-muted">{s.updatedAt && s.revision ? formatUtc(s.updatedAt) : "—"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </Panel>
       <div className="grid gap-4 lg:grid-cols-2">
         <Panel title="Case file">
           <dl className="grid grid-cols-[10rem_1fr] gap-y-1.5 text-sm">
@@ -39,8 +65,6 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
             </dd>
             <dt className="text-ink-muted">Aircraft</dt>
             <dd>{programme.aircraft}</dd>
-            <dt className="text-ink-muted">Revision</dt>
-            <dd className="tabular">{c.revision}</dd>
             <dt className="text-ink-muted">Started by</dt>
             <dd>
               {loaderData.createdByName}, {formatUtc(c.createdAt)}

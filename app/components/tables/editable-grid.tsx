@@ -1,0 +1,173 @@
+import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
+import type { ClipboardEvent, KeyboardEvent } from "react";
+import { useFieldArray, type Control, type FieldErrors, type UseFormRegister, type UseFormSetValue } from "react-hook-form";
+import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
+
+export interface GridColumn {
+  key: string;
+  label: string;
+}
+
+interface Props {
+  name: string;
+  caption: string;
+  columns: GridColumn[];
+  control: Control<never>;
+  register: UseFormRegister<never>;
+  setValue: UseFormSetValue<never>;
+  errors?: FieldErrors;
+  serverErrors?: Record<string, string[] | undefined>;
+  emptyRow: Record<string, string>;
+  disabled?: boolean;
+  csvName: string;
+  getValues: () => Record<string, unknown>[];
+}
+
+/**
+ * An editable table of numbers bound to a react-hook-form field array: arrow keys and Enter move
+ * between cells, a block pasted from a spreadsheet fills the grid from the focused cell (rows are
+ * added as needed), and the rows can be exported as CSV.
+ */
+export function EditableGrid(props: Props) {
+  const { fields, append, remove, insert } = useFieldArray({ control: props.control, name: props.name as never });
+  const helper = createColumnHelper<Record<string, unknown>>();
+  const cellId = (row: number, col: number) => `${props.name}-${row}-${col}`;
+
+  const focusCell = (row: number, col: number) => {
+    const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
+    el?.focus();
+    el?.select();
+  };
+
+  const onKeyDown = (row: number, col: number) => (e: KeyboardEvent<HTMLInputElement>) => {
+    if (e.key === "ArrowDown" || e.key === "Enter") {
+      e.preventDefault();
+      if (row + 1 >= fields.length && e.key === "Enter") append(props.emptyRow as never);
+      setTimeout(() => focusCell(row + 1, col));
+    } else if (e.key === "ArrowUp") {
+      e.preventDefault();
+      focusCell(row - 1, col);
+    } else if (e.key === "ArrowRight" && (e.currentTarget.selectionStart ?? 0) >= e.currentTarget.value.length) {
+      focusCell(row, col + 1);
+    } else if (e.key === "ArrowLeft" && (e.currentTarget.selectionStart ?? 0) === 0) {
+      focusCell(row, col - 1);
+    }
+  };
+
+  const onPaste = (row: number, col: number) => (e: ClipboardEvent<HTMLInputElement>) => {
+    const cells = parsePastedCells(e.clipboardData.getData("text"));
+    if (cells.length <= 1 && (cells[0]?.length ?? 0) <= 1) return;
+    e.preventDefault();
+    const first = cells[0]!;
+    // A header line pasted with the numbers is skipped.
+    const rows = first.some((c) => c !== "" && Number.isNaN(Number(c.replace(",", ".")))) ? cells.slice(1) : cells;
+    const missing = row + rows.length - fields.length;
+    for (let i = 0; i < missing; i++) append(props.emptyRow as never);
+    rows.forEach((values, i) =>
+      values.forEach((v, j) => {
+        const column = props.columns[col + j];
+        if (column) props.setValue(`${props.name}.${row + i}.${column.key}` as never, v as never, { shouldDirty: true });
+      }),
+    );
+  };
+
+  const columns = [
+    helper.display({ id: "index", header: "#", cell: (c) => <span className="text-ink-faint">{c.row.index + 1}</span> }),
+    ...props.columns.map((col, j) =>
+      helper.display({
+        id: col.key,
+        header: col.label,
+        cell: (c) => {
+          const name = `${props.name}.${c.row.index}.${col.key}`;
+          const messages = props.serverErrors?.[name] ?? [];
+          const clientError = (props.errors?.[props.name] as unknown as Record<number, Record<string, { message?: string }>> | undefined)?.[c.row.index]?.[col.key]?.message;
+          const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
+          return (
+            <div>
+              <input
+                id={cellId(c.row.index, j)}
+                aria-label={`${col.label}, row ${c.row.index + 1}`}
+                aria-invalid={all.length > 0}
+                title={all.join(" ")}
+                inputMode="decimal"
+                className="w-full min-w-16 rounded border border-line px-1.5 py-0.5 text-right tabular aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft"
+                {...props.register(name as never)}
+                onKeyDown={onKeyDown(c.row.index, j)}
+                onPaste={onPaste(c.row.index, j)}
+              />
+              {all.map((m) => (
+                <p key={m} className="mt-0.5 max-w-48 text-xs font-semibold text-danger">
+                  {m}
+                </p>
+              ))}
+            </div>
+          );
+        },
+      }),
+    ),
+    helper.display({
+      id: "actions",
+      header: () => <span className="sr-only">Row actions</span>,
+      cell: (c) =>
+        props.disabled ? null : (
+          <span className="flex gap-1 whitespace-nowrap">
+            <button type="button" className="rounded px-1 text-xs text-accent hover:bg-accent-soft" aria-label={`Insert a row after row ${c.row.index + 1}`} onClick={() => insert(c.row.index + 1, props.emptyRow as never)}>
+              + row
+            </button>
+            <button type="button" className="rounded px-1 text-xs text-danger hover:bg-danger-soft" aria-label={`Delete row ${c.row.index + 1}`} onClick={() => remove(c.row.index)}>
+              delete
+            </button>
+          </span>
+        ),
+    }),
+  ];
+
+  const table = useReactTable({ data: fields as unknown as Record<string, unknown>[], columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
+
+  return (
+    <div>
+      <div className="overflow-x-auto rounded border border-line bg-surface">
+        <table className="w-full text-sm">
+          <caption className="sr-only">{props.caption}</caption>
+          <thead className="border-b border-line bg-canvas text-xs text-ink-muted">
+            {table.getHeaderGroups().map((g) => (
+              <tr key={g.id}>
+                {g.headers.map((h) => (
+                  <th key={h.id} scope="col" className="px-2 py-1.5 text-right font-semibold first:text-left">
+                    {flexRender(h.column.columnDef.header, h.getContext())}
+                  </th>
+                ))}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.map((r) => (
+              <tr key={r.id} className="border-b border-line align-top last:border-0">
+                {r.getVisibleCells().map((cell) => (
+                  <td key={cell.id} className="px-2 py-1">
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <div className="mt-2 flex flex-wrap items-center gap-2 text-xs">
+        {props.disabled ? null : (
+          <button type="button" className="rounded border border-line-strong bg-surface px-2 py-1 font-semibold hover:bg-canvas" onClick={() => append(props.emptyRow as never)}>
+            Add row
+          </button>
+        )}
+        <button
+          type="button"
+          className="rounded border border-line-strong bg-surface px-2 py-1 font-semibold hover:bg-canvas"
+          onClick={() => downloadText(props.csvName, toCsv(props.columns.map((c) => c.label), props.getValues().map((row) => props.columns.map((c) => String(row[c.key] ?? "")))))}
+        >
+          Export CSV
+        </button>
+        {props.disabled ? null : <span className="text-ink-muted">Paste a block of cells from a spreadsheet into any cell to fill the table from there.</span>}
+      </div>
+    </div>
+  );
+}

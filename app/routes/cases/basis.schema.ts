@@ -1,0 +1,35 @@
+import { z } from "zod";
+import { numberInput, numberListInput } from "~/cases/form-values";
+import { CATEGORIES } from "~/cases/step-data";
+import type { Quantity } from "~/cases/units";
+
+/** The basis form as typed, in the person's display units; the action converts it to SI. */
+export const BasisFormSchema = z.object({
+  revision: numberInput("Revision"),
+  units: z.enum(["SI", "US"], "Choose SI or US customary units"),
+  category: z.enum(CATEGORIES, "Choose the category of the certification basis"),
+  regulations: z.string().trim().min(3, "List the applicable regulation references").max(2000, "At most 2000 characters"),
+  mtow: numberInput("Maximum design take-off weight"),
+  mzfw: numberInput("Maximum zero-fuel weight"),
+  minWeight: numberInput("Minimum design weight"),
+  vs1: numberInput("VS1"),
+  va: numberInput("VA"),
+  vc: numberInput("VC"),
+  vd: numberInput("VD"),
+  altitudes: numberListInput("Altitudes"),
+  wingArea: numberInput("Wing reference area"),
+  clMax: numberInput("Aircraft CLmax"),
+  clMaxNegative: numberInput("Negative CLmax"),
+});
+
+export const BASIS_QUANTITIES = {
+  mtow: "mass",
+  mzfw: "mass",
+  minWeight: "mass",
+  vs1: "speed",
+  va: "speed",
+  vc: "speed",
+  vd: "speed",
+  altitudes: "altitude",
+  wingArea: "area",
+} as const satisfies Record<string, Quantity>;

@@ -1,0 +1,63 @@
+import { Link, NavLink, Outlet } from "react-router";
+import { requireCase } from "~/auth/case-access.server";
+import { STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
+import { StatusBadge } from "~/components/ui/status-badge";
+import { getCaseSteps } from "~/services/case-steps.server";
+import type { Route } from "./+types/case-layout";
+
+/** Case header and step rail; each step route checks access again in its own loader. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { case: c, programme } = await requireCase(request, params.caseId, "case:read");
+  const steps = await getCaseSteps(c.id);
+  return {
+    case: { id: c.id, reference: c.reference, title: c.title, status: c.status },
+    programme: { id: programme.id, code: programme.code },
+    steps: STEPS.map((s) => ({ key: s.key, label: s.label, status: steps[s.key].status, revision: steps[s.key].revision })),
+  };
+}
+
+export default function CaseLayout({ loaderData }: Route.ComponentProps) {
+  const { case: c, programme, steps } = loaderData;
+  return (
+    <div>
+      <nav aria-label="Breadcrumb" className="mb-1 text-sm text-ink-muted">
+        <Link to={`/programmes/${programme.id}`}>{programme.code}</Link> › <Link to={`/cases/${c.id}`}>{c.reference}</Link>
+      </nav>
+      <div className="mb-4 flex flex-wrap items-center gap-3">
+        <p className="text-lg font-semibold">{c.title}</p>
+        <StatusBadge status={c.status} />
+      </div>
+      <div className="flex flex-col gap-5 lg:flex-row">
+        <nav aria-label="Steps" className="shrink-0 lg:w-48">
+          <ol className="flex gap-1 overflow-x-auto lg:flex-col">
+            <li>
+              <NavLink end to={`/cases/${c.id}`} className={stepClass}>
+                <span className="font-semibold">Overview</span>
+              </NavLink>
+            </li>
+            {steps.map((s, i) => (
+              <li key={s.key}>
+                <NavLink to={`/cases/${c.id}/${s.key}`} className={stepClass}>
+                  <span className="font-semibold">
+                    {i + 1}. {s.label}
+                  </span>
+                  <span className="block text-xs text-ink-muted">
+                    <span aria-hidden="true">{STEP_STATUS_LABELS[s.status].icon}</span> {STEP_STATUS_LABELS[s.status].label}
+                    {s.revision ? ` · rev. ${s.revision}` : ""}
+                  </span>
+                </NavLink>
+              </li>
+            ))}
+          </ol>
+        </nav>
+        <div className="min-w-0 flex-1">
+          <Outlet />
+        </div>
+      </div>
+    </div>
+  );
+}
+
+function stepClass({ isActive, isPending }: { isActive: boolean; isPending: boolean }) {
+  return `block whitespace-nowrap rounded border px-3 py-1.5 text-sm text-ink no-underline ${isActive ? "border-accent bg-accent-soft" : isPending ? "border-line-strong bg-canvas" : "border-transparent hover:bg-surface"}`;
+}

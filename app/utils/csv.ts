@@ -1,0 +1,26 @@
+import Papa from "papaparse";
+
+/** CSV text from a header and rows (RFC 4180 quoting by papaparse). */
+export function toCsv(header: string[], rows: (string | number | null | undefined)[][]): string {
+  return Papa.unparse({ fields: header, data: rows.map((r) => r.map((v) => (v === null || v === undefined ? "" : v))) }, { newline: "\r\n" });
+}
+
+/** Saves text as a file from the browser. */
+export function downloadText(filename: string, text: string, type = "text/csv;charset=utf-8") {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = filename;
+  a.click();
+  URL.revokeObjectURL(url);
+}
+
+/** Splits text pasted from a spreadsheet (tabs, or semicolons/commas for CSV) into cells. */
+export function parsePastedCells(text: string): string[][] {
+  const delimiter = text.includes("\t") ? "\t" : text.includes(";") ? ";" : ",";
+  return text
+    .replace(/\r\n?/g, "\n")
+    .split("\n")
+    .filter((line) => line.trim() !== "")
+    .map((line) => line.split(delimiter).map((c) => c.trim()));
+}
