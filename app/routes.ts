@@ -11,7 +11,11 @@ export default [
     ...prefix("cases", [
       index("routes/cases/list.tsx"),
       route("new", "routes/cases/new.tsx"),
-      route(":caseId", "routes/cases/overview.tsx"),
+      route(":caseId", "routes/cases/case-layout.tsx", { id: "case" }, [
+        index("routes/cases/overview.tsx"),
+        route("basis", "routes/cases/basis.tsx"),
+        route("planform", "routes/cases/planform.tsx"),
+      ]),
     ]),
     ...prefix("programmes", [
       index("routes/programmes/list.tsx"),
@@ -23,5 +27,6 @@ export default [
     route("account", "routes/account.tsx"),
   ]),
   route("dev/mailbox", "routes/dev/mailbox.tsx"),
+  route("api/planform-preview", "routes/api/planform-preview.ts"),
   route("healthz", "routes/api/healthz.ts"),
 ] satisfies RouteConfig;

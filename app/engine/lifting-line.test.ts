@@ -50,6 +50,17 @@ describe("lifting line (Glauert Fourier series)", () => {
     expect(Math.abs(r.delta - delta)).toBeLessThan(2e-5);
   });
 
+  it("straight wings agree with Helmbold's equation CLα = a0/[√(1 + (a0/πA)²) + a0/(πA)] (Helmbold 1942 [M]; REFERENCES 2.4 [C])", () => {
+    // Helmbold is an interpolation meant for low aspect ratio; at A = 6–10 it and the lifting line agree within 2.5 %.
+    for (const [A, h] of [[6, 4.52866], [8, 4.90576], [10, 5.15098]]) {
+      const st = trapezoidalWing({ span: A, rootChord: 1, taperRatio: 1 });
+      const k = (2 * Math.PI) / (Math.PI * A);
+      expect(2 * Math.PI / (Math.sqrt(1 + k * k) + k)).toBeCloseTo(h, 4);
+      const r = buildLiftingLine(st, { ...pg, resolution: 80 }).solve(unitAlpha);
+      expect(Math.abs(r.CL / h - 1)).toBeLessThan(0.025);
+    }
+  });
+
   it("converges with the number of terms (REFERENCES 2.3 convergence row, AR 6, λ 0.4 [C])", () => {
     const st = trapezoidalWing({ span: 6, rootChord: 2 / 1.4, taperRatio: 0.4 });
     const expected: [number, number][] = [

@@ -48,8 +48,11 @@ describe.each(methods)("superposition and loads ($spanwise, $rule)", (opts) => {
       const c = evaluateCase(sol, { id: "x", mach: 0.42, altitude: 0, alphaDeg: alpha });
       const d = solveAtAlpha(model, 0.42, alpha, opts);
       expect(c.CL).toBeCloseTo(d.CL, 10);
+      // Linear algebra makes the two identical; what differs is only the lattice's strip interpolation,
+      // whose integral is matched to the force sum in the superposed form (~1e-4 of the peak load).
       const scale = Math.max(...d.ccl.map(Math.abs));
-      c.cl.forEach((cl, i) => expect(Math.abs(cl * c.chord[i] - d.ccl[i]) / scale).toBeLessThan(2e-2 * Math.max(1e-3, Math.abs(c.CL))));
+      const tol = opts.spanwise === "lifting-line" ? 2e-5 : 5e-4;
+      c.cl.forEach((cl, i) => expect(Math.abs(cl * c.chord[i] - d.ccl[i]) / scale).toBeLessThan(tol));
     }
   });
 

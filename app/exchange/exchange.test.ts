@@ -74,12 +74,14 @@ describe("parseCase (spanwright.case/1)", () => {
       { id: "b", mach: 0.3, altitude: 0, weight: 50000 },
       { id: "c", mach: 0.3, altitude: 0 },
       { id: "c", mach: 0.3, altitude: 0, alpha: 1 },
+      { id: "e", mach: 0, altitude: 0, weight: 50000, nz: 1 },
     ];
     const by = Object.fromEntries(problems(d).map((x) => [x.path, x.message]));
     expect(by["cases[0].nz"]).toMatch(/either alpha or weight with nz, not both/);
     expect(by["cases[1].nz"]).toMatch(/required/);
     expect(by["cases[2].alpha"]).toMatch(/either alpha or weight with nz/);
     expect(by["cases[3].id"]).toMatch(/unique/);
+    expect(by["cases[4].mach"]).toMatch(/above 0 for a case given by weight and nz/);
   });
 
   it("reports missing and mistyped fields", () => {

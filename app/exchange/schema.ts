@@ -121,6 +121,9 @@ export const CaseFileSchema = z
           message: hasW || hasN ? "is required with the other of weight and nz" : "is required: give either alpha or weight with nz",
         });
       }
+      if (hasW && hasN && !hasAlpha && !(c.mach > 0)) {
+        ctx.addIssue({ code: "custom", path: ["cases", i, "mach"], message: "must be above 0 for a case given by weight and nz (no dynamic pressure to trim)" });
+      }
       if (seen.has(c.id)) ctx.addIssue({ code: "custom", path: ["cases", i, "id"], message: `must be unique ("${c.id}" repeats)` });
       seen.add(c.id);
     });
