@@ -24,6 +24,8 @@ export interface CaseLoads {
   /** Load factor used for inertia relief, or null for a case given by α. */
   nz: number | null;
   inertiaApplied: boolean;
+  /** Indices of output stations whose cl exceeds the section clMax. */
+  clMaxExceeded: number[];
   machCritical: number | null;
   regime: "subcritical" | "supercritical" | "unchecked";
   warnings: string[];
@@ -86,9 +88,11 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     bending[i] = q * (b.bending[i] + CL * a.bending[i]) - relief * m.bending[i];
     torsion[i] = q * (b.torsion[i] + CL * a.torsion[i]) - relief * m.torsion[i];
   }
+  const clMaxExceeded: number[] = [];
   for (let i = 0; i < n; i++) {
     const cmax = sol.clMax[i];
     if (cmax !== null && cl[i] > cmax) {
+      clMaxExceeded.push(i);
       warnings.push(`station y = ${sol.y[i].toFixed(3)} m: cl ${cl[i].toFixed(3)} exceeds the section clMax ${cmax.toFixed(3)}`);
     }
   }
@@ -112,6 +116,7 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     clAlphaPerRad: sol.clAlphaPerRad,
     nz,
     inertiaApplied: relief !== 0,
+    clMaxExceeded,
     machCritical: sol.machCritical,
     regime,
     warnings,

@@ -78,6 +78,8 @@ describe.each(methods)("superposition and loads ($spanwise, $rule)", (opts) => {
   it("flags stations above clMax and supercritical Mach numbers, still computing them", () => {
     const hi = evaluateCase(sol, { id: "hi", mach: 0.42, altitude: 0, alphaDeg: 16 });
     expect(hi.warnings.some((w) => /station y = .* exceeds the section clMax/.test(w))).toBe(true);
+    expect(hi.clMaxExceeded.length).toBeGreaterThan(0);
+    for (const i of hi.clMaxExceeded) expect(hi.cl[i]).toBeGreaterThan(sol.clMax[i]!);
     expect(hi.regime).toBe("subcritical");
     const fast = solveMach(model, 0.8, opts);
     const f = evaluateCase(fast, { id: "fast", mach: 0.8, altitude: 9000, alphaDeg: 1 });
@@ -93,6 +95,19 @@ describe.each(methods)("superposition and loads ($spanwise, $rule)", (opts) => {
 });
 
 describe("torsion, pitching moment and envelope", () => {
+  it("a point mass relieves nz·g·kg of shear inboard of it and nz·g·kg·(y_p − y) of bending (beam statics)", () => {
+    const opts: SolveOptions = { spanwise: "lifting-line", rule: "prandtl-glauert", stations: 16 };
+    const bare = solveMach({ stations }, 0.4, opts);
+    const engine = solveMach({ stations, pointMasses: [{ y: 2.9, x: 0.5, kg: 420 }] }, 0.4, opts);
+    const lc = { id: "n", mach: 0.4, altitude: 1000, weightN: 62000, nz: 2 };
+    const a = evaluateCase(bare, lc);
+    const b = evaluateCase(engine, lc);
+    expect(a.root.shear - b.root.shear).toBeCloseTo(2 * g0 * 420, 6);
+    expect(a.root.bending - b.root.bending).toBeCloseTo(2 * g0 * 420 * 2.9, 6);
+    const out = b.y.findIndex((y) => y > 2.9);
+    expect(b.shear[out]).toBeCloseTo(a.shear[out], 9);
+  });
+
   it("unswept rectangular wing with its axis on the quarter-chord line carries torsion from cm alone: T = q·c²·(cmAc/β)·s (CASE-EXCHANGE, REFERENCES §4)", () => {
     const st = trapezoidalWing({ span: 12, rootChord: 1.5, taperRatio: 1, cmAc: -0.05, alphaL0: -2 });
     const sol = solveMach({ stations: st }, 0.5, { spanwise: "lifting-line", rule: "prandtl-glauert", stations: 20 });
