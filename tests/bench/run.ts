@@ -4,6 +4,8 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import { join } from "node:path";
 import { performance } from "node:perf_hooks";
+import { LuDecomposition, Matrix } from "ml-matrix";
+import { luFactor } from "../../app/engine/linear-solve";
 import { buildLiftingLine } from "../../app/engine/lifting-line";
 import { buildVortexLattice } from "../../app/engine/vortex-lattice";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../../app/engine/envelope";
@@ -44,6 +46,7 @@ out();
 out(`- CPU: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores`);
 out(`- Memory: ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB; OS: ${os.type()} ${os.release()} (${os.arch()})`);
 out(`- Node ${process.version}`);
+out(`- Load average when the run started: ${os.loadavg().map((v) => v.toFixed(2)).join(" / ")} (1/5/15 min; the machine is shared, so other jobs can slow these numbers)`);
 out();
 out("## Spanwise solves (build + factorise + two right-hand sides)");
 out();
@@ -69,6 +72,13 @@ for (const [m, nc] of vlmRuns) {
 }
 out();
 out(`Target: a 1 200-panel vortex-lattice solve well under a second → **${ms1200.toFixed(0)} ms** (${ms1200 < 1000 ? "met" : "missed"}).`);
+{
+  const n = 1200;
+  const rows = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? n : Math.sin(i * 7.1 + j * 3.3))));
+  const tMl = time(() => new LuDecomposition(new Matrix(rows)), 2);
+  const tOwn = time(() => luFactor(Float64Array.from(rows.flat()), n), 2);
+  out(`Dense LU of 1 200 unknowns alone: engine blocked (rank-4) LU ${tOwn.toFixed(0)} ms, ml-matrix LuDecomposition ${tMl.toFixed(0)} ms.`);
+}
 out();
 
 // Envelope: 10 000 load cases over 10 Mach numbers at 41 stations.
