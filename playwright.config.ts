@@ -17,7 +17,8 @@ function alive(pid: number): boolean {
 }
 
 /**
- * A fresh data folder per run, named after the runner's PID. Playwright loads this file again in
+ * A fresh data folder per run: the one tests/run-all.ts passes in SPANWRIGHT_E2E_DATA_DIR (it removes
+ * it afterwards), or else one named after the runner's PID. Playwright loads this file again in
  * every worker, so the first load records the folder in the environment the workers inherit. Folders
  * of earlier runs whose runner is gone are removed here (the app server still uses its own until the
  * run ends, so it cannot be removed at teardown).

@@ -124,7 +124,13 @@ async function playwright(tmp: string): Promise<Outcome> {
   banner(name);
   const outcome: Outcome = { name, passed: 0, failed: 0, skipped: 0, notes: [] };
   const report = path.join(tmp, "playwright.json");
-  const result = await run(bin("playwright"), ["test", "--reporter=list,json"], { ...process.env, PLAYWRIGHT_JSON_OUTPUT_NAME: report });
+  // The app server's data folder lives in our temporary folder, so it goes when the run ends.
+  // 0711/0755: as root, PostgreSQL runs as the postgres user, which must be able to enter it.
+  fs.chmodSync(tmp, 0o711);
+  const dataDir = path.join(tmp, "e2e-data");
+  fs.mkdirSync(dataDir, { mode: 0o755 });
+  const env = { ...process.env, PLAYWRIGHT_JSON_OUTPUT_NAME: report, SPANWRIGHT_E2E_DATA_DIR: dataDir };
+  const result = await run(bin("playwright"), ["test", "--reporter=list,json"], env);
   const json = readJson<PlaywrightReport>(report);
   if (!json) {
     outcome.failed = 1;
