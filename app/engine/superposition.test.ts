@@ -117,6 +117,13 @@ describe("torsion, pitching moment and envelope", () => {
     expect(c.cm[0]).toBeCloseTo(-0.05 / Math.sqrt(0.75), 12);
   });
 
+  it("the lifting line warns when the wing is swept beyond its validity", () => {
+    const st = trapezoidalWing({ span: 17.5, rootChord: 2.6, taperRatio: 0.33, sweepQuarterChordDeg: 25 });
+    const sol = solveMach({ stations: st }, 0.5, { spanwise: "lifting-line", rule: "prandtl-glauert", stations: 10 });
+    expect(sol.warnings.join(" ")).toMatch(/vortex lattice is recommended/);
+    expect(solveMach({ stations: st }, 0.5, { spanwise: "vortex-lattice", rule: "prandtl-glauert", stations: 10 }).warnings).toEqual([]);
+  });
+
   it("wing Cm about its aerodynamic centre does not change with CL; about a point aft it rises with CL (statics)", () => {
     const sol = solveMach(model, 0.3, { spanwise: "vortex-lattice", rule: "prandtl-glauert", stations: 30 });
     const xac = wingAerodynamicCentre(sol);

@@ -76,6 +76,13 @@ describe("vortex lattice", () => {
     expect(lhs).toBeCloseTo(rhs, 6);
   });
 
+  it("DATCOM obeys the Göthert rule: CLα(M; A, Λ) = (1/β)·CLα(0; βA, Λ′) for every row of REFERENCES 2.5 (check 2.6(a) [C])", () => {
+    for (const [A, M, tanL] of [[8, 0.5, Math.tan(-0.0535)], [9.5, 0.7, 0.4031], [4, 0.6, 0.8333], [7, 0.8, 0.6228]]) {
+      const b = Math.sqrt(1 - M * M);
+      expect(datcom(A, M, tanL)).toBeCloseTo(datcom(b * A, 0, tanL / b) / b, 10);
+    }
+  });
+
   it("converges as the number of strips grows (differences shrink)", () => {
     const st = trapezoidalWing({ span: 9, rootChord: 1.4, taperRatio: 0.45, sweepQuarterChordDeg: 10 });
     const v = [20, 40, 80, 160].map((n) => vlm(st, 0.3, n).CL);
