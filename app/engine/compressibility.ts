@@ -58,9 +58,10 @@ export function criticalCp(mach: number): number {
 
 /**
  * Critical Mach number of a section from its incompressible minimum Cp under a rule:
- * the FIRST Mach number at which the corrected Cp reaches Cp*. A fine scan brackets the first
- * crossing (a point where the rule's denominator is no longer positive counts as past it,
- * since Cp → −∞ at the pole), then bisection refines it to ~1e-13.
+ * the FIRST Mach number at which the corrected Cp reaches Cp*. A scan in steps of 0.005 brackets
+ * the first crossing (a point where the rule's denominator is no longer positive counts as past it,
+ * since Cp → −∞ at the pole), then bisection refines it to ~1e-14. Below the pole the corrected Cp
+ * falls and Cp* rises with M, so the difference is monotonic and the bracket cannot skip a root.
  * @throws EngineError invalid-section unless cp0Min < 0.
  */
 export function criticalMach(rule: CompressibilityRule, cp0Min: number, field = "cpMin"): number {
@@ -70,7 +71,7 @@ export function criticalMach(rule: CompressibilityRule, cp0Min: number, field = 
     if (!(d > 0)) return -Infinity;
     return cp0Min / d - criticalCp(m);
   };
-  const steps = 2000;
+  const steps = 200;
   let lo = 1e-6;
   let hi = 1;
   for (let i = 1; i <= steps; i++) {
