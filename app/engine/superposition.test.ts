@@ -117,6 +117,16 @@ describe("torsion, pitching moment and envelope", () => {
     expect(c.cm[0]).toBeCloseTo(-0.05 / Math.sqrt(0.75), 12);
   });
 
+  it("falls back to Prandtl–Glauert scaling, with a warning, where Laitone's rule is singular at a section's working Cp", () => {
+    // Laitone's denominator at Cp0 = −0.6, M = 0.9: β + M²(1 + 0.2M²)/(2β)·Cp0 < 0 (closed form, REFERENCES 1.1).
+    const st = trapezoidalWing({ span: 14, rootChord: 2, taperRatio: 0.5 }).map((x) => ({ ...x, cpMin: -0.6 }));
+    const sol = solveMach({ stations: st }, 0.9, { spanwise: "vortex-lattice", rule: "laitone", stations: 8 });
+    expect(sol.warnings.join(" ")).toMatch(/laitone rule is singular .* Prandtl–Glauert scaling was used/);
+    expect(sol.scale[0]).toBeCloseTo(1 / Math.sqrt(1 - 0.81), 12);
+    const c = evaluateCase(sol, { id: "hs", mach: 0.9, altitude: 10000, alphaDeg: 1 });
+    expect(c.regime).toBe("supercritical");
+  });
+
   it("the lifting line warns when the wing is swept beyond its validity", () => {
     const st = trapezoidalWing({ span: 17.5, rootChord: 2.6, taperRatio: 0.33, sweepQuarterChordDeg: 25 });
     const sol = solveMach({ stations: st }, 0.5, { spanwise: "lifting-line", rule: "prandtl-glauert", stations: 10 });
