@@ -44,17 +44,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, BasisFormSchema);
-  if (!parsed.ok) return data({ ok: false, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
   const { revision, ...typed } = parsed.value;
   const si = BasisSchema.safeParse(convertFields(typed, typed.units, BASIS_QUANTITIES, "toSI"));
-  if (!si.success) return data({ ok: false, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
+  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
+  let saved: { revision: number };
   try {
-    await saveStep({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
+    saved = await saveStep({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
   } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
+    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
     throw error;
   }
-  return { ok: true, fieldErrors: {} as Record<string, string[] | undefined> };
+  return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
 }
 
 export default function BasisRoute({ loaderData, actionData }: Route.ComponentProps) {
@@ -69,7 +70,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
     <>
       <PageHeader title="Basis" description="The certification basis of the case: the rules that apply, weights, design speeds (equivalent airspeed) and altitudes." />
       <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {loaderData.revision}.</Alert></div> : null}
+      {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {actionData.revision}.</Alert></div> : null}
       {server?.revision || server?.form || server?.status ? <div className="mb-3"><Alert>{[...(server.revision ?? []), ...(server.form ?? []), ...(server.status ?? [])].join(" ")}</Alert></div> : null}
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />

@@ -57,17 +57,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, PlanformFormSchema);
-  if (!parsed.ok) return data({ ok: false, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
   const units = caseUnits(await getCaseSteps(c.id));
   const si = PlanformSchema.safeParse(toStored(parsed.value, units));
-  if (!si.success) return data({ ok: false, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
+  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
+  let saved: { revision: number };
   try {
-    await saveStep({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
+    saved = await saveStep({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
   } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
+    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
     throw error;
   }
-  return { ok: true, fieldErrors: {} as Record<string, string[] | undefined> };
+  return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
 }
 
 export default function PlanformRoute({ loaderData, actionData }: Route.ComponentProps) {
@@ -85,7 +86,7 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
     <>
       <PageHeader title="Planform" description="The wing from root to tip: stations where chord, leading edge or twist change; straight lines between them." />
       <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {loaderData.revision}.</Alert></div> : null}
+      {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {actionData.revision}.</Alert></div> : null}
       {server?.revision || server?.form || server?.status || server?.stations ? (
         <div className="mb-3"><Alert>{[...(server.revision ?? []), ...(server.form ?? []), ...(server.status ?? []), ...(server.stations ?? [])].join(" ")}</Alert></div>
       ) : null}

@@ -1,0 +1,23 @@
+import type { SectionsData } from "~/cases/step-data";
+import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+
+/** cl against α of one polar table, the fitted line and the detected linear range shaded. */
+export function sectionFitOption(table: SectionsData["tables"][number], fit: { a0: number; alphaL0: number }) {
+  const xs = table.points.map((p) => p.alpha);
+  const fitted: [number, number][] = [table.linearFrom, table.linearTo].map((a) => [a, (fit.a0 * (a - fit.alphaL0) * Math.PI) / 180]);
+  return {
+    ...baseOption(`Section at y = ${table.y.toPrecision(4)} m`),
+    xAxis: axis("Angle of attack α [°]", { min: Math.floor(Math.min(...xs)), max: Math.ceil(Math.max(...xs)) }),
+    yAxis: axis("Section lift coefficient cl [–]"),
+    series: [
+      {
+        type: "scatter" as const,
+        name: "Table",
+        data: table.points.map((p) => [p.alpha, p.cl]),
+        itemStyle: { color: SERIES_STYLE.solver.color },
+        markArea: { silent: true, itemStyle: { color: "rgba(0,114,178,0.08)" }, data: [[{ xAxis: table.linearFrom, name: "linear range" }, { xAxis: table.linearTo }]] },
+      },
+      line("Fitted a0, αL0", fitted, SERIES_STYLE["prandtl-glauert"]),
+    ],
+  };
+}

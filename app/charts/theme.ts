@@ -1,0 +1,48 @@
+/**
+ * Series styles that never change between pages and the PDF: the three compressibility rules,
+ * the solver and Schrenk's approximation each keep one colour and dash style. Colours are from the
+ * Okabe–Ito palette, chosen to stay distinct for colour-blind readers.
+ */
+export const SERIES_STYLE = {
+  "prandtl-glauert": { color: "#0072B2", type: "solid" as const, label: "Prandtl–Glauert" },
+  "karman-tsien": { color: "#D55E00", type: "dashed" as const, label: "Kármán–Tsien" },
+  laitone: { color: "#009E73", type: "dotted" as const, label: "Laitone" },
+  solver: { color: "#17202b", type: "solid" as const, label: "Spanwise solver" },
+  schrenk: { color: "#CC79A7", type: "dashed" as const, label: "Schrenk approximation" },
+  envelopeMax: { color: "#0072B2", type: "solid" as const, label: "Envelope max" },
+  envelopeMin: { color: "#D55E00", type: "solid" as const, label: "Envelope min" },
+  limit: { color: "#a82424", type: "dashed" as const, label: "Limit" },
+  neutral: { color: "#7a8694", type: "solid" as const, label: "" },
+} as const;
+
+export const CHART_FONT = "Source Sans 3, sans-serif";
+
+/** Axis settings shared by every chart: the name always carries quantity and unit. */
+export function axis(name: string, extra: Record<string, unknown> = {}) {
+  return {
+    type: "value" as const,
+    name,
+    nameLocation: "middle" as const,
+    nameGap: 34,
+    nameTextStyle: { fontFamily: CHART_FONT, fontSize: 12, color: "#4d5a69" },
+    axisLabel: { fontFamily: CHART_FONT, color: "#4d5a69" },
+    splitLine: { lineStyle: { color: "#e6eaf0" } },
+    scale: true,
+    ...extra,
+  };
+}
+
+export function baseOption(title: string) {
+  return {
+    animation: false,
+    title: { text: title, left: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 13, fontWeight: 600, color: "#17202b" } },
+    textStyle: { fontFamily: CHART_FONT },
+    grid: { left: 64, right: 20, top: 44, bottom: 48, containLabel: false },
+    legend: { top: 0, right: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 11 } },
+    tooltip: { trigger: "axis" as const, valueFormatter: (v: unknown) => (typeof v === "number" ? v.toPrecision(4) : String(v)) },
+  };
+}
+
+export function line(name: string, data: [number, number][], style: { color: string; type: "solid" | "dashed" | "dotted" }, extra: Record<string, unknown> = {}) {
+  return { type: "line" as const, name, data, showSymbol: false, lineStyle: { color: style.color, type: style.type, width: 2 }, itemStyle: { color: style.color }, ...extra };
+}

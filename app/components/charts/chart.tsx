@@ -1,0 +1,48 @@
+import { lazy, Suspense, useEffect, useRef, useState } from "react";
+import type { EChartsOption } from "echarts";
+
+// ECharts needs a browser: the server renders a sized frame and the chart appears on hydration.
+const ReactECharts = lazy(() => import("echarts-for-react"));
+
+/** One chart with hover read-outs and PNG/SVG saving; options come from app/charts builders. */
+export function Chart({ option, height = 320, label, fileName }: { option: EChartsOption; height?: number; label: string; fileName: string }) {
+  const [client, setClient] = useState(false);
+  const ref = useRef<{ getEchartsInstance(): { getDataURL(o: object): string } } | null>(null);
+  useEffect(() => setClient(true), []);
+  const save = async (type: "png" | "svg") => {
+    const a = document.createElement("a");
+    a.download = `${fileName}.${type}`;
+    if (type === "png") {
+      const instance = ref.current?.getEchartsInstance();
+      if (!instance) return;
+      a.href = instance.getDataURL({ type: "png", pixelRatio: 2, backgroundColor: "#fff" });
+    } else {
+      // The same option rendered as vectors, as the PDF report does on the server.
+      const echarts = await import("echarts");
+      const off = echarts.init(null, null, { renderer: "svg", ssr: true, width: 900, height });
+      off.setOption({ ...option, animation: false });
+      a.href = URL.createObjectURL(new Blob([off.renderToSVGString()], { type: "image/svg+xml" }));
+      off.dispose();
+    }
+    a.click();
+  };
+  return (
+    <figure aria-label={label} className="rounded border border-line bg-surface p-2">
+      <div style={{ height }}>
+        {client ? (
+          <Suspense fallback={null}>
+            <ReactECharts ref={ref as never} option={option} style={{ height, width: "100%" }} opts={{ renderer: "canvas" }} notMerge />
+          </Suspense>
+        ) : null}
+      </div>
+      <figcaption className="flex justify-end gap-2 text-xs">
+        <button type="button" className="text-accent hover:underline" onClick={() => void save("png")}>
+          Save PNG
+        </button>
+        <button type="button" className="text-accent hover:underline" onClick={() => void save("svg")}>
+          Save SVG
+        </button>
+      </figcaption>
+    </figure>
+  );
+}
