@@ -116,17 +116,27 @@ export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> 
   "lifting-line": "Lifting line (small sweep only)",
 };
 
-export const LoadCaseSchema = z.object({
-  id: z.string().trim().min(1, "Give the case an id").max(40, "A case id has at most 40 characters").regex(/^[A-Za-z0-9._\-+]+$/, "Use letters, digits and . _ - + only"),
-  kind: z.enum(["manoeuvre", "gust", "manual"]),
-  rule: z.string().max(200).default(""),
-  mach: finite("Mach").refine((v) => v >= 0 && v < 1, { message: "Mach must be at least 0 and below 1 (subsonic rules only)" }),
-  altitude: finite("Altitude").refine((v) => v >= 0 && v <= 20000, { message: "Altitude must lie between 0 and 20 000 m" }),
-  eas: finite("Equivalent airspeed").refine((v) => v > 0, { message: "Equivalent airspeed must be greater than 0" }),
-  weight: positive("Weight"),
-  nz: finite("Load factor").refine((v) => Math.abs(v) <= 15, { message: "Load factor must lie within ±15" }),
-  excluded: z.boolean().default(false),
-});
+/**
+ * One flight condition of the envelope, as the exchange format has it: Mach, altitude and either
+ * the root-chord angle of attack or the whole-aircraft weight (N) with the load factor.
+ */
+export const LoadCaseSchema = z
+  .object({
+    id: z.string().trim().min(1, "Give the case an id").max(40, "A case id has at most 40 characters").regex(/^[A-Za-z0-9._\-+]+$/, "Use letters, digits and . _ - + only"),
+    kind: z.enum(["manoeuvre", "gust", "manual"]),
+    rule: z.string().max(200).default(""),
+    mach: finite("Mach").refine((v) => v >= 0 && v < 1, { message: "Mach must be at least 0 and below 1 (subsonic rules only)" }),
+    altitude: finite("Altitude").refine((v) => v >= 0 && v <= 20000, { message: "Altitude must lie between 0 and 20 000 m" }),
+    alpha: finite("Angle of attack").refine((v) => Math.abs(v) <= 30, { message: "Angle of attack must lie within ±30°" }).optional(),
+    weight: positive("Weight").optional(),
+    nz: finite("Load factor").refine((v) => Math.abs(v) <= 15, { message: "Load factor must lie within ±15" }).optional(),
+    excluded: z.boolean().default(false),
+  })
+  .superRefine((c, ctx) => {
+    const trimmed = c.weight !== undefined && c.nz !== undefined;
+    if (c.alpha === undefined && !trimmed) ctx.addIssue({ code: "custom", path: [c.weight === undefined ? "weight" : "nz"], message: `Case ${c.id}: give the weight and load factor, or an angle of attack` });
+    if (c.alpha !== undefined && (c.weight !== undefined || c.nz !== undefined)) ctx.addIssue({ code: "custom", path: ["alpha"], message: `Case ${c.id}: give an angle of attack or weight and load factor, not both` });
+  });
 export type LoadCase = z.output<typeof LoadCaseSchema>;
 
 export const EnvelopeSchema = z
