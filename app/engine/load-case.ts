@@ -1,4 +1,4 @@
-import { dynamicPressure, isa } from "./atmosphere";
+import { ISA, isa } from "./atmosphere";
 import { EngineError } from "./errors";
 import type { MachSolution } from "./superposition";
 import { DEG } from "./spanwise";
@@ -52,7 +52,7 @@ export interface CaseLoads {
 export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): CaseLoads {
   if (lc.mach !== sol.mach) throw new EngineError("invalid-argument", `Mach ${lc.mach} was given a solution for Mach ${sol.mach}`, `${field}.mach`);
   const atm = isa(lc.altitude, `${field}.altitude`);
-  const q = dynamicPressure(lc.mach, atm.altitude);
+  const q = 0.5 * ISA.gamma * atm.pressure * lc.mach * lc.mach;
   const S = sol.geometry.area;
   const warnings = [...sol.warnings];
   let CL: number;

