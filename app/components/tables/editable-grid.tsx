@@ -6,6 +6,8 @@ import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 export interface GridColumn {
   key: string;
   label: string;
+  /** "number" (default, right-aligned), "text", or "checkbox". */
+  type?: "number" | "text" | "checkbox";
 }
 
 interface Props {
@@ -82,6 +84,9 @@ export function EditableGrid(props: Props) {
           const messages = props.serverErrors?.[name] ?? [];
           const clientError = (props.errors?.[props.name] as unknown as Record<number, Record<string, { message?: string }>> | undefined)?.[c.row.index]?.[col.key]?.message;
           const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
+          if (col.type === "checkbox") {
+            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...props.register(name as never)} />;
+          }
           return (
             <div>
               <input
@@ -89,8 +94,8 @@ export function EditableGrid(props: Props) {
                 aria-label={`${col.label}, row ${c.row.index + 1}`}
                 aria-invalid={all.length > 0}
                 title={all.join(" ")}
-                inputMode="decimal"
-                className="w-full min-w-16 rounded border border-line px-1.5 py-0.5 text-right tabular aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft"
+                inputMode={col.type === "text" ? "text" : "decimal"}
+                className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${col.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
                 {...props.register(name as never)}
                 onKeyDown={onKeyDown(c.row.index, j)}
                 onPaste={onPaste(c.row.index, j)}

@@ -1,0 +1,63 @@
+import type { CompressibilityRule } from "~/engine";
+import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+
+export interface DistributionSeries {
+  y: number[];
+  loading: { solver: number[]; schrenk: number[] };
+  cl: number[];
+  clMax: (number | null)[];
+  cm: number[];
+  stationMachCritical: (number | null)[];
+  mach: number;
+  rules: { rule: CompressibilityRule; cl: number[]; cm: number[] }[];
+  spanwise: string;
+}
+
+const zip = (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[v, y[i] as number] as [number, number]]));
+const spanAxis = () => axis("Spanwise station y [m]", { min: 0 });
+
+/** Spanwise loading c·cl/(c̄·CL): the solver against Schrenk's approximation. */
+export function loadingOption(d: DistributionSeries) {
+  return {
+    ...baseOption("Spanwise loading"),
+    xAxis: spanAxis(),
+    yAxis: axis("c·cl/(c̄·CL) [–]", { min: 0 }),
+    series: [
+      line(`${d.spanwise === "lifting-line" ? "Lifting line" : "Vortex lattice"}`, zip(d.y, d.loading.solver), SERIES_STYLE.solver),
+      line(SERIES_STYLE.schrenk.label, zip(d.y, d.loading.schrenk), SERIES_STYLE.schrenk),
+    ],
+  };
+}
+
+/** Section lift coefficient with the section clmax where given. */
+export function clOption(d: DistributionSeries) {
+  return {
+    ...baseOption("Section lift coefficient"),
+    xAxis: spanAxis(),
+    yAxis: axis("cl [–]"),
+    series: [line("cl", zip(d.y, d.cl), SERIES_STYLE.solver), line("clmax", zip(d.y, d.clMax), SERIES_STYLE.limit)],
+  };
+}
+
+/** The same case under each compressibility rule: cl (or cm) along the span, fixed colours per rule. */
+export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm") {
+  return {
+    ...baseOption(quantity === "cl" ? "Section cl by compressibility rule" : "Section cm (quarter chord) by compressibility rule"),
+    xAxis: spanAxis(),
+    yAxis: axis(quantity === "cl" ? "cl [–]" : "cm,c/4 [–]"),
+    series: d.rules.map((r) => line(SERIES_STYLE[r.rule].label, zip(d.y, r[quantity]), SERIES_STYLE[r.rule])),
+  };
+}
+
+/** Each station's critical Mach number against the case Mach number. */
+export function machCriticalOption(d: DistributionSeries) {
+  return {
+    ...baseOption("Critical Mach number along the span"),
+    xAxis: spanAxis(),
+    yAxis: axis("Mach number [–]"),
+    series: [
+      line("Station critical Mach", zip(d.y, d.stationMachCritical), SERIES_STYLE.solver),
+      line("Case Mach", [[0, d.mach], [d.y[d.y.length - 1] ?? 0, d.mach]], SERIES_STYLE.limit),
+    ],
+  };
+}

@@ -1,0 +1,27 @@
+import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+
+export type LoadQuantity = "shear" | "bending" | "torsion";
+
+const TITLES: Record<LoadQuantity, string> = { shear: "Shear force", bending: "Bending moment", torsion: "Torsion (nose up positive)" };
+
+/**
+ * One internal load along the span: the chosen case and the envelope (max and min over all cases).
+ * `scale` converts SI to the display unit named in `unit`.
+ */
+export function loadsOption(
+  quantity: LoadQuantity,
+  data: { y: number[]; caseValues?: number[]; caseId?: string; max: number[]; min: number[] },
+  unit: { symbol: string; scale: (si: number) => number },
+) {
+  const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [y, unit.scale(v[i]!)]);
+  return {
+    ...baseOption(TITLES[quantity]),
+    xAxis: axis("Spanwise station y [m]", { min: 0 }),
+    yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
+    series: [
+      line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),
+      line(SERIES_STYLE.envelopeMin.label, pts(data.min), SERIES_STYLE.envelopeMin),
+      ...(data.caseValues ? [line(`Case ${data.caseId}`, pts(data.caseValues), { color: SERIES_STYLE.solver.color, type: "dashed" as const })] : []),
+    ],
+  };
+}

@@ -1,0 +1,41 @@
+import type { VnPoint } from "~/engine";
+import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+
+/**
+ * The V–n diagram of one weight and altitude: the stall lines (n = ½ρ0V²S·CLmax/W), the manoeuvre
+ * limits between their corner points, and the gust lines from (0, 1) to the gust points.
+ */
+export function vnOption(title: string, points: VnPoint[], stall: { area: number; clMax: number; clMaxNegative: number; weightN: number }, speedUnit: { symbol: string; fromSI: (v: number) => number }) {
+  const p = Object.fromEntries(points.map((pt) => [pt.name, pt]));
+  const s = (v: number) => speedUnit.fromSI(v);
+  const stallLine = (cl: number, toV: number): [number, number][] => {
+    const out: [number, number][] = [];
+    for (let i = 0; i <= 40; i++) {
+      const v = (toV * i) / 40;
+      out.push([s(v), (0.5 * 1.225 * v * v * stall.area * cl) / stall.weightN]);
+    }
+    return out;
+  };
+  const pts = (names: string[]): [number, number][] => names.filter((n) => p[n]).map((n) => [s(p[n]!.veas), p[n]!.nz]);
+  const gust = (name: string): [number, number][] => (p[name] ? [[0, 1], [s(p[name]!.veas), p[name]!.nz]] : []);
+  return {
+    ...baseOption(title),
+    xAxis: axis(`Equivalent airspeed [${speedUnit.symbol}]`, { min: 0 }),
+    yAxis: axis("Load factor nz [–]"),
+    tooltip: { trigger: "item" as const },
+    series: [
+      line("Positive stall line", stallLine(stall.clMax, p.A?.veas ?? 0), SERIES_STYLE["prandtl-glauert"]),
+      line("Negative stall line", stallLine(stall.clMaxNegative, p.H?.veas ?? 0), SERIES_STYLE["prandtl-glauert"]),
+      line("Manoeuvre envelope", pts(["A", "D", "E", "F", "H"]), SERIES_STYLE.solver),
+      line("Gust lines", [...gust("gust+VC"), [NaN, NaN] as [number, number], ...gust("gust-VC"), [NaN, NaN] as [number, number], ...gust("gust+VD"), [NaN, NaN] as [number, number], ...gust("gust-VD")], SERIES_STYLE["karman-tsien"], { connectNulls: false }),
+      {
+        type: "scatter" as const,
+        name: "Load cases",
+        data: points.filter((pt) => pt.name !== "S").map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule}` })),
+        itemStyle: { color: SERIES_STYLE.solver.color },
+        label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "top" as const, fontSize: 10 },
+        tooltip: { formatter: (d: { name: string; value: number[] }) => `${d.name}<br/>V = ${d.value[0]!.toFixed(1)} ${speedUnit.symbol}, n = ${d.value[1]!.toFixed(3)}` },
+      },
+    ],
+  };
+}

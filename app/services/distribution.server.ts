@@ -1,0 +1,75 @@
+import type { DistributionData } from "~/cases/step-data";
+import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
+import { wingModelOf, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
+import { parseOrThrow } from "./analysis.server";
+
+export interface CaseFlag {
+  id: string;
+  reasons: string[];
+}
+
+/** Cases the engineer must disposition: above the critical Mach number, or with stations over clMax. */
+export function flaggedCases(result: CaseResult): CaseFlag[] {
+  return result.cases
+    .map((c) => ({
+      id: c.id,
+      reasons: [
+        ...(c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : []),
+        ...c.warnings.filter((w) => w.includes("exceeds the section clMax")),
+      ],
+    }))
+    .filter((f) => f.reasons.length > 0);
+}
+
+/** Flagged cases still without a disposition (exclude, or justify with a comment). */
+export function undispositioned(flags: CaseFlag[], distribution: DistributionData | null): string[] {
+  return flags.filter((f) => !distribution?.dispositions[f.id]).map((f) => f.id);
+}
+
+const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laitone"];
+
+/**
+ * Everything the distribution page plots for one case: the solver's spanwise loading beside
+ * Schrenk's approximation, section cl and cm, the same case under each of the three
+ * compressibility rules, and each station's critical Mach number against the case Mach number.
+ */
+export function distributionView(input: CaseFileInput, caseId: string) {
+  const file: CaseFile = parseOrThrow(input);
+  const lc = file.cases.find((c) => c.id === caseId) ?? file.cases[0]!;
+  const model = wingModelOf(file);
+  const loadCase = lc.alpha !== undefined ? { id: lc.id, mach: lc.mach, altitude: lc.altitude, alphaDeg: lc.alpha } : { id: lc.id, mach: lc.mach, altitude: lc.altitude, weightN: lc.weight!, nz: lc.nz! };
+  const byRule = RULES.map((rule) => {
+    const sol = solveMach(model, lc.mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations });
+    const loads = evaluateCase(sol, loadCase);
+    return { rule, sol, loads };
+  });
+  const chosen = byRule.find((r) => r.rule === file.method.compressibility)!;
+  const { sol, loads } = chosen;
+  const meanChord = sol.geometry.meanGeometricChord;
+  const schrenk = schrenkDistribution(model.stations, sol.y);
+  const CL = loads.CL;
+  const ratio = (basic: number[], additional: number[]) => basic.map((b, i) => (CL !== 0 ? (b + CL * additional[i]!) / (meanChord * CL) : additional[i]! / meanChord));
+  return {
+    caseId: lc.id,
+    mach: lc.mach,
+    altitude: lc.altitude,
+    rule: file.method.compressibility,
+    spanwise: file.method.spanwise,
+    CL,
+    alphaDeg: loads.alphaDeg,
+    regime: loads.regime,
+    machCritical: loads.machCritical,
+    warnings: loads.warnings,
+    y: sol.y,
+    chord: sol.chord,
+    loading: { solver: ratio(sol.cclBasic, sol.cclAdditional), schrenk: ratio(schrenk.cclBasic, schrenk.cclAdditional) },
+    cl: loads.cl,
+    clMax: sol.clMax,
+    cm: loads.cm,
+    stationMachCritical: sol.stationMachCritical,
+    rules: byRule.map((r) => ({ rule: r.rule, cl: r.loads.cl, cm: r.loads.cm, CL: r.loads.CL, clAlpha: r.sol.clAlphaPerRad, machCritical: r.sol.machCritical })),
+    cases: file.cases.map((c) => c.id),
+  };
+}
+
+export type DistributionView = ReturnType<typeof distributionView>;
