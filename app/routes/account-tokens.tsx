@@ -1,0 +1,151 @@
+import { useState } from "react";
+import { data, Form, Link, useNavigation } from "react-router";
+import { createApiToken, listApiTokens, revokeApiToken } from "~/auth/api-auth.server";
+import { requireUser } from "~/auth/auth.server";
+import { TextField } from "~/components/forms/field";
+import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
+import { Button } from "~/components/ui/button";
+import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { DomainError } from "~/services/organisation.server";
+import { formatUtc } from "~/utils/format";
+import { parseBody } from "~/utils/http.server";
+import type { Route } from "./+types/account-tokens";
+import { CreateTokenSchema, TokenActionSchema } from "./account-tokens.schema";
+
+type ActionResult = { created?: { name: string; token: string }; revoked?: boolean; fieldErrors?: Record<string, string[] | undefined> };
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const current = await requireUser(request);
+  return { organisation: current.organisation.name, tokens: await listApiTokens(current.user.id) };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const current = await requireUser(request);
+  const parsed = await parseBody(request, TokenActionSchema);
+  if (!parsed.ok) return data<ActionResult>({ fieldErrors: parsed.fieldErrors }, { status: 400 });
+  try {
+    if (parsed.value.intent === "create") {
+      // The token belongs to the organisation the person is working in now.
+      const { token } = await createApiToken({ userId: current.user.id, organisationId: current.organisation.id, name: parsed.value.name, actor: current.user });
+      return data<ActionResult>({ created: { name: parsed.value.name, token } });
+    }
+    await revokeApiToken({ tokenId: parsed.value.tokenId, userId: current.user.id, actor: current.user });
+    return data<ActionResult>({ revoked: true });
+  } catch (error) {
+    if (error instanceof DomainError) return data<ActionResult>({ fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
+    throw error;
+  }
+}
+
+export default function AccountTokensRoute({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <>
+      <PageHeader
+        title="API tokens"
+        description={
+          <>
+            Personal tokens let scripts and other programs use the <Link to="/api">Spanwright API</Link> as you, in {loaderData.organisation}, with your roles. Treat a
+            token like a password; revoke it when it is no longer needed.
+          </>
+        }
+      />
+      <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
+        <TokenList tokens={loaderData.tokens} />
+        <div className="space-y-5">
+          {actionData?.created ? <NewToken {...actionData.created} /> : null}
+          <CreateTokenForm serverErrors={actionData?.fieldErrors} />
+        </div>
+      </div>
+    </>
+  );
+}
+
+function TokenList({ tokens }: { tokens: Route.ComponentProps["loaderData"]["tokens"] }) {
+  const busy = useNavigation().state === "submitting";
+  if (tokens.length === 0) return <EmptyState title="No tokens yet">Create one with the form to call the API from a script.</EmptyState>;
+  return (
+    <div className="overflow-x-auto rounded border border-line bg-surface">
+      <table className="w-full text-left text-sm">
+        <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
+          <tr>
+            <th className="px-3 py-2">Name</th>
+            <th className="px-3 py-2">Starts with</th>
+            <th className="px-3 py-2">Created</th>
+            <th className="px-3 py-2">Last used</th>
+            <th className="px-3 py-2">State</th>
+            <th className="px-3 py-2" />
+          </tr>
+        </thead>
+        <tbody>
+          {tokens.map((t) => (
+            <tr key={t.id} className="border-b border-line last:border-0">
+              <td className="px-3 py-2 font-semibold">{t.name}</td>
+              <td className="px-3 py-2 font-mono text-xs">{t.prefix}…</td>
+              <td className="px-3 py-2">{formatUtc(t.createdAt)}</td>
+              <td className="px-3 py-2">{t.lastUsedAt ? formatUtc(t.lastUsedAt) : "never"}</td>
+              <td className="px-3 py-2">{t.revokedAt ? `revoked ${formatUtc(t.revokedAt)}` : `active · ${t.organisationName}`}</td>
+              <td className="px-3 py-2 text-right">
+                {t.revokedAt ? null : (
+                  <Form method="post">
+                    <input type="hidden" name="intent" value="revoke" />
+                    <input type="hidden" name="tokenId" value={t.id} />
+                    <Button type="submit" variant="danger" disabled={busy} aria-label={`Revoke token ${t.name}`}>
+                      Revoke
+                    </Button>
+                  </Form>
+                )}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function NewToken({ name, token }: { name: string; token: string }) {
+  const [copied, setCopied] = useState(false);
+  return (
+    <Panel title="New token">
+      <Alert tone="warn">Copy the token “{name}” now: it is shown only once and cannot be shown again.</Alert>
+      <output aria-label="New API token" className="mt-3 block break-all rounded border border-line-strong bg-canvas px-2.5 py-1.5 font-mono text-sm">
+        {token}
+      </output>
+      <Button
+        type="button"
+        variant="secondary"
+        className="mt-3"
+        onClick={() => {
+          void navigator.clipboard.writeText(token).then(() => setCopied(true));
+        }}
+      >
+        {copied ? "Copied" : "Copy token"}
+      </Button>
+    </Panel>
+  );
+}
+
+function CreateTokenForm({ serverErrors }: { serverErrors?: Record<string, string[] | undefined> }) {
+  const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "" });
+  const busy = useNavigation().state === "submitting";
+  return (
+    <Panel title="Create a token">
+      <Form method="post" onSubmit={onSubmit} noValidate>
+        {serverErrors?.form ? (
+          <div className="mb-3">
+            <Alert>{serverErrors.form.join(" ")}</Alert>
+          </div>
+        ) : null}
+        <input type="hidden" {...form.register("intent")} />
+        <TextField label="Name" hint="What will use it, e.g. “nightly loads export”" {...form.register("name")} errors={errorsFor(form, serverErrors, "name")} />
+        <Button type="submit" disabled={busy}>
+          Create token
+        </Button>
+      </Form>
+    </Panel>
+  );
+}
+
+export function meta() {
+  return [{ title: "API tokens · Spanwright" }];
+}

@@ -1,0 +1,34 @@
+import { requireApiUser } from "~/auth/api-auth.server";
+import { resultToCsv } from "~/exchange";
+import { exportCase, resultsFor } from "~/services/analysis.server";
+import { getCase } from "~/services/programmes.server";
+import type { Route } from "./+types/case-results";
+import { filenameOf } from "./case-export";
+import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
+
+/**
+ * GET /api/v1/cases/:caseId/results — the `spanwright.result/1` document of the case's exported
+ * input (computed once per input and engine version, then served from storage);
+ * `?format=csv` gives every case's station table as CSV instead.
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  return apiHandler(async () => {
+    const current = await requireApiUser(request, "case:read");
+    const format = new URL(request.url).searchParams.get("format") ?? "json";
+    if (format !== "json" && format !== "csv") {
+      return Response.json({ error: "bad-request", message: `format must be "json" or "csv" (got "${format}").` }, { status: 400 });
+    }
+    const found = await getCase(current.organisation.id, params.caseId);
+    if (!found) return notFoundJson("The case");
+    const { result, inputHash } = await resultsFor(found.case.id, await exportCase(found.case.id, found.case.title), current.user.id);
+    const headers = { "X-Spanwright-Input-Sha256": inputHash };
+    if (format === "json") return Response.json(result, { headers });
+    return new Response(resultToCsv(result), {
+      headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${filenameOf(found.case.reference)}-results.csv"` },
+    });
+  });
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  return methodNotAllowed(request, "GET");
+}

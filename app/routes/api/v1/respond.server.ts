@@ -1,0 +1,80 @@
+import { apiError } from "~/auth/api-auth.server";
+import { isEngineError } from "~/engine";
+import { DomainError } from "~/services/organisation.server";
+
+/** Largest request body the API reads (bytes): a case file of 100 000 load cases stays well inside it. */
+export const MAX_BODY_BYTES = 20 * 1024 * 1024;
+
+/** What a DomainError status means, as the `error` code of the JSON body. */
+const ERROR_CODES: Record<number, string> = { 400: "bad-request", 403: "forbidden", 404: "not-found", 409: "conflict", 413: "too-large", 422: "invalid-case" };
+
+/**
+ * Runs an API handler and turns every failure into the API's JSON `{ error, message }` answer:
+ * Responses thrown by the auth helpers pass through, domain and engine errors keep their status,
+ * anything unexpected is logged once and answered 500 without its stack.
+ */
+export async function apiHandler(fn: () => Promise<Response>): Promise<Response> {
+  try {
+    return await fn();
+  } catch (error) {
+    if (error instanceof Response) return error;
+    if (error instanceof DomainError) return apiError(error.status, ERROR_CODES[error.status] ?? "error", error.message);
+    if (isEngineError(error)) return apiError(422, "invalid-case", error.message);
+    console.error("API request failed", error);
+    return apiError(500, "internal", "The server failed to answer this request. It has been logged; try again or report it.");
+  }
+}
+
+export function notFoundJson(what: string): Response {
+  return apiError(404, "not-found", `${what} was not found, or you have no access to it.`);
+}
+
+/** For a method the route does not answer (GET on a POST-only endpoint and the reverse). */
+export function methodNotAllowed(request: Request, allowed: string): Response {
+  return apiError(405, "method-not-allowed", `${request.method} is not answered here; use ${allowed}.`, { Allow: allowed });
+}
+
+/**
+ * Reads a JSON request body of at most MAX_BODY_BYTES, refusing a larger one with 413 as soon as
+ * it is known to be larger (by Content-Length, or while streaming when that header is absent).
+ * @throws Response 413 (too large), 415 (not JSON), 400 (unreadable JSON)
+ */
+export async function readJsonBody(request: Request): Promise<unknown> {
+  const type = request.headers.get("Content-Type");
+  if (type && !/^application\/(?:[\w.+-]+\+)?json\b/i.test(type)) {
+    throw apiError(415, "unsupported-media-type", "Send the body as JSON (Content-Type: application/json).");
+  }
+  const tooLarge = () => apiError(413, "too-large", `The request body is larger than ${MAX_BODY_BYTES / (1024 * 1024)} MB.`);
+  const declared = Number(request.headers.get("Content-Length") ?? NaN);
+  if (declared > MAX_BODY_BYTES) throw tooLarge();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  if (request.body) {
+    const reader = request.body.getReader();
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      size += value.byteLength;
+      if (size > MAX_BODY_BYTES) {
+        await reader.cancel();
+        throw tooLarge();
+      }
+      chunks.push(value);
+    }
+  }
+  const text = new TextDecoder().decode(Buffer.concat(chunks));
+  if (!text.trim()) throw apiError(400, "invalid-json", "The request body is empty; send a JSON document.");
+  try {
+    return JSON.parse(text) as unknown;
+  } catch (error) {
+    throw apiError(400, "invalid-json", `The request body is not valid JSON: ${(error as Error).message}`);
+  }
+}
+
+/** Problems of a bad exchange document, as the API answers them: 422 naming every field. */
+export function invalidCase(problems: { path: string; message: string }[]): Response {
+  return Response.json(
+    { error: "invalid-case", message: problems.map((p) => `${p.path}: ${p.message}`).join("; "), problems },
+    { status: 422 },
+  );
+}

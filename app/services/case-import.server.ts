@@ -1,0 +1,150 @@
+import { and, eq } from "drizzle-orm";
+import type { z } from "zod";
+import { STEP_SCHEMAS } from "~/cases/step-data";
+import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
+import { db } from "~/db/client.server";
+import { caseSteps, cases, programmes, stepRevisions, type StepKey } from "~/db/schema";
+import { formatPath, parseCase, type CaseFile, type CaseProblem } from "~/exchange";
+import { DomainError } from "./organisation.server";
+
+type Actor = { id: string; email: string };
+
+/** Refusal of an import: every problem found, each with its path in the exchange document. */
+export class CaseImportError extends DomainError {
+  constructor(readonly problems: CaseProblem[]) {
+    super(problems.map((p) => `${p.path}: ${p.message}`).join("; "), problems[0]?.path, 422);
+  }
+}
+
+type ImportedSteps = { planform: unknown; sections: unknown; envelope: unknown; loads: unknown };
+
+/**
+ * The steps a `spanwright.case/1` document fills: stations → planform and section data, method and
+ * cases → envelope (each case "manual", rule "imported"), mass → loads. The certification basis is
+ * not part of the exchange format and stays unsaved.
+ */
+export function stepsFromCaseFile(file: CaseFile): ImportedSteps {
+  const stations = file.wing.stations;
+  return {
+    planform: {
+      stations: stations.map((s) => ({ y: s.y, xLe: s.xLe, chord: s.chord, twist: s.twist })),
+      axisRoot: file.wing.axis.rootChordFraction,
+      axisTip: file.wing.axis.tipChordFraction,
+    },
+    sections: {
+      rows: stations.map((s) => ({
+        y: s.y,
+        a0: s.a0,
+        alphaL0: s.alphaL0,
+        cmAc: s.cmAc,
+        ...(s.clMax !== undefined ? { clMax: s.clMax } : {}),
+        ...(s.cpMin !== undefined ? { cpMin: s.cpMin } : {}),
+      })),
+      // The sections step knows typed and uploaded data only; the audit entry records the import.
+      source: { kind: "typed" },
+      tables: [],
+    },
+    envelope: {
+      compressibility: file.method.compressibility,
+      spanwise: file.method.spanwise,
+      stations: file.method.stations,
+      cases: file.cases.map((c) => ({
+        id: c.id,
+        kind: "manual",
+        rule: "imported",
+        mach: c.mach,
+        altitude: c.altitude,
+        ...(c.alpha !== undefined ? { alpha: c.alpha } : { weight: c.weight, nz: c.nz }),
+        excluded: false,
+      })),
+    },
+    loads: { semispanMass: file.wing.mass?.kg ?? 0 },
+  };
+}
+
+// Where a step field came from in the exchange document, so a refusal names the field the caller wrote.
+function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): string {
+  const [head, index, ...rest] = path;
+  switch (step) {
+    case "planform":
+      if (head === "stations") return formatPath(["wing", "stations", ...(index === undefined ? [] : [index]), ...rest]);
+      if (head === "axisRoot") return "wing.axis.rootChordFraction";
+      if (head === "axisTip") return "wing.axis.tipChordFraction";
+      return "wing";
+    case "sections":
+      if (head === "rows") return formatPath(["wing", "stations", ...(index === undefined ? [] : [index]), ...rest]);
+      return "wing.stations";
+    case "envelope":
+      if (head === "cases") return formatPath(["cases", ...(index === undefined ? [] : [index]), ...rest]);
+      if (head === "stations") return "method.stations";
+      if (head === "compressibility" || head === "spanwise") return `method.${head}`;
+      return "method";
+    case "loads":
+      return "wing.mass.kg";
+  }
+}
+
+/**
+ * Validates an exchange document for import: first by the contract (`parseCase`), then by the
+ * stricter rules of the steps it fills (for example at most 60 stations, twist within ±20°,
+ * 8–200 output stations, case ids of letters, digits and . _ - +). Returns every problem found.
+ */
+export function validateImport(json: unknown): { ok: true; file: CaseFile; steps: Record<keyof ImportedSteps, Record<string, unknown>> } | { ok: false; problems: CaseProblem[] } {
+  const parsed = parseCase(json);
+  if (!parsed.ok) return { ok: false, problems: parsed.problems };
+  const mapped = stepsFromCaseFile(parsed.value);
+  const problems: CaseProblem[] = [];
+  const steps = {} as Record<keyof ImportedSteps, Record<string, unknown>>;
+  for (const key of Object.keys(mapped) as (keyof ImportedSteps)[]) {
+    const result = (STEP_SCHEMAS[key] as z.ZodType).safeParse(mapped[key]);
+    if (result.success) steps[key] = result.data as Record<string, unknown>;
+    else for (const issue of result.error.issues) problems.push({ path: documentPath(key, issue.path), message: issue.message });
+  }
+  return problems.length ? { ok: false, problems } : { ok: true, file: parsed.value, steps };
+}
+
+/**
+ * Creates a case from a `spanwright.case/1` document, with its planform, sections, envelope and
+ * loads steps at revision 1 (draft), in ONE transaction with an audit entry for the case and for
+ * each step: a refusal (bad document, unknown programme, reference taken) writes nothing.
+ * The case title is `title`, else the document's title, else the reference.
+ * @throws CaseImportError (422) naming every bad field; DomainError for programme or reference.
+ */
+export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; actor: Actor }) {
+  const checked = validateImport(input.document);
+  if (!checked.ok) throw new CaseImportError(checked.problems);
+  const title = input.title ?? checked.file.title ?? input.reference;
+  return db.transaction(async (tx) => {
+    const [programme] = await tx
+      .select()
+      .from(programmes)
+      .where(and(eq(programmes.id, input.programmeId), eq(programmes.organisationId, input.organisationId)));
+    if (!programme) throw new DomainError("Choose one of your organisation's programmes.", "programmeId", 404);
+    const [clash] = await tx
+      .select({ id: cases.id })
+      .from(cases)
+      .where(and(eq(cases.programmeId, programme.id), eq(cases.reference, input.reference)));
+    if (clash) throw new DomainError(`Programme ${programme.code} already has a case ${input.reference}.`, "reference", 409);
+    const [row] = await tx
+      .insert(cases)
+      .values({ organisationId: input.organisationId, programmeId: programme.id, reference: input.reference, title, description: "", createdBy: input.actor.id })
+      .returning();
+    await writeAudit(tx, { organisationId: input.organisationId, actor: input.actor, action: "case.import", entityType: "case", entityId: row!.id, after: row });
+    for (const step of Object.keys(checked.steps) as (keyof ImportedSteps & StepKey)[]) {
+      const data = checked.steps[step];
+      const hash = sha256Hex(canonicalJson(data));
+      await tx.insert(caseSteps).values({ caseId: row!.id, step, revision: 1, status: "draft", data, updatedBy: input.actor.id });
+      await tx.insert(stepRevisions).values({ caseId: row!.id, step, revision: 1, data, hash, createdBy: input.actor.id });
+      await writeAudit(tx, {
+        organisationId: input.organisationId,
+        actor: input.actor,
+        action: `step.${step}.save`,
+        entityType: "case",
+        entityId: row!.id,
+        before: null,
+        after: { revision: 1, hash, data, source: "import" },
+      });
+    }
+    return row!;
+  });
+}
