@@ -37,8 +37,8 @@ export function baseOption(title: string) {
     animation: false,
     title: { text: title, left: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 13, fontWeight: 600, color: "#17202b" } },
     textStyle: { fontFamily: CHART_FONT },
-    grid: { left: 64, right: 20, top: 44, bottom: 48, containLabel: false },
-    legend: { top: 0, right: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 11 } },
+    grid: { left: 64, right: 20, top: 62, bottom: 48, containLabel: false },
+    legend: { top: 22, left: 0, itemWidth: 18, textStyle: { fontFamily: CHART_FONT, fontSize: 11 } },
     tooltip: { trigger: "axis" as const, valueFormatter: (v: unknown) => (typeof v === "number" ? v.toPrecision(4) : String(v)) },
   };
 }

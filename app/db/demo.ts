@@ -49,3 +49,47 @@ export const DEMO_CASES = [
   { programme: "KF60", reference: "TN-WL-002", title: "Wing loads, increased MTOW study", description: "Empty case: the blank path for a new study." },
   { programme: "NA14", reference: "SK-L-07", title: "Outer wing loads", description: "Northmoor's case." },
 ] as const;
+
+/**
+ * Inputs of the demo case TN-WL-001, invented for the KF-60 Tern: a cranked, tapered wing of
+ * 17.4 m span. SI units; the load cases are generated from the basis at seed time.
+ */
+export const DEMO_CASE_INPUTS = {
+  basis: {
+    units: "SI",
+    category: "part23-commuter",
+    regulations: "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341 (amendment level before 23-64), as agreed in the KF-60 certification basis (demo)",
+    mtow: 6350,
+    mzfw: 5900,
+    minWeight: 4300,
+    vs1: 42,
+    va: 76,
+    vc: 110,
+    vd: 150,
+    altitudes: [0, 3000, 6000],
+    wingArea: 27.6,
+    clMax: 1.45,
+    clMaxNegative: -0.9,
+  },
+  planform: {
+    stations: [
+      { y: 0, xLe: 0, chord: 2.1, twist: 0 },
+      { y: 3.2, xLe: 0.12, chord: 1.8, twist: -1 },
+      { y: 8.7, xLe: 0.55, chord: 0.95, twist: -3 },
+    ],
+    axisRoot: 0.35,
+    axisTip: 0.35,
+  },
+  sections: {
+    rows: [
+      { y: 0, a0: 6.05, alphaL0: -2.2, cmAc: -0.055, clMax: 1.72, cpMin: -0.62 },
+      { y: 3.2, a0: 6.0, alphaL0: -2.0, cmAc: -0.05, clMax: 1.66, cpMin: -0.6 },
+      { y: 8.7, a0: 5.9, alphaL0: -1.6, cmAc: -0.04, clMax: 1.5, cpMin: -0.55 },
+    ],
+    source: { kind: "typed" },
+    tables: [],
+  },
+  method: { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 },
+  loads: { semispanMass: 310 },
+  justification: "Demo disposition: the case lies on the stall line, where local clmax near the tip is reached by definition; kept so that the envelope covers the stall boundary.",
+} as const;

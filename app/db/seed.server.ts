@@ -2,7 +2,11 @@ import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth/password.server";
 import { writeAudit } from "./audit.server";
 import type { Db } from "./client.server";
-import { DEMO_CASES, DEMO_ORGANISATIONS, DEMO_PROGRAMMES, DEMO_USERS } from "./demo";
+import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
+import { getCaseSteps, saveStep } from "~/services/case-steps.server";
+import { flaggedCases } from "~/services/distribution.server";
+import { generatedCases, vnSets } from "~/services/envelope.server";
+import { DEMO_CASE_INPUTS, DEMO_CASES, DEMO_ORGANISATIONS, DEMO_PROGRAMMES, DEMO_USERS } from "./demo";
 import { cases, memberships, organisations, programmes, users } from "./schema";
 
 /**
@@ -63,5 +67,33 @@ export async function seedDemo(db: Db): Promise<{ created: number }> {
     });
     created++;
   }
+  created += await seedDemoCaseSteps(db, userIds.engineer!, DEMO_USERS.find((u) => u.label === "engineer")!.email);
   return { created };
+}
+
+/**
+ * Works the demo case TN-WL-001 through every step, as the demo engineer would, so that a new
+ * user sees each page filled in. Skipped once the case has any saved step.
+ */
+async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: string): Promise<number> {
+  const [demo] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-001"));
+  if (!demo) return 0;
+  const steps = await getCaseSteps(demo.id);
+  if (Object.values(steps).some((s) => s.revision > 0)) return 0;
+  const actor = { id: engineerId, email: engineerEmail };
+  const save = (step: Parameters<typeof saveStep>[0]["step"], data: Record<string, unknown>) => saveStep({ caseId: demo.id, step, baseRevision: 0, data, actor });
+  const d = DEMO_CASE_INPUTS;
+  await save("basis", d.basis as never);
+  await save("planform", d.planform as never);
+  await save("sections", d.sections as never);
+  const inputs = caseInputs(await getCaseSteps(demo.id));
+  const loadCases = generatedCases(vnSets(inputs.basis!, inputs.planform!, inputs.sections!, d.method));
+  await save("envelope", { ...d.method, cases: loadCases } as never);
+  await save("loads", d.loads as never);
+  const withLoads = caseInputs(await getCaseSteps(demo.id));
+  const { result } = await resultsFor(demo.id, buildCaseFile(demo.title, withLoads, "envelope"), engineerId);
+  const dispositions = Object.fromEntries(flaggedCases(result).map((f) => [f.id, { action: "justify", comment: d.justification }]));
+  await save("distribution", { dispositions } as never);
+  await resultsFor(demo.id, buildCaseFile(demo.title, caseInputs(await getCaseSteps(demo.id))), engineerId);
+  return 6;
 }

@@ -15,10 +15,23 @@ export function flaggedCases(result: CaseResult): CaseFlag[] {
       id: c.id,
       reasons: [
         ...(c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : []),
-        ...c.warnings.filter((w) => w.includes("exceeds the section clMax")),
+        ...summariseStall(c.warnings),
       ],
     }))
     .filter((f) => f.reasons.length > 0);
+}
+
+const STALL = /station y = ([\d.]+) m: cl ([\d.-]+) exceeds the section clMax ([\d.-]+)/;
+
+/** One line for all of a case's stations over clmax: how many, where, and the worst ratio. */
+export function summariseStall(warnings: string[]): string[] {
+  const hits = warnings.map((w) => STALL.exec(w)).filter((m): m is RegExpExecArray => m !== null).map((m) => ({ y: Number(m[1]), cl: Number(m[2]), clMax: Number(m[3]) }));
+  if (hits.length === 0) return [];
+  const worst = hits.reduce((a, b) => (b.cl / b.clMax > a.cl / a.clMax ? b : a));
+  const ys = hits.map((h) => h.y);
+  return [
+    `cl exceeds the section clmax at ${hits.length} station${hits.length > 1 ? "s" : ""} (y = ${Math.min(...ys).toFixed(2)}–${Math.max(...ys).toFixed(2)} m); worst cl/clmax = ${(worst.cl / worst.clMax).toFixed(3)} at y = ${worst.y.toFixed(2)} m`,
+  ];
 }
 
 /** Flagged cases still without a disposition (exclude, or justify with a comment). */

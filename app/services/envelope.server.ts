@@ -96,10 +96,11 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
         id: `W${i + 1}-${p.name}`,
         kind: p.name.startsWith("gust") ? "gust" : "manoeuvre",
         rule: `${p.rule} — ${set.label}, ${p.veas.toFixed(1)} m/s EAS`,
-        mach,
+        // Four decimals keep tables readable; nz is rounded away from zero so no case is lightened.
+        mach: Math.round(mach * 1e4) / 1e4,
         altitude: set.altitude,
         weight: set.weightKg * G0,
-        nz: p.nz,
+        nz: Math.sign(p.nz) * Math.ceil(Math.abs(p.nz) * 1e4 - 1e-9) / 1e4,
         excluded: false,
       });
     }

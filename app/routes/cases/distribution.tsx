@@ -12,7 +12,7 @@ import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
-import { distributionView, flaggedCases, undispositioned } from "~/services/distribution.server";
+import { distributionView, flaggedCases, summariseStall, undispositioned } from "~/services/distribution.server";
 import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
@@ -40,7 +40,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const { result } = await resultsFor(c.id, file, current.user.id);
     const flags = flaggedCases(result);
     const requested = new URL(request.url).searchParams.get("case");
-    const view = distributionView(file, requested ?? flags[0]?.id ?? file.cases[0]!.id);
+    const full = distributionView(file, requested ?? flags[0]?.id ?? file.cases[0]!.id);
+    const stall = summariseStall(full.warnings);
+    const view = { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...stall] };
     return { ...base, problem: null, view, flags, open: undispositioned(flags, inputs.distribution), dispositions: inputs.distribution?.dispositions ?? {} };
   } catch (error) {
     if (error instanceof DomainError) return { ...base, problem: error.message, view: null, flags: [], open: [], dispositions: {} };
