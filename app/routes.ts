@@ -15,6 +15,10 @@ export default [
         index("routes/cases/overview.tsx"),
         route("basis", "routes/cases/basis.tsx"),
         route("planform", "routes/cases/planform.tsx"),
+        route("sections", "routes/cases/sections.tsx"),
+        route("envelope", "routes/cases/envelope.tsx"),
+        route("distribution", "routes/cases/distribution.tsx"),
+        route("loads", "routes/cases/loads.tsx"),
       ]),
     ]),
     ...prefix("programmes", [
@@ -22,6 +26,7 @@ export default [
       route(":programmeId", "routes/programmes/detail.tsx"),
     ]),
     route("checks", "routes/checks.tsx"),
+    route("methods", "routes/methods.tsx"),
     route("audit", "routes/audit.tsx"),
     route("admin", "routes/admin/members.tsx"),
     route("account", "routes/account.tsx"),
