@@ -53,7 +53,7 @@ export default function AccountTokensRoute({ loaderData, actionData }: Route.Com
         <TokenList tokens={loaderData.tokens} />
         <div className="space-y-5">
           {actionData?.created ? <NewToken {...actionData.created} /> : null}
-          <CreateTokenForm serverErrors={actionData?.fieldErrors} />
+          <CreateTokenForm serverErrors={actionData?.fieldErrors} createdToken={actionData?.created?.token} />
         </div>
       </div>
     </>
@@ -125,8 +125,9 @@ function NewToken({ name, token }: { name: string; token: string }) {
   );
 }
 
-function CreateTokenForm({ serverErrors }: { serverErrors?: Record<string, string[] | undefined> }) {
-  const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "" });
+function CreateTokenForm({ serverErrors, createdToken }: { serverErrors?: Record<string, string[] | undefined>; createdToken?: string }) {
+  // A token just created empties the form for the next one.
+  const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "" }, createdToken);
   const busy = useNavigation().state === "submitting";
   return (
     <Panel title="Create a token">

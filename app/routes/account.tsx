@@ -1,5 +1,5 @@
 import { desc, eq } from "drizzle-orm";
-import { Form } from "react-router";
+import { Form, Link } from "react-router";
 import { requireUser } from "~/auth/auth.server";
 import { ROLE_LABELS } from "~/auth/permissions";
 import { db } from "~/db/client.server";
@@ -36,6 +36,9 @@ export default function AccountRoute({ loaderData }: Route.ComponentProps) {
             <dt className="text-ink-muted">Roles</dt>
             <dd>{current.roles.map((r) => ROLE_LABELS[r]).join(", ") || "none"}</dd>
           </dl>
+          <p className="mt-4 text-sm">
+            <Link to="/account/tokens">API tokens</Link> — personal tokens for scripts that use the <Link to="/api">Spanwright API</Link>.
+          </p>
         </Panel>
         <Panel title="Where you are signed in">
           <ul className="mb-4 space-y-2 text-sm">

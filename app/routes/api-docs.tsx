@@ -1,5 +1,7 @@
 import { Link } from "react-router";
 import { PageHeader, Panel } from "~/components/ui/page-header";
+// The same text as docs/exchange-format.md in the repository, bundled because docs/ is not served.
+import exchangeFormat from "../../docs/exchange-format.md?raw";
 
 const ORIGIN = "http://127.0.0.1:3000";
 
@@ -96,12 +98,18 @@ export default function ApiDocsRoute() {
               <a href="/api/v1/openapi.json">openapi.json</a> — the OpenAPI 3.1 description of every endpoint, generated from the schemas the server checks with.
             </li>
             <li>
-              The exchange format (spanwright.case/1 in, spanwright.result/1 out) is described in <code>docs/exchange-format.md</code> of the Spanwright repository; the
-              JSON Schema of both is in openapi.json under <code>components.schemas</code>.
+              <a href="#exchange-format">The exchange format</a> — spanwright.case/1 in, spanwright.result/1 out (<code>docs/exchange-format.md</code> in the
+              repository); the JSON Schema of both is in openapi.json under <code>components.schemas</code>.
             </li>
           </ul>
           <p className="mt-3 text-xs text-ink-muted">Results support, and do not replace, what the certifying authority accepts.</p>
         </Panel>
+        <section id="exchange-format" aria-labelledby="exchange-format-title" className="rounded border border-line bg-surface">
+          <h2 id="exchange-format-title" className="border-b border-line px-4 py-2 text-sm font-semibold uppercase tracking-wide text-ink-muted">
+            The exchange format
+          </h2>
+          <pre className="overflow-x-auto whitespace-pre-wrap p-4 text-xs leading-relaxed">{exchangeFormat}</pre>
+        </section>
       </div>
     </main>
   );
