@@ -373,6 +373,19 @@ describe("GET /api/v1/cases/:caseId/results", () => {
   });
 });
 
+describe("the seeded demo case", () => {
+  it("exports a valid document whose stored results equal running it", async () => {
+    const exported = await call(exportLoader, `/api/v1/cases/${kestrelCaseId}/export`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    expect(exported.status).toBe(200);
+    expect(exported.headers.get("Content-Disposition")).toBe('inline; filename="TN-WL-001.case.json"');
+    const parsed = parseCase(exported.body);
+    if (!parsed.ok) throw new Error(`export does not parse: ${JSON.stringify(parsed.problems)}`);
+    const res = await call(resultsLoader, `/api/v1/cases/${kestrelCaseId}/results`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+  });
+});
+
 describe("GET /api/v1/openapi.json", () => {
   it("is public, valid JSON, OpenAPI 3.1 with every path and the exchange schemas", async () => {
     const res = await call(openApiLoader as Handler, "/api/v1/openapi.json");
