@@ -15,8 +15,7 @@ import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps, saveStep, stepData } from "~/services/case-steps.server";
 import { DomainError } from "~/services/organisation.server";
 import { readSectionUpload, receiveSectionCsv } from "~/services/uploads.server";
-import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { fieldErrorsOf, formDataToObject } from "~/utils/form-data";
 import type { Route } from "./+types/sections";
 import { SectionsFormSchema } from "./sections.schema";
 
@@ -51,12 +50,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs): Promise<ReturnType<typeof data<ActionResult>> | ActionResult> {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
-  const type = request.headers.get("Content-Type") ?? "";
-  if (type.startsWith("multipart/form-data")) {
-    const length = Number(request.headers.get("Content-Length") ?? 0);
-    if (length > MAX_SECTION_CSV_BYTES + 64 * 1024) return data<ActionResult>({ ok: false, fieldErrors: { file: [`The file is larger than ${MAX_SECTION_CSV_BYTES / 1024} KiB.`] } }, { status: 413 });
-    const form = await request.formData();
-    const file = form.get("file");
+  const length = Number(request.headers.get("Content-Length") ?? 0);
+  if (length > MAX_SECTION_CSV_BYTES + 64 * 1024) return data<ActionResult>({ ok: false, fieldErrors: { file: [`The file is larger than ${MAX_SECTION_CSV_BYTES / 1024} KiB.`] } }, { status: 413 });
+  const body = await request.formData().catch(() => null);
+  if (!body) return data<ActionResult>({ ok: false, fieldErrors: { form: ["The request body could not be read."] } }, { status: 400 });
+  if (body.has("file")) {
+    const file = body.get("file");
     if (!(file instanceof File) || file.size === 0) return data<ActionResult>({ ok: false, fieldErrors: { file: ["Choose a CSV file to upload."] } }, { status: 400 });
     const received = await receiveSectionCsv({ organisationId: c.organisationId, caseId: c.id, filename: file.name, bytes: new Uint8Array(await file.arrayBuffer()), actor: current.user });
     if (!received.parsed.ok) return data<ActionResult>({ ok: false, fieldErrors: { file: [`${file.name} was not accepted: ${received.parsed.problems.length} problem(s).`] }, problems: received.parsed.problems }, { status: 400 });
@@ -64,8 +63,9 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Ret
     return { ok: true, fieldErrors: {}, preview: { uploadId: upload!.id, filename: upload!.filename, sha256: upload!.sha256, kind: parsed.kind, lines: parsed.lines, rows: parsed.rows, tables: parsed.tables } };
   }
 
-  const parsed = await parseBody(request, SectionsFormSchema);
-  if (!parsed.ok) return data<ActionResult>({ ok: false, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  const checked = SectionsFormSchema.safeParse(formDataToObject(body));
+  if (!checked.success) return data<ActionResult>({ ok: false, fieldErrors: fieldErrorsOf(checked.error) }, { status: 400 });
+  const parsed = { value: checked.data };
   let candidate: unknown;
   if (parsed.value.intent === "save") {
     candidate = { rows: parsed.value.rows, source: { kind: "typed" }, tables: [] };
