@@ -48,7 +48,7 @@ const ENDPOINTS: Endpoint[] = [
     method: "POST",
     path: "/api/v1/cases/import",
     permission: "case:create",
-    what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=&reference=. Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
+    what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=or the document alone with ?programmeId=&reference=. Planformreference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
     curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json "${ORIGIN}/api/v1/cases/import?programmeId=$PROGRAMME_ID&reference=TN-WL-010"`,
   },
   {
