@@ -92,7 +92,7 @@ export const SectionRowSchema = z.object({
 export const SectionsSchema = z
   .object({
     rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(60, "At most 60 section stations"),
-    source: z.object({ kind: z.enum(["typed", "upload"]), uploadId: z.uuid().optional(), filename: z.string().optional(), sha256: z.string().optional() }),
+    source: z.object({ kind: z.enum(["typed", "upload", "import"]), uploadId: z.uuid().optional(), filename: z.string().optional(), sha256: z.string().optional() }),
     tables: z
       .array(z.object({ y: z.number(), points: z.array(z.object({ alpha: z.number(), cl: z.number(), cm: z.number() })), linearFrom: z.number(), linearTo: z.number() }))
       .default([]),
@@ -144,6 +144,8 @@ export const EnvelopeSchema = z
     compressibility: z.enum(COMPRESSIBILITY_RULES, "Choose a compressibility rule"),
     spanwise: z.enum(SPANWISE_METHODS, "Choose a spanwise solver"),
     stations: z.number().int("Stations must be a whole number").min(8, "At least 8 stations").max(200, "At most 200 stations"),
+    /** "summary" leaves the station tables out of stored results (large sweeps); the exchange format's method.output. */
+    output: z.enum(["full", "summary"]).default("full"),
     cases: z.array(LoadCaseSchema).min(1, "Give at least one load case").max(2000, "At most 2000 load cases"),
   })
   .superRefine((e, ctx) => {

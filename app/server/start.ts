@@ -107,7 +107,17 @@ async function main() {
   if (!dev) buildIfStale();
   const { startHttpServer } = await import("./http");
   const server = await startHttpServer({ host, port: port("PORT", 3000), origin: appOrigin, dev });
-  running.push({ name: "web server", stop: () => new Promise<void>((resolve) => { server.close(() => resolve()); server.closeAllConnections(); }) });
+  running.push({
+    name: "web server",
+    stop: async () => {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      });
+      // The built app shares the process-wide pool (kept on globalThis): close it before PostgreSQL stops.
+      await closeDb();
+    },
+  });
 
   say("demo users (local demonstration only):");
   for (const u of DEMO_USERS) say(`  ${u.label.padEnd(9)} ${u.email.padEnd(42)} ${u.password}`);

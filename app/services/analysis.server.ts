@@ -34,6 +34,8 @@ function lerp(xs: number[], ys: number[], x: number): number {
   if (x >= xs[xs.length - 1]!) return ys[ys.length - 1]!;
   let i = 1;
   while (xs[i]! < x) i++;
+  // Exactly at a given station: its own value, so an export reproduces what was imported bit for bit.
+  if (xs[i] === x) return ys[i]!;
   const t = (x - xs[i - 1]!) / (xs[i]! - xs[i - 1]!);
   return ys[i - 1]! + t * (ys[i]! - ys[i - 1]!);
 }
@@ -93,7 +95,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
       axis: { rootChordFraction: planform.axisRoot, tipChordFraction: planform.axisTip },
       ...(mass > 0 ? { mass: { kg: mass, distribution: "chord" as const } } : {}),
     },
-    method: { compressibility: envelope.compressibility, spanwise: envelope.spanwise, stations: envelope.stations, output: "full" },
+    method: { compressibility: envelope.compressibility, spanwise: envelope.spanwise, stations: envelope.stations, output: envelope.output },
     cases: cases.map((c) => (c.alpha !== undefined ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha } : { id: c.id, mach: c.mach, altitude: c.altitude, weight: c.weight!, nz: c.nz! })),
   };
 }

@@ -40,14 +40,14 @@ export function stepsFromCaseFile(file: CaseFile): ImportedSteps {
         ...(s.clMax !== undefined ? { clMax: s.clMax } : {}),
         ...(s.cpMin !== undefined ? { cpMin: s.cpMin } : {}),
       })),
-      // The sections step knows typed and uploaded data only; the audit entry records the import.
-      source: { kind: "typed" },
+      source: { kind: "import" },
       tables: [],
     },
     envelope: {
       compressibility: file.method.compressibility,
       spanwise: file.method.spanwise,
       stations: file.method.stations,
+      output: file.method.output,
       cases: file.cases.map((c) => ({
         id: c.id,
         kind: "manual",

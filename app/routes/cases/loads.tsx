@@ -66,8 +66,11 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
   const busy = useNavigation().state === "submitting";
   const results = useFetcher<ResultsResponse>();
   // Results come from the API route, so a change of inputs re-computes without a full navigation.
+  const [loadedFor, setLoadedFor] = useState<number | null>(null);
   useEffect(() => {
-    if (loaderData.ready) results.load(`/api/v1/cases/${caseId}/results`);
+    if (!loaderData.ready) return;
+    results.load(`/api/v1/cases/${caseId}/results`);
+    setLoadedFor(loaderData.revision);
   }, [caseId, loaderData.ready, loaderData.revision]);
   const result = results.data && "schema" in results.data ? results.data : null;
   const failure = results.data && "error" in results.data ? results.data.message : null;
@@ -127,7 +130,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
           ) : result && current ? (
             <div className="rounded border border-line bg-surface p-4 text-sm">
               <p>
-                <strong>{result.cases.length}</strong> cases analysed (engine {result.engine}). Root bending envelope:{" "}
+                <strong>{result.cases.length}</strong> cases analysed (engine {result.engine}) from the inputs at loads revision {loadedFor}. Root bending envelope:{" "}
                 <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMax)}</strong> ({env[0]?.bendingMaxCase}) /{" "}
                 <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMin)}</strong> ({env[0]?.bendingMinCase}).
               </p>
@@ -146,7 +149,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
         </div>
       </div>
       {result && current ? (
-        <>
+        <div className={results.state !== "idle" ? "opacity-50" : undefined} aria-busy={results.state !== "idle"}>
           <div className="grid gap-4 xl:grid-cols-3">
             <Chart option={loadsOption("shear", series("shear"), force) as never} label="Shear force along the span" fileName="shear" />
             <Chart option={loadsOption("bending", series("bending"), moment) as never} label="Bending moment along the span" fileName="bending" />
@@ -175,7 +178,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
               ]}
             />
           </Panel>
-        </>
+        </div>
       ) : null}
     </>
   );

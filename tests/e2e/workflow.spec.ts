@@ -1,0 +1,176 @@
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { expect, test, type Page } from "@playwright/test";
+import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/db/demo";
+
+const engineer = DEMO_USERS.find((u) => u.label === "engineer")!;
+
+async function signIn(page: Page) {
+  await page.goto("/login");
+  await page.getByLabel("E-mail", { exact: true }).fill(engineer.email);
+  await page.getByLabel("Password").fill(engineer.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page).toHaveURL("/cases");
+}
+
+const step = (page: Page, name: RegExp) => page.getByRole("navigation", { name: "Steps" }).getByRole("link", { name });
+const shot = (page: Page, name: string) => page.screenshot({ path: `tests/e2e/screenshots/workflow-${name}.png`, fullPage: true });
+
+test("an engineer builds a case from nothing and reads the critical root bending moment, equal to the command line's", async ({ page }) => {
+  test.setTimeout(120_000);
+  await signIn(page);
+  await page.getByRole("link", { name: "New case" }).click();
+  await page.getByLabel("Case reference").fill("E2E-WL-100");
+  await page.getByLabel("Title").fill("Browser-built wing loads case");
+  await page.getByRole("button", { name: "Create case" }).click();
+  await expect(page.getByRole("heading", { level: 1 })).toContainText("E2E-WL-100");
+
+  // Basis
+  await step(page, /Basis/).click();
+  const b = DEMO_CASE_INPUTS.basis;
+  await page.getByLabel("Category").selectOption(b.category);
+  const fields: [string, number | string][] = [
+    ["Max take-off [kg]", b.mtow],
+    ["Max zero-fuel [kg]", b.mzfw],
+    ["Minimum design [kg]", b.minWeight],
+    ["VS1 [m/s]", b.vs1],
+    ["VA [m/s]", b.va],
+    ["VC [m/s]", b.vc],
+    ["VD [m/s]", b.vd],
+    ["Wing reference area [m²]", b.wingArea],
+    ["Aircraft CLmax", b.clMax],
+    ["Negative CLmax", b.clMaxNegative],
+    ["Altitudes [m]", b.altitudes.join(", ")],
+  ];
+  for (const [label, value] of fields) await page.getByLabel(label).fill(String(value));
+  await page.getByRole("button", { name: "Save basis" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
+  await shot(page, "basis");
+
+  // Planform, typed into the grid; first a negative chord, which is refused with the field named
+  await step(page, /Planform/).click();
+  const cell = (r: number, c: number) => page.locator(`#stations-${r}-${c}`);
+  const rows = DEMO_CASE_INPUTS.planform.stations;
+  await page.getByRole("button", { name: "Add row" }).click();
+  for (const [i, s] of rows.entries()) {
+    await cell(i, 0).fill(String(s.y));
+    await cell(i, 1).fill(String(s.xLe));
+    await cell(i, 2).fill(String(i === 2 ? -0.95 : s.chord));
+    await cell(i, 3).fill(String(s.twist));
+  }
+  await page.getByLabel("Reference axis at root [chord fraction]").fill("0.35");
+  await page.getByLabel("Reference axis at tip [chord fraction]").fill("0.35");
+  await page.getByRole("button", { name: "Save planform" }).click();
+  await expect(page.getByText("Chord must be greater than 0").first()).toBeVisible();
+  await cell(2, 2).fill(String(rows[2]!.chord));
+  await page.getByRole("button", { name: "Save planform" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
+  await expect(page.getByRole("img", { name: "Planform drawn to scale" })).toBeVisible();
+  await shot(page, "planform");
+
+  // Sections, uploaded as CSV: checked, previewed, then accepted
+  await step(page, /Sections/).click();
+  const csv = ["y,a0,alphaL0,cmAc,clMax,cpMin", ...DEMO_CASE_INPUTS.sections.rows.map((r) => [r.y, r.a0, r.alphaL0, r.cmAc, r.clMax, r.cpMin].join(","))].join("\n");
+  await page.getByLabel("CSV file").setInputFiles({ name: "tern-sections.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+  await page.getByRole("button", { name: "Check file" }).click();
+  await expect(page.getByText("tern-sections.csv").first()).toBeVisible();
+  await page.getByRole("button", { name: "Use this file's data" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
+  await expect(page.getByText("Current data from the uploaded file")).toBeVisible();
+  await shot(page, "sections");
+
+  // Envelope, generated from the basis rules
+  await step(page, /Envelope/).click();
+  await page.getByRole("button", { name: "Generate cases from the basis rules" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
+  await expect(page.getByText("Load cases (81)")).toBeVisible();
+  await shot(page, "envelope");
+
+  // Distribution: every flagged case dispositioned
+  await step(page, /Distribution/).click();
+  await expect(page.getByRole("figure", { name: "Spanwise loading" })).toBeVisible();
+  const selects = page.getByRole("combobox", { name: /Disposition of/ });
+  const count = await selects.count();
+  for (let i = 0; i < count; i++) {
+    await selects.nth(i).selectOption("justify");
+    await page.getByRole("textbox", { name: /Justification for/ }).nth(i).fill("On the stall line by definition; kept in the envelope.");
+  }
+  if (count > 0) {
+    await page.getByRole("button", { name: "Save dispositions" }).click();
+    await expect(page.getByText(/Dispositions saved as revision 1/)).toBeVisible();
+    await expect(page.getByText(/flagged case.* without a disposition/)).toHaveCount(0);
+  }
+  await shot(page, "distribution");
+
+  // Loads: the root-loads table, sorted by root bending, largest first
+  await step(page, /Loads/).click();
+  await page.getByLabel("Semispan structural mass [kg]").fill(String(DEMO_CASE_INPUTS.loads.semispanMass));
+  await page.getByRole("button", { name: "Save" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
+  // Wait for the results of the inputs just saved, not the ones shown before the save.
+  await expect(page.getByText("from the inputs at loads revision 1")).toBeVisible({ timeout: 30_000 });
+  const table = page.getByRole("table", { name: "Root loads of every case" });
+  await expect(table).toBeVisible({ timeout: 30_000 });
+  const headers = await table.locator("thead th").allTextContents();
+  const bendingColumn = headers.findIndex((h) => h.includes("Root bending"));
+  const firstRow = table.locator("tbody tr").first();
+  const criticalCase = (await firstRow.locator("td").nth(0).textContent())!.trim();
+  const shownKNm = Number((await firstRow.locator("td").nth(bendingColumn).textContent())!.trim());
+  await shot(page, "loads");
+
+  // The same case exported and run through the command line
+  const caseId = new URL(page.url()).pathname.split("/")[2]!;
+  const exported = await page.request.get(`/api/v1/cases/${caseId}/export`);
+  expect(exported.ok()).toBe(true);
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "sw-e2e-")), "case.json");
+  fs.writeFileSync(file, await exported.text());
+  const out = JSON.parse(execFileSync(process.execPath, ["node_modules/tsx/dist/cli.mjs", "app/cli/analyze.ts", file], { encoding: "utf8" })) as {
+    cases: { id: string; root: { bending: number } }[];
+  };
+  const cliCritical = out.cases.reduce((a, c) => (c.root.bending > a.root.bending ? c : a));
+  expect(criticalCase).toBe(cliCritical.id);
+  // The table shows five significant figures in kN·m.
+  expect(shownKNm).toBe(Number((cliCritical.root.bending / 1000).toPrecision(5)));
+});
+
+test("a stale save from a second window is refused and nothing is lost", async ({ browser }) => {
+  const one = await browser.newContext();
+  const two = await browser.newContext();
+  const a = await one.newPage();
+  const b = await two.newPage();
+  await signIn(a);
+  await signIn(b);
+  for (const p of [a, b]) {
+    await p.getByRole("link", { name: "TN-WL-002" }).click();
+    await step(p, /Basis/).click();
+  }
+  const b0 = DEMO_CASE_INPUTS.basis;
+  const fill = async (p: Page, mtow: number) => {
+    for (const [label, value] of [
+      ["Max take-off [kg]", mtow],
+      ["Max zero-fuel [kg]", b0.mzfw],
+      ["Minimum design [kg]", b0.minWeight],
+      ["VS1 [m/s]", b0.vs1],
+      ["VA [m/s]", b0.va],
+      ["VC [m/s]", b0.vc],
+      ["VD [m/s]", b0.vd],
+      ["Wing reference area [m²]", b0.wingArea],
+      ["Aircraft CLmax", b0.clMax],
+      ["Negative CLmax", b0.clMaxNegative],
+      ["Altitudes [m]", "0"],
+    ] as const)
+      await p.getByLabel(label).fill(String(value));
+  };
+  await fill(a, 6400);
+  await a.getByRole("button", { name: "Save basis" }).click();
+  await expect(a.getByRole("status").filter({ hasText: /Saved as revision/ })).toBeVisible();
+  await fill(b, 6500);
+  await b.getByRole("button", { name: "Save basis" }).click();
+  await expect(b.getByRole("alert").filter({ hasText: /Not saved: Erin Hale saved this step/ })).toBeVisible();
+  await b.reload();
+  await expect(b.getByLabel("Max take-off [kg]")).toHaveValue("6400");
+  await one.close();
+  await two.close();
+});
