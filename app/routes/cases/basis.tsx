@@ -10,6 +10,7 @@ import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps, saveStep, stepData } from "~/services/case-steps.server";
+import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
 import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
@@ -28,6 +29,35 @@ function formValues(saved: BasisData | null) {
   return out;
 }
 
+const G0 = 9.80665;
+const PSF = 47.880259;
+const KT = 1852 / 3600;
+
+/** What the rules of the saved basis give, beside what was typed: a check, not a substitute. */
+function derivedFromRules(b: BasisData) {
+  const weightN = b.mtow * G0;
+  const mtowLb = weightN / UNITS.lbfToN;
+  const part23 = b.category !== "part25";
+  const f = part23 ? manoeuvreLoadFactorsPart23(mtowLb, b.category.replace("part23-", "") as Part23Category) : manoeuvreLoadFactorsPart25(mtowLb);
+  const vs = stallSpeed(weightN, b.wingArea, b.clMax);
+  const rows: { label: string; value: string; rule: string; ok?: boolean }[] = [
+    { label: "Wing loading at MTOW", value: `${(weightN / b.wingArea).toFixed(0)} N/m² (${(weightN / b.wingArea / PSF).toFixed(1)} psf)`, rule: "W/S" },
+    { label: "Positive limit load factor", value: f.positive.value.toFixed(3), rule: f.positive.rule },
+    { label: "Negative limit load factor at VC", value: f.negativeAtVc.value.toFixed(3), rule: f.negativeAtVc.rule },
+    { label: "Negative limit load factor at VD", value: f.negativeAtVd.value.toFixed(3), rule: f.negativeAtVd.rule },
+    { label: "1-g stall speed from CLmax", value: `${vs.toFixed(1)} m/s EAS (typed VS1 ${b.vs1.toFixed(1)})`, rule: "VS = √(2W/(ρ0·S·CLmax))", ok: Math.abs(vs - b.vs1) / vs < 0.05 },
+    { label: "VA at least VS1·√n", value: `${(b.vs1 * Math.sqrt(f.positive.value)).toFixed(1)} m/s (typed ${b.va.toFixed(1)})`, rule: part23 ? "14 CFR 23.335(c)" : "14 CFR 25.335(c)", ok: b.va >= b.vs1 * Math.sqrt(f.positive.value) - 1e-9 },
+  ];
+  if (part23) {
+    const m = minimumDesignSpeedsPart23(weightN / b.wingArea / PSF, b.category.replace("part23-", "") as Part23Category);
+    rows.push(
+      { label: "Minimum VC", value: `${(m.vc.value * KT).toFixed(1)} m/s (typed ${b.vc.toFixed(1)})`, rule: m.vc.rule, ok: b.vc >= m.vc.value * KT - 1e-9 },
+      { label: "Minimum VD", value: `${(m.vd.value * KT).toFixed(1)} m/s (typed ${b.vd.toFixed(1)})`, rule: m.vd.rule, ok: b.vd >= m.vd.value * KT - 1e-9 },
+    );
+  }
+  return rows;
+}
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");
   const steps = await getCaseSteps(c.id);
@@ -37,6 +67,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     revision: steps.basis.revision,
     status: steps.basis.status,
     values: formValues(saved),
+    derived: saved ? derivedFromRules(saved) : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
   };
 }
@@ -113,6 +144,24 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
             <TextField label={`Altitudes [${u("altitude")}]`} hint="Comma-separated, geopotential, standard atmosphere." {...form.register("altitudes")} errors={err("altitudes")} />
           </Panel>
         </fieldset>
+        {loaderData.derived ? (
+          <Panel title="What the rules give for the saved basis" className="mt-5">
+            <table className="w-full text-sm">
+              <tbody>
+                {loaderData.derived.map((r) => (
+                  <tr key={r.label} className="border-b border-line last:border-0">
+                    <th scope="row" className="py-1 pr-3 text-left font-normal text-ink-muted">{r.label}</th>
+                    <td className="py-1 pr-3 tabular">
+                      {r.ok === false ? <span className="font-semibold text-warn">⚠ {r.value}</span> : r.value}
+                    </td>
+                    <td className="py-1 text-xs text-ink-muted">{r.rule}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            <p className="mt-2 text-xs text-ink-muted">A check of the typed values against the rules as coded here; the certification basis agreed with the authority governs.</p>
+          </Panel>
+        ) : null}
         {loaderData.canEdit ? (
           <div className="mt-4 flex items-center gap-3">
             <Button type="submit" disabled={busy}>

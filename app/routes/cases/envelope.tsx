@@ -9,6 +9,7 @@ import { fromSI, toSI, unitSymbol, type UnitSystem } from "~/cases/units";
 import { vnOption } from "~/charts/vn";
 import { Chart } from "~/components/charts/chart";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
+import { ResultsCaution } from "~/components/case/caution";
 import { SelectField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
@@ -127,6 +128,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
   return (
     <>
       <PageHeader title="Envelope" description="Load cases from the manoeuvre and gust rules of the basis, drawn on the V–n diagram, and the method used for every case of this file." />
+      <ResultsCaution />
       <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
       {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {actionData.revision}.</Alert></div> : null}
       {general.length ? <div className="mb-3"><Alert>{general.join(" ")}</Alert></div> : null}

@@ -4,7 +4,8 @@ import { hasPermission } from "~/auth/permissions";
 import { tidy } from "~/cases/form-values";
 import { COEFFICIENT_COLUMNS, describeProblem, MAX_SECTION_CSV_BYTES, POLAR_COLUMNS, type CsvProblem } from "~/cases/section-csv";
 import { SectionsSchema, type SectionsData } from "~/cases/step-data";
-import { formatNumber } from "~/cases/units";
+import { formatNumber, fromSI, toSI, unitSymbol } from "~/cases/units";
+import { caseUnits } from "~/cases/step-context.server";
 import { sectionFitOption } from "~/charts/section-fit";
 import { Chart } from "~/components/charts/chart";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
@@ -29,13 +30,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const steps = await getCaseSteps(c.id);
   const saved = stepData(steps, "sections");
   const planform = stepData(steps, "planform");
+  const units = caseUnits(steps);
+  const yShown = (v: number) => text(fromSI(units, "length", v));
   return {
+    units,
     revision: steps.sections.revision,
     status: steps.sections.status,
     saved,
     values: {
       rows: (saved?.rows ?? (planform?.stations ?? [{ y: 0 }]).map((s) => ({ y: s.y, a0: undefined, alphaL0: undefined, cmAc: undefined }))).map((r) => ({
-        y: text(r.y),
+        y: yShown(r.y),
         a0: text(r.a0),
         alphaL0: text(r.alphaL0),
         cmAc: text(r.cmAc),
@@ -68,7 +72,8 @@ export async function action({ request, params }: Route.ActionArgs): Promise<Ret
   const parsed = { value: checked.data };
   let candidate: unknown;
   if (parsed.value.intent === "save") {
-    candidate = { rows: parsed.value.rows, source: { kind: "typed" }, tables: [] };
+    const units = caseUnits(await getCaseSteps(c.id));
+    candidate = { rows: parsed.value.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), source: { kind: "typed" }, tables: [] };
   } else {
     const found = await readSectionUpload(c.id, parsed.value.uploadId);
     if (!found || !found.parsed.ok) return data<ActionResult>({ ok: false, fieldErrors: { uploadId: ["That upload was not found for this case; upload the file again."] } }, { status: 400 });
@@ -115,7 +120,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
                 name="rows"
                 caption="Section data by station"
                 columns={[
-                  { key: "y", label: "y [m]" },
+                  { key: "y", label: `y [${unitSymbol(loaderData.units, "length")}]` },
                   { key: "a0", label: "a0 [/rad]" },
                   { key: "alphaL0", label: "αL0 [°]" },
                   { key: "cmAc", label: "cm,ac [–]" },
@@ -148,7 +153,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
             <Panel title="Upload a CSV file">
               <upload.Form method="post" encType="multipart/form-data">
                 <p className="mb-2 text-xs text-ink-muted">
-                  Header line, then one row per station: <code>{COEFFICIENT_COLUMNS.join(", ")}</code> (clMax, cpMin optional) — or polar tables with several rows per station: <code>{POLAR_COLUMNS.join(", ")}</code>, fitted over their linear
+                  y in metres. Header line, then one row per station: <code>{COEFFICIENT_COLUMNS.join(", ")}</code> (clMax, cpMin optional) — or polar tables with several rows per station: <code>{POLAR_COLUMNS.join(", ")}</code>, fitted over their linear
                   range. Comma, semicolon or tab separated; at most {loaderData.maxKiB} KiB.
                 </p>
                 <label className="block text-sm font-semibold" htmlFor="section-file">
