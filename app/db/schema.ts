@@ -256,6 +256,98 @@ export const apiTokens = pgTable(
   (t) => [uniqueIndex("api_tokens_token_hash_key").on(t.tokenHash), index("api_tokens_user_idx").on(t.userId)],
 );
 
+export const SIGNATURE_MEANINGS = ["checked", "approved for issue", "released"] as const;
+export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+
+/**
+ * Electronic signatures, append-only: who signed, in which role, what the signature means, when
+ * (UTC), and the SHA-256 of the canonical serialisation of exactly what was signed. A signature is
+ * never changed or deleted; a later edit appends a row to `signature_voids` instead.
+ */
+export const signatures = pgTable(
+  "signatures",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id),
+    caseId: uuid("case_id").notNull().references(() => cases.id),
+    /** A step signature names the step and its revision; a report signature names the report. */
+    step: text().$type<StepKey>(),
+    revision: integer(),
+    reportId: uuid("report_id"),
+    signerId: uuid("signer_id").notNull().references(() => users.id),
+    signerName: text("signer_name").notNull(),
+    role: text().$type<Role>().notNull(),
+    meaning: text().$type<SignatureMeaning>().notNull(),
+    /** How the signer re-confirmed their identity: password, or a fresh company sign-in. */
+    confirmedBy: text("confirmed_by").$type<"password" | "sso">().notNull(),
+    revisionHash: text("revision_hash").notNull(),
+    signedAt: timestamp("signed_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [index("signatures_case_idx").on(t.caseId, t.step), index("signatures_report_idx").on(t.reportId)],
+);
+
+/** Voiding of a signature by a later change, appended (signatures themselves never change). */
+export const signatureVoids = pgTable("signature_voids", {
+  id: uuid().primaryKey().defaultRandom(),
+  signatureId: uuid("signature_id").notNull().unique().references(() => signatures.id),
+  reason: text().notNull(),
+  voidedBy: uuid("voided_by").references(() => users.id),
+  voidedAt: timestamp("voided_at", { withTimezone: true }).defaultNow().notNull(),
+});
+
+/** The review thread of a step: comments of checkers and engineers, optionally pointing at a field or row. */
+export const stepComments = pgTable(
+  "step_comments",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    step: text().$type<StepKey>().notNull(),
+    revision: integer().notNull(),
+    authorId: uuid("author_id").notNull().references(() => users.id),
+    kind: text().$type<"comment" | "submitted" | "returned" | "approved">().notNull(),
+    /** What the comment points at, e.g. "stations row 3" or "VD". */
+    anchor: text(),
+    body: text().notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("step_comments_case_step_idx").on(t.caseId, t.step, t.createdAt)],
+);
+
+export const REPORT_STATUSES = ["queued", "generating", "issued", "released", "failed"] as const;
+export type ReportStatus = (typeof REPORT_STATUSES)[number];
+
+/**
+ * Issued reports: one row per version of a case's report. The PDF bytes live in S3 under `key`;
+ * the row records their size and SHA-256, the engine version and the input snapshot they came from.
+ * A row reaches "issued" only in the same transaction that records the stored object.
+ */
+export const reports = pgTable(
+  "reports",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id),
+    caseId: uuid("case_id").notNull().references(() => cases.id),
+    version: integer().notNull(),
+    reportNumber: text("report_number").notNull(),
+    status: text().$type<ReportStatus>().default("queued").notNull(),
+    progress: integer().default(0).notNull(),
+    progressNote: text("progress_note").default("").notNull(),
+    failure: text(),
+    requestedBy: uuid("requested_by").notNull().references(() => users.id),
+    requestedAt: timestamp("requested_at", { withTimezone: true }).defaultNow().notNull(),
+    bucket: text(),
+    key: text(),
+    size: integer(),
+    sha256: text(),
+    inputHash: text("input_hash"),
+    engineVersion: text("engine_version"),
+    snapshot: jsonb().$type<Record<string, unknown>>(),
+    issuedAt: timestamp("issued_at", { withTimezone: true }),
+    releasedAt: timestamp("released_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("reports_case_version_key").on(t.caseId, t.version), index("reports_sha_idx").on(t.sha256)],
+);
+
 export const usersRelations = relations(users, ({ many }) => ({ memberships: many(memberships) }));
 export const membershipsRelations = relations(memberships, ({ one }) => ({
   user: one(users, { fields: [memberships.userId], references: [users.id] }),
@@ -279,3 +371,6 @@ export type CaseStep = typeof caseSteps.$inferSelect;
 export type StepRevision = typeof stepRevisions.$inferSelect;
 export type CaseResultRow = typeof caseResults.$inferSelect;
 export type Upload = typeof uploads.$inferSelect;
+export type Signature = typeof signatures.$inferSelect;
+export type Report = typeof reports.$inferSelect;
+export type StepComment = typeof stepComments.$inferSelect;
