@@ -332,6 +332,7 @@ export const reports = pgTable(
     status: text().$type<ReportStatus>().default("queued").notNull(),
     progress: integer().default(0).notNull(),
     progressNote: text("progress_note").default("").notNull(),
+    attempts: integer().default(0).notNull(),
     failure: text(),
     requestedBy: uuid("requested_by").notNull().references(() => users.id),
     requestedAt: timestamp("requested_at", { withTimezone: true }).defaultNow().notNull(),

@@ -119,6 +119,13 @@ async function main() {
     },
   });
 
+  // One background worker beside the web server; `npm run worker` starts more elsewhere.
+  const { startWorkers } = await import("../jobs/workers.server");
+  const { stopBoss } = await import("../jobs/boss.server");
+  await startWorkers();
+  running.push({ name: "job worker", stop: () => stopBoss() });
+  say("job worker started (report generation)");
+
   say("demo users (local demonstration only):");
   for (const u of DEMO_USERS) say(`  ${u.label.padEnd(9)} ${u.email.padEnd(42)} ${u.password}`);
   say(`Spanwright is serving on ${appOrigin} — Ctrl-C stops everything.`);

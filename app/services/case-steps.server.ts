@@ -4,6 +4,7 @@ import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, STEP_KEYS, stepRevisions, users, type CaseStep, type StepKey } from "~/db/schema";
 import { STEP_SCHEMAS } from "~/cases/step-data";
 import { DomainError } from "./organisation.server";
+import { voidApprovalsAfterEdit } from "./review.server";
 
 type Actor = { id: string; email: string };
 
@@ -78,7 +79,8 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
     await tx.insert(stepRevisions).values({ caseId: input.caseId, step: input.step, revision, data, hash, createdBy: input.actor.id });
     const now = new Date();
     await tx.update(caseSteps).set({ revision, status: "draft", data, updatedBy: input.actor.id, updatedAt: now }).where(eq(caseSteps.id, row.id));
-    const [caseRow] = await tx.update(cases).set({ updatedAt: now }).where(eq(cases.id, input.caseId)).returning({ organisationId: cases.organisationId });
+    const voided = await voidApprovalsAfterEdit(tx, { caseId: input.caseId, step: input.step, revision, actor: input.actor });
+    const [caseRow] = await tx.update(cases).set({ updatedAt: now, ...(voided.length ? { status: "draft" as const } : {}) }).where(eq(cases.id, input.caseId)).returning({ organisationId: cases.organisationId });
     await writeAudit(tx, {
       organisationId: caseRow!.organisationId,
       actor: input.actor,
@@ -86,7 +88,7 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
       entityType: "case",
       entityId: input.caseId,
       before: row.data ? { revision: row.revision, data: row.data } : null,
-      after: { revision, hash, data },
+      after: { revision, hash, data, ...(voided.length ? { voidedSignatures: voided } : {}) },
     });
     return { revision, hash };
   });

@@ -1,4 +1,4 @@
-import { GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { env } from "~/utils/env.server";
 
 let client: S3Client | undefined;
@@ -44,4 +44,8 @@ export async function listKeys(bucket: string, prefix = ""): Promise<string[]> {
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
   } while (token);
   return keys;
+}
+
+export async function deleteObject(bucket: string, key: string): Promise<void> {
+  await s3().send(new DeleteObjectCommand({ Bucket: bucket, Key: key }));
 }

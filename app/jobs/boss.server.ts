@@ -1,0 +1,35 @@
+import PgBoss from "pg-boss";
+
+/** Queue names: every background job of the product. */
+export const QUEUES = { generateReport: "report.generate" } as const;
+
+const globalForBoss = globalThis as unknown as { __spanwrightBoss?: Promise<PgBoss> };
+
+/**
+ * One pg-boss instance per process, on the application's own PostgreSQL, started on first use.
+ * Web processes only send; worker processes also work (workers.server.ts).
+ */
+export function boss(): Promise<PgBoss> {
+  globalForBoss.__spanwrightBoss ??= (async () => {
+    const url = process.env.DATABASE_URL;
+    if (!url) throw new Error("DATABASE_URL is not set");
+    const instance = new PgBoss({ connectionString: url, max: 4 });
+    instance.on("error", (error) => console.warn(`job queue: ${error.message}`));
+    await instance.start();
+    for (const name of Object.values(QUEUES)) await instance.createQueue(name);
+    return instance;
+  })().catch((error: unknown) => {
+    globalForBoss.__spanwrightBoss = undefined;
+    throw error;
+  });
+  return globalForBoss.__spanwrightBoss;
+}
+
+export async function stopBoss(): Promise<void> {
+  const pending = globalForBoss.__spanwrightBoss;
+  globalForBoss.__spanwrightBoss = undefined;
+  if (pending) await (await pending).stop({ graceful: true, wait: true });
+}
+
+/** Report jobs retry three times, a minute apart, so an S3 or database outage can pass. */
+export const REPORT_JOB_OPTIONS = { retryLimit: 3, retryDelay: 30, retryBackoff: true, expireInSeconds: 15 * 60 } as const;

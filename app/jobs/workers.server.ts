@@ -1,0 +1,14 @@
+import { generateReport } from "~/services/reports.server";
+import { boss, QUEUES } from "./boss.server";
+
+/**
+ * Registers every job handler. Handlers re-load their record by id and are idempotent, so a retried
+ * or duplicated job does no harm; any number of worker processes may share one database.
+ */
+export async function startWorkers(): Promise<void> {
+  const queue = await boss();
+  await queue.work<{ reportId: string }>(QUEUES.generateReport, { includeMetadata: true, pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (!job) return;
+    await generateReport(job.data.reportId, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+  });
+}

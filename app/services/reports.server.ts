@@ -1,0 +1,242 @@
+import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
+import type { CurrentUser } from "~/auth/session.server";
+import { STEPS } from "~/cases/steps";
+import { sha256Hex, writeAudit } from "~/db/audit.server";
+import { db } from "~/db/client.server";
+import { cases, caseSteps, memberships, organisations, programmes, reports, signatureVoids, signatures, users, type Report, type Role } from "~/db/schema";
+import { ENGINE_VERSION } from "~/engine";
+import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
+import type { ReportSnapshot, SignatureLine } from "~/reports/snapshot";
+import { env } from "~/utils/env.server";
+import { buildCaseFile, caseInputs, resultsFor } from "./analysis.server";
+import { getCaseSteps } from "./case-steps.server";
+import { flaggedCases } from "./distribution.server";
+import { sendMail } from "./mail.server";
+import { DomainError } from "./organisation.server";
+import { liveSignatures } from "./review.server";
+import { deleteObject, putObject, getObjectBytes } from "./storage.server";
+
+type Actor = { id: string; email: string; name: string };
+
+async function mailRole(organisationId: string, role: Role, subject: string, paragraphs: string[], path: string) {
+  const rows = await db.select({ email: users.email, roles: memberships.roles }).from(memberships).innerJoin(users, eq(users.id, memberships.userId)).where(eq(memberships.organisationId, organisationId));
+  for (const r of rows.filter((x) => x.roles.includes(role))) {
+    await sendMail({ to: r.email, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((e: unknown) => console.warn(`mail not sent: ${String(e)}`));
+  }
+}
+
+/** The report number printed on every page: programme, case and version. */
+export function reportNumber(programmeCode: string, caseReference: string, version: number): string {
+  return `${programmeCode}-${caseReference}-R${String(version).padStart(2, "0")}`;
+}
+
+/**
+ * Queues the next version of the case's report. Allowed once every step is approved and the case
+ * carries a valid "approved for issue" signature; the job is sent after the row is committed.
+ */
+export async function requestReport(input: { caseId: string; actor: Actor }): Promise<Report> {
+  const row = await db.transaction(async (tx) => {
+    const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
+    if (!c) throw new DomainError("Case not found.", "caseId", 404);
+    const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId));
+    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before a report can be issued.", "steps", 409);
+    const live = await liveSignatures(input.caseId, tx);
+    if (!live.some((s) => s.meaning === "approved for issue" && s.step === null && s.reportId === null)) {
+      throw new DomainError("A checker must approve the case for issue before a report is requested.", "case", 409);
+    }
+    const pending = await tx.select({ id: reports.id }).from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["queued", "generating"])));
+    if (pending.length) throw new DomainError("A report of this case is already being generated.", "case", 409);
+    const [{ last }] = (await tx.select({ last: max(reports.version) }).from(reports).where(eq(reports.caseId, input.caseId))) as [{ last: number | null }];
+    const version = (last ?? 0) + 1;
+    const [p] = await tx.select().from(programmes).where(eq(programmes.id, c.programmeId));
+    const [r] = await tx
+      .insert(reports)
+      .values({ organisationId: c.organisationId, caseId: c.id, version, reportNumber: reportNumber(p!.code, c.reference, version), requestedBy: input.actor.id, progressNote: "waiting for a worker" })
+      .returning();
+    await writeAudit(tx, { organisationId: c.organisationId, actor: input.actor, action: "report.request", entityType: "report", entityId: r!.id, after: { caseId: c.id, version, reportNumber: r!.reportNumber } });
+    return r!;
+  });
+  const queue = await boss();
+  await queue.send(QUEUES.generateReport, { reportId: row.id }, { ...REPORT_JOB_OPTIONS, singletonKey: row.id });
+  return row;
+}
+
+async function setProgress(reportId: string, progress: number, note: string) {
+  await db.update(reports).set({ progress, progressNote: note }).where(eq(reports.id, reportId));
+}
+
+/** Signature lines of a case (live ones) for the report's signature page. */
+async function signatureLines(caseId: string): Promise<SignatureLine[]> {
+  const live = await liveSignatures(caseId);
+  return live
+    .filter((s) => s.reportId === null)
+    .sort((a, b) => a.signedAt.getTime() - b.signedAt.getTime())
+    .map((s) => ({ step: s.step, name: s.signerName, role: s.role, meaning: s.meaning, signedAt: s.signedAt.toISOString(), revision: s.revision, revisionHash: s.revisionHash }));
+}
+
+/** Freezes everything the report is made from. */
+export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
+  const [row] = await db
+    .select({ c: cases, p: programmes, o: organisations })
+    .from(cases)
+    .innerJoin(programmes, eq(programmes.id, cases.programmeId))
+    .innerJoin(organisations, eq(organisations.id, cases.organisationId))
+    .where(eq(cases.id, report.caseId));
+  const steps = await getCaseSteps(report.caseId);
+  const inputs = caseInputs(steps);
+  if (!inputs.basis || !inputs.planform || !inputs.sections || !inputs.envelope || !inputs.loads) throw new Error("a step of the case has no valid data");
+  const exchange = buildCaseFile(row!.c.title, inputs);
+  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy);
+  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy)).result).map((f) => ({
+    ...f,
+    action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
+    comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",
+  }));
+  return {
+    reportId: report.id,
+    reportNumber: report.reportNumber,
+    version: report.version,
+    issuedAt: new Date().toISOString(),
+    organisation: row!.o.name,
+    programme: { code: row!.p.code, name: row!.p.name, aircraft: row!.p.aircraft },
+    case: { id: row!.c.id, reference: row!.c.reference, title: row!.c.title, description: row!.c.description },
+    revisions: Object.fromEntries(STEPS.map((s) => [s.key, steps[s.key].revision])),
+    inputHash,
+    engineVersion: ENGINE_VERSION,
+    inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
+    exchange,
+    result,
+    flags,
+    signatures: await signatureLines(report.caseId),
+  };
+}
+
+/**
+ * The job: snapshot → PDF → S3 → database, so that no half-issued report can exist. The object goes
+ * to a key unique to this report version; only then, in one transaction, does the row become
+ * "issued" with the object's size and SHA-256. If that transaction fails the object is removed; if
+ * the upload fails nothing is recorded and the job is retried. A finished report is left alone.
+ */
+export async function generateReport(reportId: string, attempt: { retryCount: number; retryLimit: number } = { retryCount: 0, retryLimit: 0 }): Promise<void> {
+  const [report] = await db.select().from(reports).where(eq(reports.id, reportId));
+  if (!report || report.status === "issued" || report.status === "released") return;
+  await db.update(reports).set({ status: "generating", attempts: report.attempts + 1, failure: null }).where(eq(reports.id, reportId));
+  let key: string | null = null;
+  try {
+    await setProgress(reportId, 10, "freezing the inputs and results");
+    const snapshot = await buildSnapshot(report);
+    const { renderReportPdf } = await import("~/reports/pdf.server");
+    const pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => void setProgress(reportId, 20 + Math.round(pct * 0.6), note) });
+    await setProgress(reportId, 85, "storing the PDF");
+    const sha256 = sha256Hex(pdf);
+    const bucket = env().S3_BUCKET_REPORTS;
+    key = `cases/${report.caseId}/${report.reportNumber}.pdf`;
+    await putObject(bucket, key, pdf, "application/pdf", sha256);
+    await db.transaction(async (tx) => {
+      const [locked] = await tx.select().from(reports).where(eq(reports.id, reportId)).for("update");
+      if (!locked || locked.status === "issued" || locked.status === "released") throw new DomainError("already issued", "report", 409);
+      await tx
+        .update(reports)
+        .set({ status: "issued", progress: 100, progressNote: "issued", bucket, key, size: pdf.byteLength, sha256, inputHash: snapshot.inputHash, engineVersion: snapshot.engineVersion, snapshot: snapshot as unknown as Record<string, unknown>, issuedAt: new Date(snapshot.issuedAt) })
+        .where(eq(reports.id, reportId));
+      await tx.update(cases).set({ status: "issued", updatedAt: new Date() }).where(eq(cases.id, report.caseId));
+      await writeAudit(tx, { organisationId: report.organisationId, actor: null, action: "report.issue", entityType: "report", entityId: reportId, after: { reportNumber: report.reportNumber, version: report.version, key, size: pdf.byteLength, sha256, inputHash: snapshot.inputHash } });
+    });
+  } catch (error) {
+    if (error instanceof DomainError && error.message === "already issued") return;
+    // The object of a report that did not become issued must not linger.
+    if (key) await deleteObject(env().S3_BUCKET_REPORTS, key).catch(() => {});
+    const last = attempt.retryCount >= attempt.retryLimit;
+    const message = error instanceof Error ? error.message : String(error);
+    await db
+      .update(reports)
+      .set({ status: last ? "failed" : "queued", progress: 0, progressNote: last ? "failed" : `attempt ${report.attempts + 1} failed; retrying`, failure: message.slice(0, 500) })
+      .where(and(eq(reports.id, reportId), inArray(reports.status, ["queued", "generating"])))
+      .catch(() => {});
+    throw error;
+  }
+  await mailRole(report.organisationId, "quality", `${report.reportNumber} issued`, [`Report ${report.reportNumber} (version ${report.version}) has been issued and waits for release.`], `/reports`);
+  const [requester] = await db.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
+  if (requester) {
+    await sendMail({ to: requester.email, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
+  }
+}
+
+/** Quality's release: a signature with meaning "released" on exactly the issued PDF bytes. */
+export async function releaseReport(input: { reportId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }) {
+  const actor = input.current.user;
+  const released = await db.transaction(async (tx) => {
+    const [r] = await tx.select().from(reports).where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId))).for("update");
+    if (!r) throw new DomainError("Report not found.", "reportId", 404);
+    if (r.status !== "issued") throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, "status", 409);
+    const [sig] = await tx
+      .insert(signatures)
+      .values({ organisationId: r.organisationId, caseId: r.caseId, reportId: r.id, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "released", confirmedBy: input.confirmedBy, revisionHash: r.sha256! })
+      .returning();
+    const now = new Date();
+    await tx.update(reports).set({ status: "released", releasedAt: now }).where(eq(reports.id, r.id));
+    await tx.update(cases).set({ status: "released", updatedAt: now }).where(eq(cases.id, r.caseId));
+    await writeAudit(tx, { organisationId: r.organisationId, actor, action: "report.release", entityType: "report", entityId: r.id, after: { signatureId: sig!.id, sha256: r.sha256 } });
+    return r;
+  });
+  await mailRole(released.organisationId, "engineer", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], `/cases/${released.caseId}/reports`);
+  await mailRole(released.organisationId, "checker", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], `/cases/${released.caseId}/reports`);
+}
+
+export interface ReportListItem {
+  id: string;
+  caseId: string;
+  version: number;
+  reportNumber: string;
+  status: Report["status"];
+  progress: number;
+  progressNote: string;
+  failure: string | null;
+  sha256: string | null;
+  size: number | null;
+  createdAt: Date;
+  issuedAt: Date | null;
+  releasedAt: Date | null;
+  signatures: { name: string; role: string; meaning: string; signedAt: Date; revisionHash: string }[];
+}
+
+/** Reports of one case (or of the organisation), with every signature that stands behind each. */
+export async function listReports(organisationId: string, caseId?: string): Promise<ReportListItem[]> {
+  const rows = await db
+    .select()
+    .from(reports)
+    .where(caseId ? and(eq(reports.organisationId, organisationId), eq(reports.caseId, caseId)) : eq(reports.organisationId, organisationId))
+    .orderBy(desc(reports.requestedAt));
+  const caseIds = [...new Set(rows.map((r) => r.caseId))];
+  const sigs = caseIds.length
+    ? await db.select({ s: signatures, v: signatureVoids.id }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(inArray(signatures.caseId, caseIds)).orderBy(asc(signatures.signedAt))
+    : [];
+  return rows.map((r) => {
+    // A report carries the case signatures frozen into its snapshot, plus its own release.
+    const frozen = ((r.snapshot as unknown as ReportSnapshot | null)?.signatures ?? []).map((s) => ({ name: s.name, role: s.role, meaning: s.meaning, signedAt: new Date(s.signedAt), revisionHash: s.revisionHash }));
+    const own = sigs.filter((x) => x.s.reportId === r.id && !x.v).map((x) => ({ name: x.s.signerName, role: x.s.role, meaning: x.s.meaning, signedAt: x.s.signedAt, revisionHash: x.s.revisionHash }));
+    return { id: r.id, caseId: r.caseId, version: r.version, reportNumber: r.reportNumber, status: r.status, progress: r.progress, progressNote: r.progressNote, failure: r.failure, sha256: r.sha256, size: r.size, createdAt: r.requestedAt, issuedAt: r.issuedAt, releasedAt: r.releasedAt, signatures: [...frozen, ...own] };
+  });
+}
+
+export async function getReport(organisationId: string, reportId: string) {
+  const [r] = await db.select().from(reports).where(and(eq(reports.id, reportId), eq(reports.organisationId, organisationId)));
+  return r ?? null;
+}
+
+/** The stored PDF bytes, checked against the recorded SHA-256 before they are handed out. */
+export async function reportBytes(r: Report): Promise<Uint8Array> {
+  if (!r.key || !r.bucket || !r.sha256) throw new DomainError("This report has no PDF yet.", "report", 409);
+  const bytes = await getObjectBytes(r.bucket, r.key);
+  if (sha256Hex(bytes) !== r.sha256) throw new Error(`stored report ${r.key} does not match its recorded SHA-256`);
+  return bytes;
+}
+
+/** Which issued report of the organisation a PDF is, by the SHA-256 of its bytes. */
+export async function verifyPdf(organisationId: string, bytes: Uint8Array) {
+  const sha256 = sha256Hex(bytes);
+  const [r] = await db.select().from(reports).where(and(eq(reports.organisationId, organisationId), eq(reports.sha256, sha256)));
+  return { sha256, report: r ?? null };
+}
+
+

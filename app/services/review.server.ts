@@ -1,0 +1,251 @@
+import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
+import { verifyPassword } from "~/auth/password.server";
+import type { CurrentUser } from "~/auth/session.server";
+import { STEPS, downstreamOf } from "~/cases/steps";
+import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
+import { db, type Tx } from "~/db/client.server";
+import {
+  caseSteps,
+  cases,
+  memberships,
+  sessions,
+  signatureVoids,
+  signatures,
+  stepComments,
+  stepRevisions,
+  users,
+  type Role,
+  type SignatureMeaning,
+  type StepKey,
+} from "~/db/schema";
+import { env } from "~/utils/env.server";
+import { sendMail } from "./mail.server";
+import { DomainError } from "./organisation.server";
+
+type Actor = { id: string; email: string; name?: string };
+
+/** A fresh company sign-in counts as re-confirming identity for this long. */
+export const FRESH_SSO_MS = 10 * 60 * 1000;
+
+/** The hash a step signature carries: the canonical serialisation of exactly the revision signed. */
+export function stepRevisionHash(caseId: string, step: StepKey, revision: number, data: unknown): string {
+  return sha256Hex(canonicalJson({ caseId, step, revision, data }));
+}
+
+/** The hash a case approval carries: every step's signed revision hash, in step order. */
+export function caseApprovalHash(caseId: string, stepHashes: Record<StepKey, string>): string {
+  return sha256Hex(canonicalJson({ caseId, steps: STEPS.map((s) => [s.key, stepHashes[s.key]]) }));
+}
+
+async function members(organisationId: string, role: Role) {
+  const rows = await db
+    .select({ email: users.email, name: users.name, roles: memberships.roles })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(and(eq(memberships.organisationId, organisationId), eq(users.disabled, false)));
+  return rows.filter((r) => r.roles.includes(role));
+}
+
+/** Notifications never undo the change they announce: a mail failure is logged, not thrown. */
+async function notify(to: string[], subject: string, paragraphs: string[], path: string) {
+  for (const address of to) {
+    await sendMail({ to: address, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((error: unknown) =>
+      console.warn(`mail to ${address} not sent: ${error instanceof Error ? error.message : String(error)}`),
+    );
+  }
+}
+
+async function lockStep(tx: Tx, caseId: string, step: StepKey) {
+  const [row] = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step))).for("update");
+  if (!row || row.revision === 0) throw new DomainError("This step has not been saved yet.", "step", 409);
+  return row;
+}
+
+/**
+ * Re-confirms the signer's identity before a signature: their password, or a company sign-in less
+ * than ten minutes old for people who sign in through the identity provider.
+ */
+export async function confirmIdentity(current: CurrentUser, password: string | undefined): Promise<"password" | "sso"> {
+  const [user] = await db.select().from(users).where(eq(users.id, current.user.id));
+  if (password) {
+    if (user?.passwordHash && (await verifyPassword(user.passwordHash, password))) return "password";
+    throw new DomainError("The password is not correct: the signature was not recorded.", "password", 401);
+  }
+  if (!current.sessionId.startsWith("token:")) {
+    const [session] = await db.select().from(sessions).where(eq(sessions.id, current.sessionId));
+    if (session?.method === "sso" && Date.now() - session.createdAt.getTime() < FRESH_SSO_MS) return "sso";
+  }
+  throw new DomainError("Confirm your identity to sign: enter your password (or sign in again with company sign-in).", "password", 401);
+}
+
+/** Submits a saved step for check: it becomes read-only for the engineer and the checkers are told. */
+export async function submitStep(input: { caseId: string; step: StepKey; actor: Actor; comment?: string; blockers?: string[] }) {
+  if (input.blockers?.length) throw new DomainError(input.blockers.join(" "), "step", 409);
+  const result = await db.transaction(async (tx) => {
+    const row = await lockStep(tx, input.caseId, input.step);
+    if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, "status", 409);
+    await tx.update(caseSteps).set({ status: "submitted" }).where(eq(caseSteps.id, row.id));
+    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: input.actor.id, kind: "submitted", body: input.comment?.trim() || "Submitted for check." });
+    const [c] = await tx.update(cases).set({ status: "submitted", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
+    await writeAudit(tx, { organisationId: c!.organisationId, actor: input.actor, action: `step.${input.step}.submit`, entityType: "case", entityId: input.caseId, after: { step: input.step, revision: row.revision } });
+    return { case: c!, revision: row.revision };
+  });
+  const checkers = await members(result.case.organisationId, "checker");
+  await notify(
+    checkers.map((c) => c.email),
+    `${result.case.reference}: ${input.step} submitted for check`,
+    [`${input.actor.email} submitted the ${input.step} step of ${result.case.reference} (${result.case.title}), revision ${result.revision}, for your check.`],
+    `/cases/${input.caseId}/review`,
+  );
+}
+
+/** Returns a submitted step to the engineer with the checker's comments. */
+export async function returnStep(input: { caseId: string; step: StepKey; actor: Actor; comment: string; anchor?: string }) {
+  if (input.comment.trim().length < 3) throw new DomainError("Say what needs to change: a comment is required to return a step.", "comment");
+  const result = await db.transaction(async (tx) => {
+    const row = await lockStep(tx, input.caseId, input.step);
+    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be returned.", "status", 409);
+    await tx.update(caseSteps).set({ status: "returned" }).where(eq(caseSteps.id, row.id));
+    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: input.actor.id, kind: "returned", anchor: input.anchor?.trim() || null, body: input.comment.trim() });
+    const [c] = await tx.update(cases).set({ status: "returned", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
+    await writeAudit(tx, { organisationId: c!.organisationId, actor: input.actor, action: `step.${input.step}.return`, entityType: "case", entityId: input.caseId, after: { step: input.step, revision: row.revision, comment: input.comment.trim() } });
+    const [author] = await tx.select({ email: users.email }).from(stepRevisions).innerJoin(users, eq(users.id, stepRevisions.createdBy)).where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
+    return { case: c!, revision: row.revision, author: author?.email };
+  });
+  if (result.author) {
+    await notify([result.author], `${result.case.reference}: ${input.step} returned`, [`${input.actor.email} returned the ${input.step} step of ${result.case.reference}, revision ${result.revision}, with this comment:`, input.comment.trim()], `/cases/${input.caseId}/review`);
+  }
+}
+
+/**
+ * Approves a submitted step with a signature (meaning "checked"). Refused to anyone who edited the
+ * step's current revision: nobody checks their own work.
+ */
+export async function approveStep(input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string }) {
+  const actor = input.current.user;
+  const result = await db.transaction(async (tx) => {
+    const row = await lockStep(tx, input.caseId, input.step);
+    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", "status", 409);
+    const [rev] = await tx.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
+    if (!rev) throw new DomainError("The revision to approve was not found.", "revision", 409);
+    if (rev.createdBy === actor.id) throw new DomainError("You edited this revision yourself: another checker must approve it (separation of duties).", "step", 403);
+    const revisionHash = stepRevisionHash(input.caseId, input.step, row.revision, rev.data);
+    const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
+    const [sig] = await tx
+      .insert(signatures)
+      .values({ organisationId: c!.organisationId, caseId: input.caseId, step: input.step, revision: row.revision, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "checked", confirmedBy: input.confirmedBy, revisionHash })
+      .returning();
+    await tx.update(caseSteps).set({ status: "approved" }).where(eq(caseSteps.id, row.id));
+    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: actor.id, kind: "approved", body: input.comment?.trim() || "Checked and approved." });
+    const statuses = await tx.select({ status: caseSteps.status }).from(caseSteps).where(eq(caseSteps.caseId, input.caseId));
+    const open = statuses.some((s) => s.status === "submitted");
+    await tx.update(cases).set({ status: open ? "submitted" : statuses.length === STEPS.length && statuses.every((s) => s.status === "approved") ? "approved" : "draft", updatedAt: new Date() }).where(eq(cases.id, input.caseId));
+    await writeAudit(tx, { organisationId: c!.organisationId, actor, action: `step.${input.step}.approve`, entityType: "case", entityId: input.caseId, after: { signatureId: sig!.id, step: input.step, revision: row.revision, revisionHash, meaning: "checked" } });
+    return { case: c!, revision: row.revision, author: rev.createdBy };
+  });
+  const [author] = await db.select({ email: users.email }).from(users).where(eq(users.id, result.author));
+  if (author) await notify([author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
+}
+
+/** Signatures not voided, newest first, for a case. */
+export async function liveSignatures(caseId: string, database: Tx | typeof db = db) {
+  const rows = await database
+    .select({ sig: signatures, voidId: signatureVoids.id })
+    .from(signatures)
+    .leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id))
+    .where(eq(signatures.caseId, caseId))
+    .orderBy(desc(signatures.signedAt));
+  return rows.filter((r) => !r.voidId).map((r) => r.sig);
+}
+
+/**
+ * The checker's signature on the whole case ("approved for issue") once every step is approved;
+ * its hash binds the signed revision hash of every step. Only then may a report be requested.
+ */
+export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }) {
+  const actor = input.current.user;
+  await db.transaction(async (tx) => {
+    const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId)).for("update");
+    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", "steps", 409);
+    const live = await liveSignatures(input.caseId, tx);
+    if (live.some((s) => s.meaning === "approved for issue")) throw new DomainError("The case is already approved for issue.", "case", 409);
+    const hashes = {} as Record<StepKey, string>;
+    for (const s of STEPS) {
+      const sig = live.find((x) => x.step === s.key && x.meaning === "checked");
+      if (!sig) throw new DomainError(`The ${s.key} step has no valid check signature.`, "steps", 409);
+      hashes[s.key] = sig.revisionHash;
+    }
+    const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
+    const revisionHash = caseApprovalHash(input.caseId, hashes);
+    const [sig] = await tx
+      .insert(signatures)
+      .values({ organisationId: c!.organisationId, caseId: input.caseId, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "approved for issue", confirmedBy: input.confirmedBy, revisionHash })
+      .returning();
+    await writeAudit(tx, { organisationId: c!.organisationId, actor, action: "case.approve-for-issue", entityType: "case", entityId: input.caseId, after: { signatureId: sig!.id, revisionHash } });
+  });
+}
+
+/**
+ * Called inside the transaction of every step save: an edit voids the approval of that step, of
+ * every step downstream of it, and of the case as a whole. The voided steps go back to draft and
+ * the reason is written into each step's thread.
+ */
+export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; step: StepKey; revision: number; actor: Actor }) {
+  const affected: StepKey[] = [input.step, ...downstreamOf(input.step)];
+  const live = await liveSignatures(input.caseId, tx);
+  const toVoid = live.filter((s) => (s.step !== null && affected.includes(s.step) && s.meaning === "checked") || (s.step === null && s.reportId === null && s.meaning === "approved for issue"));
+  if (toVoid.length === 0) return [];
+  const reason = `${input.step} changed to revision ${input.revision} by ${input.actor.email}`;
+  await tx.insert(signatureVoids).values(toVoid.map((s) => ({ signatureId: s.id, reason, voidedBy: input.actor.id })));
+  const voidedSteps = [...new Set(toVoid.map((s) => s.step).filter((s): s is StepKey => s !== null))];
+  if (voidedSteps.length) {
+    await tx.update(caseSteps).set({ status: "draft" }).where(and(eq(caseSteps.caseId, input.caseId), inArray(caseSteps.step, voidedSteps), eq(caseSteps.status, "approved")));
+    const rows = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, input.caseId), inArray(caseSteps.step, voidedSteps)));
+    await tx.insert(stepComments).values(rows.map((r) => ({ caseId: input.caseId, step: r.step, revision: r.revision, authorId: input.actor.id, kind: "comment" as const, body: `Approval voided: ${reason}.` })));
+  }
+  return toVoid.map((s) => s.id);
+}
+
+export async function addComment(input: { caseId: string; step: StepKey; actor: Actor; body: string; anchor?: string }) {
+  if (input.body.trim().length === 0) throw new DomainError("Write a comment.", "body");
+  await db.transaction(async (tx) => {
+    const [row] = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, input.caseId), eq(caseSteps.step, input.step)));
+    const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
+    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row?.revision ?? 0, authorId: input.actor.id, kind: "comment", anchor: input.anchor?.trim() || null, body: input.body.trim() });
+    await writeAudit(tx, { organisationId: c!.organisationId, actor: input.actor, action: `step.${input.step}.comment`, entityType: "case", entityId: input.caseId, after: { body: input.body.trim(), anchor: input.anchor ?? null } });
+  });
+}
+
+/** Everything the review page shows: per step, its state, thread and signatures (voided ones marked). */
+export async function reviewState(caseId: string) {
+  const [steps, comments, sigs, revs] = await Promise.all([
+    db.select().from(caseSteps).where(eq(caseSteps.caseId, caseId)),
+    db.select({ c: stepComments, author: users.name }).from(stepComments).innerJoin(users, eq(users.id, stepComments.authorId)).where(eq(stepComments.caseId, caseId)).orderBy(asc(stepComments.createdAt)),
+    db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt)),
+    db.select({ step: stepRevisions.step, revision: stepRevisions.revision, createdBy: stepRevisions.createdBy, author: users.name }).from(stepRevisions).innerJoin(users, eq(users.id, stepRevisions.createdBy)).where(eq(stepRevisions.caseId, caseId)),
+  ]);
+  return STEPS.map((s) => {
+    const row = steps.find((r) => r.step === s.key);
+    const revision = row?.revision ?? 0;
+    const current = revs.find((r) => r.step === s.key && r.revision === revision);
+    return {
+      key: s.key,
+      label: s.label,
+      status: row?.status ?? "empty",
+      revision,
+      revisionAuthorId: current?.createdBy ?? null,
+      revisionAuthor: current?.author ?? null,
+      comments: comments.filter((c) => c.c.step === s.key).map((c) => ({ id: c.c.id, kind: c.c.kind, revision: c.c.revision, anchor: c.c.anchor, body: c.c.body, author: c.author, at: c.c.createdAt })),
+      signatures: sigs.filter((x) => x.sig.step === s.key).map((x) => signatureView(x.sig, x.void)),
+    };
+  });
+}
+
+export async function caseSignatures(caseId: string) {
+  const rows = await db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.step), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+  return rows.map((x) => signatureView(x.sig, x.void));
+}
+
+function signatureView(sig: typeof signatures.$inferSelect, v: typeof signatureVoids.$inferSelect | null) {
+  return { id: sig.id, name: sig.signerName, role: sig.role, meaning: sig.meaning as SignatureMeaning, signedAt: sig.signedAt, revision: sig.revision, revisionHash: sig.revisionHash, confirmedBy: sig.confirmedBy, voided: v ? { reason: v.reason, at: v.voidedAt } : null };
+}
