@@ -1,0 +1,159 @@
+import { execFile } from "node:child_process";
+import { mkdtemp, readdir, writeFile } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { promisify } from "node:util";
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { formatNumber, formatQuantity, fromSI } from "~/cases/units";
+import { db } from "~/db/client.server";
+import { cases, organisations, programmes, stepRevisions } from "~/db/schema";
+import { ENGINE_VERSION } from "~/engine";
+import { criticalCase, fontRuns, renderReportPdf } from "~/reports/pdf.server";
+import type { ReportSnapshot } from "~/reports/snapshot";
+import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
+import { getCaseSteps } from "~/services/case-steps.server";
+import { flaggedCases } from "~/services/distribution.server";
+import { seed } from "./helpers";
+
+const run = promisify(execFile);
+const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+
+let snapshot: ReportSnapshot;
+let pdf: Uint8Array;
+let dir = "";
+let pdfPath = "";
+let pages: string[] = [];
+const notes: string[] = [];
+
+// Invented signers; the first name needs the latin-ext subset (Ł, Ż), the second only latin (é, Ø, å).
+const CHECKER = "Łucja Żak";
+const RELEASER = "Renée Ødegård";
+
+async function buildSnapshot(): Promise<ReportSnapshot> {
+  const [row] = await db
+    .select({ c: cases, p: programmes, o: organisations })
+    .from(cases)
+    .innerJoin(programmes, eq(programmes.id, cases.programmeId))
+    .innerJoin(organisations, eq(organisations.id, cases.organisationId))
+    .where(eq(cases.reference, "TN-WL-001"));
+  const { c, p, o } = row!;
+  const steps = await getCaseSteps(c.id);
+  const inputs = caseInputs(steps);
+  const exchange = buildCaseFile(c.title, inputs);
+  const { result, inputHash } = await resultsFor(c.id, exchange, null);
+  // Flags come from every case the envelope includes, as the distribution step shows them.
+  const { result: examined } = await resultsFor(c.id, buildCaseFile(c.title, inputs, "envelope"), null);
+  const dispositions = inputs.distribution!.dispositions;
+  const [loadsRev] = await db.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, c.id), eq(stepRevisions.step, "loads"), eq(stepRevisions.revision, steps.loads.revision)));
+  return {
+    reportId: "00000000-0000-4000-8000-000000000001",
+    reportNumber: "KF60-LR-0001",
+    version: 1,
+    issuedAt: "2026-12-01T09:30:00.000Z",
+    organisation: o.name,
+    programme: { code: p.code, name: p.name, aircraft: p.aircraft },
+    case: { id: c.id, reference: c.reference, title: c.title, description: c.description },
+    revisions: Object.fromEntries(Object.entries(steps).map(([k, st]) => [k, st.revision])),
+    inputHash,
+    engineVersion: ENGINE_VERSION,
+    inputs: {
+      basis: inputs.basis!,
+      planform: inputs.planform!,
+      sections: inputs.sections!,
+      envelope: inputs.envelope!,
+      distribution: inputs.distribution!,
+      loads: inputs.loads!,
+    },
+    exchange,
+    result,
+    flags: flaggedCases(examined).map((f) => ({ ...f, action: dispositions[f.id]?.action ?? "none", comment: dispositions[f.id]?.comment ?? "" })),
+    signatures: [
+      { step: "loads", name: CHECKER, role: "checker", meaning: "Checked: loads agree with the inputs", signedAt: "2026-11-30T16:05:12.000Z", revision: steps.loads.revision, revisionHash: loadsRev!.hash },
+      { step: null, name: RELEASER, role: "quality", meaning: "Released for issue", signedAt: "2026-12-01T09:29:40.000Z", revision: null, revisionHash: inputHash },
+    ],
+  };
+}
+
+beforeAll(async () => {
+  await seed();
+  snapshot = await buildSnapshot();
+  const started = performance.now();
+  pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => notes.push(`${pct} ${note}`) });
+  notes.push(`render ${(performance.now() - started).toFixed(0)} ms`);
+  dir = await mkdtemp(join(tmpdir(), "spanwright-report-"));
+  pdfPath = join(dir, "report.pdf");
+  await writeFile(pdfPath, pdf);
+  const { stdout } = await run("pdftotext", ["-layout", "-enc", "UTF-8", pdfPath, "-"], { maxBuffer: 64 * 1024 * 1024 });
+  // pdftotext ends every page with a form feed.
+  pages = stdout.split("\f").slice(0, -1);
+}, 120_000);
+
+describe("the signed report PDF of the demo case", () => {
+  it("is a PDF of several A4 pages with progress reported to 100", async () => {
+    expect(Buffer.from(pdf.subarray(0, 5)).toString("latin1")).toBe("%PDF-");
+    const { stdout } = await run("pdfinfo", [pdfPath]);
+    expect(stdout).toMatch(/Page size:\s+595\.28 x 841\.89 pts \(A4\)/);
+    expect(pages.length).toBeGreaterThan(6);
+    expect(notes.some((n) => n.startsWith("100 "))).toBe(true);
+    process.stdout.write(`report: ${pages.length} pages, ${pdf.length} bytes, ${notes.at(-1)}; PDF and pages in ${dir}\n`);
+  });
+
+  it("holds the case title, report number and the critical root bending moment as printed", () => {
+    const text = pages.join("\n");
+    expect(text).toContain(snapshot.case.title);
+    expect(text).toContain(snapshot.reportNumber);
+    const crit = criticalCase(snapshot.result.cases);
+    // The cover prints it with its unit; the root-loads table in the header's unit.
+    expect(text).toContain(formatQuantity(snapshot.inputs.basis.units, "moment", crit.root.bending));
+    const tableRow = new RegExp(`${escape(crit.id)}\\s.*${escape(formatNumber(fromSI(snapshot.inputs.basis.units, "moment", crit.root.bending)))}`);
+    expect(text).toMatch(tableRow);
+  });
+
+  it("keeps every signer's name with its accents", () => {
+    const text = pages.join("\n");
+    for (const g of snapshot.signatures) expect(text).toContain(g.name);
+    expect(text).toContain(CHECKER);
+    expect(text).toContain(RELEASER);
+  });
+
+  it("cuts names into runs of the subset each character needs", () => {
+    expect(fontRuns(CHECKER)).toEqual([
+      { subset: "latin-ext", text: "Ł" },
+      { subset: "latin", text: "ucja " },
+      { subset: "latin-ext", text: "Ż" },
+      { subset: "latin", text: "ak" },
+    ]);
+    expect(fontRuns(RELEASER)).toEqual([{ subset: "latin", text: RELEASER }]);
+  });
+
+  it("has the footer with report, version, input hash and page N of M on every page", () => {
+    const total = pages.length;
+    pages.forEach((page, i) => {
+      expect(page).toContain(`Report ${snapshot.reportNumber} v${snapshot.version} · inputs ${snapshot.inputHash.slice(0, 16)} · page ${i + 1} of ${total}`);
+    });
+  });
+
+  it("embeds Source Sans 3 and no other font", async () => {
+    const { stdout } = await run("pdffonts", [pdfPath]);
+    const rows = stdout.split("\n").slice(2).filter((l) => l.trim());
+    expect(rows.length).toBeGreaterThan(1);
+    for (const r of rows) {
+      expect(r).toMatch(/^[A-Z]{6}\+SourceSans3-/);
+      // Columns emb, sub, uni: embedded, subset, with a ToUnicode map (text stays searchable).
+      expect(r).toMatch(/\syes\s+yes\s+yes\s/);
+    }
+  });
+
+  it("renders the same bytes twice from the same snapshot", async () => {
+    const again = await renderReportPdf(structuredClone(snapshot));
+    expect(again.length).toBe(pdf.length);
+    expect(Buffer.compare(Buffer.from(again), Buffer.from(pdf))).toBe(0);
+  });
+
+  it("rasterises every page for a look", async () => {
+    await run("pdftoppm", ["-png", "-r", "60", pdfPath, join(dir, "page")]);
+    const pngs = (await readdir(dir)).filter((f) => f.endsWith(".png"));
+    expect(pngs.length).toBe(pages.length);
+  });
+});
