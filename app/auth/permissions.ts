@@ -38,7 +38,7 @@ export function hasPermission(roles: readonly Role[], permission: Permission): b
 export function landingPath(roles: readonly Role[]): string {
   if (roles.includes("engineer")) return "/cases";
   if (roles.includes("checker")) return "/checks";
-  if (roles.includes("quality")) return "/audit";
+  if (roles.includes("quality")) return "/reports";
   if (roles.includes("admin")) return "/admin";
   return "/account";
 }

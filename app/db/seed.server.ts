@@ -6,14 +6,18 @@ import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.serve
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { flaggedCases } from "~/services/distribution.server";
 import { generatedCases, vnSets } from "~/services/envelope.server";
-import { DEMO_CASE_INPUTS, DEMO_CASES, DEMO_ORGANISATIONS, DEMO_PROGRAMMES, DEMO_USERS } from "./demo";
-import { cases, memberships, organisations, programmes, users } from "./schema";
+import { DEMO_CASE_INPUTS, DEMO_CASES, DEMO_ORGANISATIONS, DEMO_PROGRAMMES, DEMO_USERS, type DemoUser } from "./demo";
+import { caseSteps, cases, memberships, organisations, programmes, reports, users } from "./schema";
+import { verifyPassword } from "~/auth/password.server";
+import { STEPS } from "~/cases/steps";
+import { approveCaseForIssue, approveStep, submitStep } from "~/services/review.server";
+import { createReportRow, generateReport, releaseReport } from "~/services/reports.server";
 
 /**
  * Creates the demo scenario where it is missing and leaves everything that exists alone, so it can
  * run at every start (passwords and roles changed by people are kept).
  */
-export async function seedDemo(db: Db): Promise<{ created: number }> {
+export async function seedDemo(db: Db, opts: { report?: boolean } = {}): Promise<{ created: number }> {
   let created = 0;
   const orgIds: Record<string, string> = {};
   for (const [key, org] of Object.entries(DEMO_ORGANISATIONS)) {
@@ -68,6 +72,7 @@ export async function seedDemo(db: Db): Promise<{ created: number }> {
     created++;
   }
   created += await seedDemoCaseSteps(db, userIds.engineer!, DEMO_USERS.find((u) => u.label === "engineer")!.email);
+  if (opts.report !== false) created += await seedDemoReport(db, userIds);
   return { created };
 }
 
@@ -96,4 +101,40 @@ async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: stri
   await save("distribution", { dispositions } as never);
   await resultsFor(demo.id, buildCaseFile(demo.title, caseInputs(await getCaseSteps(demo.id))), engineerId);
   return 6;
+}
+
+/**
+ * Walks the demo case through review and issue as the demo people would: the engineer submits
+ * each step, the checker approves each (signature "checked") and the case ("approved for issue"),
+ * the report is generated and the quality user releases it. Skipped once the case has a report.
+ */
+async function seedDemoReport(db: Db, userIds: Record<string, string>): Promise<number> {
+  const [demo] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-001"));
+  if (!demo) return 0;
+  if ((await db.select({ id: reports.id }).from(reports).where(eq(reports.caseId, demo.id))).length) return 0;
+  const person = async (label: DemoUser["label"]) => {
+    const u = DEMO_USERS.find((x) => x.label === label)!;
+    const [row] = await db.select().from(users).where(eq(users.id, userIds[label]!));
+    // Signatures re-confirm identity; the seed does so with the demo password like a person would.
+    if (!row?.passwordHash || !(await verifyPassword(row.passwordHash, u.password))) return null;
+    const [m] = await db.select().from(memberships).where(eq(memberships.userId, row.id));
+    const [o] = await db.select().from(organisations).where(eq(organisations.id, m!.organisationId));
+    return { sessionId: "seed", user: { id: row.id, email: row.email, name: row.name }, organisation: { id: o!.id, name: o!.name, slug: o!.slug }, roles: m!.roles };
+  };
+  const engineer = await person("engineer");
+  const checker = await person("checker");
+  const quality = await person("quality");
+  if (!engineer || !checker || !quality) return 0;
+  const steps = await db.select().from(caseSteps).where(eq(caseSteps.caseId, demo.id));
+  for (const s of STEPS) {
+    const row = steps.find((r) => r.step === s.key);
+    if (!row || row.status === "approved") continue;
+    if (row.status !== "submitted") await submitStep({ caseId: demo.id, step: s.key, actor: engineer.user, comment: "Demo submission." });
+    await approveStep({ caseId: demo.id, step: s.key, current: checker, role: "checker", confirmedBy: "password", comment: "Demo check: inputs traced to the KF-60 data pack." });
+  }
+  await approveCaseForIssue({ caseId: demo.id, current: checker, role: "checker", confirmedBy: "password" });
+  const report = await createReportRow({ caseId: demo.id, actor: engineer.user });
+  await generateReport(report.id);
+  await releaseReport({ reportId: report.id, organisationId: demo.organisationId, current: quality, role: "quality", confirmedBy: "password" });
+  return 1;
 }

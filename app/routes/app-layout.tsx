@@ -8,6 +8,7 @@ const NAV: { to: string; label: string; needs: Permission }[] = [
   { to: "/cases", label: "Cases", needs: "case:read" },
   { to: "/programmes", label: "Programmes", needs: "programme:read" },
   { to: "/checks", label: "Checks", needs: "step:check" },
+  { to: "/reports", label: "Reports", needs: "report:read" },
   { to: "/audit", label: "Audit trail", needs: "audit:read" },
   { to: "/admin", label: "Members", needs: "org:admin" },
 ];

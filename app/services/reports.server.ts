@@ -35,7 +35,15 @@ export function reportNumber(programmeCode: string, caseReference: string, versi
  * carries a valid "approved for issue" signature; the job is sent after the row is committed.
  */
 export async function requestReport(input: { caseId: string; actor: Actor }): Promise<Report> {
-  const row = await db.transaction(async (tx) => {
+  const row = await createReportRow(input);
+  const queue = await boss();
+  await queue.send(QUEUES.generateReport, { reportId: row.id }, { ...REPORT_JOB_OPTIONS, singletonKey: row.id });
+  return row;
+}
+
+/** The queued report row of the next version, after every check; the caller generates or enqueues it. */
+export async function createReportRow(input: { caseId: string; actor: Actor }): Promise<Report> {
+  return db.transaction(async (tx) => {
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
     if (!c) throw new DomainError("Case not found.", "caseId", 404);
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId));
@@ -56,9 +64,6 @@ export async function requestReport(input: { caseId: string; actor: Actor }): Pr
     await writeAudit(tx, { organisationId: c.organisationId, actor: input.actor, action: "report.request", entityType: "report", entityId: r!.id, after: { caseId: c.id, version, reportNumber: r!.reportNumber } });
     return r!;
   });
-  const queue = await boss();
-  await queue.send(QUEUES.generateReport, { reportId: row.id }, { ...REPORT_JOB_OPTIONS, singletonKey: row.id });
-  return row;
 }
 
 async function setProgress(reportId: string, progress: number, note: string) {

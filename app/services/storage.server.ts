@@ -16,6 +16,12 @@ export function s3(): S3Client {
   return client;
 }
 
+/** Drops the client so the next call connects to the S3_* settings anew (tests that move the store). */
+export function resetS3Client(): void {
+  client?.destroy();
+  client = undefined;
+}
+
 export async function putObject(bucket: string, key: string, body: Uint8Array, contentType: string, sha256: string): Promise<void> {
   await s3().send(new PutObjectCommand({ Bucket: bucket, Key: key, Body: body, ContentType: contentType, Metadata: { sha256 } }));
 }

@@ -30,6 +30,11 @@ export type Env = z.infer<typeof EnvSchema>;
 
 let cached: Env | undefined;
 
+/** Forgets the validated environment so the next call re-reads it (tests that move a service). */
+export function resetEnvCache(): void {
+  cached = undefined;
+}
+
 /** The validated environment; throws with every bad variable named. */
 export function env(): Env {
   if (cached) return cached;

@@ -16,10 +16,10 @@ async function shot(page: Page, name: string) {
 }
 
 const LANDING = {
-  engineer: { path: "/cases", heading: "Cases", nav: ["Cases", "Programmes"], hidden: ["Checks", "Audit trail", "Members"] },
-  checker: { path: "/checks", heading: "Waiting for your check", nav: ["Cases", "Programmes", "Checks"], hidden: ["Audit trail", "Members"] },
-  quality: { path: "/audit", heading: "Audit trail", nav: ["Cases", "Programmes", "Audit trail"], hidden: ["Checks", "Members"] },
-  admin: { path: "/admin", heading: "Members", nav: ["Cases", "Programmes", "Audit trail", "Members"], hidden: ["Checks"] },
+  engineer: { path: "/cases", heading: "Cases", nav: ["Cases", "Programmes", "Reports"], hidden: ["Checks", "Audit trail", "Members"] },
+  checker: { path: "/checks", heading: "Waiting for your check", nav: ["Cases", "Programmes", "Checks", "Reports"], hidden: ["Audit trail", "Members"] },
+  quality: { path: "/reports", heading: "Reports", nav: ["Cases", "Programmes", "Reports", "Audit trail"], hidden: ["Checks", "Members"] },
+  admin: { path: "/admin", heading: "Members", nav: ["Cases", "Programmes", "Audit trail", "Members"], hidden: ["Checks", "Reports"] },
 } as const;
 
 for (const [label, expected] of Object.entries(LANDING) as [keyof typeof LANDING, (typeof LANDING)[keyof typeof LANDING]][]) {
@@ -94,7 +94,7 @@ test("company sign-in for an address without an account is refused", async ({ pa
 
 test("a tampered session cookie is refused and the person is asked to sign in again", async ({ page, context }) => {
   await signIn(page, "quality");
-  await expect(page).toHaveURL("/audit");
+  await expect(page).toHaveURL("/reports");
   const cookies = await context.cookies();
   const session = cookies.find((c) => c.name === "sw_session")!;
   await context.clearCookies();

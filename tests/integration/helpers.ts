@@ -6,8 +6,9 @@ import { CLIENT_ADDRESS_HEADER } from "~/utils/http.server";
 
 export const ORIGIN = "http://127.0.0.1:3000";
 
-export async function seed() {
-  return seedDemo(db);
+/** The demo scenario without its issued report (rendering a PDF in every test file would be slow). */
+export async function seed(opts: { report?: boolean } = { report: false }) {
+  return seedDemo(db, opts);
 }
 
 export function demoUser(label: DemoUser["label"]): DemoUser {

@@ -48,6 +48,18 @@ export default function CaseLayout({ loaderData }: Route.ComponentProps) {
                 </NavLink>
               </li>
             ))}
+            <li className="mt-2 border-t border-line pt-2">
+              <NavLink to={`/cases/${c.id}/review`} className={stepClass}>
+                <span className="font-semibold">Review</span>
+                <span className="block text-xs text-ink-muted">submit, check, sign</span>
+              </NavLink>
+            </li>
+            <li>
+              <NavLink to={`/cases/${c.id}/reports`} className={stepClass}>
+                <span className="font-semibold">Reports</span>
+                <span className="block text-xs text-ink-muted">issued versions</span>
+              </NavLink>
+            </li>
           </ol>
         </nav>
         <div className="min-w-0 flex-1">

@@ -1,0 +1,107 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import { requirePermission } from "~/auth/auth.server";
+import { db } from "~/db/client.server";
+import { cases } from "~/db/schema";
+import { Button } from "~/components/ui/button";
+import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { listReports, verifyPdf } from "~/services/reports.server";
+import { formatUtc } from "~/utils/format";
+import { eq } from "drizzle-orm";
+import type { Route } from "./+types/reports";
+
+/** Largest PDF accepted for verification, bytes. */
+const MAX_VERIFY_BYTES = 50 * 1024 * 1024;
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const current = await requirePermission(request, "report:read");
+  const [list, refs] = await Promise.all([
+    listReports(current.organisation.id),
+    db.select({ id: cases.id, reference: cases.reference, title: cases.title }).from(cases).where(eq(cases.organisationId, current.organisation.id)),
+  ]);
+  return { reports: list.map((r) => ({ ...r, case: refs.find((c) => c.id === r.caseId) ?? null })) };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const current = await requirePermission(request, "report:read");
+  if (Number(request.headers.get("Content-Length") ?? 0) > MAX_VERIFY_BYTES) return data({ verdict: null, error: "The file is larger than 50 MiB." }, { status: 413 });
+  const form = await request.formData().catch(() => null);
+  const file = form?.get("pdf");
+  if (!(file instanceof File) || file.size === 0) return data({ verdict: null, error: "Choose a PDF file to verify." }, { status: 400 });
+  const { sha256, report } = await verifyPdf(current.organisation.id, new Uint8Array(await file.arrayBuffer()));
+  return {
+    error: null,
+    verdict: report
+      ? { match: true as const, sha256, reportNumber: report.reportNumber, version: report.version, status: report.status, issuedAt: report.issuedAt, caseId: report.caseId }
+      : { match: false as const, sha256 },
+  };
+}
+
+export default function ReportsRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state === "submitting";
+  const v = actionData?.verdict;
+  return (
+    <>
+      <PageHeader title="Reports" description="Every issued report of your organisation. Release an issued report from its case's Reports page; verify any PDF against what was issued." />
+      <div className="grid gap-5 xl:grid-cols-[1fr_24rem]">
+        {loaderData.reports.length === 0 ? (
+          <EmptyState title="No report has been issued yet" />
+        ) : (
+          <div className="overflow-x-auto rounded border border-line bg-surface">
+            <table className="w-full text-left text-sm">
+              <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
+                <tr>
+                  <th className="px-3 py-2">Report</th>
+                  <th className="px-3 py-2">Case</th>
+                  <th className="px-3 py-2">Status</th>
+                  <th className="px-3 py-2">Issued</th>
+                  <th className="px-3 py-2">Released</th>
+                  <th className="px-3 py-2">PDF</th>
+                </tr>
+              </thead>
+              <tbody>
+                {loaderData.reports.map((r) => (
+                  <tr key={r.id} className="border-b border-line last:border-0">
+                    <td className="px-3 py-2 font-semibold">
+                      <Link to={`/cases/${r.caseId}/reports`}>{r.reportNumber}</Link>
+                      <span className="block text-xs font-normal text-ink-muted">version {r.version}</span>
+                    </td>
+                    <td className="px-3 py-2">{r.case ? `${r.case.reference} — ${r.case.title}` : "—"}</td>
+                    <td className="px-3 py-2">{r.status === "issued" ? <strong className="text-status-issued">■ issued, awaiting release</strong> : r.status === "released" ? <strong className="text-status-released">★ released</strong> : r.status}</td>
+                    <td className="px-3 py-2 tabular">{formatUtc(r.issuedAt)}</td>
+                    <td className="px-3 py-2 tabular">{formatUtc(r.releasedAt)}</td>
+                    <td className="px-3 py-2">{r.sha256 ? <a href={`/api/v1/reports/${r.id}/pdf`}>Download</a> : "—"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+        <Panel title="Verify a PDF">
+          <Form method="post" encType="multipart/form-data" className="space-y-2">
+            <label htmlFor="verify-pdf" className="block text-sm font-semibold">
+              PDF file
+            </label>
+            <input id="verify-pdf" name="pdf" type="file" accept="application/pdf,.pdf" className="block text-sm" />
+            <Button type="submit" variant="secondary" disabled={busy}>
+              Verify
+            </Button>
+          </Form>
+          <div className="mt-3" aria-live="polite">
+            {actionData?.error ? <Alert>{actionData.error}</Alert> : null}
+            {v?.match ? (
+              <Alert tone="info">
+                ✓ This is report {v.reportNumber}, version {v.version} ({v.status}), issued {formatUtc(v.issuedAt)}: its bytes are identical to the issued PDF.
+              </Alert>
+            ) : v ? (
+              <Alert>✗ This file matches no report issued by your organisation (SHA-256 {v.sha256.slice(0, 16)}…). It may have been altered, or it is not ours.</Alert>
+            ) : null}
+          </div>
+        </Panel>
+      </div>
+    </>
+  );
+}
+
+export function meta() {
+  return [{ title: "Reports · Spanwright" }];
+}

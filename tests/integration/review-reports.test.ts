@@ -1,0 +1,240 @@
+import { execFileSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { and, eq, sql } from "drizzle-orm";
+import S3rver from "s3rver";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { listCapturedMail } from "~/server/dev-services/mail";
+import { db } from "~/db/client.server";
+import { caseSteps, cases, reports, signatures, signatureVoids, users } from "~/db/schema";
+import { action as reviewAction, loader as reviewLoader } from "~/routes/cases/review";
+import { action as reportsAction } from "~/routes/cases/reports";
+import { action as verifyAction } from "~/routes/reports";
+import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
+import { loader as caseReportsLoader } from "~/routes/api/v1/case-reports";
+import { STEPS } from "~/cases/steps";
+import { formatQuantity } from "~/cases/units";
+import { saveStep } from "~/services/case-steps.server";
+import { setMemberRoles } from "~/services/organisation.server";
+import { createReportRow, generateReport } from "~/services/reports.server";
+import { listKeys, resetS3Client } from "~/services/storage.server";
+import { resetEnvCache } from "~/utils/env.server";
+import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+
+let caseId = "";
+let orgId = "";
+const cookies: Record<string, string> = {};
+
+/** Sorted-key JSON written here from the definition, independently of the application's serialiser. */
+function canonical(value: unknown): string {
+  if (value === null || typeof value !== "object") return JSON.stringify(value);
+  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
+  return `{${Object.keys(value as object)
+    .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
+    .sort()
+    .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
+    .join(",")}}`;
+}
+const sha = (b: string | Uint8Array) => createHash("sha256").update(b).digest("hex");
+
+const review = (who: string, fields: Record<string, string>) => run(reviewAction, { request: request(`/cases/${caseId}/review`, { method: "POST", cookie: cookies[who], body: form(fields) }), params: { caseId } });
+
+async function approveAll() {
+  for (const s of STEPS) {
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, s.key)));
+    if (row!.status === "approved") continue;
+    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key })).status).toBe(200);
+    expect((await review("checker", { intent: "approve", step: s.key, password: demoUser("checker").password })).status).toBe(200);
+  }
+}
+
+beforeAll(async () => {
+  await seed();
+  for (const who of ["engineer", "checker", "quality", "outsider"]) cookies[who] = await cookieFor(who as never);
+  const [c] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-001"));
+  caseId = c!.id;
+  orgId = c!.organisationId;
+});
+
+describe("review of each step", () => {
+  it("makes a submitted step read-only and tells the checkers by e-mail", async () => {
+    expect((await review("engineer", { intent: "submit", step: "basis", comment: "Basis per the agreed G-1 issue paper." })).status).toBe(200);
+    const mail = await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: demoUser("checker").email });
+    expect(mail.some((m) => m.subject.includes("basis submitted for check") && (m.html ?? "").includes(`/cases/${caseId}/review`))).toBe(true);
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
+    await expect(saveStep({ caseId, step: "basis", baseRevision: row!.revision, data: row!.data!, actor: { id: row!.updatedBy!, email: demoUser("engineer").email } })).rejects.toThrow(/read-only/);
+  });
+
+  it("refuses approval by an engineer, by a wrong password, and by the author of the revision", async () => {
+    expect((await review("engineer", { intent: "approve", step: "basis", password: demoUser("engineer").password })).status).toBe(403);
+    const wrong = await review("checker", { intent: "approve", step: "basis", password: "not-my-password" });
+    expect(wrong.status).toBe(401);
+    // Erin edited every revision of the demo case; given the checker role too, she still may not approve them.
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const [sam] = await db.select().from(users).where(eq(users.email, demoUser("admin").email));
+    await setMemberRoles({ organisationId: orgId, userId: erin!.id, roles: ["engineer", "checker"], actor: { id: sam!.id, email: sam!.email } });
+    const own = await review("engineer", { intent: "approve", step: "basis", password: demoUser("engineer").password });
+    expect(own.status).toBe(403);
+    expect((own.body as { message: string }).message).toMatch(/separation of duties/);
+    await setMemberRoles({ organisationId: orgId, userId: erin!.id, roles: ["engineer"], actor: { id: sam!.id, email: sam!.email } });
+    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(0);
+  });
+
+  it("returns a step with the checker's comment, and tells the engineer", async () => {
+    const res = await review("checker", { intent: "return", step: "basis", comment: "VD must follow 23.335(b) for this wing loading.", anchor: "VD" });
+    expect(res.status).toBe(200);
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
+    expect(row!.status).toBe("returned");
+    const mail = await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: demoUser("engineer").email });
+    expect(mail.some((m) => m.subject.includes("basis returned") && m.text.includes("23.335(b)"))).toBe(true);
+  });
+
+  it("records an approval as a signature on the exact revision: signer, role, meaning, UTC time and hash", async () => {
+    await approveAll();
+    const sigs = await db.select().from(signatures).where(eq(signatures.caseId, caseId));
+    expect(sigs).toHaveLength(STEPS.length);
+    const [basis] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
+    const sig = sigs.find((s) => s.step === "basis")!;
+    expect(sig).toMatchObject({ signerName: "Marek Oduya", role: "checker", meaning: "checked", revision: basis!.revision, confirmedBy: "password" });
+    expect(sig.revisionHash).toBe(sha(canonical({ caseId, step: "basis", revision: basis!.revision, data: basis!.data })));
+    await expect(db.execute(sql`UPDATE signatures SET meaning = 'released'`)).rejects.toMatchObject({ cause: expect.objectContaining({ message: expect.stringMatching(/append-only/) }) });
+  });
+
+  it("voids the approval of an edited step, of every step downstream and of the case, and says so", async () => {
+    expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
+    const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const data = planform!.data as { stations: { chord: number }[] };
+    data.stations[0]!.chord = 2.15;
+    await saveStep({ caseId, step: "planform", baseRevision: planform!.revision, data, actor: { id: erin!.id, email: erin!.email } });
+    const voids = await db.select({ step: signatures.step, meaning: signatures.meaning, reason: signatureVoids.reason }).from(signatureVoids).innerJoin(signatures, eq(signatures.id, signatureVoids.signatureId));
+    expect(voids.map((v) => v.step ?? v.meaning).sort()).toEqual(["approved for issue", "distribution", "envelope", "loads", "planform", "sections"].sort());
+    expect(voids[0]!.reason).toMatch(/planform changed to revision \d+/);
+    const state = await run(reviewLoader, { request: request(`/cases/${caseId}/review`, { cookie: cookies.checker }), params: { caseId } });
+    const steps = (state.body as { steps: { key: string; status: string }[] }).steps;
+    expect(steps.find((s) => s.key === "basis")!.status).toBe("approved");
+    expect(steps.filter((s) => s.key !== "basis").every((s) => s.status === "draft")).toBe(true);
+  });
+});
+
+describe("reports", () => {
+  let s3dir = "";
+  let spare: S3rver | undefined;
+  afterAll(async () => {
+    await spare?.close().catch(() => {});
+    if (s3dir) fs.rmSync(s3dir, { recursive: true, force: true });
+  });
+
+  it("is refused until the case is approved for issue", async () => {
+    const res = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.engineer, body: form({ intent: "request" }) }), params: { caseId } });
+    expect(res.status).toBe(409);
+    expect(await db.select().from(reports)).toHaveLength(0);
+  });
+
+  it("leaves no half-issued report when S3 is down, and completes once it returns", async () => {
+    await approveAll();
+    expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
+    // A store of our own that we can take down and bring back.
+    s3dir = fs.mkdtempSync(path.join(os.tmpdir(), "sw-s3-"));
+    spare = new S3rver({ port: 0, address: "127.0.0.1", silent: true, directory: s3dir, configureBuckets: [{ name: "spanwright-reports", configs: [] }] });
+    const { port } = await spare.run();
+    const saved = process.env.S3_ENDPOINT;
+    process.env.S3_ENDPOINT = `http://127.0.0.1:${port}`;
+    resetEnvCache();
+    resetS3Client();
+    await spare.close();
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    await expect(generateReport(row.id, { retryCount: 0, retryLimit: 3 })).rejects.toThrow();
+    const [afterFailure] = await db.select().from(reports).where(eq(reports.id, row.id));
+    expect(afterFailure).toMatchObject({ status: "queued", sha256: null, key: null });
+    spare = new S3rver({ port, address: "127.0.0.1", silent: true, directory: s3dir, configureBuckets: [{ name: "spanwright-reports", configs: [] }] });
+    await spare.run();
+    resetS3Client();
+    await generateReport(row.id, { retryCount: 1, retryLimit: 3 });
+    const [issued] = await db.select().from(reports).where(eq(reports.id, row.id));
+    expect(issued!.status).toBe("issued");
+    expect(await listKeys("spanwright-reports")).toEqual([issued!.key]);
+    await spare.close();
+    spare = undefined;
+    process.env.S3_ENDPOINT = saved;
+    resetEnvCache();
+    resetS3Client();
+    // The harness's store has none of this report: re-issue there for the remaining checks.
+    await db.execute(sql`DELETE FROM reports WHERE id = ${row.id}`);
+  });
+
+  it("removes the stored PDF when the database refuses to record it", async () => {
+    await db.execute(sql`CREATE FUNCTION refuse_issue() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN IF NEW.status = 'issued' THEN RAISE EXCEPTION 'database refused'; END IF; RETURN NEW; END; $$`);
+    await db.execute(sql`CREATE TRIGGER refuse_issue BEFORE UPDATE ON reports FOR EACH ROW EXECUTE FUNCTION refuse_issue()`);
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    const before = await listKeys("spanwright-reports", `cases/${caseId}/`);
+    await expect(generateReport(row.id, { retryCount: 3, retryLimit: 3 })).rejects.toMatchObject({ cause: expect.objectContaining({ message: "database refused" }) });
+    expect(await listKeys("spanwright-reports", `cases/${caseId}/`)).toEqual(before);
+    const [failed] = await db.select().from(reports).where(eq(reports.id, row.id));
+    expect(failed).toMatchObject({ status: "failed", sha256: null });
+    await db.execute(sql`DROP TRIGGER refuse_issue ON reports`);
+    await db.execute(sql`DELETE FROM reports WHERE id = ${row.id}`);
+  });
+
+  it("issues a PDF whose S3 bytes match PostgreSQL and whose text holds the title, the root bending moment and every signer", async () => {
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    await generateReport(row.id);
+    const [issued] = await db.select().from(reports).where(eq(reports.id, row.id));
+    const download = await run(pdfLoader, { request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id } });
+    expect(download.status).toBe(200);
+    expect(download.headers.get("Content-Type")).toBe("application/pdf");
+    const res = await pdfLoader({ request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id }, context: {} } as never);
+    const bytes = new Uint8Array(await (res as Response).arrayBuffer());
+    expect(sha(bytes)).toBe(issued!.sha256);
+    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "sw-pdf-")), "r.pdf");
+    fs.writeFileSync(file, bytes);
+    const text = execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+    const snapshot = issued!.snapshot as { case: { title: string }; result: { cases: { root: { bending: number } }[] } };
+    expect(text).toContain(snapshot.case.title);
+    const critical = snapshot.result.cases.reduce((a, c) => (Math.abs(c.root.bending) > Math.abs(a.root.bending) ? c : a));
+    // The loads step's critical root bending moment, printed with the pages' own number format.
+    expect(text).toContain(formatQuantity("SI", "moment", critical.root.bending));
+    const signers = new Set((issued!.snapshot as { signatures: { name: string }[] }).signatures.map((g) => g.name));
+    expect([...signers]).toEqual(["Marek Oduya"]);
+    for (const name of signers) expect(text).toContain(name);
+  });
+
+  it("lets quality release it with a signature, and nobody else", async () => {
+    const [r] = await db.select().from(reports).where(eq(reports.status, "issued"));
+    const byEngineer = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.engineer, body: form({ intent: "release", reportId: r!.id, password: demoUser("engineer").password }) }), params: { caseId } });
+    expect(byEngineer.status).toBe(403);
+    const ok = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.quality, body: form({ intent: "release", reportId: r!.id, password: demoUser("quality").password }) }), params: { caseId } });
+    expect(ok.status).toBe(200);
+    const res = await caseReportsLoader({ request: request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never);
+    const json = (await (res as Response).json()) as { reports: { status: string; sha256: string; signatures: { name: string; meaning: string }[] }[] };
+    expect(json.reports[0]).toMatchObject({ status: "released", sha256: r!.sha256 });
+    expect(json.reports[0]!.signatures.map((s) => `${s.name}:${s.meaning}`)).toEqual(expect.arrayContaining(["Marek Oduya:checked", "Marek Oduya:approved for issue", "Priya Lindqvist:released"]));
+  });
+
+  it("keeps the outsider away from the report and its PDF", async () => {
+    const [r] = await db.select().from(reports).where(eq(reports.caseId, caseId));
+    const res = (await pdfLoader({ request: request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.outsider }), params: { reportId: r!.id }, context: {} } as never)) as Response;
+    expect(res.status).toBe(404);
+    expect(res.headers.get("Content-Type")).not.toBe("application/pdf");
+  });
+
+  it("verifies an uploaded PDF against the issued ones", async () => {
+    const [r] = await db.select().from(reports).where(eq(reports.caseId, caseId));
+    const res = (await pdfLoader({ request: request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.quality }), params: { reportId: r!.id }, context: {} } as never)) as Response;
+    const bytes = new Uint8Array(await res.arrayBuffer());
+    const check = async (b: Uint8Array) => {
+      const body = new FormData();
+      body.append("pdf", new File([b as Uint8Array<ArrayBuffer>], "r.pdf", { type: "application/pdf" }));
+      return run(verifyAction, { request: request("/reports", { method: "POST", cookie: cookies.quality, body }) });
+    };
+    expect(((await check(bytes)).body as { verdict: { match: boolean; reportNumber: string } }).verdict).toMatchObject({ match: true, reportNumber: r!.reportNumber });
+    const altered = bytes.slice();
+    altered[altered.length - 10] = (altered[altered.length - 10]! + 1) % 256;
+    expect(((await check(altered)).body as { verdict: { match: boolean } }).verdict.match).toBe(false);
+  });
+});
