@@ -78,9 +78,11 @@ function registerFonts(doc: PDFKit.PDFDocument) {
  * into tspans naming the subset, which the font callback below maps to the registered face.
  */
 function splitSvgText(svg: string): string {
-  return svg.replace(/(<text\b[^>]*>)([^<]*)(<\/text>)/g, (whole, open: string, content: string, close: string) => {
+  return svg.replace(/(<text\b[^>]*>)([^<]*)(<\/text>)/g, (_whole, tag: string, content: string, close: string) => {
+    // svg-to-pdfkit ignores paint-order, so a label's white halo would be painted over its fill.
+    const open = /paint-order="stroke"/.test(tag) ? tag.replace(/ stroke(-width|-opacity|-miterlimit)?="[^"]*"/g, "") : tag;
     const runs = fontRuns(content);
-    if (runs.length === 1 && runs[0]!.subset === "latin") return whole;
+    if (runs.length === 1 && runs[0]!.subset === "latin") return open + content + close;
     return open + runs.map((r) => `<tspan style="font-family:SS3-${r.subset}">${r.text}</tspan>`).join("") + close;
   });
 }
@@ -123,6 +125,7 @@ interface Column {
 
 class Writer {
   section = 0;
+  figure = 0;
   constructor(readonly doc: PDFKit.PDFDocument) {}
 
   get y() {
@@ -157,6 +160,11 @@ class Writer {
     doc.fillColor(o.color ?? INK);
     const runs = fontRuns(text);
     const width = o.width ?? W;
+    if (runs.length === 1 && !o.oneLine) {
+      this.use(runs[0]!.subset, o);
+      doc.text(text, x, y, { width, align: o.align ?? "left", lineGap: o.lineGap ?? 0.8 });
+      return this.heightOf(text, width, o);
+    }
     if (o.oneLine || (o.align && o.align !== "left")) {
       const total = this.widthOf(text, o);
       let cx = o.align === "right" ? x + width - total : o.align === "center" ? x + (width - total) / 2 : x;
@@ -187,9 +195,9 @@ class Writer {
     if (this.y + h > BOTTOM) this.newPage();
   }
 
-  heading(title: string, opts: { newPage?: boolean } = {}) {
+  heading(title: string, opts: { newPage?: boolean; keep?: number } = {}) {
     if (opts.newPage) this.newPage();
-    else this.ensure(90);
+    else this.ensure(opts.keep ?? 90);
     this.section++;
     if (this.y > M.top + 1) this.y += 8;
     const y = this.y;
@@ -234,7 +242,7 @@ class Writer {
    */
   table(columns: Column[], rows: string[][], opts: { size?: number; caption?: string; header?: boolean; rowColor?: (i: number) => string | undefined; boldFirst?: boolean } = {}) {
     const size = opts.size ?? 7.6;
-    const pad = 2.6;
+    const pad = 2.2;
     const fill = W - columns.reduce((a, c) => a + c.width, 0);
     const cols = columns.map((c) => ({ ...c, width: c.width === 0 ? fill : c.width }));
     const showHeader = opts.header !== false;
@@ -255,8 +263,9 @@ class Writer {
       this.doc.moveTo(M.left, y + headerHeight).lineTo(M.left + W, y + headerHeight).lineWidth(0.6).strokeColor(INK).stroke();
       this.y = y + headerHeight;
     };
-    const heights = rows.map((r) => Math.max(...cols.map((c, i) => (c.align === "right" ? this.heightOf("X", 100, { size }) : this.heightOf(r[i] ?? "", c.width - 2 * pad, { size })))) + 2 * pad);
-    this.ensure((opts.caption ? 12 : 0) + headerHeight + (heights[0] ?? 0) + (heights[1] ?? 0));
+    const heights = rows.map((r) => Math.max(...cols.map((c, i) => this.heightOf(r[i] ?? "", c.width - 2 * pad, { size }))) + 2 * pad);
+    // A table never starts with fewer than five rows (or all of them) at the foot of a page.
+    this.ensure((opts.caption ? 12 : 0) + headerHeight + heights.slice(0, 5).reduce((a, b) => a + b, 0));
     drawHeader(false);
     rows.forEach((r, ri) => {
       const h = heights[ri]!;
@@ -270,8 +279,7 @@ class Writer {
       cols.forEach((c, ci) => {
         const cell = r[ci] ?? "";
         const o: TextOptions = { size, width: c.width - 2 * pad, color: color ?? INK, weight: opts.boldFirst && ci === 0 ? 600 : 400 };
-        if (c.align === "right") this.text(cell, x + pad, y + pad, { ...o, align: "right" });
-        else this.text(cell, x + pad, y + pad, o);
+        this.text(cell, x + pad, y + pad, { ...o, align: c.align ?? "left" });
         x += c.width;
       });
       this.doc.moveTo(M.left, y + h).lineTo(M.left + W, y + h).lineWidth(0.3).strokeColor(LINE).stroke();
@@ -298,9 +306,24 @@ class Writer {
    */
   chart(option: Record<string, unknown>, height: number, width = W, x = M.left) {
     const scale = 1.4;
+    this.figure++;
+    const title = (option.title as { text?: string } | undefined)?.text ?? "";
+    this.text(`Figure ${this.figure}. ${title}`, x, this.y, { size: 8.4, weight: 600, oneLine: true });
+    this.y += 12;
+    const xAxis = option.xAxis as { name?: string } | undefined;
+    const grid = option.grid as { top?: number } | undefined;
+    // The caption above replaces the chart's own title, so the legend moves up into its place;
+    // span axes end at the tip rather than at the next round number.
+    const laidOut = {
+      ...option,
+      title: { ...(option.title as object), show: false },
+      legend: { ...(option.legend as object), top: 0 },
+      grid: { ...grid, top: 34 },
+      ...(xAxis?.name?.startsWith("Spanwise") ? { xAxis: { ...xAxis, max: "dataMax" } } : {}),
+    };
     const chart = echarts.init(null, null, { renderer: "svg", ssr: true, width: Math.round(width * scale), height: Math.round(height * scale) });
     try {
-      chart.setOption({ ...option, animation: false });
+      chart.setOption({ ...laidOut, animation: false });
       const svg = splitSvgText(chart.renderToSVGString());
       SVGtoPDF(this.doc as unknown as typeof PDFDocument, svg, x, this.y, {
         width,
@@ -311,6 +334,7 @@ class Writer {
     } finally {
       chart.dispose();
     }
+    this.y += height + 8;
   }
 }
 
@@ -321,13 +345,13 @@ const METHODS: { title: string; body: string[] }[] = [
     title: "Atmosphere and speeds",
     body: [
       "International Standard Atmosphere (ICAO Doc 7488; U.S. Standard Atmosphere 1976), geopotential altitude 0–32 km: troposphere to 11 km, isothermal layer to 20 km, then +1 K/km. Altitudes outside are refused, never extrapolated.",
-      "Dynamic pressure q = 0.7·p·M²; equivalent airspeed EAS = TAS·√σ. Design speeds and gusts are equivalent airspeeds.",
+      "Dynamic pressure q = 0.7·p·M²; equivalent airspeed EAS = TAS·σ^½. Design speeds and gusts are equivalent airspeeds.",
     ],
   },
   {
     title: "Compressibility of the sections",
     body: [
-      "Prandtl–Glauert (Glauert 1928): Cp = Cp0/β, β = √(1 − M²). Kármán–Tsien (Tsien 1939; von Kármán 1941) and Laitone (1951) as published; section lift slope and cm are scaled by each rule's Cp/Cp0 at the section's incompressible minimum Cp (Prandtl–Glauert's 1/β where no Cp,min is given).",
+      "Prandtl–Glauert (Glauert 1928): Cp = Cp0/β, β = (1 − M²)^½. Kármán–Tsien (Tsien 1939; von Kármán 1941) and Laitone (1951) as published; section lift slope and cm are scaled by each rule's Cp/Cp0 at the section's incompressible minimum Cp (Prandtl–Glauert's 1/β where no Cp,min is given).",
       "Critical pressure coefficient Cp* from the isentropic relations, γ = 1.4 (NACA Report 1135). Each section's critical Mach number is where its corrected minimum Cp reaches Cp*, found numerically at the first crossing.",
       "Validity: the rules hold only for subsonic flow below the critical Mach number. A case at or above the lowest critical Mach number on the span is computed, marked supercritical and flagged; Mach 1 and above is refused.",
     ],
@@ -628,13 +652,13 @@ function inputs(w: Writer, s: ReportSnapshot, q: Fmt, sym: Sym) {
   w.para(`${env.cases.length} load cases in the envelope step, ${s.result.cases.length} analysed. Weight is the whole aircraft; nz the limit load factor; cases given by angle of attack show α instead.`, { size: 8.2, color: MUTED });
   w.table(
     [
-      { header: "Case", width: 56 },
-      { header: "Kind", width: 44 },
-      { header: "Mach", width: 36, align: "right" },
-      { header: `Alt. [${sym("altitude")}]`, width: 40, align: "right" },
-      { header: `Weight [${sym("force")}]`, width: 46, align: "right" },
-      { header: "nz / α [–/°]", width: 44, align: "right" },
-      { header: "Status", width: 62 },
+      { header: "Case", width: 50 },
+      { header: "Kind", width: 40 },
+      { header: "Mach", width: 34, align: "right" },
+      { header: `Alt. [${sym("altitude")}]`, width: 36, align: "right" },
+      { header: `Weight [${sym("force")}]`, width: 40, align: "right" },
+      { header: "nz / α [–/°]", width: 42, align: "right" },
+      { header: "Status", width: 58 },
       { header: "Rule it comes from", width: 0 },
     ],
     env.cases.map((c) => [
@@ -647,7 +671,7 @@ function inputs(w: Writer, s: ReportSnapshot, q: Fmt, sym: Sym) {
       c.excluded ? "excluded" : disp[c.id]?.action === "exclude" ? "excluded (flag)" : disp[c.id] ? "justified (flag)" : analysed.has(c.id) ? "analysed" : "—",
       c.rule || "entered by hand",
     ]),
-    { size: 6.9, rowColor: (i) => (env.cases[i]!.excluded || disp[env.cases[i]!.id]?.action === "exclude" ? MUTED : undefined) },
+    { size: 6.9, caption: "Load cases of the envelope", rowColor: (i) => (env.cases[i]!.excluded || disp[env.cases[i]!.id]?.action === "exclude" ? MUTED : undefined) },
   );
 }
 
@@ -705,12 +729,12 @@ function planformDrawing(w: Writer, p: ReportSnapshot["inputs"]["planform"], g: 
 
 function resultsVn(w: Writer, s: ReportSnapshot, units: UnitSystem, q: Fmt, sym: Sym) {
   const b = s.inputs.basis;
-  w.heading("Results", { newPage: true });
   const sets = vnSets(b, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise });
   const set = sets[0]!;
+  // Heading, V–n caption and chart stay together.
+  w.heading("Results", { keep: 330 });
   w.subheading(`V–n diagram: ${set.label}`);
   w.chart(vnOption(`V–n diagram, ${set.label}`, set.points, { area: b.wingArea, clMax: b.clMax, clMaxNegative: b.clMaxNegative, weightN: set.weightKg * G0 }, { symbol: sym("speed"), fromSI: (v) => fromSI(units, "speed", v) }), 250);
-  w.y += 254;
   w.para(
     `Gust velocities ${q("speed", set.gustAtVc)} ${sym("speed")} at VC and ${q("speed", set.gustAtVd)} ${sym("speed")} at VD (${set.gustRule}); airplane lift slope ${formatNumber(set.liftSlope)} /rad from the spanwise solver at the VC Mach number (wing alone). ${sets.length} weight and altitude combinations in all; the others are in the load-case table.`,
     { size: 8.2, color: MUTED },
@@ -734,11 +758,10 @@ function resultsDistribution(w: Writer, s: ReportSnapshot, crit: ResultCase, q: 
     `Critical case: the largest root bending moment magnitude over all analysed cases. Mach ${formatNumber(d.mach)}, altitude ${q("altitude", d.altitude, 5)} ${sym("altitude")}, CL ${formatNumber(d.CL)}, root-chord α ${formatNumber(d.alphaDeg)}°, critical Mach number ${formatNumber(d.machCritical)} (${d.regime}). Rule in use: ${RULE_LABELS[d.rule]}.`,
     { size: 8.4 },
   );
-  const h = 205;
+  const h = 178;
   for (const option of [loadingOption(d), clOption(d), rulesOption(d, "cl"), rulesOption(d, "cm"), machCriticalOption(d)]) {
-    w.ensure(h + 6);
+    w.ensure(h + 20);
     w.chart(option, h);
-    w.y += h + 8;
   }
   w.table(
     [
@@ -761,11 +784,10 @@ function resultsLoads(w: Writer, s: ReportSnapshot, crit: ResultCase, units: Uni
     const quantity: Quantity = qty === "shear" ? "force" : "moment";
     return { symbol: sym(quantity), scale: (v: number) => fromSI(units, quantity, v) };
   };
-  const h = 215;
+  const h = 185;
   for (const qty of ["shear", "bending", "torsion"] as const) {
-    w.ensure(h + 6);
+    w.ensure(h + 20);
     w.chart(loadsOption(qty, { y: env.map((e) => e.y), max: env.map((e) => e[`${qty}Max`]), min: env.map((e) => e[`${qty}Min`]), caseId: crit.id, caseValues: crit.stations?.map((st) => st[qty]) }, scaleOf(qty)), h);
-    w.y += h + 8;
   }
   if (!crit.stations) w.para("Station tables were left out of the stored results (summary output): the critical case is shown by its root loads only.", { size: 8.2, color: WARN });
 
@@ -866,9 +888,9 @@ function signatures(w: Writer, s: ReportSnapshot) {
   w.para("Each step was signed on the revision shown; the revision hash is the SHA-256 of that revision's stored data. Times are UTC.", { size: 8.4, color: MUTED });
   const cols: Column[] = [
     { header: "Name", width: 92 },
-    { header: "Role", width: 58 },
-    { header: "Meaning", width: 92 },
-    { header: "Signed (UTC)", width: 72 },
+    { header: "Role", width: 54 },
+    { header: "Meaning", width: 96 },
+    { header: "Signed (UTC)", width: 86 },
     { header: "Revision", width: 40, align: "right" },
     { header: "Revision hash (SHA-256)", width: 0 },
   ];

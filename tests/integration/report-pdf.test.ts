@@ -151,6 +151,21 @@ describe("the signed report PDF of the demo case", () => {
     expect(Buffer.compare(Buffer.from(again), Buffer.from(pdf))).toBe(0);
   });
 
+  it("lists flagged cases with the reason and the disposition", async () => {
+    // The demo case has no flagged case; an invented flag on a copy shows the table.
+    const flagged = structuredClone(snapshot);
+    const comment = "Invented disposition for this check: the case is kept to cover the stall boundary.";
+    flagged.flags = [{ id: flagged.result.cases[0]!.id, reasons: ["cl exceeds the section clmax at 2 stations (y = 8.10–8.40 m); worst cl/clmax = 1.020 at y = 8.40 m"], action: "justify", comment }];
+    const path = join(dir, "flagged.pdf");
+    await writeFile(path, await renderReportPdf(flagged));
+    const { stdout } = await run("pdftotext", ["-enc", "UTF-8", path, "-"], { maxBuffer: 64 * 1024 * 1024 });
+    const section = stdout.slice(stdout.indexOf("Flagged cases and their dispositions"));
+    expect(section).toContain("kept, justified");
+    expect(section).toContain(flagged.flags[0]!.id);
+    // Table cells wrap and interleave in extracted text: the comment's words, in order.
+    expect(section).toMatch(new RegExp(comment.split(" ").map(escape).join("[\\s\\S]*?")));
+  });
+
   it("rasterises every page for a look", async () => {
     await run("pdftoppm", ["-png", "-r", "60", pdfPath, join(dir, "page")]);
     const pngs = (await readdir(dir)).filter((f) => f.endsWith(".png"));
