@@ -207,8 +207,8 @@ class Writer {
     this.y = y + 25;
   }
 
-  subheading(title: string) {
-    this.ensure(60);
+  subheading(title: string, keep = 60) {
+    this.ensure(keep);
     this.y += 4;
     this.text(title, M.left, this.y, { size: 10, weight: 600, oneLine: true });
     this.y += 15;
@@ -444,7 +444,12 @@ export async function renderReportPdf(s: ReportSnapshot, opts: { onProgress?: (p
   registerFonts(doc);
   const w = new Writer(doc);
   const units: UnitSystem = s.inputs.basis.units;
-  const q = (qty: Quantity, si: number | null | undefined, sig = 4) => formatNumber(si === null || si === undefined ? si : fromSI(units, qty, si), sig);
+  const q = (qty: Quantity, si: number | null | undefined, sig = 4) => {
+    if (si === null || si === undefined) return formatNumber(si, sig);
+    const v = fromSI(units, qty, si);
+    // Integration round-off at the tip (|v| below the last printed digit) prints as 0, not "-0".
+    return formatNumber(Math.abs(v) < 5e-7 ? 0 : v, sig);
+  };
   const sym = (qty: Quantity) => unitSymbol(units, qty);
   const crit = criticalCase(s.result.cases);
 
@@ -705,7 +710,7 @@ function planformDrawing(w: Writer, p: ReportSnapshot["inputs"]["planform"], g: 
   doc.moveTo(X(root.y), Y(root.xLe + p.axisRoot * root.chord)).lineTo(X(tip.y), Y(tip.xLe + p.axisTip * tip.chord)).lineWidth(0.8).dash(6, { space: 2 }).strokeColor("#a82424").stroke().undash();
   // MAC at its spanwise position.
   doc.moveTo(X(g.yMac), Y(g.xLeMac)).lineTo(X(g.yMac), Y(g.xLeMac + g.mac)).lineWidth(1.4).strokeColor(ACCENT).stroke();
-  w.text(`MAC ${formatNumber(g.mac)} m`, X(g.yMac) + 3, Y(g.xLeMac + g.mac / 2) - 4, { size: 7, color: ACCENT, oneLine: true });
+  w.text(`MAC ${formatQuantity(s.inputs.basis.units, "length", g.mac)}`, X(g.yMac) + 3, Y(g.xLeMac + g.mac / 2) - 4, { size: 7, color: ACCENT, oneLine: true });
   w.text("root", X(0) + 2, Y(root.xLe + root.chord) + 2, { size: 7, color: MUTED, oneLine: true });
   w.text("tip", X(tip.y) - 12, Y(tip.xLe + tip.chord) + 2, { size: 7, color: MUTED, oneLine: true });
   // Scale bar of 1 m (or 1 ft) below the drawing.
@@ -732,8 +737,7 @@ function resultsVn(w: Writer, s: ReportSnapshot, units: UnitSystem, q: Fmt, sym:
   const sets = vnSets(b, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise });
   const set = sets[0]!;
   // Heading, V–n caption and chart stay together.
-  w.heading("Results", { keep: 330 });
-  w.subheading(`V–n diagram: ${set.label}`);
+  w.heading("Results", { keep: 320 });
   w.chart(vnOption(`V–n diagram, ${set.label}`, set.points, { area: b.wingArea, clMax: b.clMax, clMaxNegative: b.clMaxNegative, weightN: set.weightKg * G0 }, { symbol: sym("speed"), fromSI: (v) => fromSI(units, "speed", v) }), 250);
   w.para(
     `Gust velocities ${q("speed", set.gustAtVc)} ${sym("speed")} at VC and ${q("speed", set.gustAtVd)} ${sym("speed")} at VD (${set.gustRule}); airplane lift slope ${formatNumber(set.liftSlope)} /rad from the spanwise solver at the VC Mach number (wing alone). ${sets.length} weight and altitude combinations in all; the others are in the load-case table.`,
@@ -753,7 +757,8 @@ function resultsVn(w: Writer, s: ReportSnapshot, units: UnitSystem, q: Fmt, sym:
 
 function resultsDistribution(w: Writer, s: ReportSnapshot, crit: ResultCase, q: Fmt, sym: Sym) {
   const d = distributionView(s.exchange, crit.id);
-  w.subheading(`Spanwise distributions of the critical case ${crit.id}`);
+  // Heading, introduction and the first chart stay together.
+  w.subheading(`Spanwise distributions of the critical case ${crit.id}`, 260);
   w.para(
     `Critical case: the largest root bending moment magnitude over all analysed cases. Mach ${formatNumber(d.mach)}, altitude ${q("altitude", d.altitude, 5)} ${sym("altitude")}, CL ${formatNumber(d.CL)}, root-chord α ${formatNumber(d.alphaDeg)}°, critical Mach number ${formatNumber(d.machCritical)} (${d.regime}). Rule in use: ${RULE_LABELS[d.rule]}.`,
     { size: 8.4 },
@@ -779,7 +784,7 @@ function resultsLoads(w: Writer, s: ReportSnapshot, crit: ResultCase, units: Uni
   const env = s.result.envelope;
   const F = sym("force");
   const Mo = sym("moment");
-  w.subheading(`Shear, bending and torsion: envelope of all cases with the critical case ${crit.id}`);
+  w.subheading(`Shear, bending and torsion: envelope of all cases with the critical case ${crit.id}`, 240);
   const scaleOf = (qty: LoadQuantity) => {
     const quantity: Quantity = qty === "shear" ? "force" : "moment";
     return { symbol: sym(quantity), scale: (v: number) => fromSI(units, quantity, v) };
