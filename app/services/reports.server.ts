@@ -1,14 +1,14 @@
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import type { CurrentUser } from "~/auth/session.server";
 import { STEPS } from "~/cases/steps";
-import { sha256Hex, writeAudit } from "~/db/audit.server";
+import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, memberships, organisations, programmes, reports, signatureVoids, signatures, users, type Report, type Role } from "~/db/schema";
 import { ENGINE_VERSION } from "~/engine";
 import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
 import type { ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { env } from "~/utils/env.server";
-import { buildCaseFile, caseInputs, resultsFor } from "./analysis.server";
+import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
 import { flaggedCases } from "./distribution.server";
 import { sendMail } from "./mail.server";
@@ -43,6 +43,11 @@ export async function requestReport(input: { caseId: string; actor: Actor }): Pr
 
 /** The queued report row of the next version, after every check; the caller generates or enqueues it. */
 export async function createReportRow(input: { caseId: string; actor: Actor }): Promise<Report> {
+  const [current] = await db.select().from(cases).where(eq(cases.id, input.caseId));
+  if (!current) throw new DomainError("Case not found.", "caseId", 404);
+  const inputHash = sha256Hex(canonicalJson(parseOrThrow(buildCaseFile(current.title, caseInputs(await getCaseSteps(input.caseId))))));
+  const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["issued", "released"]))).orderBy(desc(reports.version)).limit(1);
+  if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, "case", 409);
   return db.transaction(async (tx) => {
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
     if (!c) throw new DomainError("Case not found.", "caseId", 404);

@@ -5,17 +5,25 @@ import { auditForEntity } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps } from "~/services/case-steps.server";
+import { reviewState } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { case: c, programme, createdByName } = await requireCase(request, params.caseId, "case:read");
-  const [steps, history] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20)]);
+  const [steps, history, review] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20), reviewState(c.id)]);
+  const approval = (key: string) => {
+    const sigs = review.find((r) => r.key === key)?.signatures ?? [];
+    const live = sigs.find((g) => !g.voided);
+    if (live) return { kind: "signed" as const, text: `${live.meaning} by ${live.name}, ${formatUtc(live.signedAt)}` };
+    const voided = sigs.find((g) => g.voided);
+    return voided ? { kind: "voided" as const, text: `approval voided: ${voided.voided!.reason}` } : null;
+  };
   return {
     case: c,
     programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft },
     createdByName,
-    steps: STEPS.map((s) => ({ ...s, status: steps[s.key].status, revision: steps[s.key].revision, updatedAt: steps[s.key].updatedAt, updatedByName: steps[s.key].updatedByName })),
+    steps: STEPS.map((s) => ({ ...s, status: steps[s.key].status, revision: steps[s.key].revision, updatedAt: steps[s.key].updatedAt, updatedByName: steps[s.key].updatedByName, approval: approval(s.key) })),
     history: history.map((h) => ({ id: h.id, at: h.at, action: h.action, actorEmail: h.actorEmail })),
   };
 }
@@ -33,7 +41,8 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
               <th className="py-1.5 pr-3">Status</th>
               <th className="py-1.5 pr-3 text-right">Revision</th>
               <th className="py-1.5 pr-3">Last changed by</th>
-              <th className="py-1.5">When</th>
+              <th className="py-1.5 pr-3">When</th>
+              <th className="py-1.5">Check</th>
             </tr>
           </thead>
           <tbody>
@@ -50,7 +59,10 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
                 </td>
                 <td className="py-1.5 pr-3 text-right tabular">{s.revision || "—"}</td>
                 <td className="py-1.5 pr-3">{s.updatedByName ?? "—"}</td>
-                <td className="py-1.5 tabular text-ink-muted">{s.updatedAt && s.revision ? formatUtc(s.updatedAt) : "—"}</td>
+                <td className="py-1.5 pr-3 tabular text-ink-muted">{s.updatedAt && s.revision ? formatUtc(s.updatedAt) : "—"}</td>
+                <td className="py-1.5 text-xs">
+                  {s.approval?.kind === "signed" ? <span className="text-status-approved">✓ {s.approval.text}</span> : s.approval?.kind === "voided" ? <strong className="text-warn">⚠ {s.approval.text}</strong> : "—"}
+                </td>
               </tr>
             ))}
           </tbody>
