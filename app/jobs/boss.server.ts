@@ -1,7 +1,7 @@
 import PgBoss from "pg-boss";
 
 /** Queue names: every background job of the product. */
-export const QUEUES = { generateReport: "report.generate" } as const;
+export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute" } as const;
 
 const globalForBoss = globalThis as unknown as { __spanwrightBoss?: Promise<PgBoss> };
 

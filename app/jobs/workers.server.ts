@@ -1,3 +1,4 @@
+import { computeQueuedResults } from "~/services/analysis.server";
 import { generateReport } from "~/services/reports.server";
 import { boss, QUEUES } from "./boss.server";
 
@@ -10,5 +11,8 @@ export async function startWorkers(): Promise<void> {
   await queue.work<{ reportId: string }>(QUEUES.generateReport, { includeMetadata: true, pollingIntervalSeconds: 1 }, async ([job]) => {
     if (!job) return;
     await generateReport(job.data.reportId, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+  });
+  await queue.work<{ caseId: string }>(QUEUES.computeResults, { pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (job) await computeQueuedResults(job.data.caseId);
   });
 }

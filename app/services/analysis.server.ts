@@ -2,7 +2,7 @@ import { and, desc, eq } from "drizzle-orm";
 import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/cases/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { caseResults, type StepKey } from "~/db/schema";
+import { caseResults, cases, type StepKey } from "~/db/schema";
 import { ENGINE_VERSION, isEngineError } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, runCase, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
@@ -139,4 +139,33 @@ export async function resultsFor(caseId: string, file: CaseFileInput, actorId: s
 /** Export of a case as the exchange document the CLI reads. */
 export async function exportCase(caseId: string, title: string): Promise<CaseFileInput> {
   return buildCaseFile(title, caseInputs(await getCaseSteps(caseId)));
+}
+
+/** Sweeps larger than this are solved by a worker rather than inside the web request. */
+export const SWEEP_THRESHOLD = 500;
+
+/**
+ * The stored result when there is one; otherwise small cases are solved at once and large sweeps
+ * are handed to the job queue (the caller answers "computing" and asks again).
+ */
+export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorId: string | null): Promise<{ pending: true; cases: number } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
+  if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId)) };
+  const parsed = parseOrThrow(file);
+  const inputHash = sha256Hex(canonicalJson(parsed));
+  const [cached] = await db
+    .select({ id: caseResults.id })
+    .from(caseResults)
+    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .limit(1);
+  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId)) };
+  const { boss, QUEUES } = await import("~/jobs/boss.server");
+  await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
+  return { pending: true, cases: file.cases.length };
+}
+
+/** The job: solve and store the case's current results (idempotent: stored results are reused). */
+export async function computeQueuedResults(caseId: string): Promise<void> {
+  const [row] = await db.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
+  if (!row) return;
+  await resultsFor(caseId, await exportCase(caseId, row.title), null);
 }

@@ -58,7 +58,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
-type ResultsResponse = CaseResult | { error: string; message: string };
+type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string };
 
 export default function LoadsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const { units, caseId } = loaderData;
@@ -74,6 +74,13 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
   }, [caseId, loaderData.ready, loaderData.revision]);
   const result = results.data && "schema" in results.data ? results.data : null;
   const failure = results.data && "error" in results.data ? results.data.message : null;
+  const computing = results.data && "status" in results.data ? results.data.message : null;
+  // A large sweep is solved by a worker: ask again until its result is stored.
+  useEffect(() => {
+    if (!computing) return;
+    const t = setTimeout(() => results.load(`/api/v1/cases/${caseId}/results`), 1000);
+    return () => clearTimeout(t);
+  }, [computing, results.data]);
   const [selected, setSelected] = useState<string | null>(null);
   const current = result?.cases.find((c) => c.id === selected) ?? (result ? criticalRootCase(result) : null);
   const server = actionData?.fieldErrors as Record<string, string[] | undefined> | undefined;
@@ -118,9 +125,10 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
         <div role="status" aria-live="polite">
           {!loaderData.ready ? (
             <p className="text-sm text-ink-muted">Save the planform, sections and envelope first.</p>
-          ) : results.state !== "idle" ? (
+          ) : results.state !== "idle" || computing ? (
             <div className="rounded border border-line bg-surface p-4 text-sm">
               <p className="font-semibold">Computing {loaderData.caseCount} load case{loaderData.caseCount === 1 ? "" : "s"}…</p>
+              {computing ? <p className="text-xs text-ink-muted">{computing}</p> : null}
               <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas">
                 <div className="h-full w-1/3 animate-pulse rounded bg-accent" />
               </div>

@@ -1,6 +1,6 @@
 import { requireApiUser } from "~/auth/api-auth.server";
 import { resultToCsv } from "~/exchange";
-import { exportCase, resultsFor } from "~/services/analysis.server";
+import { exportCase, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import type { Route } from "./+types/case-results";
 import { filenameOf } from "./case-export";
@@ -20,7 +20,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const { result, inputHash } = await resultsFor(found.case.id, await exportCase(found.case.id, found.case.title), current.user.id);
+    const answer = await resultsOrQueue(found.case.id, await exportCase(found.case.id, found.case.title), current.user.id);
+    if (answer.pending) {
+      return Response.json(
+        { status: "computing", message: `${answer.cases} load cases are being solved by a background worker; ask again in a moment.` },
+        { status: 202, headers: { "Retry-After": "1", "Cache-Control": "no-store" } },
+      );
+    }
+    const { result, inputHash } = answer;
     const headers = { "X-Spanwright-Input-Sha256": inputHash };
     if (format === "json") return Response.json(result, { headers });
     return new Response(resultToCsv(result), {

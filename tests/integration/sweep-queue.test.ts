@@ -1,0 +1,57 @@
+import fs from "node:fs";
+import { eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { programmes, users } from "~/db/schema";
+import { parseCase, runCase, type CaseFileInput } from "~/exchange";
+import { stopBoss } from "~/jobs/boss.server";
+import { startWorkers } from "~/jobs/workers.server";
+import { loader as resultsLoader } from "~/routes/api/v1/case-results";
+import { exportCase } from "~/services/analysis.server";
+import { importCase } from "~/services/case-import.server";
+import { cookieFor, demoUser, request, seed } from "./helpers";
+
+afterAll(async () => {
+  await stopBoss();
+});
+
+let caseId = "";
+let cookie = "";
+
+beforeAll(async () => {
+  await seed();
+  cookie = await cookieFor("engineer");
+  const base = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as CaseFileInput;
+  // A sweep of 600 trimmed cases over 6 Mach numbers: more than a web request should solve itself.
+  const sweep: CaseFileInput = {
+    ...base,
+    cases: Array.from({ length: 600 }, (_, i) => ({ id: `s${i}`, mach: 0.2 + 0.05 * (i % 6), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })),
+  };
+  const parsed = parseCase(sweep);
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
+  const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+  const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+  const created = await importCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "SWEEP-600", title: "Sweep", document: sweep, actor: { id: erin!.id, email: erin!.email } });
+  caseId = created.id;
+});
+
+const ask = async () => (await resultsLoader({ request: request(`/api/v1/cases/${caseId}/results`, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+
+describe("large sweeps go through the job queue", () => {
+  it("answers 202 while a worker solves the sweep, then the stored result, equal to the engine's", async () => {
+    const first = await ask();
+    expect(first.status).toBe(202);
+    expect(((await first.json()) as { status: string }).status).toBe("computing");
+    await startWorkers();
+    let answer = first;
+    for (let i = 0; i < 60 && answer.status === 202; i++) {
+      await new Promise((r) => setTimeout(r, 500));
+      answer = await ask();
+    }
+    expect(answer.status).toBe(200);
+    const stored = await answer.json();
+    const parsed = parseCase(JSON.parse(JSON.stringify(await exportCase(caseId, "Sweep"))));
+    if (!parsed.ok) throw new Error("export does not parse");
+    expect(stored).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+  }, 60_000);
+});
