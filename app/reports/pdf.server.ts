@@ -890,7 +890,10 @@ function flagsAndCautions(w: Writer, s: ReportSnapshot) {
 
 function signatures(w: Writer, s: ReportSnapshot) {
   w.heading("Signatures", { newPage: true });
-  w.para("Each step was signed on the revision shown; the revision hash is the SHA-256 of that revision's stored data. Times are UTC.", { size: 8.4, color: MUTED });
+  w.para(
+    "Each step was signed on the revision shown; its hash is the SHA-256 of the canonical serialisation of that revision (case, step, revision and data). The approval for issue signs the hashes of every step's signed revision. The release by quality signs the SHA-256 of this PDF's bytes, so it is recorded in Spanwright after issue and listed with the report there. Times are UTC.",
+    { size: 8.4, color: MUTED },
+  );
   const cols: Column[] = [
     { header: "Name", width: 92 },
     { header: "Role", width: 54 },
@@ -900,7 +903,7 @@ function signatures(w: Writer, s: ReportSnapshot) {
     { header: "Revision hash (SHA-256)", width: 0 },
   ];
   const row = (g: SignatureLine) => [g.name, g.role, g.meaning, utc(g.signedAt), g.revision === null ? "—" : `${g.revision}`, g.revisionHash];
-  const groups = [...STEP_KEYS.map((k) => ({ key: k as string | null, title: `${STEP_LABEL[k]} step` })), { key: null, title: "Report release" }];
+  const groups = [...STEP_KEYS.map((k) => ({ key: k as string | null, title: `${STEP_LABEL[k]} step` })), { key: null, title: "Approval of the case for issue" }];
   const other = s.signatures.filter((g) => g.step !== null && !(STEP_KEYS as readonly string[]).includes(g.step));
   for (const grp of groups) {
     const lines = s.signatures.filter((g) => g.step === grp.key);
