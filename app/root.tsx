@@ -56,6 +56,9 @@ export function ErrorPanel({ error }: { error: unknown }) {
     } else if (error.status === 401) {
       title = "Sign-in needed";
       detail = message || "Sign in to continue.";
+    } else if (error.status === 503) {
+      title = "Temporarily unavailable";
+      detail = message || detail;
     } else {
       title = `Error ${error.status}`;
       detail = message || error.statusText || detail;

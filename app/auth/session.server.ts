@@ -3,6 +3,7 @@ import { and, eq, gt, lt } from "drizzle-orm";
 import { createCookie } from "react-router";
 import { sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
+import { rethrowUnavailable } from "~/db/unavailable.server";
 import { memberships, organisations, sessions, users, type Organisation, type Role, type User } from "~/db/schema";
 import { cookiesSecure } from "~/utils/env.server";
 
@@ -71,7 +72,8 @@ const stateByRequest = new WeakMap<Request, Promise<SessionState>>();
 export function readSession(request: Request): Promise<SessionState> {
   let pending = stateByRequest.get(request);
   if (!pending) {
-    pending = loadSession(request);
+    // Every signed-in page reads the session first, so an outage is answered here as a plain 503.
+    pending = loadSession(request).catch(rethrowUnavailable);
     stateByRequest.set(request, pending);
   }
   return pending;

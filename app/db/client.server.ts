@@ -21,6 +21,10 @@ export function pool(): pg.Pool {
     // An idle connection dropped by the server (restart, shutdown) must not crash the process:
     // the pool replaces it, and the next query reports a real failure if the server stays away.
     created.on("error", (error) => console.warn(`database connection lost: ${error.message}`));
+    // A connection that is checked out (inside a transaction) when the server goes emits its error on
+    // the client, where pg has no listener: without this one, a database restart kills the process.
+    // The query in flight still fails, and the request answers with that failure.
+    created.on("connect", (client) => client.on("error", () => {}));
     globalForDb.__spanwrightPool = created;
   }
   return globalForDb.__spanwrightPool;

@@ -136,7 +136,9 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     await setProgress(reportId, 10, "freezing the inputs and results");
     const snapshot = await buildSnapshot(report);
     const { renderReportPdf } = await import("~/reports/pdf.server");
-    const pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => void setProgress(reportId, 20 + Math.round(pct * 0.6), note) });
+    // Progress is only shown to people: a lost update (database away mid-render) must not become an
+    // unhandled rejection; the next awaited step reports the outage.
+    const pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => void setProgress(reportId, 20 + Math.round(pct * 0.6), note).catch(() => {}) });
     await setProgress(reportId, 85, "storing the PDF");
     const sha256 = sha256Hex(pdf);
     const bucket = env().S3_BUCKET_REPORTS;

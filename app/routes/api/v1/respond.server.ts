@@ -1,4 +1,5 @@
 import { apiError } from "~/auth/api-auth.server";
+import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/db/unavailable.server";
 import { isEngineError } from "~/engine";
 import { DomainError } from "~/services/organisation.server";
 
@@ -11,7 +12,7 @@ const ERROR_CODES: Record<number, string> = { 400: "bad-request", 403: "forbidde
 /**
  * Runs an API handler and turns every failure into the API's JSON `{ error, message }` answer:
  * Responses thrown by the auth helpers pass through, domain and engine errors keep their status,
- * anything unexpected is logged once and answered 500 without its stack.
+ * a database outage is a 503, anything unexpected is logged once and answered 500 without its stack.
  */
 export async function apiHandler(fn: () => Promise<Response>): Promise<Response> {
   try {
@@ -20,6 +21,7 @@ export async function apiHandler(fn: () => Promise<Response>): Promise<Response>
     if (error instanceof Response) return error;
     if (error instanceof DomainError) return apiError(error.status, ERROR_CODES[error.status] ?? "error", error.message);
     if (isEngineError(error)) return apiError(422, "invalid-case", error.message);
+    if (isDatabaseUnavailable(error)) return databaseUnavailableResponse();
     console.error("API request failed", error);
     return apiError(500, "internal", "The server failed to answer this request. It has been logged; try again or report it.");
   }
