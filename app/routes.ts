@@ -37,6 +37,7 @@ export default [
   ]),
   route("dev/mailbox", "routes/dev/mailbox.tsx"),
   route("api/planform-preview", "routes/api/planform-preview.ts"),
+  route("api/cases/:caseId/distribution", "routes/api/case-distribution.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

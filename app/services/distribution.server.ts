@@ -86,3 +86,9 @@ export function distributionView(input: CaseFileInput, caseId: string) {
 }
 
 export type DistributionView = ReturnType<typeof distributionView>;
+
+/** The view with one summary line for all stations over clmax, as the page shows it. */
+export function distributionViewForPage(input: CaseFileInput, caseId: string) {
+  const full = distributionView(input, caseId);
+  return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings)] };
+}

@@ -1,4 +1,4 @@
-import { data, Form, Link, useNavigation, useSearchParams } from "react-router";
+import { data, Form, Link, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/auth/permissions";
@@ -12,7 +12,7 @@ import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
-import { distributionView, flaggedCases, summariseStall, undispositioned } from "~/services/distribution.server";
+import { distributionViewForPage, flaggedCases, undispositioned } from "~/services/distribution.server";
 import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
@@ -28,7 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");
   const steps = await getCaseSteps(c.id);
   const inputs = caseInputs(steps);
-  const base = { revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted" };
+  const base = { caseId: c.id, revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted" };
   let file;
   try {
     file = buildCaseFile(c.title, inputs, "envelope");
@@ -40,9 +40,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const { result } = await resultsFor(c.id, file, current.user.id);
     const flags = flaggedCases(result);
     const requested = new URL(request.url).searchParams.get("case");
-    const full = distributionView(file, requested ?? flags[0]?.id ?? file.cases[0]!.id);
-    const stall = summariseStall(full.warnings);
-    const view = { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...stall] };
+    const view = distributionViewForPage(file, requested && file.cases.some((k) => k.id === requested) ? requested : (flags[0]?.id ?? file.cases[0]!.id));
     return { ...base, problem: null, view, flags, open: undispositioned(flags, inputs.distribution), dispositions: inputs.distribution?.dispositions ?? {} };
   } catch (error) {
     if (error instanceof DomainError) return { ...base, problem: error.message, view: null, flags: [], open: [], dispositions: {} };
@@ -67,9 +65,12 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function DistributionRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const [, setParams] = useSearchParams();
   const busy = useNavigation().state !== "idle";
-  const { view, flags } = loaderData;
+  const picked = useFetcher<typeof loaderData.view>();
+  const { flags } = loaderData;
+  // Another case is fetched from the resource route; the page itself does not navigate.
+  const view = picked.data && "y" in picked.data ? picked.data : loaderData.view;
+  const show = (id: string) => picked.load(`/api/cases/${loaderData.caseId}/distribution?case=${encodeURIComponent(id)}`);
   const errors = Object.entries((actionData?.fieldErrors ?? {}) as Record<string, string[] | undefined>);
   return (
     <>
@@ -91,7 +92,7 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
           <div className="mb-4 flex flex-wrap items-center gap-3 text-sm">
             <label>
               <span className="mr-2 font-semibold">Case</span>
-              <select value={view.caseId} onChange={(e) => setParams({ case: e.target.value }, { preventScrollReset: true })} className="rounded border border-line-strong px-2 py-1" aria-label="Case shown">
+              <select value={view.caseId} onChange={(e) => show(e.target.value)} className="rounded border border-line-strong px-2 py-1" aria-label="Case shown">
                 {view.cases.map((id) => (
                   <option key={id} value={id}>
                     {id}
@@ -104,7 +105,7 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
               Mach {formatNumber(view.mach)} · {formatNumber(view.altitude)} m · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
               {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
             </span>
-            {busy ? <span className="text-xs text-ink-muted" role="status">Computing…</span> : null}
+            {busy || picked.state !== "idle" ? <span className="text-xs text-ink-muted" role="status">Computing…</span> : null}
           </div>
           {view.warnings.length ? (
             <ul className="mb-4 list-disc pl-5 text-sm text-warn">
@@ -159,12 +160,19 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
                   </thead>
                   <tbody>
                     {flags.map((f, i) => {
-                      const d = loaderData.dispositions[f.id];
+                      const d = (loaderData.dispositions as Record<string, { action: string; comment: string } | undefined>)[f.id];
                       return (
                         <tr key={f.id} className="border-t border-line align-top">
                           <td className="py-2 pr-3 font-semibold">
                             <input type="hidden" name={`dispositions.${i}.id`} value={f.id} />
-                            <Link to={`?case=${encodeURIComponent(f.id)}`} preventScrollReset>
+                            <Link
+                              to={`?case=${encodeURIComponent(f.id)}`}
+                              preventScrollReset
+                              onClick={(e) => {
+                                e.preventDefault();
+                                show(f.id);
+                              }}
+                            >
                               {f.id}
                             </Link>
                           </td>

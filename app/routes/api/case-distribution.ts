@@ -1,0 +1,23 @@
+import { requireCase } from "~/auth/case-access.server";
+import { buildCaseFile, caseInputs } from "~/services/analysis.server";
+import { getCaseSteps } from "~/services/case-steps.server";
+import { distributionViewForPage } from "~/services/distribution.server";
+import { DomainError } from "~/services/organisation.server";
+import type { Route } from "./+types/case-distribution";
+
+/**
+ * The distribution of one case of a case file, as JSON for the distribution page: choosing another
+ * case re-computes the plots with a fetcher, without a full navigation.
+ */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { case: c } = await requireCase(request, params.caseId, "case:read");
+  const id = new URL(request.url).searchParams.get("case") ?? "";
+  try {
+    const file = buildCaseFile(c.title, caseInputs(await getCaseSteps(c.id)), "envelope");
+    if (!file.cases.some((k) => k.id === id)) return Response.json({ error: "not-found", message: `Case file ${c.reference} has no load case "${id}".` }, { status: 404 });
+    return Response.json(distributionViewForPage(file, id), { headers: { "Cache-Control": "no-store" } });
+  } catch (error) {
+    if (error instanceof DomainError) return Response.json({ error: "conflict", message: error.message }, { status: error.status });
+    throw error;
+  }
+}
