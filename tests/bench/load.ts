@@ -1,0 +1,357 @@
+// Load benchmark of the production app (not a timed test): starts `tsx app/server/start.ts` with its
+// own data folder and ports, signs in as the demo engineer, drives the busiest pages and API routes
+// with autocannon at 50 connections, samples the server's RSS every second, times report
+// generation, stops the app, and writes its section of docs/benchmarks.md. `npm run bench` runs it
+// after tests/bench/run.ts; alone: `npx tsx tests/bench/load.ts [--duration 30]`.
+import { spawn, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { performance } from "node:perf_hooks";
+import autocannon from "autocannon";
+import { DEMO_USERS } from "../../app/db/demo";
+
+const root = path.join(import.meta.dirname, "..", "..");
+const durationArg = process.argv.indexOf("--duration");
+const DURATION_S = durationArg > 0 ? Number(process.argv[durationArg + 1]) : 30;
+const CONNECTIONS = 50;
+const PORT = 3300;
+const ORIGIN = `http://127.0.0.1:${PORT}`;
+const PAGE_P95_TARGET_MS = 150;
+const MARK_START = "<!-- load benchmark: written by tests/bench/load.ts -->";
+const MARK_END = "<!-- end of load benchmark -->";
+
+function say(line: string) {
+  process.stdout.write(`[load] ${line}\n`);
+}
+
+// ---------------------------------------------------------------------------------------------
+// The app under test
+
+const dataDir = path.join(os.tmpdir(), `spanwright-load-${process.pid}`);
+fs.rmSync(dataDir, { recursive: true, force: true });
+// 0755, not mkdtemp's 0700: as root, the postgres user must be able to enter it.
+fs.mkdirSync(dataDir, { recursive: true, mode: 0o755 });
+
+const appEnv = {
+  ...process.env,
+  SPANWRIGHT_DATA_DIR: dataDir,
+  PORT: String(PORT),
+  APP_ORIGIN: ORIGIN,
+  PG_PORT: "54359",
+  S3_PORT: "4599",
+  SMTP_PORT: "2555",
+  OIDC_PORT: "4610",
+  NODE_ENV: "production",
+  // Always the stand-ins, even when the calling shell points at real services.
+  DATABASE_URL: "",
+  S3_ENDPOINT: "",
+  SMTP_URL: "",
+  OIDC_ISSUER: "",
+};
+
+let app: ChildProcess | undefined;
+const appLog: string[] = [];
+
+async function stopApp() {
+  if (!app || app.exitCode !== null || app.signalCode !== null) return;
+  const exited = new Promise<void>((r) => app!.once("exit", () => r()));
+  // SIGINT to the whole group: start.ts stops its services, PostgreSQL does a fast shutdown.
+  process.kill(-app.pid!, "SIGINT");
+  const timer = setTimeout(() => process.kill(-app!.pid!, "SIGKILL"), 30_000);
+  await exited;
+  clearTimeout(timer);
+}
+
+async function waitForHealth(timeoutMs: number) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    if (app?.exitCode !== null && app?.exitCode !== undefined) throw new Error(`the app exited during start-up:\n${appLog.slice(-30).join("")}`);
+    try {
+      const res = await fetch(`${ORIGIN}/healthz`);
+      if (res.ok) return;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error(`no healthy app on ${ORIGIN} after ${timeoutMs / 1000} s:\n${appLog.slice(-30).join("")}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+}
+
+function children(pid: number): number[] {
+  const out: number[] = [];
+  for (const name of fs.readdirSync("/proc")) {
+    if (!/^\d+$/.test(name)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${name}/stat`, "utf8");
+      // Field 4 (after the parenthesised command, which may hold spaces) is the parent's PID.
+      const ppid = Number(stat.slice(stat.lastIndexOf(")") + 2).split(" ")[1]);
+      if (ppid === pid) out.push(Number(name));
+    } catch {
+      // the process ended while we looked
+    }
+  }
+  return out;
+}
+
+/** The node process that actually serves: tsx's cli starts the script in a child node process. */
+function serverPid(rootPid: number): number {
+  let pid = rootPid;
+  for (;;) {
+    const next = children(pid).find((c) => {
+      try {
+        return fs.readFileSync(`/proc/${c}/cmdline`, "utf8").includes("start.ts");
+      } catch {
+        return false;
+      }
+    });
+    if (!next) return pid;
+    pid = next;
+  }
+}
+
+function rssMiB(pid: number): number {
+  const status = fs.readFileSync(`/proc/${pid}/status`, "utf8");
+  const kb = Number(/VmRSS:\s+(\d+)/.exec(status)?.[1] ?? NaN);
+  return kb / 1024;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Measurements
+
+interface Run {
+  name: string;
+  kind: "page" | "api";
+  rps: number;
+  total: number;
+  p50: number;
+  p95: number;
+  p99: number;
+  errors: number;
+  non2xx: number;
+  rss: { start: number; end: number; max: number };
+}
+
+function percentile(sorted: number[], p: number): number {
+  if (!sorted.length) return NaN;
+  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!;
+}
+
+async function load(name: string, kind: Run["kind"], pid: number, opts: { path: string; method?: "GET" | "POST"; headers: Record<string, string>; body?: string }): Promise<Run> {
+  const times: number[] = [];
+  const samples: number[] = [rssMiB(pid)];
+  const sampler = setInterval(() => samples.push(rssMiB(pid)), 1000);
+  const instance = autocannon({
+    url: `${ORIGIN}${opts.path}`,
+    method: opts.method ?? "GET",
+    headers: opts.headers,
+    body: opts.body,
+    connections: CONNECTIONS,
+    duration: DURATION_S,
+    timeout: 10,
+  });
+  // The tracker passes the client first (the bundled types describe the client's own event).
+  (instance as unknown as { on(e: "response", f: (client: unknown, status: number, bytes: number, ms: number) => void): void }).on("response", (_client, _status, _bytes, ms) => times.push(ms));
+  const result = await instance;
+  clearInterval(sampler);
+  samples.push(rssMiB(pid));
+  times.sort((a, b) => a - b);
+  const run: Run = {
+    name,
+    kind,
+    rps: result.requests.total / result.duration,
+    total: result.requests.total,
+    p50: percentile(times, 50),
+    p95: percentile(times, 95),
+    p99: percentile(times, 99),
+    errors: result.errors + result.timeouts,
+    non2xx: result.non2xx,
+    rss: { start: samples[0]!, end: samples[samples.length - 1]!, max: Math.max(...samples) },
+  };
+  say(`${name}: ${run.rps.toFixed(0)} req/s, p50 ${run.p50.toFixed(1)} ms, p95 ${run.p95.toFixed(1)} ms, p99 ${run.p99.toFixed(1)} ms, errors ${run.errors}, non-2xx ${run.non2xx}, RSS ${run.rss.start.toFixed(0)}→${run.rss.end.toFixed(0)} MiB (max ${run.rss.max.toFixed(0)})`);
+  return run;
+}
+
+async function signIn(): Promise<string> {
+  const engineer = DEMO_USERS.find((u) => u.label === "engineer")!;
+  const res = await fetch(`${ORIGIN}/login`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: ORIGIN },
+    body: new URLSearchParams({ email: engineer.email, password: engineer.password }),
+  });
+  const cookie = res.headers.get("set-cookie")?.split(";")[0];
+  if (!cookie?.startsWith("sw_session=")) throw new Error(`sign-in as ${engineer.email} failed: HTTP ${res.status}`);
+  return cookie;
+}
+
+/** One request that must answer 2xx before the load starts (a 202 "computing" is waited out). */
+async function warm(url: string, init: RequestInit) {
+  for (let i = 0; i < 120; i++) {
+    const res = await fetch(url, init);
+    await res.arrayBuffer();
+    if (res.status === 200) return;
+    if (res.status !== 202) throw new Error(`${init.method ?? "GET"} ${url} answered ${res.status} before the load`);
+    await new Promise((r) => setTimeout(r, 500));
+  }
+  throw new Error(`${url} was still computing after a minute`);
+}
+
+interface ReportTiming {
+  demo: { cases: number; snapshotMs: number; renderMs: number; pages: number; bytes: number };
+  big: { cases: number; solveMs: number; renderMs: number; pages: number; bytes: number };
+}
+
+/**
+ * Report generation in this process against the app's database: the demo report's snapshot (read
+ * from PostgreSQL, results recomputed) and its PDF; then the same case widened to 500 load cases.
+ */
+async function timeReports(databaseUrl: string): Promise<ReportTiming> {
+  process.env.DATABASE_URL = databaseUrl;
+  const { eq } = await import("drizzle-orm");
+  const { db, closeDb } = await import("../../app/db/client.server");
+  const { reports } = await import("../../app/db/schema");
+  const { buildSnapshot } = await import("../../app/services/reports.server");
+  const { renderReportPdf } = await import("../../app/reports/pdf.server");
+  const { parseCase, runCase } = await import("../../app/exchange");
+  const pagesOf = (pdf: Uint8Array) => (Buffer.from(pdf).toString("latin1").match(/\/Type\s*\/Page[^s]/g) ?? []).length;
+  try {
+    const [row] = await db.select().from(reports).where(eq(reports.version, 1)).limit(1);
+    if (!row) throw new Error("the demo report was not seeded");
+    const median = async <T>(fn: () => Promise<T>, n: number): Promise<{ ms: number; value: T }> => {
+      let value = await fn(); // warm-up
+      const t: number[] = [];
+      for (let i = 0; i < n; i++) {
+        const t0 = performance.now();
+        value = await fn();
+        t.push(performance.now() - t0);
+      }
+      t.sort((a, b) => a - b);
+      return { ms: t[Math.floor(t.length / 2)]!, value };
+    };
+    const snap = await median(() => buildSnapshot(row), 3);
+    const demoPdf = await median(() => renderReportPdf(snap.value), 3);
+
+    // 500 load cases over the demo envelope's range: Mach 0.20–0.52, 0–5 km, nz −1.24…3.1.
+    const exchange = structuredClone(snap.value.exchange);
+    const weight = exchange.cases.find((c) => "weight" in c && c.weight)?.weight ?? 62272;
+    exchange.cases = Array.from({ length: 500 }, (_, i) => ({
+      id: `sweep-${String(i + 1).padStart(3, "0")}`,
+      mach: 0.2 + 0.32 * ((i % 25) / 24),
+      altitude: 250 * (Math.floor(i / 25) % 20),
+      weight,
+      nz: -1.24 + 4.34 * ((i * 7) % 50) / 49,
+    }));
+    const parsed = parseCase(exchange);
+    if (!parsed.ok) throw new Error(`the 500-case document is invalid: ${parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; ")}`);
+    const solved = await median(async () => runCase(parsed.value), 3);
+    const big = { ...snap.value, exchange, result: solved.value };
+    const bigPdf = await median(() => renderReportPdf(big), 1);
+    return {
+      demo: { cases: snap.value.exchange.cases.length, snapshotMs: snap.ms, renderMs: demoPdf.ms, pages: pagesOf(demoPdf.value), bytes: demoPdf.value.byteLength },
+      big: { cases: 500, solveMs: solved.ms, renderMs: bigPdf.ms, pages: pagesOf(bigPdf.value), bytes: bigPdf.value.byteLength },
+    };
+  } finally {
+    await closeDb();
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Report
+
+function writeSection(runs: Run[], overall: { start: number; end: number; max: number }, reportsTiming: ReportTiming, startupS: number) {
+  const cpu = os.cpus();
+  const ms = (v: number) => v.toFixed(1);
+  const lines: string[] = [];
+  const out = (s = "") => lines.push(s);
+  out(MARK_START);
+  out("# Load benchmark of the production app");
+  out();
+  out(`Written by \`npm run bench\` (tests/bench/load.ts) on ${new Date().toISOString().slice(0, 10)}. The production build served by`);
+  out(`\`tsx app/server/start.ts\` (with its own PostgreSQL, S3 stand-in, mail capture and sign-in stand-in, and the job worker), on`);
+  out(`127.0.0.1, driven by autocannon from the same machine: ${CONNECTIONS} connections for ${DURATION_S} s per row, signed in as the demo`);
+  out("engineer (session cookie from `POST /login`). Latencies are of every response, from autocannon's per-response timings.");
+  out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
+  out(`the load generator and the app share the two cores. App start-up to a healthy /healthz: ${startupS.toFixed(1)} s.`);
+  out();
+  out("| route | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
+  out("|---|---|---|---|---|---|---|---|---|");
+  for (const r of runs) {
+    out(`| ${r.name} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
+  }
+  out();
+  const pages = runs.filter((r) => r.kind === "page");
+  const slow = pages.filter((r) => r.p95 >= PAGE_P95_TARGET_MS);
+  const failing = runs.filter((r) => r.errors + r.non2xx > 0);
+  out(`- Pages p95 < ${PAGE_P95_TARGET_MS} ms: ${slow.length ? `**missed** by ${slow.map((r) => `${r.name} (${ms(r.p95)} ms)`).join(", ")}` : "**met**"}.`);
+  out(`- Zero errors: ${failing.length ? `**missed** (${failing.map((r) => `${r.name}: ${r.errors} errors, ${r.non2xx} non-2xx`).join("; ")})` : "**met** (no connection errors, time-outs or non-2xx answers)"}.`);
+  out(`- Server RSS over the whole run, sampled every second: start ${overall.start.toFixed(0)} MiB, end ${overall.end.toFixed(0)} MiB, max ${overall.max.toFixed(0)} MiB.`);
+  out();
+  out("## Report generation (in the benchmark process, against the app's database; medians)");
+  out();
+  const d = reportsTiming.demo;
+  const b = reportsTiming.big;
+  out(`- Demo report (TN-WL-001, ${d.cases} load cases): snapshot with results ${ms(d.snapshotMs)} ms, PDF ${ms(d.renderMs)} ms (${d.pages} pages, ${(d.bytes / 1024).toFixed(0)} KiB); **${ms(d.snapshotMs + d.renderMs)} ms** before the upload.`);
+  out(`- The same case with ${b.cases} load cases: solve ${ms(b.solveMs)} ms, PDF ${ms(b.renderMs)} ms (${b.pages} pages, ${(b.bytes / 1024).toFixed(0)} KiB); **${((b.solveMs + b.renderMs) / 1000).toFixed(2)} s**.`);
+  out(MARK_END);
+
+  const file = path.join(root, "docs", "benchmarks.md");
+  const existing = fs.existsSync(file) ? fs.readFileSync(file, "utf8") : "";
+  const section = lines.join("\n");
+  const a = existing.indexOf(MARK_START);
+  const z = existing.indexOf(MARK_END);
+  const next = a >= 0 && z > a ? existing.slice(0, a) + section + existing.slice(z + MARK_END.length) : `${existing.trimEnd()}\n\n${section}\n`;
+  fs.writeFileSync(file, next);
+  say(`wrote its section of ${path.relative(process.cwd(), file)}`);
+}
+
+// ---------------------------------------------------------------------------------------------
+
+async function main() {
+  const t0 = performance.now();
+  app = spawn(path.join(root, "node_modules", ".bin", "tsx"), ["app/server/start.ts"], { cwd: root, env: appEnv, detached: true, stdio: ["ignore", "pipe", "pipe"] });
+  app.stdout!.on("data", (b: Buffer) => appLog.push(b.toString()));
+  app.stderr!.on("data", (b: Buffer) => appLog.push(b.toString()));
+  say(`starting the app on ${ORIGIN} (data in ${dataDir})…`);
+  await waitForHealth(300_000);
+  const startupS = (performance.now() - t0) / 1000;
+  const pid = serverPid(app.pid!);
+  say(`healthy after ${startupS.toFixed(1)} s; server PID ${pid}, RSS ${rssMiB(pid).toFixed(0)} MiB`);
+
+  const cookie = await signIn();
+  const auth = { Cookie: cookie };
+  const list = (await (await fetch(`${ORIGIN}/api/v1/cases`, { headers: auth })).json()) as { cases: { id: string; reference: string }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001");
+  if (!demo) throw new Error("the demo case TN-WL-001 is not in the engineer's list");
+  const body = fs.readFileSync(path.join(root, "docs", "examples", "kf60-tern-wing.json"), "utf8");
+  const targets = [
+    { name: "case overview `GET /cases/:id`", kind: "page" as const, path: `/cases/${demo.id}`, headers: auth },
+    { name: "loads page `GET /cases/:id/loads`", kind: "page" as const, path: `/cases/${demo.id}/loads`, headers: auth },
+    { name: "results `GET /api/v1/cases/:id/results`", kind: "api" as const, path: `/api/v1/cases/${demo.id}/results`, headers: auth },
+    { name: "`POST /api/v1/analyze` (kf60-tern-wing.json)", kind: "api" as const, path: "/api/v1/analyze", method: "POST" as const, headers: { ...auth, "Content-Type": "application/json" }, body },
+  ];
+  for (const t of targets) await warm(`${ORIGIN}${t.path}`, { method: t.method ?? "GET", headers: t.headers, body: t.body });
+
+  const overall = { start: rssMiB(pid), end: 0, max: 0 };
+  const runs: Run[] = [];
+  for (const t of targets) runs.push(await load(t.name, t.kind, pid, t));
+  overall.end = rssMiB(pid);
+  overall.max = Math.max(overall.start, overall.end, ...runs.map((r) => r.rss.max));
+
+  say("timing report generation…");
+  const reportsTiming = await timeReports(`postgres://postgres@127.0.0.1:${appEnv.PG_PORT}/spanwright`);
+  say(`demo report ${(reportsTiming.demo.snapshotMs + reportsTiming.demo.renderMs).toFixed(0)} ms; 500 cases ${(reportsTiming.big.solveMs + reportsTiming.big.renderMs).toFixed(0)} ms`);
+  writeSection(runs, overall, reportsTiming, startupS);
+}
+
+main()
+  .then(async () => {
+    await stopApp();
+    fs.rmSync(dataDir, { recursive: true, force: true });
+  })
+  .catch(async (error: unknown) => {
+    console.error(`[load] ${error instanceof Error ? error.message : String(error)}`);
+    await stopApp();
+    fs.rmSync(dataDir, { recursive: true, force: true });
+    process.exitCode = 1;
+  });
