@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { ISA_MAX_ALTITUDE, ISA_MIN_ALTITUDE } from "../engine/atmosphere";
+import type { EnvelopeRow } from "../engine/envelope";
 
 /** Schema identifiers of the exchange contract (docs: /work/shared/CASE-EXCHANGE.md). */
 export const CASE_SCHEMA_ID = "spanwright.case/1";
@@ -170,21 +171,8 @@ export interface ResultCase {
   root: ResultRootLoads;
 }
 
-export interface ResultEnvelopeStation {
-  y: number;
-  shearMax: number;
-  shearMaxCase: string;
-  shearMin: number;
-  shearMinCase: string;
-  bendingMax: number;
-  bendingMaxCase: string;
-  bendingMin: number;
-  bendingMinCase: string;
-  torsionMax: number;
-  torsionMaxCase: string;
-  torsionMin: number;
-  torsionMinCase: string;
-}
+/** One envelope station of the result: the engine's envelope rows are exactly the contract's. */
+export type ResultEnvelopeStation = EnvelopeRow;
 
 /** The `spanwright.result/1` document. */
 export interface CaseResult {
