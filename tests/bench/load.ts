@@ -122,6 +122,8 @@ function rssMiB(pid: number): number {
 interface Run {
   name: string;
   kind: "page" | "api";
+  /** Median of 20 requests sent one at a time before the load: the service time without queueing. */
+  alone: number;
   rps: number;
   total: number;
   p50: number;
@@ -138,6 +140,13 @@ function percentile(sorted: number[], p: number): number {
 }
 
 async function load(name: string, kind: Run["kind"], pid: number, opts: { path: string; method?: "GET" | "POST"; headers: Record<string, string>; body?: string }): Promise<Run> {
+  const single: number[] = [];
+  for (let i = 0; i < 20; i++) {
+    const t0 = performance.now();
+    await (await fetch(`${ORIGIN}${opts.path}`, { method: opts.method ?? "GET", headers: opts.headers, body: opts.body })).arrayBuffer();
+    single.push(performance.now() - t0);
+  }
+  single.sort((a, b) => a - b);
   const times: number[] = [];
   const samples: number[] = [rssMiB(pid)];
   const sampler = setInterval(() => samples.push(rssMiB(pid)), 1000);
@@ -159,6 +168,7 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
   const run: Run = {
     name,
     kind,
+    alone: percentile(single, 50),
     rps: result.requests.total / result.duration,
     total: result.requests.total,
     p50: percentile(times, 50),
@@ -259,7 +269,7 @@ async function timeReports(databaseUrl: string): Promise<ReportTiming> {
 // ---------------------------------------------------------------------------------------------
 // Report
 
-function writeSection(runs: Run[], overall: { start: number; end: number; max: number }, reportsTiming: ReportTiming, startupS: number) {
+function writeSection(runs: Run[], overall: { start: number; end: number; max: number }, reportsTiming: ReportTiming, startupS: number, startLoad: string) {
   const cpu = os.cpus();
   const ms = (v: number) => v.toFixed(1);
   const lines: string[] = [];
@@ -274,10 +284,10 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
   out(`the load generator and the app share the two cores. App start-up to a healthy /healthz: ${startupS.toFixed(1)} s.`);
   out();
-  out("| route | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
-  out("|---|---|---|---|---|---|---|---|---|");
+  out("| route | one at a time (ms) | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
+  out("|---|---|---|---|---|---|---|---|---|---|");
   for (const r of runs) {
-    out(`| ${r.name} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
+    out(`| ${r.name} | ${ms(r.alone)} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
   }
   out();
   const pages = runs.filter((r) => r.kind === "page");
@@ -285,6 +295,9 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   const failing = runs.filter((r) => r.errors + r.non2xx > 0);
   out(`- Pages p95 < ${PAGE_P95_TARGET_MS} ms: ${slow.length ? `**missed** by ${slow.map((r) => `${r.name} (${ms(r.p95)} ms)`).join(", ")}` : "**met**"}.`);
   out(`- Zero errors: ${failing.length ? `**missed** (${failing.map((r) => `${r.name}: ${r.errors} errors, ${r.non2xx} non-2xx`).join("; ")})` : "**met** (no connection errors, time-outs or non-2xx answers)"}.`);
+  // With every connection busy, a request waits for the ones ahead of it: latency ≈ connections / throughput.
+  out(`- Queueing: with ${CONNECTIONS} connections always busy, p50 ≈ ${CONNECTIONS} / (requests/s) (${runs.map((r) => `${r.name}: ${(1000 * CONNECTIONS / r.rps).toFixed(0)} ms`).join("; ")}); a p95 under ${PAGE_P95_TARGET_MS} ms at this concurrency needs about ${Math.round((1000 * CONNECTIONS) / PAGE_P95_TARGET_MS)} requests/s, i.e. under ${(1000 / ((1000 * CONNECTIONS) / PAGE_P95_TARGET_MS) * os.cpus().length).toFixed(1)} ms of CPU per request over ${os.cpus().length} cores shared with the load generator.`);
+  out(`- Load average when the load run started: ${startLoad}.`);
   out(`- Server RSS over the whole run, sampled every second: start ${overall.start.toFixed(0)} MiB, end ${overall.end.toFixed(0)} MiB, max ${overall.max.toFixed(0)} MiB.`);
   out();
   out("## Report generation (in the benchmark process, against the app's database; medians)");
@@ -332,6 +345,7 @@ async function main() {
   ];
   for (const t of targets) await warm(`${ORIGIN}${t.path}`, { method: t.method ?? "GET", headers: t.headers, body: t.body });
 
+  const startLoad = os.loadavg().map((v) => v.toFixed(2)).join(" / ") + " (1/5/15 min; other jobs share this machine)";
   const overall = { start: rssMiB(pid), end: 0, max: 0 };
   const runs: Run[] = [];
   for (const t of targets) runs.push(await load(t.name, t.kind, pid, t));
@@ -341,7 +355,7 @@ async function main() {
   say("timing report generation…");
   const reportsTiming = await timeReports(`postgres://postgres@127.0.0.1:${appEnv.PG_PORT}/spanwright`);
   say(`demo report ${(reportsTiming.demo.snapshotMs + reportsTiming.demo.renderMs).toFixed(0)} ms; 500 cases ${(reportsTiming.big.solveMs + reportsTiming.big.renderMs).toFixed(0)} ms`);
-  writeSection(runs, overall, reportsTiming, startupS);
+  writeSection(runs, overall, reportsTiming, startupS, startLoad);
 }
 
 main()
