@@ -1,3 +1,4 @@
+import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
@@ -5,6 +6,7 @@ import { createRequestHandler } from "@react-router/express";
 import express, { type NextFunction, type Request, type Response } from "express";
 import type { ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
+import { CSP_NONCE_HEADER } from "../utils/csp";
 
 /**
  * The HTTP server: static files, a same-origin check on every state-changing request (with the
@@ -14,7 +16,7 @@ import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 export async function startHttpServer(opts: { host: string; port: number; origin: string; dev: boolean }): Promise<Server> {
   const app = express();
   app.disable("x-powered-by");
-  app.use(securityHeaders);
+  app.use(securityHeaders({ dev: opts.dev, origin: opts.origin, signInOrigin: process.env.OIDC_ISSUER }));
   app.use((req: Request, _res: Response, next: NextFunction) => {
     req.headers[CLIENT_ADDRESS_HEADER] = req.socket.remoteAddress ?? "unknown";
     next();
@@ -36,18 +38,65 @@ export async function startHttpServer(opts: { host: string; port: number; origin
     app.all("/{*splat}", createRequestHandler({ build }));
   }
 
+  app.use(answerErrors);
+
   return new Promise((resolve, reject) => {
     const server = app.listen(opts.port, opts.host, () => resolve(server));
     server.once("error", reject);
   });
 }
 
-function securityHeaders(_req: Request, res: Response, next: NextFunction) {
-  res.setHeader("X-Content-Type-Options", "nosniff");
-  res.setHeader("Referrer-Policy", "same-origin");
-  res.setHeader("X-Frame-Options", "DENY");
-  res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
-  next();
+/**
+ * Headers on every answer. The Content-Security-Policy allows scripts only from this origin and
+ * inline ones carrying this request's nonce (entry.server.tsx gives it to React Router's inline
+ * scripts); no framing by any site; no referrer to other sites. Styles keep 'unsafe-inline' because
+ * server-rendered style attributes (chart sizes, progress bars) need it; they cannot run code.
+ * Vite's development server injects its own inline scripts and a websocket, so development relaxes
+ * script-src and connect-src.
+ */
+export function securityHeaders(opts: { dev: boolean; origin: string; signInOrigin?: string }) {
+  const https = new URL(opts.origin).protocol === "https:";
+  // A form that starts company sign-in is redirected to the identity provider: form-action must allow it.
+  const formTargets = ["'self'", ...(opts.signInOrigin ? [safeOrigin(opts.signInOrigin)].filter((o) => o !== "invalid") : [])].join(" ");
+  return (req: Request, res: Response, next: NextFunction) => {
+    const nonce = randomBytes(16).toString("base64");
+    req.headers[CSP_NONCE_HEADER] = nonce;
+    const scripts = opts.dev ? "'self' 'unsafe-inline' 'unsafe-eval'" : `'self' 'nonce-${nonce}'`;
+    res.setHeader(
+      "Content-Security-Policy",
+      [
+        "default-src 'self'",
+        `script-src ${scripts}`,
+        "style-src 'self' 'unsafe-inline'",
+        "img-src 'self' data: blob:",
+        "font-src 'self' data:",
+        `connect-src 'self'${opts.dev ? " ws: wss:" : ""}`,
+        "object-src 'none'",
+        "base-uri 'self'",
+        `form-action ${formTargets}`,
+        "frame-ancestors 'none'",
+      ].join("; "),
+    );
+    res.setHeader("X-Content-Type-Options", "nosniff");
+    res.setHeader("Referrer-Policy", "same-origin");
+    res.setHeader("X-Frame-Options", "DENY");
+    res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
+    res.setHeader("Cross-Origin-Resource-Policy", "same-origin");
+    res.setHeader("Permissions-Policy", "camera=(), microphone=(), geolocation=(), payment=(), usb=()");
+    if (https) res.setHeader("Strict-Transport-Security", "max-age=31536000");
+    next();
+  };
+}
+
+/**
+ * Last in the chain: an error Express itself raised (a malformed URL escape, an unreadable static
+ * path) gets a short answer without its stack; only server faults are logged.
+ */
+function answerErrors(error: unknown, _req: Request, res: Response, next: NextFunction) {
+  if (res.headersSent) return next(error);
+  const status = typeof error === "object" && error && "status" in error && typeof error.status === "number" && error.status >= 400 && error.status < 600 ? error.status : 500;
+  if (status >= 500) console.error("Request failed before reaching the app", error);
+  res.status(status).type("text/plain").send(status >= 500 ? "The server failed to answer this request." : "The request could not be read.");
 }
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -57,7 +106,7 @@ const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
  * Requests with neither header (command-line clients with a bearer token) pass: they carry no
  * ambient browser credentials for a forger to abuse.
  */
-function sameOriginForWrites(origin: string) {
+export function sameOriginForWrites(origin: string) {
   const allowed = new URL(origin).origin;
   return (req: Request, res: Response, next: NextFunction) => {
     if (SAFE_METHODS.has(req.method)) return next();
