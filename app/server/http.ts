@@ -3,7 +3,7 @@ import path from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
 import { createRequestHandler } from "@react-router/express";
-import express, { type NextFunction, type Request, type Response } from "express";
+import express, { type Express, type NextFunction, type Request, type Response } from "express";
 import type { ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 import { CSP_NONCE_HEADER } from "../utils/csp";
@@ -14,36 +14,46 @@ import { CSP_NONCE_HEADER } from "../utils/csp";
  * React Router request handler — from the production build, or from Vite in development.
  */
 export async function startHttpServer(opts: { host: string; port: number; origin: string; dev: boolean }): Promise<Server> {
+  let mount: (app: Express) => void;
+  if (opts.dev) {
+    const vite = await import("vite").then((v) => v.createServer({ server: { middlewareMode: true } }));
+    mount = (app) => {
+      app.use(vite.middlewares);
+      app.all("/{*splat}", createRequestHandler({ build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild> }));
+    };
+  } else {
+    const buildDir = path.resolve("build");
+    const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
+    mount = (app) => {
+      app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
+      app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
+      app.all("/{*splat}", createRequestHandler({ build }));
+    };
+  }
+  const app = createApp({ origin: opts.origin, dev: opts.dev, signInOrigin: process.env.OIDC_ISSUER }, mount);
+  return new Promise((resolve, reject) => {
+    const server = app.listen(opts.port, opts.host, () => resolve(server));
+    server.once("error", reject);
+  });
+}
+
+/**
+ * The Express application around whatever `mount` adds (static files, the React Router handler):
+ * security headers first, the client address from the socket, the same-origin check on writes,
+ * and last an error answer without internals. Exported so the tests can serve a build through it.
+ */
+export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: string }, mount: (app: Express) => void): Express {
   const app = express();
   app.disable("x-powered-by");
-  app.use(securityHeaders({ dev: opts.dev, origin: opts.origin, signInOrigin: process.env.OIDC_ISSUER }));
+  app.use(securityHeaders(opts));
   app.use((req: Request, _res: Response, next: NextFunction) => {
     req.headers[CLIENT_ADDRESS_HEADER] = req.socket.remoteAddress ?? "unknown";
     next();
   });
   app.use(sameOriginForWrites(opts.origin));
-
-  if (opts.dev) {
-    const vite = await import("vite").then((v) => v.createServer({ server: { middlewareMode: true } }));
-    app.use(vite.middlewares);
-    app.all(
-      "/{*splat}",
-      createRequestHandler({ build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild> }),
-    );
-  } else {
-    const buildDir = path.resolve("build");
-    app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
-    app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
-    const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
-    app.all("/{*splat}", createRequestHandler({ build }));
-  }
-
+  mount(app);
   app.use(answerErrors);
-
-  return new Promise((resolve, reject) => {
-    const server = app.listen(opts.port, opts.host, () => resolve(server));
-    server.once("error", reject);
-  });
+  return app;
 }
 
 /**
@@ -54,7 +64,7 @@ export async function startHttpServer(opts: { host: string; port: number; origin
  * Vite's development server injects its own inline scripts and a websocket, so development relaxes
  * script-src and connect-src.
  */
-export function securityHeaders(opts: { dev: boolean; origin: string; signInOrigin?: string }) {
+function securityHeaders(opts: { dev: boolean; origin: string; signInOrigin?: string }) {
   const https = new URL(opts.origin).protocol === "https:";
   // A form that starts company sign-in is redirected to the identity provider: form-action must allow it.
   const formTargets = ["'self'", ...(opts.signInOrigin ? [safeOrigin(opts.signInOrigin)].filter((o) => o !== "invalid") : [])].join(" ");
@@ -106,7 +116,7 @@ const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
  * Requests with neither header (command-line clients with a bearer token) pass: they carry no
  * ambient browser credentials for a forger to abuse.
  */
-export function sameOriginForWrites(origin: string) {
+function sameOriginForWrites(origin: string) {
   const allowed = new URL(origin).origin;
   return (req: Request, res: Response, next: NextFunction) => {
     if (SAFE_METHODS.has(req.method)) return next();
