@@ -95,7 +95,8 @@ describe("cross-site request forgery", () => {
     const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
     const body = { ...fields(), programmeId: p!.id };
     const before = (await db.select().from(cases)).length;
-    for (const headers of [{ Origin: "https://evil.example" }, { Referer: "https://evil.example/x" }, { Origin: "null" }, { Origin: base.replace("127.0.0.1", "localhost") }]) {
+    const forged: Record<string, string>[] = [{ Origin: "https://evil.example" }, { Referer: "https://evil.example/x" }, { Origin: "null" }, { Origin: base.replace("127.0.0.1", "localhost") }];
+    for (const headers of forged) {
       const res = await postForm("/cases/new", body, { Cookie: engineer, ...headers });
       expect(res.status, JSON.stringify(headers)).toBe(403);
       expect(await res.text()).toContain("Cross-site request refused");
