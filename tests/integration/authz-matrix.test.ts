@@ -7,6 +7,8 @@ import routes from "~/routes";
 import { db } from "~/db/client.server";
 import { DEMO_USERS } from "~/db/demo";
 import { cases, programmes, reports } from "~/db/schema";
+import { buildCaseFile, caseInputs } from "~/services/analysis.server";
+import { getCaseSteps } from "~/services/case-steps.server";
 import { cookieFor, request, run } from "./helpers";
 
 /**
@@ -36,7 +38,7 @@ const fixed = (answer: Outcome, note: string): Rule => ({ kind: "fixed", answer,
 const notAllowed = fixed("405", "method not answered, before any check");
 
 /** The policy per route module file; `intents` adds rows for actions whose permission depends on the intent. */
-const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<string, Rule> }> = {
+const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<string, Rule>; query?: string }> = {
   "routes/home.tsx": { loader: page(ALL) },
   "routes/auth/login.tsx": { loader: pub, action: pub },
   "routes/auth/logout.ts": { loader: pub, action: pub },
@@ -81,6 +83,7 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/account-tokens.tsx": { loader: page(ALL), action: page(ALL) },
   "routes/dev/mailbox.tsx": { loader: fixed("allowed", "local mail capture only; absent (404) when a real relay is configured") },
   "routes/api/planform-preview.ts": { action: page(ALL) },
+  "routes/api/case-distribution.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
   "routes/api-docs.tsx": {},
   "routes/api/v1/cases.ts": { loader: api(ALL), action: notAllowed },
   "routes/api/v1/case-import.ts": { loader: notAllowed, action: api(["engineer"]) },
@@ -144,7 +147,8 @@ beforeAll(async () => {
   const [empty] = await db.select().from(cases).where(and(eq(cases.programmeId, p!.id), eq(cases.reference, "TN-WL-002")));
   const [r] = await db.select().from(reports).where(eq(reports.caseId, c!.id));
   emptyCaseId = empty!.id;
-  params = { caseId: c!.id, programmeId: p!.id, reportId: r!.id, token: "no-such-invitation-token-0000000000", "*": "no-such-endpoint" };
+  const loadCaseId = buildCaseFile(c!.title, caseInputs(await getCaseSteps(c!.id)), "envelope").cases[0]!.id;
+  params = { loadCaseId, caseId: c!.id, programmeId: p!.id, reportId: r!.id, token: "no-such-invitation-token-0000000000", "*": "no-such-endpoint" };
   for (const caller of CALLERS) if (caller !== "anonymous") cookies[caller] = await cookieFor(caller);
 }, 120_000);
 
@@ -193,7 +197,8 @@ describe("authorisation matrix", () => {
     for (const r of flat) {
       const mod = (await import(path.resolve("app", r.file))) as { loader?: (a: never) => unknown; action?: (a: never) => unknown };
       const policy = POLICY[r.file]!;
-      const url = r.path.replace(/:(\w+)/g, (_, name: string) => params[name]!).replace("*", params["*"]!);
+      const query = policy.query ? `?${policy.query.replace(/:(\w+)/g, (_, name: string) => encodeURIComponent(params[name]!))}` : "";
+      const url = r.path.replace(/:(\w+)/g, (_, name: string) => params[name]!).replace("*", params["*"]!) + query;
       const kinds: { handler: string; fn: ((a: never) => unknown) | undefined; rule: Rule | undefined; method: "GET" | "POST"; body?: (caller: Caller) => FormData; url?: string; params?: Record<string, string> }[] = [
         { handler: "loader (GET)", fn: mod.loader, rule: policy.loader, method: "GET" },
         { handler: "action (POST, empty body)", fn: mod.action, rule: policy.action, method: "POST", body: () => new FormData() },
