@@ -1,5 +1,4 @@
 import { createContext, useContext } from "react";
-import { z } from "zod";
 
 /**
  * The Content-Security-Policy nonce of the current document, provided by entry.server.tsx while the
@@ -16,6 +15,10 @@ export function useNonce(): string {
 export const CSP_NONCE_HEADER = "x-spanwright-csp-nonce";
 
 // The CSP forbids eval, and zod probes `new Function` for its compiled parsers when the first object
-// schema is built, which the browser reports as a violation. root.tsx imports this module, so the
-// setting is in place before any route module builds a schema. The server keeps the faster parsers.
-if (typeof document !== "undefined") z.config({ jitless: true });
+// schema is built, which the browser reports as a violation. zod reads its settings from this
+// global, so setting it here (root.tsx imports this module before any route module builds a schema)
+// turns the probe off without pulling zod into the root chunk. The server keeps the faster parsers.
+if (typeof document !== "undefined") {
+  const g = globalThis as { __zod_globalConfig?: { jitless?: boolean } };
+  g.__zod_globalConfig = Object.assign(g.__zod_globalConfig ?? {}, { jitless: true });
+}
