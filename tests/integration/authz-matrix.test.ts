@@ -247,3 +247,37 @@ function writeMatrix(rows: Row[]) {
   const next = at >= 0 && end > at ? current.slice(0, at) + block + current.slice(end + END.length) : `${current.trimEnd()}\n\n${block}\n`;
   if (next !== current) fs.writeFileSync(file, next);
 }
+
+describe("ids of another organisation's records inside a body", () => {
+  it("are refused, and leave those records as they were", async () => {
+    const { users, memberships, apiTokens } = await import("~/db/schema");
+    const { createApiToken } = await import("~/auth/api-auth.server");
+    const { action: membersAction } = await import("~/routes/admin/members");
+    const { action: tokensAction } = await import("~/routes/account-tokens");
+    const outsider = DEMO_USERS.find((u) => u.label === "outsider")!;
+    const [jonas] = await db.select().from(users).where(eq(users.email, outsider.email));
+    const [membership] = await db.select().from(memberships).where(eq(memberships.userId, jonas!.id));
+    const token = await createApiToken({ userId: jonas!.id, organisationId: membership!.organisationId, name: "matrix", actor: { id: jonas!.id, email: jonas!.email } });
+
+    // Kestrel's administrator tries to change the roles of Northmoor's person.
+    const roles = new FormData();
+    roles.set("intent", "set-roles");
+    roles.set("userId", jonas!.id);
+    roles.append("roles", "checker");
+    const setRoles = await run(membersAction, { request: request("/admin", { method: "POST", cookie: cookies.admin, body: roles }) });
+    expect(setRoles.status).toBeGreaterThanOrEqual(400);
+    expect(setRoles.status).toBeLessThan(500);
+    const [after] = await db.select().from(memberships).where(eq(memberships.userId, jonas!.id));
+    expect(after!.roles).toEqual(membership!.roles);
+
+    // Kestrel's engineer tries to revoke Northmoor's person's API token.
+    const revoke = new FormData();
+    revoke.set("intent", "revoke");
+    revoke.set("tokenId", token.id);
+    const revoked = await run(tokensAction, { request: request("/account/tokens", { method: "POST", cookie: cookies.engineer, body: revoke }) });
+    expect(revoked.status).toBeGreaterThanOrEqual(400);
+    expect(revoked.status).toBeLessThan(500);
+    const [stillThere] = await db.select().from(apiTokens).where(eq(apiTokens.id, token.id));
+    expect(stillThere!.revokedAt).toBeNull();
+  });
+});
