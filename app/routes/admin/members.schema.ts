@@ -4,12 +4,12 @@ import { ROLES } from "~/db/schema";
 const roles = z.array(z.enum(ROLES, "Unknown role")).min(1, "Choose at least one role");
 
 export const MembersActionSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("invite"), email: z.email("Enter an e-mail address, e.g. name@company.com").max(254), roles }),
-  z.object({ intent: z.literal("set-roles"), userId: z.uuid("Unknown member"), roles }),
-  z.object({ intent: z.literal("revoke"), invitationId: z.uuid("Unknown invitation") }),
+  z.strictObject({ intent: z.literal("invite"), email: z.email("Enter an e-mail address, e.g. name@company.com").max(254), roles }),
+  z.strictObject({ intent: z.literal("set-roles"), userId: z.uuid("Unknown member"), roles }),
+  z.strictObject({ intent: z.literal("revoke"), invitationId: z.uuid("Unknown invitation") }),
 ]);
 
-export const InviteSchema = z.object({
+export const InviteSchema = z.strictObject({
   intent: z.literal("invite"),
   email: z.email("Enter an e-mail address, e.g. name@company.com").max(254),
   roles,

@@ -11,6 +11,6 @@ export const AcceptNewSchema = z
   .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ" });
 
 /** An existing account confirms with its current password. */
-export const AcceptExistingSchema = z.object({
+export const AcceptExistingSchema = z.strictObject({
   password: z.string().min(1, "Enter your current password").max(PASSWORD_MAX, `A password has at most ${PASSWORD_MAX} characters`),
 });

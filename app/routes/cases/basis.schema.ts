@@ -4,7 +4,7 @@ import { CATEGORIES } from "~/cases/step-data";
 import type { Quantity } from "~/cases/units";
 
 /** The basis form as typed, in the person's display units; the action converts it to SI. */
-export const BasisFormSchema = z.object({
+export const BasisFormSchema = z.strictObject({
   revision: numberInput("Revision"),
   units: z.enum(["SI", "US"], "Choose SI or US customary units"),
   category: z.enum(CATEGORIES, "Choose the category of the certification basis"),

@@ -18,10 +18,10 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
 
-const DispositionFormSchema = z.object({
+const DispositionFormSchema = z.strictObject({
   revision: numberInput("Revision"),
   // Indexed rows, since case ids may hold characters that form field names cannot.
-  dispositions: z.array(z.object({ id: z.string(), action: z.enum(["none", "exclude", "justify"]).default("none"), comment: z.string().default("") })).default([]),
+  dispositions: z.array(z.strictObject({ id: z.string(), action: z.enum(["none", "exclude", "justify"]).default("none"), comment: z.string().default("") })).default([]),
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {

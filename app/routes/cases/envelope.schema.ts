@@ -14,12 +14,12 @@ const method = {
 
 /** The envelope form in display units (altitude and weight); the action converts to SI. */
 export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
-  z.object({
+  z.strictObject({
     intent: z.literal("save"),
     ...method,
     cases: z
       .array(
-        z.object({
+        z.strictObject({
           id: z.string().trim(),
           kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
           rule: z.string().default(""),
@@ -33,5 +33,6 @@ export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
       )
       .default([]),
   }),
-  z.object({ intent: z.literal("generate"), ...method }),
+  // Generating replaces the generated rows, so the grid's rows posted with it are not read.
+  z.strictObject({ intent: z.literal("generate"), ...method, cases: z.unknown().optional() }),
 ]);

@@ -23,7 +23,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/loads";
 
-const LoadsFormSchema = z.object({ revision: numberInput("Revision"), semispanMass: numberInput("Semispan structural mass") });
+const LoadsFormSchema = z.strictObject({ revision: numberInput("Revision"), semispanMass: numberInput("Semispan structural mass") });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");

@@ -1,6 +1,6 @@
 import { z } from "zod";
 
-export const NewCaseSchema = z.object({
+export const NewCaseSchema = z.strictObject({
   programmeId: z.uuid("Choose a programme"),
   reference: z
     .string()

@@ -229,12 +229,12 @@ function PanelEntry({ units, onStations }: { units: UnitSystem; onStations: (row
         <p className="mb-2 text-xs text-ink-muted">
           One line per panel, root outwards: span along the panel [{L}], root chord [{L}], tip chord [{L}], leading-edge sweep [°], dihedral [°], tip twist [°]. Dihedral projects the span into the wing reference plane.
         </p>
-        <textarea name="panelLines" aria-label="Panels, one per line" rows={3} className="w-full rounded border border-line-strong px-2 py-1 font-mono text-xs" placeholder="3.2, 1.9, 1.6, 0, 3, -1&#10;5.5, 1.6, 0.9, 4, 5, -3" />
+        <textarea data-panel-lines aria-label="Panels, one per line" rows={3} className="w-full rounded border border-line-strong px-2 py-1 font-mono text-xs" placeholder="3.2, 1.9, 1.6, 0, 3, -1&#10;5.5, 1.6, 0.9, 4, 5, -3" />
         <Button
           type="button"
           variant="secondary"
           onClick={() => {
-            const text = (ref.current?.querySelector("textarea[name=panelLines]") as HTMLTextAreaElement | null)?.value ?? "";
+            const text = (ref.current?.querySelector("textarea[data-panel-lines]") as HTMLTextAreaElement | null)?.value ?? "";
             const panels = text
               .split("\n")
               .map((l) => l.split(/[,;\t]/).map((v) => Number(v.trim())))

@@ -19,8 +19,8 @@ import { and, eq, inArray } from "drizzle-orm";
 import type { Route } from "./+types/reports";
 
 const ReportsActionSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("request") }),
-  z.object({ intent: z.literal("release"), reportId: z.uuid("Unknown report"), password: z.string().max(256).default("") }),
+  z.strictObject({ intent: z.literal("request") }),
+  z.strictObject({ intent: z.literal("release"), reportId: z.uuid("Unknown report"), password: z.string().max(256).default("") }),
 ]);
 
 /** Inputs and root loads of two report versions side by side. */

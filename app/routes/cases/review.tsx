@@ -17,11 +17,11 @@ import type { Route } from "./+types/review";
 
 const step = z.enum(STEP_KEYS, "Unknown step");
 const ReviewActionSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("submit"), step, comment: z.string().max(4000, "At most 4000 characters").default("") }),
-  z.object({ intent: z.literal("approve"), step, password: z.string().max(256).default(""), comment: z.string().max(4000, "At most 4000 characters").default("") }),
-  z.object({ intent: z.literal("return"), step, comment: z.string().trim().min(3, "Say what needs to change: a comment is required").max(4000, "At most 4000 characters"), anchor: z.string().max(200).default("") }),
-  z.object({ intent: z.literal("comment"), step, body: z.string().trim().min(1, "Write a comment").max(4000, "At most 4000 characters"), anchor: z.string().max(200).default("") }),
-  z.object({ intent: z.literal("approve-case"), password: z.string().max(256).default("") }),
+  z.strictObject({ intent: z.literal("submit"), step, comment: z.string().max(4000, "At most 4000 characters").default("") }),
+  z.strictObject({ intent: z.literal("approve"), step, password: z.string().max(256).default(""), comment: z.string().max(4000, "At most 4000 characters").default("") }),
+  z.strictObject({ intent: z.literal("return"), step, comment: z.string().trim().min(3, "Say what needs to change: a comment is required").max(4000, "At most 4000 characters"), anchor: z.string().max(200).default("") }),
+  z.strictObject({ intent: z.literal("comment"), step, body: z.string().trim().min(1, "Write a comment").max(4000, "At most 4000 characters"), anchor: z.string().max(200).default("") }),
+  z.strictObject({ intent: z.literal("approve-case"), password: z.string().max(256).default("") }),
 ]);
 
 export async function loader({ request, params }: Route.LoaderArgs) {

@@ -1,6 +1,6 @@
 import { z } from "zod";
 
-export const NewProgrammeSchema = z.object({
+export const NewProgrammeSchema = z.strictObject({
   code: z
     .string()
     .trim()
