@@ -70,7 +70,8 @@ async function main() {
     const pg = await startPostgres({ dataDir: path.join(dataDir, "pg"), port: port("PG_PORT", 54329), database: "spanwright" });
     running.push({ name: "PostgreSQL", stop: pg.stop });
     process.env.DATABASE_URL = pg.url;
-    say(`PostgreSQL   ${pg.url} (data in ${path.relative(process.cwd(), pg.dataDir) || pg.dataDir})`);
+    const shown = path.relative(process.cwd(), pg.dataDir);
+    say(`PostgreSQL   ${pg.url} (data in ${shown && !shown.startsWith("..") ? shown : pg.dataDir})`);
   }
   if (!process.env.S3_ENDPOINT) {
     const { startS3 } = await import("./dev-services/s3");

@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { execFile, spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import { appendFile, chown, mkdir, mkdtemp, readFile, readdir, readlink, rm, writeFile } from "node:fs/promises";
@@ -33,7 +34,7 @@ export interface RunningPostgres {
   /** `postgres://postgres@127.0.0.1:PORT/DB` (trust authentication, loopback only). */
   url: string;
   port: number;
-  /** The folder actually used (differs from the one asked for only for a throwaway cluster moved to /tmp). */
+  /** The folder actually used: the one asked for, or, as root where the postgres user cannot enter it, /tmp (throwaway) or /var/lib/spanwright (durable). */
   dataDir: string;
   /** Fast shutdown (SIGINT: disconnect clients, checkpoint), resolved once the server has exited. */
   stop(): Promise<void>;
@@ -129,6 +130,14 @@ async function prepareDataDir(dataDir: string, throwaway: boolean, user: Postgre
   await chown(dataDir, user.uid, user.gid);
   if (await postgresCanUse(dataDir)) return dataDir;
   if (!throwaway) {
+    // As root in a folder the postgres user cannot enter (a 0700 home or temporary folder): keep the
+    // cluster under /var/lib, in a folder named after the project's data folder, so it is found again.
+    const parent = `/var/lib/spanwright/${createHash("sha256").update(dataDir).digest("hex").slice(0, 16)}`;
+    await mkdir(parent, { recursive: true, mode: 0o755 });
+    const stable = join(parent, "pg");
+    await mkdir(stable, { recursive: true, mode: 0o700 });
+    await chown(stable, user.uid, user.gid);
+    if (await postgresCanUse(stable)) return stable;
     throw new Error(
       `The postgres user cannot reach ${dataDir} (a parent folder is probably mode 0700, such as a home folder). ` +
         `Put the data folder somewhere the postgres user can enter (for example under /tmp or /var/lib), or make its parents traversable (chmod o+x).`,
