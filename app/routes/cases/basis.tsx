@@ -1,4 +1,4 @@
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/auth/permissions";
 import { convertFields, tidy } from "~/cases/form-values";
@@ -9,12 +9,12 @@ import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
-import { getCaseSteps, saveStep, stepData } from "~/services/case-steps.server";
+import { getCaseSteps, stepData } from "~/services/case-steps.server";
 import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
-import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/basis";
+import { refused, saveStepAnswer } from "./step-action.server";
 import { BASIS_QUANTITIES, BasisFormSchema } from "./basis.schema";
 
 /** A blank basis starts from the transport category's references and no numbers. */
@@ -75,18 +75,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, BasisFormSchema);
-  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
   const { revision, ...typed } = parsed.value;
   const si = BasisSchema.safeParse(convertFields(typed, typed.units, BASIS_QUANTITIES, "toSI"));
-  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  let saved: { revision: number };
-  try {
-    saved = await saveStep({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
-  return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
+  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  return saveStepAnswer({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
 }
 
 export default function BasisRoute({ loaderData, actionData }: Route.ComponentProps) {

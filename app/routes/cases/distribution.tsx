@@ -1,4 +1,4 @@
-import { data, Form, Link, useFetcher, useNavigation } from "react-router";
+import { Form, Link, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/auth/permissions";
@@ -11,12 +11,13 @@ import { ResultsCaution } from "~/components/case/caution";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
-import { getCaseSteps, saveStep } from "~/services/case-steps.server";
+import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionViewForPage, flaggedCases, undispositioned } from "~/services/distribution.server";
 import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
+import { refused, saveStepAnswer } from "./step-action.server";
 
 const DispositionFormSchema = z.strictObject({
   revision: numberInput("Revision"),
@@ -51,17 +52,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, DispositionFormSchema);
-  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
   const chosen = Object.fromEntries(parsed.value.dispositions.filter((d) => d.action !== "none").map((d) => [d.id, { action: d.action, comment: d.comment }]));
   const si = DistributionSchema.safeParse({ dispositions: chosen });
-  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  try {
-    const saved = await saveStep({ caseId: c.id, step: "distribution", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
-    return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  return saveStepAnswer({ caseId: c.id, step: "distribution", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 
 export default function DistributionRoute({ loaderData, actionData }: Route.ComponentProps) {

@@ -16,12 +16,13 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { caseInputs } from "~/services/analysis.server";
-import { getCaseSteps, saveStep } from "~/services/case-steps.server";
+import { getCaseSteps } from "~/services/case-steps.server";
 import { generatedCases, vnSets, type VnSet } from "~/services/envelope.server";
 import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/envelope";
+import { refused, saveStepAnswer } from "./step-action.server";
 import { EnvelopeFormSchema } from "./envelope.schema";
 
 const G0 = 9.80665;
@@ -79,7 +80,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, EnvelopeFormSchema);
-  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
   const steps = await getCaseSteps(c.id);
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
@@ -105,14 +106,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     }));
   }
   const si = EnvelopeSchema.safeParse({ ...method, cases });
-  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  try {
-    const saved = await saveStep({ caseId: c.id, step: "envelope", baseRevision: form.revision, data: si.data, actor: current.user });
-    return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  return saveStepAnswer({ caseId: c.id, step: "envelope", baseRevision: form.revision, data: si.data, actor: current.user });
 }
 
 export default function EnvelopeRoute({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,5 +1,5 @@
 import { useEffect, useState } from "react";
-import { data, Form, useFetcher, useNavigation } from "react-router";
+import { Form, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/auth/permissions";
@@ -17,11 +17,11 @@ import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { caseInputs, analysedCases } from "~/services/analysis.server";
-import { getCaseSteps, saveStep } from "~/services/case-steps.server";
-import { DomainError } from "~/services/organisation.server";
+import { getCaseSteps } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { Route } from "./+types/loads";
+import { refused, saveStepAnswer } from "./step-action.server";
 
 const LoadsFormSchema = z.strictObject({ revision: numberInput("Revision"), semispanMass: numberInput("Semispan structural mass") });
 
@@ -45,17 +45,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, LoadsFormSchema);
-  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
   const units = caseUnits(await getCaseSteps(c.id));
   const si = LoadsSchema.safeParse({ semispanMass: toSI(units, "mass", parsed.value.semispanMass) });
-  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  try {
-    const saved = await saveStep({ caseId: c.id, step: "loads", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
-    return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  return saveStepAnswer({ caseId: c.id, step: "loads", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 
 type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string };

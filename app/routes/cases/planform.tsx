@@ -1,5 +1,5 @@
 import { useEffect, useMemo, useRef } from "react";
-import { data, Form, useFetcher, useNavigation } from "react-router";
+import { Form, useFetcher, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/auth/permissions";
 import { caseUnits } from "~/cases/step-context.server";
@@ -15,12 +15,12 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { wingGeometry } from "~/engine";
-import { getCaseSteps, saveStep, stepData } from "~/services/case-steps.server";
-import { DomainError } from "~/services/organisation.server";
+import { getCaseSteps, stepData } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody } from "~/utils/http.server";
 import type { PlanformPreview } from "../api/planform-preview";
 import type { Route } from "./+types/planform";
+import { refused, saveStepAnswer } from "./step-action.server";
 import { PlanformFormSchema } from "./planform.schema";
 
 function toDisplay(p: PlanformData | null, units: UnitSystem) {
@@ -57,18 +57,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, PlanformFormSchema);
-  if (!parsed.ok) return data({ ok: false, revision: 0, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
   const units = caseUnits(await getCaseSteps(c.id));
   const si = PlanformSchema.safeParse(toStored(parsed.value, units));
-  if (!si.success) return data({ ok: false, revision: 0, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  let saved: { revision: number };
-  try {
-    saved = await saveStep({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
-  return { ok: true, revision: saved.revision, fieldErrors: {} as Record<string, string[] | undefined> };
+  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  return saveStepAnswer({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 
 export default function PlanformRoute({ loaderData, actionData }: Route.ComponentProps) {
