@@ -128,7 +128,7 @@ function InviteForm({ serverErrors }: { serverErrors?: Record<string, string[] |
           <div className="mt-1 grid grid-cols-2 gap-1 text-sm">
             {ROLES.map((r) => (
               <label key={r} className="flex items-center gap-1.5">
-                <input type="checkbox" value={r} {...form.register("roles")} />
+                <input type="checkbox" value={r} defaultChecked={r === "engineer"} {...form.register("roles")} />
                 {ROLE_LABELS[r]}
               </label>
             ))}
