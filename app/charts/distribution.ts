@@ -14,7 +14,8 @@ export interface DistributionSeries {
 }
 
 const zip = (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[v, y[i] as number] as [number, number]]));
-const spanAxis = () => axis("Spanwise station y [m]", { min: 0 });
+// The span axis ends at the tip rather than at a rounded value beyond it.
+const spanAxis = () => axis("Spanwise station y [m]", { min: 0, max: "dataMax" });
 
 /** Spanwise loading c·cl/(c̄·CL): the solver against Schrenk's approximation. */
 export function loadingOption(d: DistributionSeries) {

@@ -16,7 +16,7 @@ export function loadsOption(
   const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [y, unit.scale(v[i]!)]);
   return {
     ...baseOption(TITLES[quantity]),
-    xAxis: axis("Spanwise station y [m]", { min: 0 }),
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),

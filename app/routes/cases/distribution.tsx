@@ -120,18 +120,18 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
                 <thead className="text-xs text-ink-muted">
                   <tr>
                     <th className="py-1 text-left">Rule</th>
-                    <th className="py-1 text-right">CLα [/rad]</th>
-                    <th className="py-1 text-right">CL</th>
-                    <th className="py-1 text-right">Lowest critical Mach</th>
+                    <th className="py-1 pl-3 text-right">CLα [/rad]</th>
+                    <th className="py-1 pl-3 text-right">CL</th>
+                    <th className="py-1 pl-3 text-right">Lowest critical Mach</th>
                   </tr>
                 </thead>
                 <tbody>
                   {view.rules.map((r) => (
                     <tr key={r.rule} className="border-t border-line">
                       <td className="py-1">{RULE_LABELS[r.rule]}</td>
-                      <td className="py-1 text-right">{formatNumber(r.clAlpha)}</td>
-                      <td className="py-1 text-right">{formatNumber(r.CL)}</td>
-                      <td className="py-1 text-right">{formatNumber(r.machCritical)}</td>
+                      <td className="py-1 pl-3 text-right">{formatNumber(r.clAlpha)}</td>
+                      <td className="py-1 pl-3 text-right">{formatNumber(r.CL)}</td>
+                      <td className="py-1 pl-3 text-right">{formatNumber(r.machCritical)}</td>
                     </tr>
                   ))}
                 </tbody>
