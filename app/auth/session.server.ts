@@ -6,6 +6,7 @@ import { db } from "~/db/client.server";
 import { rethrowUnavailable } from "~/db/unavailable.server";
 import { memberships, organisations, sessions, users, type Organisation, type Role, type User } from "~/db/schema";
 import { cookiesSecure } from "~/utils/env.server";
+import { memoised } from "~/utils/request-memo.server";
 
 /** A session ends after this long without a request… */
 export const SESSION_IDLE_MS = 12 * 60 * 60 * 1000;
@@ -66,17 +67,10 @@ export async function clearSessionCookie(): Promise<string> {
   return sessionCookie().serialize("", { maxAge: 0 });
 }
 
-const stateByRequest = new WeakMap<Request, Promise<SessionState>>();
-
-/** Reads and validates the session of a request once, however many loaders ask. */
+/** Reads and validates the session of a request once, however many loaders ask (see request-memo). */
 export function readSession(request: Request): Promise<SessionState> {
-  let pending = stateByRequest.get(request);
-  if (!pending) {
-    // Every signed-in page reads the session first, so an outage is answered here as a plain 503.
-    pending = loadSession(request).catch(rethrowUnavailable);
-    stateByRequest.set(request, pending);
-  }
-  return pending;
+  // Every signed-in page reads the session first, so an outage is answered here as a plain 503.
+  return memoised("session", () => loadSession(request).catch(rethrowUnavailable));
 }
 
 async function loadSession(request: Request): Promise<SessionState> {

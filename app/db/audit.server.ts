@@ -101,8 +101,9 @@ export async function verifyAuditChain(database: Db | Tx): Promise<ChainCheck> {
 
 /** The newest entries about one entity, for "who changed it last" read-outs. */
 export async function auditForEntity(database: Db | Tx, entityType: string, entityId: string, limit = 50) {
+  // The history list shows who did what and when; the before/after images stay on the audit page.
   return database
-    .select()
+    .select({ id: auditLog.id, at: auditLog.at, action: auditLog.action, actorEmail: auditLog.actorEmail })
     .from(auditLog)
     .where(and(eq(auditLog.entityType, entityType), eq(auditLog.entityId, entityId)))
     .orderBy(desc(auditLog.id))

@@ -7,6 +7,7 @@ import express, { type Express, type NextFunction, type Request, type Response }
 import type { ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 import { CSP_NONCE_HEADER } from "../utils/csp";
+import { withRequestMemo } from "../utils/request-memo.server";
 
 /**
  * The HTTP server: static files, a same-origin check on every state-changing request (with the
@@ -51,6 +52,8 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
     next();
   });
   app.use(sameOriginForWrites(opts.origin));
+  // Reads shared by the loaders of one page are made once per request (never in a writing request).
+  app.use((req: Request, _res: Response, next: NextFunction) => (req.method === "GET" || req.method === "HEAD" ? withRequestMemo(next) : next()));
   mount(app);
   app.use(answerErrors);
   return app;

@@ -5,6 +5,7 @@ import { caseSteps, cases, STEP_KEYS, stepRevisions, users, type CaseStep, type 
 import { STEP_SCHEMAS } from "~/cases/step-data";
 import { DomainError } from "./organisation.server";
 import { voidApprovalsAfterEdit } from "./review.server";
+import { memoised } from "~/utils/request-memo.server";
 
 type Actor = { id: string; email: string };
 
@@ -18,7 +19,12 @@ export interface StepState {
 }
 
 /** Every step of a case, in order; steps never saved come back as revision 0, "empty". */
-export async function getCaseSteps(caseId: string, database: Db | Tx = db): Promise<Record<StepKey, StepState>> {
+export function getCaseSteps(caseId: string, database: Db | Tx = db): Promise<Record<StepKey, StepState>> {
+  // Inside a transaction the caller may have just written: only plain reads are shared per request.
+  return database === db ? memoised(`case-steps:${caseId}`, () => readCaseSteps(caseId, db)) : readCaseSteps(caseId, database);
+}
+
+async function readCaseSteps(caseId: string, database: Db | Tx): Promise<Record<StepKey, StepState>> {
   const rows = await database
     .select({ row: caseSteps, updatedByName: users.name })
     .from(caseSteps)

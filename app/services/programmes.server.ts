@@ -3,6 +3,7 @@ import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
 import { DomainError } from "./organisation.server";
+import { memoised } from "~/utils/request-memo.server";
 
 type Actor = { id: string; email: string };
 
@@ -75,6 +76,10 @@ export async function listCases(organisationId: string, opts: { programmeId?: st
 
 export async function getCase(organisationId: string, caseId: string) {
   if (!isUuid(caseId)) return null;
+  return memoised(`case:${organisationId}:${caseId}`, () => readCase(organisationId, caseId));
+}
+
+async function readCase(organisationId: string, caseId: string) {
   const [row] = await db
     .select({ case: cases, programme: programmes, createdByName: users.name })
     .from(cases)

@@ -219,9 +219,9 @@ export async function addComment(input: { caseId: string; step: StepKey; actor: 
 /** Everything the review page shows: per step, its state, thread and signatures (voided ones marked). */
 export async function reviewState(caseId: string) {
   const [steps, comments, sigs, revs] = await Promise.all([
-    db.select().from(caseSteps).where(eq(caseSteps.caseId, caseId)),
+    db.select({ step: caseSteps.step, status: caseSteps.status, revision: caseSteps.revision }).from(caseSteps).where(eq(caseSteps.caseId, caseId)),
     db.select({ c: stepComments, author: users.name }).from(stepComments).innerJoin(users, eq(users.id, stepComments.authorId)).where(eq(stepComments.caseId, caseId)).orderBy(asc(stepComments.createdAt)),
-    db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt)),
+    stepSignatures(caseId),
     db.select({ step: stepRevisions.step, revision: stepRevisions.revision, createdBy: stepRevisions.createdBy, author: users.name }).from(stepRevisions).innerJoin(users, eq(users.id, stepRevisions.createdBy)).where(eq(stepRevisions.caseId, caseId)),
   ]);
   return STEPS.map((s) => {
@@ -236,9 +236,15 @@ export async function reviewState(caseId: string) {
       revisionAuthorId: current?.createdBy ?? null,
       revisionAuthor: current?.author ?? null,
       comments: comments.filter((c) => c.c.step === s.key).map((c) => ({ id: c.c.id, kind: c.c.kind, revision: c.c.revision, anchor: c.c.anchor, body: c.c.body, author: c.author, at: c.c.createdAt })),
-      signatures: sigs.filter((x) => x.sig.step === s.key).map((x) => signatureView(x.sig, x.void)),
+      signatures: sigs.filter((x) => x.step === s.key),
     };
   });
+}
+
+/** Every step signature of the case (not those of reports), newest first, voided ones marked. */
+export async function stepSignatures(caseId: string) {
+  const rows = await db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+  return rows.map((x) => ({ step: x.sig.step, ...signatureView(x.sig, x.void) }));
 }
 
 export async function caseSignatures(caseId: string) {

@@ -5,15 +5,15 @@ import { auditForEntity } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps } from "~/services/case-steps.server";
-import { reviewState } from "~/services/review.server";
+import { stepSignatures } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { case: c, programme, createdByName } = await requireCase(request, params.caseId, "case:read");
-  const [steps, history, review] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20), reviewState(c.id)]);
+  const [steps, history, signatures] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20), stepSignatures(c.id)]);
   const approval = (key: string) => {
-    const sigs = review.find((r) => r.key === key)?.signatures ?? [];
+    const sigs = signatures.filter((g) => g.step === key);
     const live = sigs.find((g) => !g.voided);
     if (live) return { kind: "signed" as const, text: `${live.meaning} by ${live.name}, ${formatUtc(live.signedAt)}` };
     const voided = sigs.find((g) => g.voided);
