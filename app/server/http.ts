@@ -27,7 +27,9 @@ export async function startHttpServer(opts: { host: string; port: number; origin
     const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
     mount = (app) => {
       app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
-      app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
+      // Files in public/ all have an extension; pages never do, so they skip the file-system lookup.
+      const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
+      app.use((req: Request, res: Response, next: NextFunction) => (path.extname(req.path) ? publicFiles(req, res, next) : next()));
       app.all("/{*splat}", createRequestHandler({ build }));
     };
   }

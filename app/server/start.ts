@@ -7,6 +7,7 @@
  */
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { DEMO_USERS } from "../db/demo";
 
@@ -106,19 +107,50 @@ async function main() {
   say(`database migrated; demo seed ${seeded.created ? `created ${seeded.created} records` : "already present"}`);
 
   if (!dev) buildIfStale();
-  const { startHttpServer } = await import("./http");
-  const server = await startHttpServer({ host, port: port("PORT", 3000), origin: appOrigin, dev });
-  running.push({
-    name: "web server",
-    stop: async () => {
-      await new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      });
-      // The built app shares the process-wide pool (kept on globalThis): close it before PostgreSQL stops.
-      await closeDb();
-    },
-  });
+  const webProcesses = dev ? 1 : Number(process.env.WEB_PROCESSES ?? Math.min(os.availableParallelism(), 4));
+  if (!Number.isInteger(webProcesses) || webProcesses < 1) throw new Error(`WEB_PROCESSES must be a whole number of at least 1 (got ${process.env.WEB_PROCESSES})`);
+  if (webProcesses === 1) {
+    const { startHttpServer } = await import("./http");
+    const server = await startHttpServer({ host, port: port("PORT", 3000), origin: appOrigin, dev });
+    running.push({
+      name: "web server",
+      stop: async () => {
+        await new Promise<void>((resolve) => {
+          server.close(() => resolve());
+          server.closeAllConnections();
+        });
+        // The built app shares the process-wide pool (kept on globalThis): close it before PostgreSQL stops.
+        await closeDb();
+      },
+    });
+  } else {
+    // Node runs JavaScript on one core per process: one web process per core serves the pages
+    // (web.ts); this process keeps the services and the job worker.
+    const cluster = (await import("node:cluster")).default;
+    cluster.setupPrimary({ exec: path.join(import.meta.dirname, "web.ts") });
+    const workers = Array.from({ length: webProcesses }, () => cluster.fork());
+    await Promise.all(
+      workers.map(
+        (w) =>
+          new Promise<void>((resolve, reject) => {
+            w.once("listening", () => resolve());
+            w.once("exit", (code) => reject(new Error(`a web process exited during start-up (code ${code})`)));
+          }),
+      ),
+    );
+    cluster.on("exit", (w, code, signal) => {
+      if (!stopping) {
+        console.error(`[spanwright] web process ${w.process.pid} stopped (${signal ?? `code ${code}`}); stopping everything`);
+        void shutdown(1);
+      }
+    });
+    running.push({
+      name: "web processes",
+      stop: () =>
+        Promise.all(workers.filter((w) => !w.isDead()).map((w) => new Promise<void>((resolve) => (w.once("exit", () => resolve()), w.disconnect())))).then(() => undefined),
+    });
+    say(`${webProcesses} web processes (WEB_PROCESSES)`);
+  }
 
   // One background worker beside the web server; `npm run worker` starts more elsewhere.
   const { startWorkers } = await import("../jobs/workers.server");

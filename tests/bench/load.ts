@@ -110,9 +110,23 @@ function serverPid(rootPid: number): number {
   }
 }
 
+/** Resident memory of the serving process and of the web processes it forked (not of PostgreSQL). */
 function rssMiB(pid: number): number {
-  const status = fs.readFileSync(`/proc/${pid}/status`, "utf8");
-  const kb = Number(/VmRSS:\s+(\d+)/.exec(status)?.[1] ?? NaN);
+  const webProcesses = children(pid).filter((c) => {
+    try {
+      return fs.readFileSync(`/proc/${c}/cmdline`, "utf8").includes("web.ts");
+    } catch {
+      return false;
+    }
+  });
+  let kb = 0;
+  for (const p of [pid, ...webProcesses]) {
+    try {
+      kb += Number(/VmRSS:\s+(\d+)/.exec(fs.readFileSync(`/proc/${p}/status`, "utf8"))?.[1] ?? NaN);
+    } catch {
+      // a web process that ended between the listing and the read
+    }
+  }
   return kb / 1024;
 }
 
@@ -278,7 +292,8 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out("# Load benchmark of the production app");
   out();
   out(`Written by \`npm run bench\` (tests/bench/load.ts) on ${new Date().toISOString().slice(0, 10)}. The production build served by`);
-  out(`\`tsx app/server/start.ts\` (with its own PostgreSQL, S3 stand-in, mail capture and sign-in stand-in, and the job worker), on`);
+  out(`\`tsx app/server/start.ts\` (with its own PostgreSQL, S3 stand-in, mail capture and sign-in stand-in, the job worker, and ${Math.min(os.availableParallelism(), 4)} web processes —`);
+  out("one per core, the default of `WEB_PROCESSES`), on");
   out(`127.0.0.1, driven by autocannon from the same machine: ${CONNECTIONS} connections for ${DURATION_S} s per row, signed in as the demo`);
   out("engineer (session cookie from `POST /login`). Latencies are of every response, from autocannon's per-response timings.");
   out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
@@ -340,6 +355,8 @@ async function main() {
   const targets = [
     { name: "case overview `GET /cases/:id`", kind: "page" as const, path: `/cases/${demo.id}`, headers: auth },
     { name: "loads page `GET /cases/:id/loads`", kind: "page" as const, path: `/cases/${demo.id}/loads`, headers: auth },
+    // The lightest signed-in page (no case data): the cost of the session, the layout and React Router's render alone.
+    { name: "reference: methods page `GET /methods`", kind: "page" as const, path: "/methods", headers: auth },
     { name: "results `GET /api/v1/cases/:id/results`", kind: "api" as const, path: `/api/v1/cases/${demo.id}/results`, headers: auth },
     { name: "`POST /api/v1/analyze` (kf60-tern-wing.json)", kind: "api" as const, path: "/api/v1/analyze", method: "POST" as const, headers: { ...auth, "Content-Type": "application/json" }, body },
   ];
