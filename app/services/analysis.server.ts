@@ -1,4 +1,5 @@
 import { and, desc, eq } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/cases/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
@@ -161,6 +162,26 @@ export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorI
   const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
   return { pending: true, cases: file.cases.length };
+}
+
+// Serialised result documents by case, input hash and engine version. A result is a function of
+// exactly those, so an entry can never be stale; the bound keeps the process's memory flat.
+const resultDocuments = new LRUCache<string, string>({ maxSize: 64 * 2 ** 20, sizeCalculation: (json) => json.length || 1 });
+
+/**
+ * As resultsOrQueue, with the `spanwright.result/1` document already serialised: the API sends the
+ * same bytes for the same input without reading and re-encoding the stored result every time.
+ */
+export async function resultJsonOrQueue(caseId: string, file: CaseFileInput, actorId: string | null): Promise<{ pending: true; cases: number } | { pending: false; json: string; inputHash: string }> {
+  const inputHash = sha256Hex(canonicalJson(parseOrThrow(file)));
+  const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+  const hit = resultDocuments.get(key);
+  if (hit) return { pending: false, json: hit, inputHash };
+  const answer = await resultsOrQueue(caseId, file, actorId);
+  if (answer.pending) return answer;
+  const json = JSON.stringify(answer.result);
+  resultDocuments.set(key, json);
+  return { pending: false, json, inputHash };
 }
 
 /** The job: solve and store the case's current results (idempotent: stored results are reused). */

@@ -365,6 +365,40 @@ describe("GET /api/v1/cases/:caseId/results", () => {
     expect(badFormat.status).toBe(400);
     expect(badFormat.body).toMatchObject({ error: "bad-request" });
   });
+
+  // RFC 9110 §8.8.3 and §13.1.2: an entity tag names one representation; If-None-Match with that tag
+  // is answered 304 Not Modified without a body. Cache-Control no-cache (RFC 9111 §5.2.2.4) makes a
+  // client ask again each time, so it never shows results of inputs that have since changed.
+  it("names each representation with an entity tag, answers 304 to a client that holds it, and a new tag once the input changes", async () => {
+    const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-TAG", case: example("kf60-tern-wing") }) });
+    const id = imported.body!.id as string;
+    const url = `/api/v1/cases/${id}/results`;
+    const first = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id } });
+    const again = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id } });
+    expect(again.text).toBe(first.text);
+    const tag = first.headers.get("ETag");
+    expect(tag).toMatch(/^"[^"]+"$/);
+    expect(again.headers.get("ETag")).toBe(tag);
+    expect(first.headers.get("Cache-Control")).toBe("private, no-cache");
+    const csv = await call(resultsLoader, `${url}?format=csv`, { token: tokens.checker, params: { caseId: id } });
+    expect(csv.headers.get("ETag")).not.toBe(tag);
+
+    const notModified = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id }, headers: { "If-None-Match": `"other", ${tag}` } });
+    expect(notModified.status).toBe(304);
+    expect(notModified.text).toBe("");
+    expect(notModified.headers.get("ETag")).toBe(tag);
+    const otherTag = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id }, headers: { "If-None-Match": '"other"' } });
+    expect(otherTag.status).toBe(200);
+
+    // A heavier aircraft: the same case file with every mass-driven load changed.
+    const [loads] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, id), eq(caseSteps.step, "loads")));
+    const data = loads!.data as { semispanMass: number };
+    await db.update(caseSteps).set({ data: { ...data, semispanMass: data.semispanMass * 1.1 } }).where(eq(caseSteps.id, loads!.id));
+    const changed = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id }, headers: { "If-None-Match": tag! } });
+    expect(changed.status).toBe(200);
+    expect(changed.headers.get("ETag")).not.toBe(tag);
+    expect(changed.text).not.toBe(first.text);
+  });
 });
 
 describe("the seeded demo case", () => {

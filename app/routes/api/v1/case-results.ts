@@ -1,6 +1,7 @@
 import { requireApiUser } from "~/auth/api-auth.server";
 import { resultToCsv } from "~/exchange";
-import { exportCase, resultsOrQueue } from "~/services/analysis.server";
+import { ENGINE_VERSION } from "~/engine";
+import { exportCase, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import type { Route } from "./+types/case-results";
 import { filenameOf } from "./case-export";
@@ -20,17 +21,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const answer = await resultsOrQueue(found.case.id, await exportCase(found.case.id, found.case.title), current.user.id);
+    const file = await exportCase(found.case.id, found.case.title);
+    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, file, current.user.id) : await resultsOrQueue(found.case.id, file, current.user.id);
     if (answer.pending) {
       return Response.json(
         { status: "computing", message: `${answer.cases} load cases are being solved by a background worker; ask again in a moment.` },
         { status: 202, headers: { "Retry-After": "1", "Cache-Control": "no-store" } },
       );
     }
-    const { result, inputHash } = answer;
-    const headers = { "X-Spanwright-Input-Sha256": inputHash };
-    if (format === "json") return Response.json(result, { headers });
-    return new Response(resultToCsv(result), {
+    // The result is fixed by its input and the engine version, so they name it: a client that holds
+    // this version is answered 304 without the body, and always asks again (no-cache) after an edit.
+    const etag = `"${ENGINE_VERSION}-${answer.inputHash}-${format}"`;
+    const headers = { "X-Spanwright-Input-Sha256": answer.inputHash, ETag: etag, "Cache-Control": "private, no-cache" };
+    if (request.headers.get("If-None-Match")?.split(/\s*,\s*/).includes(etag)) return new Response(null, { status: 304, headers });
+    if ("json" in answer) return new Response(answer.json, { headers: { ...headers, "Content-Type": "application/json" } });
+    return new Response(resultToCsv(answer.result), {
       headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${filenameOf(found.case.reference)}-results.csv"` },
     });
   });
