@@ -5,6 +5,7 @@ import { verifyAuditChain } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { auditLog } from "~/db/schema";
 import { Alert, PageHeader } from "~/components/ui/page-header";
+import { ListTable } from "~/components/ui/list-table";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/audit";
 
@@ -39,47 +40,32 @@ export default function AuditRoute({ loaderData }: Route.ComponentProps) {
           </Alert>
         )}
       </div>
-      <div className="overflow-x-auto rounded border border-line bg-surface">
-        <table className="w-full text-left text-sm">
-          <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
-            <tr>
-              <th className="px-3 py-2 text-right">#</th>
-              <th className="px-3 py-2">When</th>
-              <th className="px-3 py-2">Who</th>
-              <th className="px-3 py-2">What</th>
-              <th className="px-3 py-2">Record</th>
-              <th className="px-3 py-2">Change</th>
-              <th className="px-3 py-2">Hash</th>
-            </tr>
-          </thead>
-          <tbody>
-            {entries.map((e) => (
-              <tr key={e.id} className="border-b border-line align-top last:border-0">
-                <td className="px-3 py-1.5 text-right tabular">{e.id}</td>
-                <td className="whitespace-nowrap px-3 py-1.5 tabular">{formatUtc(e.at)}</td>
-                <td className="px-3 py-1.5">{e.actorEmail ?? "system"}</td>
-                <td className="px-3 py-1.5 font-semibold">{e.action}</td>
-                <td className="px-3 py-1.5 text-ink-muted">
-                  {e.entityType} {e.entityId ? <code className="text-xs">{e.entityId.slice(0, 8)}</code> : null}
-                </td>
-                <td className="max-w-md px-3 py-1.5">
-                  {e.before || e.after ? (
-                    <details>
-                      <summary className="cursor-pointer text-accent">before / after</summary>
-                      <pre className="mt-1 max-h-48 overflow-auto whitespace-pre-wrap bg-canvas p-2 text-xs">{JSON.stringify({ before: e.before, after: e.after }, null, 1)}</pre>
-                    </details>
-                  ) : (
-                    "—"
-                  )}
-                </td>
-                <td className="px-3 py-1.5">
-                  <code className="text-xs text-ink-faint">{e.hash.slice(0, 12)}</code>
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
+      <ListTable columns={[{ label: "#", numeric: true }, { label: "When" }, { label: "Who" }, { label: "What" }, { label: "Record" }, { label: "Change" }, { label: "Hash" }]}>
+        {entries.map((e) => (
+          <tr key={e.id} className="border-b border-line align-top last:border-0">
+            <td className="px-3 py-1.5 text-right tabular">{e.id}</td>
+            <td className="whitespace-nowrap px-3 py-1.5 tabular">{formatUtc(e.at)}</td>
+            <td className="px-3 py-1.5">{e.actorEmail ?? "system"}</td>
+            <td className="px-3 py-1.5 font-semibold">{e.action}</td>
+            <td className="px-3 py-1.5 text-ink-muted">
+              {e.entityType} {e.entityId ? <code className="text-xs">{e.entityId.slice(0, 8)}</code> : null}
+            </td>
+            <td className="max-w-md px-3 py-1.5">
+              {e.before || e.after ? (
+                <details>
+                  <summary className="cursor-pointer text-accent">before / after</summary>
+                  <pre className="mt-1 max-h-48 overflow-auto whitespace-pre-wrap bg-canvas p-2 text-xs">{JSON.stringify({ before: e.before, after: e.after }, null, 1)}</pre>
+                </details>
+              ) : (
+                "—"
+              )}
+            </td>
+            <td className="px-3 py-1.5">
+              <code className="text-xs text-ink-faint">{e.hash.slice(0, 12)}</code>
+            </td>
+          </tr>
+        ))}
+      </ListTable>
       {loaderData.next ? (
         <p className="mt-3 text-sm">
           <Link to={`?before=${loaderData.next}`}>Older entries</Link>

@@ -4,6 +4,7 @@ import { db } from "~/db/client.server";
 import { cases } from "~/db/schema";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { ListTable } from "~/components/ui/list-table";
 import { listReports, verifyPdf } from "~/services/reports.server";
 import { formatUtc } from "~/utils/format";
 import { eq } from "drizzle-orm";
@@ -46,35 +47,21 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
         {loaderData.reports.length === 0 ? (
           <EmptyState title="No report has been issued yet" />
         ) : (
-          <div className="overflow-x-auto rounded border border-line bg-surface">
-            <table className="w-full text-left text-sm">
-              <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
-                <tr>
-                  <th className="px-3 py-2">Report</th>
-                  <th className="px-3 py-2">Case</th>
-                  <th className="px-3 py-2">Status</th>
-                  <th className="px-3 py-2">Issued</th>
-                  <th className="px-3 py-2">Released</th>
-                  <th className="px-3 py-2">PDF</th>
-                </tr>
-              </thead>
-              <tbody>
-                {loaderData.reports.map((r) => (
-                  <tr key={r.id} className="border-b border-line last:border-0">
-                    <td className="px-3 py-2 font-semibold">
-                      <Link to={`/cases/${r.caseId}/reports`}>{r.reportNumber}</Link>
-                      <span className="block text-xs font-normal text-ink-muted">version {r.version}</span>
-                    </td>
-                    <td className="px-3 py-2">{r.case ? `${r.case.reference} — ${r.case.title}` : "—"}</td>
-                    <td className="px-3 py-2">{r.status === "issued" ? <strong className="text-status-issued">■ issued, awaiting release</strong> : r.status === "released" ? <strong className="text-status-released">★ released</strong> : r.status}</td>
-                    <td className="px-3 py-2 tabular">{formatUtc(r.issuedAt)}</td>
-                    <td className="px-3 py-2 tabular">{formatUtc(r.releasedAt)}</td>
-                    <td className="px-3 py-2">{r.sha256 ? <a href={`/api/v1/reports/${r.id}/pdf`}>Download</a> : "—"}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <ListTable columns={[{ label: "Report" }, { label: "Case" }, { label: "Status" }, { label: "Issued" }, { label: "Released" }, { label: "PDF" }]}>
+            {loaderData.reports.map((r) => (
+              <tr key={r.id} className="border-b border-line last:border-0">
+                <td className="px-3 py-2 font-semibold">
+                  <Link to={`/cases/${r.caseId}/reports`}>{r.reportNumber}</Link>
+                  <span className="block text-xs font-normal text-ink-muted">version {r.version}</span>
+                </td>
+                <td className="px-3 py-2">{r.case ? `${r.case.reference} — ${r.case.title}` : "—"}</td>
+                <td className="px-3 py-2">{r.status === "issued" ? <strong className="text-status-issued">■ issued, awaiting release</strong> : r.status === "released" ? <strong className="text-status-released">★ released</strong> : r.status}</td>
+                <td className="px-3 py-2 tabular">{formatUtc(r.issuedAt)}</td>
+                <td className="px-3 py-2 tabular">{formatUtc(r.releasedAt)}</td>
+                <td className="px-3 py-2">{r.sha256 ? <a href={`/api/v1/reports/${r.id}/pdf`}>Download</a> : "—"}</td>
+              </tr>
+            ))}
+          </ListTable>
         )}
         <Panel title="Verify a PDF">
           <Form method="post" encType="multipart/form-data" className="space-y-2">

@@ -6,6 +6,7 @@ import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
+import { ListTable } from "~/components/ui/list-table";
 import { DomainError, inviteMember, listMembers, listOpenInvitations, revokeInvitation, setMemberRoles } from "~/services/organisation.server";
 import { formatUtc } from "~/utils/format";
 import { parseBody } from "~/utils/http.server";
@@ -45,42 +46,30 @@ export default function MembersRoute({ loaderData, actionData }: Route.Component
         <div className="mb-4"><Alert>{Object.values(actionData.fieldErrors).flat().join(" ")}</Alert></div>
       ) : null}
       <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
-        <div className="overflow-x-auto rounded border border-line bg-surface">
-          <table className="w-full text-left text-sm">
-            <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
-              <tr>
-                <th className="px-3 py-2">Name</th>
-                <th className="px-3 py-2">E-mail</th>
-                <th className="px-3 py-2">Roles</th>
-                <th className="px-3 py-2">Last sign-in</th>
-              </tr>
-            </thead>
-            <tbody>
-              {loaderData.members.map((m) => (
-                <tr key={m.userId} className="border-b border-line align-top last:border-0">
-                  <td className="px-3 py-2 font-semibold">{m.name}</td>
-                  <td className="px-3 py-2">{m.email}</td>
-                  <td className="px-3 py-2">
-                    <Form method="post" className="flex flex-wrap items-center gap-3" aria-label={`Roles of ${m.name}`}>
-                      <input type="hidden" name="intent" value="set-roles" />
-                      <input type="hidden" name="userId" value={m.userId} />
-                      {ROLES.map((r) => (
-                        <label key={r} className="flex items-center gap-1">
-                          <input type="checkbox" name="roles" value={r} defaultChecked={m.roles.includes(r)} />
-                          {ROLE_LABELS[r]}
-                        </label>
-                      ))}
-                      <Button type="submit" variant="secondary" className="py-0.5">
-                        Save
-                      </Button>
-                    </Form>
-                  </td>
-                  <td className="px-3 py-2 text-ink-muted">{formatUtc(m.lastSignInAt)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <ListTable columns={[{ label: "Name" }, { label: "E-mail" }, { label: "Roles" }, { label: "Last sign-in" }]}>
+          {loaderData.members.map((m) => (
+            <tr key={m.userId} className="border-b border-line align-top last:border-0">
+              <td className="px-3 py-2 font-semibold">{m.name}</td>
+              <td className="px-3 py-2">{m.email}</td>
+              <td className="px-3 py-2">
+                <Form method="post" className="flex flex-wrap items-center gap-3" aria-label={`Roles of ${m.name}`}>
+                  <input type="hidden" name="intent" value="set-roles" />
+                  <input type="hidden" name="userId" value={m.userId} />
+                  {ROLES.map((r) => (
+                    <label key={r} className="flex items-center gap-1">
+                      <input type="checkbox" name="roles" value={r} defaultChecked={m.roles.includes(r)} />
+                      {ROLE_LABELS[r]}
+                    </label>
+                  ))}
+                  <Button type="submit" variant="secondary" className="py-0.5">
+                    Save
+                  </Button>
+                </Form>
+              </td>
+              <td className="px-3 py-2 text-ink-muted">{formatUtc(m.lastSignInAt)}</td>
+            </tr>
+          ))}
+        </ListTable>
         <div className="space-y-5">
           <InviteForm serverErrors={actionData?.intent === "invite" || actionData?.intent === null ? actionData?.fieldErrors : undefined} />
           <Panel title="Open invitations">

@@ -4,10 +4,10 @@ import { hasPermission } from "~/auth/permissions";
 import { convertFields, tidy } from "~/cases/form-values";
 import { BasisSchema, CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/cases/step-data";
 import { unitSymbol, type UnitSystem } from "~/cases/units";
+import { StepSaveBar } from "~/components/case/step-save-bar";
 import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
-import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps, stepData } from "~/services/case-steps.server";
 import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
@@ -155,16 +155,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
             <p className="mt-2 text-xs text-ink-muted">A check of the typed values against the rules as coded here; the certification basis agreed with the authority governs.</p>
           </Panel>
         ) : null}
-        {loaderData.canEdit ? (
-          <div className="mt-4 flex items-center gap-3">
-            <Button type="submit" disabled={busy}>
-              {busy ? "Saving…" : "Save basis"}
-            </Button>
-            <span className="text-xs text-ink-muted">Revision {loaderData.revision} · saving makes revision {loaderData.revision + 1}</span>
-          </div>
-        ) : (
-          <p className="mt-4 text-sm text-ink-muted">{loaderData.status === "submitted" ? "Submitted for check: read-only until returned or approved." : "Read-only for your role."}</p>
-        )}
+        <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save basis" />
       </Form>
     </>
   );

@@ -7,6 +7,7 @@ import { caseUnits } from "~/cases/step-context.server";
 import { EnvelopeSchema, RULE_LABELS, SPANWISE_LABELS, COMPRESSIBILITY_RULES, SPANWISE_METHODS, type EnvelopeData } from "~/cases/step-data";
 import { fromSI, toSI, unitSymbol, type UnitSystem } from "~/cases/units";
 import { vnOption } from "~/charts/vn";
+import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { ResultsCaution } from "~/components/case/caution";
@@ -223,13 +224,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
               <p className="mt-2 text-xs text-ink-muted">Give each case either weight and load factor (trimmed to L = nz·W) or an angle of attack.</p>
             </Panel>
           </fieldset>
-          {disabled ? null : (
-            <div className="mt-4">
-              <Button type="submit" disabled={busy} onClick={() => form.setValue("intent", "save" as never)}>
-                {busy ? "Saving…" : "Save envelope"}
-              </Button>
-            </div>
-          )}
+          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save envelope" onSave={() => form.setValue("intent", "save" as never)} />
         </Form>
       </div>
     </>

@@ -4,6 +4,7 @@ import { hasPermission } from "~/auth/permissions";
 import { CASE_STATUSES, type CaseStatus } from "~/db/schema";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { EmptyState, PageHeader } from "~/components/ui/page-header";
+import { ListTable } from "~/components/ui/list-table";
 import { listCases, listProgrammes } from "~/services/programmes.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/list";
@@ -66,38 +67,23 @@ export default function CasesRoute({ loaderData }: Route.ComponentProps) {
           {canCreate ? "Start one with “New case”: it opens with the certification basis step." : "Cases appear here once an engineer starts one."}
         </EmptyState>
       ) : (
-        <div className="overflow-x-auto rounded border border-line bg-surface">
-          <table className="w-full text-left text-sm">
-            <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
-              <tr>
-                <th className="px-3 py-2">Reference</th>
-                <th className="px-3 py-2">Title</th>
-                <th className="px-3 py-2">Programme</th>
-                <th className="px-3 py-2">Status</th>
-                <th className="px-3 py-2 text-right">Revision</th>
-                <th className="px-3 py-2">Started by</th>
-                <th className="px-3 py-2">Last change</th>
-              </tr>
-            </thead>
-            <tbody>
-              {cases.map((c) => (
-                <tr key={c.id} className="border-b border-line last:border-0 hover:bg-canvas">
-                  <td className="px-3 py-2 font-semibold">
-                    <Link to={`/cases/${c.id}`}>{c.reference}</Link>
-                  </td>
-                  <td className="px-3 py-2">{c.title}</td>
-                  <td className="px-3 py-2">{c.programmeCode}</td>
-                  <td className="px-3 py-2">
-                    <StatusBadge status={c.status} />
-                  </td>
-                  <td className="px-3 py-2 text-right">{c.revision}</td>
-                  <td className="px-3 py-2">{c.createdByName}</td>
-                  <td className="px-3 py-2 text-ink-muted">{formatUtc(c.updatedAt)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <ListTable columns={[{ label: "Reference" }, { label: "Title" }, { label: "Programme" }, { label: "Status" }, { label: "Revision", numeric: true }, { label: "Started by" }, { label: "Last change" }]}>
+          {cases.map((c) => (
+            <tr key={c.id} className="border-b border-line last:border-0 hover:bg-canvas">
+              <td className="px-3 py-2 font-semibold">
+                <Link to={`/cases/${c.id}`}>{c.reference}</Link>
+              </td>
+              <td className="px-3 py-2">{c.title}</td>
+              <td className="px-3 py-2">{c.programmeCode}</td>
+              <td className="px-3 py-2">
+                <StatusBadge status={c.status} />
+              </td>
+              <td className="px-3 py-2 text-right">{c.revision}</td>
+              <td className="px-3 py-2">{c.createdByName}</td>
+              <td className="px-3 py-2 text-ink-muted">{formatUtc(c.updatedAt)}</td>
+            </tr>
+          ))}
+        </ListTable>
       )}
     </>
   );

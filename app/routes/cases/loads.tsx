@@ -8,12 +8,12 @@ import { caseUnits } from "~/cases/step-context.server";
 import { LoadsSchema } from "~/cases/step-data";
 import { formatQuantity, fromSI, toSI, unitSymbol, type UnitSystem } from "~/cases/units";
 import { loadsOption, type LoadQuantity } from "~/charts/loads";
+import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
 import { ResultsCaution } from "~/components/case/caution";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { DataTable } from "~/components/tables/data-table";
-import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { caseInputs, analysedCases } from "~/services/analysis.server";
@@ -109,11 +109,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
                 errors={errorsFor(form, server, "semispanMass")}
               />
             </fieldset>
-            {loaderData.canEdit ? (
-              <Button type="submit" disabled={busy}>
-                {busy ? "Saving…" : "Save"}
-              </Button>
-            ) : null}
+            <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save" />
           </Form>
         </Panel>
         <div role="status" aria-live="polite">

@@ -7,6 +7,7 @@ import { panelsToStations } from "~/cases/planform-panels";
 import { PlanformSchema, type PlanformData } from "~/cases/step-data";
 import { fromSI, toSI, unitSymbol, formatNumber, type UnitSystem } from "~/cases/units";
 import { tidy } from "~/cases/form-values";
+import { StepSaveBar } from "~/components/case/step-save-bar";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { PlanformDrawing } from "~/components/case/planform-drawing";
@@ -114,16 +115,7 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
             </Panel>
             {disabled ? null : <PanelEntry units={units} onStations={(rows) => form.setValue("stations", rows as never, { shouldDirty: true })} />}
           </fieldset>
-          {loaderData.canEdit ? (
-            <div className="mt-4 flex items-center gap-3">
-              <Button type="submit" disabled={busy}>
-                {busy ? "Saving…" : "Save planform"}
-              </Button>
-              <span className="text-xs text-ink-muted">Revision {loaderData.revision} · saving makes revision {loaderData.revision + 1}</span>
-            </div>
-          ) : (
-            <p className="mt-4 text-sm text-ink-muted">{loaderData.status === "submitted" ? "Submitted for check: read-only until returned or approved." : "Read-only for your role."}</p>
-          )}
+          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save planform" />
         </Form>
         <div className="space-y-5">
           <Panel title="Drawing (to scale)">

@@ -7,6 +7,7 @@ import { SectionsSchema, type SectionsData } from "~/cases/step-data";
 import { formatNumber, fromSI, toSI, unitSymbol } from "~/cases/units";
 import { caseUnits } from "~/cases/step-context.server";
 import { sectionFitOption } from "~/charts/section-fit";
+import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { useZodForm } from "~/components/forms/use-zod-form";
@@ -140,13 +141,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
               <p className="mt-2 text-xs text-ink-muted">clmax and Cp,min may be left empty: the stall and critical-Mach checks then skip that station.</p>
             </Panel>
           </fieldset>
-          {loaderData.canEdit ? (
-            <div className="mt-4">
-              <Button type="submit" disabled={busy}>
-                {busy ? "Saving…" : "Save typed section data"}
-              </Button>
-            </div>
-          ) : null}
+          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" />
         </Form>
         <div className="space-y-5">
           {loaderData.canEdit ? (

@@ -5,6 +5,7 @@ import { TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { ListTable } from "~/components/ui/list-table";
 import { DomainError } from "~/services/organisation.server";
 import { createProgramme, listProgrammes } from "~/services/programmes.server";
 import { parseBody } from "~/utils/http.server";
@@ -37,30 +38,18 @@ export default function ProgrammesRoute({ loaderData, actionData }: Route.Compon
         {loaderData.programmes.length === 0 ? (
           <EmptyState title="No programmes yet">{loaderData.canManage ? "Create the first one with the form." : "An administrator creates programmes."}</EmptyState>
         ) : (
-          <div className="overflow-x-auto rounded border border-line bg-surface">
-            <table className="w-full text-left text-sm">
-              <thead className="border-b border-line bg-canvas text-xs uppercase tracking-wide text-ink-muted">
-                <tr>
-                  <th className="px-3 py-2">Code</th>
-                  <th className="px-3 py-2">Name</th>
-                  <th className="px-3 py-2">Aircraft</th>
-                  <th className="px-3 py-2 text-right">Cases</th>
-                </tr>
-              </thead>
-              <tbody>
-                {loaderData.programmes.map((p) => (
-                  <tr key={p.id} className="border-b border-line last:border-0">
-                    <td className="px-3 py-2 font-semibold">
-                      <Link to={`/programmes/${p.id}`}>{p.code}</Link>
-                    </td>
-                    <td className="px-3 py-2">{p.name}</td>
-                    <td className="px-3 py-2">{p.aircraft}</td>
-                    <td className="px-3 py-2 text-right">{p.caseCount}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <ListTable columns={[{ label: "Code" }, { label: "Name" }, { label: "Aircraft" }, { label: "Cases", numeric: true }]}>
+            {loaderData.programmes.map((p) => (
+              <tr key={p.id} className="border-b border-line last:border-0">
+                <td className="px-3 py-2 font-semibold">
+                  <Link to={`/programmes/${p.id}`}>{p.code}</Link>
+                </td>
+                <td className="px-3 py-2">{p.name}</td>
+                <td className="px-3 py-2">{p.aircraft}</td>
+                <td className="px-3 py-2 text-right">{p.caseCount}</td>
+              </tr>
+            ))}
+          </ListTable>
         )}
         {loaderData.canManage ? <NewProgrammeForm serverErrors={actionData?.fieldErrors} created={actionData?.ok} /> : null}
       </div>
