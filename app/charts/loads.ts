@@ -14,8 +14,11 @@ export function loadsOption(
   unit: { symbol: string; scale: (si: number) => number },
 ) {
   const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [y, unit.scale(v[i]!)]);
+  const base = baseOption(TITLES[quantity]);
   return {
-    ...baseOption(TITLES[quantity]),
+    ...base,
+    // Three legend entries wrap to two rows in the pages' third-width charts: keep the plot below them.
+    grid: { ...base.grid, top: 80 },
     xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [

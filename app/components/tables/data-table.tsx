@@ -93,7 +93,7 @@ export function DataTable<T>({ rows, columns, caption, csvName, initialSort }: {
                 {r.getVisibleCells().map((cell) => {
                   const col = columns.find((c) => c.id === cell.column.id)!;
                   return (
-                    <td key={cell.id} className={`px-2 py-1 ${col.numeric ? "text-right tabular" : ""}`}>
+                    <td key={cell.id} className={`whitespace-nowrap px-2 py-1 ${col.numeric ? "text-right tabular" : ""}`}>
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </td>
                   );
