@@ -1,9 +1,8 @@
 import { Link } from "react-router";
 import { PageHeader, Panel } from "~/components/ui/page-header";
-// The same text as docs/exchange-format.md in the repository, bundled because docs/ is not served.
-import exchangeFormat from "../../docs/exchange-format.md?raw";
-
-const ORIGIN = "http://127.0.0.1:3000";
+import { env } from "~/utils/env.server";
+import { exchangeFormatHtml } from "./api-docs.server";
+import type { Route } from "./+types/api-docs";
 
 interface Endpoint {
   method: "GET" | "POST";
@@ -15,7 +14,9 @@ interface Endpoint {
 
 const AUTH = '-H "Authorization: Bearer $SPANWRIGHT_TOKEN"';
 
-const ENDPOINTS: Endpoint[] = [
+/** The endpoints, with command lines that name this server's own origin. */
+function endpoints(ORIGIN: string): Endpoint[] {
+  return [
   {
     method: "GET",
     path: "/api/v1/cases",
@@ -48,7 +49,7 @@ const ENDPOINTS: Endpoint[] = [
     method: "POST",
     path: "/api/v1/cases/import",
     permission: "case:create",
-    what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=or the document alone with ?programmeId=&reference=. Planformreference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
+    what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=&reference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
     curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json "${ORIGIN}/api/v1/cases/import?programmeId=$PROGRAMME_ID&reference=TN-WL-010"`,
   },
   {
@@ -58,9 +59,14 @@ const ENDPOINTS: Endpoint[] = [
     what: "Analyses a spanwright.case/1 document (up to 20 MB) and answers spanwright.result/1. Nothing is stored. A bad document answers 422 with every problem and its path.",
     curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json ${ORIGIN}/api/v1/analyze`,
   },
-];
+  ];
+}
 
-export default function ApiDocsRoute() {
+export function loader() {
+  return { endpoints: endpoints(env().APP_ORIGIN), exchangeFormat: exchangeFormatHtml() };
+}
+
+export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
   return (
     <main className="mx-auto max-w-4xl px-5 py-8">
       <PageHeader
@@ -82,7 +88,7 @@ export default function ApiDocsRoute() {
             <pre className="overflow-x-auto rounded bg-canvas p-3 text-xs">export SPANWRIGHT_TOKEN=sw_…</pre>
           </div>
         </Panel>
-        {ENDPOINTS.map((e) => (
+        {loaderData.endpoints.map((e) => (
           <Panel key={e.method + e.path}>
             <h2 className="font-mono text-sm font-semibold">
               {e.method} {e.path}
@@ -108,7 +114,8 @@ export default function ApiDocsRoute() {
           <h2 id="exchange-format-title" className="border-b border-line px-4 py-2 text-sm font-semibold uppercase tracking-wide text-ink-muted">
             The exchange format
           </h2>
-          <pre className="overflow-x-auto whitespace-pre-wrap p-4 text-xs leading-relaxed">{exchangeFormat}</pre>
+          {/* Our own document, rendered on the server from the file bundled at build time. */}
+          <div className="doc overflow-x-auto p-4 text-sm" dangerouslySetInnerHTML={{ __html: loaderData.exchangeFormat }} />
         </section>
       </div>
     </main>

@@ -22,6 +22,7 @@ import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as casesLoader } from "~/routes/api/v1/cases";
 import { loader as notFoundLoader } from "~/routes/api/v1/not-found";
 import { loader as openApiLoader } from "~/routes/api/v1/openapi";
+import { loader as apiDocsLoader } from "~/routes/api-docs";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
 
 const EXAMPLES = ["kf60-tern-wing", "kf60-tern-lifting-line", "kf60-tern-swept-variant"] as const;
@@ -411,6 +412,18 @@ describe("the seeded demo case", () => {
     const res = await call(resultsLoader, `/api/v1/cases/${kestrelCaseId}/results`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
     expect(res.status).toBe(200);
     expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+  });
+});
+
+describe("the API page", () => {
+  it("shows the exchange format as a document (headings, field tables, examples) and command lines for this server's origin", () => {
+    const page = apiDocsLoader();
+    expect(page.exchangeFormat).toContain("<h1>The exchange format");
+    expect(page.exchangeFormat).toMatch(/<table>[\s\S]*<th>field<\/th>/);
+    expect(page.exchangeFormat).toContain("<pre><code");
+    expect(page.exchangeFormat).not.toContain("| field |");
+    const origin = process.env.APP_ORIGIN ?? "http://127.0.0.1:3000";
+    expect(page.endpoints.every((e) => e.curl.includes(`${origin}/api/v1/`))).toBe(true);
   });
 });
 

@@ -84,7 +84,7 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/dev/mailbox.tsx": { loader: fixed("allowed", "local mail capture only; absent (404) when a real relay is configured") },
   "routes/api/planform-preview.ts": { action: page(ALL) },
   "routes/api/case-distribution.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
-  "routes/api-docs.tsx": {},
+  "routes/api-docs.tsx": { loader: pub },
   "routes/api/v1/cases.ts": { loader: api(ALL), action: notAllowed },
   "routes/api/v1/case-import.ts": { loader: notAllowed, action: api(["engineer"]) },
   "routes/api/v1/case.ts": { loader: api(ALL, true), action: notAllowed },
