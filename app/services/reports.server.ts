@@ -157,7 +157,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
   } catch (error) {
     if (error instanceof DomainError && error.message === "already issued") return;
     // The object of a report that did not become issued must not linger.
-    if (key) await deleteObject(env().S3_BUCKET_REPORTS, key).catch(() => {});
+    if (key) await removeUnrecorded(env().S3_BUCKET_REPORTS, key);
     const last = attempt.retryCount >= attempt.retryLimit;
     const message = error instanceof Error ? error.message : String(error);
     await db
@@ -171,6 +171,27 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
   const [requester] = await db.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
   if (requester) {
     await sendMail({ to: requester.email, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
+  }
+}
+
+/**
+ * Deletes the object of a report whose recording failed, trying a few times: the failure that got
+ * us here (a database or network outage) may have disturbed the store's connection too. An object
+ * that still cannot be deleted is said in the log; it is never referenced, and the job's next
+ * attempt writes the same key again.
+ */
+async function removeUnrecorded(bucket: string, key: string): Promise<void> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      await deleteObject(bucket, key);
+      return;
+    } catch (error) {
+      if (attempt === 3) {
+        console.warn(`could not remove the unrecorded report object ${bucket}/${key}: ${error instanceof Error ? error.message : String(error)}`);
+        return;
+      }
+      await new Promise((r) => setTimeout(r, 200 * attempt));
+    }
   }
 }
 
