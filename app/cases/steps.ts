@@ -30,3 +30,33 @@ export function downstreamOf(key: StepKey): StepKey[] {
 export function nextStep(key: StepKey): StepKey | null {
   return STEPS[stepIndex(key) + 1]?.key ?? null;
 }
+
+const STEP_EVENTS: Record<string, string> = {
+  save: "saved",
+  submit: "submitted for check",
+  approve: "approved",
+  return: "returned to the engineer",
+  comment: "commented on",
+};
+
+const CASE_EVENTS: Record<string, string> = {
+  "case.create": "Case started",
+  "case.import": "Case imported from an exchange document",
+  "case.approve-for-issue": "Case approved for issue",
+  "upload.sections": "Section data file uploaded",
+  "seed.case.create": "Case created by the demo seed",
+};
+
+/**
+ * The case-history line for an audit action, in words ("Planform submitted for check"); an action
+ * without words of its own is shown as recorded, so nothing is hidden from the reader.
+ */
+export function describeCaseEvent(action: string): string {
+  const step = /^step\.([a-z]+)\.([a-z-]+)$/.exec(action);
+  if (step) {
+    const label = STEPS.find((s) => s.key === step[1])?.label;
+    const event = STEP_EVENTS[step[2]!];
+    if (label && event) return `${label} ${event}`;
+  }
+  return CASE_EVENTS[action] ?? action;
+}

@@ -2,7 +2,7 @@ import { sha256 } from "@oslojs/crypto/sha2";
 import { encodeHexLowerCase } from "@oslojs/encoding";
 import { and, asc, desc, eq, sql } from "drizzle-orm";
 import type { Db, Tx } from "./client.server";
-import { auditLog, type AuditEntry } from "./schema";
+import { auditLog, users, type AuditEntry } from "./schema";
 
 export const GENESIS_HASH = "0".repeat(64);
 // One chain for the whole database: entries are serialised under this transaction-scoped lock.
@@ -103,8 +103,9 @@ export async function verifyAuditChain(database: Db | Tx): Promise<ChainCheck> {
 export async function auditForEntity(database: Db | Tx, entityType: string, entityId: string, limit = 50) {
   // The history list shows who did what and when; the before/after images stay on the audit page.
   return database
-    .select({ id: auditLog.id, at: auditLog.at, action: auditLog.action, actorEmail: auditLog.actorEmail })
+    .select({ id: auditLog.id, at: auditLog.at, action: auditLog.action, actorEmail: auditLog.actorEmail, actorName: users.name })
     .from(auditLog)
+    .leftJoin(users, eq(users.id, auditLog.actorId))
     .where(and(eq(auditLog.entityType, entityType), eq(auditLog.entityId, entityId)))
     .orderBy(desc(auditLog.id))
     .limit(limit);

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
+import { describeCaseEvent, STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
 import { auditForEntity } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";
@@ -24,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft },
     createdByName,
     steps: STEPS.map((s) => ({ ...s, status: steps[s.key].status, revision: steps[s.key].revision, updatedAt: steps[s.key].updatedAt, updatedByName: steps[s.key].updatedByName, approval: approval(s.key) })),
-    history: history.map((h) => ({ id: h.id, at: h.at, action: h.action, actorEmail: h.actorEmail })),
+    history: history.map((h) => ({ id: h.id, at: h.at, what: describeCaseEvent(h.action), action: h.action, who: h.actorName ?? h.actorEmail ?? "the system", actorEmail: h.actorEmail })),
   };
 }
 
@@ -90,8 +90,8 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
             {history.map((h) => (
               <li key={h.id} className="flex gap-3">
                 <span className="tabular w-40 shrink-0 text-ink-muted">{formatUtc(h.at)}</span>
-                <span>
-                  {h.action} — {h.actorEmail ?? "system"}
+                <span title={`${h.action}${h.actorEmail ? ` · ${h.actorEmail}` : ""}`}>
+                  {h.what} — {h.who}
                 </span>
               </li>
             ))}
