@@ -1,3 +1,4 @@
+import { useEffect } from "react";
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { useNonce } from "./utils/csp";
@@ -24,6 +25,10 @@ export function Layout({ children }: { children: React.ReactNode }) {
 }
 
 export default function App() {
+  // Says the page's scripts run; from here on a form keeps what is typed (browser tests wait for it).
+  useEffect(() => {
+    document.documentElement.dataset.hydrated = "true";
+  }, []);
   return <Outlet />;
 }
 
