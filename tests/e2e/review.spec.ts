@@ -32,7 +32,7 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
 
   // The engineer changes the approved planform: a new revision, and the approvals from planform on are voided.
   await engineer.goto(`${caseUrl}/planform`);
-  // The form fills its fields when it hydrates; typing before that would be overwritten.
+  // Typed once the page's scripts run, as usual; typing before that is covered in workflow.spec.ts.
   await expect(engineer.locator("html[data-hydrated]")).toHaveCount(1);
   await expect(engineer.locator("#stations-0-2")).toHaveValue("2.1");
   await engineer.locator("#stations-0-2").fill("2.12");

@@ -174,3 +174,24 @@ test("a stale save from a second window is refused and nothing is lost", async (
   await one.close();
   await two.close();
 });
+
+test("what is typed into a step form before the page's scripts have run is kept when they do", async ({ page }) => {
+  await signIn(page);
+  await page.getByRole("link", { name: "TN-WL-001" }).click();
+  await expect(page).toHaveURL(/\/cases\/[0-9a-f-]{36}$/);
+  const planformUrl = `${new URL(page.url()).pathname}/planform`;
+  // Hold the page's scripts back until the person has typed into the server-rendered form.
+  let release!: () => void;
+  const held = new Promise<void>((r) => (release = r));
+  await page.route("**/assets/*.js", async (route) => {
+    await held;
+    await route.continue();
+  });
+  await page.goto(planformUrl, { waitUntil: "domcontentloaded" });
+  await expect(page.locator("html[data-hydrated]")).toHaveCount(0);
+  await page.locator("#stations-0-2").fill("2.13");
+  release();
+  await expect(page.locator("html[data-hydrated]")).toHaveCount(1);
+  await expect(page.locator("#stations-0-2")).toHaveValue("2.13");
+  await page.unroute("**/assets/*.js");
+});

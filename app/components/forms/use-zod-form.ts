@@ -1,5 +1,5 @@
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useEffect } from "react";
+import { useEffect, useRef } from "react";
 import { useForm, type DefaultValues, type FieldValues } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
@@ -12,9 +12,14 @@ import type { z } from "zod";
 export function useZodForm<S extends z.ZodType<FieldValues, FieldValues>>(schema: S, defaultValues?: DefaultValues<z.input<S>>, resetKey?: unknown) {
   const submit = useSubmit();
   const form = useForm<z.input<S>, unknown, z.output<S>>({ resolver: zodResolver(schema as never) as never, defaultValues, mode: "onTouched" });
-  // A new saved revision (resetKey) replaces what the form holds, including its base revision.
+  // A new saved revision (resetKey) replaces what the form holds, including its base revision. Not
+  // on the first render: the form already starts from those values, and what was typed into the
+  // server-rendered page before its scripts ran must be kept (react-hook-form keeps it).
+  const shownKey = useRef(resetKey);
   useEffect(() => {
-    if (resetKey !== undefined) form.reset(defaultValues);
+    if (resetKey === undefined || shownKey.current === resetKey) return;
+    shownKey.current = resetKey;
+    form.reset(defaultValues);
   }, [resetKey]);
   const onSubmit = form.handleSubmit((_values, event) => {
     const el = (event?.target ?? null) as HTMLFormElement | null;
