@@ -55,7 +55,7 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
   });
   app.use(sameOriginForWrites(opts.origin));
   // Reads shared by the loaders of one page are made once per request (never in a writing request).
-  app.use((req: Request, _res: Response, next: NextFunction) => (req.method === "GET" || req.method === "HEAD" ? withRequestMemo(next) : next()));
+  app.use((req: Request, res: Response, next: NextFunction) => (req.method === "GET" || req.method === "HEAD" ? withRequestMemo(next, (end) => res.once("close", end)) : next()));
   mount(app);
   app.use(answerErrors);
   return app;

@@ -1,3 +1,4 @@
+import { AsyncResource } from "node:async_hooks";
 import type { AddressInfo } from "node:net";
 import { describe, expect, it } from "vitest";
 import { createApp } from "~/server/http";
@@ -30,6 +31,24 @@ describe("the per-request memo", () => {
       await expect(memoised("k", async () => Promise.reject(new Error(`outage ${++loads}`)))).rejects.toThrow("outage 1");
       expect(await memoised("k", async () => ++loads)).toBe(2);
     });
+  });
+
+  it("ends with its request: work left running in the request's context reads afresh", async () => {
+    let loads = 0;
+    let end!: () => void;
+    let later!: () => Promise<number>;
+    await withRequestMemo(
+      async () => {
+        await memoised("k", async () => ++loads);
+        // A timer or a client started inside the request keeps its async context after the answer.
+        later = AsyncResource.bind(() => memoised("k", async () => ++loads));
+      },
+      (e) => (end = e),
+    );
+    expect(await later()).toBe(1);
+    end();
+    expect(await later()).toBe(2);
+    expect(await later()).toBe(3);
   });
 
   it("is opened by the web server for reading requests only, so an action never sees a read made before its write", async () => {
