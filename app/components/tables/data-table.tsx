@@ -76,7 +76,7 @@ export function DataTable<T>({ rows, columns, caption, csvName, initialSort }: {
                   const col = columns.find((c) => c.id === h.column.id)!;
                   const dir = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"} className={`px-2 py-1.5 font-semibold ${col.numeric ? "text-right" : "text-left"}`}>
+                    <th key={h.id} scope="col" aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"} className={`whitespace-nowrap px-2 py-1.5 font-semibold ${col.numeric ? "text-right" : "text-left"}`}>
                       <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 hover:text-ink">
                         {flexRender(h.column.columnDef.header, h.getContext())}
                         <span aria-hidden="true">{dir === "asc" ? "▲" : dir === "desc" ? "▼" : "↕"}</span>
