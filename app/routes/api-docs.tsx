@@ -15,50 +15,50 @@ interface Endpoint {
 const AUTH = '-H "Authorization: Bearer $SPANWRIGHT_TOKEN"';
 
 /** The endpoints, with command lines that name this server's own origin. */
-function endpoints(ORIGIN: string): Endpoint[] {
+function endpoints(origin: string): Endpoint[] {
   return [
-  {
-    method: "GET",
-    path: "/api/v1/cases",
-    permission: "case:read",
-    what: "Your organisation's cases: id, reference, title, programme, status and time of the last change.",
-    curl: `curl ${AUTH} ${ORIGIN}/api/v1/cases`,
-  },
-  {
-    method: "GET",
-    path: "/api/v1/cases/{caseId}",
-    permission: "case:read",
-    what: "One case with the status and revision of each of its steps.",
-    curl: `curl ${AUTH} ${ORIGIN}/api/v1/cases/$CASE_ID`,
-  },
-  {
-    method: "GET",
-    path: "/api/v1/cases/{caseId}/export",
-    permission: "case:read",
-    what: "The case as a spanwright.case/1 document, ready for the command line. 409 while planform, sections or envelope is unsaved.",
-    curl: `curl ${AUTH} -o case.json ${ORIGIN}/api/v1/cases/$CASE_ID/export`,
-  },
-  {
-    method: "GET",
-    path: "/api/v1/cases/{caseId}/results",
-    permission: "case:read",
-    what: "The spanwright.result/1 document of the case, computed once per input and engine version and then kept. Add ?format=csv for every case's station table as CSV.",
-    curl: `curl ${AUTH} -o results.csv "${ORIGIN}/api/v1/cases/$CASE_ID/results?format=csv"`,
-  },
-  {
-    method: "POST",
-    path: "/api/v1/cases/import",
-    permission: "case:create",
-    what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=&reference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
-    curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json "${ORIGIN}/api/v1/cases/import?programmeId=$PROGRAMME_ID&reference=TN-WL-010"`,
-  },
-  {
-    method: "POST",
-    path: "/api/v1/analyze",
-    permission: "case:read",
-    what: "Analyses a spanwright.case/1 document (up to 20 MB) and answers spanwright.result/1. Nothing is stored. A bad document answers 422 with every problem and its path.",
-    curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json ${ORIGIN}/api/v1/analyze`,
-  },
+    {
+      method: "GET",
+      path: "/api/v1/cases",
+      permission: "case:read",
+      what: "Your organisation's cases: id, reference, title, programme, status and time of the last change.",
+      curl: `curl ${AUTH} ${origin}/api/v1/cases`,
+    },
+    {
+      method: "GET",
+      path: "/api/v1/cases/{caseId}",
+      permission: "case:read",
+      what: "One case with the status and revision of each of its steps.",
+      curl: `curl ${AUTH} ${origin}/api/v1/cases/$CASE_ID`,
+    },
+    {
+      method: "GET",
+      path: "/api/v1/cases/{caseId}/export",
+      permission: "case:read",
+      what: "The case as a spanwright.case/1 document, ready for the command line. 409 while planform, sections or envelope is unsaved.",
+      curl: `curl ${AUTH} -o case.json ${origin}/api/v1/cases/$CASE_ID/export`,
+    },
+    {
+      method: "GET",
+      path: "/api/v1/cases/{caseId}/results",
+      permission: "case:read",
+      what: "The spanwright.result/1 document of the case, computed once per input and engine version and then kept. Add ?format=csv for every case's station table as CSV.",
+      curl: `curl ${AUTH} -o results.csv "${origin}/api/v1/cases/$CASE_ID/results?format=csv"`,
+    },
+    {
+      method: "POST",
+      path: "/api/v1/cases/import",
+      permission: "case:create",
+      what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=&reference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
+      curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json "${origin}/api/v1/cases/import?programmeId=$PROGRAMME_ID&reference=TN-WL-010"`,
+    },
+    {
+      method: "POST",
+      path: "/api/v1/analyze",
+      permission: "case:read",
+      what: "Analyses a spanwright.case/1 document (up to 20 MB) and answers spanwright.result/1. Nothing is stored. A bad document answers 422 with every problem and its path.",
+      curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json ${origin}/api/v1/analyze`,
+    },
   ];
 }
 

@@ -41,6 +41,19 @@ export async function startHttpServer(opts: { host: string; port: number; origin
 }
 
 /**
+ * Stops taking connections, drops the open ones, then closes the database pool: the built app
+ * shares the process-wide pool (kept on globalThis), which must close before PostgreSQL stops.
+ */
+export async function closeHttpServer(server: Server): Promise<void> {
+  await new Promise<void>((resolve) => {
+    server.close(() => resolve());
+    server.closeAllConnections();
+  });
+  const { closeDb } = await import("../db/client.server");
+  await closeDb();
+}
+
+/**
  * The Express application around whatever `mount` adds (static files, the React Router handler):
  * security headers first, the client address from the socket, the same-origin check on writes,
  * and last an error answer without internals. Exported so the tests can serve a build through it.

@@ -110,19 +110,9 @@ async function main() {
   const webProcesses = dev ? 1 : Number(process.env.WEB_PROCESSES ?? Math.min(os.availableParallelism(), 4));
   if (!Number.isInteger(webProcesses) || webProcesses < 1) throw new Error(`WEB_PROCESSES must be a whole number of at least 1 (got ${process.env.WEB_PROCESSES})`);
   if (webProcesses === 1) {
-    const { startHttpServer } = await import("./http");
+    const { closeHttpServer, startHttpServer } = await import("./http");
     const server = await startHttpServer({ host, port: port("PORT", 3000), origin: appOrigin, dev });
-    running.push({
-      name: "web server",
-      stop: async () => {
-        await new Promise<void>((resolve) => {
-          server.close(() => resolve());
-          server.closeAllConnections();
-        });
-        // The built app shares the process-wide pool (kept on globalThis): close it before PostgreSQL stops.
-        await closeDb();
-      },
-    });
+    running.push({ name: "web server", stop: () => closeHttpServer(server) });
   } else {
     // Node runs JavaScript on one core per process: one web process per core serves the pages
     // (web.ts); this process keeps the services and the job worker.

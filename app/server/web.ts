@@ -4,8 +4,7 @@
  * processes share nothing but PostgreSQL and S3, as separate machines would; the primary hands
  * them the connections of the one listening port.
  */
-import { closeDb } from "../db/client.server";
-import { startHttpServer } from "./http";
+import { closeHttpServer, startHttpServer } from "./http";
 
 const server = await startHttpServer({
   host: "127.0.0.1",
@@ -18,11 +17,7 @@ let closing = false;
 async function close() {
   if (closing) return;
   closing = true;
-  await new Promise<void>((resolve) => {
-    server.close(() => resolve());
-    server.closeAllConnections();
-  });
-  await closeDb();
+  await closeHttpServer(server);
   process.exit(0);
 }
 
