@@ -3,8 +3,12 @@ import os from "node:os";
 import path from "node:path";
 import { defineConfig, devices } from "@playwright/test";
 
-const PORT = 3100;
+// E2E_PORT_BASE moves every port of the run (app, PostgreSQL, S3, SMTP, OIDC) so that two
+// checkouts can run their browser tests side by side; the default is 3100.
+const BASE = Number(process.env.E2E_PORT_BASE ?? 3100);
+const PORT = BASE;
 const ORIGIN = `http://127.0.0.1:${PORT}`;
+process.env.E2E_ORIGIN = ORIGIN;
 const PREFIX = "spanwright-e2e-";
 
 function alive(pid: number): boolean {
@@ -81,10 +85,10 @@ export default defineConfig({
     env: {
       SPANWRIGHT_DATA_DIR: e2eDataDir(),
       PORT: String(PORT),
-      PG_PORT: "54339",
-      S3_PORT: "4579",
-      SMTP_PORT: "2535",
-      OIDC_PORT: "4590",
+      PG_PORT: String(BASE + 51239),
+      S3_PORT: String(BASE + 1479),
+      SMTP_PORT: String(BASE - 565),
+      OIDC_PORT: String(BASE + 1490),
       APP_ORIGIN: ORIGIN,
       // Always the stand-ins, even when the calling shell points at real services.
       DATABASE_URL: "",

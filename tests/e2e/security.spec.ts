@@ -7,7 +7,7 @@ import { DEMO_USERS, type DemoUser } from "../../app/db/demo";
  * throttling, error answers without internals, and the content types of downloads.
  */
 
-const ORIGIN = "http://127.0.0.1:3100";
+const ORIGIN = process.env.E2E_ORIGIN ?? "http://127.0.0.1:3100";
 const user = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
 
 async function signIn(request: APIRequestContext, label: DemoUser["label"]) {
