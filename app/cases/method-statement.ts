@@ -38,8 +38,9 @@ export const METHOD_STATEMENT: readonly { title: string; body: string[] }[] = [
   {
     title: "Shear, bending and torsion",
     body: [
-      "Running lift l(y) = q·c·cl per semispan; inertia relief from the semispan structural mass spread in proportion to chord, times nz·g. Shear, bending moment and torsion about the straight reference axis are integrated from the tip inward; the envelope is the maximum and minimum at each station with the case that gives it.",
-      "Torsion is taken on a streamwise cut, nose up positive. Cases given by angle of attack carry no inertia relief because their load factor is not known.",
+      "Running lift l(y) = q·c·cl per semispan; inertia relief from the semispan structural mass spread in proportion to chord, times nz·g. Shear, bending moment and torsion are integrated from the tip inward; the envelope is the maximum and minimum at each station with the case that gives it.",
+      "Bending and torsion are resolved about the reference axis: the wing is cut at streamwise stations, the moment of all loads outboard of a cut is taken about the axis point at that station, and resolved into its component along the axis (torsion, nose up positive) and about the in-plane normal to the axis (bending, tip up positive). On an unswept axis these are the streamwise bending and pitching moments.",
+      "Cases given by angle of attack carry no inertia relief because their load factor is not known.",
     ],
   },
 ];

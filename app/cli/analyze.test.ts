@@ -24,7 +24,8 @@ const dir = mkdtempSync(join(tmpdir(), "spanwright-cli-"));
 const good = join(dir, "good.json");
 writeFileSync(good, JSON.stringify(doc));
 
-describe("analyze CLI", () => {
+// Each check starts node + tsx (seconds on a busy machine): a generous limit, so the tests never depend on timing.
+describe("analyze CLI", { timeout: 120_000 }, () => {
   it("prints the result JSON for a file", () => {
     const r = run([good]);
     expect(r.status).toBe(0);

@@ -81,7 +81,13 @@ export interface MachSolution {
   scale: number[];
   clMax: (number | null)[];
   stationMachCritical: (number | null)[];
-  /** Loads per unit dynamic pressure at CL = 0 (basic lift plus section moments), per Pa. */
+  /** The straight reference axis the bending and torsion below are resolved about. */
+  axis: ReferenceAxis;
+  /**
+   * Unit loads below are cut at streamwise stations and resolved about the reference axis:
+   * torsion along the axis direction (nose up positive), bending about its in-plane normal.
+   * Loads per unit dynamic pressure at CL = 0 (basic lift plus section moments), per Pa.
+   */
   basicPerQ: UnitLoads;
   /** Loads per unit dynamic pressure and unit CL (additional lift), per Pa. */
   additionalPerQ: UnitLoads;
@@ -118,16 +124,52 @@ function integrationGrid(semispan: number, extra: readonly number[], points: num
   return out;
 }
 
-/** x of the straight reference axis at y (m). */
-export function referenceAxisX(model: WingModel, y: number): number {
+/** The straight reference axis: its points at the root and tip chords and its sweep. */
+export interface ReferenceAxis {
+  /** Streamwise position of the axis at the root (y = 0) and at the tip station, m. */
+  rootX: number;
+  tipX: number;
+  /** Sweep of the axis, deg, aft positive: tan Λ = (tipX − rootX)/semispan. */
+  sweepDeg: number;
+  /** Components of the axis unit vector in the wing plane: (sin Λ, cos Λ) along (x aft, y outboard). */
+  sin: number;
+  cos: number;
+}
+
+/** The model's straight reference axis (chord fractions at root and tip, default 0.25/0.25). */
+export function referenceAxis(model: WingModel): ReferenceAxis {
   const st = model.stations;
   const r = st[0];
   const t = st[st.length - 1];
-  const fr = model.axis?.rootChordFraction ?? 0.25;
-  const ft = model.axis?.tipChordFraction ?? 0.25;
-  const x0 = r.xLe + fr * r.chord;
-  const x1 = t.xLe + ft * t.chord;
-  return x0 + ((x1 - x0) * y) / t.y;
+  const rootX = r.xLe + (model.axis?.rootChordFraction ?? 0.25) * r.chord;
+  const tipX = t.xLe + (model.axis?.tipChordFraction ?? 0.25) * t.chord;
+  const len = Math.hypot(tipX - rootX, t.y);
+  return { rootX, tipX, sweepDeg: (Math.atan2(tipX - rootX, t.y) * 180) / Math.PI, sin: (tipX - rootX) / len, cos: t.y / len };
+}
+
+/** x of the straight reference axis at y (m). */
+export function referenceAxisX(model: WingModel, y: number): number {
+  const a = referenceAxis(model);
+  return a.rootX + ((a.tipX - a.rootX) * y) / model.stations[model.stations.length - 1].y;
+}
+
+/**
+ * Resolve streamwise-cut loads about a swept reference axis (in place). On a streamwise cut at y
+ * the outboard loads give, about the axis point P(y), a rolling moment Mx (the streamwise
+ * `bending`, tip up positive, about the flight direction) and a pitching moment My (the streamwise
+ * `torsion`, nose up positive, about the lateral line through P). With the axis unit vector
+ * e = (sin Λ, cos Λ) in the wing plane (x aft, y outboard) and its in-plane normal n = (cos Λ, −sin Λ):
+ * torsion = M·e = Mx sin Λ + My cos Λ, bending = M·n = Mx cos Λ − My sin Λ. Shear is normal to
+ * the wing plane and unchanged. An unswept axis leaves the loads as they are.
+ */
+export function resolveAboutAxis(loads: { bending: number[] | Float64Array; torsion: number[] | Float64Array }, axis: Pick<ReferenceAxis, "sin" | "cos">): void {
+  if (axis.sin === 0) return;
+  for (let k = 0; k < loads.bending.length; k++) {
+    const mx = loads.bending[k];
+    const my = loads.torsion[k];
+    loads.bending[k] = mx * axis.cos - my * axis.sin;
+    loads.torsion[k] = mx * axis.sin + my * axis.cos;
+  }
 }
 
 function buildSystem(stations: WingStation[], mach: number, opts: SolveOptions): SpanwiseSystem {
@@ -139,8 +181,11 @@ function pick(v: ArrayLike<number>, idx: number[]): number[] {
   return idx.map((i) => v[i]);
 }
 
-function pickLoads(l: BeamLoads, idx: number[]): UnitLoads {
-  return { shear: pick(l.shear, idx), bending: pick(l.bending, idx), torsion: pick(l.torsion, idx) };
+/** Loads at the output stations, resolved about the reference axis. */
+function pickLoads(l: BeamLoads, idx: number[], axis: ReferenceAxis): UnitLoads {
+  const out = { shear: pick(l.shear, idx), bending: pick(l.bending, idx), torsion: pick(l.torsion, idx) };
+  resolveAboutAxis(out, axis);
+  return out;
 }
 
 /**
@@ -187,7 +232,8 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
   const xAc = secs.map((x) => x.xLe + 0.25 * x.chord);
   const cm = secs.map((x) => x.scale * x.cmAc);
   const cmTerm = secs.map((x, k) => x.chord * x.chord * cm[k]);
-  const xRef = grid.map((y) => referenceAxisX(model, y));
+  const axis = referenceAxis(model);
+  const xRef = grid.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
   const basic = beamLoads(grid, cclb, xAc, xRef, cmTerm);
   const add = beamLoads(grid, ccla, xAc, xRef);
   // Structural mass: weight per unit load factor, spread ∝ chord, on the reference axis.
@@ -228,9 +274,10 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     scale: pick(secs.map((x) => x.scale), idx),
     clMax: idx.map((i) => secs[i].clMax ?? null),
     stationMachCritical,
-    basicPerQ: pickLoads(basic, idx),
-    additionalPerQ: pickLoads(add, idx),
-    massPerNz: pickLoads(massLoads, idx),
+    basicPerQ: pickLoads(basic, idx, axis),
+    additionalPerQ: pickLoads(add, idx, axis),
+    massPerNz: pickLoads(massLoads, idx, axis),
+    axis,
     moments: {
       cmTerm: integrate(grid, cmTerm),
       basicX: integrateProduct(grid, cclb, xAc),

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
 import { isa } from "../engine/atmosphere";
+import { ENGINE_VERSION } from "../engine/index";
 import { CaseFileSchema } from "./schema";
 import { parseCase } from "./parse";
 import { runCase } from "./run";
@@ -115,7 +116,7 @@ describe("runCase → spanwright.result/1", () => {
   it("has exactly the contract's fields", () => {
     expect(Object.keys(out)).toEqual(["schema", "engine", "wing", "cases", "envelope"]);
     expect(out.schema).toBe("spanwright.result/1");
-    expect(out.engine).toBe("0.1.0");
+    expect(out.engine).toBe(ENGINE_VERSION);
     expect(Object.keys(out.wing)).toEqual(["area", "span", "aspectRatio", "taperRatio", "mac", "yMac", "xLeMac"]);
     expect(Object.keys(out.cases[0])).toEqual([
       "id", "mach", "altitude", "beta", "dynamicPressure", "alpha", "cl", "clAlpha", "machCritical", "regime", "warnings", "stations", "root",
