@@ -144,11 +144,14 @@ export const EnvelopeSchema = z
     compressibility: z.enum(COMPRESSIBILITY_RULES, "Choose a compressibility rule"),
     spanwise: z.enum(SPANWISE_METHODS, "Choose a spanwise solver"),
     stations: z.number().int("Stations must be a whole number").min(8, "At least 8 stations").max(200, "At most 200 stations"),
+    /** Vortex-lattice strips per semispan (the exchange format's method.strips); the engine's default where absent. */
+    strips: z.number().int("Strips must be a whole number").min(8, "At least 8 strips").max(2000, "At most 2000 strips").optional(),
     /** "summary" leaves the station tables out of stored results (large sweeps); the exchange format's method.output. */
     output: z.enum(["full", "summary"]).default("full"),
     cases: z.array(LoadCaseSchema).min(1, "Give at least one load case").max(2000, "At most 2000 load cases"),
   })
   .superRefine((e, ctx) => {
+    if (e.strips !== undefined && e.spanwise === "lifting-line") ctx.addIssue({ code: "custom", path: ["strips"], message: "Strips apply to the vortex lattice only" });
     const seen = new Set<string>();
     e.cases.forEach((c, i) => {
       if (seen.has(c.id)) ctx.addIssue({ code: "custom", path: ["cases", i, "id"], message: `Case id ${c.id} is used twice` });

@@ -1,5 +1,5 @@
 /** Version of the numerical engine, written into every result. */
-export const ENGINE_VERSION = "0.2.0";
+export const ENGINE_VERSION = "0.3.0";
 
 export { EngineError, isEngineError } from "./errors";
 export type { EngineErrorCode } from "./errors";
@@ -11,7 +11,7 @@ export type { SpanwiseMethod, SpanwiseOptions, SpanwiseResult, SpanwiseSystem, C
 export { compressibleSectionAt, sectionCriticalMach } from "./spanwise";
 export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS } from "./lifting-line";
 export type { LiftingLineResult } from "./lifting-line";
-export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS } from "./vortex-lattice";
+export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS, VORTEX_LATTICE_MAX_STRIPS } from "./vortex-lattice";
 export * from "./loads";
 export * from "./superposition";
 export * from "./load-case";

@@ -12,8 +12,6 @@ export interface SpanwiseOptions {
   rule: CompressibilityRule;
   /** Lifting line: number of odd Fourier terms; vortex lattice: number of spanwise strips per semispan. */
   resolution?: number;
-  /** Vortex lattice only: chordwise panels per strip (default 1). */
-  chordwisePanels?: number;
   /** Vortex lattice only: spanwise strip spacing (default cosine, fine at the tip). */
   spacing?: "cosine" | "uniform";
 }

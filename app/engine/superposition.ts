@@ -2,14 +2,14 @@ import { ISA } from "./atmosphere";
 import type { CompressibilityRule } from "./compressibility";
 import { criticalMach } from "./compressibility";
 import { EngineError } from "./errors";
-import { buildLiftingLine } from "./lifting-line";
+import { LIFTING_LINE_DEFAULT_TERMS, buildLiftingLine } from "./lifting-line";
 import type { BeamLoads, PointForce } from "./loads";
 import { addPointForces, beamLoads, integrate, integrateProduct } from "./loads";
 import type { WingGeometry, WingStation } from "./planform";
 import { sectionAt, validateStations, wingGeometry } from "./planform";
 import type { SpanwiseMethod, SpanwiseSystem } from "./spanwise";
 import { DEG, compressibleSectionAt } from "./spanwise";
-import { buildVortexLattice } from "./vortex-lattice";
+import { VORTEX_LATTICE_DEFAULT_STRIPS, buildVortexLattice } from "./vortex-lattice";
 
 /** A concentrated mass on one semispan (internal API): position m, mass kg. */
 export interface PointMass {
@@ -36,7 +36,6 @@ export interface SolveOptions {
   stations: number;
   /** Solver resolution (Fourier terms or spanwise strips); solver default when absent. */
   resolution?: number;
-  chordwisePanels?: number;
   /** Integration nodes for the loads (default 400, full-cosine spaced, plus breakpoints and stations). */
   integrationPoints?: number;
 }
@@ -173,7 +172,7 @@ export function resolveAboutAxis(loads: { bending: number[] | Float64Array; tors
 }
 
 function buildSystem(stations: WingStation[], mach: number, opts: SolveOptions): SpanwiseSystem {
-  const o = { mach, rule: opts.rule, resolution: opts.resolution, chordwisePanels: opts.chordwisePanels };
+  const o = { mach, rule: opts.rule, resolution: opts.resolution };
   return opts.spanwise === "lifting-line" ? buildLiftingLine(stations, o) : buildVortexLattice(stations, o);
 }
 
@@ -319,4 +318,42 @@ export function solveAtAlpha(
   const r = sys.solve((sec) => (alphaDeg + sec.twist - sec.alphaL0) * DEG);
   const y = outputStations(model.stations[model.stations.length - 1].y, opts.stations);
   return { CL: r.CL, y, ccl: y.map((v) => r.cclAt(v)) };
+}
+
+/** How much a Mach solution moves when the solver's resolution is halved: an estimate of its discretisation error. */
+export interface ResolutionCheck {
+  /** Resolution used (strips or Fourier terms) and the halved one compared with it. */
+  resolution: number;
+  halfResolution: number;
+  /** Relative change of the wing lift slope CLα. */
+  clAlpha: number;
+  /** Relative change of the root bending moment per unit CL (additional loading). */
+  rootBending: number;
+  /** Largest change of the additional loading c·cl per unit CL over the output stations, relative to its peak. */
+  loading: number;
+}
+
+/**
+ * Re-solve at half the resolution and compare (a convergence estimate). The vortex lattice converges
+ * at first order in the strip count (observed: each doubling halves the change), so the change on
+ * halving is an estimate of the error of the full-resolution result itself; the lifting line
+ * converges faster (second order on tapered wings), so for it the change over-states the error.
+ * `full` is the solution at the full resolution when already at hand.
+ */
+export function resolutionCheck(model: WingModel, mach: number, opts: SolveOptions, full?: MachSolution): ResolutionCheck {
+  const resolution = opts.resolution ?? (opts.spanwise === "lifting-line" ? LIFTING_LINE_DEFAULT_TERMS : VORTEX_LATTICE_DEFAULT_STRIPS);
+  const halfResolution = Math.max(2, Math.floor(resolution / 2));
+  const a = full ?? solveMach(model, mach, { ...opts, resolution });
+  const b = solveMach({ ...model, massKg: undefined, pointMasses: undefined }, mach, { ...opts, resolution: halfResolution });
+  const peak = Math.max(...a.cclAdditional.map(Math.abs));
+  let loading = 0;
+  for (let i = 0; i < a.cclAdditional.length; i++) loading = Math.max(loading, Math.abs(a.cclAdditional[i] - b.cclAdditional[i]) / peak);
+  const rel = (u: number, v: number) => (u === 0 ? Math.abs(v) : Math.abs(u - v) / Math.abs(u));
+  return {
+    resolution,
+    halfResolution,
+    clAlpha: rel(a.clAlphaPerRad, b.clAlphaPerRad),
+    rootBending: rel(a.additionalPerQ.bending[0], b.additionalPerQ.bending[0]),
+    loading,
+  };
 }

@@ -1,11 +1,12 @@
 import { describe, expect, it } from "vitest";
 import { buildLiftingLine } from "./lifting-line";
 import { ellipticWing, trapezoidalWing, wingGeometry } from "./planform";
+import type { SpanwiseOptions } from "./spanwise";
 import { buildVortexLattice, stripEdges } from "./vortex-lattice";
 
 const one = () => 1;
-const vlm = (st: ReturnType<typeof trapezoidalWing>, mach: number, resolution = 60, chordwisePanels = 1) =>
-  buildVortexLattice(st, { mach, rule: "prandtl-glauert", resolution, chordwisePanels }).solve(one);
+const vlm = (st: ReturnType<typeof trapezoidalWing>, mach: number, resolution = 60) =>
+  buildVortexLattice(st, { mach, rule: "prandtl-glauert", resolution }).solve(one);
 
 /** DATCOM / Polhamus lift slope (REFERENCES 2.5), computed here from the formula for the comparison. */
 function datcom(A: number, M: number, tanHalfChord: number, kappa = 1): number {
@@ -96,6 +97,19 @@ describe("vortex lattice", () => {
     const st = trapezoidalWing({ span: 20, rootChord: 1.4, taperRatio: 0.4 });
     const ll = buildLiftingLine(st, { mach: 0.4, rule: "prandtl-glauert" }).solve(one).CL;
     expect(Math.abs(vlm(st, 0.4).CL / ll - 1)).toBeLessThan(0.02);
+  });
+
+  it("sections with a slope other than 2π: the elliptic wing tends to CLα = a0/(1 + a0/(πA)) at a0 = 0.8·2π too (Prandtl, REFERENCES 2.1); one chordwise panel only", () => {
+    // The several-chordwise-panel option scaled the normal-wash by a0/2π, which also scaled the induced angle and
+    // gave −12 % at a0 = 0.8·2π; it was removed. The type no longer has it:
+    // @ts-expect-error chordwisePanels is not an option of the vortex lattice
+    const removed: SpanwiseOptions = { mach: 0, rule: "prandtl-glauert", chordwisePanels: 4 };
+    expect(removed.mach).toBe(0);
+    const a0 = 0.8 * 2 * Math.PI;
+    const el = ellipticWing({ span: 40, rootChord: 4 / Math.PI, panels: 256, a0 });
+    const A = wingGeometry(el).aspectRatio;
+    const r = buildVortexLattice(el, { mach: 0, rule: "prandtl-glauert", resolution: 120 }).solve(one);
+    expect(Math.abs(r.CL / (a0 / (1 + a0 / (Math.PI * A))) - 1)).toBeLessThan(5e-3);
   });
 
   it("snaps a strip edge onto each planform break", () => {

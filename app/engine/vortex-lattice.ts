@@ -7,6 +7,8 @@ import { checkMach, compressibleSectionAt } from "./spanwise";
 
 /** Default number of spanwise strips per semispan. */
 export const VORTEX_LATTICE_DEFAULT_STRIPS = 60;
+/** Most strips per semispan the engine accepts (the dense solve grows as the cube of the count). */
+export const VORTEX_LATTICE_MAX_STRIPS = 2000;
 
 const FOUR_PI = 4 * Math.PI;
 
@@ -45,38 +47,39 @@ export function stripEdges(stations: readonly WingStation[], strips: number, spa
 }
 
 /**
- * Vortex-lattice method on one semispan with its mirror image (symmetric load): horseshoe vortices
- * with the bound leg on each panel's quarter-chord line and trailing legs streamwise to infinity,
- * control points at the panel's three-quarter chord; flat camber surface, camber through αL0.
+ * Vortex-lattice method on one semispan with its mirror image (symmetric load): one horseshoe vortex
+ * per spanwise strip, its bound leg on the strip's quarter-chord line and trailing legs streamwise to
+ * infinity; flat camber surface, camber through αL0.
  * Compressibility by the Prandtl–Glauert–Göthert transformation: the planform is stretched
  * streamwise by 1/β and solved as incompressible; lift per span is the same in both flows, so
- * c·cl and CL follow on the real planform. Section slopes other than 2π: with one chordwise panel
- * the control point moves to 1/4 + a′/(4π) of the chord (a′ the slope in the stretched flow, which
- * makes a 2-D strip give a′ exactly); with several panels the normal-wash is scaled by a′/(2π).
+ * c·cl and CL follow on the real planform. Section slopes other than 2π: the control point sits at
+ * 1/4 + a′/(4π) of the chord (a′ the slope in the stretched flow), which makes a 2-D strip give a′
+ * exactly and keeps the induced angle of the 3-D strip as it is (a′ = 2π gives the classical 3/4 chord).
+ * One chordwise panel per strip only: scaling the normal-wash of several chordwise panels by a′/2π,
+ * the only simple way to impose a′ there, also scales the induced angle and mis-states the lift of
+ * sections whose slope is not 2π, so the engine does not offer it.
  */
 export function buildVortexLattice(stations: readonly WingStation[], opts: SpanwiseOptions): SpanwiseSystem {
   validateStations(stations);
   const beta = checkMach(opts.mach);
-  const M = opts.resolution ?? VORTEX_LATTICE_DEFAULT_STRIPS;
-  const nc = opts.chordwisePanels ?? 1;
-  if (!Number.isInteger(M) || M < 2 || M > 4000) throw new EngineError("invalid-argument", "must be a whole number from 2 to 4000", "resolution");
-  if (!Number.isInteger(nc) || nc < 1 || nc > 50) throw new EngineError("invalid-argument", "must be a whole number from 1 to 50", "chordwisePanels");
+  const n = opts.resolution ?? VORTEX_LATTICE_DEFAULT_STRIPS;
+  if (!Number.isInteger(n) || n < 2 || n > VORTEX_LATTICE_MAX_STRIPS) {
+    throw new EngineError("invalid-argument", `must be a whole number from 2 to ${VORTEX_LATTICE_MAX_STRIPS}`, "method.strips");
+  }
   const g = wingGeometry(stations);
   const s = g.semispan;
-  const edges = stripEdges(stations, M, opts.spacing);
-  const n = M * nc;
-  // Panel geometry in the stretched frame (x' = x/β).
+  const edges = stripEdges(stations, n, opts.spacing);
+  // Strip geometry in the stretched frame (x' = x/β).
   const ax = new Float64Array(n);
   const ay = new Float64Array(n);
   const bx = new Float64Array(n);
   const by = new Float64Array(n);
   const cx = new Float64Array(n);
   const cy = new Float64Array(n);
-  const kappa = new Float64Array(n);
   const mids: SectionAt[] = [];
   const yMid: number[] = [];
   const width: number[] = [];
-  for (let j = 0; j < M; j++) {
+  for (let j = 0; j < n; j++) {
     const y0 = edges[j];
     const y1 = edges[j + 1];
     const ym = 0.5 * (y0 + y1);
@@ -88,20 +91,12 @@ export function buildVortexLattice(stations: readonly WingStation[], opts: Spanw
     width.push(y1 - y0);
     // Slope the stretched flow must reproduce: real slope k·a0 times β.
     const aStretched = sm.a * beta;
-    const xLeMid = 0.5 * (s0.xLe + s1.xLe);
-    const cMid = 0.5 * (s0.chord + s1.chord);
-    for (let i = 0; i < nc; i++) {
-      const p = j * nc + i;
-      const fb = (i + 0.25) / nc;
-      ax[p] = (s0.xLe + fb * s0.chord) / beta;
-      ay[p] = y0;
-      bx[p] = (s1.xLe + fb * s1.chord) / beta;
-      by[p] = y1;
-      const fc = nc === 1 ? 0.25 + aStretched / FOUR_PI : (i + 0.75) / nc;
-      cx[p] = (xLeMid + fc * cMid) / beta;
-      cy[p] = ym;
-      kappa[p] = nc === 1 ? 1 : aStretched / (2 * Math.PI);
-    }
+    ax[j] = (s0.xLe + 0.25 * s0.chord) / beta;
+    ay[j] = y0;
+    bx[j] = (s1.xLe + 0.25 * s1.chord) / beta;
+    by[j] = y1;
+    cx[j] = (0.5 * (s0.xLe + s1.xLe) + (0.25 + aStretched / FOUR_PI) * 0.5 * (s0.chord + s1.chord)) / beta;
+    cy[j] = ym;
   }
   const A = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
@@ -117,21 +112,19 @@ export function buildVortexLattice(stations: readonly WingStation[], opts: Spanw
   const halfArea = g.area / 2;
   const solveOne = (alphaStrip: number[]): SpanwiseResult => {
     const rhs = new Float64Array(n);
-    for (let p = 0; p < n; p++) rhs[p] = -kappa[p] * alphaStrip[Math.floor(p / nc)];
+    for (let j = 0; j < n; j++) rhs[j] = -alphaStrip[j];
     const gamma = luSolve(lu, rhs);
     const ccl: number[] = [];
     let lift = 0;
-    for (let j = 0; j < M; j++) {
-      let gs = 0;
-      for (let i = 0; i < nc; i++) gs += gamma[j * nc + i];
+    for (let j = 0; j < n; j++) {
       // Kutta–Joukowski per unit span: l = ρVΓ, so c·cl = 2Γ/V with V = 1.
-      ccl.push(2 * gs);
-      lift += 2 * gs * width[j];
+      ccl.push(2 * gamma[j]);
+      lift += 2 * gamma[j] * width[j];
     }
     const CL = lift / halfArea;
     const cclAt = (y: number): number => {
       if (y <= yMid[0]) return ccl[0];
-      const last = M - 1;
+      const last = n - 1;
       if (y >= yMid[last]) {
         // Square-root fall to zero at the tip, the shape of any smooth wing-tip load.
         if (y >= s) return 0;

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { z } from "zod";
 import { isa } from "../engine/atmosphere";
 import { ENGINE_VERSION } from "../engine/index";
-import { CaseFileSchema } from "./schema";
+import { CaseFileSchema, CaseResultSchema } from "./schema";
 import { parseCase } from "./parse";
 import { runCase } from "./run";
 import { resultToCsv } from "./csv";
@@ -114,7 +114,9 @@ describe("runCase → spanwright.result/1", () => {
   const out = runCase(r.value);
 
   it("has exactly the contract's fields", () => {
-    expect(Object.keys(out)).toEqual(["schema", "engine", "wing", "cases", "envelope"]);
+    expect(Object.keys(out)).toEqual(["schema", "engine", "method", "wing", "cases", "envelope"]);
+    expect(Object.keys(out.method)).toEqual(["compressibility", "spanwise", "strips", "terms", "stations", "output", "convergence"]);
+    expect(CaseResultSchema.strict().safeParse(out).success).toBe(true);
     expect(out.schema).toBe("spanwright.result/1");
     expect(out.engine).toBe(ENGINE_VERSION);
     expect(Object.keys(out.wing)).toEqual(["area", "span", "aspectRatio", "taperRatio", "mac", "yMac", "xLeMac"]);
@@ -175,5 +177,57 @@ describe("runCase → spanwright.result/1", () => {
     expect(csv[0]).toBe("case,y,chord,cl,cm,lift,shear,bending,torsion");
     expect(csv).toHaveLength(1 + 2 * 12);
     expect(csv[1].startsWith("alpha-4,0,2.1,")).toBe(true);
+  });
+});
+
+describe("method.strips: the vortex-lattice resolution the user sets, and what the output says was used", () => {
+  const run = (method: Record<string, unknown>) => {
+    const p = parseCase({ ...base(), method: { ...base().method, ...method } });
+    if (!p.ok) throw new Error(p.problems.map((x) => `${x.path}: ${x.message}`).join("; "));
+    return runCase(p.value);
+  };
+
+  it("is honoured and reported, with the engine's default (60) where absent", () => {
+    const coarse = run({ strips: 16 });
+    const fine = run({ strips: 120 });
+    const dflt = run({});
+    expect(coarse.method.strips).toBe(16);
+    expect(fine.method.strips).toBe(120);
+    expect(dflt.method.strips).toBe(60);
+    expect(dflt.method.terms).toBeNull();
+    // A different resolution gives a (slightly) different solve.
+    expect(coarse.cases[0].clAlpha).not.toBe(fine.cases[0].clAlpha);
+    expect(dflt.method.convergence.halfResolution).toBe(30);
+    expect(coarse.method.convergence.halfResolution).toBe(8);
+  });
+
+  it("the convergence estimate (change on halving the strips) is at least the remaining change to 16× the strips, and shrinks as strips grow", () => {
+    // The lattice converges at first order in the strip count (each doubling halves the change), so the change on
+    // halving bounds the distance to the converged solve: Richardson's argument with p = 1 (a geometric series).
+    const at = (n: number) => run({ strips: n, compressibility: "prandtl-glauert" });
+    const r40 = at(40);
+    const r640 = at(640);
+    const trueClAlpha = Math.abs(r40.cases[0].clAlpha / r640.cases[0].clAlpha - 1);
+    expect(r40.method.convergence.clAlpha).toBeGreaterThanOrEqual(trueClAlpha);
+    expect(r40.method.convergence.clAlpha).toBeLessThan(3 * trueClAlpha);
+    expect(at(160).method.convergence.clAlpha).toBeLessThan(r40.method.convergence.clAlpha / 2);
+    expect(r40.method.convergence.rootBending).toBeGreaterThan(0);
+    expect(r40.method.convergence.loading).toBeGreaterThan(0);
+  });
+
+  it("is refused out of range, and with the lifting line (which has no strips)", () => {
+    for (const [strips, rule] of [
+      [4, /at least 8/],
+      [5000, /at most 2000/],
+      [12.5, /whole number/],
+    ] as const) {
+      const p = parseCase({ ...base(), method: { ...base().method, strips } });
+      expect(p.ok ? [] : p.problems).toEqual([{ path: "method.strips", message: expect.stringMatching(rule) }]);
+    }
+    const p = parseCase({ ...base(), method: { ...base().method, spanwise: "lifting-line", strips: 40 } });
+    expect(p.ok ? [] : p.problems).toEqual([{ path: "method.strips", message: expect.stringMatching(/vortex lattice only/) }]);
+    const ll = run({ spanwise: "lifting-line" });
+    expect(ll.method.strips).toBeNull();
+    expect(ll.method.terms).toBe(80);
   });
 });

@@ -2,8 +2,10 @@ import { ENGINE_VERSION } from "../engine/index";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";
 import { evaluateCase } from "../engine/load-case";
 import type { LoadCase } from "../engine/load-case";
-import type { MachSolution, WingModel } from "../engine/superposition";
-import { solveMach } from "../engine/superposition";
+import { LIFTING_LINE_DEFAULT_TERMS } from "../engine/lifting-line";
+import type { MachSolution, ResolutionCheck, SolveOptions, WingModel } from "../engine/superposition";
+import { resolutionCheck, solveMach } from "../engine/superposition";
+import { VORTEX_LATTICE_DEFAULT_STRIPS } from "../engine/vortex-lattice";
 import { RESULT_SCHEMA_ID } from "./schema";
 import type { CaseFile, CaseResult, ResultCase } from "./schema";
 
@@ -29,7 +31,7 @@ export interface RunOptions {
  */
 export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
   const model = wingModelOf(file);
-  const opts = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations };
+  const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
   const solutions = new Map<number, MachSolution>();
   const withStations = options.forceStations || file.method.output === "full";
   let env: ReturnType<typeof createEnvelope> | undefined;
@@ -80,9 +82,28 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
     return out;
   });
   const g = geometry!;
+  // Convergence: halve the resolution at the lowest and the highest Mach number solved.
+  const machs = [...solutions.keys()].sort((a, b) => a - b);
+  const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => resolutionCheck(model, m, opts, solutions.get(m)));
+  const lattice = file.method.spanwise === "vortex-lattice";
+  const resolution = opts.resolution ?? (lattice ? VORTEX_LATTICE_DEFAULT_STRIPS : LIFTING_LINE_DEFAULT_TERMS);
   return {
     schema: RESULT_SCHEMA_ID,
     engine: ENGINE_VERSION,
+    method: {
+      compressibility: file.method.compressibility,
+      spanwise: file.method.spanwise,
+      strips: lattice ? resolution : null,
+      terms: lattice ? null : resolution,
+      stations: file.method.stations,
+      output: file.method.output,
+      convergence: {
+        halfResolution: checks[0].halfResolution,
+        clAlpha: Math.max(...checks.map((c) => c.clAlpha)),
+        rootBending: Math.max(...checks.map((c) => c.rootBending)),
+        loading: Math.max(...checks.map((c) => c.loading)),
+      },
+    },
     wing: {
       area: g.area,
       span: g.span,

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { ISA_MAX_ALTITUDE, ISA_MIN_ALTITUDE } from "../engine/atmosphere";
 import type { EnvelopeRow } from "../engine/envelope";
+import { VORTEX_LATTICE_MAX_STRIPS } from "../engine/vortex-lattice";
 
 /** Schema identifiers of the exchange contract (docs: /work/shared/CASE-EXCHANGE.md). */
 export const CASE_SCHEMA_ID = "spanwright.case/1";
@@ -9,6 +10,8 @@ export const RESULT_SCHEMA_ID = "spanwright.result/1";
 /** Output station count limits per semispan. */
 export const MIN_OUTPUT_STATIONS = 2;
 export const MAX_OUTPUT_STATIONS = 400;
+/** Fewest vortex-lattice strips per semispan accepted in `method.strips`. */
+export const MIN_STRIPS = 8;
 
 const typeError = (what: string) => (iss: { input?: unknown }) => (iss.input === undefined ? "is required" : `must be ${what}`);
 const num = () => z.number({ error: typeError("a number") });
@@ -75,6 +78,11 @@ export const MethodSchema = z.strictObject({
     .max(MAX_OUTPUT_STATIONS, { error: `must be at most ${MAX_OUTPUT_STATIONS}` })
     .default(40),
   output: z.enum(["full", "summary"], { error: 'must be "full" or "summary"' }).default("full"),
+  strips: z
+    .int({ error: typeError("a whole number") })
+    .min(MIN_STRIPS, { error: `must be at least ${MIN_STRIPS} (the convergence estimate compares with half as many)` })
+    .max(VORTEX_LATTICE_MAX_STRIPS, { error: `must be at most ${VORTEX_LATTICE_MAX_STRIPS}` })
+    .optional(),
 });
 
 const altitudeRule = `must be between ${ISA_MIN_ALTITUDE} and ${ISA_MAX_ALTITUDE} m (geopotential, standard atmosphere range)`;
@@ -104,6 +112,9 @@ export const CaseFileSchema = z
     cases: z.array(CaseSchema).min(1, { error: "needs at least 1 case" }),
   })
   .superRefine((file, ctx) => {
+    if (file.method.strips !== undefined && file.method.spanwise === "lifting-line") {
+      ctx.addIssue({ code: "custom", path: ["method", "strips"], message: 'applies to the vortex lattice only; leave it out with "spanwise": "lifting-line"' });
+    }
     const seen = new Set<string>();
     file.cases.forEach((c, i) => {
       const hasAlpha = c.alpha !== undefined;
@@ -174,10 +185,29 @@ export interface ResultCase {
 /** One envelope station of the result: the engine's envelope rows are exactly the contract's. */
 export type ResultEnvelopeStation = EnvelopeRow;
 
+/** What the engine used, as the result states it. */
+export interface ResultMethod {
+  compressibility: CaseFile["method"]["compressibility"];
+  spanwise: CaseFile["method"]["spanwise"];
+  /** Vortex-lattice strips per semispan used (null for the lifting line). */
+  strips: number | null;
+  /** Lifting-line Fourier terms used (null for the vortex lattice). */
+  terms: number | null;
+  stations: number;
+  output: CaseFile["method"]["output"];
+  /**
+   * Convergence estimate: the relative change of CLα, of the root bending moment per unit CL and of
+   * the additional loading when the solve is repeated with half the strips (terms), the largest over
+   * the lowest and highest Mach numbers solved.
+   */
+  convergence: { halfResolution: number; clAlpha: number; rootBending: number; loading: number };
+}
+
 /** The `spanwright.result/1` document. */
 export interface CaseResult {
   schema: typeof RESULT_SCHEMA_ID;
   engine: string;
+  method: ResultMethod;
   wing: {
     area: number;
     span: number;
@@ -190,3 +220,49 @@ export interface CaseResult {
   cases: ResultCase[];
   envelope: ResultEnvelopeStation[];
 }
+
+const n = () => z.number();
+
+/**
+ * The `spanwright.result/1` document as a zod schema (for the published JSON Schema), kept in step
+ * with the TypeScript type by `satisfies`.
+ */
+export const CaseResultSchema = z.object({
+  schema: z.literal(RESULT_SCHEMA_ID),
+  engine: z.string(),
+  method: z.object({
+    compressibility: MethodSchema.shape.compressibility.unwrap(),
+    spanwise: MethodSchema.shape.spanwise.unwrap(),
+    strips: n().nullable(),
+    terms: n().nullable(),
+    stations: n(),
+    output: MethodSchema.shape.output.unwrap(),
+    convergence: z.object({ halfResolution: n(), clAlpha: n(), rootBending: n(), loading: n() }),
+  }),
+  wing: z.object({ area: n(), span: n(), aspectRatio: n(), taperRatio: n(), mac: n(), yMac: n(), xLeMac: n() }),
+  cases: z.array(
+    z.object({
+      id: z.string(),
+      mach: n(),
+      altitude: n(),
+      beta: n(),
+      dynamicPressure: n(),
+      alpha: n(),
+      cl: n(),
+      clAlpha: n(),
+      machCritical: n().nullable(),
+      regime: z.enum(["subcritical", "supercritical", "unchecked"]),
+      warnings: z.array(z.string()),
+      stations: z.array(z.object({ y: n(), chord: n(), cl: n(), cm: n(), lift: n(), shear: n(), bending: n(), torsion: n() })).optional(),
+      root: z.object({ shear: n(), bending: n(), torsion: n() }),
+    }),
+  ),
+  envelope: z.array(
+    z.object({
+      y: n(),
+      shearMax: n(), shearMaxCase: z.string(), shearMin: n(), shearMinCase: z.string(),
+      bendingMax: n(), bendingMaxCase: z.string(), bendingMin: n(), bendingMinCase: z.string(),
+      torsionMax: n(), torsionMaxCase: z.string(), torsionMin: n(), torsionMinCase: z.string(),
+    }),
+  ),
+}) satisfies z.ZodType<CaseResult>;

@@ -96,7 +96,13 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
       axis: { rootChordFraction: planform.axisRoot, tipChordFraction: planform.axisTip },
       ...(mass > 0 ? { mass: { kg: mass, distribution: "chord" as const } } : {}),
     },
-    method: { compressibility: envelope.compressibility, spanwise: envelope.spanwise, stations: envelope.stations, output: envelope.output },
+    method: {
+      compressibility: envelope.compressibility,
+      spanwise: envelope.spanwise,
+      stations: envelope.stations,
+      output: envelope.output,
+      ...(envelope.strips !== undefined ? { strips: envelope.strips } : {}),
+    },
     cases: cases.map((c) => (c.alpha !== undefined ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha } : { id: c.id, mach: c.mach, altitude: c.altitude, weight: c.weight!, nz: c.nz! })),
   };
 }

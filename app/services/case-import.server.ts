@@ -48,6 +48,7 @@ export function stepsFromCaseFile(file: CaseFile): ImportedSteps {
       spanwise: file.method.spanwise,
       stations: file.method.stations,
       output: file.method.output,
+      ...(file.method.strips !== undefined ? { strips: file.method.strips } : {}),
       cases: file.cases.map((c) => ({
         id: c.id,
         kind: "manual",
@@ -77,6 +78,7 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
     case "envelope":
       if (head === "cases") return formatPath(["cases", ...(index === undefined ? [] : [index]), ...rest]);
       if (head === "stations") return "method.stations";
+      if (head === "strips") return "method.strips";
       if (head === "compressibility" || head === "spanwise") return `method.${head}`;
       return "method";
     case "loads":

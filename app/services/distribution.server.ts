@@ -52,7 +52,7 @@ export function distributionView(input: CaseFileInput, caseId: string) {
   const model = wingModelOf(file);
   const loadCase = lc.alpha !== undefined ? { id: lc.id, mach: lc.mach, altitude: lc.altitude, alphaDeg: lc.alpha } : { id: lc.id, mach: lc.mach, altitude: lc.altitude, weightN: lc.weight!, nz: lc.nz! };
   const byRule = RULES.map((rule) => {
-    const sol = solveMach(model, lc.mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations });
+    const sol = solveMach(model, lc.mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips });
     const loads = evaluateCase(sol, loadCase);
     return { rule, sol, loads };
   });

@@ -441,7 +441,7 @@ describe("GET /api/v1/openapi.json", () => {
     const caseFile = doc.components.schemas.CaseFile!;
     expect(Object.keys(caseFile.properties!)).toEqual(expect.arrayContaining(["schema", "title", "wing", "method", "cases"]));
     expect(caseFile.required).toEqual(expect.arrayContaining(["schema", "wing", "cases"]));
-    expect(Object.keys(doc.components.schemas.CaseResult!.properties!)).toEqual(["schema", "engine", "wing", "cases", "envelope"]);
+    expect(Object.keys(doc.components.schemas.CaseResult!.properties!)).toEqual(["schema", "engine", "method", "wing", "cases", "envelope"]);
     // Every $ref points at a component that exists.
     const refs = [...res.text.matchAll(/"\$ref":"#\/components\/schemas\/([^"]+)"/g)].map((m) => m[1]!);
     for (const r of refs) expect(doc.components.schemas).toHaveProperty(r);

@@ -1,44 +1,10 @@
 import { z } from "zod";
-import { CASE_SCHEMA_ID, CaseFileSchema, RESULT_SCHEMA_ID, type CaseResult } from "~/exchange";
+import { CASE_SCHEMA_ID, CaseFileSchema, CaseResultSchema as ResultSchema, RESULT_SCHEMA_ID } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
 import { CASE_STATUSES, STEP_KEYS, STEP_STATUSES } from "~/db/schema";
 import type { Route } from "./+types/openapi";
 import { ImportTargetSchema } from "./case-import";
 import { methodNotAllowed } from "./respond.server";
-
-const n = () => z.number();
-
-/** The `spanwright.result/1` document as a zod schema, kept in step with the TypeScript type by `satisfies`. */
-const ResultSchema = z.object({
-  schema: z.literal(RESULT_SCHEMA_ID),
-  engine: z.string(),
-  wing: z.object({ area: n(), span: n(), aspectRatio: n(), taperRatio: n(), mac: n(), yMac: n(), xLeMac: n() }),
-  cases: z.array(
-    z.object({
-      id: z.string(),
-      mach: n(),
-      altitude: n(),
-      beta: n(),
-      dynamicPressure: n(),
-      alpha: n(),
-      cl: n(),
-      clAlpha: n(),
-      machCritical: n().nullable(),
-      regime: z.enum(["subcritical", "supercritical", "unchecked"]),
-      warnings: z.array(z.string()),
-      stations: z.array(z.object({ y: n(), chord: n(), cl: n(), cm: n(), lift: n(), shear: n(), bending: n(), torsion: n() })).optional(),
-      root: z.object({ shear: n(), bending: n(), torsion: n() }),
-    }),
-  ),
-  envelope: z.array(
-    z.object({
-      y: n(),
-      shearMax: n(), shearMaxCase: z.string(), shearMin: n(), shearMinCase: z.string(),
-      bendingMax: n(), bendingMaxCase: z.string(), bendingMin: n(), bendingMinCase: z.string(),
-      torsionMax: n(), torsionMaxCase: z.string(), torsionMin: n(), torsionMinCase: z.string(),
-    }),
-  ),
-}) satisfies z.ZodType<CaseResult>;
 
 const ErrorSchema = z.object({ error: z.string(), message: z.string() });
 const InvalidCaseSchema = ErrorSchema.extend({
