@@ -1,5 +1,5 @@
 /** Version of the numerical engine, written into every result. */
-export const ENGINE_VERSION = "0.3.0";
+export const ENGINE_VERSION = "0.4.0";
 
 export { EngineError, isEngineError } from "./errors";
 export type { EngineErrorCode } from "./errors";
@@ -9,7 +9,7 @@ export * from "./planform";
 export * from "./sections";
 export type { SpanwiseMethod, SpanwiseOptions, SpanwiseResult, SpanwiseSystem, CompressibleSection } from "./spanwise";
 export { compressibleSectionAt, sectionCriticalMach } from "./spanwise";
-export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS } from "./lifting-line";
+export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS, LIFTING_LINE_MAX_SWEEP_DEG } from "./lifting-line";
 export type { LiftingLineResult } from "./lifting-line";
 export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS, VORTEX_LATTICE_MAX_STRIPS } from "./vortex-lattice";
 export * from "./loads";

@@ -100,8 +100,11 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
   if (sol.machCritical !== null) {
     regime = lc.mach < sol.machCritical ? "subcritical" : "supercritical";
     if (regime === "supercritical") {
+      const swept = sol.machCriticalSwept !== null && sol.machCriticalSwept > sol.machCritical + 1e-9
+        ? ` (by simple sweep theory, cos Λ, which is optimistic, it would be ${sol.machCriticalSwept >= 1 ? "above 1" : sol.machCriticalSwept.toFixed(4)})`
+        : "";
       warnings.push(
-        `Mach ${lc.mach} is at or above the critical Mach number ${sol.machCritical.toFixed(4)} (${sol.rule}): the subsonic compressibility rules are outside their validity; results are computed anyway`,
+        `Mach ${lc.mach} is at or above the critical Mach number ${sol.machCritical.toFixed(4)} (${sol.rule}, unswept sections, conservative)${swept}: the subsonic compressibility rules are outside their validity; results are computed anyway`,
       );
     }
   }

@@ -2,7 +2,7 @@ import { ISA } from "./atmosphere";
 import type { CompressibilityRule } from "./compressibility";
 import { criticalMach } from "./compressibility";
 import { EngineError } from "./errors";
-import { LIFTING_LINE_DEFAULT_TERMS, buildLiftingLine } from "./lifting-line";
+import { LIFTING_LINE_DEFAULT_TERMS, LIFTING_LINE_WARN_SWEEP_DEG, buildLiftingLine } from "./lifting-line";
 import type { BeamLoads, PointForce } from "./loads";
 import { addPointForces, beamLoads, integrate, integrateProduct } from "./loads";
 import type { WingGeometry, WingStation } from "./planform";
@@ -80,6 +80,14 @@ export interface MachSolution {
   scale: number[];
   clMax: (number | null)[];
   stationMachCritical: (number | null)[];
+  /**
+   * Simple sweep theory (Busemann): the section's critical Mach number divided by the cosine of the
+   * local quarter-chord sweep, per station and its lowest over the span. Optimistic (it ignores the
+   * tip and root and the flow along the span), so it is shown beside the conservative unswept value,
+   * which alone decides the regime.
+   */
+  stationMachCriticalSwept: (number | null)[];
+  machCriticalSwept: number | null;
   /** The straight reference axis the bending and torsion below are resolved about. */
   axis: ReferenceAxis;
   /**
@@ -204,9 +212,9 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
   const warnings: string[] = [];
   if (opts.spanwise === "lifting-line") {
     const maxSweep = Math.max(...g.panels.map((p) => Math.abs(p.sweepQuarterChordDeg)));
-    if (maxSweep > 10) {
+    if (maxSweep > LIFTING_LINE_WARN_SWEEP_DEG) {
       warnings.push(
-        `quarter-chord sweep reaches ${maxSweep.toFixed(1)}°: the lifting line is meant for small sweep; the vortex lattice is recommended`,
+        `quarter-chord sweep reaches ${maxSweep.toFixed(1)}°: the lifting line does not model sweep and over-states the lift slope by about 1–2.5 % here; the vortex lattice is recommended`,
       );
     }
   }
@@ -254,6 +262,16 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     ...stationMachCritical.filter((v): v is number => v !== null),
     ...st.filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!)),
   ];
+  // Quarter-chord sweep of the panel holding each output station (inner panel at a break).
+  const cosSweepAt = (y: number) => {
+    const p = g.panels.find((q) => y <= q.yOuter) ?? g.panels[g.panels.length - 1];
+    return Math.cos((p.sweepQuarterChordDeg * Math.PI) / 180);
+  };
+  const stationMachCriticalSwept = stationMachCritical.map((m, i) => (m === null ? null : m / cosSweepAt(yOut[i])));
+  const sweptAtBreaks = g.panels.flatMap((p, i) =>
+    [st[i], st[i + 1]].filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!) / Math.cos((p.sweepQuarterChordDeg * Math.PI) / 180)),
+  );
+  const mcrSwept = [...stationMachCriticalSwept.filter((v): v is number => v !== null), ...sweptAtBreaks];
   const mbar = g.meanGeometricChord;
   return {
     mach,
@@ -273,6 +291,8 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     scale: pick(secs.map((x) => x.scale), idx),
     clMax: idx.map((i) => secs[i].clMax ?? null),
     stationMachCritical,
+    stationMachCriticalSwept,
+    machCriticalSwept: mcrSwept.length ? Math.min(...mcrSwept) : null,
     basicPerQ: pickLoads(basic, idx, axis),
     additionalPerQ: pickLoads(add, idx, axis),
     massPerNz: pickLoads(massLoads, idx, axis),
