@@ -54,6 +54,21 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(lines.some((l) => l.startsWith("cases[0].colour: "))).toBe(true);
   });
 
+  it("carries mass items, mass cases and the tail load: root shear = (nz·W − P)/2 − nz·g·m (beam statics)", () => {
+    const withMass = structuredClone(doc) as Record<string, unknown> & typeof doc;
+    (withMass.wing as Record<string, unknown>).mass = { items: [{ id: "engine", kg: 400, x: 0.6, y: 3 }, { id: "tank", kg: 500, x: 0.8, yFrom: 1, yTo: 5 }] };
+    withMass.massCases = [{ id: "reserve", fill: { tank: 0.2 } }];
+    Object.assign(withMass.cases[0], { massCase: "reserve", tailLoad: -3000 });
+    const r = run(["-"], JSON.stringify(withMass));
+    expect(r.status).toBe(0);
+    // (1·62 000 + 3000)/2 − 1·9.80665·(400 + 0.2·500) = 32 500 − 4903.325 N.
+    expect(JSON.parse(r.stdout).cases[0].root.shear).toBeCloseTo(32500 - 4903.325, 3);
+    Object.assign(withMass.cases[0], { massCase: "full" });
+    const bad = run(["-"], JSON.stringify(withMass));
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toContain('cases[0].massCase: names no mass case of massCases ("full")');
+  });
+
   it("fails clearly for a missing file and for invalid JSON", () => {
     const m = run([join(dir, "nope.json")]);
     expect(m.status).not.toBe(0);

@@ -13,6 +13,9 @@ export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS, LIFTING_LINE_MAX_SWEEP_DE
 export type { LiftingLineResult } from "./lifting-line";
 export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS, VORTEX_LATTICE_MAX_STRIPS } from "./vortex-lattice";
 export * from "./loads";
+export * from "./mass";
+export * from "./balance";
+export * from "./gust-response";
 export * from "./superposition";
 export * from "./load-case";
 export * from "./envelope";

@@ -1,12 +1,18 @@
 import { ISA, isa } from "./atmosphere";
 import { EngineError } from "./errors";
+import type { MassCase, StationLoads } from "./mass";
+import { inertiaRelief } from "./mass";
 import type { MachSolution } from "./superposition";
 import { DEG } from "./spanwise";
 
-/** One flight condition: by root-chord angle of attack, or trimmed to L = nz·W. */
+/**
+ * One flight condition: by root-chord angle of attack, or trimmed so that the wing carries
+ * nz·W − tail load (N, whole aircraft, tail load positive up). `massCase` scales the mass items
+ * (all at full mass where absent).
+ */
 export type LoadCase =
-  | { id: string; mach: number; altitude: number; alphaDeg: number }
-  | { id: string; mach: number; altitude: number; weightN: number; nz: number };
+  | { id: string; mach: number; altitude: number; alphaDeg: number; massCase?: MassCase }
+  | { id: string; mach: number; altitude: number; weightN: number; nz: number; tailLoadN?: number; massCase?: MassCase };
 
 /** Loads of one case at the output stations (per semispan, net of inertia relief where applied). */
 export interface CaseLoads {
@@ -24,6 +30,14 @@ export interface CaseLoads {
   /** Load factor used for inertia relief, or null for a case given by α. */
   nz: number | null;
   inertiaApplied: boolean;
+  /** Mass case id, or null where every item counts fully. */
+  massCase: string | null;
+  /** Balancing tail load, N, whole aircraft, positive up (0 where not given or for a case by α). */
+  tailLoad: number;
+  /** Lift of the whole wing (both sides), N: nz·W − tail load when trimmed, q·S·CL otherwise. */
+  wingLift: number;
+  /** Inertia relief at the stations (N, N·m), the amount taken off the aerodynamic loads; zero when not applied. */
+  relief: StationLoads;
   /** Indices of output stations whose cl exceeds the section clMax. */
   clMaxExceeded: number[];
   machCritical: number | null;
@@ -58,20 +72,27 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
   let CL: number;
   let alphaDeg: number;
   let nz: number | null = null;
+  let tailLoad = 0;
   if ("alphaDeg" in lc) {
     alphaDeg = lc.alphaDeg;
     CL = sol.clAlphaPerRad * (alphaDeg - sol.alphaZeroLiftDeg) * DEG;
     if (sol.massKg > 0) {
       warnings.push("case given by alpha: the load factor is unknown, so inertia relief is not applied (aerodynamic loads only)");
     }
+    if (lc.massCase) warnings.push(`case given by alpha: its mass case "${lc.massCase.id}" has no effect (no inertia relief without a load factor)`);
   } else {
     if (!(q > 0)) throw new EngineError("invalid-argument", "must be above 0 for a case given by weight and nz (no dynamic pressure to trim)", `${field}.mach`);
     nz = lc.nz;
-    CL = (lc.nz * lc.weightN) / (q * S);
+    tailLoad = lc.tailLoadN ?? 0;
+    if (!Number.isFinite(tailLoad)) throw new EngineError("invalid-argument", "must be a finite number (N)", `${field}.tailLoad`);
+    CL = (lc.nz * lc.weightN - tailLoad) / (q * S);
     alphaDeg = sol.alphaZeroLiftDeg + CL / sol.clAlphaPerRad / DEG;
   }
   const n = sol.y.length;
-  const relief = nz !== null && sol.massKg > 0 ? nz : 0;
+  const applied = nz !== null && sol.massKg > 0;
+  const r = applied
+    ? inertiaRelief(sol.massPerNz, sol.itemsPerNz, nz!, lc.massCase)
+    : { shear: new Array<number>(n).fill(0), bending: new Array<number>(n).fill(0), torsion: new Array<number>(n).fill(0) };
   const lift = new Array<number>(n);
   const cl = new Array<number>(n);
   const shear = new Array<number>(n);
@@ -79,14 +100,13 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
   const torsion = new Array<number>(n);
   const b = sol.basicPerQ;
   const a = sol.additionalPerQ;
-  const m = sol.massPerNz;
   for (let i = 0; i < n; i++) {
     const ccl = sol.cclBasic[i] + CL * sol.cclAdditional[i];
     lift[i] = q * ccl;
     cl[i] = ccl / sol.chord[i];
-    shear[i] = q * (b.shear[i] + CL * a.shear[i]) - relief * m.shear[i];
-    bending[i] = q * (b.bending[i] + CL * a.bending[i]) - relief * m.bending[i];
-    torsion[i] = q * (b.torsion[i] + CL * a.torsion[i]) - relief * m.torsion[i];
+    shear[i] = q * (b.shear[i] + CL * a.shear[i]) - r.shear[i];
+    bending[i] = q * (b.bending[i] + CL * a.bending[i]) - r.bending[i];
+    torsion[i] = q * (b.torsion[i] + CL * a.torsion[i]) - r.torsion[i];
   }
   const clMaxExceeded: number[] = [];
   for (let i = 0; i < n; i++) {
@@ -118,7 +138,11 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     CL,
     clAlphaPerRad: sol.clAlphaPerRad,
     nz,
-    inertiaApplied: relief !== 0,
+    inertiaApplied: applied,
+    massCase: lc.massCase?.id ?? null,
+    tailLoad,
+    wingLift: q * S * CL,
+    relief: r,
     clMaxExceeded,
     machCritical: sol.machCritical,
     regime,

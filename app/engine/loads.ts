@@ -47,27 +47,6 @@ export function beamLoads(
   return { shear, bending, torsion };
 }
 
-/** An upward point force (N) at (y, x), e.g. a mass's weight per unit load factor. */
-export interface PointForce {
-  y: number;
-  x: number;
-  force: number;
-}
-
-/**
- * Add point forces to beam loads in place: each acts on every station strictly inboard of it.
- */
-export function addPointForces(loads: BeamLoads, y: ArrayLike<number>, xRef: ArrayLike<number>, points: readonly PointForce[]): void {
-  for (const p of points) {
-    for (let k = 0; k < y.length; k++) {
-      if (!(p.y > y[k])) continue;
-      loads.shear[k] += p.force;
-      loads.bending[k] += p.force * (p.y - y[k]);
-      loads.torsion[k] += p.force * (xRef[k] - p.x);
-    }
-  }
-}
-
 /** Trapezoid integral of piecewise-linear values over the nodes. */
 export function integrate(y: ArrayLike<number>, f: ArrayLike<number>): number {
   let s = 0;

@@ -3,20 +3,15 @@ import type { CompressibilityRule } from "./compressibility";
 import { criticalMach } from "./compressibility";
 import { EngineError } from "./errors";
 import { LIFTING_LINE_DEFAULT_TERMS, LIFTING_LINE_WARN_SWEEP_DEG, buildLiftingLine } from "./lifting-line";
-import type { BeamLoads, PointForce } from "./loads";
-import { addPointForces, beamLoads, integrate, integrateProduct } from "./loads";
+import type { BeamLoads } from "./loads";
+import { beamLoads, integrate, integrateProduct } from "./loads";
+import type { ItemUnitLoads, MassItem } from "./mass";
+import { itemUnitLoads, itemsMassKg, validateMassItems } from "./mass";
 import type { WingGeometry, WingStation } from "./planform";
 import { sectionAt, validateStations, wingGeometry } from "./planform";
 import type { SpanwiseMethod, SpanwiseSystem } from "./spanwise";
 import { DEG, compressibleSectionAt } from "./spanwise";
 import { VORTEX_LATTICE_DEFAULT_STRIPS, buildVortexLattice } from "./vortex-lattice";
-
-/** A concentrated mass on one semispan (internal API): position m, mass kg. */
-export interface PointMass {
-  y: number;
-  x: number;
-  kg: number;
-}
 
 /** The wing as the engine sees it: planform + sections, torsion axis, semispan structural mass. */
 export interface WingModel {
@@ -25,7 +20,8 @@ export interface WingModel {
   axis?: { rootChordFraction: number; tipChordFraction: number };
   /** Structural mass of one semispan, kg, spread in proportion to chord and located on the reference axis. */
   massKg?: number;
-  pointMasses?: PointMass[];
+  /** Point and spread masses of one semispan at full mass (scaled per case by its mass case). */
+  massItems?: MassItem[];
 }
 
 /** How to solve the spanwise problem. */
@@ -100,10 +96,12 @@ export interface MachSolution {
   additionalPerQ: UnitLoads;
   /** Loads of the structural mass per unit load factor (its weight, upward positive). */
   massPerNz: UnitLoads;
+  /** Loads of each mass item at full mass per unit load factor (its weight, upward positive). */
+  itemsPerNz: ItemUnitLoads[];
   /** Whole-wing pitching-moment integrals for Cm about any point: see wingPitchingMoment. */
   moments: { cmTerm: number; basicX: number; additionalX: number };
   geometry: WingGeometry;
-  /** Semispan structural mass including point masses, kg. */
+  /** Semispan mass at full fill: structure plus every item, kg. */
   massKg: number;
 }
 
@@ -246,8 +244,14 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
   // Structural mass: weight per unit load factor, spread ∝ chord, on the reference axis.
   const massDist = model.massKg ? chord.map((c) => (model.massKg! * c * ISA.g0) / halfArea) : new Array(K).fill(0);
   const massLoads = beamLoads(grid, massDist, xRef, xRef);
-  const points: PointForce[] = (model.pointMasses ?? []).map((p) => ({ y: p.y, x: p.x, force: p.kg * ISA.g0 }));
-  addPointForces(massLoads, grid, xRef, points);
+  const items = model.massItems ?? [];
+  validateMassItems(items, s);
+  const xRefOut = yOut.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
+  const itemsPerNz = items.map((it) => {
+    const loads = itemUnitLoads(it, yOut, xRefOut);
+    resolveAboutAxis(loads, axis);
+    return { id: it.id, kg: it.kg, loads };
+  });
   const singular = secs.filter((x) => x.singular);
   if (singular.length > 0) {
     warnings.push(
@@ -297,13 +301,14 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     additionalPerQ: pickLoads(add, idx, axis),
     massPerNz: pickLoads(massLoads, idx, axis),
     axis,
+    itemsPerNz,
     moments: {
       cmTerm: integrate(grid, cmTerm),
       basicX: integrateProduct(grid, cclb, xAc),
       additionalX: integrateProduct(grid, ccla, xAc),
     },
     geometry: g,
-    massKg: (model.massKg ?? 0) + (model.pointMasses ?? []).reduce((a, p) => a + p.kg, 0),
+    massKg: (model.massKg ?? 0) + itemsMassKg(items),
   };
 }
 
@@ -364,7 +369,7 @@ export function resolutionCheck(model: WingModel, mach: number, opts: SolveOptio
   const resolution = opts.resolution ?? (opts.spanwise === "lifting-line" ? LIFTING_LINE_DEFAULT_TERMS : VORTEX_LATTICE_DEFAULT_STRIPS);
   const halfResolution = Math.max(2, Math.floor(resolution / 2));
   const a = full ?? solveMach(model, mach, { ...opts, resolution });
-  const b = solveMach({ ...model, massKg: undefined, pointMasses: undefined }, mach, { ...opts, resolution: halfResolution });
+  const b = solveMach({ ...model, massKg: undefined, massItems: undefined }, mach, { ...opts, resolution: halfResolution });
   const peak = Math.max(...a.cclAdditional.map(Math.abs));
   let loading = 0;
   for (let i = 0; i < a.cclAdditional.length; i++) loading = Math.max(loading, Math.abs(a.cclAdditional[i] - b.cclAdditional[i]) / peak);

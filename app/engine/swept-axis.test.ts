@@ -78,7 +78,7 @@ describe("loads resolved about a swept reference axis (CASE-EXCHANGE: streamwise
     const xp = 4.1;
     const kg = 500;
     const bare = solveMach({ stations, axis: axisFractions }, 0.45, opts);
-    const loaded = solveMach({ stations, axis: axisFractions, pointMasses: [{ y: yp, x: xp, kg }] }, 0.45, opts);
+    const loaded = solveMach({ stations, axis: axisFractions, massItems: [{ id: "store", y: yp, x: xp, kg }] }, 0.45, opts);
     const lc = { id: "n", mach: 0.45, altitude: 1000, weightN: 90000, nz: 3 };
     const a = evaluateCase(bare, lc);
     const b = evaluateCase(loaded, lc);
@@ -100,7 +100,7 @@ describe("loads resolved about a swept reference axis (CASE-EXCHANGE: streamwise
   it("a mass on the axis adds no torsion about it, only bending (statics)", () => {
     const yp = 5;
     const bare = solveMach({ stations, axis: axisFractions }, 0.45, { ...opts, stations: 40 });
-    const loaded = solveMach({ stations, axis: axisFractions, pointMasses: [{ y: yp, x: axisX(yp), kg: 400 }] }, 0.45, { ...opts, stations: 40 });
+    const loaded = solveMach({ stations, axis: axisFractions, massItems: [{ id: "store", y: yp, x: axisX(yp), kg: 400 }] }, 0.45, { ...opts, stations: 40 });
     const lc = { id: "n", mach: 0.45, altitude: 1000, weightN: 90000, nz: 2 };
     const a = evaluateCase(bare, lc);
     const b = evaluateCase(loaded, lc);

@@ -3,6 +3,7 @@ import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope"
 import { evaluateCase } from "../engine/load-case";
 import type { LoadCase } from "../engine/load-case";
 import { LIFTING_LINE_DEFAULT_TERMS } from "../engine/lifting-line";
+import type { MassCase, MassItem } from "../engine/mass";
 import type { MachSolution, ResolutionCheck, SolveOptions, WingModel } from "../engine/superposition";
 import { resolutionCheck, solveMach } from "../engine/superposition";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "../engine/vortex-lattice";
@@ -15,7 +16,13 @@ export function wingModelOf(file: CaseFile): WingModel {
     stations: file.wing.stations.map((s) => ({ ...s })),
     axis: { ...file.wing.axis },
     massKg: file.wing.mass?.kg,
+    massItems: file.wing.mass?.items?.map(massItemOf),
   };
+}
+
+/** The engine's mass item for a contract item (point where `y` is given, spread otherwise). */
+export function massItemOf(it: NonNullable<NonNullable<CaseFile["wing"]["mass"]>["items"]>[number]): MassItem {
+  return it.y !== undefined ? { id: it.id, kg: it.kg, x: it.x, y: it.y } : { id: it.id, kg: it.kg, x: it.x, yFrom: it.yFrom!, yTo: it.yTo! };
 }
 
 /** Options for runCase beyond the contract. */
@@ -36,6 +43,7 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
   const withStations = options.forceStations || file.method.output === "full";
   let env: ReturnType<typeof createEnvelope> | undefined;
   let geometry: MachSolution["geometry"] | undefined;
+  const massCases = new Map<string, MassCase>((file.massCases ?? []).map((mc) => [mc.id, mc]));
   const cases: ResultCase[] = file.cases.map((c, i) => {
     let sol = solutions.get(c.mach);
     if (!sol) {
@@ -43,10 +51,11 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
       solutions.set(c.mach, sol);
     }
     geometry ??= sol.geometry;
+    const massCase = c.massCase !== undefined ? massCases.get(c.massCase) : undefined;
     const lc: LoadCase =
       c.alpha !== undefined
-        ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha }
-        : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz! };
+        ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha, massCase }
+        : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz!, tailLoadN: c.tailLoad, massCase };
     const r = evaluateCase(sol, lc, `cases[${i}]`);
     env ??= createEnvelope(r.y);
     addToEnvelope(env, r.id, r);

@@ -37,9 +37,57 @@ export const AxisSchema = z.strictObject({
   tipChordFraction: fraction.default(0.25),
 });
 
-export const MassSchema = z.strictObject({
-  kg: num().gt(0, { error: "must be greater than 0 (kg, one semispan)" }),
-  distribution: z.literal("chord", { error: 'must be "chord" (mass spread in proportion to chord)' }).default("chord"),
+const itemId = z.string({ error: typeError("a string") }).min(1, { error: "must not be empty" });
+
+/**
+ * One mass item of a semispan: a point mass `{ id, kg, x, y }` or a mass spread evenly over a span
+ * range `{ id, kg, x, yFrom, yTo }`. One object schema with the position fields optional keeps every
+ * refusal naming its field (a union would only say "no match").
+ */
+export const MassItemSchema = z
+  .strictObject({
+    id: itemId,
+    kg: num().min(0, { error: "must be 0 or more (kg)" }),
+    x: num(),
+    y: num().optional(),
+    yFrom: num().optional(),
+    yTo: num().optional(),
+  })
+  .superRefine((it, ctx) => {
+    const point = it.y !== undefined;
+    const spread = it.yFrom !== undefined || it.yTo !== undefined;
+    if (point && spread) {
+      ctx.addIssue({ code: "custom", path: ["y"], message: "give either y (a point mass) or yFrom with yTo (a spread mass), not both" });
+    } else if (!point && !spread) {
+      ctx.addIssue({ code: "custom", path: ["y"], message: "is required: give y (a point mass) or yFrom with yTo (a spread mass)" });
+    } else if (spread && (it.yFrom === undefined || it.yTo === undefined)) {
+      ctx.addIssue({ code: "custom", path: [it.yFrom === undefined ? "yFrom" : "yTo"], message: "is required with the other of yFrom and yTo" });
+    } else if (spread && !(it.yTo! > it.yFrom!)) {
+      ctx.addIssue({ code: "custom", path: ["yTo"], message: "must be greater than yFrom" });
+    }
+  });
+
+export const MassSchema = z
+  .strictObject({
+    kg: num().gt(0, { error: "must be greater than 0 (kg, one semispan)" }).optional(),
+    distribution: z.literal("chord", { error: 'must be "chord" (mass spread in proportion to chord)' }).default("chord"),
+    items: z.array(MassItemSchema).optional(),
+  })
+  .superRefine((m, ctx) => {
+    if (m.kg === undefined && !m.items?.length) {
+      ctx.addIssue({ code: "custom", path: ["kg"], message: "is required where no items are given" });
+    }
+    const seen = new Set<string>();
+    m.items?.forEach((it, i) => {
+      if (seen.has(it.id)) ctx.addIssue({ code: "custom", path: ["items", i, "id"], message: `must be unique ("${it.id}" repeats)` });
+      seen.add(it.id);
+    });
+  });
+
+/** A named mass state: fill factor (0–1) per item id; items not named count fully. */
+export const MassCaseSchema = z.strictObject({
+  id: itemId,
+  fill: z.record(z.string(), num().min(0, { error: "must be between 0 and 1 (a fill factor)" }).max(1, { error: "must be between 0 and 1 (a fill factor)" })),
 });
 
 export const WingSchema = z
@@ -59,6 +107,14 @@ export const WingSchema = z
           path: ["stations", i, "y"],
           message: `must be greater than the previous station's y (${w.stations[i - 1].y}); y is strictly increasing`,
         });
+      }
+    });
+    const semispan = w.stations[w.stations.length - 1]?.y ?? 0;
+    const inside = `must lie inside the semispan, 0 to ${semispan} m`;
+    w.mass?.items?.forEach((it, i) => {
+      for (const k of ["y", "yFrom", "yTo"] as const) {
+        const v = it[k];
+        if (v !== undefined && !(v >= 0 && v <= semispan)) ctx.addIssue({ code: "custom", path: ["mass", "items", i, k], message: inside });
       }
     });
   });
@@ -96,6 +152,8 @@ export const CaseSchema = z.strictObject({
   alpha: num().optional(),
   weight: num().gt(0, { error: "must be greater than 0 (N, whole aircraft)" }).optional(),
   nz: num().optional(),
+  massCase: z.string({ error: typeError("a string") }).optional(),
+  tailLoad: num().optional(),
 });
 
 export const CaseFileSchema = z
@@ -109,14 +167,30 @@ export const CaseFileSchema = z
       stations: 40,
       output: "full",
     }),
+    massCases: z.array(MassCaseSchema).optional(),
     cases: z.array(CaseSchema).min(1, { error: "needs at least 1 case" }),
   })
   .superRefine((file, ctx) => {
     if (file.method.strips !== undefined && file.method.spanwise === "lifting-line") {
       ctx.addIssue({ code: "custom", path: ["method", "strips"], message: 'applies to the vortex lattice only; leave it out with "spanwise": "lifting-line"' });
     }
+    const items = new Set((file.wing.mass?.items ?? []).map((it) => it.id));
+    const massCases = new Set<string>();
+    file.massCases?.forEach((mc, i) => {
+      if (massCases.has(mc.id)) ctx.addIssue({ code: "custom", path: ["massCases", i, "id"], message: `must be unique ("${mc.id}" repeats)` });
+      massCases.add(mc.id);
+      for (const id of Object.keys(mc.fill)) {
+        if (!items.has(id)) ctx.addIssue({ code: "custom", path: ["massCases", i, "fill", id], message: `names no item of wing.mass.items ("${id}")` });
+      }
+    });
     const seen = new Set<string>();
     file.cases.forEach((c, i) => {
+      if (c.massCase !== undefined && !massCases.has(c.massCase)) {
+        ctx.addIssue({ code: "custom", path: ["cases", i, "massCase"], message: `names no mass case of massCases ("${c.massCase}")` });
+      }
+      if (c.tailLoad !== undefined && c.alpha !== undefined) {
+        ctx.addIssue({ code: "custom", path: ["cases", i, "tailLoad"], message: "is only for a case given by weight and nz (a trimmed case)" });
+      }
       const hasAlpha = c.alpha !== undefined;
       const hasW = c.weight !== undefined;
       const hasN = c.nz !== undefined;

@@ -249,6 +249,29 @@ describe("POST /api/v1/analyze", () => {
     expect(await rowCounts()).toEqual(before);
   });
 
+  it("takes mass items, mass cases and tail loads as the command line does, and names a bad one", async () => {
+    const file = example("kf60-tern-wing") as { wing: { stations: { y: number }[]; mass?: Record<string, unknown> }; cases: Record<string, unknown>[] } & Record<string, unknown>;
+    const semispan = file.wing.stations[file.wing.stations.length - 1]!.y;
+    file.wing.mass = { kg: 200, items: [{ id: "nacelle", kg: 310, x: 0.4, y: 0.3 * semispan }, { id: "tank", kg: 420, x: 0.9, yFrom: 0.1 * semispan, yTo: 0.6 * semispan }] };
+    file.massCases = [{ id: "zero-fuel", fill: { tank: 0 } }];
+    const trimmed = file.cases.filter((c) => c.weight !== undefined);
+    trimmed[0]!.massCase = "zero-fuel";
+    trimmed[0]!.tailLoad = -4200;
+    const parsed = parseCase(file);
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
+    const res = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost(file) });
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+
+    trimmed[0]!.massCase = "reserve";
+    const before = await rowCounts();
+    const bad = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost(file) });
+    expect(bad.status).toBe(422);
+    const problems = bad.body!.problems as { path: string; message: string }[];
+    expect(problems.find((p) => p.path === `cases[${file.cases.indexOf(trimmed[0]!)}].massCase`)!.message).toMatch(/names no mass case/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
   it("refuses a body that is not JSON with 400 and one over 20 MB with 413", async () => {
     const bad = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, method: "POST", headers: { "Content-Type": "application/json" }, body: "{ not json" });
     expect(bad.status).toBe(400);
