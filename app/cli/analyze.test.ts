@@ -69,6 +69,21 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(bad.stderr).toContain('cases[0].massCase: names no mass case of massCases ("full")');
   });
 
+  it("refuses an overflowing weight (it answered null loads with exit status 0) and an impossible sweep, naming the field", () => {
+    const heavy = structuredClone(doc) as typeof doc & { cases: Record<string, unknown>[] };
+    heavy.cases[0].weight = 1e308;
+    const r = run(["-"], JSON.stringify(heavy));
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe("");
+    expect(r.stderr).toMatch(/^cases\[0\]\.weight: must be at most/m);
+    const swept = structuredClone(doc);
+    swept.wing.stations[1].xLe = 8.7 * Math.tan((89 * Math.PI) / 180);
+    swept.method.spanwise = "vortex-lattice";
+    const s = run(["-"], JSON.stringify(swept));
+    expect(s.status).toBe(2);
+    expect(s.stderr).toMatch(/^wing\.stations\[1\]\.xLe: .*sweep of 89\.0°/m);
+  });
+
   it("fails clearly for a missing file and for invalid JSON", () => {
     const m = run([join(dir, "nope.json")]);
     expect(m.status).not.toBe(0);

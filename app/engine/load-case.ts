@@ -2,6 +2,7 @@ import { ISA, isa } from "./atmosphere";
 import { EngineError } from "./errors";
 import type { MassCase, StationLoads } from "./mass";
 import { inertiaRelief } from "./mass";
+import { PLAUSIBLE } from "./plausibility";
 import type { MachSolution } from "./superposition";
 import { DEG } from "./spanwise";
 
@@ -73,7 +74,11 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
   let alphaDeg: number;
   let nz: number | null = null;
   let tailLoad = 0;
+  const P = PLAUSIBLE;
   if ("alphaDeg" in lc) {
+    if (!(Math.abs(lc.alphaDeg) <= P.alphaDeg.max)) {
+      throw new EngineError("invalid-argument", `${lc.alphaDeg}° is beyond ±${P.alphaDeg.max}°, where the linear, attached-flow methods mean nothing`, `${field}.alpha`);
+    }
     alphaDeg = lc.alphaDeg;
     CL = sol.clAlphaPerRad * (alphaDeg - sol.alphaZeroLiftDeg) * DEG;
     if (sol.massKg > 0) {
@@ -82,11 +87,46 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     if (lc.massCase) warnings.push(`case given by alpha: its mass case "${lc.massCase.id}" has no effect (no inertia relief without a load factor)`);
   } else {
     if (!(q > 0)) throw new EngineError("invalid-argument", "must be above 0 for a case given by weight and nz (no dynamic pressure to trim)", `${field}.mach`);
+    if (!(lc.weightN > 0 && lc.weightN <= P.weight.max)) {
+      throw new EngineError("invalid-argument", `${lc.weightN} N is outside 0 to ${P.weight.max.toExponential(0)} N (about 2000 t, three times the heaviest aeroplane built)`, `${field}.weight`);
+    }
+    if (!(Math.abs(lc.nz) <= P.nz.max)) throw new EngineError("invalid-argument", `${lc.nz} is beyond ±${P.nz.max}, more than any aircraft structure is designed for`, `${field}.nz`);
+    // The wing's own mass in this case's mass state (items scaled by their fill).
+    const wingKg = sol.massKg - sol.itemsPerNz.reduce((a, it) => a + it.kg * (1 - (lc.massCase?.fill[it.id] ?? 1)), 0);
+    if (2 * wingKg * ISA.g0 > lc.weightN) {
+      throw new EngineError(
+        "invalid-argument",
+        `${lc.weightN} N is less than the weight of the wing's own masses (2 × ${wingKg.toPrecision(6)} kg × g = ${(2 * wingKg * ISA.g0).toFixed(0)} N): the aircraft cannot weigh less than its wing`,
+        `${field}.weight`,
+      );
+    }
     nz = lc.nz;
     tailLoad = lc.tailLoadN ?? 0;
     if (!Number.isFinite(tailLoad)) throw new EngineError("invalid-argument", "must be a finite number (N)", `${field}.tailLoad`);
     CL = (lc.nz * lc.weightN - tailLoad) / (q * S);
     alphaDeg = sol.alphaZeroLiftDeg + CL / sol.clAlphaPerRad / DEG;
+    if (!(Math.abs(alphaDeg) <= P.alphaDeg.max)) {
+      throw new EngineError(
+        "invalid-argument",
+        `the wing would need CL = ${CL.toPrecision(4)} (root-chord α = ${alphaDeg.toPrecision(4)}°) to carry nz·W − P = ${(lc.nz * lc.weightN - tailLoad).toPrecision(4)} N at Mach ${lc.mach}, ${lc.altitude} m; beyond ±${P.alphaDeg.max}° the linear, attached-flow methods mean nothing: check weight, nz, tail load, Mach and altitude`,
+        `${field}.nz`,
+      );
+    }
+    if (lc.nz > P.nz.warnMax || lc.nz < P.nz.warnMin) warnings.push(`load factor ${lc.nz} is unusual (outside ${P.nz.warnMin} to ${P.nz.warnMax})`);
+    const wS = lc.weightN / S;
+    if (wS < P.wingLoading.warnMin || wS > P.wingLoading.warnMax) {
+      warnings.push(`wing loading W/S = ${wS.toPrecision(4)} N/m² is unusual (outside ${P.wingLoading.warnMin} to ${P.wingLoading.warnMax} N/m²): check the weight (N, whole aircraft) against the wing area`);
+    }
+  }
+  const kind = "alphaDeg" in lc ? "angle of attack" : "trimmed angle of attack";
+  if (sol.stall !== null) {
+    if (alphaDeg > sol.stall.alphaDeg) {
+      warnings.push(
+        `the ${kind} ${alphaDeg.toFixed(2)}° is beyond the sections' stall: the first station reaches its clMax at ${sol.stall.alphaDeg.toFixed(2)}° (y = ${sol.stall.y.toFixed(3)} m), so the wing cannot carry this case in attached flow`,
+      );
+    }
+  } else if (Math.abs(alphaDeg) > P.alphaDeg.warnNoClMax) {
+    warnings.push(`the ${kind} ${alphaDeg.toFixed(2)}° is beyond the stall of usual sections (about ${P.alphaDeg.warnNoClMax}°) and no clMax is given to check it`);
   }
   const n = sol.y.length;
   const applied = nz !== null && sol.massKg > 0;
@@ -128,7 +168,7 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
       );
     }
   }
-  return {
+  const out: CaseLoads = {
     id: lc.id,
     mach: lc.mach,
     altitude: lc.altitude,
@@ -157,4 +197,17 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     torsion,
     root: { shear: shear[0], bending: bending[0], torsion: torsion[0] },
   };
+  assertFinite(out, field);
+  return out;
+}
+
+/**
+ * The contract promises no NaN or Infinity where a number is documented: an input that would give one
+ * (an overflow the ranges did not catch) is refused naming the case, never answered.
+ */
+function assertFinite(c: CaseLoads, field: string): void {
+  const scalars = [c.dynamicPressure, c.alphaDeg, c.CL, c.clAlphaPerRad, c.beta];
+  const arrays = [c.cl, c.cm, c.lift, c.shear, c.bending, c.torsion];
+  if (scalars.every(Number.isFinite) && arrays.every((a) => a.every(Number.isFinite))) return;
+  throw new EngineError("no-solution", "the case gives numbers too large to represent (an overflow): check its weight, nz, Mach and altitude", field);
 }

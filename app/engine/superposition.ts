@@ -9,6 +9,7 @@ import type { ItemUnitLoads, MassItem } from "./mass";
 import { itemUnitLoads, itemsMassKg, validateMassItems } from "./mass";
 import type { WingGeometry, WingStation } from "./planform";
 import { sectionAt, validateStations, wingGeometry } from "./planform";
+import { PLAUSIBLE, wingPlausibility } from "./plausibility";
 import type { SpanwiseMethod, SpanwiseSystem } from "./spanwise";
 import { DEG, compressibleSectionAt } from "./spanwise";
 import { VORTEX_LATTICE_DEFAULT_STRIPS, buildVortexLattice } from "./vortex-lattice";
@@ -76,6 +77,8 @@ export interface MachSolution {
   scale: number[];
   clMax: (number | null)[];
   stationMachCritical: (number | null)[];
+  /** Root-chord α (deg) at which the first station reaches its section clMax (linear theory), and where; null without clMax. */
+  stall: { alphaDeg: number; y: number } | null;
   /**
    * Simple sweep theory (Busemann): the section's critical Mach number divided by the cosine of the
    * local quarter-chord sweep, per station and its lowest over the span. Optimistic (it ignores the
@@ -204,10 +207,15 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     throw new EngineError("invalid-argument", "must be a whole number of at least 2", "method.stations");
   }
   const st = model.stations;
+  const plausible = wingPlausibility(st);
+  if (plausible.refusals.length) {
+    const r = plausible.refusals[0];
+    throw new EngineError(/\.(a0|alphaL0|cmAc|clMax|cpMin)$/.test(r.field) ? "invalid-section" : "invalid-planform", r.message, r.field);
+  }
   const g = wingGeometry(st);
   const s = g.semispan;
   const sys = buildSystem(st, mach, opts);
-  const warnings: string[] = [];
+  const warnings: string[] = [...plausible.warnings];
   if (opts.spanwise === "lifting-line") {
     const maxSweep = Math.max(...g.panels.map((p) => Math.abs(p.sweepQuarterChordDeg)));
     if (maxSweep > LIFTING_LINE_WARN_SWEEP_DEG) {
@@ -266,6 +274,25 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     ...stationMachCritical.filter((v): v is number => v !== null),
     ...st.filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!)),
   ];
+  // Stall by the sections' clMax (linear): the root-chord α at which the first station reaches its clMax.
+  let stall: { alphaDeg: number; y: number } | null = null;
+  for (const i of idx.keys()) {
+    const k = idx[i];
+    const cmax = secs[k].clMax;
+    if (cmax === undefined || !(ccla[k] > 0)) continue;
+    const CLs = (cmax * chord[k] - cclb[k]) / ccla[k];
+    const a = alphaZeroLiftDeg + CLs / clAlpha / DEG;
+    if (!stall || a < stall.alphaDeg) stall = { alphaDeg: a, y: yOut[i] };
+  }
+  // Where no cpMin is given the critical Mach number is not checked: say where (at Mach numbers where it matters).
+  const unchecked = yOut.filter((_, i) => stationMachCritical[i] === null);
+  if (unchecked.length && mach > PLAUSIBLE.machUnchecked) {
+    warnings.push(
+      unchecked.length === yOut.length
+        ? `no section gives cpMin: the critical Mach number is not checked, and at Mach ${mach} the subsonic rules may be outside their validity`
+        : `no cpMin from y = ${unchecked[0].toFixed(3)} m to ${unchecked[unchecked.length - 1].toFixed(3)} m: the critical Mach number is not checked there, and at Mach ${mach} it matters`,
+    );
+  }
   // Quarter-chord sweep of the panel holding each output station (inner panel at a break).
   const cosSweepAt = (y: number) => {
     const p = g.panels.find((q) => y <= q.yOuter) ?? g.panels[g.panels.length - 1];
@@ -295,6 +322,7 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     scale: pick(secs.map((x) => x.scale), idx),
     clMax: idx.map((i) => secs[i].clMax ?? null),
     stationMachCritical,
+    stall,
     stationMachCriticalSwept,
     machCriticalSwept: mcrSwept.length ? Math.min(...mcrSwept) : null,
     basicPerQ: pickLoads(basic, idx, axis),

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { ISA_MAX_ALTITUDE, ISA_MIN_ALTITUDE } from "../engine/atmosphere";
 import type { EnvelopeRow } from "../engine/envelope";
+import { PLAUSIBLE, wingPlausibility } from "../engine/plausibility";
 import { VORTEX_LATTICE_MAX_STRIPS } from "../engine/vortex-lattice";
 
 /** Schema identifiers of the exchange contract (docs: /work/shared/CASE-EXCHANGE.md). */
@@ -117,6 +118,11 @@ export const WingSchema = z
         if (v !== undefined && !(v >= 0 && v <= semispan)) ctx.addIssue({ code: "custom", path: ["mass", "items", i, k], message: inside });
       }
     });
+    // Plausible ranges (docs/engine.md): only once the stations are well formed.
+    if (w.stations[0].y !== 0 || w.stations.some((s, i) => i > 0 && !(s.y > w.stations[i - 1].y))) return;
+    for (const r of wingPlausibility(w.stations).refusals) {
+      ctx.addIssue({ code: "custom", path: r.field.replace(/^wing\./, "").split(/[.[\]]+/).filter(Boolean).map((k) => (/^\d+$/.test(k) ? Number(k) : k)), message: r.message });
+    }
   });
 
 export const MethodSchema = z.strictObject({
@@ -141,6 +147,8 @@ export const MethodSchema = z.strictObject({
     .optional(),
 });
 
+const alphaRule = `must be within ±${PLAUSIBLE.alphaDeg.max}° (beyond it the linear, attached-flow methods mean nothing)`;
+const nzRule = `must be within ±${PLAUSIBLE.nz.max} (more than any aircraft structure is designed for)`;
 const altitudeRule = `must be between ${ISA_MIN_ALTITUDE} and ${ISA_MAX_ALTITUDE} m (geopotential, standard atmosphere range)`;
 
 export const CaseSchema = z.strictObject({
@@ -149,9 +157,18 @@ export const CaseSchema = z.strictObject({
     .min(0, { error: "must be 0 or more" })
     .lt(1, { error: "must be below 1 (subsonic rules only)" }),
   altitude: num().min(ISA_MIN_ALTITUDE, { error: altitudeRule }).max(ISA_MAX_ALTITUDE, { error: altitudeRule }),
-  alpha: num().optional(),
-  weight: num().gt(0, { error: "must be greater than 0 (N, whole aircraft)" }).optional(),
-  nz: num().optional(),
+  alpha: num()
+    .min(-PLAUSIBLE.alphaDeg.max, { error: alphaRule })
+    .max(PLAUSIBLE.alphaDeg.max, { error: alphaRule })
+    .optional(),
+  weight: num()
+    .gt(0, { error: "must be greater than 0 (N, whole aircraft)" })
+    .max(PLAUSIBLE.weight.max, { error: `must be at most ${PLAUSIBLE.weight.max.toExponential(0)} N (about 2000 t, three times the heaviest aeroplane built)` })
+    .optional(),
+  nz: num()
+    .min(-PLAUSIBLE.nz.max, { error: nzRule })
+    .max(PLAUSIBLE.nz.max, { error: nzRule })
+    .optional(),
   massCase: z.string({ error: typeError("a string") }).optional(),
   tailLoad: num().optional(),
 });
