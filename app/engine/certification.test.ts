@@ -9,6 +9,7 @@ import {
   manoeuvreLoadFactorsPart23,
   manoeuvreLoadFactorsPart25,
   minimumDesignSpeedsPart23,
+  minimumVbPart25,
   referenceGustPart25,
   stallLoadFactor,
   stallSpeed,
@@ -173,5 +174,63 @@ describe("V–n diagram corner points", () => {
     expect(by["gust+VC"].nz).toBeCloseTo(3.29841, 3);
     expect(by["gust+VC"].nz).toBeLessThan(by.A.nz);
     expect(by["gust-VD"].nz).toBeLessThan(1);
+  });
+});
+
+describe("the V_B gust points and the V_D slope (REFERENCES 6.3–6.5)", () => {
+  // Worked aircraft of REFERENCES 6.5 in SI at sea level: W/S = 1596.009 N/m², c̄ = 1.524 m, a = 5 /rad;
+  // Pratt's Δn at V_C = 200 kt with U = 50 ft/s is 2.29841 [C]. Δn is linear in V and U at a fixed a (the
+  // formula of 23.341(c)), so at V_B = 150 kt with 66 ft/s (23.333(c)(1)(iii), commuter) it is 2.29841·0.75·1.32.
+  const base = {
+    part: "23" as const,
+    category: "commuter" as const,
+    weightN: W_N,
+    areaM2: S_M2,
+    clMaxPositive: 1.6,
+    clMaxNegative: -1.0,
+    vcEas: 200 * UNITS.ktToMs,
+    vdEas: 280 * UNITS.ktToMs,
+    gustAtVc: 50 * UNITS.ftToM,
+    gustAtVd: 25 * UNITS.ftToM,
+    density: 1.225,
+    meanChord: 5 * UNITS.ftToM,
+    liftSlope: 5,
+  };
+
+  it("V_B points: n = 1 ± 2.29841·0.75·1.32 = 3.27543 / −1.27543, traced to 23.333(c)(1)(iii)", () => {
+    const pts = vnDiagram({ ...base, vbEas: 150 * UNITS.ktToMs, gustAtVb: 66 * UNITS.ftToM });
+    const by = Object.fromEntries(pts.map((p) => [p.name, p]));
+    expect(by["gust+VB"].nz).toBeCloseTo(1 + 2.29841 * 0.75 * 1.32, 4);
+    expect(by["gust-VB"].nz).toBeCloseTo(1 - 2.29841 * 0.75 * 1.32, 4);
+    expect(by["gust+VB"].rule).toMatch(/23\.333\(c\)\(1\)\(iii\)/);
+    expect(vnDiagram(base).some((p) => p.name === "gust+VB")).toBe(false);
+  });
+
+  it("the V_D gust takes the lift slope at the V_D Mach number: Pratt's formula with a = 6 there (μ and K_g with it)", () => {
+    // By hand from 23.341(c) in SI (REFERENCES 6.5): μ = 2(W/S)/(ρ c̄ a g), K_g = 0.88μ/(5.3 + μ), Δn = ρ0 V a K_g U/(2 W/S).
+    const ws = W_N / S_M2;
+    const mu = (2 * ws) / (1.225 * 5 * UNITS.ftToM * 6 * 9.80665);
+    const kg = (0.88 * mu) / (5.3 + mu);
+    const dn = (1.225 * 280 * UNITS.ktToMs * 6 * kg * 25 * UNITS.ftToM) / (2 * ws);
+    const by = Object.fromEntries(vnDiagram({ ...base, liftSlopeAtVd: 6 }).map((p) => [p.name, p]));
+    expect(by["gust+VD"].nz).toBeCloseTo(1 + dn, 10);
+    // …and the V_C points keep a = 5: the 2.29841 of the worked example.
+    expect(by["gust+VC"].nz).toBeCloseTo(3.29841, 3);
+  });
+
+  it("14 CFR 25.335(d): V_B ≥ V_S1·[1 + K_g·U_ref·V_C·a/(498·w)]^½ — 148.31 kt for the worked aircraft with U_ref = 56 ft/s; need not exceed V_C", () => {
+    // w = 33.333 psf, K_g = 0.76389 (REFERENCES 6.5), V_C = 200 kt, a = 5, V_S1 = 78.445 kt (6.6); the SI form
+    // uses the exact constant 2/(ρ0·1.68781) = 498.535 (REFERENCES 6.5) in place of the rounded 498.
+    const expected = 78.445 * Math.sqrt(1 + (0.76389 * 56 * 200 * 5) / (498.535 * (6000 / 180)));
+    const vs1 = stallSpeed(W_N, S_M2, 1.6);
+    const vb = minimumVbPart25({ vs1, vcEas: 200 * UNITS.ktToMs, uRef: 56 * UNITS.ftToM, wingLoading: W_N / S_M2, density: 1.225, meanChord: 5 * UNITS.ftToM, liftSlope: 5 });
+    expect(vb.value / UNITS.ktToMs).toBeCloseTo(expected, 1);
+    expect(vb.rule).toBe("14 CFR 25.335(d)");
+    const capped = minimumVbPart25({ vs1, vcEas: 120 * UNITS.ktToMs, uRef: 56 * UNITS.ftToM, wingLoading: W_N / S_M2, density: 1.225, meanChord: 5 * UNITS.ftToM, liftSlope: 5 });
+    expect(capped.value).toBeCloseTo(120 * UNITS.ktToMs, 12);
+  });
+
+  it("14 CFR 25.341(a)(5)(i): the reference gust applies from V_B to V_C", () => {
+    expect(referenceGustPart25(10000).vb.value).toBe(referenceGustPart25(10000).vc.value);
   });
 });

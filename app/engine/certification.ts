@@ -164,10 +164,35 @@ export function designGustsPart23(altitudeFt: number, category: Part23Category):
  * Reference gust velocity U_ref of 14 CFR 25.341(a)(5)(i), ft/s EAS: 56 at sea level, linear to 44 at 15 000 ft,
  * then linear to 20.86 at 60 000 ft; at V_D one half of it (25.341(a)(5)(ii)).
  */
-export function referenceGustPart25(altitudeFt: number): { vc: RuleValue; vd: RuleValue } {
+export function referenceGustPart25(altitudeFt: number): { vb: RuleValue; vc: RuleValue; vd: RuleValue } {
   if (!(altitudeFt >= 0 && altitudeFt <= 60000)) throw new EngineError("invalid-argument", "must be between 0 and 60 000 ft", "altitudeFt");
   const u = altitudeFt <= 15000 ? lerp(altitudeFt, 0, 56, 15000, 44) : lerp(altitudeFt, 15000, 44, 60000, 20.86);
-  return { vc: { value: u, rule: "14 CFR 25.341(a)(5)(i)" }, vd: { value: u / 2, rule: "14 CFR 25.341(a)(5)(ii)" } };
+  // (5)(i) applies at speeds between V_B and V_C, so V_B takes the full reference gust.
+  return {
+    vb: { value: u, rule: "14 CFR 25.341(a)(5)(i)" },
+    vc: { value: u, rule: "14 CFR 25.341(a)(5)(i)" },
+    vd: { value: u / 2, rule: "14 CFR 25.341(a)(5)(ii)" },
+  };
+}
+
+/**
+ * Minimum design speed for maximum gust intensity of 14 CFR 25.335(d): V_B ≥ V_S1·[1 + K_g·U_ref·V_C·a/(498·w)]^½,
+ * here in its SI form V_S1·√(1 + Δn), Δn the Pratt increment at V_C with U_ref (SI, m/s EAS, W/S in N/m²);
+ * V_B need not exceed V_C (25.335(d)(2)).
+ */
+export function minimumVbPart25(p: {
+  vs1: number;
+  vcEas: number;
+  uRef: number;
+  wingLoading: number;
+  density: number;
+  meanChord: number;
+  liftSlope: number;
+}): RuleValue {
+  positive(p.vs1, "vs1");
+  positive(p.vcEas, "vcEas");
+  const g = gustLoadFactorSI({ wingLoading: p.wingLoading, density: p.density, meanChord: p.meanChord, liftSlope: p.liftSlope, veas: p.vcEas, ude: p.uRef });
+  return { value: Math.min(p.vs1 * Math.sqrt(1 + g.deltaN), p.vcEas), rule: "14 CFR 25.335(d)" };
 }
 
 /**
@@ -233,16 +258,23 @@ export interface VnInput {
   /** Gust velocities at V_C and V_D, m/s EAS (from designGustsPart23 / referenceGustPart25, converted). */
   gustAtVc: number;
   gustAtVd: number;
-  /** Actual air density at the altitude, kg/m³; mean geometric chord, m; airplane lift slope, per rad. */
+  /** Actual air density at the altitude, kg/m³; mean geometric chord, m; airplane lift slope, per rad (at the V_C Mach number). */
   density: number;
   meanChord: number;
   liftSlope: number;
+  /** Lift slope at the V_D Mach number, per rad (default liftSlope). */
+  liftSlopeAtVd?: number;
+  /** Design speed for maximum gust intensity, m/s EAS, its gust velocity, m/s EAS, and the lift slope at its Mach number: the V_B gust points (Part 25, Part 23 commuter). */
+  vbEas?: number;
+  gustAtVb?: number;
+  liftSlopeAtVb?: number;
 }
 
 /**
  * V–n diagram corner points as data: S (1-g stall), A (positive stall line meets n_pos), D (V_D, n_pos),
  * E (V_D, negative factor at V_D), F (V_C, negative factor), H (negative stall line meets n_neg), and the gust
- * points at V_C and V_D by the Pratt formula (SI form). For Part 25 the Pratt points are a preliminary
+ * points at V_C and V_D (and V_B where given) by the Pratt formula (SI form), each with the lift slope at its
+ * own speed's Mach number where given. For Part 25 the Pratt points are a preliminary
  * estimate only: 25.341(a) requires a dynamic discrete-gust analysis.
  */
 export function vnDiagram(p: VnInput): VnPoint[] {
@@ -257,11 +289,18 @@ export function vnDiagram(p: VnInput): VnPoint[] {
   const vs1 = stallSpeed(p.weightN, p.areaM2, p.clMaxPositive);
   const vsNeg = stallSpeed(p.weightN, p.areaM2, p.clMaxNegative);
   const ref = p.part === "25" ? "14 CFR 25.333(b)" : "14 CFR 23.333(d)";
-  const gust = (v: number, u: number) =>
-    gustLoadFactorSI({ wingLoading: p.weightN / p.areaM2, density: p.density, meanChord: p.meanChord, liftSlope: p.liftSlope, veas: v, ude: u });
-  const gc = gust(p.vcEas, p.gustAtVc);
-  const gd = gust(p.vdEas, p.gustAtVd);
+  const gust = (v: number, u: number, a: number) =>
+    gustLoadFactorSI({ wingLoading: p.weightN / p.areaM2, density: p.density, meanChord: p.meanChord, liftSlope: a, veas: v, ude: u });
+  const gc = gust(p.vcEas, p.gustAtVc, p.liftSlope);
+  const gd = gust(p.vdEas, p.gustAtVd, p.liftSlopeAtVd ?? p.liftSlope);
   const gustRule = p.part === "25" ? "Pratt formula (NACA TN 2964) with the 14 CFR 25.341(a)(5) reference gust, preliminary" : "14 CFR 23.341(c)";
+  const vb: VnPoint[] = [];
+  if (p.vbEas !== undefined && p.gustAtVb !== undefined) {
+    if (!(p.vbEas > 0 && p.vbEas <= p.vcEas)) throw new EngineError("invalid-argument", "must be above 0 and not above vcEas", "vbEas");
+    const gb = gust(p.vbEas, p.gustAtVb, p.liftSlopeAtVb ?? p.liftSlope);
+    const rule = p.part === "25" ? gustRule : "14 CFR 23.333(c)(1)(iii); 23.341(c)";
+    vb.push({ name: "gust+VB", veas: p.vbEas, nz: gb.positive, rule }, { name: "gust-VB", veas: p.vbEas, nz: gb.negative, rule });
+  }
   return [
     { name: "S", veas: vs1, nz: 1, rule: "1-g stall, n = ½ρ0V²S·CLmax/W" },
     { name: "A", veas: Math.min(vs1 * Math.sqrt(npos), p.vcEas), nz: npos, rule: `${f.positive.rule}; ${ref}` },
@@ -273,5 +312,6 @@ export function vnDiagram(p: VnInput): VnPoint[] {
     { name: "gust-VC", veas: p.vcEas, nz: gc.negative, rule: gustRule },
     { name: "gust+VD", veas: p.vdEas, nz: gd.positive, rule: gustRule },
     { name: "gust-VD", veas: p.vdEas, nz: gd.negative, rule: gustRule },
+    ...vb,
   ];
 }

@@ -16,6 +16,8 @@ export * from "./loads";
 export * from "./mass";
 export * from "./balance";
 export * from "./gust-response";
+export * from "./flaps";
+export * from "./rolling";
 export * from "./superposition";
 export * from "./load-case";
 export * from "./envelope";
