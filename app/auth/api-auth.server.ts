@@ -3,9 +3,12 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { apiTokens, memberships, organisations, users } from "~/db/schema";
-import { DomainError } from "~/services/organisation.server";
-import { hasPermission, type Permission } from "./permissions";
-import { readSession, type CurrentUser } from "./session.server";
+import { hasPermission, type Permission } from "~/domain/permissions";
+import type { CurrentUser } from "~/domain/people";
+import { readSession } from "./session.server";
+import type { Actor } from "~/domain/people";
+import { DomainError } from "~/domain/errors";
+import { apiError } from "~/utils/http.server";
 
 /** Every personal API token starts with this, so it is recognisable in a configuration file or a leak scan. */
 export const API_TOKEN_PREFIX = "sw_";
@@ -16,15 +19,9 @@ const SHOWN_PREFIX_LENGTH = API_TOKEN_PREFIX.length + 6;
 // As for sessions: writing lastUsedAt on every call would turn every read into a write.
 const TOUCH_AFTER_MS = 60 * 1000;
 
-type Actor = { id: string; email: string };
 
 /** The person behind an API call, and whether they came with the browser cookie or a personal token. */
 export type ApiUser = CurrentUser & { via: "session" | "token"; tokenId: string | null };
-
-/** A JSON error answer of the public API: always `{ error, message }`, never a stack trace. */
-export function apiError(status: number, error: string, message: string, headers?: HeadersInit): Response {
-  return Response.json({ error, message }, { status, headers });
-}
 
 function unauthorized(message: string, invalidToken: boolean): never {
   // RFC 6750 §3: the challenge names the scheme, and the error when a token was presented but refused.
@@ -91,7 +88,7 @@ async function tokenUser(header: string): Promise<ApiUser> {
  */
 export async function createApiToken(input: { userId: string; organisationId: string; name: string; actor: Actor }): Promise<{ id: string; token: string }> {
   const name = input.name.trim();
-  if (name.length < 1 || name.length > 80) throw new DomainError("Give the token a name of 1 to 80 characters.", "name");
+  if (name.length < 1 || name.length > 80) throw new DomainError("Give the token a name of 1 to 80 characters.", { field: "name" });
   const bytes = new Uint8Array(20);
   crypto.getRandomValues(bytes);
   const token = API_TOKEN_PREFIX + encodeBase32LowerCaseNoPadding(bytes);
@@ -100,7 +97,7 @@ export async function createApiToken(input: { userId: string; organisationId: st
       .select({ id: memberships.id })
       .from(memberships)
       .where(and(eq(memberships.userId, input.userId), eq(memberships.organisationId, input.organisationId)));
-    if (!member) throw new DomainError("Only a member of the organisation can hold a token for it.", "organisationId", 403);
+    if (!member) throw new DomainError("Only a member of the organisation can hold a token for it.", { field: "organisationId", kind: "forbidden" });
     const [row] = await tx
       .insert(apiTokens)
       .values({ userId: input.userId, organisationId: input.organisationId, name, tokenHash: sha256Hex(token), prefix: token.slice(0, SHOWN_PREFIX_LENGTH) })
@@ -125,7 +122,7 @@ export async function revokeApiToken(input: { tokenId: string; userId: string; a
       .from(apiTokens)
       .where(and(eq(apiTokens.id, input.tokenId), eq(apiTokens.userId, input.userId)))
       .for("update");
-    if (!row) throw new DomainError("That token was not found among yours.", "tokenId", 404);
+    if (!row) throw new DomainError("That token was not found among yours.", { field: "tokenId", kind: "not-found" });
     if (row.revokedAt) return;
     const [updated] = await tx
       .update(apiTokens)

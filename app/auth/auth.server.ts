@@ -3,9 +3,10 @@ import { data, redirect } from "react-router";
 import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { memberships, signInAttempts, users } from "~/db/schema";
-import { hasPermission, type Permission } from "./permissions";
+import { hasPermission, type Permission } from "~/domain/permissions";
 import { dummyPasswordHash, verifyPassword } from "./password.server";
-import { clearSessionCookie, createSession, readSession, type CurrentUser } from "./session.server";
+import type { CurrentUser } from "~/domain/people";
+import { clearSessionCookie, createSession, readSession } from "./session.server";
 
 /** Failed attempts allowed in THROTTLE_WINDOW_MS for one account, and for one client address. */
 export const MAX_FAILURES_PER_ACCOUNT = 5;

@@ -1,7 +1,7 @@
 import { getCase } from "~/services/programmes.server";
 import { notFound } from "~/utils/http.server";
 import { requirePermission } from "./auth.server";
-import type { Permission } from "./permissions";
+import type { Permission } from "~/domain/permissions";
 
 /**
  * The signed-in person with the permission, and the case — only if it belongs to their

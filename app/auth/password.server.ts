@@ -3,8 +3,6 @@ import { hash, verify } from "@node-rs/argon2";
 // OWASP's argon2id baseline (19 MiB, 2 passes, 1 lane); @node-rs/argon2 uses argon2id by default.
 const OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1 } as const;
 
-export { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from "./password-policy";
-
 export function hashPassword(password: string): Promise<string> {
   return hash(password, OPTIONS);
 }

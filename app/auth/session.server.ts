@@ -4,7 +4,8 @@ import { createCookie } from "react-router";
 import { sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { rethrowUnavailable } from "~/db/unavailable.server";
-import { memberships, organisations, sessions, users, type Organisation, type Role, type User } from "~/db/schema";
+import { memberships, organisations, sessions, users } from "~/db/schema";
+import type { CurrentUser } from "~/domain/people";
 import { cookiesSecure } from "~/utils/env.server";
 import { memoised } from "~/utils/request-memo.server";
 
@@ -25,13 +26,6 @@ function sessionCookie() {
     maxAge: SESSION_ABSOLUTE_MS / 1000,
   });
   return cookie;
-}
-
-export interface CurrentUser {
-  sessionId: string;
-  user: Pick<User, "id" | "email" | "name">;
-  organisation: Pick<Organisation, "id" | "name" | "slug">;
-  roles: Role[];
 }
 
 export type SessionState = { status: "none" } | { status: "invalid" } | { status: "valid"; current: CurrentUser };

@@ -1,4 +1,4 @@
-import type { SectionsData } from "~/cases/step-data";
+import type { SectionsData } from "~/domain/step-data";
 import { axis, baseOption, line, SERIES_STYLE } from "./theme";
 
 /** cl against α of one polar table, the fitted line and the detected linear range shaded. */

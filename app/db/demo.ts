@@ -1,4 +1,4 @@
-import type { Role } from "./schema";
+import type { Role } from "~/domain/vocabulary";
 
 /**
  * The invented demo scenario: Kestrel Fieldworks certifying its KF-60 Tern twin-turboprop commuter,

@@ -11,11 +11,9 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import type { CaseStatus, CommentKind, ReportStatus, Role, SignatureMeaning, SignInMethod, StepKey, StepStatus } from "~/domain/vocabulary";
 
 const createdAt = () => timestamp("created_at", { withTimezone: true }).defaultNow().notNull();
-
-export const ROLES = ["engineer", "checker", "quality", "admin"] as const;
-export type Role = (typeof ROLES)[number];
 
 export const organisations = pgTable("organisations", {
   id: uuid().primaryKey().defaultRandom(),
@@ -62,7 +60,7 @@ export const sessions = pgTable(
     tokenHash: text("token_hash").notNull(),
     userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
     organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
-    method: text().$type<"password" | "sso">().notNull(),
+    method: text().$type<SignInMethod>().notNull(),
     createdAt: createdAt(),
     lastSeenAt: timestamp("last_seen_at", { withTimezone: true }).defaultNow().notNull(),
     expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
@@ -116,9 +114,6 @@ export const programmes = pgTable(
   (t) => [uniqueIndex("programmes_org_code_key").on(t.organisationId, t.code)],
 );
 
-export const CASE_STATUSES = ["draft", "submitted", "returned", "approved", "issued", "released"] as const;
-export type CaseStatus = (typeof CASE_STATUSES)[number];
-
 /** A loads case file: the wing-loads part of a certification case. */
 export const cases = pgTable(
   "cases",
@@ -161,11 +156,6 @@ export const auditLog = pgTable(
   },
   (t) => [index("audit_log_org_idx").on(t.organisationId, t.id), index("audit_log_entity_idx").on(t.entityType, t.entityId)],
 );
-
-export const STEP_KEYS = ["basis", "planform", "sections", "envelope", "distribution", "loads"] as const;
-export type StepKey = (typeof STEP_KEYS)[number];
-export const STEP_STATUSES = ["empty", "draft", "submitted", "returned", "approved"] as const;
-export type StepStatus = (typeof STEP_STATUSES)[number];
 
 /**
  * The current state of each step of a case. `revision` grows by one with every save and is the
@@ -256,9 +246,6 @@ export const apiTokens = pgTable(
   (t) => [uniqueIndex("api_tokens_token_hash_key").on(t.tokenHash), index("api_tokens_user_idx").on(t.userId)],
 );
 
-export const SIGNATURE_MEANINGS = ["checked", "approved for issue", "released"] as const;
-export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
-
 /**
  * Electronic signatures, append-only: who signed, in which role, what the signature means, when
  * (UTC), and the SHA-256 of the canonical serialisation of exactly what was signed. A signature is
@@ -279,7 +266,7 @@ export const signatures = pgTable(
     role: text().$type<Role>().notNull(),
     meaning: text().$type<SignatureMeaning>().notNull(),
     /** How the signer re-confirmed their identity: password, or a fresh company sign-in. */
-    confirmedBy: text("confirmed_by").$type<"password" | "sso">().notNull(),
+    confirmedBy: text("confirmed_by").$type<SignInMethod>().notNull(),
     revisionHash: text("revision_hash").notNull(),
     signedAt: timestamp("signed_at", { withTimezone: true }).defaultNow().notNull(),
   },
@@ -304,7 +291,7 @@ export const stepComments = pgTable(
     step: text().$type<StepKey>().notNull(),
     revision: integer().notNull(),
     authorId: uuid("author_id").notNull().references(() => users.id),
-    kind: text().$type<"comment" | "submitted" | "returned" | "approved">().notNull(),
+    kind: text().$type<CommentKind>().notNull(),
     /** What the comment points at, e.g. "stations row 3" or "VD". */
     anchor: text(),
     body: text().notNull(),
@@ -312,9 +299,6 @@ export const stepComments = pgTable(
   },
   (t) => [index("step_comments_case_step_idx").on(t.caseId, t.step, t.createdAt)],
 );
-
-export const REPORT_STATUSES = ["queued", "generating", "issued", "released", "failed"] as const;
-export type ReportStatus = (typeof REPORT_STATUSES)[number];
 
 /**
  * Issued reports: one row per version of a case's report. The PDF bytes live in S3 under `key`;

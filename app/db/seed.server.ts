@@ -9,7 +9,7 @@ import { generatedCases, vnSets } from "~/services/envelope.server";
 import { DEMO_CASE_INPUTS, DEMO_CASES, DEMO_ORGANISATIONS, DEMO_PROGRAMMES, DEMO_USERS, type DemoUser } from "./demo";
 import { caseSteps, cases, memberships, organisations, programmes, reports, users } from "./schema";
 import { verifyPassword } from "~/auth/password.server";
-import { STEPS } from "~/cases/steps";
+import { STEPS } from "~/domain/steps";
 import { approveCaseForIssue, approveStep, submitStep } from "~/services/review.server";
 import { createReportRow, generateReport, releaseReport } from "~/services/reports.server";
 

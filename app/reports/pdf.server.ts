@@ -3,17 +3,18 @@ import * as echarts from "echarts";
 import PDFDocument from "pdfkit";
 import SVGtoPDF from "svg-to-pdfkit";
 import unicodeRanges from "@fontsource/source-sans-3/unicode.json";
-import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/cases/step-data";
-import { formatNumber, formatQuantity, fromSI, unitSymbol, type Quantity, type UnitSystem } from "~/cases/units";
+import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
+import { formatNumber, formatQuantity, fromSI, unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
 import { loadsOption, type LoadQuantity } from "~/charts/loads";
 import { vnOption } from "~/charts/vn";
-import { STEP_KEYS } from "~/db/schema";
+import { STEPS } from "~/domain/steps";
+import { STEP_KEYS } from "~/domain/vocabulary";
 import { wingGeometry, type WingStation } from "~/engine";
 import type { ResultCase } from "~/exchange";
 import { distributionView } from "~/services/distribution.server";
 import { vnSets } from "~/services/envelope.server";
-import { METHOD_STATEMENT as METHODS } from "~/cases/method-statement";
+import { METHOD_STATEMENT as METHODS } from "~/domain/method-statement";
 import type { ReportSnapshot, SignatureLine } from "./snapshot";
 
 const G0 = 9.80665;
@@ -353,7 +354,7 @@ const VALIDITY: [string, string, string][] = [
   ["Pratt gust formula", "Alleviated sharp-edged gust (NACA TN 2964)", "Part 23 gust loads; Part 25 preliminary only (25.341(a) asks for a dynamic analysis)"],
 ];
 
-const STEP_LABEL: Record<string, string> = { basis: "Basis", planform: "Planform", sections: "Sections", envelope: "Envelope", distribution: "Distribution", loads: "Loads" };
+const STEP_LABEL: Record<string, string> = Object.fromEntries(STEPS.map((s) => [s.key, s.label]));
 
 // ---------------------------------------------------------------- report
 

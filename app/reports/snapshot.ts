@@ -1,4 +1,4 @@
-import type { BasisData, DistributionData, EnvelopeData, LoadsData, PlanformData, SectionsData } from "~/cases/step-data";
+import type { BasisData, DistributionData, EnvelopeData, LoadsData, PlanformData, SectionsData } from "~/domain/step-data";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 
 /** One signature as it appears on the report's signature page and in the API. */

@@ -1,18 +1,15 @@
 import { useState } from "react";
-import { data, Form, Link, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/auth/api-auth.server";
 import { requireUser } from "~/auth/auth.server";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
-import { DomainError } from "~/services/organisation.server";
 import { formatUtc } from "~/utils/format";
-import { parseBody } from "~/utils/http.server";
+import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/account-tokens";
 import { CreateTokenSchema, TokenActionSchema } from "./account-tokens.schema";
-
-type ActionResult = { created?: { name: string; token: string }; revoked?: boolean; fieldErrors?: Record<string, string[] | undefined> };
 
 export async function loader({ request }: Route.LoaderArgs) {
   const current = await requireUser(request);
@@ -22,19 +19,17 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const current = await requireUser(request);
   const parsed = await parseBody(request, TokenActionSchema);
-  if (!parsed.ok) return data<ActionResult>({ fieldErrors: parsed.fieldErrors }, { status: 400 });
-  try {
-    if (parsed.value.intent === "create") {
+  if (!parsed.ok) return refused(parsed.fieldErrors);
+  const input = parsed.value;
+  return answer(async () => {
+    if (input.intent === "create") {
       // The token belongs to the organisation the person is working in now.
-      const { token } = await createApiToken({ userId: current.user.id, organisationId: current.organisation.id, name: parsed.value.name, actor: current.user });
-      return data<ActionResult>({ created: { name: parsed.value.name, token } });
+      const { token } = await createApiToken({ userId: current.user.id, organisationId: current.organisation.id, name: input.name, actor: current.user });
+      return accepted(`Token “${input.name}” created.`, { created: { name: input.name, token } });
     }
-    await revokeApiToken({ tokenId: parsed.value.tokenId, userId: current.user.id, actor: current.user });
-    return data<ActionResult>({ revoked: true });
-  } catch (error) {
-    if (error instanceof DomainError) return data<ActionResult>({ fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+    await revokeApiToken({ tokenId: input.tokenId, userId: current.user.id, actor: current.user });
+    return accepted("Token revoked.", { created: null });
+  });
 }
 
 export default function AccountTokensRoute({ loaderData, actionData }: Route.ComponentProps) {
@@ -52,8 +47,8 @@ export default function AccountTokensRoute({ loaderData, actionData }: Route.Com
       <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
         <TokenList tokens={loaderData.tokens} />
         <div className="space-y-5">
-          {actionData?.created ? <NewToken {...actionData.created} /> : null}
-          <CreateTokenForm serverErrors={actionData?.fieldErrors} createdToken={actionData?.created?.token} />
+          {actionData?.ok && actionData.created ? <NewToken {...actionData.created} /> : null}
+          <CreateTokenForm serverErrors={actionData?.fieldErrors} createdToken={actionData?.ok ? actionData.created?.token : undefined} />
         </div>
       </div>
     </>

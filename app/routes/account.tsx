@@ -1,7 +1,7 @@
 import { desc, eq } from "drizzle-orm";
 import { Form, Link } from "react-router";
 import { requireUser } from "~/auth/auth.server";
-import { ROLE_LABELS } from "~/auth/permissions";
+import { ROLE_LABELS } from "~/domain/permissions";
 import { db } from "~/db/client.server";
 import { sessions } from "~/db/schema";
 import { Button } from "~/components/ui/button";

@@ -1,6 +1,6 @@
 import { Form, NavLink, Outlet, useRouteLoaderData } from "react-router";
 import { requireUser } from "~/auth/auth.server";
-import { hasPermission, ROLE_LABELS, type Permission } from "~/auth/permissions";
+import { hasPermission, ROLE_LABELS, type Permission } from "~/domain/permissions";
 import { ErrorPanel } from "~/root";
 import type { Route } from "./+types/app-layout";
 

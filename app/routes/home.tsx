@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { landingPath } from "~/auth/permissions";
+import { landingPath } from "~/domain/permissions";
 import { getOptionalUser } from "~/auth/auth.server";
 import type { Route } from "./+types/home";
 

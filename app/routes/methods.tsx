@@ -1,7 +1,7 @@
 import { requireUser } from "~/auth/auth.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { ENGINE_VERSION } from "~/engine";
-import { METHOD_STATEMENT as METHODS } from "~/cases/method-statement";
+import { METHOD_STATEMENT as METHODS } from "~/domain/method-statement";
 import type { Route } from "./+types/methods";
 
 export async function loader({ request }: Route.LoaderArgs) {

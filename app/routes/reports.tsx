@@ -1,4 +1,4 @@
-import { data, Form, Link, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
 import { db } from "~/db/client.server";
 import { cases } from "~/db/schema";
@@ -7,6 +7,7 @@ import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-heade
 import { ListTable } from "~/components/ui/list-table";
 import { listReports, verifyPdf } from "~/services/reports.server";
 import { formatUtc } from "~/utils/format";
+import { accepted, refused } from "~/utils/http.server";
 import { eq } from "drizzle-orm";
 import type { Route } from "./+types/reports";
 
@@ -24,22 +25,23 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const current = await requirePermission(request, "report:read");
-  if (Number(request.headers.get("Content-Length") ?? 0) > MAX_VERIFY_BYTES) return data({ verdict: null, error: "The file is larger than 50 MiB." }, { status: 413 });
+  const tooLarge = "The file is larger than 50 MiB.";
+  if (Number(request.headers.get("Content-Length") ?? 0) > MAX_VERIFY_BYTES) return refused({ pdf: [tooLarge] }, { status: 413, message: tooLarge });
   const form = await request.formData().catch(() => null);
   const file = form?.get("pdf");
-  if (!(file instanceof File) || file.size === 0) return data({ verdict: null, error: "Choose a PDF file to verify." }, { status: 400 });
+  const choose = "Choose a PDF file to verify.";
+  if (!(file instanceof File) || file.size === 0) return refused({ pdf: [choose] }, { message: choose });
   const { sha256, report } = await verifyPdf(current.organisation.id, new Uint8Array(await file.arrayBuffer()));
-  return {
-    error: null,
+  return accepted(null, {
     verdict: report
       ? { match: true as const, sha256, reportNumber: report.reportNumber, version: report.version, status: report.status, issuedAt: report.issuedAt, caseId: report.caseId }
       : { match: false as const, sha256 },
-  };
+  });
 }
 
 export default function ReportsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const v = actionData?.verdict;
+  const v = actionData?.ok ? actionData.verdict : null;
   return (
     <>
       <PageHeader title="Reports" description="Every issued report of your organisation. Release an issued report from its case's Reports page; verify any PDF against what was issued." />
@@ -74,7 +76,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
             </Button>
           </Form>
           <div className="mt-3" aria-live="polite">
-            {actionData?.error ? <Alert>{actionData.error}</Alert> : null}
+            {actionData && !actionData.ok ? <Alert>{actionData.message}</Alert> : null}
             {v?.match ? (
               <Alert tone="info">
                 ✓ This is report {v.reportNumber}, version {v.version} ({v.status}), issued {formatUtc(v.issuedAt)}: its bytes are identical to the issued PDF.

@@ -1,13 +1,14 @@
 import { and, desc, eq } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
-import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/cases/step-data";
+import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { caseResults, cases, type StepKey } from "~/db/schema";
+import { caseResults, cases } from "~/db/schema";
+import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION, isEngineError } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, runCase, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
-import { DomainError } from "./organisation.server";
+import { DomainError } from "~/domain/errors";
 
 export interface CaseInputs {
   basis: BasisData | null;
@@ -50,7 +51,7 @@ function lerp(xs: number[], ys: number[], x: number): number {
 export function exchangeStations(planform: PlanformData, sections: SectionsData): CaseFileInput["wing"]["stations"] {
   const semispan = planform.stations[planform.stations.length - 1]!.y;
   const outside = sections.rows.find((r) => r.y > semispan + 1e-9);
-  if (outside) throw new DomainError(`Sections: the station at y = ${outside.y} m lies outside the wing (semispan ${semispan} m).`, "sections");
+  if (outside) throw new DomainError(`Sections: the station at y = ${outside.y} m lies outside the wing (semispan ${semispan} m).`, { field: "sections" });
   const ys = [...new Set([...planform.stations.map((s) => s.y), ...sections.rows.map((r) => r.y)])].sort((a, b) => a - b);
   const p = planform.stations;
   const r = sections.rows;
@@ -83,10 +84,10 @@ export function analysedCases(envelope: EnvelopeData, distribution: Distribution
  */
 export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelope" | "final" = "final"): CaseFileInput {
   const missing = (["planform", "sections", "envelope"] as const).filter((k) => !inputs[k]);
-  if (missing.length) throw new DomainError(`Save the ${missing.join(", ")} step${missing.length > 1 ? "s" : ""} first.`, "steps", 409);
+  if (missing.length) throw new DomainError(`Save the ${missing.join(", ")} step${missing.length > 1 ? "s" : ""} first.`, { field: "steps", kind: "conflict" });
   const { planform, sections, envelope } = inputs as Required<{ [K in keyof CaseInputs]: NonNullable<CaseInputs[K]> }>;
   const cases = scope === "final" ? analysedCases(envelope, inputs.distribution) : envelope.cases.filter((c) => !c.excluded);
-  if (cases.length === 0) throw new DomainError("Every load case is excluded: include at least one.", "cases", 409);
+  if (cases.length === 0) throw new DomainError("Every load case is excluded: include at least one.", { field: "cases", kind: "conflict" });
   const mass = inputs.loads?.semispanMass ?? 0;
   return {
     schema: CASE_SCHEMA_ID,
@@ -110,7 +111,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
 /** Validates an exchange document exactly as the command line does; failures name the field. */
 export function parseOrThrow(file: CaseFileInput): CaseFile {
   const parsed = parseCase(file);
-  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), parsed.problems[0]?.path, 422);
+  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: parsed.problems[0]?.path, kind: "unprocessable" });
   return parsed.value;
 }
 
@@ -133,7 +134,7 @@ export async function resultsFor(caseId: string, file: CaseFileInput, actorId: s
   try {
     result = runCase(parsed);
   } catch (error) {
-    if (isEngineError(error)) throw new DomainError(error.message, error.field, 422);
+    if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
     throw error;
   }
   const [row] = await db

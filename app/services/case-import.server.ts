@@ -1,19 +1,18 @@
 import { and, eq } from "drizzle-orm";
 import type { z } from "zod";
-import { STEP_SCHEMAS } from "~/cases/step-data";
+import { STEP_SCHEMAS } from "~/domain/step-data";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { caseSteps, cases, programmes, stepRevisions, type StepKey } from "~/db/schema";
+import { caseSteps, cases, programmes, stepRevisions } from "~/db/schema";
+import type { StepKey } from "~/domain/vocabulary";
 import { formatPath, parseCase, type CaseFile, type CaseProblem } from "~/exchange";
-import { DomainError } from "./organisation.server";
+import type { Actor } from "~/domain/people";
+import { DomainError } from "~/domain/errors";
 
-type Actor = { id: string; email: string };
 
 /** Refusal of an import: every problem found, each with its path in the exchange document. */
-export class CaseImportError extends DomainError {
-  constructor(readonly problems: CaseProblem[]) {
-    super(problems.map((p) => `${p.path}: ${p.message}`).join("; "), problems[0]?.path, 422);
-  }
+function importRefused(problems: CaseProblem[]): DomainError {
+  return new DomainError(problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: problems[0]?.path, kind: "unprocessable", problems });
 }
 
 type ImportedSteps = { planform: unknown; sections: unknown; envelope: unknown; loads: unknown };
@@ -110,23 +109,23 @@ export function validateImport(json: unknown): { ok: true; file: CaseFile; steps
  * loads steps at revision 1 (draft), in ONE transaction with an audit entry for the case and for
  * each step: a refusal (bad document, unknown programme, reference taken) writes nothing.
  * The case title is `title`, else the document's title, else the reference.
- * @throws CaseImportError (422) naming every bad field; DomainError for programme or reference.
+ * @throws DomainError "unprocessable" with every bad field in `problems`; "not-found"/"conflict" for programme or reference.
  */
 export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; actor: Actor }) {
   const checked = validateImport(input.document);
-  if (!checked.ok) throw new CaseImportError(checked.problems);
+  if (!checked.ok) throw importRefused(checked.problems);
   const title = input.title ?? checked.file.title ?? input.reference;
   return db.transaction(async (tx) => {
     const [programme] = await tx
       .select()
       .from(programmes)
       .where(and(eq(programmes.id, input.programmeId), eq(programmes.organisationId, input.organisationId)));
-    if (!programme) throw new DomainError("Choose one of your organisation's programmes.", "programmeId", 404);
+    if (!programme) throw new DomainError("Choose one of your organisation's programmes.", { field: "programmeId", kind: "not-found" });
     const [clash] = await tx
       .select({ id: cases.id })
       .from(cases)
       .where(and(eq(cases.programmeId, programme.id), eq(cases.reference, input.reference)));
-    if (clash) throw new DomainError(`Programme ${programme.code} already has a case ${input.reference}.`, "reference", 409);
+    if (clash) throw new DomainError(`Programme ${programme.code} already has a case ${input.reference}.`, { field: "reference", kind: "conflict" });
     const [row] = await tx
       .insert(cases)
       .values({ organisationId: input.organisationId, programmeId: programme.id, reference: input.reference, title, description: "", createdBy: input.actor.id })

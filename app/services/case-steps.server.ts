@@ -1,13 +1,15 @@
 import { and, eq } from "drizzle-orm";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { caseSteps, cases, STEP_KEYS, stepRevisions, users, type CaseStep, type StepKey } from "~/db/schema";
-import { STEP_SCHEMAS } from "~/cases/step-data";
-import { DomainError } from "./organisation.server";
+import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
+import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
+import { STEP_SCHEMAS } from "~/domain/step-data";
 import { voidApprovalsAfterEdit } from "./review.server";
 import { memoised } from "~/utils/request-memo.server";
+import type { Actor } from "~/domain/people";
+import type { UnitSystem } from "~/domain/units";
+import { DomainError } from "~/domain/errors";
 
-type Actor = { id: string; email: string };
 
 export interface StepState {
   step: StepKey;
@@ -48,10 +50,9 @@ export function stepData<K extends StepKey>(steps: Record<StepKey, StepState>, k
   return parsed.success ? (parsed.data as import("zod").output<(typeof STEP_SCHEMAS)[K]>) : null;
 }
 
-export class StaleRevisionError extends DomainError {
-  constructor(message: string) {
-    super(message, "revision", 409);
-  }
+/** The display units chosen in the case's basis (SI until a basis is saved). */
+export function caseUnits(steps: Record<StepKey, StepState>): UnitSystem {
+  return stepData(steps, "basis")?.units ?? "SI";
 }
 
 /**
@@ -61,7 +62,7 @@ export class StaleRevisionError extends DomainError {
  */
 export async function saveStep(input: { caseId: string; step: StepKey; baseRevision: number; data: Record<string, unknown>; actor: Actor }) {
   const parsed = STEP_SCHEMAS[input.step].safeParse(input.data);
-  if (!parsed.success) throw new DomainError(parsed.error.issues[0]?.message ?? "The step's data are not valid", parsed.error.issues[0]?.path.join("."));
+  if (!parsed.success) throw new DomainError(parsed.error.issues[0]?.message ?? "The step's data are not valid", { field: parsed.error.issues[0]?.path.join(".") });
   const data = parsed.data as Record<string, unknown>;
   return db.transaction(async (tx) => {
     await tx.insert(caseSteps).values({ caseId: input.caseId, step: input.step }).onConflictDoNothing();
@@ -73,12 +74,13 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
       .for("update", { of: caseSteps });
     const row = current!.row;
     if (row.revision !== input.baseRevision) {
-      throw new StaleRevisionError(
+      throw new DomainError(
         `Not saved: ${current!.updatedByName ?? "someone"} saved this step (revision ${row.revision}) at ${row.updatedAt.toISOString().slice(0, 16).replace("T", " ")} UTC, after you opened revision ${input.baseRevision}. Reload to see their version; your changes were not written.`,
+        { field: "revision", kind: "conflict" },
       );
     }
     if (row.status === "submitted") {
-      throw new DomainError("This step is submitted for check and is read-only until the checker returns or approves it.", "status", 409);
+      throw new DomainError("This step is submitted for check and is read-only until the checker returns or approves it.", { field: "status", kind: "conflict" });
     }
     const revision = row.revision + 1;
     const hash = sha256Hex(canonicalJson(data));

@@ -1,4 +1,4 @@
-import type { DistributionData } from "~/cases/step-data";
+import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { wingModelOf, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
 import { parseOrThrow } from "./analysis.server";

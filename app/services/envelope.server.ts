@@ -1,4 +1,4 @@
-import type { BasisData, EnvelopeData, LoadCase, PlanformData, SectionsData } from "~/cases/step-data";
+import type { BasisData, EnvelopeData, LoadCase, PlanformData, SectionsData } from "~/domain/step-data";
 import {
   designGustsPart23,
   isa,
@@ -11,8 +11,8 @@ import {
   type VnPoint,
 } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, wingModelOf } from "~/exchange";
-import { exchangeStations } from "./analysis.server";
-import { DomainError } from "./organisation.server";
+import { exchangeStations, type CaseInputs } from "./analysis.server";
+import { DomainError } from "~/domain/errors";
 
 const G0 = 9.80665;
 const FT = 0.3048;
@@ -47,7 +47,7 @@ export function vnSets(basis: BasisData, planform: PlanformData, sections: Secti
     method: { compressibility: method.compressibility, spanwise: method.spanwise, stations: 20 },
     cases: [{ id: "probe", mach: 0, altitude: 0, alpha: 0 }],
   });
-  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), "planform", 422);
+  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: "planform", kind: "unprocessable" });
   const model = wingModelOf(parsed.value);
   const geometry = wingGeometry(model.stations);
   const { part, category: cat } = category(basis);
@@ -57,7 +57,7 @@ export function vnSets(basis: BasisData, planform: PlanformData, sections: Secti
   for (const altitude of basis.altitudes) {
     const atm = isa(altitude);
     const machVc = machFromEas(basis.vc, altitude);
-    if (machVc >= 1) throw new DomainError(`VC at ${altitude} m is Mach ${machVc.toFixed(3)}: the subsonic rules do not apply.`, "vc");
+    if (machVc >= 1) throw new DomainError(`VC at ${altitude} m is Mach ${machVc.toFixed(3)}: the subsonic rules do not apply.`, { field: "vc" });
     const liftSlope = solveMach(model, machVc, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
     const altFt = altitude / FT;
     const gusts = part === "25" ? referenceGustPart25(altFt) : designGustsPart23(altFt, cat!);
@@ -82,6 +82,16 @@ export function vnSets(basis: BasisData, planform: PlanformData, sections: Secti
     }
   }
   return sets;
+}
+
+/**
+ * The cases a "generate" asks for: the V–n corner points of the saved basis, with the cases the
+ * engineer added by hand (kind "manual") kept after them.
+ */
+export function regeneratedCases(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): LoadCase[] {
+  if (!inputs.basis || !inputs.planform || !inputs.sections) throw new DomainError("Save the basis, planform and sections first.", { kind: "conflict" });
+  const kept = (inputs.envelope?.cases ?? []).filter((k) => k.kind === "manual");
+  return [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method)), ...kept];
 }
 
 /** Load cases from the V–n corner points (not the 1-g stall point), each naming its rule. */

@@ -2,24 +2,15 @@ import { encodeBase32LowerCaseNoPadding } from "@oslojs/encoding";
 import { and, asc, eq, gt, isNull } from "drizzle-orm";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { invitations, memberships, organisations, users, type Role } from "~/db/schema";
+import { invitations, memberships, organisations, users } from "~/db/schema";
+import type { Role } from "~/domain/vocabulary";
 import { hashPassword, verifyPassword } from "~/auth/password.server";
 import { env } from "~/utils/env.server";
 import { sendMail } from "./mail.server";
+import { DomainError } from "~/domain/errors";
+import type { Actor } from "~/domain/people";
 
 const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
-
-export class DomainError extends Error {
-  constructor(
-    message: string,
-    readonly field?: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
-
-type Actor = { id: string; email: string };
 
 export async function listMembers(organisationId: string) {
   return db
@@ -46,11 +37,11 @@ export async function setMemberRoles(input: { organisationId: string; userId: st
       .from(memberships)
       .where(and(eq(memberships.organisationId, input.organisationId), eq(memberships.userId, input.userId)))
       .for("update");
-    if (!member) throw new DomainError("That person is not a member of this organisation.", "userId", 404);
+    if (!member) throw new DomainError("That person is not a member of this organisation.", { field: "userId", kind: "not-found" });
     if (member.roles.includes("admin") && !input.roles.includes("admin")) {
       const admins = await tx.select({ userId: memberships.userId, roles: memberships.roles }).from(memberships).where(eq(memberships.organisationId, input.organisationId));
       if (admins.filter((a) => a.roles.includes("admin")).length <= 1) {
-        throw new DomainError("The organisation must keep at least one administrator.", "roles");
+        throw new DomainError("The organisation must keep at least one administrator.", { field: "roles" });
       }
     }
     const roles = [...new Set(input.roles)].sort();
@@ -81,7 +72,7 @@ export async function inviteMember(input: { organisationId: string; email: strin
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.organisationId, input.organisationId), eq(users.email, email)));
-  if (existing) throw new DomainError(`${email} is already a member of this organisation.`, "email");
+  if (existing) throw new DomainError(`${email} is already a member of this organisation.`, { field: "email" });
   const [org] = await db.select().from(organisations).where(eq(organisations.id, input.organisationId));
   const token = newToken();
   await db.transaction(async (tx) => {
@@ -123,7 +114,7 @@ export async function revokeInvitation(input: { organisationId: string; invitati
       .set({ revokedAt: new Date() })
       .where(and(eq(invitations.id, input.invitationId), eq(invitations.organisationId, input.organisationId), isNull(invitations.acceptedAt)))
       .returning();
-    if (!row) throw new DomainError("That invitation was not found or has already been used.", "invitationId", 404);
+    if (!row) throw new DomainError("That invitation was not found or has already been used.", { field: "invitationId", kind: "not-found" });
     await writeAudit(tx, { organisationId: input.organisationId, actor: input.actor, action: "invitation.revoke", entityType: "invitation", entityId: row.id });
   });
 }
@@ -146,11 +137,11 @@ export async function findInvitation(token: string) {
  */
 export async function acceptInvitation(input: { token: string; name?: string; password: string }) {
   const found = await findInvitation(input.token);
-  if (!found) throw new DomainError("This invitation link is not valid any more (used, revoked or expired).", "token", 404);
+  if (!found) throw new DomainError("This invitation link is not valid any more (used, revoked or expired).", { field: "token", kind: "not-found" });
   const inv = found.invitation;
   const [account] = await db.select().from(users).where(eq(users.email, inv.email));
   if (account && !(account.passwordHash && (await verifyPassword(account.passwordHash, input.password)))) {
-    throw new DomainError("The password is not correct for this existing account.", "password", 401);
+    throw new DomainError("The password is not correct for this existing account.", { field: "password", kind: "unauthenticated" });
   }
   const passwordHash = account ? null : await hashPassword(input.password);
   return db.transaction(async (tx) => {
@@ -164,7 +155,7 @@ export async function acceptInvitation(input: { token: string; name?: string; pa
       .set({ acceptedAt: new Date() })
       .where(and(eq(invitations.id, inv.id), isNull(invitations.acceptedAt)))
       .returning();
-    if (!claimed) throw new DomainError("This invitation has just been used.", "token", 409);
+    if (!claimed) throw new DomainError("This invitation has just been used.", { field: "token", kind: "conflict" });
     const [membership] = await tx.insert(memberships).values({ userId, organisationId: inv.organisationId, roles: inv.roles }).returning();
     await writeAudit(tx, {
       organisationId: inv.organisationId,

@@ -2,10 +2,10 @@ import { and, asc, count, desc, eq } from "drizzle-orm";
 import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
-import { DomainError } from "./organisation.server";
 import { memoised } from "~/utils/request-memo.server";
+import type { Actor } from "~/domain/people";
+import { DomainError } from "~/domain/errors";
 
-type Actor = { id: string; email: string };
 
 export async function listProgrammes(organisationId: string) {
   return db
@@ -40,7 +40,7 @@ export async function createProgramme(input: { organisationId: string; code: str
       .select({ id: programmes.id })
       .from(programmes)
       .where(and(eq(programmes.organisationId, input.organisationId), eq(programmes.code, input.code)));
-    if (clash) throw new DomainError(`A programme with code ${input.code} already exists.`, "code");
+    if (clash) throw new DomainError(`A programme with code ${input.code} already exists.`, { field: "code" });
     const [row] = await tx
       .insert(programmes)
       .values({ organisationId: input.organisationId, code: input.code, name: input.name, aircraft: input.aircraft, description: input.description })
@@ -95,12 +95,12 @@ export async function createCase(input: { organisationId: string; programmeId: s
       .select()
       .from(programmes)
       .where(and(eq(programmes.id, input.programmeId), eq(programmes.organisationId, input.organisationId)));
-    if (!programme) throw new DomainError("Choose one of your organisation's programmes.", "programmeId");
+    if (!programme) throw new DomainError("Choose one of your organisation's programmes.", { field: "programmeId" });
     const [clash] = await tx
       .select({ id: cases.id })
       .from(cases)
       .where(and(eq(cases.programmeId, programme.id), eq(cases.reference, input.reference)));
-    if (clash) throw new DomainError(`Programme ${programme.code} already has a case ${input.reference}.`, "reference");
+    if (clash) throw new DomainError(`Programme ${programme.code} already has a case ${input.reference}.`, { field: "reference" });
     const [row] = await tx
       .insert(cases)
       .values({

@@ -1,9 +1,9 @@
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
-import type { CurrentUser } from "~/auth/session.server";
-import { STEPS } from "~/cases/steps";
+import { STEPS } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { cases, caseSteps, memberships, organisations, programmes, reports, signatureVoids, signatures, users, type Report, type Role } from "~/db/schema";
+import { cases, caseSteps, memberships, organisations, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
+import type { Role } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
 import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
 import type { ReportSnapshot, SignatureLine } from "~/reports/snapshot";
@@ -12,11 +12,11 @@ import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.
 import { getCaseSteps } from "./case-steps.server";
 import { flaggedCases } from "./distribution.server";
 import { sendMail } from "./mail.server";
-import { DomainError } from "./organisation.server";
 import { liveSignatures } from "./review.server";
 import { deleteObject, putObject, getObjectBytes } from "./storage.server";
+import type { Actor, CurrentUser } from "~/domain/people";
+import { DomainError } from "~/domain/errors";
 
-type Actor = { id: string; email: string; name: string };
 
 async function mailRole(organisationId: string, role: Role, subject: string, paragraphs: string[], path: string) {
   const rows = await db.select({ email: users.email, roles: memberships.roles }).from(memberships).innerJoin(users, eq(users.id, memberships.userId)).where(eq(memberships.organisationId, organisationId));
@@ -44,21 +44,21 @@ export async function requestReport(input: { caseId: string; actor: Actor }): Pr
 /** The queued report row of the next version, after every check; the caller generates or enqueues it. */
 export async function createReportRow(input: { caseId: string; actor: Actor }): Promise<Report> {
   const [current] = await db.select().from(cases).where(eq(cases.id, input.caseId));
-  if (!current) throw new DomainError("Case not found.", "caseId", 404);
+  if (!current) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
   const inputHash = sha256Hex(canonicalJson(parseOrThrow(buildCaseFile(current.title, caseInputs(await getCaseSteps(input.caseId))))));
   const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["issued", "released"]))).orderBy(desc(reports.version)).limit(1);
-  if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, "case", 409);
+  if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, { field: "case", kind: "conflict" });
   return db.transaction(async (tx) => {
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
-    if (!c) throw new DomainError("Case not found.", "caseId", 404);
+    if (!c) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId));
-    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before a report can be issued.", "steps", 409);
+    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before a report can be issued.", { field: "steps", kind: "conflict" });
     const live = await liveSignatures(input.caseId, tx);
     if (!live.some((s) => s.meaning === "approved for issue" && s.step === null && s.reportId === null)) {
-      throw new DomainError("A checker must approve the case for issue before a report is requested.", "case", 409);
+      throw new DomainError("A checker must approve the case for issue before a report is requested.", { field: "case", kind: "conflict" });
     }
     const pending = await tx.select({ id: reports.id }).from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["queued", "generating"])));
-    if (pending.length) throw new DomainError("A report of this case is already being generated.", "case", 409);
+    if (pending.length) throw new DomainError("A report of this case is already being generated.", { field: "case", kind: "conflict" });
     const [{ last }] = (await tx.select({ last: max(reports.version) }).from(reports).where(eq(reports.caseId, input.caseId))) as [{ last: number | null }];
     const version = (last ?? 0) + 1;
     const [p] = await tx.select().from(programmes).where(eq(programmes.id, c.programmeId));
@@ -146,7 +146,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     await putObject(bucket, key, pdf, "application/pdf", sha256);
     await db.transaction(async (tx) => {
       const [locked] = await tx.select().from(reports).where(eq(reports.id, reportId)).for("update");
-      if (!locked || locked.status === "issued" || locked.status === "released") throw new DomainError("already issued", "report", 409);
+      if (!locked || locked.status === "issued" || locked.status === "released") throw new DomainError("already issued", { field: "report", kind: "conflict" });
       await tx
         .update(reports)
         .set({ status: "issued", progress: 100, progressNote: "issued", bucket, key, size: pdf.byteLength, sha256, inputHash: snapshot.inputHash, engineVersion: snapshot.engineVersion, snapshot: snapshot as unknown as Record<string, unknown>, issuedAt: new Date(snapshot.issuedAt) })
@@ -200,8 +200,8 @@ export async function releaseReport(input: { reportId: string; organisationId: s
   const actor = input.current.user;
   const released = await db.transaction(async (tx) => {
     const [r] = await tx.select().from(reports).where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId))).for("update");
-    if (!r) throw new DomainError("Report not found.", "reportId", 404);
-    if (r.status !== "issued") throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, "status", 409);
+    if (!r) throw new DomainError("Report not found.", { field: "reportId", kind: "not-found" });
+    if (r.status !== "issued") throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, { field: "status", kind: "conflict" });
     const [sig] = await tx
       .insert(signatures)
       .values({ organisationId: r.organisationId, caseId: r.caseId, reportId: r.id, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "released", confirmedBy: input.confirmedBy, revisionHash: r.sha256! })
@@ -259,7 +259,7 @@ export async function getReport(organisationId: string, reportId: string) {
 
 /** The stored PDF bytes, checked against the recorded SHA-256 before they are handed out. */
 export async function reportBytes(r: Report): Promise<Uint8Array> {
-  if (!r.key || !r.bucket || !r.sha256) throw new DomainError("This report has no PDF yet.", "report", 409);
+  if (!r.key || !r.bucket || !r.sha256) throw new DomainError("This report has no PDF yet.", { field: "report", kind: "conflict" });
   const bytes = await getObjectBytes(r.bucket, r.key);
   if (sha256Hex(bytes) !== r.sha256) throw new Error(`stored report ${r.key} does not match its recorded SHA-256`);
   return bytes;

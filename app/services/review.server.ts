@@ -1,28 +1,15 @@
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { verifyPassword } from "~/auth/password.server";
-import type { CurrentUser } from "~/auth/session.server";
-import { STEPS, downstreamOf } from "~/cases/steps";
+import { STEPS, downstreamOf } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Tx } from "~/db/client.server";
-import {
-  caseSteps,
-  cases,
-  memberships,
-  sessions,
-  signatureVoids,
-  signatures,
-  stepComments,
-  stepRevisions,
-  users,
-  type Role,
-  type SignatureMeaning,
-  type StepKey,
-} from "~/db/schema";
+import { caseSteps, cases, memberships, sessions, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
+import type { Role, SignatureMeaning, StepKey } from "~/domain/vocabulary";
 import { env } from "~/utils/env.server";
 import { sendMail } from "./mail.server";
-import { DomainError } from "./organisation.server";
+import type { Actor, CurrentUser } from "~/domain/people";
+import { DomainError } from "~/domain/errors";
 
-type Actor = { id: string; email: string; name?: string };
 
 /** A fresh company sign-in counts as re-confirming identity for this long. */
 export const FRESH_SSO_MS = 10 * 60 * 1000;
@@ -57,7 +44,7 @@ async function notify(to: string[], subject: string, paragraphs: string[], path:
 
 async function lockStep(tx: Tx, caseId: string, step: StepKey) {
   const [row] = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step))).for("update");
-  if (!row || row.revision === 0) throw new DomainError("This step has not been saved yet.", "step", 409);
+  if (!row || row.revision === 0) throw new DomainError("This step has not been saved yet.", { field: "step", kind: "conflict" });
   return row;
 }
 
@@ -69,21 +56,21 @@ export async function confirmIdentity(current: CurrentUser, password: string | u
   const [user] = await db.select().from(users).where(eq(users.id, current.user.id));
   if (password) {
     if (user?.passwordHash && (await verifyPassword(user.passwordHash, password))) return "password";
-    throw new DomainError("The password is not correct: the signature was not recorded.", "password", 401);
+    throw new DomainError("The password is not correct: the signature was not recorded.", { field: "password", kind: "unauthenticated" });
   }
   if (!current.sessionId.startsWith("token:")) {
     const [session] = await db.select().from(sessions).where(eq(sessions.id, current.sessionId));
     if (session?.method === "sso" && Date.now() - session.createdAt.getTime() < FRESH_SSO_MS) return "sso";
   }
-  throw new DomainError("Confirm your identity to sign: enter your password (or sign in again with company sign-in).", "password", 401);
+  throw new DomainError("Confirm your identity to sign: enter your password (or sign in again with company sign-in).", { field: "password", kind: "unauthenticated" });
 }
 
 /** Submits a saved step for check: it becomes read-only for the engineer and the checkers are told. */
 export async function submitStep(input: { caseId: string; step: StepKey; actor: Actor; comment?: string; blockers?: string[] }) {
-  if (input.blockers?.length) throw new DomainError(input.blockers.join(" "), "step", 409);
+  if (input.blockers?.length) throw new DomainError(input.blockers.join(" "), { field: "step", kind: "conflict" });
   const result = await db.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
-    if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, "status", 409);
+    if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, { field: "status", kind: "conflict" });
     await tx.update(caseSteps).set({ status: "submitted" }).where(eq(caseSteps.id, row.id));
     await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: input.actor.id, kind: "submitted", body: input.comment?.trim() || "Submitted for check." });
     const [c] = await tx.update(cases).set({ status: "submitted", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
@@ -101,10 +88,10 @@ export async function submitStep(input: { caseId: string; step: StepKey; actor: 
 
 /** Returns a submitted step to the engineer with the checker's comments. */
 export async function returnStep(input: { caseId: string; step: StepKey; actor: Actor; comment: string; anchor?: string }) {
-  if (input.comment.trim().length < 3) throw new DomainError("Say what needs to change: a comment is required to return a step.", "comment");
+  if (input.comment.trim().length < 3) throw new DomainError("Say what needs to change: a comment is required to return a step.", { field: "comment" });
   const result = await db.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
-    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be returned.", "status", 409);
+    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be returned.", { field: "status", kind: "conflict" });
     await tx.update(caseSteps).set({ status: "returned" }).where(eq(caseSteps.id, row.id));
     await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: input.actor.id, kind: "returned", anchor: input.anchor?.trim() || null, body: input.comment.trim() });
     const [c] = await tx.update(cases).set({ status: "returned", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
@@ -125,10 +112,10 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
   const actor = input.current.user;
   const result = await db.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
-    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", "status", 409);
+    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", { field: "status", kind: "conflict" });
     const [rev] = await tx.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
-    if (!rev) throw new DomainError("The revision to approve was not found.", "revision", 409);
-    if (rev.createdBy === actor.id) throw new DomainError("You edited this revision yourself: another checker must approve it (separation of duties).", "step", 403);
+    if (!rev) throw new DomainError("The revision to approve was not found.", { field: "revision", kind: "conflict" });
+    if (rev.createdBy === actor.id) throw new DomainError("You edited this revision yourself: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
     const revisionHash = stepRevisionHash(input.caseId, input.step, row.revision, rev.data);
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
     const [sig] = await tx
@@ -166,13 +153,13 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
   const actor = input.current.user;
   await db.transaction(async (tx) => {
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId)).for("update");
-    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", "steps", 409);
+    if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", { field: "steps", kind: "conflict" });
     const live = await liveSignatures(input.caseId, tx);
-    if (live.some((s) => s.meaning === "approved for issue")) throw new DomainError("The case is already approved for issue.", "case", 409);
+    if (live.some((s) => s.meaning === "approved for issue")) throw new DomainError("The case is already approved for issue.", { field: "case", kind: "conflict" });
     const hashes = {} as Record<StepKey, string>;
     for (const s of STEPS) {
       const sig = live.find((x) => x.step === s.key && x.meaning === "checked");
-      if (!sig) throw new DomainError(`The ${s.key} step has no valid check signature.`, "steps", 409);
+      if (!sig) throw new DomainError(`The ${s.key} step has no valid check signature.`, { field: "steps", kind: "conflict" });
       hashes[s.key] = sig.revisionHash;
     }
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
@@ -207,7 +194,7 @@ export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; st
 }
 
 export async function addComment(input: { caseId: string; step: StepKey; actor: Actor; body: string; anchor?: string }) {
-  if (input.body.trim().length === 0) throw new DomainError("Write a comment.", "body");
+  if (input.body.trim().length === 0) throw new DomainError("Write a comment.", { field: "body" });
   await db.transaction(async (tx) => {
     const [row] = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, input.caseId), eq(caseSteps.step, input.step)));
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));

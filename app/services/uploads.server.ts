@@ -1,12 +1,12 @@
 import { and, eq } from "drizzle-orm";
-import { parseSectionCsv, type SectionCsvResult } from "~/cases/section-csv";
+import { parseSectionCsv, type SectionCsvResult } from "~/domain/section-csv";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { uploads } from "~/db/schema";
 import { env } from "~/utils/env.server";
 import { getObjectBytes, putObject } from "./storage.server";
+import type { Actor } from "~/domain/people";
 
-type Actor = { id: string; email: string };
 
 /**
  * Receives a section-data CSV: parses it first and stores nothing if any row is bad; a good file

@@ -30,6 +30,21 @@ function setPath(target: Record<string, unknown> | unknown[], path: string[], va
 
 export type FieldErrors = Record<string, string[] | undefined>;
 
+/**
+ * What every page action answers: `ok` with a message for the page (and, on success, whatever the
+ * page needs next, e.g. the new revision), or a refusal with messages by field ("form" for the
+ * whole form) and nothing written.
+ */
+export interface ActionAnswer {
+  ok: boolean;
+  message: string | null;
+  fieldErrors: FieldErrors;
+  /** Which of several forms on one page the answer is for (its `intent` field), when the page has several. */
+  intent?: string;
+}
+
+export type ActionRefusal = ActionAnswer & { ok: false };
+
 /** zod issues → messages per top-level field (nested paths joined with dots). */
 export function fieldErrorsOf(error: z.ZodError): FieldErrors {
   const out: FieldErrors = {};

@@ -1,17 +1,95 @@
 import { data } from "react-router";
+import type { z } from "zod";
+import { DomainError, type DomainErrorKind } from "~/domain/errors";
+import { fieldErrorsOf, formDataToObject, type ActionAnswer, type ActionRefusal, type FieldErrors } from "./form-data";
+
+// ---------------------------------------------------------------- the one mapping of refusals to HTTP
+
+const STATUS: Record<DomainErrorKind, number> = {
+  invalid: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  "not-found": 404,
+  conflict: 409,
+  "too-large": 413,
+  unprocessable: 422,
+};
+
+// The `error` code of the API's JSON answers.
+const API_CODE: Record<DomainErrorKind, string> = {
+  invalid: "bad-request",
+  unauthenticated: "unauthorized",
+  forbidden: "forbidden",
+  "not-found": "not-found",
+  conflict: "conflict",
+  "too-large": "too-large",
+  unprocessable: "invalid-case",
+};
+
+/** The HTTP status that answers a refusal of this kind. */
+export function statusOf(error: DomainError): number {
+  return STATUS[error.kind];
+}
+
+/** A JSON error answer of the API: always `{ error, message }` (plus `problems` for a refused document), never a stack trace. */
+export function apiError(status: number, error: string, message: string, headers?: HeadersInit): Response {
+  return Response.json({ error, message }, { status, headers });
+}
+
+/** A domain refusal as the API answers it. */
+export function apiRefusal(error: DomainError): Response {
+  const body = { error: API_CODE[error.kind], message: error.message, ...(error.problems ? { problems: error.problems } : {}) };
+  return Response.json(body, { status: statusOf(error) });
+}
+
+// ---------------------------------------------------------------- page actions
+
+/**
+ * An action's success: the message for the page and whatever else the page needs next. Give every
+ * success of one action the same keys (`null` where there is nothing), so the page's type keeps them.
+ */
+export function accepted(message: string | null): Accepted;
+export function accepted<T extends object>(message: string | null, values: T): Accepted & T;
+export function accepted(message: string | null, values?: object) {
+  return { ok: true as const, message, fieldErrors: {}, ...values };
+}
+
+type Accepted = ActionAnswer & { ok: true };
+
+/** An action's refusal: messages by field ("form" for the whole form), nothing written. */
+export function refused(fieldErrors: FieldErrors, options: { status?: number; message?: string; intent?: string } = {}) {
+  const body: ActionRefusal = { ok: false, message: options.message ?? null, fieldErrors, ...(options.intent ? { intent: options.intent } : {}) };
+  return data(body, { status: options.status ?? 400 });
+}
+
+/** A domain refusal as an action answers it: its status, its message, and the message by its field. */
+export function refusalOf(error: DomainError, intent?: string) {
+  return refused({ [error.field ?? "form"]: [error.message] }, { status: statusOf(error), message: error.message, intent });
+}
+
+/**
+ * Runs an action's work and answers a DomainError as that refusal; anything else is thrown on
+ * (a Response to the framework, a fault to the error boundary). Every page action answers through it.
+ */
+export async function answer<T>(work: () => Promise<T>, options: { intent?: string } = {}): Promise<T | ReturnType<typeof refusalOf>> {
+  try {
+    return await work();
+  } catch (error) {
+    if (error instanceof DomainError) return refusalOf(error, options.intent);
+    throw error;
+  }
+}
+
+// ---------------------------------------------------------------- loaders and guards
 
 /** Throws a 404 that says what was not found: also used for other organisations' records, so their existence is not revealed. */
 export function notFound(what: string): never {
   throw data({ message: `${what} was not found, or you have no access to it.` }, { status: 404 });
 }
 
+/** Throws a 403 for a role that may not do this; the page's error boundary shows the message. */
 export function forbidden(message: string): never {
   throw data({ message }, { status: 403 });
-}
-
-/** Validation failures are returned, not thrown, so the form can show them next to its fields. */
-export function badRequest<T extends { fieldErrors?: Record<string, string[] | undefined>; formError?: string }>(body: T) {
-  return data(body, { status: 400 });
 }
 
 /** Only same-site relative paths are followed after sign-in, never another origin. */
@@ -19,9 +97,6 @@ export function safeRedirectPath(value: unknown, fallback: string): string {
   if (typeof value !== "string" || !value.startsWith("/") || value.startsWith("//") || value.startsWith("/\\")) return fallback;
   return value;
 }
-
-import type { z } from "zod";
-import { fieldErrorsOf, formDataToObject, type FieldErrors } from "./form-data";
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; fieldErrors: FieldErrors };
 

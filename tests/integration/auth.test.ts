@@ -38,7 +38,7 @@ describe("password sign-in", () => {
     const unknown = await run(loginAction, { request: request("/login", { method: "POST", body: form({ email: "nobody@nowhere.example", password: "whatever-long" }) }) });
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
-    expect((wrong.body as { formError: string }).formError).toBe((unknown.body as { formError: string }).formError);
+    expect((wrong.body as { message: string }).message).toBe((unknown.body as { message: string }).message);
     expect((await db.select().from(sessions)).length).toBe(before);
   });
 

@@ -11,7 +11,7 @@ import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { STEPS } from "~/cases/steps";
+import { STEPS } from "~/domain/steps";
 import { closeDb, db } from "~/db/client.server";
 import { runMigrations } from "~/db/migrate.server";
 import { auditLog, caseSteps, cases, reports, users, type Report } from "~/db/schema";

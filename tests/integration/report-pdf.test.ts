@@ -5,7 +5,7 @@ import { join } from "node:path";
 import { promisify } from "node:util";
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { formatNumber, formatQuantity, fromSI } from "~/cases/units";
+import { formatNumber, formatQuantity, fromSI } from "~/domain/units";
 import { db } from "~/db/client.server";
 import { cases, organisations, programmes, stepRevisions } from "~/db/schema";
 import { ENGINE_VERSION } from "~/engine";

@@ -1,4 +1,4 @@
-import type { StepStatus } from "~/db/schema";
+import type { StepStatus } from "~/domain/vocabulary";
 import { Button } from "~/components/ui/button";
 
 /**

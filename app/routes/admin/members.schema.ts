@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { ROLES } from "~/db/schema";
+import { ROLES } from "~/domain/vocabulary";
 
 const roles = z.array(z.enum(ROLES, "Unknown role")).min(1, "Choose at least one role");
 

@@ -1,15 +1,15 @@
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { ROLE_LABELS } from "~/auth/permissions";
-import { ROLES } from "~/db/schema";
+import { ROLE_LABELS } from "~/domain/permissions";
+import { ROLES } from "~/domain/vocabulary";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";
-import { DomainError, inviteMember, listMembers, listOpenInvitations, revokeInvitation, setMemberRoles } from "~/services/organisation.server";
+import { inviteMember, listMembers, listOpenInvitations, revokeInvitation, setMemberRoles } from "~/services/organisation.server";
 import { formatUtc } from "~/utils/format";
-import { parseBody } from "~/utils/http.server";
+import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/members";
 import { InviteSchema, MembersActionSchema } from "./members.schema";
 
@@ -22,27 +22,32 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const current = await requirePermission(request, "org:admin");
   const parsed = await parseBody(request, MembersActionSchema, ["roles"]);
-  if (!parsed.ok) return data({ intent: null as string | null, message: null as string | null, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;
   const base = { organisationId: current.organisation.id, actor: current.user };
-  try {
-    if (input.intent === "invite") await inviteMember({ ...base, email: input.email, roles: input.roles });
-    else if (input.intent === "set-roles") await setMemberRoles({ ...base, userId: input.userId, roles: input.roles });
-    else await revokeInvitation({ ...base, invitationId: input.invitationId });
-  } catch (error) {
-    if (error instanceof DomainError) return data({ intent: input.intent as string | null, message: null, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
-  const messages = { invite: `Invitation sent to ${"email" in input ? input.email : ""}.`, "set-roles": "Roles saved.", revoke: "Invitation withdrawn." };
-  return { intent: input.intent as string | null, message: messages[input.intent] as string | null, fieldErrors: {} as Record<string, string[] | undefined> };
+  return answer(
+    async () => {
+      if (input.intent === "invite") {
+        await inviteMember({ ...base, email: input.email, roles: input.roles });
+        return accepted(`Invitation sent to ${input.email}.`);
+      }
+      if (input.intent === "set-roles") {
+        await setMemberRoles({ ...base, userId: input.userId, roles: input.roles });
+        return accepted("Roles saved.");
+      }
+      await revokeInvitation({ ...base, invitationId: input.invitationId });
+      return accepted("Invitation withdrawn.");
+    },
+    { intent: input.intent },
+  );
 }
 
 export default function MembersRoute({ loaderData, actionData }: Route.ComponentProps) {
   return (
     <>
       <PageHeader title="Members" description="Who belongs to your organisation and in which roles. A person may hold several roles; nobody may check their own work." />
-      {actionData?.message ? <div className="mb-4"><Alert tone="info">{actionData.message}</Alert></div> : null}
-      {actionData?.fieldErrors?.form || (actionData?.intent && actionData.intent !== "invite" && Object.keys(actionData.fieldErrors).length) ? (
+      {actionData?.ok && actionData.message ? <div className="mb-4"><Alert tone="info">{actionData.message}</Alert></div> : null}
+      {actionData?.fieldErrors.form || (actionData?.intent && actionData.intent !== "invite" && Object.keys(actionData.fieldErrors).length) ? (
         <div className="mb-4"><Alert>{Object.values(actionData.fieldErrors).flat().join(" ")}</Alert></div>
       ) : null}
       <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
@@ -71,7 +76,7 @@ export default function MembersRoute({ loaderData, actionData }: Route.Component
           ))}
         </ListTable>
         <div className="space-y-5">
-          <InviteForm serverErrors={actionData?.intent === "invite" || actionData?.intent === null ? actionData?.fieldErrors : undefined} />
+          <InviteForm serverErrors={actionData && (actionData.intent ?? "invite") === "invite" ? actionData.fieldErrors : undefined} />
           <Panel title="Open invitations">
             {loaderData.invitations.length === 0 ? (
               <p className="text-sm text-ink-muted">None.</p>

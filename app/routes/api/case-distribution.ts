@@ -2,8 +2,9 @@ import { requireCase } from "~/auth/case-access.server";
 import { buildCaseFile, caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionViewForPage } from "~/services/distribution.server";
-import { DomainError } from "~/services/organisation.server";
 import type { Route } from "./+types/case-distribution";
+import { DomainError } from "~/domain/errors";
+import { apiRefusal } from "~/utils/http.server";
 
 /**
  * The distribution of one case of a case file, as JSON for the distribution page: choosing another
@@ -14,10 +15,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const id = new URL(request.url).searchParams.get("case") ?? "";
   try {
     const file = buildCaseFile(c.title, caseInputs(await getCaseSteps(c.id)), "envelope");
-    if (!file.cases.some((k) => k.id === id)) return Response.json({ error: "not-found", message: `Case file ${c.reference} has no load case "${id}".` }, { status: 404 });
+    if (!file.cases.some((k) => k.id === id)) return apiRefusal(new DomainError(`Case file ${c.reference} has no load case "${id}".`, { kind: "not-found" }));
     return Response.json(distributionViewForPage(file, id), { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
-    if (error instanceof DomainError) return Response.json({ error: "conflict", message: error.message }, { status: error.status });
+    if (error instanceof DomainError) return apiRefusal(error);
     throw error;
   }
 }

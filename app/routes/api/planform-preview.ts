@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { z } from "zod";
 import { requirePermission } from "~/auth/auth.server";
-import { PlanformSchema } from "~/cases/step-data";
+import { PlanformSchema } from "~/domain/step-data";
 import { isEngineError, wingGeometry } from "~/engine";
 import { fieldErrorsOf } from "~/utils/form-data";
 import type { Route } from "./+types/planform-preview";

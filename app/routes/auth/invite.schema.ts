@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PASSWORD_MAX_LENGTH as PASSWORD_MAX, PASSWORD_MIN_LENGTH as PASSWORD_MIN } from "~/auth/password-policy";
+import { PASSWORD_MAX_LENGTH as PASSWORD_MAX, PASSWORD_MIN_LENGTH as PASSWORD_MIN } from "~/domain/password-policy";
 
 /** A new account chooses a name and a password of at least 12 characters. */
 export const AcceptNewSchema = z

@@ -1,12 +1,12 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { completeSignIn } from "~/auth/auth.server";
-import { landingPath } from "~/auth/permissions";
+import { landingPath } from "~/domain/permissions";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert } from "~/components/ui/page-header";
-import { acceptInvitation, DomainError, findInvitation } from "~/services/organisation.server";
-import { parseBody } from "~/utils/http.server";
+import { acceptInvitation, findInvitation } from "~/services/organisation.server";
+import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/invite";
 import { AcceptExistingSchema, AcceptNewSchema } from "./invite.schema";
 
@@ -20,15 +20,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   const found = await findInvitation(params.token);
   if (!found) throw data({ message: "This invitation link is not valid any more." }, { status: 404 });
   const parsed = await parseBody(request, found.accountExists ? AcceptExistingSchema : AcceptNewSchema);
-  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors }, { status: 400 });
-  try {
-    const accepted = await acceptInvitation({ token: params.token, ...(parsed.value as { name?: string; password: string }) });
-    const signedIn = await completeSignIn({ id: accepted.userId, email: accepted.email }, accepted, "password", request.headers.get("User-Agent"));
-    throw redirect(landingPath(accepted.roles), { headers: { "Set-Cookie": signedIn.setCookie } });
-  } catch (error) {
-    if (error instanceof DomainError) return data({ fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!parsed.ok) return refused(parsed.fieldErrors);
+  const input = parsed.value as { name?: string; password: string };
+  return answer(async () => {
+    const joined = await acceptInvitation({ token: params.token, name: input.name, password: input.password });
+    const signedIn = await completeSignIn({ id: joined.userId, email: joined.email }, joined, "password", request.headers.get("User-Agent"));
+    throw redirect(landingPath(joined.roles), { headers: { "Set-Cookie": signedIn.setCookie } });
+  });
 }
 
 export default function InviteRoute({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,5 +1,5 @@
-import { data, Form, redirect, useNavigation } from "react-router";
-import { landingPath } from "~/auth/permissions";
+import { Form, redirect, useNavigation } from "react-router";
+import { landingPath } from "~/domain/permissions";
 import { getOptionalUser, signInWithPassword } from "~/auth/auth.server";
 import { ssoEnabled } from "~/auth/sso.server";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
@@ -7,7 +7,7 @@ import { TextField } from "~/components/forms/field";
 import { Button } from "~/components/ui/button";
 import { Alert } from "~/components/ui/page-header";
 import { env } from "~/utils/env.server";
-import { clientAddress, parseBody, safeRedirectPath } from "~/utils/http.server";
+import { clientAddress, parseBody, refused, safeRedirectPath } from "~/utils/http.server";
 import type { Route } from "./+types/login";
 import { LoginSchema } from "./login.schema";
 
@@ -32,14 +32,14 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const parsed = await parseBody(request, LoginSchema);
-  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, formError: null as string | null }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const result = await signInWithPassword({
     email: parsed.value.email,
     password: parsed.value.password,
     address: clientAddress(request),
     userAgent: request.headers.get("User-Agent"),
   });
-  if (!result.ok) return data({ fieldErrors: {}, formError: result.message as string | null }, { status: result.status });
+  if (!result.ok) return refused({}, { status: result.status, message: result.message });
   throw redirect(safeRedirectPath(parsed.value.redirectTo, landingPath(result.current.roles)), { headers: { "Set-Cookie": result.setCookie } });
 }
 
@@ -56,7 +56,7 @@ export default function LoginRoute({ loaderData, actionData }: Route.ComponentPr
           <h1 className="mb-4 text-lg font-semibold">Sign in</h1>
           {loaderData.notice ? <div className="mb-4"><Alert tone="info">{loaderData.notice}</Alert></div> : null}
           {loaderData.ssoError ? <div className="mb-4"><Alert>{loaderData.ssoError}</Alert></div> : null}
-          {actionData?.formError ? <div className="mb-4"><Alert>{actionData.formError}</Alert></div> : null}
+          {actionData?.message ? <div className="mb-4"><Alert>{actionData.message}</Alert></div> : null}
           <Form method="post" action="/login" onSubmit={onSubmit} noValidate>
             <input type="hidden" {...form.register("redirectTo")} />
             <TextField label="E-mail" type="email" autoComplete="username" autoFocus {...form.register("email")} errors={errorsFor(form, actionData?.fieldErrors, "email")} />

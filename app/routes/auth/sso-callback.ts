@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { landingPath } from "~/auth/permissions";
+import { landingPath } from "~/domain/permissions";
 import { clearSsoFlowCookie, completeSso, ssoEnabled } from "~/auth/sso.server";
 import { notFound, safeRedirectPath } from "~/utils/http.server";
 import type { Route } from "./+types/sso-callback";

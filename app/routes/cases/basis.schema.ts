@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { numberInput, numberListInput } from "~/cases/form-values";
-import { CATEGORIES } from "~/cases/step-data";
-import type { Quantity } from "~/cases/units";
+import { numberInput, numberListInput } from "~/domain/form-values";
+import { CATEGORIES } from "~/domain/step-data";
+import type { Quantity } from "~/domain/units";
 
 /** The basis form as typed, in the person's display units; the action converts it to SI. */
 export const BasisFormSchema = z.strictObject({

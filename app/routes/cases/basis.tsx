@@ -1,9 +1,9 @@
 import { Form, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { convertFields, tidy } from "~/cases/form-values";
-import { BasisSchema, CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/cases/step-data";
-import { unitSymbol, type UnitSystem } from "~/cases/units";
+import { hasPermission } from "~/domain/permissions";
+import { convertFields, tidy } from "~/domain/form-values";
+import { BasisSchema, CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import { unitSymbol, type UnitSystem } from "~/domain/units";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
@@ -12,9 +12,9 @@ import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { getCaseSteps, stepData } from "~/services/case-steps.server";
 import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/basis";
-import { refused, saveStepAnswer } from "./step-action.server";
+import { saveStepAnswer } from "./step-action.server";
 import { BASIS_QUANTITIES, BasisFormSchema } from "./basis.schema";
 
 /** A blank basis starts from the transport category's references and no numbers. */
@@ -75,10 +75,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, BasisFormSchema);
-  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const { revision, ...typed } = parsed.value;
   const si = BasisSchema.safeParse(convertFields(typed, typed.units, BASIS_QUANTITIES, "toSI"));
-  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
 }
 

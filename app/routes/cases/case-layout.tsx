@@ -1,6 +1,7 @@
 import { Link, NavLink, Outlet } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
+import { STEPS } from "~/domain/steps";
+import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { getCaseSteps } from "~/services/case-steps.server";
 import type { Route } from "./+types/case-layout";

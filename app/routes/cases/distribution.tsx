@@ -1,10 +1,10 @@
 import { Form, Link, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { numberInput } from "~/cases/form-values";
-import { DistributionSchema, RULE_LABELS } from "~/cases/step-data";
-import { formatNumber } from "~/cases/units";
+import { hasPermission } from "~/domain/permissions";
+import { numberInput } from "~/domain/form-values";
+import { DistributionSchema, RULE_LABELS } from "~/domain/step-data";
+import { formatNumber } from "~/domain/units";
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
 import { Chart } from "~/components/charts/chart";
 import { ResultsCaution } from "~/components/case/caution";
@@ -13,11 +13,11 @@ import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-heade
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionViewForPage, flaggedCases, undispositioned } from "~/services/distribution.server";
-import { DomainError } from "~/services/organisation.server";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
-import { refused, saveStepAnswer } from "./step-action.server";
+import { saveStepAnswer } from "./step-action.server";
+import { DomainError } from "~/domain/errors";
 
 const DispositionFormSchema = z.strictObject({
   revision: numberInput("Revision"),
@@ -52,10 +52,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, DispositionFormSchema);
-  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const chosen = Object.fromEntries(parsed.value.dispositions.filter((d) => d.action !== "none").map((d) => [d.id, { action: d.action, comment: d.comment }]));
   const si = DistributionSchema.safeParse({ dispositions: chosen });
-  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "distribution", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { numberInput } from "~/cases/form-values";
-import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/cases/step-data";
+import { numberInput } from "~/domain/form-values";
+import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/domain/step-data";
 
 const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
 const checkbox = z.preprocess((v) => v === true || v === "on" || v === "true", z.boolean());

@@ -1,11 +1,10 @@
 import { useState } from "react";
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { tidy } from "~/cases/form-values";
-import { caseUnits } from "~/cases/step-context.server";
-import { EnvelopeSchema, RULE_LABELS, SPANWISE_LABELS, COMPRESSIBILITY_RULES, SPANWISE_METHODS, type EnvelopeData } from "~/cases/step-data";
-import { fromSI, toSI, unitSymbol, type UnitSystem } from "~/cases/units";
+import { hasPermission } from "~/domain/permissions";
+import { tidy } from "~/domain/form-values";
+import { EnvelopeSchema, RULE_LABELS, SPANWISE_LABELS, COMPRESSIBILITY_RULES, SPANWISE_METHODS, type EnvelopeData } from "~/domain/step-data";
+import { fromSI, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { vnOption } from "~/charts/vn";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
@@ -17,16 +16,18 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { caseInputs } from "~/services/analysis.server";
-import { getCaseSteps } from "~/services/case-steps.server";
-import { generatedCases, vnSets, type VnSet } from "~/services/envelope.server";
-import { DomainError } from "~/services/organisation.server";
+import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
+import { regeneratedCases, vnSets, type VnSet } from "~/services/envelope.server";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/envelope";
-import { refused, saveStepAnswer } from "./step-action.server";
+import { saveStepAnswer } from "./step-action.server";
 import { EnvelopeFormSchema } from "./envelope.schema";
+import { DomainError } from "~/domain/errors";
 
 const G0 = 9.80665;
+// Fields whose messages show beside them; the rest go to the banner.
+const INLINE_FIELDS = ["compressibility", "spanwise", "stations"];
 const DEFAULT_METHOD = { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 } as const;
 
 function toDisplay(env: EnvelopeData | null, units: UnitSystem) {
@@ -81,34 +82,25 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, EnvelopeFormSchema);
-  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const steps = await getCaseSteps(c.id);
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const form = parsed.value;
   const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations };
-  let cases: unknown[];
-  if (form.intent === "generate") {
-    if (!inputs.basis || !inputs.planform || !inputs.sections) {
-      return data({ ok: false, revision: 0, fieldErrors: { form: ["Save the basis, planform and sections first."] } }, { status: 409 });
-    }
-    try {
-      const kept = (inputs.envelope?.cases ?? []).filter((k) => k.kind === "manual");
-      cases = [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method)), ...kept];
-    } catch (error) {
-      if (error instanceof DomainError) return data({ ok: false, revision: 0, fieldErrors: { form: [error.message] } }, { status: error.status });
-      throw error;
-    }
-  } else {
-    cases = form.cases.map((k) => ({
-      ...k,
-      altitude: toSI(units, "altitude", k.altitude),
-      weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0,
-    }));
-  }
-  const si = EnvelopeSchema.safeParse({ ...method, cases });
-  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
-  return saveStepAnswer({ caseId: c.id, step: "envelope", baseRevision: form.revision, data: si.data, actor: current.user });
+  return answer(async () => {
+    const cases =
+      form.intent === "generate"
+        ? regeneratedCases(inputs, method)
+        : form.cases.map((k) => ({
+            ...k,
+            altitude: toSI(units, "altitude", k.altitude),
+            weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0,
+          }));
+    const si = EnvelopeSchema.safeParse({ ...method, cases });
+    if (!si.success) return refused(fieldErrorsOf(si.error));
+    return saveStepAnswer({ caseId: c.id, step: "envelope", baseRevision: form.revision, data: si.data, actor: current.user });
+  });
 }
 
 export default function EnvelopeRoute({ loaderData, actionData }: Route.ComponentProps) {
@@ -119,7 +111,10 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
   const [setIndex, setSetIndex] = useState(0);
   const set = loaderData.sets[setIndex];
   const disabled = !loaderData.canEdit;
-  const general = [...(server?.form ?? []), ...(server?.revision ?? []), ...(server?.status ?? []), ...(server?.cases ?? [])];
+  // Everything the server said that no field of the form shows: stale revision, read-only step, a rule of the basis.
+  const general = Object.entries(server ?? {})
+    .filter(([k]) => !INLINE_FIELDS.includes(k) && !k.startsWith("cases."))
+    .flatMap(([, m]) => m ?? []);
   const rowErrors = Object.entries(server ?? {}).filter(([k]) => k.startsWith("cases."));
   return (
     <>

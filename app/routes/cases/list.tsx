@@ -1,7 +1,7 @@
 import { Form, Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { hasPermission } from "~/auth/permissions";
-import { CASE_STATUSES, type CaseStatus } from "~/db/schema";
+import { hasPermission } from "~/domain/permissions";
+import { CASE_STATUSES, type CaseStatus } from "~/domain/vocabulary";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { EmptyState, PageHeader } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";

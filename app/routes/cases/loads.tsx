@@ -2,11 +2,10 @@ import { useEffect, useState } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { numberInput, tidy } from "~/cases/form-values";
-import { caseUnits } from "~/cases/step-context.server";
-import { LoadsSchema } from "~/cases/step-data";
-import { formatQuantity, fromSI, toSI, unitSymbol, type UnitSystem } from "~/cases/units";
+import { hasPermission } from "~/domain/permissions";
+import { numberInput, tidy } from "~/domain/form-values";
+import { LoadsSchema } from "~/domain/step-data";
+import { formatQuantity, fromSI, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { loadsOption, type LoadQuantity } from "~/charts/loads";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
@@ -17,11 +16,11 @@ import { DataTable } from "~/components/tables/data-table";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { caseInputs, analysedCases } from "~/services/analysis.server";
-import { getCaseSteps } from "~/services/case-steps.server";
+import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/loads";
-import { refused, saveStepAnswer } from "./step-action.server";
+import { saveStepAnswer } from "./step-action.server";
 
 const LoadsFormSchema = z.strictObject({ revision: numberInput("Revision"), semispanMass: numberInput("Semispan structural mass") });
 
@@ -45,10 +44,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, LoadsFormSchema);
-  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const units = caseUnits(await getCaseSteps(c.id));
   const si = LoadsSchema.safeParse({ semispanMass: toSI(units, "mass", parsed.value.semispanMass) });
-  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "loads", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 

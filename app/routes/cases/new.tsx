@@ -1,12 +1,11 @@
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, href, redirect, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
 import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
-import { DomainError } from "~/services/organisation.server";
 import { createCase, listProgrammes } from "~/services/programmes.server";
-import { parseBody } from "~/utils/http.server";
+import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/new";
 import { NewCaseSchema } from "./new.schema";
 
@@ -19,14 +18,12 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const current = await requirePermission(request, "case:create");
   const parsed = await parseBody(request, NewCaseSchema);
-  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors }, { status: 400 });
-  try {
-    const row = await createCase({ organisationId: current.organisation.id, actor: current.user, ...parsed.value });
-    throw redirect(`/cases/${row.id}`);
-  } catch (error) {
-    if (error instanceof DomainError) return data({ fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!parsed.ok) return refused(parsed.fieldErrors);
+  const input = parsed.value;
+  return answer(async () => {
+    const row = await createCase({ organisationId: current.organisation.id, actor: current.user, ...input });
+    throw redirect(href("/cases/:caseId", { caseId: row.id }));
+  });
 }
 
 export default function NewCaseRoute({ loaderData, actionData }: Route.ComponentProps) {

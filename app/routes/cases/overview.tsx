@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { describeCaseEvent, STEP_STATUS_LABELS, STEPS } from "~/cases/steps";
+import { describeCaseEvent, STEPS } from "~/domain/steps";
+import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { auditForEntity } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput } from "~/cases/form-values";
+import { numberInput } from "~/domain/form-values";
 
 export const PlanformFormSchema = z.strictObject({
   revision: numberInput("Revision"),

@@ -1,12 +1,11 @@
 import { useEffect, useMemo, useRef } from "react";
 import { Form, useFetcher, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { caseUnits } from "~/cases/step-context.server";
-import { panelsToStations } from "~/cases/planform-panels";
-import { PlanformSchema, type PlanformData } from "~/cases/step-data";
-import { fromSI, toSI, unitSymbol, formatNumber, type UnitSystem } from "~/cases/units";
-import { tidy } from "~/cases/form-values";
+import { hasPermission } from "~/domain/permissions";
+import { panelsToStations } from "~/domain/planform-panels";
+import { PlanformSchema, type PlanformData } from "~/domain/step-data";
+import { fromSI, toSI, unitSymbol, formatNumber, type UnitSystem } from "~/domain/units";
+import { tidy } from "~/domain/form-values";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
@@ -16,12 +15,12 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { wingGeometry } from "~/engine";
-import { getCaseSteps, stepData } from "~/services/case-steps.server";
+import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody } from "~/utils/http.server";
+import { parseBody, refused } from "~/utils/http.server";
 import type { PlanformPreview } from "../api/planform-preview";
 import type { Route } from "./+types/planform";
-import { refused, saveStepAnswer } from "./step-action.server";
+import { saveStepAnswer } from "./step-action.server";
 import { PlanformFormSchema } from "./planform.schema";
 
 function toDisplay(p: PlanformData | null, units: UnitSystem) {
@@ -58,10 +57,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, PlanformFormSchema);
-  if (!parsed.ok) return refused(parsed.fieldErrors, 400);
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const units = caseUnits(await getCaseSteps(c.id));
   const si = PlanformSchema.safeParse(toStored(parsed.value, units));
-  if (!si.success) return refused(fieldErrorsOf(si.error), 400);
+  if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 

@@ -1,20 +1,19 @@
 import { useEffect } from "react";
-import { data, Form, useFetcher, useNavigation, useRevalidator } from "react-router";
+import { Form, useFetcher, useNavigation, useRevalidator } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { formatNumber } from "~/cases/units";
+import { hasPermission } from "~/domain/permissions";
+import { formatNumber } from "~/domain/units";
 import { ResultsCaution } from "~/components/case/caution";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import type { ReportSnapshot } from "~/reports/snapshot";
 import { db } from "~/db/client.server";
 import { reports } from "~/db/schema";
-import { DomainError } from "~/services/organisation.server";
 import { listReports, releaseReport, requestReport } from "~/services/reports.server";
 import { confirmIdentity } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
-import { parseBody } from "~/utils/http.server";
+import { accepted, answer, forbidden, parseBody, refused } from "~/utils/http.server";
 import { and, eq, inArray } from "drizzle-orm";
 import type { Route } from "./+types/reports";
 
@@ -82,21 +81,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "report:read");
   const parsed = await parseBody(request, ReportsActionSchema);
-  if (!parsed.ok) return data({ ok: false, message: Object.values(parsed.fieldErrors).flat().join(" ") }, { status: 400 });
-  try {
-    if (parsed.value.intent === "request") {
-      if (!hasPermission(current.roles, "case:edit")) throw data({ message: "Only an engineer of the case requests its report." }, { status: 403 });
+  if (!parsed.ok) return refused(parsed.fieldErrors, { message: Object.values(parsed.fieldErrors).flat().join(" ") });
+  const input = parsed.value;
+  return answer(async () => {
+    if (input.intent === "request") {
+      if (!hasPermission(current.roles, "case:edit")) forbidden("Only an engineer of the case requests its report.");
       const r = await requestReport({ caseId: c.id, actor: current.user });
-      return { ok: true, message: `Report ${r.reportNumber} requested: it is being generated.` };
+      return accepted(`Report ${r.reportNumber} requested: it is being generated.`);
     }
-    if (!hasPermission(current.roles, "report:release")) throw data({ message: "Only quality staff release reports." }, { status: 403 });
-    const confirmedBy = await confirmIdentity(current, parsed.value.password || undefined);
-    await releaseReport({ reportId: parsed.value.reportId, organisationId: current.organisation.id, current, role: "quality", confirmedBy });
-    return { ok: true, message: "Report released and signed." };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, message: error.message }, { status: error.status });
-    throw error;
-  }
+    if (!hasPermission(current.roles, "report:release")) forbidden("Only quality staff release reports.");
+    const confirmedBy = await confirmIdentity(current, input.password || undefined);
+    await releaseReport({ reportId: input.reportId, organisationId: current.organisation.id, current, role: "quality", confirmedBy });
+    return accepted("Report released and signed.");
+  });
 }
 
 export default function ReportsRoute({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,19 +1,18 @@
-import { data, Form, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { STEP_STATUS_LABELS } from "~/cases/steps";
-import { STEP_KEYS } from "~/db/schema";
+import { hasPermission } from "~/domain/permissions";
+import { STEP_KEYS, STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { flaggedCases, undispositioned } from "~/services/distribution.server";
-import { DomainError } from "~/services/organisation.server";
 import { addComment, approveCaseForIssue, approveStep, caseSignatures, confirmIdentity, returnStep, reviewState, submitStep } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
-import { parseBody } from "~/utils/http.server";
+import { accepted, answer, forbidden, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/review";
+import { DomainError } from "~/domain/errors";
 
 const step = z.enum(STEP_KEYS, "Unknown step");
 const ReviewActionSchema = z.discriminatedUnion("intent", [
@@ -55,40 +54,37 @@ async function distributionBlockers(caseId: string, title: string): Promise<stri
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");
   const parsed = await parseBody(request, ReviewActionSchema);
-  if (!parsed.ok) return data({ ok: false, message: null as string | null, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  if (!parsed.ok) return refused(parsed.fieldErrors);
   const v = parsed.value;
   const need = (ok: boolean, what: string) => {
-    if (!ok) throw data({ message: `Your role does not allow this (${what}).` }, { status: 403 });
+    if (!ok) forbidden(`Your role does not allow this (${what}).`);
   };
-  try {
+  return answer(async () => {
     if (v.intent === "submit") {
       need(hasPermission(current.roles, "case:edit"), "submitting needs the engineer role");
       await submitStep({ caseId: c.id, step: v.step, actor: current.user, comment: v.comment, blockers: v.step === "distribution" ? await distributionBlockers(c.id, c.title) : [] });
-      return { ok: true, message: `${v.step} submitted for check.` as string | null, fieldErrors: {} as Record<string, string[] | undefined> };
+      return accepted(`${v.step} submitted for check.`);
     }
     if (v.intent === "approve") {
       need(hasPermission(current.roles, "step:check"), "approving needs the checker role");
       const confirmedBy = await confirmIdentity(current, v.password || undefined);
       await approveStep({ caseId: c.id, step: v.step, current, role: "checker", confirmedBy, comment: v.comment });
-      return { ok: true, message: `${v.step} approved and signed.`, fieldErrors: {} };
+      return accepted(`${v.step} approved and signed.`);
     }
     if (v.intent === "return") {
       need(hasPermission(current.roles, "step:check"), "returning needs the checker role");
       await returnStep({ caseId: c.id, step: v.step, actor: current.user, comment: v.comment, anchor: v.anchor });
-      return { ok: true, message: `${v.step} returned to the engineer.`, fieldErrors: {} };
+      return accepted(`${v.step} returned to the engineer.`);
     }
     if (v.intent === "comment") {
       await addComment({ caseId: c.id, step: v.step, actor: current.user, body: v.body, anchor: v.anchor });
-      return { ok: true, message: "Comment added.", fieldErrors: {} };
+      return accepted("Comment added.");
     }
     need(hasPermission(current.roles, "step:check"), "approving for issue needs the checker role");
     const confirmedBy = await confirmIdentity(current, v.password || undefined);
     await approveCaseForIssue({ caseId: c.id, current, role: "checker", confirmedBy });
-    return { ok: true, message: "Case approved for issue and signed.", fieldErrors: {} };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, message: error.message, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+    return accepted("Case approved for issue and signed.");
+  });
 }
 
 export default function ReviewRoute({ loaderData, actionData }: Route.ComponentProps) {

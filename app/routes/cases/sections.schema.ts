@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput } from "~/cases/form-values";
+import { numberInput } from "~/domain/form-values";
 
 const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
 

@@ -1,11 +1,10 @@
 import { data, Form, useFetcher, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { hasPermission } from "~/auth/permissions";
-import { tidy } from "~/cases/form-values";
-import { COEFFICIENT_COLUMNS, describeProblem, MAX_SECTION_CSV_BYTES, POLAR_COLUMNS, type CsvProblem } from "~/cases/section-csv";
-import { SectionsSchema, type SectionsData } from "~/cases/step-data";
-import { formatNumber, fromSI, toSI, unitSymbol } from "~/cases/units";
-import { caseUnits } from "~/cases/step-context.server";
+import { hasPermission } from "~/domain/permissions";
+import { tidy } from "~/domain/form-values";
+import { COEFFICIENT_COLUMNS, describeProblem, MAX_SECTION_CSV_BYTES, POLAR_COLUMNS, type CsvProblem } from "~/domain/section-csv";
+import { SectionsSchema, type SectionsData } from "~/domain/step-data";
+import { formatNumber, fromSI, toSI, unitSymbol } from "~/domain/units";
 import { sectionFitOption } from "~/charts/section-fit";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
@@ -14,15 +13,17 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
-import { getCaseSteps, saveStep, stepData } from "~/services/case-steps.server";
-import { DomainError } from "~/services/organisation.server";
+import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
 import { readSectionUpload, receiveSectionCsv } from "~/services/uploads.server";
-import { fieldErrorsOf, formDataToObject } from "~/utils/form-data";
+import { fieldErrorsOf, formDataToObject, type ActionAnswer, type ActionRefusal } from "~/utils/form-data";
+import { accepted, refused } from "~/utils/http.server";
 import type { Route } from "./+types/sections";
 import { SectionsFormSchema } from "./sections.schema";
+import { saveStepAnswer } from "./step-action.server";
 
 type Preview = { uploadId: string; filename: string; sha256: string; kind: string; lines: number; rows: SectionsData["rows"]; tables: SectionsData["tables"] };
-type ActionResult = { ok: boolean; revision?: number; fieldErrors: Record<string, string[] | undefined>; problems?: CsvProblem[]; preview?: Preview };
+/** The upload fetcher's answer: the refusal with every problem of the file, or the file's data to confirm. */
+type UploadAnswer = (ActionRefusal & { problems?: CsvProblem[] }) | (ActionAnswer & { ok: true; preview?: Preview });
 
 const text = (v: number | undefined) => (v === undefined ? "" : String(tidy(v)));
 
@@ -53,58 +54,56 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs): Promise<ReturnType<typeof data<ActionResult>> | ActionResult> {
+export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const length = Number(request.headers.get("Content-Length") ?? 0);
-  if (length > MAX_SECTION_CSV_BYTES + 64 * 1024) return data<ActionResult>({ ok: false, fieldErrors: { file: [`The file is larger than ${MAX_SECTION_CSV_BYTES / 1024} KiB.`] } }, { status: 413 });
+  if (length > MAX_SECTION_CSV_BYTES + 64 * 1024) return refused({ file: [`The file is larger than ${MAX_SECTION_CSV_BYTES / 1024} KiB.`] }, { status: 413 });
   const body = await request.formData().catch(() => null);
-  if (!body) return data<ActionResult>({ ok: false, fieldErrors: { form: ["The request body could not be read."] } }, { status: 400 });
+  if (!body) return refused({ form: ["The request body could not be read."] });
   if (body.has("file")) {
     const file = body.get("file");
-    if (!(file instanceof File) || file.size === 0) return data<ActionResult>({ ok: false, fieldErrors: { file: ["Choose a CSV file to upload."] } }, { status: 400 });
+    if (!(file instanceof File) || file.size === 0) return refused({ file: ["Choose a CSV file to upload."] });
     const received = await receiveSectionCsv({ organisationId: c.organisationId, caseId: c.id, filename: file.name, bytes: new Uint8Array(await file.arrayBuffer()), actor: current.user });
-    if (!received.parsed.ok) return data<ActionResult>({ ok: false, fieldErrors: { file: [`${file.name} was not accepted: ${received.parsed.problems.length} problem(s).`] }, problems: received.parsed.problems }, { status: 400 });
+    if (!received.parsed.ok) {
+      const problems = received.parsed.problems;
+      const refusal: ActionRefusal & { problems: CsvProblem[] } = { ok: false, message: null, fieldErrors: { file: [`${file.name} was not accepted: ${problems.length} problem(s).`] }, problems };
+      return data(refusal, { status: 400 });
+    }
     const { upload, parsed } = received;
-    return { ok: true, fieldErrors: {}, preview: { uploadId: upload!.id, filename: upload!.filename, sha256: upload!.sha256, kind: parsed.kind, lines: parsed.lines, rows: parsed.rows, tables: parsed.tables } };
+    return accepted(null, { revision: null, preview: { uploadId: upload!.id, filename: upload!.filename, sha256: upload!.sha256, kind: parsed.kind, lines: parsed.lines, rows: parsed.rows, tables: parsed.tables } });
   }
 
   const checked = SectionsFormSchema.safeParse(formDataToObject(body));
-  if (!checked.success) return data<ActionResult>({ ok: false, fieldErrors: fieldErrorsOf(checked.error) }, { status: 400 });
-  const parsed = { value: checked.data };
+  if (!checked.success) return refused(fieldErrorsOf(checked.error));
+  const input = checked.data;
   let candidate: unknown;
-  if (parsed.value.intent === "save") {
+  if (input.intent === "save") {
     const units = caseUnits(await getCaseSteps(c.id));
-    candidate = { rows: parsed.value.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), source: { kind: "typed" }, tables: [] };
+    candidate = { rows: input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), source: { kind: "typed" }, tables: [] };
   } else {
-    const found = await readSectionUpload(c.id, parsed.value.uploadId);
-    if (!found || !found.parsed.ok) return data<ActionResult>({ ok: false, fieldErrors: { uploadId: ["That upload was not found for this case; upload the file again."] } }, { status: 400 });
+    const found = await readSectionUpload(c.id, input.uploadId);
+    if (!found || !found.parsed.ok) return refused({ uploadId: ["That upload was not found for this case; upload the file again."] });
     candidate = { rows: found.parsed.rows, tables: found.parsed.tables, source: { kind: "upload", uploadId: found.upload.id, filename: found.upload.filename, sha256: found.upload.sha256 } };
   }
   const si = SectionsSchema.safeParse(candidate);
-  if (!si.success) return data<ActionResult>({ ok: false, fieldErrors: fieldErrorsOf(si.error) }, { status: 400 });
-  try {
-    const saved = await saveStep({ caseId: c.id, step: "sections", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
-    return { ok: true, revision: saved.revision, fieldErrors: {} };
-  } catch (error) {
-    if (error instanceof DomainError) return data<ActionResult>({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!si.success) return refused(fieldErrorsOf(si.error));
+  return saveStepAnswer({ caseId: c.id, step: "sections", baseRevision: input.revision, data: si.data, actor: current.user });
 }
 
 export default function SectionsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const { form, onSubmit } = useZodForm(SectionsFormSchema, { intent: "save", revision: loaderData.revision, ...loaderData.values } as never, loaderData.revision);
   const busy = useNavigation().state === "submitting";
-  const upload = useFetcher<ActionResult>();
-  const result = (upload.data ?? null) as ActionResult | null;
-  const server = actionData && "fieldErrors" in actionData ? (actionData as ActionResult).fieldErrors : undefined;
+  const upload = useFetcher<UploadAnswer>();
+  const result = upload.data ?? null;
+  const server = actionData?.fieldErrors;
   const saved = loaderData.saved;
   const disabled = !loaderData.canEdit;
   const banner = [...(server?.revision ?? []), ...(server?.form ?? []), ...(server?.status ?? []), ...(server?.rows ?? []), ...(server?.uploadId ?? [])];
   return (
     <>
       <PageHeader title="Sections" description="Incompressible 2-D section data along the span, from a wind tunnel or a 2-D analysis. Linear between stations; the compressibility rule is applied later." />
-      <UnsavedGuard dirty={form.formState.isDirty && !(actionData as ActionResult | undefined)?.ok} />
-      {(actionData as ActionResult | undefined)?.ok && (actionData as ActionResult).revision ? <div className="mb-3"><Alert tone="info">Saved as revision {(actionData as ActionResult).revision}.</Alert></div> : null}
+      <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
+      {actionData?.ok && actionData.revision ? <div className="mb-3"><Alert tone="info">Saved as revision {actionData.revision}.</Alert></div> : null}
       {banner.length ? <div className="mb-3"><Alert>{banner.join(" ")}</Alert></div> : null}
       {saved?.source.kind === "upload" ? (
         <p className="mb-3 text-sm text-ink-muted">

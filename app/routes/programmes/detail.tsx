@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { hasPermission } from "~/auth/permissions";
+import { hasPermission } from "~/domain/permissions";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { EmptyState, PageHeader } from "~/components/ui/page-header";
 import { getProgramme, listCases } from "~/services/programmes.server";

@@ -1,14 +1,13 @@
-import { data, Form, Link, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { hasPermission } from "~/auth/permissions";
+import { hasPermission } from "~/domain/permissions";
 import { TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";
-import { DomainError } from "~/services/organisation.server";
 import { createProgramme, listProgrammes } from "~/services/programmes.server";
-import { parseBody } from "~/utils/http.server";
+import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/list";
 import { NewProgrammeSchema } from "./list.schema";
 
@@ -20,14 +19,12 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const current = await requirePermission(request, "programme:manage");
   const parsed = await parseBody(request, NewProgrammeSchema);
-  if (!parsed.ok) return data({ ok: false, fieldErrors: parsed.fieldErrors }, { status: 400 });
-  try {
-    await createProgramme({ organisationId: current.organisation.id, actor: current.user, ...parsed.value });
-    return { ok: true, fieldErrors: {} };
-  } catch (error) {
-    if (error instanceof DomainError) return data({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: error.status });
-    throw error;
-  }
+  if (!parsed.ok) return refused(parsed.fieldErrors);
+  const input = parsed.value;
+  return answer(async () => {
+    const created = await createProgramme({ organisationId: current.organisation.id, actor: current.user, ...input });
+    return accepted(`Programme ${created.code} created.`);
+  });
 }
 
 export default function ProgrammesRoute({ loaderData, actionData }: Route.ComponentProps) {

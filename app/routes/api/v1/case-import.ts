@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { requireApiUser } from "~/auth/api-auth.server";
-import { CaseImportError, importCase } from "~/services/case-import.server";
+import { importCase } from "~/services/case-import.server";
 import type { Route } from "./+types/case-import";
 import { apiHandler, invalidCase, methodNotAllowed, readJsonBody } from "./respond.server";
 
@@ -45,23 +45,19 @@ export async function action({ request }: Route.ActionArgs) {
       );
     }
     if (target.data.case === undefined) return invalidCase([{ path: "case", message: "is required (the spanwright.case/1 document)" }]);
-    try {
-      const row = await importCase({
-        organisationId: current.organisation.id,
-        programmeId: target.data.programmeId,
-        reference: target.data.reference,
-        title: target.data.title,
-        document: target.data.case,
-        actor: current.user,
-      });
-      return Response.json(
-        { id: row.id, reference: row.reference, title: row.title, status: row.status, links: { case: `/api/v1/cases/${row.id}`, export: `/api/v1/cases/${row.id}/export`, results: `/api/v1/cases/${row.id}/results` } },
-        { status: 201, headers: { Location: `/api/v1/cases/${row.id}` } },
-      );
-    } catch (error) {
-      if (error instanceof CaseImportError) return invalidCase(error.problems);
-      throw error;
-    }
+    // A refused document is a DomainError naming every problem, answered 422 by apiHandler.
+    const row = await importCase({
+      organisationId: current.organisation.id,
+      programmeId: target.data.programmeId,
+      reference: target.data.reference,
+      title: target.data.title,
+      document: target.data.case,
+      actor: current.user,
+    });
+    return Response.json(
+      { id: row.id, reference: row.reference, title: row.title, status: row.status, links: { case: `/api/v1/cases/${row.id}`, export: `/api/v1/cases/${row.id}/export`, results: `/api/v1/cases/${row.id}/results` } },
+      { status: 201, headers: { Location: `/api/v1/cases/${row.id}` } },
+    );
   });
 }
 

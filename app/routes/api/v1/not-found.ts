@@ -1,4 +1,4 @@
-import { apiError } from "~/auth/api-auth.server";
+import { apiError } from "~/utils/http.server";
 import type { Route } from "./+types/not-found";
 
 /** Any other path under /api/v1 answers JSON, as the rest of the API does, not the HTML error page. */

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { CASE_SCHEMA_ID, CaseFileSchema, CaseResultSchema as ResultSchema, RESULT_SCHEMA_ID } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { CASE_STATUSES, STEP_KEYS, STEP_STATUSES } from "~/db/schema";
+import { CASE_STATUSES, STEP_KEYS, STEP_STATUSES } from "~/domain/vocabulary";
 import type { Route } from "./+types/openapi";
 import { ImportTargetSchema } from "./case-import";
 import { methodNotAllowed } from "./respond.server";

@@ -1,13 +1,10 @@
-import { apiError } from "~/auth/api-auth.server";
 import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/db/unavailable.server";
+import { DomainError, type DocumentProblem } from "~/domain/errors";
 import { isEngineError } from "~/engine";
-import { DomainError } from "~/services/organisation.server";
+import { apiError, apiRefusal } from "~/utils/http.server";
 
 /** Largest request body the API reads (bytes): a case file of 100 000 load cases stays well inside it. */
 export const MAX_BODY_BYTES = 20 * 1024 * 1024;
-
-/** What a DomainError status means, as the `error` code of the JSON body. */
-const ERROR_CODES: Record<number, string> = { 400: "bad-request", 403: "forbidden", 404: "not-found", 409: "conflict", 413: "too-large", 422: "invalid-case" };
 
 /**
  * Runs an API handler and turns every failure into the API's JSON `{ error, message }` answer:
@@ -19,7 +16,7 @@ export async function apiHandler(fn: () => Promise<Response>): Promise<Response>
     return await fn();
   } catch (error) {
     if (error instanceof Response) return error;
-    if (error instanceof DomainError) return apiError(error.status, ERROR_CODES[error.status] ?? "error", error.message);
+    if (error instanceof DomainError) return apiRefusal(error);
     if (isEngineError(error)) return apiError(422, "invalid-case", error.message);
     if (isDatabaseUnavailable(error)) return databaseUnavailableResponse();
     console.error("API request failed", error);
@@ -74,9 +71,6 @@ export async function readJsonBody(request: Request): Promise<unknown> {
 }
 
 /** Problems of a bad exchange document, as the API answers them: 422 naming every field. */
-export function invalidCase(problems: { path: string; message: string }[]): Response {
-  return Response.json(
-    { error: "invalid-case", message: problems.map((p) => `${p.path}: ${p.message}`).join("; "), problems },
-    { status: 422 },
-  );
+export function invalidCase(problems: DocumentProblem[]): Response {
+  return apiRefusal(new DomainError(problems.map((p) => `${p.path}: ${p.message}`).join("; "), { kind: "unprocessable", field: problems[0]?.path, problems }));
 }

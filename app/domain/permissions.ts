@@ -1,4 +1,4 @@
-import type { Role } from "~/db/schema";
+import type { Role } from "./vocabulary";
 
 /**
  * What each role may do, as typed strings. Checked on the server for every loader and action

@@ -1,22 +1,16 @@
-import type { StepKey, StepStatus } from "~/db/schema";
+import { STEP_KEYS, type StepKey } from "./vocabulary";
 
-/** The steps of a case, in working order. Each is a nested route under /cases/:caseId/. */
-export const STEPS: readonly { key: StepKey; label: string; summary: string }[] = [
-  { key: "basis", label: "Basis", summary: "Certification basis, weights, design speeds, altitudes" },
-  { key: "planform", label: "Planform", summary: "Wing stations: position, chord, twist" },
-  { key: "sections", label: "Sections", summary: "Incompressible section data along the span" },
-  { key: "envelope", label: "Envelope", summary: "Manoeuvre and gust load cases, method choice" },
-  { key: "distribution", label: "Distribution", summary: "Spanwise lift and moment, critical Mach, flags" },
-  { key: "loads", label: "Loads", summary: "Shear, bending, torsion, envelope and root loads" },
-];
-
-export const STEP_STATUS_LABELS: Record<StepStatus, { label: string; icon: string }> = {
-  empty: { label: "Not started", icon: "·" },
-  draft: { label: "Draft", icon: "○" },
-  submitted: { label: "Submitted", icon: "◔" },
-  returned: { label: "Returned", icon: "↺" },
-  approved: { label: "Approved", icon: "✓" },
+const STEP_TEXT: Record<StepKey, { label: string; summary: string }> = {
+  basis: { label: "Basis", summary: "Certification basis, weights, design speeds, altitudes" },
+  planform: { label: "Planform", summary: "Wing stations: position, chord, twist" },
+  sections: { label: "Sections", summary: "Incompressible section data along the span" },
+  envelope: { label: "Envelope", summary: "Manoeuvre and gust load cases, method choice" },
+  distribution: { label: "Distribution", summary: "Spanwise lift and moment, critical Mach, flags" },
+  loads: { label: "Loads", summary: "Shear, bending, torsion, envelope and root loads" },
 };
+
+/** The steps of a case, in working order (STEP_KEYS). Each is a nested route under /cases/:caseId/. */
+export const STEPS: readonly { key: StepKey; label: string; summary: string }[] = STEP_KEYS.map((key) => ({ key, ...STEP_TEXT[key] }));
 
 export function stepIndex(key: StepKey): number {
   return STEPS.findIndex((s) => s.key === key);

@@ -1,0 +1,56 @@
+/**
+ * The words of the product, defined once: the database schema types its columns with them, the
+ * services check against them and the pages show their labels. Isomorphic (no server imports), so
+ * the browser gets these lists without the database schema.
+ */
+
+/** Roles a member holds in an organisation; what each may do is in ./permissions. */
+export const ROLES = ["engineer", "checker", "quality", "admin"] as const;
+export type Role = (typeof ROLES)[number];
+
+/** The steps of a case, in working order (labels in ./steps). */
+export const STEP_KEYS = ["basis", "planform", "sections", "envelope", "distribution", "loads"] as const;
+export type StepKey = (typeof STEP_KEYS)[number];
+
+export const STEP_STATUSES = ["empty", "draft", "submitted", "returned", "approved"] as const;
+export type StepStatus = (typeof STEP_STATUSES)[number];
+
+/** Each status has its word and an icon shape, so it never rests on colour alone. */
+export const STEP_STATUS_LABELS: Record<StepStatus, { label: string; icon: string }> = {
+  empty: { label: "Not started", icon: "·" },
+  draft: { label: "Draft", icon: "○" },
+  submitted: { label: "Submitted", icon: "◔" },
+  returned: { label: "Returned", icon: "↺" },
+  approved: { label: "Approved", icon: "✓" },
+};
+
+export const CASE_STATUSES = ["draft", "submitted", "returned", "approved", "issued", "released"] as const;
+export type CaseStatus = (typeof CASE_STATUSES)[number];
+
+export const CASE_STATUS_LABELS: Record<CaseStatus, { label: string; icon: string }> = {
+  draft: { label: "Draft", icon: "○" },
+  submitted: { label: "Submitted", icon: "◔" },
+  returned: { label: "Returned", icon: "↺" },
+  approved: { label: "Approved", icon: "✓" },
+  issued: { label: "Issued", icon: "■" },
+  released: { label: "Released", icon: "★" },
+};
+
+/** What a signature means: a checked step, a case approved for issue, a released report. */
+export const SIGNATURE_MEANINGS = ["checked", "approved for issue", "released"] as const;
+export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+
+/** How a person proved who they are: at sign-in, and again when signing. */
+export const SIGN_IN_METHODS = ["password", "sso"] as const;
+export type SignInMethod = (typeof SIGN_IN_METHODS)[number];
+
+/** Entries of a step's review thread. */
+export const COMMENT_KINDS = ["comment", "submitted", "returned", "approved"] as const;
+export type CommentKind = (typeof COMMENT_KINDS)[number];
+
+export const REPORT_STATUSES = ["queued", "generating", "issued", "released", "failed"] as const;
+export type ReportStatus = (typeof REPORT_STATUSES)[number];
+/** A report in these states is still being made: no second one may be requested. */
+export const PENDING_REPORT_STATUSES = ["queued", "generating"] as const satisfies readonly ReportStatus[];
+/** A report in these states exists as a stored PDF. */
+export const ISSUED_REPORT_STATUSES = ["issued", "released"] as const satisfies readonly ReportStatus[];
