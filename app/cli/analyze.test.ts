@@ -84,6 +84,19 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(s.stderr).toMatch(/^wing\.stations\[1\]\.xLe: .*sweep of 89\.0°/m);
   });
 
+  it("reports progress on stderr for a long sweep (a Mach grid here), and the stated interpolation error", () => {
+    const sweep = { ...structuredClone(doc), method: { stations: 8, spanwise: "vortex-lattice", strips: 16 } };
+    sweep.cases = Array.from({ length: 100 }, (_, i) => ({ id: `c${i}`, mach: 0.2 + 0.004 * i, altitude: 3000, weight: 62000, nz: 1 }));
+    const r = run(["-"], JSON.stringify(sweep));
+    expect(r.status).toBe(0);
+    const lines = r.stderr.trim().split("\n");
+    expect(lines[0]).toBe("analyze: 100 cases, 100 distinct Mach numbers: solving on a Mach grid, interpolating between");
+    expect(lines.some((l) => /^analyze: \d+ spanwise solves$/.test(l))).toBe(true);
+    expect(lines[lines.length - 1]).toMatch(/^analyze: done: \d+ solves for 100 Mach numbers on a grid of \d+; interpolation error .* \(held under 1e-4\)$/);
+    expect(JSON.parse(r.stdout).method.machGrid.machs).toBe(100);
+    expect(run(["--quiet", "-"], JSON.stringify(sweep)).stderr).toBe("");
+  });
+
   it("fails clearly for a missing file and for invalid JSON", () => {
     const m = run([join(dir, "nope.json")]);
     expect(m.status).not.toBe(0);

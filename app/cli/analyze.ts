@@ -2,9 +2,12 @@ import { readFileSync } from "node:fs";
 import { isEngineError } from "../engine/errors";
 import { parseCase } from "../exchange/parse";
 import { resultToCsv } from "../exchange/csv";
-import { runCase } from "../exchange/run";
+import { DIRECT_MACH_LIMIT, runCase } from "../exchange/run";
+import type { RunProgress } from "../exchange/run";
 
-const USAGE = "usage: npm run -s analyze -- [--csv] CASE.json   (use - to read the case from stdin)";
+const USAGE = "usage: npm run -s analyze -- [--csv] [--quiet] CASE.json   (use - to read the case from stdin)";
+/** Sweeps from this many cases (or with a Mach grid) report their progress on stderr. */
+const LONG_SWEEP_CASES = 20000;
 
 function fail(status: number, lines: string[]): never {
   process.stderr.write(lines.join("\n") + "\n");
@@ -13,7 +16,8 @@ function fail(status: number, lines: string[]): never {
 
 function main(argv: string[]): void {
   const csv = argv.includes("--csv");
-  const rest = argv.filter((a) => a !== "--csv");
+  const quiet = argv.includes("--quiet");
+  const rest = argv.filter((a) => a !== "--csv" && a !== "--quiet");
   const unknown = rest.filter((a) => a.startsWith("--"));
   if (unknown.length) fail(64, [`unknown option ${unknown[0]}`, USAGE]);
   if (rest.length !== 1) fail(64, [USAGE]);
@@ -33,12 +37,33 @@ function main(argv: string[]): void {
   }
   const parsed = parseCase(json);
   if (!parsed.ok) fail(2, parsed.problems.map((p) => `${p.path}: ${p.message}`));
+  const file = parsed.value;
+  const machs = new Set(file.cases.map((c) => c.mach)).size;
+  const long = !quiet && (file.cases.length >= LONG_SWEEP_CASES || machs > DIRECT_MACH_LIMIT);
+  const say = (line: string) => process.stderr.write(`analyze: ${line}\n`);
+  if (long) {
+    say(`${file.cases.length} cases, ${machs} distinct Mach numbers${machs > DIRECT_MACH_LIMIT ? ": solving on a Mach grid, interpolating between" : ""}`);
+  }
+  // Progress in steps of a tenth of the cases and every tenth solve (counts, not clock time).
+  const step = Math.max(1000, Math.ceil(file.cases.length / 10 / 1000) * 1000);
+  const onProgress = (p: RunProgress) => {
+    if (p.phase === "solves" && p.done % 10 === 0) say(`${p.done} spanwise solves`);
+    if (p.phase === "cases" && p.done % step === 0) say(`${p.done} of ${p.total} cases`);
+  };
   let result;
   try {
-    result = runCase(parsed.value, { forceStations: csv });
+    result = runCase(file, { forceStations: csv, onProgress: long ? onProgress : undefined });
   } catch (e) {
     if (isEngineError(e)) fail(2, [e.field ? `${e.field}: ${e.message.replace(`${e.field}: `, "")}` : e.message]);
     throw e;
+  }
+  if (long) {
+    const g = result.method.machGrid;
+    say(
+      g
+        ? `done: ${g.solves} solves for ${g.machs} Mach numbers on a grid of ${g.nodes}; interpolation error ${g.maxError.toExponential(1)} of the loads at CL = 1 (held under ${g.tolerance.toExponential(0)})`
+        : "done",
+    );
   }
   process.stdout.write(csv ? resultToCsv(result) : JSON.stringify(result) + "\n");
 }

@@ -1,5 +1,5 @@
 /** Version of the numerical engine, written into every result. */
-export const ENGINE_VERSION = "0.5.0";
+export const ENGINE_VERSION = "0.6.0";
 
 export { EngineError, isEngineError } from "./errors";
 export type { EngineErrorCode } from "./errors";
@@ -19,6 +19,8 @@ export * from "./gust-response";
 export * from "./flaps";
 export * from "./rolling";
 export * from "./superposition";
+export * from "./mach-grid";
+export * from "./plausibility";
 export * from "./load-case";
 export * from "./envelope";
 export * from "./certification";

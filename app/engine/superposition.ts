@@ -60,8 +60,10 @@ export interface MachSolution {
   alphaZeroLiftDeg: number;
   /** Lowest section critical Mach number over the span (by the rule), or null without cpMin. */
   machCritical: number | null;
-  /** Mach-level warnings (sweep outside lifting-line validity, rule singular at a section). */
+  /** Every warning of this solution: the wing's own (below) and those of this Mach number (rule singular, critical Mach not checked). */
   warnings: string[];
+  /** Warnings that do not depend on the Mach number (unusual input, sweep outside lifting-line validity). */
+  wingWarnings: string[];
   /** Output stations, m. */
   y: number[];
   chord: number[];
@@ -224,6 +226,7 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
       );
     }
   }
+  const wingWarnings = [...warnings];
   const [twist, unit] = sys.solveMany([(sec) => (sec.twist - sec.alphaL0) * DEG, () => 1]);
   const yOut = outputStations(s, opts.stations);
   const grid = integrationGrid(s, [...st.map((x) => x.y), ...yOut], opts.integrationPoints ?? 400);
@@ -274,25 +277,8 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     ...stationMachCritical.filter((v): v is number => v !== null),
     ...st.filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!)),
   ];
-  // Stall by the sections' clMax (linear): the root-chord α at which the first station reaches its clMax.
-  let stall: { alphaDeg: number; y: number } | null = null;
-  for (const i of idx.keys()) {
-    const k = idx[i];
-    const cmax = secs[k].clMax;
-    if (cmax === undefined || !(ccla[k] > 0)) continue;
-    const CLs = (cmax * chord[k] - cclb[k]) / ccla[k];
-    const a = alphaZeroLiftDeg + CLs / clAlpha / DEG;
-    if (!stall || a < stall.alphaDeg) stall = { alphaDeg: a, y: yOut[i] };
-  }
-  // Where no cpMin is given the critical Mach number is not checked: say where (at Mach numbers where it matters).
-  const unchecked = yOut.filter((_, i) => stationMachCritical[i] === null);
-  if (unchecked.length && mach > PLAUSIBLE.machUnchecked) {
-    warnings.push(
-      unchecked.length === yOut.length
-        ? `no section gives cpMin: the critical Mach number is not checked, and at Mach ${mach} the subsonic rules may be outside their validity`
-        : `no cpMin from y = ${unchecked[0].toFixed(3)} m to ${unchecked[unchecked.length - 1].toFixed(3)} m: the critical Mach number is not checked there, and at Mach ${mach} it matters`,
-    );
-  }
+  const unchecked = uncheckedMachWarning(yOut, stationMachCritical, mach);
+  if (unchecked) warnings.push(unchecked);
   // Quarter-chord sweep of the panel holding each output station (inner panel at a break).
   const cosSweepAt = (y: number) => {
     const p = g.panels.find((q) => y <= q.yOuter) ?? g.panels[g.panels.length - 1];
@@ -313,6 +299,7 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     alphaZeroLiftDeg,
     machCritical: mcrs.length ? Math.min(...mcrs) : null,
     warnings,
+    wingWarnings,
     y: yOut,
     chord: pick(chord, idx),
     cclBasic: pick(cclb, idx),
@@ -322,7 +309,7 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     scale: pick(secs.map((x) => x.scale), idx),
     clMax: idx.map((i) => secs[i].clMax ?? null),
     stationMachCritical,
-    stall,
+    stall: stallOf({ y: yOut, chord: pick(chord, idx), clMax: idx.map((i) => secs[i].clMax ?? null), cclBasic: pick(cclb, idx), cclAdditional: pick(ccla, idx), clAlphaPerRad: clAlpha, alphaZeroLiftDeg }),
     stationMachCriticalSwept,
     machCriticalSwept: mcrSwept.length ? Math.min(...mcrSwept) : null,
     basicPerQ: pickLoads(basic, idx, axis),
@@ -338,6 +325,31 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     geometry: g,
     massKg: (model.massKg ?? 0) + itemsMassKg(items),
   };
+}
+
+/**
+ * The root-chord α (deg) at which the first output station reaches its section clMax, by linear
+ * theory (c·cl = basic + CL·additional at each station), and where; null where no station gives clMax.
+ */
+export function stallOf(sol: Pick<MachSolution, "y" | "chord" | "clMax" | "cclBasic" | "cclAdditional" | "clAlphaPerRad" | "alphaZeroLiftDeg">): { alphaDeg: number; y: number } | null {
+  let stall: { alphaDeg: number; y: number } | null = null;
+  sol.y.forEach((y, i) => {
+    const cmax = sol.clMax[i];
+    if (cmax === null || !(sol.cclAdditional[i] > 0)) return;
+    const CLs = (cmax * sol.chord[i] - sol.cclBasic[i]) / sol.cclAdditional[i];
+    const a = sol.alphaZeroLiftDeg + CLs / sol.clAlphaPerRad / DEG;
+    if (!stall || a < stall.alphaDeg) stall = { alphaDeg: a, y };
+  });
+  return stall;
+}
+
+/** Where no cpMin is given the critical Mach number is not checked: the warning for Mach numbers where it matters, else null. */
+export function uncheckedMachWarning(y: readonly number[], stationMachCritical: readonly (number | null)[], mach: number): string | null {
+  const unchecked = y.filter((_, i) => stationMachCritical[i] === null);
+  if (!unchecked.length || !(mach > PLAUSIBLE.machUnchecked)) return null;
+  return unchecked.length === y.length
+    ? `no section gives cpMin: the critical Mach number is not checked, and at Mach ${mach} the subsonic rules may be outside their validity`
+    : `no cpMin from y = ${unchecked[0].toFixed(3)} m to ${unchecked[unchecked.length - 1].toFixed(3)} m: the critical Mach number is not checked there, and at Mach ${mach} it matters`;
 }
 
 /**

@@ -115,7 +115,7 @@ describe("runCase → spanwright.result/1", () => {
 
   it("has exactly the contract's fields", () => {
     expect(Object.keys(out)).toEqual(["schema", "engine", "method", "wing", "cases", "envelope"]);
-    expect(Object.keys(out.method)).toEqual(["compressibility", "spanwise", "strips", "terms", "stations", "output", "convergence"]);
+    expect(Object.keys(out.method)).toEqual(["compressibility", "spanwise", "strips", "terms", "stations", "output", "convergence", "machGrid"]);
     expect(CaseResultSchema.strict().safeParse(out).success).toBe(true);
     expect(out.schema).toBe("spanwright.result/1");
     expect(out.engine).toBe(ENGINE_VERSION);
@@ -229,5 +229,44 @@ describe("method.strips: the vortex-lattice resolution the user sets, and what t
     const ll = run({ spanwise: "lifting-line" });
     expect(ll.method.strips).toBeNull();
     expect(ll.method.terms).toBe(80);
+  });
+});
+
+describe("sweeps of many distinct Mach numbers share a Mach grid (it was one solve per Mach number)", () => {
+  const sweep = (n: number) => ({
+    ...base(),
+    method: { compressibility: "karman-tsien", spanwise: "vortex-lattice", stations: 12, strips: 30, output: "summary" },
+    cases: Array.from({ length: n }, (_, i) => ({ id: `c${i}`, mach: 0.3 + (0.4 * i) / n, altitude: 2000, weight: 52000, nz: 1 + (i % 3) / 2 })),
+  });
+
+  it("solves a few dozen times for 3000 distinct Mach numbers, states the grid and its error, and agrees with direct solves within it", () => {
+    const p = parseCase(sweep(3000));
+    if (!p.ok) throw new Error("must parse");
+    const progress: string[] = [];
+    const r = runCase(p.value, { onProgress: (x) => progress.push(x.phase) });
+    const g = r.method.machGrid!;
+    expect(g.machs).toBe(3000);
+    expect(g.solves).toBeLessThan(100);
+    expect(g.maxError).toBeLessThanOrEqual(g.tolerance);
+    expect(progress).toContain("solves");
+    expect(progress).toContain("cases");
+    for (const i of [7, 1500, 2999]) {
+      const one = parseCase({ ...sweep(3000), cases: [sweep(3000).cases[i]] });
+      if (!one.ok) throw new Error("must parse");
+      const direct = runCase(one.value);
+      expect(direct.method.machGrid).toBeNull();
+      const a = direct.cases[0].root;
+      const b = r.cases[i].root;
+      // Tolerance is a fraction of the loads at CL = 1; these cases fly at CL below 2.
+      const atCl1 = Math.abs(a.bending) / Math.max(1, direct.cases[0].cl);
+      expect(Math.abs(a.bending - b.bending)).toBeLessThan(2 * g.tolerance * atCl1 * 2);
+      expect(Math.abs(a.shear - b.shear)).toBeLessThan(1e-6 * Math.abs(a.shear));
+    }
+  });
+
+  it("up to 24 distinct Mach numbers each gets its own solve (no grid)", () => {
+    const p = parseCase(sweep(24));
+    if (!p.ok) throw new Error("must parse");
+    expect(runCase(p.value).method.machGrid).toBeNull();
   });
 });

@@ -7,6 +7,7 @@ import type { MassCase, MassItem } from "../engine/mass";
 import type { MachSolution, ResolutionCheck, SolveOptions, WingModel } from "../engine/superposition";
 import { resolutionCheck, solveMach } from "../engine/superposition";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "../engine/vortex-lattice";
+import { MACH_GRID_DEFAULTS, buildMachGrid } from "../engine/mach-grid";
 import { RESULT_SCHEMA_ID } from "./schema";
 import type { CaseFile, CaseResult, ResultCase } from "./schema";
 
@@ -25,31 +26,56 @@ export function massItemOf(it: NonNullable<NonNullable<CaseFile["wing"]["mass"]>
   return it.y !== undefined ? { id: it.id, kg: it.kg, x: it.x, y: it.y } : { id: it.id, kg: it.kg, x: it.x, yFrom: it.yFrom!, yTo: it.yTo! };
 }
 
+/** Progress of a run: spanwise solves made so far, then cases evaluated out of all. */
+export type RunProgress = { phase: "solves"; done: number } | { phase: "cases"; done: number; total: number };
+
 /** Options for runCase beyond the contract. */
 export interface RunOptions {
   /** Force station tables even when the file asks for `summary` (the CSV output needs them). */
   forceStations?: boolean;
+  /** Called as the run goes on (after every solve, and every 1 000 cases), for progress displays. */
+  onProgress?: (p: RunProgress) => void;
 }
 
+/** Up to this many distinct Mach numbers each gets its own solve; beyond it they share a Mach grid. */
+export const DIRECT_MACH_LIMIT = 24;
+
 /**
- * Run a parsed `spanwright.case/1` document: one spanwise solve per distinct Mach number,
- * every case by superposition, and the envelope. Returns exactly the `spanwright.result/1` object.
+ * Run a parsed `spanwright.case/1` document: one spanwise solve per distinct Mach number (up to
+ * DIRECT_MACH_LIMIT of them; beyond, a Mach grid with a checked interpolation error), every case by
+ * superposition, and the envelope. Returns exactly the `spanwright.result/1` object.
  * @throws EngineError for a domain failure the schema cannot see (naming the field).
  */
 export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
   const model = wingModelOf(file);
   const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
+  const machs = [...new Set(file.cases.map((c) => c.mach))].sort((a, b) => a - b);
+  let solves = 0;
+  const solved = () => options.onProgress?.({ phase: "solves", done: ++solves });
+  const grid =
+    machs.length > DIRECT_MACH_LIMIT
+      ? buildMachGrid(model, opts, machs[0], machs[machs.length - 1], { onSolve: (n) => options.onProgress?.({ phase: "solves", done: (solves = n) }) })
+      : undefined;
   const solutions = new Map<number, MachSolution>();
+  const solutionFor = (m: number): MachSolution => {
+    let sol = solutions.get(m);
+    if (!sol) {
+      if (grid) sol = grid.solutionAt(m);
+      else {
+        sol = solveMach(model, m, opts);
+        solved();
+      }
+      solutions.set(m, sol);
+    }
+    return sol;
+  };
   const withStations = options.forceStations || file.method.output === "full";
   let env: ReturnType<typeof createEnvelope> | undefined;
   let geometry: MachSolution["geometry"] | undefined;
   const massCases = new Map<string, MassCase>((file.massCases ?? []).map((mc) => [mc.id, mc]));
   const cases: ResultCase[] = file.cases.map((c, i) => {
-    let sol = solutions.get(c.mach);
-    if (!sol) {
-      sol = solveMach(model, c.mach, opts);
-      solutions.set(c.mach, sol);
-    }
+    const sol = solutionFor(c.mach);
+    if (options.onProgress && i % 1000 === 999) options.onProgress({ phase: "cases", done: i + 1, total: file.cases.length });
     geometry ??= sol.geometry;
     const massCase = c.massCase !== undefined ? massCases.get(c.massCase) : undefined;
     const lc: LoadCase =
@@ -92,8 +118,7 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
   });
   const g = geometry!;
   // Convergence: halve the resolution at the lowest and the highest Mach number solved.
-  const machs = [...solutions.keys()].sort((a, b) => a - b);
-  const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => resolutionCheck(model, m, opts, solutions.get(m)));
+  const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => resolutionCheck(model, m, opts, solutionFor(m)));
   const lattice = file.method.spanwise === "vortex-lattice";
   const resolution = opts.resolution ?? (lattice ? VORTEX_LATTICE_DEFAULT_STRIPS : LIFTING_LINE_DEFAULT_TERMS);
   return {
@@ -112,6 +137,9 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
         rootBending: Math.max(...checks.map((c) => c.rootBending)),
         loading: Math.max(...checks.map((c) => c.loading)),
       },
+      machGrid: grid
+        ? { machs: machs.length, nodes: grid.nodes.length, solves: grid.solves(), maxError: grid.maxError, tolerance: MACH_GRID_DEFAULTS.tolerance, directRanges: grid.directRanges }
+        : null,
     },
     wing: {
       area: g.area,

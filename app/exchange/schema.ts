@@ -292,6 +292,13 @@ export interface ResultMethod {
    * the lowest and highest Mach numbers solved.
    */
   convergence: { halfResolution: number; clAlpha: number; rootBending: number; loading: number };
+  /**
+   * Null where every distinct Mach number got its own solve; for sweeps of more distinct Mach numbers,
+   * the grid they were interpolated on: distinct Mach numbers of the file, grid nodes, solves made,
+   * the largest interpolation error found against direct solves in the middle of every interval (as a
+   * fraction of the loads at CL = 1), the tolerance it is held under, and the Mach ranges solved directly.
+   */
+  machGrid: { machs: number; nodes: number; solves: number; maxError: number; tolerance: number; directRanges: [number, number][] } | null;
 }
 
 /** The `spanwright.result/1` document. */
@@ -329,6 +336,9 @@ export const CaseResultSchema = z.object({
     stations: n(),
     output: MethodSchema.shape.output.unwrap(),
     convergence: z.object({ halfResolution: n(), clAlpha: n(), rootBending: n(), loading: n() }),
+    machGrid: z
+      .object({ machs: n(), nodes: n(), solves: n(), maxError: n(), tolerance: n(), directRanges: z.array(z.tuple([n(), n()])) })
+      .nullable(),
   }),
   wing: z.object({ area: n(), span: n(), aspectRatio: n(), taperRatio: n(), mac: n(), yMac: n(), xLeMac: n() }),
   cases: z.array(
