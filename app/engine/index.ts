@@ -11,6 +11,8 @@ export type { SpanwiseMethod, SpanwiseOptions, SpanwiseResult, SpanwiseSystem, C
 export { compressibleSectionAt, sectionCriticalMach } from "./spanwise";
 export { buildLiftingLine, LIFTING_LINE_DEFAULT_TERMS, LIFTING_LINE_MAX_SWEEP_DEG } from "./lifting-line";
 export type { LiftingLineResult } from "./lifting-line";
+export { factorDense, luFactor, luSolve } from "./linear-solve";
+export type { DenseMethod, DenseSolver, LuFactors } from "./linear-solve";
 export { buildVortexLattice, VORTEX_LATTICE_DEFAULT_STRIPS, VORTEX_LATTICE_MAX_STRIPS } from "./vortex-lattice";
 export * from "./loads";
 export * from "./mass";

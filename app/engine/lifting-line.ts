@@ -1,5 +1,5 @@
 import { EngineError } from "./errors";
-import { luFactor, luSolve } from "./linear-solve";
+import { factorDense } from "./linear-solve";
 import type { SectionAt, WingStation } from "./planform";
 import { validateStations, wingGeometry } from "./planform";
 import type { SpanwiseOptions, SpanwiseResult, SpanwiseSystem } from "./spanwise";
@@ -71,9 +71,9 @@ export function buildLiftingLine(
       A[i * N + j] = Math.sin(n * th) * (mu + n / st);
     }
   }
-  const lu = luFactor(A, N);
+  const system = (opts.denseSolver ?? factorDense)(A, N);
   const solveDetailed = (rhs: (sec: SectionAt) => number): LiftingLineResult => {
-    const coefficients = Array.from(luSolve(lu, secs.map((sec) => rhs(sec))));
+    const coefficients = Array.from(system.solve(secs.map((sec) => rhs(sec))));
     const CL = Math.PI * g.aspectRatio * coefficients[0];
     let delta = 0;
     for (let j = 1; j < N; j++) delta += (2 * j + 1) * (coefficients[j] / coefficients[0]) ** 2;

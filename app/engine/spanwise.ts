@@ -1,5 +1,6 @@
 import type { CompressibilityRule } from "./compressibility";
 import { criticalMach, prandtlGlauertBeta, sectionScaleFactor } from "./compressibility";
+import type { DenseSolver } from "./linear-solve";
 import type { SectionAt, WingStation } from "./planform";
 import { sectionAt } from "./planform";
 
@@ -14,6 +15,8 @@ export interface SpanwiseOptions {
   resolution?: number;
   /** Vortex lattice only: spanwise strip spacing (default cosine, fine at the tip). */
   spacing?: "cosine" | "uniform";
+  /** The dense linear solver (default `factorDense`); tests and benchmarks pass another to compare. */
+  denseSolver?: (a: Float64Array, n: number) => DenseSolver;
 }
 
 /** Section values at a solver point, with the rule-scaled (compressible) slope. */

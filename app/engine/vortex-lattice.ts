@@ -1,5 +1,5 @@
 import { EngineError } from "./errors";
-import { luFactor, luSolve } from "./linear-solve";
+import { factorDense } from "./linear-solve";
 import type { SectionAt, WingStation } from "./planform";
 import { sectionAt, validateStations, wingGeometry } from "./planform";
 import type { SpanwiseOptions, SpanwiseResult, SpanwiseSystem } from "./spanwise";
@@ -108,12 +108,12 @@ export function buildVortexLattice(stations: readonly WingStation[], opts: Spanw
       A[row + k] = horseshoeW(px, py, ax[k], ay[k], bx[k], by[k]) + horseshoeW(px, py, bx[k], -by[k], ax[k], -ay[k]);
     }
   }
-  const lu = luFactor(A, n);
+  const system = (opts.denseSolver ?? factorDense)(A, n);
   const halfArea = g.area / 2;
   const solveOne = (alphaStrip: number[]): SpanwiseResult => {
     const rhs = new Float64Array(n);
     for (let j = 0; j < n; j++) rhs[j] = -alphaStrip[j];
-    const gamma = luSolve(lu, rhs);
+    const gamma = system.solve(rhs);
     const ccl: number[] = [];
     let lift = 0;
     for (let j = 0; j < n; j++) {
