@@ -3,9 +3,11 @@ import { isEngineError } from "../engine/errors";
 import { parseCase } from "../exchange/parse";
 import { resultToCsv } from "../exchange/csv";
 import { DIRECT_MACH_LIMIT, runCase } from "../exchange/run";
+import type { SectionsFile } from "../exchange/sections";
+import { parseSections } from "../exchange/sections";
 import type { RunProgress } from "../exchange/run";
 
-const USAGE = "usage: npm run -s analyze -- [--csv] [--quiet] CASE.json   (use - to read the case from stdin)";
+const USAGE = "usage: npm run -s analyze -- [--csv] [--quiet] [--sections SECTIONS.json] CASE.json   (use - to read one of them from stdin)";
 /** Sweeps from this many cases (or with a Mach grid) report their progress on stderr. */
 const LONG_SWEEP_CASES = 20000;
 
@@ -14,14 +16,8 @@ function fail(status: number, lines: string[]): never {
   process.exit(status);
 }
 
-function main(argv: string[]): void {
-  const csv = argv.includes("--csv");
-  const quiet = argv.includes("--quiet");
-  const rest = argv.filter((a) => a !== "--csv" && a !== "--quiet");
-  const unknown = rest.filter((a) => a.startsWith("--"));
-  if (unknown.length) fail(64, [`unknown option ${unknown[0]}`, USAGE]);
-  if (rest.length !== 1) fail(64, [USAGE]);
-  const src = rest[0];
+/** Read and parse a JSON file (or stdin for "-"), failing with the exit status the usage documents. */
+function readJson(src: string): unknown {
   let text: string;
   try {
     text = readFileSync(src === "-" ? 0 : src, "utf8");
@@ -29,14 +25,37 @@ function main(argv: string[]): void {
     const code = (e as NodeJS.ErrnoException).code;
     fail(66, [code === "ENOENT" ? `cannot read ${src}: no such file` : `cannot read ${src}: ${(e as Error).message}`]);
   }
-  let json: unknown;
   try {
-    json = JSON.parse(text);
+    return JSON.parse(text);
   } catch (e) {
     fail(65, [`${src === "-" ? "stdin" : src} is not valid JSON: ${(e as Error).message}`]);
   }
-  const parsed = parseCase(json);
+}
+
+function main(argv: string[]): void {
+  const args = [...argv];
+  let sectionsSrc: string | undefined;
+  const at = args.indexOf("--sections");
+  if (at >= 0) {
+    sectionsSrc = args[at + 1];
+    if (sectionsSrc === undefined || sectionsSrc.startsWith("--")) fail(64, ["--sections needs a file (spanwright.sections/1)", USAGE]);
+    args.splice(at, 2);
+  }
+  const csv = args.includes("--csv");
+  const quiet = args.includes("--quiet");
+  const rest = args.filter((a) => a !== "--csv" && a !== "--quiet");
+  const unknown = rest.filter((a) => a.startsWith("--"));
+  if (unknown.length) fail(64, [`unknown option ${unknown[0]}`, USAGE]);
+  if (rest.length !== 1) fail(64, [USAGE]);
+  if (sectionsSrc === "-" && rest[0] === "-") fail(64, ["only one of the case and the sections can come from stdin", USAGE]);
+  const parsed = parseCase(readJson(rest[0]));
   if (!parsed.ok) fail(2, parsed.problems.map((p) => `${p.path}: ${p.message}`));
+  let sections: SectionsFile | undefined;
+  if (sectionsSrc !== undefined) {
+    const s = parseSections(readJson(sectionsSrc), parsed.value);
+    if (!s.ok) fail(2, s.problems.map((p) => `${p.path}: ${p.message}`));
+    sections = s.value;
+  }
   const file = parsed.value;
   const machs = new Set(file.cases.map((c) => c.mach)).size;
   const long = !quiet && (file.cases.length >= LONG_SWEEP_CASES || machs > DIRECT_MACH_LIMIT);
@@ -52,7 +71,7 @@ function main(argv: string[]): void {
   };
   let result;
   try {
-    result = runCase(file, { forceStations: csv, onProgress: long ? onProgress : undefined });
+    result = runCase(file, { forceStations: csv, onProgress: long ? onProgress : undefined, sections });
   } catch (e) {
     if (isEngineError(e)) fail(2, [e.field ? `${e.field}: ${e.message.replace(`${e.field}: `, "")}` : e.message]);
     throw e;

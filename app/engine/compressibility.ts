@@ -108,3 +108,29 @@ export function sectionScaleFactor(
   if (!(d > 0)) return { factor: 1 / b, singular: true };
   return { factor: 1 / d, singular: false };
 }
+
+const MCR_TABLE_POINTS = 1200;
+const MCR_U_MIN = Math.log(0.002);
+const MCR_U_MAX = Math.log(30);
+const mcrTables = new Map<CompressibilityRule, Float64Array>();
+
+/**
+ * The critical Mach number for many minimum-Cp values at once (one per case and station in large
+ * sweeps): criticalMach tabulated once per rule at 1 200 points evenly spaced in ln(−Cp0) from
+ * −0.002 to −30, linear between them. Mcr is smooth and monotonic in ln(−Cp0), so the table is within
+ * 1e-6 of the root (checked in its tests); outside the range the root is found directly.
+ */
+export function criticalMachTabulated(rule: CompressibilityRule, cp0Min: number): number {
+  if (!(cp0Min < 0)) throw new EngineError("invalid-section", "must be below 0", "cpMin");
+  const u = Math.log(-cp0Min);
+  if (u < MCR_U_MIN || u > MCR_U_MAX) return criticalMach(rule, cp0Min);
+  let t = mcrTables.get(rule);
+  if (!t) {
+    t = new Float64Array(MCR_TABLE_POINTS + 1);
+    for (let k = 0; k <= MCR_TABLE_POINTS; k++) t[k] = criticalMach(rule, -Math.exp(MCR_U_MIN + ((MCR_U_MAX - MCR_U_MIN) * k) / MCR_TABLE_POINTS));
+    mcrTables.set(rule, t);
+  }
+  const f = ((u - MCR_U_MIN) / (MCR_U_MAX - MCR_U_MIN)) * MCR_TABLE_POINTS;
+  const k = Math.min(MCR_TABLE_POINTS - 1, Math.floor(f));
+  return t[k] + (f - k) * (t[k + 1] - t[k]);
+}

@@ -2,7 +2,9 @@ import { ISA, isa } from "./atmosphere";
 import { EngineError } from "./errors";
 import type { MassCase, StationLoads } from "./mass";
 import { inertiaRelief } from "./mass";
+import { criticalMachTabulated } from "./compressibility";
 import { PLAUSIBLE } from "./plausibility";
+import { cpMinAt } from "./section-data";
 import type { MachSolution } from "./superposition";
 import { DEG } from "./spanwise";
 
@@ -39,6 +41,8 @@ export interface CaseLoads {
   wingLift: number;
   /** Inertia relief at the stations (N, N·m), the amount taken off the aerodynamic loads; zero when not applied. */
   relief: StationLoads;
+  /** Critical Mach number of each output station at this case's local lift (where a table gives Cp,min against lift), else its single value. */
+  stationMachCritical: (number | null)[];
   /** Indices of output stations whose cl exceeds the section clMax. */
   clMaxExceeded: number[];
   machCritical: number | null;
@@ -156,15 +160,20 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
       warnings.push(`station y = ${sol.y[i].toFixed(3)} m: cl ${cl[i].toFixed(3)} exceeds the section clMax ${cmax.toFixed(3)}`);
     }
   }
+  const critical = caseCriticalMach(sol, cl);
+  warnings.push(...critical.warnings);
+  const machCritical = critical.machCritical;
   let regime: CaseLoads["regime"] = "unchecked";
-  if (sol.machCritical !== null) {
-    regime = lc.mach < sol.machCritical ? "subcritical" : "supercritical";
+  if (machCritical !== null) {
+    regime = lc.mach < machCritical ? "subcritical" : "supercritical";
     if (regime === "supercritical") {
-      const swept = sol.machCriticalSwept !== null && sol.machCriticalSwept > sol.machCritical + 1e-9
-        ? ` (by simple sweep theory, cos Λ, which is optimistic, it would be ${sol.machCriticalSwept >= 1 ? "above 1" : sol.machCriticalSwept.toFixed(4)})`
+      // Simple sweep theory scales the unswept value by the same 1/cos Λ at this case's lift.
+      const sweptNow = sol.machCriticalSwept !== null && sol.machCritical !== null ? (sol.machCriticalSwept / sol.machCritical) * machCritical : null;
+      const swept = sweptNow !== null && sweptNow > machCritical + 1e-9
+        ? ` (by simple sweep theory, cos Λ, which is optimistic, it would be ${sweptNow >= 1 ? "above 1" : sweptNow.toFixed(4)})`
         : "";
       warnings.push(
-        `Mach ${lc.mach} is at or above the critical Mach number ${sol.machCritical.toFixed(4)} (${sol.rule}, unswept sections, conservative)${swept}: the subsonic compressibility rules are outside their validity; results are computed anyway`,
+        `Mach ${lc.mach} is at or above the critical Mach number ${machCritical.toFixed(4)} (${sol.rule}, unswept sections, conservative${critical.atLift ? ", at this case's lift" : ""})${swept}: the subsonic compressibility rules are outside their validity; results are computed anyway`,
       );
     }
   }
@@ -184,7 +193,8 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
     wingLift: q * S * CL,
     relief: r,
     clMaxExceeded,
-    machCritical: sol.machCritical,
+    machCritical,
+    stationMachCritical: critical.stations,
     regime,
     warnings,
     y: sol.y,
@@ -201,13 +211,62 @@ export function evaluateCase(sol: MachSolution, lc: LoadCase, field = "case"): C
   return out;
 }
 
+/** Far from the lift a single cpMin belongs to: more than this in section cl (common practice, no source). */
+export const CPMIN_LIFT_SPAN = 0.3;
+/** The lift a single cpMin is taken to belong to when the data do not state it: a cruise-like section cl (no source). */
+export const CPMIN_DEFAULT_CL = 0.4;
+
+/**
+ * The critical Mach number of a case, per station and its lowest over the span. Where a station's data
+ * give the minimum Cp against lift, it is read at the station's incompressible lift for this case
+ * (cl/k, k the rule's slope factor) and the critical Mach number follows from it; where only one cpMin
+ * is given, its own critical Mach number holds, and a case whose local lift is far from the lift that
+ * value belongs to (stated with it, or else taken as a cruise-like 0.4) is warned of: more than 0.3
+ * above it, or below it with negative lift.
+ */
+export function caseCriticalMach(sol: MachSolution, cl: readonly number[]): { machCritical: number | null; stations: (number | null)[]; atLift: boolean; warnings: string[] } {
+  const warnings: string[] = [];
+  const hasTable = sol.cpMinSource.some((s) => s?.kind === "table");
+  let far: { y: number; cl: number; ref: number; stated: boolean } | null = null;
+  let beyond: { y: number; cl: number; lo: number; hi: number } | null = null;
+  const stations = sol.cpMinSource.map((src, i) => {
+    if (src === null) return null;
+    const cl0 = cl[i] / sol.scale[i];
+    if (src.kind === "single") {
+      // Far where it matters: more lift than the value belongs to (a stronger suction peak), or negative lift
+      // (the peak moves to the lower surface); less positive lift only relieves the peak.
+      const ref = src.cl ?? CPMIN_DEFAULT_CL;
+      const isFar = cl0 > ref + CPMIN_LIFT_SPAN || (cl0 < ref - CPMIN_LIFT_SPAN && cl0 < 0);
+      if (isFar && (!far || Math.abs(cl0 - ref) > Math.abs(far.cl - far.ref))) far = { y: sol.y[i], cl: cl0, ref, stated: src.cl !== null };
+      return sol.stationMachCritical[i];
+    }
+    const at = cpMinAt(src.table, cl0);
+    if (at.beyond && !beyond) beyond = { y: sol.y[i], cl: cl0, lo: src.table[0].cl, hi: src.table[src.table.length - 1].cl };
+    return criticalMachTabulated(sol.rule, at.cpMin);
+  });
+  if (far) {
+    const f = far as { y: number; cl: number; ref: number; stated: boolean };
+    warnings.push(
+      `the critical Mach number rests on one cpMin per section, which belongs to a section cl of ${f.ref}${f.stated ? "" : " (not stated: taken as a cruise-like lift)"}; this case's incompressible section cl reaches ${f.cl.toFixed(2)} at y = ${f.y.toFixed(3)} m, far from it, where the minimum Cp may differ much: give Cp,min against angle of attack for a check at this lift`,
+    );
+  }
+  if (beyond) {
+    const b = beyond as { y: number; cl: number; lo: number; hi: number };
+    warnings.push(`the section cl ${b.cl.toFixed(2)} at y = ${b.y.toFixed(3)} m lies outside the lift range of its Cp,min table (${b.lo} to ${b.hi}): the end value was used`);
+  }
+  const known = stations.filter((v): v is number => v !== null);
+  if (!hasTable) return { machCritical: sol.machCritical, stations, atLift: false, warnings };
+  return { machCritical: known.length ? Math.min(...known) : null, stations, atLift: true, warnings };
+}
+
 /**
  * The contract promises no NaN or Infinity where a number is documented: an input that would give one
  * (an overflow the ranges did not catch) is refused naming the case, never answered.
  */
 function assertFinite(c: CaseLoads, field: string): void {
-  const scalars = [c.dynamicPressure, c.alphaDeg, c.CL, c.clAlphaPerRad, c.beta];
-  const arrays = [c.cl, c.cm, c.lift, c.shear, c.bending, c.torsion];
-  if (scalars.every(Number.isFinite) && arrays.every((a) => a.every(Number.isFinite))) return;
+  // x·0 is 0 for every finite x and NaN for NaN and ±Infinity: one sum tells (no allocation per case).
+  let probe = (c.dynamicPressure + c.alphaDeg + c.CL + c.clAlphaPerRad + c.beta) * 0;
+  for (const a of [c.cl, c.cm, c.lift, c.shear, c.bending, c.torsion]) for (let i = 0; i < a.length; i++) probe += a[i] * 0;
+  if (probe === 0) return;
   throw new EngineError("no-solution", "the case gives numbers too large to represent (an overflow): check its weight, nz, Mach and altitude", field);
 }

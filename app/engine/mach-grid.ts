@@ -1,7 +1,6 @@
 import type { CompressibilityRule } from "./compressibility";
-import { ruleDenominator, sectionScaleFactor } from "./compressibility";
-import { sectionAt } from "./planform";
-import { DEG } from "./spanwise";
+import { ruleDenominator } from "./compressibility";
+import { compressibleSectionAt, DEG } from "./spanwise";
 import type { MachSolution, SolveOptions, WingModel } from "./superposition";
 import { solveMach, stallOf, uncheckedMachWarning } from "./superposition";
 
@@ -105,14 +104,18 @@ function combine(values: unknown[], w: number[]): unknown {
 function singularMach(model: WingModel, rule: CompressibilityRule): number {
   if (rule === "prandtl-glauert") return 1;
   let lowest = 1;
-  for (const st of model.stations) {
-    if (st.cpMin === undefined) continue;
+  // The single cpMin scales the section; where chordwise pressures are given, each of their points does.
+  const peaks = model.stations.flatMap((st) => [
+    ...(st.cpMin !== undefined ? [st.cpMin] : []),
+    ...(st.pressures ? [Math.min(...st.pressures.flatMap((p) => [...p.cpUpper, ...p.cpLower]))] : []),
+  ]);
+  for (const cp of peaks) {
     let lo = 0;
     let hi = 1 - 1e-12;
-    if (ruleDenominator(rule, st.cpMin, hi) > 0) continue;
+    if (!(cp < 0) || ruleDenominator(rule, cp, hi) > 0) continue;
     for (let k = 0; k < 80; k++) {
       const mid = 0.5 * (lo + hi);
-      if (ruleDenominator(rule, st.cpMin, mid) > 0) lo = mid;
+      if (ruleDenominator(rule, cp, mid) > 0) lo = mid;
       else hi = mid;
     }
     lowest = Math.min(lowest, lo);
@@ -228,17 +231,17 @@ export function buildMachGrid(model: WingModel, opts: SolveOptions, machMin: num
 
 /** Put back what is exact at any Mach number into an interpolated solution. */
 function exactAt(model: WingModel, rule: CompressibilityRule, sol: MachSolution, mach: number): MachSolution {
-  const secs = sol.y.map((y) => sectionAt(model.stations, y));
-  const scale = secs.map((s) => sectionScaleFactor(rule, mach, s.cpMin).factor);
+  const secs = sol.y.map((y) => compressibleSectionAt(model.stations, y, rule, mach));
   const out: MachSolution = {
     ...sol,
     mach,
     beta: betaOf(mach),
-    scale,
-    cm: secs.map((s, i) => scale[i] * s.cmAc),
+    scale: secs.map((s) => s.scale),
+    sectionScaling: secs.map((s) => s.scaling),
+    cm: secs.map((s) => s.cm),
   };
   out.stall = stallOf(out);
-  const unchecked = uncheckedMachWarning(out.y, out.stationMachCritical, mach);
+  const unchecked = uncheckedMachWarning(out.y, out.cpMinSource, mach);
   out.warnings = unchecked ? [...sol.wingWarnings, unchecked] : [...sol.wingWarnings];
   return out;
 }

@@ -1,4 +1,6 @@
 import { EngineError } from "./errors";
+import type { ChordwisePressure, CpMinPoint } from "./section-data";
+import { validateSectionData } from "./section-data";
 
 /**
  * One spanwise breakpoint of a piecewise-linear wing: planform plus incompressible section data.
@@ -23,6 +25,12 @@ export interface WingStation {
   clMax?: number;
   /** Incompressible minimum pressure coefficient at the working condition, < 0 (optional). */
   cpMin?: number;
+  /** The incompressible section cl at which `cpMin` holds (optional, richer section data). */
+  cpMinCl?: number;
+  /** Incompressible minimum Cp against section cl (optional, richer section data; replaces cpMin for the critical Mach number). */
+  cpMinTable?: CpMinPoint[];
+  /** Incompressible chordwise pressures at two or more angles, for the rule point by point (optional, richer section data). */
+  pressures?: ChordwisePressure[];
 }
 
 /** Section values at one spanwise position, linearly interpolated between breakpoints. */
@@ -92,6 +100,7 @@ export function validateStations(stations: readonly WingStation[]): void {
     if (!(s.a0 > 0)) throw new EngineError("invalid-section", "must be greater than 0", f("a0"));
     if (s.cpMin !== undefined && !(s.cpMin < 0)) throw new EngineError("invalid-section", "must be below 0", f("cpMin"));
     if (s.clMax !== undefined && !(s.clMax > 0)) throw new EngineError("invalid-section", "must be greater than 0", f("clMax"));
+    validateSectionData(s, `wing.stations[${i}]`);
   });
 }
 

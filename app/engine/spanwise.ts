@@ -1,6 +1,8 @@
 import type { CompressibilityRule } from "./compressibility";
 import { criticalMach, prandtlGlauertBeta, sectionScaleFactor } from "./compressibility";
 import type { DenseSolver } from "./linear-solve";
+import type { PointByPointScaling } from "./section-data";
+import { pointByPointScaling, scaledCmAc } from "./section-data";
 import type { SectionAt, WingStation } from "./planform";
 import { sectionAt } from "./planform";
 
@@ -19,17 +21,52 @@ export interface SpanwiseOptions {
   denseSolver?: (a: Float64Array, n: number) => DenseSolver;
 }
 
-/** Section values at a solver point, with the rule-scaled (compressible) slope. */
+/** How a station's section data were made compressible. */
+export type SectionScaling = "prandtl-glauert" | "at-cp-min" | "point-by-point";
+
+/** Section values at a solver point, with the rule-scaled (compressible) slope, zero-lift angle and cm. */
 export interface CompressibleSection extends SectionAt {
-  /** k: factor the rule applies to a0 and cmAc at this Mach number. */
+  /** k: factor the rule applies to a0 at this Mach number. */
   scale: number;
   /** Section slope at the Mach number, per rad (k·a0). */
   a: number;
-  /** True where KT/Laitone were singular at the section's working Cp, so PG was used. */
+  /** Compressible moment coefficient about the aerodynamic centre. */
+  cm: number;
+  /** True where KT/Laitone were singular at the section's working Cp (or at a pressure point), so PG was used there. */
   singular: boolean;
+  /** Prandtl–Glauert's 1/β; the KT/Laitone ratio at the single cpMin; or the rule point by point over the pressures. */
+  scaling: SectionScaling;
 }
 
-/** Section data at y, with the compressibility rule's scaling at the Mach number. */
+type Scaled = PointByPointScaling & { cm: number };
+const scalingCache = new WeakMap<readonly WingStation[], Map<string, (Scaled | null)[]>>();
+
+/** Point-by-point scaling of every station that gives pressures, at one rule and Mach number (memoised per station list). */
+function stationScalings(stations: readonly WingStation[], rule: CompressibilityRule, mach: number): (Scaled | null)[] {
+  let byKey = scalingCache.get(stations);
+  if (!byKey) {
+    byKey = new Map();
+    scalingCache.set(stations, byKey);
+  }
+  const key = `${rule}@${mach}`;
+  let list = byKey.get(key);
+  if (!list) {
+    list = stations.map((st) => {
+      if (!st.pressures) return null;
+      const s = pointByPointScaling(st.pressures, rule, mach);
+      return { ...s, cm: scaledCmAc(st.cmAc, s) };
+    });
+    byKey.set(key, list);
+  }
+  return list;
+}
+
+/**
+ * Section data at y, with the compressibility rule's scaling at the Mach number. Where both ends of
+ * the panel (or the station itself) give chordwise pressures, the rule is applied point by point over
+ * them (slope ratio, zero-lift angle shift and cm, linear between the ends); otherwise Prandtl–Glauert's
+ * 1/β, or for Kármán–Tsien and Laitone their ratio at the section's single cpMin (docs/engine.md §2).
+ */
 export function compressibleSectionAt(
   stations: readonly WingStation[],
   y: number,
@@ -37,8 +74,32 @@ export function compressibleSectionAt(
   mach: number,
 ): CompressibleSection {
   const s = sectionAt(stations, y);
+  if (stations.some((st) => st.pressures)) {
+    const n = stations.length;
+    let i = 0;
+    if (y >= stations[n - 1].y) i = n - 2;
+    else while (i < n - 2 && y > stations[i + 1].y) i++;
+    const t = Math.min(1, Math.max(0, (y - stations[i].y) / (stations[i + 1].y - stations[i].y)));
+    const sc = stationScalings(stations, rule, mach);
+    const u = sc[i];
+    const v = sc[i + 1];
+    const mix = (f: (x: Scaled) => number) => (t === 0 && u ? f(u) : t === 1 && v ? f(v) : u && v ? f(u) + t * (f(v) - f(u)) : undefined);
+    const k = mix((x) => x.slopeRatio);
+    if (k !== undefined) {
+      return {
+        ...s,
+        alphaL0: s.alphaL0 + mix((x) => x.alphaL0Shift)!,
+        scale: k,
+        a: k * s.a0,
+        cm: mix((x) => x.cm)!,
+        singular: Boolean((t < 1 && u?.singular) || (t > 0 && v?.singular)),
+        scaling: "point-by-point",
+      };
+    }
+  }
   const { factor, singular } = sectionScaleFactor(rule, mach, s.cpMin);
-  return { ...s, scale: factor, a: factor * s.a0, singular };
+  const scaling: SectionScaling = rule === "prandtl-glauert" || s.cpMin === undefined || singular ? "prandtl-glauert" : "at-cp-min";
+  return { ...s, scale: factor, a: factor * s.a0, cm: factor * s.cmAc, singular, scaling };
 }
 
 /** Critical Mach number of the section at y under a rule, or null where it gives no cpMin. */

@@ -10,7 +10,9 @@ import { itemUnitLoads, itemsMassKg, validateMassItems } from "./mass";
 import type { WingGeometry, WingStation } from "./planform";
 import { sectionAt, validateStations, wingGeometry } from "./planform";
 import { PLAUSIBLE, wingPlausibility } from "./plausibility";
-import type { SpanwiseMethod, SpanwiseSystem } from "./spanwise";
+import type { CpMinPoint } from "./section-data";
+import { cpMinAt } from "./section-data";
+import type { SectionScaling, SpanwiseMethod, SpanwiseSystem } from "./spanwise";
 import { DEG, compressibleSectionAt } from "./spanwise";
 import { VORTEX_LATTICE_DEFAULT_STRIPS, buildVortexLattice } from "./vortex-lattice";
 
@@ -75,10 +77,19 @@ export interface MachSolution {
   loadingRatio: number[];
   /** Section cm about the quarter chord at this Mach number (rule-scaled cmAc). */
   cm: number[];
-  /** Rule factor applied to a0 and cmAc at each station. */
+  /** Rule factor applied to a0 at each station. */
   scale: number[];
+  /** How each station's section data were made compressible (1/β, the ratio at the single cpMin, or point by point). */
+  sectionScaling: SectionScaling[];
   clMax: (number | null)[];
+  /** Critical Mach number per station from its single cpMin (null where it has none, or only a cpMin table). */
   stationMachCritical: (number | null)[];
+  /**
+   * Where each station's minimum Cp comes from: a table against lift (the critical Mach number then
+   * follows each case's own lift), one value with the lift it belongs to (stated, or null: not stated),
+   * or nothing.
+   */
+  cpMinSource: CpMinSource[];
   /** Root-chord α (deg) at which the first station reaches its section clMax (linear theory), and where; null without clMax. */
   stall: { alphaDeg: number; y: number } | null;
   /**
@@ -108,6 +119,31 @@ export interface MachSolution {
   geometry: WingGeometry;
   /** Semispan mass at full fill: structure plus every item, kg. */
   massKg: number;
+}
+
+/** Where a station's incompressible minimum Cp comes from (see MachSolution.cpMinSource). */
+export type CpMinSource = { kind: "table"; table: CpMinPoint[] } | { kind: "single"; cpMin: number; cl: number | null } | null;
+
+/** The minimum-Cp data at y: a table where both panel ends (or the station itself) give one, else the single value. */
+export function cpMinSourceAt(stations: readonly WingStation[], y: number): CpMinSource {
+  const n = stations.length;
+  let i = 0;
+  if (y >= stations[n - 1].y) i = n - 2;
+  else while (i < n - 2 && y > stations[i + 1].y) i++;
+  const a = stations[i];
+  const b = stations[i + 1];
+  const t = Math.min(1, Math.max(0, (y - a.y) / (b.y - a.y)));
+  if (t === 0 && a.cpMinTable) return { kind: "table", table: a.cpMinTable };
+  if (t === 1 && b.cpMinTable) return { kind: "table", table: b.cpMinTable };
+  if (a.cpMinTable && b.cpMinTable) {
+    // Both ends' tables on the union of their lift points, blended linearly across the panel.
+    const cls = [...new Set([...a.cpMinTable.map((p) => p.cl), ...b.cpMinTable.map((p) => p.cl)])].sort((u, v) => u - v);
+    return { kind: "table", table: cls.map((cl) => ({ cl, cpMin: cpMinAt(a.cpMinTable!, cl).cpMin + t * (cpMinAt(b.cpMinTable!, cl).cpMin - cpMinAt(a.cpMinTable!, cl).cpMin) })) };
+  }
+  const s = sectionAt(stations, y);
+  if (s.cpMin === undefined) return null;
+  const cl = t === 0 ? a.cpMinCl : t === 1 ? b.cpMinCl : a.cpMinCl !== undefined && b.cpMinCl !== undefined ? a.cpMinCl + t * (b.cpMinCl - a.cpMinCl) : undefined;
+  return { kind: "single", cpMin: s.cpMin, cl: cl ?? null };
 }
 
 /** Output station positions: y_i = s·cos(iπ/(2N)), i = N…1, so the root is the first and the last is just inboard of the tip. */
@@ -246,7 +282,7 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
   const secs = grid.map((y) => compressibleSectionAt(st, y, opts.rule, mach));
   const chord = secs.map((x) => x.chord);
   const xAc = secs.map((x) => x.xLe + 0.25 * x.chord);
-  const cm = secs.map((x) => x.scale * x.cmAc);
+  const cm = secs.map((x) => x.cm);
   const cmTerm = secs.map((x, k) => x.chord * x.chord * cm[k]);
   const axis = referenceAxis(model);
   const xRef = grid.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
@@ -277,7 +313,8 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     ...stationMachCritical.filter((v): v is number => v !== null),
     ...st.filter((x) => x.cpMin !== undefined).map((x) => criticalMach(opts.rule, x.cpMin!)),
   ];
-  const unchecked = uncheckedMachWarning(yOut, stationMachCritical, mach);
+  const cpMinSource = yOut.map((y) => cpMinSourceAt(st, y));
+  const unchecked = uncheckedMachWarning(yOut, cpMinSource, mach);
   if (unchecked) warnings.push(unchecked);
   // Quarter-chord sweep of the panel holding each output station (inner panel at a break).
   const cosSweepAt = (y: number) => {
@@ -307,8 +344,10 @@ export function solveMach(model: WingModel, mach: number, opts: SolveOptions): M
     loadingRatio: pick(ccla, idx).map((v) => v / mbar),
     cm: pick(cm, idx),
     scale: pick(secs.map((x) => x.scale), idx),
+    sectionScaling: idx.map((i) => secs[i].scaling),
     clMax: idx.map((i) => secs[i].clMax ?? null),
     stationMachCritical,
+    cpMinSource,
     stall: stallOf({ y: yOut, chord: pick(chord, idx), clMax: idx.map((i) => secs[i].clMax ?? null), cclBasic: pick(cclb, idx), cclAdditional: pick(ccla, idx), clAlphaPerRad: clAlpha, alphaZeroLiftDeg }),
     stationMachCriticalSwept,
     machCriticalSwept: mcrSwept.length ? Math.min(...mcrSwept) : null,
@@ -344,8 +383,8 @@ export function stallOf(sol: Pick<MachSolution, "y" | "chord" | "clMax" | "cclBa
 }
 
 /** Where no cpMin is given the critical Mach number is not checked: the warning for Mach numbers where it matters, else null. */
-export function uncheckedMachWarning(y: readonly number[], stationMachCritical: readonly (number | null)[], mach: number): string | null {
-  const unchecked = y.filter((_, i) => stationMachCritical[i] === null);
+export function uncheckedMachWarning(y: readonly number[], cpMinSource: readonly CpMinSource[], mach: number): string | null {
+  const unchecked = y.filter((_, i) => cpMinSource[i] === null);
   if (!unchecked.length || !(mach > PLAUSIBLE.machUnchecked)) return null;
   return unchecked.length === y.length
     ? `no section gives cpMin: the critical Mach number is not checked, and at Mach ${mach} the subsonic rules may be outside their validity`

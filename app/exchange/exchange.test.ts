@@ -115,7 +115,7 @@ describe("runCase → spanwright.result/1", () => {
 
   it("has exactly the contract's fields", () => {
     expect(Object.keys(out)).toEqual(["schema", "engine", "method", "wing", "cases", "envelope"]);
-    expect(Object.keys(out.method)).toEqual(["compressibility", "spanwise", "strips", "terms", "stations", "output", "convergence", "machGrid"]);
+    expect(Object.keys(out.method)).toEqual(["compressibility", "spanwise", "strips", "terms", "stations", "output", "convergence", "sectionScaling", "criticalMach", "machGrid"]);
     expect(CaseResultSchema.strict().safeParse(out).success).toBe(true);
     expect(out.schema).toBe("spanwright.result/1");
     expect(out.engine).toBe(ENGINE_VERSION);

@@ -9,7 +9,10 @@ import { resolutionCheck, solveMach } from "../engine/superposition";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "../engine/vortex-lattice";
 import { MACH_GRID_DEFAULTS, buildMachGrid } from "../engine/mach-grid";
 import { RESULT_SCHEMA_ID } from "./schema";
-import type { CaseFile, CaseResult, ResultCase } from "./schema";
+import type { CaseFile, CaseResult, ResultCase, ResultMethod } from "./schema";
+import type { SectionsFile } from "./sections";
+import { withSections } from "./sections";
+import type { SectionScaling } from "../engine/spanwise";
 
 /** The engine's wing model for a parsed case file. */
 export function wingModelOf(file: CaseFile): WingModel {
@@ -35,6 +38,8 @@ export interface RunOptions {
   forceStations?: boolean;
   /** Called as the run goes on (after every solve, and every 1 000 cases), for progress displays. */
   onProgress?: (p: RunProgress) => void;
+  /** Richer section data beside the case (`spanwright.sections/1`, checked with parseSections). */
+  sections?: SectionsFile;
 }
 
 /** Up to this many distinct Mach numbers each gets its own solve; beyond it they share a Mach grid. */
@@ -47,7 +52,7 @@ export const DIRECT_MACH_LIMIT = 24;
  * @throws EngineError for a domain failure the schema cannot see (naming the field).
  */
 export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
-  const model = wingModelOf(file);
+  const model = withSections(wingModelOf(file), options.sections);
   const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
   const machs = [...new Set(file.cases.map((c) => c.mach))].sort((a, b) => a - b);
   let solves = 0;
@@ -137,6 +142,8 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
         rootBending: Math.max(...checks.map((c) => c.rootBending)),
         loading: Math.max(...checks.map((c) => c.loading)),
       },
+      sectionScaling: summarise(solutionFor(machs[machs.length - 1]).sectionScaling),
+      criticalMach: criticalMachBasis(solutionFor(machs[0]).cpMinSource),
       machGrid: grid
         ? { machs: machs.length, nodes: grid.nodes.length, solves: grid.solves(), maxError: grid.maxError, tolerance: MACH_GRID_DEFAULTS.tolerance, directRanges: grid.directRanges }
         : null,
@@ -153,4 +160,16 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
     cases,
     envelope: env ? envelopeRows(env) : [],
   };
+}
+
+/** One word for how the stations' section data were made compressible. */
+function summarise(kinds: readonly SectionScaling[]): ResultMethod["sectionScaling"] {
+  const set = new Set(kinds);
+  return set.size === 1 ? kinds[0] : "mixed";
+}
+
+/** One word for what the critical Mach numbers rest on. */
+function criticalMachBasis(sources: MachSolution["cpMinSource"]): ResultMethod["criticalMach"] {
+  const kinds = new Set(sources.map((s) => (s === null ? "unchecked" : s.kind === "table" ? "cp-min-against-lift" : s.cl === null ? "single-cp-min" : "single-cp-min-at-stated-lift")));
+  return kinds.size === 1 ? ([...kinds][0] as ResultMethod["criticalMach"]) : "mixed";
 }

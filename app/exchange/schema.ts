@@ -293,6 +293,17 @@ export interface ResultMethod {
    */
   convergence: { halfResolution: number; clAlpha: number; rootBending: number; loading: number };
   /**
+   * How the section data were made compressible at the stations: Prandtl–Glauert's 1/β; the
+   * Kármán–Tsien or Laitone ratio at each section's single cpMin; the rule point by point over the
+   * section's chordwise pressures (richer section data); or a mix over the span.
+   */
+  sectionScaling: "prandtl-glauert" | "at-cp-min" | "point-by-point" | "mixed";
+  /**
+   * What the critical Mach numbers rest on: one cpMin per section whose lift is not stated, one at a
+   * stated lift, Cp,min against lift (each case at its own lift), none, or a mix over the span.
+   */
+  criticalMach: "single-cp-min" | "single-cp-min-at-stated-lift" | "cp-min-against-lift" | "unchecked" | "mixed";
+  /**
    * Null where every distinct Mach number got its own solve; for sweeps of more distinct Mach numbers,
    * the grid they were interpolated on: distinct Mach numbers of the file, grid nodes, solves made,
    * the largest interpolation error found against direct solves in the middle of every interval (as a
@@ -336,6 +347,8 @@ export const CaseResultSchema = z.object({
     stations: n(),
     output: MethodSchema.shape.output.unwrap(),
     convergence: z.object({ halfResolution: n(), clAlpha: n(), rootBending: n(), loading: n() }),
+    sectionScaling: z.enum(["prandtl-glauert", "at-cp-min", "point-by-point", "mixed"]),
+    criticalMach: z.enum(["single-cp-min", "single-cp-min-at-stated-lift", "cp-min-against-lift", "unchecked", "mixed"]),
     machGrid: z
       .object({ machs: n(), nodes: n(), solves: n(), maxError: n(), tolerance: n(), directRanges: z.array(z.tuple([n(), n()])) })
       .nullable(),
