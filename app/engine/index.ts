@@ -1,5 +1,5 @@
 /** Version of the numerical engine, written into every result. */
-export const ENGINE_VERSION = "0.6.0";
+export const ENGINE_VERSION = "0.7.0";
 
 export { EngineError, isEngineError } from "./errors";
 export type { EngineErrorCode } from "./errors";

@@ -6,3 +6,4 @@ export type { RunOptions, RunProgress } from "./run";
 export { resultToCsv } from "./csv";
 export { parseSections, SECTIONS_SCHEMA_ID, SectionsFileSchema, withSections } from "./sections";
 export type { SectionsFile } from "./sections";
+export { analyzeDocument } from "./analyze";

@@ -12,7 +12,7 @@ import { createApiToken, listApiTokens } from "~/auth/api-auth.server";
 import { sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { apiTokens, auditLog, caseResults, caseSteps, cases, memberships, programmes, users } from "~/db/schema";
-import { parseCase, runCase, type CaseFile } from "~/exchange";
+import { parseCase, parseSections, runCase, type CaseFile } from "~/exchange";
 import { action as tokensAction, loader as tokensLoader } from "~/routes/account-tokens";
 import { action as analyzeAction } from "~/routes/api/v1/analyze";
 import { loader as caseLoader } from "~/routes/api/v1/case";
@@ -247,6 +247,25 @@ describe("POST /api/v1/analyze", () => {
     expect(problems.find((p) => p.path === "wing.stations[2].y")!.message).toMatch(/increasing/);
     expect(res.body!.message).toContain("cases[0].mach");
     expect(await rowCounts()).toEqual(before);
+  });
+
+  it("takes richer section data beside the case ({ case, sections }) as the command line's --sections does, and names a bad field of either", async () => {
+    const file = example("kf60-tern-wing") as { wing: { stations: { y: number }[] } } & Record<string, unknown>;
+    const table = [{ cl: -0.5, cpMin: -0.5 }, { cl: 0.5, cpMin: -0.6 }, { cl: 1.5, cpMin: -2.2 }];
+    const sections = { schema: "spanwright.sections/1", sections: file.wing.stations.map((s) => ({ y: s.y, cpMinTable: table })) };
+    const parsed = parseCase(file);
+    const checked = parsed.ok ? parseSections(sections, parsed.value) : null;
+    if (!parsed.ok || !checked?.ok) throw new Error("fixture must parse");
+    const res = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost({ case: file, sections }) });
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value, { sections: checked.value }))));
+    expect((res.body!.method as { criticalMach: string }).criticalMach).toBe("cp-min-against-lift");
+    const bad = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost({ case: file, sections: { ...sections, sections: [{ y: 1.234, cpMinCl: 0.3 }] }, colour: 1 }) });
+    expect(bad.status).toBe(422);
+    expect((bad.body!.problems as { path: string }[]).map((p) => p.path)).toEqual(["colour"]);
+    const badSections = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost({ case: file, sections: { ...sections, sections: [{ y: 1.234, cpMinCl: 0.3 }] } }) });
+    expect(badSections.status).toBe(422);
+    expect((badSections.body!.problems as { path: string }[])[0]!.path).toBe("sections:sections[0].y");
   });
 
   it("takes mass items, mass cases and tail loads as the command line does, and names a bad one", async () => {
