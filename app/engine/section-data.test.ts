@@ -57,7 +57,7 @@ describe("the section's pressures: a check of the reference distribution itself"
   });
 });
 
-describe("compressibility point by point over the chordwise pressures", () => {
+describe("compressibility point by point over the chordwise pressures", { timeout: 120_000 }, () => {
   it("Prandtl–Glauert point by point is exactly 1/β on slope and cm, with no zero-lift shift (Glauert 1928: linear in Cp)", () => {
     const s = pointByPointScaling(pressures, "prandtl-glauert", 0.6);
     expect(s.slopeRatio).toBeCloseTo(1 / 0.8, 12);
@@ -102,7 +102,7 @@ describe("compressibility point by point over the chordwise pressures", () => {
   });
 });
 
-describe("minimum Cp against lift", () => {
+describe("minimum Cp against lift", { timeout: 60_000 }, () => {
   it("is read linearly between the table's points and held at its ends, saying so", () => {
     const t = [
       { cl: 0, cpMin: -0.4 },

@@ -23,7 +23,7 @@ function lerpAt(y: number, f: (s: WingStation) => number): number {
   return f(a) + t * (f(b) - f(a));
 }
 
-describe("loads resolved about a swept reference axis (CASE-EXCHANGE: streamwise cuts, moments resolved)", () => {
+describe("loads resolved about a swept reference axis (CASE-EXCHANGE: streamwise cuts, moments resolved)", { timeout: 60_000 }, () => {
   const s = 11;
   const axisRootX = 0 + 0.35 * 3.0;
   const axisTipX = 5.2 + 0.45 * 1.0;

@@ -180,7 +180,7 @@ describe("runCase → spanwright.result/1", () => {
   });
 });
 
-describe("method.strips: the vortex-lattice resolution the user sets, and what the output says was used", () => {
+describe("method.strips: the vortex-lattice resolution the user sets, and what the output says was used", { timeout: 120_000 }, () => {
   const run = (method: Record<string, unknown>) => {
     const p = parseCase({ ...base(), method: { ...base().method, ...method } });
     if (!p.ok) throw new Error(p.problems.map((x) => `${x.path}: ${x.message}`).join("; "));
@@ -232,7 +232,7 @@ describe("method.strips: the vortex-lattice resolution the user sets, and what t
   });
 });
 
-describe("sweeps of many distinct Mach numbers share a Mach grid (it was one solve per Mach number)", () => {
+describe("sweeps of many distinct Mach numbers share a Mach grid (it was one solve per Mach number)", { timeout: 120_000 }, () => {
   const sweep = (n: number) => ({
     ...base(),
     method: { compressibility: "karman-tsien", spanwise: "vortex-lattice", stations: 12, strips: 30, output: "summary" },

@@ -115,7 +115,7 @@ describe("unusual input runs, with a warning", () => {
   });
 });
 
-describe("no NaN, Infinity or null where a number is documented", () => {
+describe("no NaN, Infinity or null where a number is documented", { timeout: 60_000 }, () => {
   const extremes: [string, unknown][] = [
     ["smallest semispan and strips", doc(wing({ s: 0.05, rootChord: 0.01 }), [{ id: "c", mach: 0.2, altitude: 0, weight: 0.5, nz: 1 }], { stations: 2, strips: 8 })],
     ["largest nz and weight", doc(wing({ s: 60, rootChord: 12 }), [

@@ -103,7 +103,7 @@ describe("spanwright.sections/1 is checked against its case, naming every proble
   });
 });
 
-describe("point by point over chordwise pressures, through the exchange", () => {
+describe("point by point over chordwise pressures, through the exchange", { timeout: 120_000 }, () => {
   it("states point-by-point in the result and moves an angle-given case's lift against the single-cpMin default", () => {
     const sec = joukowski(0.1, 0.04);
     const xs = Array.from({ length: 61 }, (_, k) => 0.5 * (1 - Math.cos((Math.PI * k) / 60)));
