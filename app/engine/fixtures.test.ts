@@ -20,8 +20,8 @@ describe("reference fixtures", () => {
     }
   });
 
-  it("schrenk-tm948-example.json (NACA TM 948; REFERENCES 3 [C])", () => {
-    const fx = load("schrenk-tm948-example.json");
+  it("schrenk-trapezoid-computed.json (Schrenk's method, NACA TM 948, on a wing of our own; values computed, REFERENCES 3 [C])", () => {
+    const fx = load("schrenk-trapezoid-computed.json");
     const w = fx.wing;
     const st = trapezoidalWing({ span: w.span, rootChord: w.rootChord, taperRatio: w.tipChord / w.rootChord });
     const S = ((w.rootChord + w.tipChord) / 2) * w.span;
