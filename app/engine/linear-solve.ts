@@ -227,7 +227,7 @@ export function factorDense(a: Float64Array, n: number): DenseSolver {
   if (a.length !== n * n) throw new EngineError("invalid-argument", `expected ${n * n} matrix entries, got ${a.length}`);
   const module = n >= DENSE_KERNEL_MIN_N && 12 * n * n < KERNEL_MAX_BYTES ? kernelModule() : null;
   if (!module) {
-    const f = luFactor(Float64Array.from(a), n);
+    const f = luFactor(a.slice(), n);
     return { n, solve: (b) => luSolve(f, checkRhs(b, n)), method: () => "plain" };
   }
   const ks = 12 * n * n <= SHARED_MAX_BYTES ? (shared ??= newKernel(module)) : newKernel(module);
@@ -286,7 +286,7 @@ export function factorDense(a: Float64Array, n: number): DenseSolver {
         rNorm = Math.max(rNorm, Math.abs(r[i]));
         xNorm = Math.max(xNorm, Math.abs(x[i]));
       }
-      if (rNorm <= oneRounding * xNorm || (stalled && rNorm <= dsgesvTest * xNorm)) return Float64Array.from(x);
+      if (rNorm <= oneRounding * xNorm || (stalled && rNorm <= dsgesvTest * xNorm)) return x.slice();
       if (iter === ITERMAX || !(rNorm < Infinity)) return null;
       k.demote(oR, oD, n);
       k.solve32(oA32, n, oPiv, oD);
@@ -303,7 +303,7 @@ export function factorDense(a: Float64Array, n: number): DenseSolver {
     const x = new Float64Array(ks.memory.buffer, oX, n);
     x.set(b);
     k.solve64(oLu, n, oPiv, oX);
-    return Float64Array.from(x);
+    return x.slice();
   };
   return {
     n,
