@@ -84,7 +84,9 @@ function main(argv: string[]): void {
         : "done",
     );
   }
-  process.stdout.write(csv ? resultToCsv(result) : JSON.stringify(result) + "\n");
+  // Two writes rather than one concatenation: the document can be tens of megabytes.
+  process.stdout.write(csv ? resultToCsv(result) : JSON.stringify(result));
+  if (!csv) process.stdout.write("\n");
 }
 
 main(process.argv.slice(2));
