@@ -1,4 +1,6 @@
 import type { BasisData, DistributionData, EnvelopeData, LoadsData, PlanformData, SectionsData } from "~/domain/step-data";
+import type { DistributionSeries } from "~/charts/distribution";
+import type { CompressibilityRule, VnPoint, WingGeometry } from "~/engine";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 
 /** One signature as it appears on the report's signature page and in the API. */
@@ -42,4 +44,41 @@ export interface ReportSnapshot {
   /** Flagged cases with their dispositions. */
   flags: { id: string; reasons: string[]; action: string; comment: string }[];
   signatures: SignatureLine[];
+}
+
+/** One V–n diagram: a design weight at an altitude, its corner and gust points and the gust data. */
+export interface VnFigure {
+  label: string;
+  weightKg: number;
+  points: VnPoint[];
+  /** Airplane lift slope used in the gust formula, per rad. */
+  liftSlope: number;
+  gustAtVc: number;
+  gustAtVd: number;
+  gustRule: string;
+}
+
+/** The spanwise distributions of one case, solved under the case's rule and under each of the three. */
+export type DistributionFigure = Omit<DistributionSeries, "rules"> & {
+  caseId: string;
+  altitude: number;
+  rule: CompressibilityRule;
+  CL: number;
+  alphaDeg: number;
+  regime: string;
+  machCritical: number | null;
+  rules: (DistributionSeries["rules"][number] & { CL: number; clAlpha: number; machCritical: number | null })[];
+};
+
+/**
+ * What the report draws beyond the snapshot's own numbers, computed from the snapshot by the
+ * reports service when the PDF is rendered (so the stored snapshot stays as it was signed).
+ */
+export interface ReportFigures {
+  /** The V–n diagram of the first design weight and altitude, and how many there are in all. */
+  vn: { set: VnFigure; count: number };
+  /** The distributions of the critical case. */
+  critical: DistributionFigure;
+  /** The wing's derived geometry (area, span, MAC, panels). */
+  geometry: WingGeometry;
 }

@@ -1,7 +1,8 @@
 import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { wingModelOf, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
-import { parseOrThrow } from "./analysis.server";
+import { DomainError } from "~/domain/errors";
+import { buildCaseFile, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
 
 export interface CaseFlag {
   id: string;
@@ -91,4 +92,35 @@ export type DistributionView = ReturnType<typeof distributionView>;
 export function distributionViewForPage(input: CaseFileInput, caseId: string) {
   const full = distributionView(input, caseId);
   return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings)] };
+}
+
+/**
+ * What the distribution step shows: the flagged cases with their dispositions and the
+ * distributions of one case (the one asked for, else the first flagged, else the first), or why
+ * nothing can be shown yet (a step not saved, every case excluded, a case the engine refuses).
+ */
+export async function distributionStep(input: { caseId: string; title: string; inputs: CaseInputs; requested: string | null; actorId: string | null }) {
+  const dispositions = input.inputs.distribution?.dispositions ?? {};
+  try {
+    const file = buildCaseFile(input.title, input.inputs, "envelope");
+    const { result } = await resultsFor(input.caseId, file, input.actorId);
+    const flags = flaggedCases(result);
+    const shown = input.requested && file.cases.some((k) => k.id === input.requested) ? input.requested : (flags[0]?.id ?? file.cases[0]!.id);
+    return { problem: null, view: distributionViewForPage(file, shown), flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
+  } catch (error) {
+    if (error instanceof DomainError) return { problem: error.message, view: null, flags: [], open: [], dispositions };
+    throw error;
+  }
+}
+
+/** Flagged cases without a disposition keep the distribution step from being submitted: the reasons, or none. */
+export async function dispositionBlockers(caseId: string, title: string, inputs: CaseInputs): Promise<string[]> {
+  try {
+    const { result } = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null);
+    const open = undispositioned(flaggedCases(result), inputs.distribution);
+    return open.length ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open.join(", ")}.`] : [];
+  } catch (error) {
+    if (error instanceof DomainError) return [error.message];
+    throw error;
+  }
 }

@@ -85,6 +85,22 @@ export function vnSets(basis: BasisData, planform: PlanformData, sections: Secti
 }
 
 /**
+ * The V–n diagrams the envelope page draws from the saved steps, or why there are none yet (a step
+ * missing, or a rule of the basis the diagram cannot meet, such as VC at or above Mach 1).
+ */
+export function vnView(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): { sets: VnSet[]; problem: string | null } {
+  if (!inputs.basis || !inputs.planform || !inputs.sections) {
+    return { sets: [], problem: "Save the basis, planform and sections first: the V–n diagram and generated cases need the weights, speeds, the wing and its lift slope." };
+  }
+  try {
+    return { sets: vnSets(inputs.basis, inputs.planform, inputs.sections, inputs.envelope ?? method), problem: null };
+  } catch (error) {
+    if (!(error instanceof DomainError)) throw error;
+    return { sets: [], problem: error.message };
+  }
+}
+
+/**
  * The cases a "generate" asks for: the V–n corner points of the saved basis, with the cases the
  * engineer added by hand (kind "manual") kept after them.
  */

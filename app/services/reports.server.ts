@@ -2,20 +2,20 @@ import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { cases, caseSteps, memberships, organisations, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
-import type { Role } from "~/domain/vocabulary";
-import { ENGINE_VERSION } from "~/engine";
+import { cases, caseSteps, memberships, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
+import { ISSUED_REPORT_STATUSES, PENDING_REPORT_STATUSES, type Role } from "~/domain/vocabulary";
 import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
-import type { ReportSnapshot, SignatureLine } from "~/reports/snapshot";
+import type { ReportSnapshot } from "~/reports/snapshot";
 import { env } from "~/utils/env.server";
-import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
+import { buildCaseFile, caseInputs, parseOrThrow } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
-import { flaggedCases } from "./distribution.server";
 import { sendMail } from "./mail.server";
+import { buildSnapshot, renderReport, versionChanges } from "./report-contents.server";
 import { liveSignatures } from "./review.server";
 import { deleteObject, putObject, getObjectBytes } from "./storage.server";
 import type { Actor, CurrentUser } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
+import { isUuid } from "./programmes.server";
 
 
 async function mailRole(organisationId: string, role: Role, subject: string, paragraphs: string[], path: string) {
@@ -46,7 +46,7 @@ export async function createReportRow(input: { caseId: string; actor: Actor }): 
   const [current] = await db.select().from(cases).where(eq(cases.id, input.caseId));
   if (!current) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
   const inputHash = sha256Hex(canonicalJson(parseOrThrow(buildCaseFile(current.title, caseInputs(await getCaseSteps(input.caseId))))));
-  const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["issued", "released"]))).orderBy(desc(reports.version)).limit(1);
+  const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES]))).orderBy(desc(reports.version)).limit(1);
   if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, { field: "case", kind: "conflict" });
   return db.transaction(async (tx) => {
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
@@ -57,7 +57,7 @@ export async function createReportRow(input: { caseId: string; actor: Actor }): 
     if (!live.some((s) => s.meaning === "approved for issue" && s.step === null && s.reportId === null)) {
       throw new DomainError("A checker must approve the case for issue before a report is requested.", { field: "case", kind: "conflict" });
     }
-    const pending = await tx.select({ id: reports.id }).from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, ["queued", "generating"])));
+    const pending = await tx.select({ id: reports.id }).from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, [...PENDING_REPORT_STATUSES])));
     if (pending.length) throw new DomainError("A report of this case is already being generated.", { field: "case", kind: "conflict" });
     const [{ last }] = (await tx.select({ last: max(reports.version) }).from(reports).where(eq(reports.caseId, input.caseId))) as [{ last: number | null }];
     const version = (last ?? 0) + 1;
@@ -75,52 +75,6 @@ async function setProgress(reportId: string, progress: number, note: string) {
   await db.update(reports).set({ progress, progressNote: note }).where(eq(reports.id, reportId));
 }
 
-/** Signature lines of a case (live ones) for the report's signature page. */
-async function signatureLines(caseId: string): Promise<SignatureLine[]> {
-  const live = await liveSignatures(caseId);
-  return live
-    .filter((s) => s.reportId === null)
-    .sort((a, b) => a.signedAt.getTime() - b.signedAt.getTime())
-    .map((s) => ({ step: s.step, name: s.signerName, role: s.role, meaning: s.meaning, signedAt: s.signedAt.toISOString(), revision: s.revision, revisionHash: s.revisionHash }));
-}
-
-/** Freezes everything the report is made from. */
-export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
-  const [row] = await db
-    .select({ c: cases, p: programmes, o: organisations })
-    .from(cases)
-    .innerJoin(programmes, eq(programmes.id, cases.programmeId))
-    .innerJoin(organisations, eq(organisations.id, cases.organisationId))
-    .where(eq(cases.id, report.caseId));
-  const steps = await getCaseSteps(report.caseId);
-  const inputs = caseInputs(steps);
-  if (!inputs.basis || !inputs.planform || !inputs.sections || !inputs.envelope || !inputs.loads) throw new Error("a step of the case has no valid data");
-  const exchange = buildCaseFile(row!.c.title, inputs);
-  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy);
-  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy)).result).map((f) => ({
-    ...f,
-    action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
-    comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",
-  }));
-  return {
-    reportId: report.id,
-    reportNumber: report.reportNumber,
-    version: report.version,
-    issuedAt: new Date().toISOString(),
-    organisation: row!.o.name,
-    programme: { code: row!.p.code, name: row!.p.name, aircraft: row!.p.aircraft },
-    case: { id: row!.c.id, reference: row!.c.reference, title: row!.c.title, description: row!.c.description },
-    revisions: Object.fromEntries(STEPS.map((s) => [s.key, steps[s.key].revision])),
-    inputHash,
-    engineVersion: ENGINE_VERSION,
-    inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
-    exchange,
-    result,
-    flags,
-    signatures: await signatureLines(report.caseId),
-  };
-}
-
 /**
  * The job: snapshot → PDF → S3 → database, so that no half-issued report can exist. The object goes
  * to a key unique to this report version; only then, in one transaction, does the row become
@@ -135,10 +89,9 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
   try {
     await setProgress(reportId, 10, "freezing the inputs and results");
     const snapshot = await buildSnapshot(report);
-    const { renderReportPdf } = await import("~/reports/pdf.server");
     // Progress is only shown to people: a lost update (database away mid-render) must not become an
     // unhandled rejection; the next awaited step reports the outage.
-    const pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => void setProgress(reportId, 20 + Math.round(pct * 0.6), note).catch(() => {}) });
+    const pdf = await renderReport(snapshot, { onProgress: (pct, note) => void setProgress(reportId, 20 + Math.round(pct * 0.6), note).catch(() => {}) });
     await setProgress(reportId, 85, "storing the PDF");
     const sha256 = sha256Hex(pdf);
     const bucket = env().S3_BUCKET_REPORTS;
@@ -163,7 +116,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     await db
       .update(reports)
       .set({ status: last ? "failed" : "queued", progress: 0, progressNote: last ? "failed" : `attempt ${report.attempts + 1} failed; retrying`, failure: message.slice(0, 500) })
-      .where(and(eq(reports.id, reportId), inArray(reports.status, ["queued", "generating"])))
+      .where(and(eq(reports.id, reportId), inArray(reports.status, [...PENDING_REPORT_STATUSES])))
       .catch(() => {});
     throw error;
   }
@@ -265,6 +218,18 @@ export async function reportBytes(r: Report): Promise<Uint8Array> {
   return bytes;
 }
 
+/**
+ * The stored PDF of a report for a download, with the download recorded in the audit log.
+ * @throws DomainError (not-found) for a report of another organisation or one without a PDF yet
+ */
+export async function downloadReport(input: { organisationId: string; reportId: string; actor: Actor }): Promise<{ report: Report; bytes: Uint8Array }> {
+  const report = isUuid(input.reportId) ? await getReport(input.organisationId, input.reportId) : null;
+  if (!report || !report.sha256) throw new DomainError("The report was not found, or you have no access to it.", { kind: "not-found" });
+  const bytes = await reportBytes(report);
+  await db.transaction((tx) => writeAudit(tx, { organisationId: report.organisationId, actor: input.actor, action: "report.download", entityType: "report", entityId: report.id }));
+  return { report, bytes };
+}
+
 /** Which issued report of the organisation a PDF is, by the SHA-256 of its bytes. */
 export async function verifyPdf(organisationId: string, bytes: Uint8Array) {
   const sha256 = sha256Hex(bytes);
@@ -273,3 +238,15 @@ export async function verifyPdf(organisationId: string, bytes: Uint8Array) {
 }
 
 
+
+/** The two newest issued versions of a case's report, and what changed between them; null before a second version. */
+export async function latestVersionChanges(caseId: string) {
+  const issued = await db
+    .select({ version: reports.version, snapshot: reports.snapshot })
+    .from(reports)
+    .where(and(eq(reports.caseId, caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES])))
+    .orderBy(asc(reports.version));
+  if (issued.length < 2) return null;
+  const [older, newer] = issued.slice(-2) as [(typeof issued)[number], (typeof issued)[number]];
+  return { from: older.version, to: newer.version, rows: versionChanges(older.snapshot as unknown as ReportSnapshot, newer.snapshot as unknown as ReportSnapshot) };
+}

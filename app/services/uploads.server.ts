@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { uploads } from "~/db/schema";
 import { env } from "~/utils/env.server";
 import { getObjectBytes, putObject } from "./storage.server";
+import { DomainError } from "~/domain/errors";
 import type { Actor } from "~/domain/people";
 
 
@@ -38,4 +39,16 @@ export async function readSectionUpload(caseId: string, uploadId: string): Promi
   const bytes = await getObjectBytes(upload.bucket, upload.key);
   if (sha256Hex(bytes) !== upload.sha256) throw new Error(`stored file ${upload.key} does not match its recorded SHA-256`);
   return { upload, parsed: parseSectionCsv(bytes) };
+}
+
+/**
+ * The section data of an upload of this case, for the sections step: its rows and fitted tables,
+ * with the file named and its SHA-256 as the data's source.
+ * @throws DomainError (field uploadId) when the upload is not this case's or its file no longer parses
+ */
+export async function sectionsFromUpload(caseId: string, uploadId: string) {
+  const found = await readSectionUpload(caseId, uploadId);
+  if (!found || !found.parsed.ok) throw new DomainError("That upload was not found for this case; upload the file again.", { field: "uploadId" });
+  const { upload, parsed } = found;
+  return { rows: parsed.rows, tables: parsed.tables, source: { kind: "upload" as const, uploadId: upload.id, filename: upload.filename, sha256: upload.sha256 } };
 }

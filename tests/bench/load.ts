@@ -235,8 +235,7 @@ async function timeReports(databaseUrl: string): Promise<ReportTiming> {
   const { eq } = await import("drizzle-orm");
   const { db, closeDb } = await import("../../app/db/client.server");
   const { reports } = await import("../../app/db/schema");
-  const { buildSnapshot } = await import("../../app/services/reports.server");
-  const { renderReportPdf } = await import("../../app/reports/pdf.server");
+  const { buildSnapshot, renderReport } = await import("../../app/services/report-contents.server");
   const { parseCase, runCase } = await import("../../app/exchange");
   const pagesOf = (pdf: Uint8Array) => (Buffer.from(pdf).toString("latin1").match(/\/Type\s*\/Page[^s]/g) ?? []).length;
   try {
@@ -254,7 +253,7 @@ async function timeReports(databaseUrl: string): Promise<ReportTiming> {
       return { ms: t[Math.floor(t.length / 2)]!, value };
     };
     const snap = await median(() => buildSnapshot(row), 3);
-    const demoPdf = await median(() => renderReportPdf(snap.value), 3);
+    const demoPdf = await median(() => renderReport(snap.value), 3);
 
     // 500 load cases over the demo envelope's range: Mach 0.20–0.52, 0–5 km, nz −1.24…3.1.
     const exchange = structuredClone(snap.value.exchange);
@@ -270,7 +269,7 @@ async function timeReports(databaseUrl: string): Promise<ReportTiming> {
     if (!parsed.ok) throw new Error(`the 500-case document is invalid: ${parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; ")}`);
     const solved = await median(async () => runCase(parsed.value), 3);
     const big = { ...snap.value, exchange, result: solved.value };
-    const bigPdf = await median(() => renderReportPdf(big), 1);
+    const bigPdf = await median(() => renderReport(big), 1);
     return {
       demo: { cases: snap.value.exchange.cases.length, snapshotMs: snap.ms, renderMs: demoPdf.ms, pages: pagesOf(demoPdf.value), bytes: demoPdf.value.byteLength },
       big: { cases: 500, solveMs: solved.ms, renderMs: bigPdf.ms, pages: pagesOf(bigPdf.value), bytes: bigPdf.value.byteLength },

@@ -9,11 +9,12 @@ import { formatNumber, formatQuantity, fromSI } from "~/domain/units";
 import { db } from "~/db/client.server";
 import { cases, organisations, programmes, stepRevisions } from "~/db/schema";
 import { ENGINE_VERSION } from "~/engine";
-import { fontRuns, renderReportPdf } from "~/reports/pdf.server";
+import { fontRuns } from "~/reports/pdf/fonts.server";
 import type { ReportSnapshot } from "~/reports/snapshot";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { flaggedCases } from "~/services/distribution.server";
+import { renderReport } from "~/services/report-contents.server";
 import { seed } from "./helpers";
 
 const run = promisify(execFile);
@@ -79,7 +80,7 @@ beforeAll(async () => {
   await seed();
   snapshot = await buildSnapshot();
   const started = performance.now();
-  pdf = await renderReportPdf(snapshot, { onProgress: (pct, note) => notes.push(`${pct} ${note}`) });
+  pdf = await renderReport(snapshot, { onProgress: (pct, note) => notes.push(`${pct} ${note}`) });
   notes.push(`render ${(performance.now() - started).toFixed(0)} ms`);
   dir = await mkdtemp(join(tmpdir(), "spanwright-report-"));
   pdfPath = join(dir, "report.pdf");
@@ -148,7 +149,7 @@ describe("the signed report PDF of the demo case", () => {
   });
 
   it("renders the same bytes twice from the same snapshot", async () => {
-    const again = await renderReportPdf(structuredClone(snapshot));
+    const again = await renderReport(structuredClone(snapshot));
     expect(again.length).toBe(pdf.length);
     expect(Buffer.compare(Buffer.from(again), Buffer.from(pdf))).toBe(0);
   });
@@ -159,7 +160,7 @@ describe("the signed report PDF of the demo case", () => {
     const comment = "Invented disposition for this check: the case is kept to cover the stall boundary.";
     flagged.flags = [{ id: flagged.result.cases[0]!.id, reasons: ["cl exceeds the section clmax at 2 stations (y = 8.10–8.40 m); worst cl/clmax = 1.020 at y = 8.40 m"], action: "justify", comment }];
     const path = join(dir, "flagged.pdf");
-    await writeFile(path, await renderReportPdf(flagged));
+    await writeFile(path, await renderReport(flagged));
     const { stdout } = await run("pdftotext", ["-enc", "UTF-8", path, "-"], { maxBuffer: 64 * 1024 * 1024 });
     const section = stdout.slice(stdout.indexOf("Flagged cases and their dispositions"));
     expect(section).toContain("kept, justified");

@@ -1,6 +1,6 @@
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import type { ClipboardEvent, KeyboardEvent } from "react";
-import { useFieldArray, type Control, type FieldErrors, type UseFormRegister, type UseFormSetValue } from "react-hook-form";
+import type { ClipboardEvent, KeyboardEvent, ReactNode } from "react";
+import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
 export interface GridColumn {
@@ -10,19 +10,17 @@ export interface GridColumn {
   type?: "number" | "text" | "checkbox";
 }
 
-interface Props {
-  name: string;
+interface Props<T extends FieldValues, O> {
+  /** The form the grid belongs to, and the list field of it the grid edits. */
+  form: UseFormReturn<T, unknown, O>;
+  name: ArrayPath<T>;
   caption: string;
   columns: GridColumn[];
-  control: Control<never>;
-  register: UseFormRegister<never>;
-  setValue: UseFormSetValue<never>;
-  errors?: FieldErrors;
   serverErrors?: Record<string, string[] | undefined>;
+  /** The cells of a new row, as typed text. */
   emptyRow: Record<string, string>;
   disabled?: boolean;
   csvName: string;
-  getValues: () => Record<string, unknown>[];
 }
 
 /**
@@ -30,8 +28,13 @@ interface Props {
  * between cells, a block pasted from a spreadsheet fills the grid from the focused cell (rows are
  * added as needed), and the rows can be exported as CSV.
  */
-export function EditableGrid(props: Props) {
-  const { fields, append, remove, insert } = useFieldArray({ control: props.control, name: props.name as never });
+export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
+  const { form } = props;
+  const { fields, append, remove, insert } = useFieldArray({ control: form.control, name: props.name });
+  // Cell fields are named "rows.2.chord", as react-hook-form and the form post name them.
+  const cell = (row: number, key: string) => `${props.name}.${row}.${key}` as Path<T>;
+  // A new row holds text, as the inputs do; the form's schema reads the numbers from it.
+  const emptyRow = props.emptyRow as FieldArray<T, ArrayPath<T>>;
   const helper = createColumnHelper<Record<string, unknown>>();
   const cellId = (row: number, col: number) => `${props.name}-${row}-${col}`;
 
@@ -44,7 +47,7 @@ export function EditableGrid(props: Props) {
   const onKeyDown = (row: number, col: number) => (e: KeyboardEvent<HTMLInputElement>) => {
     if (e.key === "ArrowDown" || e.key === "Enter") {
       e.preventDefault();
-      if (row + 1 >= fields.length && e.key === "Enter") append(props.emptyRow as never);
+      if (row + 1 >= fields.length && e.key === "Enter") append(emptyRow);
       setTimeout(() => focusCell(row + 1, col));
     } else if (e.key === "ArrowUp") {
       e.preventDefault();
@@ -64,11 +67,11 @@ export function EditableGrid(props: Props) {
     // A header line pasted with the numbers is skipped.
     const rows = first.some((c) => c !== "" && Number.isNaN(Number(c.replace(",", ".")))) ? cells.slice(1) : cells;
     const missing = row + rows.length - fields.length;
-    for (let i = 0; i < missing; i++) append(props.emptyRow as never);
+    for (let i = 0; i < missing; i++) append(emptyRow);
     rows.forEach((values, i) =>
       values.forEach((v, j) => {
         const column = props.columns[col + j];
-        if (column) props.setValue(`${props.name}.${row + i}.${column.key}` as never, v as never, { shouldDirty: true });
+        if (column) form.setValue(cell(row + i, column.key), v as PathValue<T, Path<T>>, { shouldDirty: true });
       }),
     );
   };
@@ -80,12 +83,12 @@ export function EditableGrid(props: Props) {
         id: col.key,
         header: col.label,
         cell: (c) => {
-          const name = `${props.name}.${c.row.index}.${col.key}`;
+          const name = cell(c.row.index, col.key);
           const messages = props.serverErrors?.[name] ?? [];
-          const clientError = (props.errors?.[props.name] as unknown as Record<number, Record<string, { message?: string }>> | undefined)?.[c.row.index]?.[col.key]?.message;
+          const clientError = (get(form.formState.errors, name) as { message?: string } | undefined)?.message;
           const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
           if (col.type === "checkbox") {
-            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...props.register(name as never)} />;
+            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...form.register(name)} />;
           }
           return (
             <div>
@@ -96,7 +99,7 @@ export function EditableGrid(props: Props) {
                 title={all.join(" ")}
                 inputMode={col.type === "text" ? "text" : "decimal"}
                 className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${col.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
-                {...props.register(name as never)}
+                {...form.register(name)}
                 onKeyDown={onKeyDown(c.row.index, j)}
                 onPaste={onPaste(c.row.index, j)}
               />
@@ -116,7 +119,7 @@ export function EditableGrid(props: Props) {
       cell: (c) =>
         props.disabled ? null : (
           <span className="flex gap-1 whitespace-nowrap">
-            <button type="button" className="rounded px-1 text-xs text-accent hover:bg-accent-soft" aria-label={`Insert a row after row ${c.row.index + 1}`} onClick={() => insert(c.row.index + 1, props.emptyRow as never)}>
+            <button type="button" className="rounded px-1 text-xs text-accent hover:bg-accent-soft" aria-label={`Insert a row after row ${c.row.index + 1}`} onClick={() => insert(c.row.index + 1, emptyRow)}>
               + row
             </button>
             <button type="button" className="rounded px-1 text-xs text-danger hover:bg-danger-soft" aria-label={`Delete row ${c.row.index + 1}`} onClick={() => remove(c.row.index)}>
@@ -150,7 +153,9 @@ export function EditableGrid(props: Props) {
               <tr key={r.id} className="border-b border-line align-top last:border-0">
                 {r.getVisibleCells().map((cell) => (
                   <td key={cell.id} className="px-2 py-1">
-                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                    {/* Called, not mounted: flexRender would mount each cell function as a component of a new
+                        type on every render, and a remounted input loses what is being typed into it. */}
+                    {renderCell(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}
               </tr>
@@ -160,14 +165,17 @@ export function EditableGrid(props: Props) {
       </div>
       <div className="mt-2 flex flex-wrap items-center gap-2 text-xs">
         {props.disabled ? null : (
-          <button type="button" className="rounded border border-line-strong bg-surface px-2 py-1 font-semibold hover:bg-canvas" onClick={() => append(props.emptyRow as never)}>
+          <button type="button" className="rounded border border-line-strong bg-surface px-2 py-1 font-semibold hover:bg-canvas" onClick={() => append(emptyRow)}>
             Add row
           </button>
         )}
         <button
           type="button"
           className="rounded border border-line-strong bg-surface px-2 py-1 font-semibold hover:bg-canvas"
-          onClick={() => downloadText(props.csvName, toCsv(props.columns.map((c) => c.label), props.getValues().map((row) => props.columns.map((c) => String(row[c.key] ?? "")))))}
+          onClick={() => {
+            const rows = (form.getValues(props.name as Path<T>) ?? []) as Record<string, unknown>[];
+            downloadText(props.csvName, toCsv(props.columns.map((c) => c.label), rows.map((row) => props.columns.map((c) => String(row[c.key] ?? "")))));
+          }}
         >
           Export CSV
         </button>
@@ -175,4 +183,8 @@ export function EditableGrid(props: Props) {
       </div>
     </div>
   );
+}
+
+function renderCell<C>(def: ((context: C) => ReactNode) | ReactNode | undefined, context: C): ReactNode {
+  return typeof def === "function" ? def(context) : def;
 }

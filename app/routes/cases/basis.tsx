@@ -2,13 +2,14 @@ import { Form, useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { hasPermission } from "~/domain/permissions";
 import { convertFields, tidy } from "~/domain/form-values";
-import { BasisSchema, CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
-import { unitSymbol, type UnitSystem } from "~/domain/units";
+import { BasisSchema, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import type { UnitSystem } from "~/domain/units";
+import { BasisChecksPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel, type BasisCheck } from "./basis.panels";
+import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
-import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
-import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
-import { Alert, PageHeader, Panel } from "~/components/ui/page-header";
+import { useZodForm } from "~/components/forms/use-zod-form";
+import { PageHeader } from "~/components/ui/page-header";
 import { getCaseSteps, stepData } from "~/services/case-steps.server";
 import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
 import { fieldErrorsOf } from "~/utils/form-data";
@@ -40,7 +41,7 @@ function derivedFromRules(b: BasisData) {
   const part23 = b.category !== "part25";
   const f = part23 ? manoeuvreLoadFactorsPart23(mtowLb, b.category.replace("part23-", "") as Part23Category) : manoeuvreLoadFactorsPart25(mtowLb);
   const vs = stallSpeed(weightN, b.wingArea, b.clMax);
-  const rows: { label: string; value: string; rule: string; ok?: boolean }[] = [
+  const rows: BasisCheck[] = [
     { label: "Wing loading at MTOW", value: `${(weightN / b.wingArea).toFixed(0)} N/m² (${(weightN / b.wingArea / PSF).toFixed(1)} psf)`, rule: "W/S" },
     { label: "Positive limit load factor", value: f.positive.value.toFixed(3), rule: f.positive.rule },
     { label: "Negative limit load factor at VC", value: f.negativeAtVc.value.toFixed(3), rule: f.negativeAtVc.rule },
@@ -83,78 +84,23 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function BasisRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const { form, onSubmit } = useZodForm(BasisFormSchema, { ...loaderData.values, revision: loaderData.revision } as never, loaderData.revision);
+  const { form, onSubmit } = useZodForm(BasisFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useNavigation().state === "submitting";
-  const server = actionData?.fieldErrors;
-  const units = (form.watch("units") ?? "SI") as UnitSystem;
-  const u = (q: Parameters<typeof unitSymbol>[1]) => unitSymbol(units, q);
-  const err = (name: string) => errorsFor(form, server, name);
-  const disabled = !loaderData.canEdit;
+  const fields = { form, server: actionData?.fieldErrors, units: form.watch("units") ?? "SI" };
   return (
     <>
       <PageHeader title="Basis" description="The certification basis of the case: the rules that apply, weights, design speeds (equivalent airspeed) and altitudes." />
       <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      {actionData?.ok ? <div className="mb-3"><Alert tone="info">Saved as revision {actionData.revision}.</Alert></div> : null}
-      {server?.revision || server?.form || server?.status ? <div className="mb-3"><Alert>{[...(server.revision ?? []), ...(server.form ?? []), ...(server.status ?? [])].join(" ")}</Alert></div> : null}
+      <StepAnswer answer={actionData} inline={Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision")} />
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
-        <fieldset disabled={disabled} className="grid gap-5 xl:grid-cols-2">
-          <Panel title="Rules">
-            <SelectField label="Category" {...form.register("category", { onChange: (e) => form.setValue("regulations", DEFAULT_REGULATIONS[e.target.value as keyof typeof DEFAULT_REGULATIONS], { shouldDirty: true }) })} errors={err("category")}>
-              {CATEGORIES.map((k) => (
-                <option key={k} value={k}>
-                  {CATEGORY_LABELS[k]}
-                </option>
-              ))}
-            </SelectField>
-            <TextAreaField label="Applicable regulation references" hint="Edit to the agreed certification basis (amendment levels, special conditions)." {...form.register("regulations")} errors={err("regulations")} />
-            <SelectField label="Units shown" hint="Stored in SI whatever you choose." {...form.register("units")} errors={err("units")}>
-              <option value="SI">SI (m, kg, m/s)</option>
-              <option value="US">US customary (ft, lb, kt)</option>
-            </SelectField>
-          </Panel>
-          <Panel title="Weights">
-            <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
-              <TextField label={`Max take-off [${u("mass")}]`} inputMode="decimal" {...form.register("mtow")} errors={err("mtow")} />
-              <TextField label={`Max zero-fuel [${u("mass")}]`} inputMode="decimal" {...form.register("mzfw")} errors={err("mzfw")} />
-              <TextField label={`Minimum design [${u("mass")}]`} inputMode="decimal" {...form.register("minWeight")} errors={err("minWeight")} />
-            </div>
-          </Panel>
-          <Panel title="Design speeds (EAS)">
-            <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-4">
-              <TextField label={`VS1 [${u("speed")}]`} inputMode="decimal" {...form.register("vs1")} errors={err("vs1")} />
-              <TextField label={`VA [${u("speed")}]`} inputMode="decimal" {...form.register("va")} errors={err("va")} />
-              <TextField label={`VC [${u("speed")}]`} inputMode="decimal" {...form.register("vc")} errors={err("vc")} />
-              <TextField label={`VD [${u("speed")}]`} inputMode="decimal" {...form.register("vd")} errors={err("vd")} />
-            </div>
-          </Panel>
-          <Panel title="Wing and altitudes">
-            <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
-              <TextField label={`Wing reference area [${u("area")}]`} inputMode="decimal" {...form.register("wingArea")} errors={err("wingArea")} />
-              <TextField label="Aircraft CLmax" inputMode="decimal" {...form.register("clMax")} errors={err("clMax")} />
-              <TextField label="Negative CLmax" inputMode="decimal" {...form.register("clMaxNegative")} errors={err("clMaxNegative")} />
-            </div>
-            <TextField label={`Altitudes [${u("altitude")}]`} hint="Comma-separated, geopotential, standard atmosphere." {...form.register("altitudes")} errors={err("altitudes")} />
-          </Panel>
+        <fieldset disabled={!loaderData.canEdit} className="grid gap-5 xl:grid-cols-2">
+          <BasisRulesPanel {...fields} />
+          <BasisWeightsPanel {...fields} />
+          <BasisSpeedsPanel {...fields} />
+          <BasisWingPanel {...fields} />
         </fieldset>
-        {loaderData.derived ? (
-          <Panel title="What the rules give for the saved basis" className="mt-5">
-            <table className="w-full text-sm">
-              <tbody>
-                {loaderData.derived.map((r) => (
-                  <tr key={r.label} className="border-b border-line last:border-0">
-                    <th scope="row" className="py-1 pr-3 text-left font-normal text-ink-muted">{r.label}</th>
-                    <td className="py-1 pr-3 tabular">
-                      {r.ok === false ? <span className="font-semibold text-warn">⚠ {r.value}</span> : r.value}
-                    </td>
-                    <td className="py-1 text-xs text-ink-muted">{r.rule}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-            <p className="mt-2 text-xs text-ink-muted">A check of the typed values against the rules as coded here; the certification basis agreed with the authority governs.</p>
-          </Panel>
-        ) : null}
+        {loaderData.derived ? <BasisChecksPanel checks={loaderData.derived} /> : null}
         <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save basis" />
       </Form>
     </>

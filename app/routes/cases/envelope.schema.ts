@@ -1,6 +1,9 @@
 import { z } from "zod";
-import { numberInput } from "~/domain/form-values";
-import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/domain/step-data";
+import { numberInput, tidy } from "~/domain/form-values";
+import { COMPRESSIBILITY_RULES, SPANWISE_METHODS, type EnvelopeData } from "~/domain/step-data";
+import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+
+const G0 = 9.80665;
 
 const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
 const checkbox = z.preprocess((v) => v === true || v === "on" || v === "true", z.boolean());
@@ -36,3 +39,32 @@ export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
   // Generating replaces the generated rows, so the grid's rows posted with it are not read.
   z.strictObject({ intent: z.literal("generate"), ...method, cases: z.unknown().optional() }),
 ]);
+
+/** The method a new envelope starts with. */
+export const DEFAULT_METHOD = { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 } as const;
+
+/** The saved envelope as the form shows it: altitude and weight (mass, not force) in the display units. */
+export function envelopeFormValues(env: EnvelopeData | null, units: UnitSystem) {
+  const m = env ?? { ...DEFAULT_METHOD, cases: [] };
+  return {
+    compressibility: m.compressibility,
+    spanwise: m.spanwise,
+    stations: String(m.stations),
+    cases: m.cases.map((c) => ({
+      id: c.id,
+      kind: c.kind,
+      rule: c.rule,
+      mach: String(tidy(c.mach)),
+      altitude: String(tidy(fromSI(units, "altitude", c.altitude))),
+      alpha: c.alpha === undefined ? "" : String(c.alpha),
+      weight: c.weight === undefined ? "" : String(tidy(fromSI(units, "mass", c.weight / G0))),
+      nz: c.nz === undefined ? "" : String(tidy(c.nz)),
+      excluded: c.excluded,
+    })),
+  };
+}
+
+/** Typed load cases in SI (altitude in m, weight as a force in N), as the envelope step stores them. */
+export function casesToSI(cases: Extract<z.output<typeof EnvelopeFormSchema>, { intent: "save" }>["cases"], units: UnitSystem) {
+  return cases.map((k) => ({ ...k, altitude: toSI(units, "altitude", k.altitude), weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0 }));
+}

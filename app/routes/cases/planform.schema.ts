@@ -1,5 +1,7 @@
 import { z } from "zod";
-import { numberInput } from "~/domain/form-values";
+import { numberInput, tidy } from "~/domain/form-values";
+import type { PlanformData } from "~/domain/step-data";
+import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
 export const PlanformFormSchema = z.strictObject({
   revision: numberInput("Revision"),
@@ -9,3 +11,20 @@ export const PlanformFormSchema = z.strictObject({
   axisRoot: numberInput("Reference axis at the root"),
   axisTip: numberInput("Reference axis at the tip"),
 });
+
+/** The saved planform as the form shows it, lengths in the display units (a blank wing of two stations when none is saved). */
+export function planformFormValues(p: PlanformData | null, units: UnitSystem) {
+  if (!p) return { stations: [{ y: "0", xLe: "0", chord: "", twist: "0" }, { y: "", xLe: "", chord: "", twist: "0" }], axisRoot: "0.25", axisTip: "0.25" };
+  const L = (v: number) => String(tidy(fromSI(units, "length", v)));
+  return {
+    stations: p.stations.map((s) => ({ y: L(s.y), xLe: L(s.xLe), chord: L(s.chord), twist: String(s.twist) })),
+    axisRoot: String(p.axisRoot),
+    axisTip: String(p.axisTip),
+  };
+}
+
+/** The checked form in SI, as the planform step stores it (the step's own schema checks it next). */
+export function planformToSI(v: z.output<typeof PlanformFormSchema>, units: UnitSystem) {
+  const L = (x: number) => toSI(units, "length", x);
+  return { stations: v.stations.map((s) => ({ y: L(s.y), xLe: L(s.xLe), chord: L(s.chord), twist: s.twist })), axisRoot: v.axisRoot, axisTip: v.axisTip };
+}

@@ -1,0 +1,26 @@
+import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
+import { formatNumber } from "~/domain/units";
+import type { Section } from "./layout.server";
+
+/** The certification basis of the case and what the report covers and does not. */
+export function basisAndScope({ w, s, q, sym }: Section) {
+  const b = s.inputs.basis;
+  w.heading("Certification basis and scope", { newPage: true });
+  w.facts([
+    ["Category", CATEGORY_LABELS[b.category]],
+    ["Regulation references", b.regulations],
+    ["Units of this report", b.units === "SI" ? "SI (m, kg, N, m/s EAS); loads in kN and kN·m" : "US customary (ft, lb, lbf, kt EAS); loads in lbf and lbf·ft"],
+    ["Design weights", `MTOW ${q("mass", b.mtow)} ${sym("mass")} · MZFW ${q("mass", b.mzfw)} ${sym("mass")} · minimum ${q("mass", b.minWeight)} ${sym("mass")}`],
+    ["Design speeds (EAS)", `VS1 ${q("speed", b.vs1)} · VA ${q("speed", b.va)} · VC ${q("speed", b.vc)} · VD ${q("speed", b.vd)} ${sym("speed")}`],
+    ["Altitudes", `${b.altitudes.map((a) => q("altitude", a, 5)).join(", ")} ${sym("altitude")} (ISA)`],
+    ["Wing reference area", `${q("area", b.wingArea)} ${sym("area")}`],
+    ["Aircraft CLmax", `${formatNumber(b.clMax)} positive, ${formatNumber(b.clMaxNegative)} negative (flaps up)`],
+    ["Method choice", `${RULE_LABELS[s.inputs.envelope.compressibility]}; ${SPANWISE_LABELS[s.inputs.envelope.spanwise]}, ${s.inputs.envelope.stations} output stations per semispan`],
+    ["Semispan structural mass", `${q("mass", s.inputs.loads.semispanMass)} ${sym("mass")} (inertia relief)`],
+  ]);
+  w.subheading("Scope");
+  w.para(
+    `This report covers the wing loads of case ${s.case.reference}: the spanwise lift and pitching-moment distributions, corrected for compressibility, and the shear force, bending moment and torsion about the wing reference axis along the semispan for every load case of the manoeuvre and gust envelope listed in section 3, with their envelope. Loads are limit loads (no factor of safety applied) for the symmetric, flaps-up, clean-wing conditions given.`,
+  );
+  w.para("It does not cover: the fuselage, tail or control surfaces; asymmetric, rolling, yawing or ground conditions; high-lift devices; engine, fuel and landing-gear point loads other than the distributed structural mass; aeroelastic effects, dynamic gust response, flutter, fatigue or damage tolerance; stress analysis or the strength of the structure; transonic or supercritical flow.");
+}

@@ -1,0 +1,31 @@
+import type { Section } from "./layout.server";
+
+/** Flagged cases with the engineer's disposition of each, then the assumptions and cautions of the results. */
+export function flagsAndCautions({ w, s }: Section) {
+  w.heading("Flagged cases and their dispositions");
+  if (s.flags.length === 0) {
+    w.para("No case was flagged: every analysed case is below its critical Mach number and no station exceeds its section clmax.");
+  } else {
+    w.para(`${s.flags.length} case${s.flags.length > 1 ? "s were" : " was"} flagged in the distribution step. Each carries the engineer's disposition: excluded from the loads, or kept with a written justification.`, { size: 8.4 });
+    w.table(
+      [
+        { header: "Case", width: 60 },
+        { header: "Why it was flagged", width: 210 },
+        { header: "Disposition", width: 60 },
+        { header: "Comment", width: 0 },
+      ],
+      s.flags.map((f) => [f.id, f.reasons.join("; "), f.action === "exclude" ? "excluded" : f.action === "justify" ? "kept, justified" : f.action, f.comment || "—"]),
+      { size: 7.2 },
+    );
+  }
+  w.heading("Assumptions and cautions");
+  w.bullets([
+    "These results support, and never replace, what the certifying authority accepts. The applicable regulations and licensed engineering practice govern; the engineer who signs remains responsible for the results and their use.",
+    "The compressibility rules are subsonic rules: they are valid only below the critical Mach number. Cases at or above it are computed for completeness, marked supercritical and flagged; their loads are not a basis for substantiation without other evidence.",
+    "Linear aerodynamics: lift is linear in angle of attack up to the section clmax; stations above clmax are flagged, and no stall redistribution is modelled.",
+    "Loads are limit loads about a straight reference axis, for a rigid wing, symmetric flight, flaps up. Inertia relief comes only from the semispan structural mass spread in proportion to chord; engines, fuel and other point masses are not included unless they were folded into that mass.",
+    "Gust loads come from the Pratt formula with the wing's lift slope (the tail's contribution is left to the engineer). For transport aeroplanes these are a preliminary estimate: 14 CFR 25.341(a) asks for a dynamic discrete-gust analysis.",
+    "Section data are two-dimensional and incompressible as entered; their source and the planform are the engineer's responsibility and are recorded by revision and hash in this report.",
+    "The input hash on every page identifies the exact exchange document the results were computed from; recomputing it with the same engine version reproduces these numbers.",
+  ]);
+}

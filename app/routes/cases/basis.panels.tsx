@@ -1,0 +1,121 @@
+import type { z } from "zod";
+import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
+import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
+import { Panel } from "~/components/ui/page-header";
+import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS } from "~/domain/step-data";
+import { unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
+import type { BasisFormSchema } from "./basis.schema";
+import type { FieldErrors } from "~/utils/form-data";
+
+/** The panels of the basis step's form; each takes the form, the server's messages and the units shown. */
+interface FieldsProps {
+  form: ZodForm<typeof BasisFormSchema>;
+  server: FieldErrors | undefined;
+  units: UnitSystem;
+}
+
+const fieldErrors = ({ form, server }: FieldsProps) => (name: keyof z.input<typeof BasisFormSchema>) => errorsFor(form, server, name);
+const symbols = (units: UnitSystem) => (q: Quantity) => unitSymbol(units, q);
+
+/** Category (which sets the regulation references it starts from), the references, the units shown. */
+export function BasisRulesPanel(props: FieldsProps) {
+  const { form } = props;
+  const err = fieldErrors(props);
+  return (
+    <Panel title="Rules">
+      <SelectField
+        label="Category"
+        {...form.register("category", { onChange: (e) => form.setValue("regulations", DEFAULT_REGULATIONS[e.target.value as keyof typeof DEFAULT_REGULATIONS], { shouldDirty: true }) })}
+        errors={err("category")}
+      >
+        {CATEGORIES.map((k) => (
+          <option key={k} value={k}>
+            {CATEGORY_LABELS[k]}
+          </option>
+        ))}
+      </SelectField>
+      <TextAreaField label="Applicable regulation references" hint="Edit to the agreed certification basis (amendment levels, special conditions)." {...form.register("regulations")} errors={err("regulations")} />
+      <SelectField label="Units shown" hint="Stored in SI whatever you choose." {...form.register("units")} errors={err("units")}>
+        <option value="SI">SI (m, kg, m/s)</option>
+        <option value="US">US customary (ft, lb, kt)</option>
+      </SelectField>
+    </Panel>
+  );
+}
+
+export function BasisWeightsPanel(props: FieldsProps) {
+  const { form } = props;
+  const err = fieldErrors(props);
+  const u = symbols(props.units);
+  return (
+    <Panel title="Weights">
+      <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
+        <TextField label={`Max take-off [${u("mass")}]`} inputMode="decimal" {...form.register("mtow")} errors={err("mtow")} />
+        <TextField label={`Max zero-fuel [${u("mass")}]`} inputMode="decimal" {...form.register("mzfw")} errors={err("mzfw")} />
+        <TextField label={`Minimum design [${u("mass")}]`} inputMode="decimal" {...form.register("minWeight")} errors={err("minWeight")} />
+      </div>
+    </Panel>
+  );
+}
+
+export function BasisSpeedsPanel(props: FieldsProps) {
+  const { form } = props;
+  const err = fieldErrors(props);
+  const u = symbols(props.units);
+  return (
+    <Panel title="Design speeds (EAS)">
+      <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-4">
+        <TextField label={`VS1 [${u("speed")}]`} inputMode="decimal" {...form.register("vs1")} errors={err("vs1")} />
+        <TextField label={`VA [${u("speed")}]`} inputMode="decimal" {...form.register("va")} errors={err("va")} />
+        <TextField label={`VC [${u("speed")}]`} inputMode="decimal" {...form.register("vc")} errors={err("vc")} />
+        <TextField label={`VD [${u("speed")}]`} inputMode="decimal" {...form.register("vd")} errors={err("vd")} />
+      </div>
+    </Panel>
+  );
+}
+
+export function BasisWingPanel(props: FieldsProps) {
+  const { form } = props;
+  const err = fieldErrors(props);
+  const u = symbols(props.units);
+  return (
+    <Panel title="Wing and altitudes">
+      <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
+        <TextField label={`Wing reference area [${u("area")}]`} inputMode="decimal" {...form.register("wingArea")} errors={err("wingArea")} />
+        <TextField label="Aircraft CLmax" inputMode="decimal" {...form.register("clMax")} errors={err("clMax")} />
+        <TextField label="Negative CLmax" inputMode="decimal" {...form.register("clMaxNegative")} errors={err("clMaxNegative")} />
+      </div>
+      <TextField label={`Altitudes [${u("altitude")}]`} hint="Comma-separated, geopotential, standard atmosphere." {...form.register("altitudes")} errors={err("altitudes")} />
+    </Panel>
+  );
+}
+
+/** One line of the check of a saved basis against the rules: what the rule gives, and whether the typed value meets it. */
+export interface BasisCheck {
+  label: string;
+  value: string;
+  rule: string;
+  ok?: boolean;
+}
+
+/** What the rules give for the saved basis, beside what was typed: a check, not a substitute. */
+export function BasisChecksPanel({ checks }: { checks: readonly BasisCheck[] }) {
+  return (
+    <Panel title="What the rules give for the saved basis" className="mt-5">
+      <table className="w-full text-sm">
+        <tbody>
+          {checks.map((r) => (
+            <tr key={r.label} className="border-b border-line last:border-0">
+              <th scope="row" className="py-1 pr-3 text-left font-normal text-ink-muted">
+                {r.label}
+              </th>
+              <td className="py-1 pr-3 tabular">{r.ok === false ? <span className="font-semibold text-warn">⚠ {r.value}</span> : r.value}</td>
+              <td className="py-1 text-xs text-ink-muted">{r.rule}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="mt-2 text-xs text-ink-muted">A check of the typed values against the rules as coded here; the certification basis agreed with the authority governs.</p>
+    </Panel>
+  );
+}

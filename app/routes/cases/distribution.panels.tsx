@@ -1,0 +1,147 @@
+import { Form, Link } from "react-router";
+import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
+import { Chart } from "~/components/charts/chart";
+import { Button } from "~/components/ui/button";
+import { Panel } from "~/components/ui/page-header";
+import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
+import { formatNumber } from "~/domain/units";
+import type { CaseFlag, DistributionView } from "~/services/distribution.server";
+
+type View = Omit<DistributionView, "cases"> & { cases: string[] };
+
+/** The case shown, chosen from every case of the envelope (flagged ones marked), and its condition. */
+export function CasePicker({ view, flags, computing, show }: { view: View; flags: CaseFlag[]; computing: boolean; show: (id: string) => void }) {
+  return (
+    <>
+      <div className="mb-4 flex flex-wrap items-center gap-3 text-sm">
+        <label>
+          <span className="mr-2 font-semibold">Case</span>
+          <select value={view.caseId} onChange={(e) => show(e.target.value)} className="rounded border border-line-strong px-2 py-1" aria-label="Case shown">
+            {view.cases.map((id) => (
+              <option key={id} value={id}>
+                {id}
+                {flags.some((f) => f.id === id) ? " ⚠" : ""}
+              </option>
+            ))}
+          </select>
+        </label>
+        <span className="tabular text-ink-muted">
+          Mach {formatNumber(view.mach)} · {formatNumber(view.altitude)} m · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
+          {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
+        </span>
+        {computing ? <span className="text-xs text-ink-muted" role="status">Computing…</span> : null}
+      </div>
+      {view.warnings.length ? (
+        <ul className="mb-4 list-disc pl-5 text-sm text-warn">
+          {view.warnings.map((w) => (
+            <li key={w}>{w}</li>
+          ))}
+        </ul>
+      ) : null}
+    </>
+  );
+}
+
+/** The solver's loading beside Schrenk's, cl, cl and cm under each rule, critical Mach by station. */
+export function DistributionCharts({ view }: { view: View }) {
+  return (
+    <div className="grid gap-4 xl:grid-cols-2">
+      <Chart option={loadingOption(view) as never} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
+      <Chart option={clOption(view) as never} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cl") as never} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cm") as never} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
+      <Chart option={machCriticalOption(view) as never} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
+      <Panel title="The three rules for this case">
+        <table className="w-full text-sm tabular">
+          <thead className="text-xs text-ink-muted">
+            <tr>
+              <th className="py-1 text-left">Rule</th>
+              <th className="py-1 pl-3 text-right">CLα [/rad]</th>
+              <th className="py-1 pl-3 text-right">CL</th>
+              <th className="py-1 pl-3 text-right">Lowest critical Mach</th>
+            </tr>
+          </thead>
+          <tbody>
+            {view.rules.map((r) => (
+              <tr key={r.rule} className="border-t border-line">
+                <td className="py-1">{RULE_LABELS[r.rule]}</td>
+                <td className="py-1 pl-3 text-right">{formatNumber(r.clAlpha)}</td>
+                <td className="py-1 pl-3 text-right">{formatNumber(r.CL)}</td>
+                <td className="py-1 pl-3 text-right">{formatNumber(r.machCritical)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </Panel>
+    </div>
+  );
+}
+
+/** Each flagged case with why, and the engineer's disposition: exclude it, or keep it with a justification. */
+export function DispositionsPanel({ flags, dispositions, revision, canEdit, busy, show }: { flags: CaseFlag[]; dispositions: DistributionData["dispositions"]; revision: number; canEdit: boolean; busy: boolean; show: (id: string) => void }) {
+  return (
+    <Panel title={`Flagged cases (${flags.length})`} className="mt-5">
+      {flags.length === 0 ? (
+        <p className="text-sm text-ink-muted">No case is above its critical Mach number or over a section clmax.</p>
+      ) : (
+        <Form method="post">
+          <input type="hidden" name="revision" value={revision} />
+          <table className="w-full text-left text-sm">
+            <thead className="text-xs uppercase tracking-wide text-ink-muted">
+              <tr>
+                <th className="py-1.5 pr-3">Case</th>
+                <th className="py-1.5 pr-3">Why it is flagged</th>
+                <th className="py-1.5 pr-3">Disposition</th>
+                <th className="py-1.5">Justification</th>
+              </tr>
+            </thead>
+            <tbody>
+              {flags.map((f, i) => {
+                const d = dispositions[f.id];
+                return (
+                  <tr key={f.id} className="border-t border-line align-top">
+                    <td className="py-2 pr-3 font-semibold">
+                      <input type="hidden" name={`dispositions.${i}.id`} value={f.id} />
+                      <Link
+                        to={`?case=${encodeURIComponent(f.id)}`}
+                        preventScrollReset
+                        onClick={(e) => {
+                          e.preventDefault();
+                          show(f.id);
+                        }}
+                      >
+                        {f.id}
+                      </Link>
+                    </td>
+                    <td className="py-2 pr-3 text-danger">
+                      {f.reasons.map((r) => (
+                        <span key={r} className="block">
+                          ⚠ {r}
+                        </span>
+                      ))}
+                    </td>
+                    <td className="py-2 pr-3">
+                      <select name={`dispositions.${i}.action`} defaultValue={d?.action ?? "none"} disabled={!canEdit} aria-label={`Disposition of ${f.id}`} className="rounded border border-line-strong px-2 py-1">
+                        <option value="none">— not yet —</option>
+                        <option value="exclude">Exclude from the loads</option>
+                        <option value="justify">Keep, justified</option>
+                      </select>
+                    </td>
+                    <td className="py-2">
+                      <textarea name={`dispositions.${i}.comment`} defaultValue={d?.comment ?? ""} disabled={!canEdit} rows={2} aria-label={`Justification for ${f.id}`} className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
+                    </td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+          {canEdit ? (
+            <Button type="submit" className="mt-3" disabled={busy}>
+              Save dispositions
+            </Button>
+          ) : null}
+        </Form>
+      )}
+    </Panel>
+  );
+}

@@ -1,0 +1,182 @@
+import { useEffect, useState } from "react";
+import { Form, href, useFetcher } from "react-router";
+import { loadsOption, type LoadQuantity } from "~/charts/loads";
+import { StepSaveBar } from "~/components/case/step-save-bar";
+import { Chart } from "~/components/charts/chart";
+import { TextField } from "~/components/forms/field";
+import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
+import { DataTable } from "~/components/tables/data-table";
+import { Alert, Panel } from "~/components/ui/page-header";
+import type { StepStatus } from "~/domain/vocabulary";
+import { formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import type { CaseResult, ResultCase } from "~/exchange";
+import type { FieldErrors } from "~/utils/form-data";
+import type { LoadsFormSchema } from "./loads.schema";
+
+type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string };
+
+/**
+ * The case's results from the API, loaded again whenever the loads step gets a new revision, so a
+ * change of inputs re-computes without a full navigation. A large sweep is solved by a worker: the
+ * route answers "computing" and is asked again each second until the result is stored.
+ */
+export function useCaseResults(caseId: string, ready: boolean, revision: number) {
+  const results = useFetcher<ResultsResponse>();
+  const url = href("/api/v1/cases/:caseId/results", { caseId });
+  const [loadedFor, setLoadedFor] = useState<number | null>(null);
+  useEffect(() => {
+    if (!ready) return;
+    results.load(url);
+    setLoadedFor(revision);
+  }, [url, ready, revision]);
+  const data = results.data;
+  const computing = data && "status" in data ? data.message : null;
+  useEffect(() => {
+    if (!computing) return;
+    const t = setTimeout(() => results.load(url), 1000);
+    return () => clearTimeout(t);
+  }, [computing, data]);
+  return {
+    result: data && "schema" in data ? data : null,
+    failure: data && "error" in data ? data.message : null,
+    computing,
+    loading: results.state !== "idle",
+    loadedFor,
+  };
+}
+
+/** The semispan structural mass whose inertia relieves the air loads. */
+export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, revision, busy }: { form: ZodForm<typeof LoadsFormSchema>; onSubmit: React.FormEventHandler<HTMLFormElement>; server: FieldErrors | undefined; units: UnitSystem; canEdit: boolean; status: StepStatus; revision: number; busy: boolean }) {
+  return (
+    <Panel title="Inertia relief">
+      <Form method="post" onSubmit={onSubmit} noValidate>
+        <input type="hidden" {...form.register("revision")} />
+        <fieldset disabled={!canEdit}>
+          <TextField
+            label={`Semispan structural mass [${unitSymbol(units, "mass")}]`}
+            hint="Spread in proportion to chord on the reference axis and multiplied by nz·g. 0 for aerodynamic loads only."
+            inputMode="decimal"
+            {...form.register("semispanMass")}
+            errors={errorsFor(form, server, "semispanMass")}
+          />
+        </fieldset>
+        <StepSaveBar canEdit={canEdit} status={status} revision={revision} busy={busy} label="Save" />
+      </Form>
+    </Panel>
+  );
+}
+
+/** Where the results stand: not ready, computing, refused, or how many cases with the root bending envelope. */
+export function ResultsStatus({ ready, caseCount, results, current, onSelect, units }: { ready: boolean; caseCount: number; results: ReturnType<typeof useCaseResults>; current: ResultCase | null; onSelect: (id: string) => void; units: UnitSystem }) {
+  const { result, failure, computing, loadedFor } = results;
+  const env = result?.envelope ?? [];
+  return (
+    <div role="status" aria-live="polite">
+      {!ready ? (
+        <p className="text-sm text-ink-muted">Save the planform, sections and envelope first.</p>
+      ) : results.loading || computing ? (
+        <div className="rounded border border-line bg-surface p-4 text-sm">
+          <p className="font-semibold">Computing {caseCount} load case{caseCount === 1 ? "" : "s"}…</p>
+          {computing ? <p className="text-xs text-ink-muted">{computing}</p> : null}
+          <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas">
+            <div className="h-full w-1/3 animate-pulse rounded bg-accent" />
+          </div>
+        </div>
+      ) : failure ? (
+        <Alert>{failure}</Alert>
+      ) : result && current ? (
+        <div className="rounded border border-line bg-surface p-4 text-sm">
+          <p>
+            <strong>{result.cases.length}</strong> cases analysed (engine {result.engine}) from the inputs at loads revision {loadedFor}. Root bending envelope:{" "}
+            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMax)}</strong> ({env[0]?.bendingMaxCase}) /{" "}
+            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMin)}</strong> ({env[0]?.bendingMinCase}).
+          </p>
+          <label className="mt-2 block">
+            <span className="mr-2 font-semibold">Case shown on the plots</span>
+            <select value={current.id} onChange={(e) => onSelect(e.target.value)} className="rounded border border-line-strong px-2 py-1">
+              {result.cases.map((c) => (
+                <option key={c.id} value={c.id}>
+                  {c.id}
+                </option>
+              ))}
+            </select>
+          </label>
+        </div>
+      ) : null}
+    </div>
+  );
+}
+
+/** Shear, bending and torsion along the span: the envelope with the case shown. */
+export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult["envelope"]; current: ResultCase; units: UnitSystem }) {
+  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
+  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
+  const series = (q: LoadQuantity) => ({
+    y: envelope.map((e) => e.y),
+    max: envelope.map((e) => e[`${q}Max`]),
+    min: envelope.map((e) => e[`${q}Min`]),
+    caseId: current.id,
+    caseValues: current.stations?.map((s) => s[q]),
+  });
+  return (
+    <div className="grid gap-4 xl:grid-cols-3">
+      <Chart option={loadsOption("shear", series("shear"), force) as never} label="Shear force along the span" fileName="shear" />
+      <Chart option={loadsOption("bending", series("bending"), moment) as never} label="Bending moment along the span" fileName="bending" />
+      <Chart option={loadsOption("torsion", series("torsion"), moment) as never} label="Torsion along the span" fileName="torsion" />
+    </div>
+  );
+}
+
+/** The envelope by station with the case that gives each extreme. */
+export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envelope"]; units: UnitSystem }) {
+  const env = envelope;
+  return (
+    <Panel title="Envelope and critical case at each station" className="mt-5">
+      <DataTable
+        rows={env}
+        caption="Envelope by station"
+        csvName="envelope.csv"
+        columns={[
+          { id: "y", header: "y [m]", value: (e) => e.y, numeric: true, format: (e) => e.y.toFixed(3) },
+          ...(["shear", "bending", "torsion"] as const).flatMap((q) => {
+            const quantity = q === "shear" ? "force" : "moment";
+            const sym = unitSymbol(units, quantity);
+            return [
+              { id: `${q}Max`, header: `${q} max [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Max`])), numeric: true },
+              { id: `${q}MaxCase`, header: `${q} max case`, value: (e: (typeof env)[number]) => e[`${q}MaxCase`] },
+              { id: `${q}Min`, header: `${q} min [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Min`])), numeric: true },
+              { id: `${q}MinCase`, header: `${q} min case`, value: (e: (typeof env)[number]) => e[`${q}MinCase`] },
+            ];
+          }),
+        ]}
+      />
+    </Panel>
+  );
+}
+
+const round = (v: number) => Number(v.toPrecision(5));
+
+export function RootLoadsTable({ cases, units }: { cases: ResultCase[]; units: UnitSystem }) {
+  const F = unitSymbol(units, "force");
+  const M = unitSymbol(units, "moment");
+  return (
+    <DataTable
+      rows={cases}
+      caption="Root loads of every case"
+      csvName="root-loads.csv"
+      initialSort={[{ id: "bending", desc: true }]}
+      columns={[
+        { id: "id", header: "Case", value: (c) => c.id },
+        { id: "mach", header: "Mach", value: (c) => round(c.mach), numeric: true },
+        { id: "altitude", header: "Altitude [m]", value: (c) => round(c.altitude), numeric: true },
+        { id: "cl", header: "CL", value: (c) => round(c.cl), numeric: true },
+        { id: "alpha", header: "α [°]", value: (c) => round(c.alpha), numeric: true },
+        { id: "regime", header: "Regime", value: (c) => c.regime, format: (c) => (c.regime === "supercritical" ? <span className="font-semibold text-danger">⚠ supercritical</span> : c.regime) },
+        { id: "shear", header: `Root shear [${F}]`, value: (c) => round(fromSI(units, "force", c.root.shear)), numeric: true },
+        { id: "bending", header: `Root bending [${M}]`, value: (c) => round(fromSI(units, "moment", c.root.bending)), numeric: true },
+        { id: "torsion", header: `Root torsion [${M}]`, value: (c) => round(fromSI(units, "moment", c.root.torsion)), numeric: true },
+      ]}
+    />
+  );
+}
+

@@ -1,0 +1,134 @@
+import { useEffect } from "react";
+import { Form, href, useFetcher, useRevalidator } from "react-router";
+import { Button } from "~/components/ui/button";
+import { Alert, Panel } from "~/components/ui/page-header";
+import { PENDING_REPORT_STATUSES, type ReportStatus } from "~/domain/vocabulary";
+import type { latestVersionChanges, ReportListItem } from "~/services/reports.server";
+import { formatUtc } from "~/utils/format";
+
+/** A report still being made: queued for a worker or being generated. */
+export const isPending = (status: string) => (PENDING_REPORT_STATUSES as readonly string[]).includes(status);
+
+/**
+ * While a report is generated, its progress from the API each 1.5 s; the page is loaded again when
+ * it is done, so the issued report appears with its hash and download.
+ */
+export function useReportProgress(caseId: string, pending: boolean) {
+  const revalidator = useRevalidator();
+  const status = useFetcher<{ reports: { id: string; status: ReportStatus; progress: number }[] }>();
+  const url = href("/api/v1/cases/:caseId/reports", { caseId });
+  useEffect(() => {
+    if (!pending) return;
+    const t = setInterval(() => status.load(url), 1500);
+    return () => clearInterval(t);
+  }, [pending, url]);
+  const live = status.data?.reports;
+  useEffect(() => {
+    if (pending && live && !live.some((r) => isPending(r.status))) void revalidator.revalidate();
+  }, [live, pending]);
+  return live;
+}
+
+/** The engineer's request for the next version, once the case is approved for issue. */
+export function RequestReportForm({ first, busy, pending }: { first: boolean; busy: boolean; pending: boolean }) {
+  return (
+    <Form method="post" className="mb-5">
+      <input type="hidden" name="intent" value="request" />
+      <Button type="submit" disabled={busy || pending}>
+        {first ? "Request the report" : "Issue the next version"}
+      </Button>
+      <span className="ml-3 text-xs text-ink-muted">Needs every step approved and the case approved for issue by a checker.</span>
+    </Form>
+  );
+}
+
+/** One version of the report: state, hashes, download, the signatures behind it, and quality's release. */
+export function ReportPanel({ report: r, progress, canRelease, busy }: { report: ReportListItem; progress: number; canRelease: boolean; busy: boolean }) {
+  return (
+    <Panel title={`${r.reportNumber} · version ${r.version}`}>
+      <div className="flex flex-wrap items-start gap-6 text-sm">
+        <dl className="grid grid-cols-[8rem_1fr] gap-y-1">
+          <dt className="text-ink-muted">Status</dt>
+          <dd className="font-semibold">{r.status}</dd>
+          <dt className="text-ink-muted">Requested</dt>
+          <dd>{formatUtc(r.createdAt)}</dd>
+          <dt className="text-ink-muted">Issued</dt>
+          <dd>{formatUtc(r.issuedAt)}</dd>
+          <dt className="text-ink-muted">Released</dt>
+          <dd>{formatUtc(r.releasedAt)}</dd>
+          <dt className="text-ink-muted">SHA-256</dt>
+          <dd>
+            <code className="break-all text-xs">{r.sha256 ?? "—"}</code>
+          </dd>
+        </dl>
+        <div className="min-w-64 flex-1">
+          {isPending(r.status) ? (
+            <div role="status" aria-live="polite">
+              <p>Generating… {progress}% — {r.progressNote}</p>
+              <div className="mt-1 h-2 rounded bg-canvas">
+                <div className="h-2 rounded bg-accent" style={{ width: `${Math.max(5, progress)}%` }} />
+              </div>
+            </div>
+          ) : null}
+          {r.status === "failed" ? <Alert>Generation failed after its retries: {r.failure}. Request the report again when the cause is fixed.</Alert> : null}
+          {r.sha256 ? (
+            <p className="mb-2">
+              <a href={href("/api/v1/reports/:reportId/pdf", { reportId: r.id })} className="font-semibold">
+                Download PDF
+              </a>{" "}
+              <span className="text-xs text-ink-muted">({((r.size ?? 0) / 1024).toFixed(0)} KiB)</span>
+            </p>
+          ) : null}
+          {r.signatures.length ? (
+            <ul className="space-y-0.5 text-xs">
+              {r.signatures.map((g, i) => (
+                <li key={i}>
+                  ✓ {g.meaning} — {g.name} ({g.role}), {formatUtc(g.signedAt)}, <code>{g.revisionHash.slice(0, 12)}…</code>
+                </li>
+              ))}
+            </ul>
+          ) : null}
+          {canRelease && r.status === "issued" ? (
+            <Form method="post" className="mt-3 flex flex-wrap items-end gap-2">
+              <input type="hidden" name="intent" value="release" />
+              <input type="hidden" name="reportId" value={r.id} />
+              <label>
+                <span className="block font-semibold">Your password, to sign</span>
+                <input name="password" type="password" autoComplete="current-password" className="rounded border border-line-strong px-2 py-1" />
+              </label>
+              <Button type="submit" disabled={busy}>
+                Release (sign: released)
+              </Button>
+            </Form>
+          ) : null}
+        </div>
+      </div>
+    </Panel>
+  );
+}
+
+/** Inputs and root loads of the two newest versions side by side. */
+export function VersionChangesPanel({ diff }: { diff: NonNullable<Awaited<ReturnType<typeof latestVersionChanges>>> }) {
+  return (
+    <Panel title={`What changed from version ${diff.from} to ${diff.to}`} className="mt-5">
+      <table className="w-full text-sm tabular">
+        <thead className="text-xs text-ink-muted">
+          <tr>
+            <th className="py-1 text-left">Item</th>
+            <th className="py-1 text-right">Version {diff.from}</th>
+            <th className="py-1 text-right">Version {diff.to}</th>
+          </tr>
+        </thead>
+        <tbody>
+          {diff.rows.map((row) => (
+            <tr key={row.item} className={`border-t border-line ${row.before !== row.after ? "font-semibold" : ""}`}>
+              <td className="py-1">{row.item}</td>
+              <td className="py-1 text-right">{row.before}</td>
+              <td className="py-1 text-right">{row.after}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </Panel>
+  );
+}

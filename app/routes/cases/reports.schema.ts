@@ -1,0 +1,7 @@
+import { z } from "zod";
+
+/** The reports page's forms: request the next version, or release an issued one with a signature. */
+export const ReportsActionSchema = z.discriminatedUnion("intent", [
+  z.strictObject({ intent: z.literal("request") }),
+  z.strictObject({ intent: z.literal("release"), reportId: z.uuid("Unknown report"), password: z.string().max(256).default("") }),
+]);

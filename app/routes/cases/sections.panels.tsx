@@ -1,0 +1,132 @@
+import { Form, useFetcher, useNavigation } from "react-router";
+import { sectionFitOption } from "~/charts/section-fit";
+import { Chart } from "~/components/charts/chart";
+import { type ZodForm } from "~/components/forms/use-zod-form";
+import { EditableGrid } from "~/components/tables/editable-grid";
+import { Button } from "~/components/ui/button";
+import { Panel } from "~/components/ui/page-header";
+import { COEFFICIENT_COLUMNS, describeProblem, POLAR_COLUMNS, type CsvProblem } from "~/domain/section-csv";
+import type { SectionsData } from "~/domain/step-data";
+import { formatNumber, unitSymbol, type UnitSystem } from "~/domain/units";
+import type { ActionAnswer, ActionRefusal, FieldErrors } from "~/utils/form-data";
+import type { SectionsFormSchema } from "./sections.schema";
+
+/** A checked upload: the file's data, shown for the engineer to confirm before they are saved. */
+export type Preview = { uploadId: string; filename: string; sha256: string; kind: string; lines: number; rows: SectionsData["rows"]; tables: SectionsData["tables"] };
+/** The upload fetcher's answer: the refusal with every problem of the file, or the file's data to confirm. */
+export type UploadAnswer = (ActionRefusal & { problems?: CsvProblem[] }) | (ActionAnswer & { ok: true; preview?: Preview });
+
+/** Section data typed or pasted into the grid, one row per station. */
+export function SectionGridPanel({ form, server, units, disabled }: { form: ZodForm<typeof SectionsFormSchema>; server: FieldErrors | undefined; units: UnitSystem; disabled: boolean }) {
+  return (
+    <Panel title="Section data by station">
+      <EditableGrid
+        form={form}
+        name="rows"
+        caption="Section data by station"
+        columns={[
+          { key: "y", label: `y [${unitSymbol(units, "length")}]` },
+          { key: "a0", label: "a0 [/rad]" },
+          { key: "alphaL0", label: "αL0 [°]" },
+          { key: "cmAc", label: "cm,ac [–]" },
+          { key: "clMax", label: "clmax [–]" },
+          { key: "cpMin", label: "Cp,min [–]" },
+        ]}
+        serverErrors={server}
+        emptyRow={{ y: "", a0: "", alphaL0: "", cmAc: "", clMax: "", cpMin: "" }}
+        disabled={disabled}
+        csvName="section-data.csv"
+      />
+      <p className="mt-2 text-xs text-ink-muted">clmax and Cp,min may be left empty: the stall and critical-Mach checks then skip that station.</p>
+    </Panel>
+  );
+}
+
+/** A CSV file checked on the server (every bad row named), then previewed for the engineer to accept. */
+export function UploadPanel({ revision, maxKiB }: { revision: number; maxKiB: number }) {
+  const upload = useFetcher<UploadAnswer>();
+  const result = upload.data ?? null;
+  return (
+    <Panel title="Upload a CSV file">
+      <upload.Form method="post" encType="multipart/form-data">
+        <p className="mb-2 text-xs text-ink-muted">
+          y in metres. Header line, then one row per station: <code>{COEFFICIENT_COLUMNS.join(", ")}</code> (clMax, cpMin optional) — or polar tables with several rows per station: <code>{POLAR_COLUMNS.join(", ")}</code>, fitted over their linear
+          range. Comma, semicolon or tab separated; at most {maxKiB} KiB.
+        </p>
+        <label className="block text-sm font-semibold" htmlFor="section-file">
+          CSV file
+        </label>
+        <input id="section-file" name="file" type="file" accept=".csv,text/csv" className="mt-1 block text-sm" />
+        <Button type="submit" variant="secondary" className="mt-2" disabled={upload.state !== "idle"}>
+          {upload.state !== "idle" ? "Checking…" : "Check file"}
+        </Button>
+      </upload.Form>
+      {result && !result.ok ? (
+        <div className="mt-3" role="alert">
+          <p className="text-sm font-semibold text-danger">{result.fieldErrors.file?.join(" ")}</p>
+          <ul className="mt-1 max-h-48 list-disc overflow-auto pl-5 text-xs text-danger">
+            {(result.problems ?? []).slice(0, 200).map((p, i) => (
+              <li key={i}>{describeProblem(p)}</li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+      {result?.ok && result.preview ? <UploadPreview preview={result.preview} revision={revision} /> : null}
+    </Panel>
+  );
+}
+
+/** The fitted lift and moment curves of each polar table the saved data came from. */
+export function SectionFitCharts({ saved }: { saved: SectionsData | null }) {
+  return (saved?.tables ?? []).map((t) => {
+    const row = saved!.rows.find((r) => r.y === t.y);
+    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 }) as never} label={`Section fit at y = ${t.y} m`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
+  });
+}
+
+function UploadPreview({ preview, revision }: { preview: Preview; revision: number }) {
+  const busy = useNavigation().state === "submitting";
+  return (
+    <div className="mt-4 border-t border-line pt-3">
+      <p className="text-sm">
+        <strong>{preview.filename}</strong>: {preview.lines} data lines, {preview.kind === "polars" ? `polar tables fitted at ${preview.rows.length} stations` : `${preview.rows.length} stations`}. SHA-256{" "}
+        <code className="text-xs">{preview.sha256.slice(0, 16)}…</code>
+      </p>
+      <table className="mt-2 w-full text-xs tabular">
+        <thead className="text-ink-muted">
+          <tr>
+            {["y [m]", "a0 [/rad]", "αL0 [°]", "cm,ac", "clmax", "Cp,min"].map((h) => (
+              <th key={h} className="py-1 text-right">
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {preview.rows.map((r) => (
+            <tr key={r.y} className="border-t border-line">
+              {[r.y, r.a0, r.alphaL0, r.cmAc, r.clMax, r.cpMin].map((v, i) => (
+                <td key={i} className="py-1 text-right">
+                  {formatNumber(v ?? null)}
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {preview.tables.map((t) => (
+        <p key={t.y} className="mt-1 text-xs text-ink-muted">
+          y = {t.y}: linear range α = {t.linearFrom}° … {t.linearTo}°
+        </p>
+      ))}
+      <Form method="post" className="mt-3">
+        <input type="hidden" name="intent" value="accept-upload" />
+        <input type="hidden" name="revision" value={revision} />
+        <input type="hidden" name="uploadId" value={preview.uploadId} />
+        <Button type="submit" disabled={busy}>
+          Use this file's data
+        </Button>
+      </Form>
+    </div>
+  );
+}

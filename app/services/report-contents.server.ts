@@ -1,0 +1,118 @@
+import { STEPS } from "~/domain/steps";
+import { formatNumber } from "~/domain/units";
+import { criticalCase } from "~/domain/results";
+import { db } from "~/db/client.server";
+import { cases, organisations, programmes, type Report } from "~/db/schema";
+import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
+import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
+import { eq } from "drizzle-orm";
+import { buildCaseFile, caseInputs, resultsFor } from "./analysis.server";
+import { getCaseSteps } from "./case-steps.server";
+import { distributionView, flaggedCases } from "./distribution.server";
+import { vnSets } from "./envelope.server";
+import { liveSignatures } from "./review.server";
+
+/*
+ * What a report is made of: the snapshot frozen when it is issued, the figures drawn from it, the
+ * PDF rendered from both, and what changed between two versions.
+ */
+
+/** Signature lines of a case (live ones) for the report's signature page. */
+async function signatureLines(caseId: string): Promise<SignatureLine[]> {
+  const live = await liveSignatures(caseId);
+  return live
+    .filter((s) => s.reportId === null)
+    .sort((a, b) => a.signedAt.getTime() - b.signedAt.getTime())
+    .map((s) => ({ step: s.step, name: s.signerName, role: s.role, meaning: s.meaning, signedAt: s.signedAt.toISOString(), revision: s.revision, revisionHash: s.revisionHash }));
+}
+
+/** Freezes everything the report is made from. */
+export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
+  const [row] = await db
+    .select({ c: cases, p: programmes, o: organisations })
+    .from(cases)
+    .innerJoin(programmes, eq(programmes.id, cases.programmeId))
+    .innerJoin(organisations, eq(organisations.id, cases.organisationId))
+    .where(eq(cases.id, report.caseId));
+  const steps = await getCaseSteps(report.caseId);
+  const inputs = caseInputs(steps);
+  if (!inputs.basis || !inputs.planform || !inputs.sections || !inputs.envelope || !inputs.loads) throw new Error("a step of the case has no valid data");
+  const exchange = buildCaseFile(row!.c.title, inputs);
+  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy);
+  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy)).result).map((f) => ({
+    ...f,
+    action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
+    comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",
+  }));
+  return {
+    reportId: report.id,
+    reportNumber: report.reportNumber,
+    version: report.version,
+    issuedAt: new Date().toISOString(),
+    organisation: row!.o.name,
+    programme: { code: row!.p.code, name: row!.p.name, aircraft: row!.p.aircraft },
+    case: { id: row!.c.id, reference: row!.c.reference, title: row!.c.title, description: row!.c.description },
+    revisions: Object.fromEntries(STEPS.map((s) => [s.key, steps[s.key].revision])),
+    inputHash,
+    engineVersion: ENGINE_VERSION,
+    inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
+    exchange,
+    result,
+    flags,
+    signatures: await signatureLines(report.caseId),
+  };
+}
+
+/** What the report draws beyond the snapshot's numbers, computed from the snapshot alone. */
+export function reportFigures(s: ReportSnapshot): ReportFigures {
+  const sets = vnSets(s.inputs.basis, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise });
+  const stations: WingStation[] = (s.exchange.wing.stations as WingStation[]).map((st) => ({ ...st }));
+  return {
+    vn: { set: sets[0]!, count: sets.length },
+    critical: distributionView(s.exchange, criticalCase(s.result.cases).id),
+    geometry: wingGeometry(stations),
+  };
+}
+
+/** The PDF of a snapshot: its figures computed, then every section rendered (pdfkit, server-side charts). */
+export async function renderReport(s: ReportSnapshot, opts: { onProgress?: (pct: number, note: string) => void } = {}): Promise<Uint8Array> {
+  const { renderReportPdf } = await import("~/reports/pdf.server");
+  return renderReportPdf(s, reportFigures(s), opts);
+}
+
+/** Inputs and root loads of two report versions side by side: what a checker reads before signing the next. */
+export function versionChanges(older: ReportSnapshot, newer: ReportSnapshot) {
+  const rows: { item: string; before: string; after: string }[] = [];
+  for (const key of Object.keys(newer.revisions)) {
+    if (older.revisions[key] !== newer.revisions[key]) rows.push({ item: `${key} revision`, before: String(older.revisions[key]), after: String(newer.revisions[key]) });
+  }
+  const flat = (s: ReportSnapshot) => ({
+    "MTOW [kg]": s.inputs.basis.mtow,
+    "VC [m/s]": s.inputs.basis.vc,
+    "VD [m/s]": s.inputs.basis.vd,
+    "Stations": s.inputs.planform.stations.length,
+    "Root chord [m]": s.inputs.planform.stations[0]?.chord,
+    "Semispan [m]": s.inputs.planform.stations[s.inputs.planform.stations.length - 1]?.y,
+    "Load cases": s.exchange.cases.length,
+    "Compressibility rule": s.inputs.envelope.compressibility,
+    "Spanwise solver": s.inputs.envelope.spanwise,
+    "Semispan mass [kg]": s.inputs.loads.semispanMass,
+  });
+  const a = flat(older);
+  const b = flat(newer);
+  for (const k of Object.keys(b) as (keyof typeof b)[]) if (a[k] !== b[k]) rows.push({ item: k, before: String(a[k]), after: String(b[k]) });
+  const root = (s: ReportSnapshot) => s.result.envelope[0];
+  const ra = root(older);
+  const rb = root(newer);
+  if (ra && rb) {
+    for (const [label, x, y] of [
+      ["Root shear max [kN]", ra.shearMax / 1000, rb.shearMax / 1000],
+      ["Root bending max [kN·m]", ra.bendingMax / 1000, rb.bendingMax / 1000],
+      ["Root bending min [kN·m]", ra.bendingMin / 1000, rb.bendingMin / 1000],
+      ["Root torsion max [kN·m]", ra.torsionMax / 1000, rb.torsionMax / 1000],
+    ] as const) {
+      rows.push({ item: label, before: formatNumber(x, 5), after: formatNumber(y, 5) });
+    }
+  }
+  return rows;
+}
