@@ -7,3 +7,4 @@ export { resultToCsv } from "./csv";
 export { parseSections, SECTIONS_SCHEMA_ID, SectionsFileSchema, withSections } from "./sections";
 export type { SectionsFile } from "./sections";
 export { analyzeDocument } from "./analyze";
+export { exchangeDocumentText, stableDocumentText } from "./document-text";

@@ -3,6 +3,7 @@ import { criticalCase } from "~/domain/results";
 import type { UnitSystem } from "~/domain/units";
 import { basisAndScope } from "./pdf/basis.server";
 import { cover } from "./pdf/cover.server";
+import { documents } from "./pdf/documents.server";
 import { flagsAndCautions } from "./pdf/flags.server";
 import { registerFonts } from "./pdf/fonts.server";
 import { inputs } from "./pdf/inputs.server";
@@ -24,6 +25,7 @@ const SECTIONS: [pct: number, note: string, write: (section: Section) => void][]
   [60, "Distributions of the critical case", resultsDistribution],
   [75, "Shear, bending and torsion", resultsLoads],
   [88, "Flags, cautions and signatures", flagsAndCautions],
+  [89, "Attached documents", documents],
   [90, "Flags, cautions and signatures", signatures],
 ];
 

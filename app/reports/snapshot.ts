@@ -41,6 +41,13 @@ export interface ReportSnapshot {
   /** The exchange document the results were computed from, and the results (spanwright.result/1). */
   exchange: CaseFileInput;
   result: CaseResult;
+  /**
+   * The documents attached to the PDF, as their exact text: the case as `spanwright.case/1` (the bytes
+   * the export gives for the unchanged case) and, where the case has them, its richer section data as
+   * `spanwright.sections/1`. Snapshots made before reports carried attachments have none: their
+   * documents are serialised from `exchange` when they are rendered.
+   */
+  documents?: { case: string; sections?: string };
   /** Flagged cases with their dispositions. */
   flags: { id: string; reasons: string[]; action: string; comment: string }[];
   signatures: SignatureLine[];

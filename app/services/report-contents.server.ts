@@ -4,6 +4,7 @@ import { criticalCase } from "~/domain/results";
 import { db } from "~/db/client.server";
 import { cases, organisations, programmes, type Report } from "~/db/schema";
 import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
+import { exchangeDocumentText } from "~/exchange";
 import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { eq } from "drizzle-orm";
 import { buildCaseFile, caseInputs, resultsFor } from "./analysis.server";
@@ -58,6 +59,7 @@ export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
     inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
     exchange,
     result,
+    documents: { case: exchangeDocumentText(exchange) },
     flags,
     signatures: await signatureLines(report.caseId),
   };

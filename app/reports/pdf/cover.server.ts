@@ -1,12 +1,20 @@
 import { STEPS } from "~/domain/steps";
 import { formatQuantity } from "~/domain/units";
 import { STEP_KEYS } from "~/domain/vocabulary";
+import { reportDocuments } from "./documents.server";
 import { ACCENT, BOTTOM, M, MUTED, PAGE, utc, W, type Section } from "./layout.server";
+
+/** Standard gravity (m/s², exact by definition, CGPM 1901): a design mass as the weight the loads use. */
+const G0 = 9.80665;
 
 const STEP_LABEL: Record<string, string> = Object.fromEntries(STEPS.map((s) => [s.key, s.label]));
 
 /** The cover: what the report is, of which case, from which revisions and inputs, and the caution. */
 export function cover({ w, s, crit, units }: Section) {
+  const b = s.inputs.basis;
+  // The case's own masses, each with the weight it gives (the programme's aircraft line is free text).
+  const massAndWeight = (kg: number) => `${formatQuantity(units, "mass", kg)} (${formatQuantity(units, "force", kg * G0)})`;
+  const caseFile = reportDocuments(s)[0]!;
   const doc = w.doc;
   doc.rect(0, 0, PAGE.width, 6).fillColor(ACCENT).fill();
   w.text("Spanwright", M.left, 64, { size: 30, weight: 600, oneLine: true });
@@ -26,7 +34,9 @@ export function cover({ w, s, crit, units }: Section) {
     ["Programme", `${s.programme.code} — ${s.programme.name}`],
     ["Aircraft", s.programme.aircraft],
     ["Case", `${s.case.reference} — ${s.case.title}`],
+    ["Design masses of this case", `MTOW ${massAndWeight(b.mtow)} · MZFW ${massAndWeight(b.mzfw)} · minimum ${massAndWeight(b.minWeight)}`],
     ["Input hash (SHA-256)", s.inputHash],
+    ["Case document (attached)", `${caseFile.name}, SHA-256 ${caseFile.sha256}`],
     ["Engine version", `${s.engineVersion} (results ${s.result.engine}, ${s.result.schema})`],
     ["Load cases analysed", `${s.result.cases.length}`],
     ["Critical root bending", `${formatQuantity(units, "moment", crit.root.bending)} (case ${crit.id})`],

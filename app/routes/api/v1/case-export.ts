@@ -1,4 +1,5 @@
 import { requireApiUser } from "~/auth/api-auth.server";
+import { exchangeDocumentText } from "~/exchange";
 import { exportCase } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import type { Route } from "./+types/case-export";
@@ -14,7 +15,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
     const file = await exportCase(found.case.id, found.case.title);
-    return Response.json(file, { headers: { "Content-Disposition": `inline; filename="${filenameOf(found.case.reference)}.case.json"` } });
+    // The same bytes an issued report attaches for an unchanged case (exchangeDocumentText).
+    return new Response(exchangeDocumentText(file), { headers: { "Content-Type": "application/json", "Content-Disposition": `inline; filename="${filenameOf(found.case.reference)}.case.json"` } });
   });
 }
 

@@ -1,0 +1,92 @@
+import { execFileSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { cases, caseSteps, reports, users } from "~/db/schema";
+import { STEPS } from "~/domain/steps";
+import { parseCase } from "~/exchange";
+import { loader as exportLoader } from "~/routes/api/v1/case-export";
+import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
+import { action as reviewAction } from "~/routes/cases/review";
+import { createReportRow, generateReport } from "~/services/reports.server";
+import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+
+/*
+ * The issued report as evidence, read from outside with poppler (pdftotext, pdfdetach): what it
+ * attaches, and that the attachment is the case as the export gives it.
+ */
+
+let caseId = "";
+const cookies: Record<string, string> = {};
+const sha = (b: string | Uint8Array) => createHash("sha256").update(b).digest("hex");
+const review = (who: string, fields: Record<string, string>) => run(reviewAction, { request: request(`/cases/${caseId}/review`, { method: "POST", cookie: cookies[who], body: form(fields) }), params: { caseId } });
+
+async function approveAll() {
+  for (const s of STEPS) {
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, s.key)));
+    if (row!.status === "approved") continue;
+    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key })).status).toBe(200);
+    expect((await review("checker", { intent: "approve", step: s.key, password: demoUser("checker").password })).status).toBe(200);
+  }
+  expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
+}
+
+/** Issues the next version of the demo case's report and returns its row and the PDF as downloaded. */
+async function issue() {
+  const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+  const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+  await generateReport(row.id);
+  const [issued] = await db.select().from(reports).where(eq(reports.id, row.id));
+  const res = (await pdfLoader({ request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id }, context: {} } as never)) as Response;
+  expect(res.status).toBe(200);
+  const bytes = new Uint8Array(await res.arrayBuffer());
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "sw-evidence-"));
+  const file = path.join(dir, "report.pdf");
+  fs.writeFileSync(file, bytes);
+  return { row: issued!, bytes, dir, file, text: execFileSync("pdftotext", ["-layout", "-enc", "UTF-8", file, "-"], { encoding: "utf8", maxBuffer: 64 * 2 ** 20 }) };
+}
+
+let first: Awaited<ReturnType<typeof issue>>;
+
+beforeAll(async () => {
+  await seed();
+  for (const who of ["engineer", "checker", "quality"]) cookies[who] = await cookieFor(who as never);
+  const [c] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-001"));
+  caseId = c!.id;
+  await approveAll();
+  first = await issue();
+}, 180_000);
+
+describe("the input snapshot travels with the report", () => {
+  it("attaches the case, byte for byte as the export gives it, and prints its SHA-256", async () => {
+    // pdfdetach (poppler-utils) lists and extracts the PDF's embedded files, as any reader would.
+    const list = execFileSync("pdfdetach", ["-list", first.file], { encoding: "utf8" });
+    const stem = first.row.reportNumber.replace(/[^A-Za-z0-9._-]+/g, "_");
+    expect(list).toContain(`${stem}.case.json`);
+    expect(list).toContain(`${stem}.result.json`);
+    const out = path.join(first.dir, "attached");
+    fs.mkdirSync(out);
+    execFileSync("pdfdetach", ["-saveall", "-o", out, first.file]);
+    const attached = fs.readFileSync(path.join(out, `${stem}.case.json`));
+    const res = (await exportLoader({ request: request(`/api/v1/cases/${caseId}/export`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+    expect(res.status).toBe(200);
+    const exportBytes = new Uint8Array(await res.arrayBuffer());
+    expect(sha(attached)).toBe(sha(exportBytes));
+    expect(Buffer.from(attached).equals(Buffer.from(exportBytes))).toBe(true);
+    // A document the command line accepts as it is.
+    expect(parseCase(JSON.parse(attached.toString("utf8"))).ok).toBe(true);
+    // The printed hash is that of the attached bytes, on the cover and in the attachments section.
+    const printed = first.text.split(sha(attached)).length - 1;
+    expect(printed).toBeGreaterThanOrEqual(2);
+  });
+
+  it("attaches the results as computed, every number equal to the snapshot's", () => {
+    const stem = first.row.reportNumber.replace(/[^A-Za-z0-9._-]+/g, "_");
+    const result = JSON.parse(fs.readFileSync(path.join(first.dir, "attached", `${stem}.result.json`), "utf8"));
+    expect(result).toEqual((first.row.snapshot as { result: unknown }).result);
+  });
+});
