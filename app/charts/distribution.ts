@@ -8,6 +8,8 @@ export interface DistributionSeries {
   clMax: (number | null)[];
   cm: number[];
   stationMachCritical: (number | null)[];
+  /** Simple sweep theory's value per station, optimistic, shown beside the conservative one. */
+  stationMachCriticalSwept: (number | null)[];
   mach: number;
   rules: { rule: CompressibilityRule; cl: number[]; cm: number[] }[];
   spanwise: string;
@@ -50,14 +52,15 @@ export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm") {
   };
 }
 
-/** Each station's critical Mach number against the case Mach number. */
+/** Each station's critical Mach number at this case's lift against the case Mach number, with simple sweep theory's beside it. */
 export function machCriticalOption(d: DistributionSeries) {
   return {
     ...baseOption("Critical Mach number along the span"),
     xAxis: spanAxis(),
     yAxis: axis("Mach number [–]"),
     series: [
-      line("Station critical Mach", zip(d.y, d.stationMachCritical), SERIES_STYLE.solver),
+      line("Station critical Mach (unswept, conservative)", zip(d.y, d.stationMachCritical), SERIES_STYLE.solver),
+      line("Simple sweep theory (cos Λ, optimistic)", zip(d.y, d.stationMachCriticalSwept), SERIES_STYLE.neutral),
       line("Case Mach", [[0, d.mach], [d.y[d.y.length - 1] ?? 0, d.mach]], SERIES_STYLE.limit),
     ],
   };

@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth/password.server";
 import { writeAudit } from "./audit.server";
 import type { Db } from "./client.server";
-import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
+import { buildCaseFile, buildSectionsFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { flaggedCases } from "~/services/distribution.server";
 import { generatedCases, vnSets } from "~/services/envelope.server";
@@ -96,10 +96,11 @@ async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: stri
   await save("envelope", { ...d.method, cases: loadCases } as never);
   await save("loads", d.loads as never);
   const withLoads = caseInputs(await getCaseSteps(demo.id));
-  const { result } = await resultsFor(demo.id, buildCaseFile(demo.title, withLoads, "envelope"), engineerId);
+  const { result } = await resultsFor(demo.id, buildCaseFile(demo.title, withLoads, "envelope"), engineerId, buildSectionsFile(withLoads));
   const dispositions = Object.fromEntries(flaggedCases(result).map((f) => [f.id, { action: "justify", comment: d.justification }]));
   await save("distribution", { dispositions } as never);
-  await resultsFor(demo.id, buildCaseFile(demo.title, caseInputs(await getCaseSteps(demo.id))), engineerId);
+  const final = caseInputs(await getCaseSteps(demo.id));
+  await resultsFor(demo.id, buildCaseFile(demo.title, final), engineerId, buildSectionsFile(final));
   return 6;
 }
 

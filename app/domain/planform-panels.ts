@@ -31,3 +31,23 @@ export function panelsToStations(rootTwistDeg: number, panels: readonly PanelInp
   }
   return out;
 }
+
+/** The straight reference axis of a planform: its chord fractions at root and tip and its sweep (deg, aft positive). */
+export function referenceAxisOf(planform: { stations: readonly StationRow[]; axisRoot: number; axisTip: number }): { rootFraction: number; tipFraction: number; sweepDeg: number } {
+  const r = planform.stations[0]!;
+  const t = planform.stations[planform.stations.length - 1]!;
+  const dx = t.xLe + planform.axisTip * t.chord - (r.xLe + planform.axisRoot * r.chord);
+  return { rootFraction: planform.axisRoot, tipFraction: planform.axisTip, sweepDeg: Math.atan2(dx, t.y - r.y) / DEG };
+}
+
+/** In words, how bending and torsion are taken about the reference axis (loads page and report). */
+export function axisConvention(axis: { rootFraction: number; tipFraction: number; sweepDeg: number }): string {
+  const pct = (f: number) => `${Number((100 * f).toFixed(1))} %`;
+  const swept = Math.abs(axis.sweepDeg) < 0.05 ? "unswept" : `swept ${Math.abs(axis.sweepDeg).toFixed(1)}° ${axis.sweepDeg > 0 ? "aft" : "forward"}`;
+  return (
+    `Bending and torsion are resolved about the reference axis, the straight line from ${pct(axis.rootFraction)} of the root chord to ${pct(axis.tipFraction)} of the tip chord (${swept}). ` +
+    "The wing is cut at streamwise stations; the moment of everything outboard of a cut — lift at the quarter chord, section pitching moments, inertia — is taken about the axis point at that station and resolved: " +
+    "torsion is its component along the axis (nose up positive), bending its component about the in-plane normal to the axis (tip up positive). Shear is normal to the wing plane." +
+    (Math.abs(axis.sweepDeg) < 0.05 ? " On this unswept axis they are the streamwise bending and pitching moments." : "")
+  );
+}

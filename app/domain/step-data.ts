@@ -87,6 +87,12 @@ export const SectionRowSchema = z.object({
   cmAc: finite("cm about the aerodynamic centre"),
   clMax: positive("clmax").optional(),
   cpMin: finite("Minimum Cp").refine((v) => v < 0, { message: "Minimum Cp must be below 0 (a suction peak)" }).optional(),
+  /** The incompressible section cl at which cpMin holds (richer section data, docs/decisions/009). */
+  cpMinCl: finite("Lift of Cp,min").refine((v) => Math.abs(v) <= 5, { message: "The lift of Cp,min is a section cl between −5 and 5" }).optional(),
+  /** Incompressible minimum Cp against section cl, from a polar with Cp,min per angle (richer section data). */
+  cpMinTable: z.array(z.object({ cl: finite("cl"), cpMin: finite("Cp,min") })).optional(),
+  /** Incompressible chordwise Cp at two or more angles, for the rule point by point (richer section data). */
+  pressures: z.array(z.object({ alpha: finite("Angle"), x: z.array(finite("x/c")), cpUpper: z.array(finite("Cp upper")), cpLower: z.array(finite("Cp lower")) })).optional(),
 });
 
 export const SectionsSchema = z
@@ -113,7 +119,7 @@ export const RULE_LABELS: Record<(typeof COMPRESSIBILITY_RULES)[number], string>
 };
 export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> = {
   "vortex-lattice": "Vortex lattice",
-  "lifting-line": "Lifting line (small sweep only)",
+  "lifting-line": "Lifting line (quarter-chord sweep up to 15°)",
 };
 
 /**

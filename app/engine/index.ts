@@ -23,6 +23,7 @@ export * from "./rolling";
 export * from "./superposition";
 export * from "./mach-grid";
 export * from "./plausibility";
+export * from "./section-data";
 export * from "./load-case";
 export * from "./envelope";
 export * from "./certification";

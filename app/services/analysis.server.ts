@@ -6,7 +6,7 @@ import { db } from "~/db/client.server";
 import { caseResults, cases } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION, isEngineError } from "~/engine";
-import { CASE_SCHEMA_ID, parseCase, runCase, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
+import { CASE_SCHEMA_ID, parseCase, parseSections, runCase, SECTIONS_SCHEMA_ID, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
 import { DomainError } from "~/domain/errors";
 
@@ -72,6 +72,62 @@ export function exchangeStations(planform: PlanformData, sections: SectionsData)
   }));
 }
 
+type Row = SectionsData["rows"][number];
+type Pressures = NonNullable<Row["pressures"]>;
+
+/** Blend two Cp,min-against-lift tables at a fraction t of the way from the first to the second. */
+function blendTables(a: NonNullable<Row["cpMinTable"]>, b: NonNullable<Row["cpMinTable"]>, t: number): NonNullable<Row["cpMinTable"]> {
+  const at = (tb: NonNullable<Row["cpMinTable"]>, cl: number) => lerp(tb.map((p) => p.cl), tb.map((p) => p.cpMin), cl);
+  const cls = [...new Set([...a.map((p) => p.cl), ...b.map((p) => p.cl)])].sort((u, v) => u - v);
+  return cls.map((cl) => ({ cl, cpMin: at(a, cl) + t * (at(b, cl) - at(a, cl)) }));
+}
+
+/** Blend two pressure sets point by point where they share angles and chord points; otherwise none. */
+function blendPressures(a: Pressures, b: Pressures, t: number): Pressures | undefined {
+  const same = a.length === b.length && a.every((p, i) => p.alpha === b[i]!.alpha && p.x.length === b[i]!.x.length && p.x.every((x, k) => x === b[i]!.x[k]));
+  if (!same) return undefined;
+  const mix = (u: number[], v: number[]) => u.map((x, k) => x + t * (v[k]! - x));
+  return a.map((p, i) => ({ alpha: p.alpha, x: [...p.x], cpUpper: mix(p.cpUpper, b[i]!.cpUpper), cpLower: mix(p.cpLower, b[i]!.cpLower) }));
+}
+
+/**
+ * The richer section data of a case as `spanwright.sections/1` (docs/decisions/009), at every station of
+ * its exchange document: a section row's own data at its station, held beyond the first and last row
+ * like the rest of the section data, and linear between two rows (Cp,min tables blended on the union of
+ * their lifts; pressures point by point where both rows give them at the same angles and chord points).
+ * Undefined when no row carries any.
+ */
+export function buildSectionsFile(inputs: Pick<CaseInputs, "planform" | "sections">): SectionsFile | undefined {
+  const { planform, sections } = inputs;
+  if (!planform || !sections) return undefined;
+  const r = sections.rows;
+  if (!r.some((row) => row.cpMinCl !== undefined || row.cpMinTable || row.pressures)) return undefined;
+  const withCpMin = r.every((row) => row.cpMin !== undefined);
+  const out: SectionsFile["sections"] = [];
+  for (const st of exchangeStations(planform, sections)) {
+    const y = st.y;
+    let i = r.findIndex((row) => row.y >= y);
+    if (i < 0) i = r.length - 1;
+    const at = r[i]!.y === y || i === 0 || y > r[r.length - 1]!.y ? r[i]! : null;
+    const lo = r[i - 1];
+    const hi = r[i]!;
+    const t = at || !lo ? 0 : (y - lo.y) / (hi.y - lo.y);
+    const entry: SectionsFile["sections"][number] = { y };
+    if (at) {
+      if (withCpMin && at.cpMinCl !== undefined) entry.cpMinCl = at.cpMinCl;
+      if (at.cpMinTable) entry.cpMinTable = at.cpMinTable;
+      if (at.pressures) entry.pressures = at.pressures;
+    } else if (lo) {
+      if (withCpMin && lo.cpMinCl !== undefined && hi.cpMinCl !== undefined) entry.cpMinCl = lo.cpMinCl + t * (hi.cpMinCl - lo.cpMinCl);
+      if (lo.cpMinTable && hi.cpMinTable) entry.cpMinTable = blendTables(lo.cpMinTable, hi.cpMinTable, t);
+      const p = lo.pressures && hi.pressures ? blendPressures(lo.pressures, hi.pressures, t) : undefined;
+      if (p) entry.pressures = p;
+    }
+    if (Object.keys(entry).length > 1) out.push(entry);
+  }
+  return out.length ? { schema: SECTIONS_SCHEMA_ID, sections: out } : undefined;
+}
+
 /** Which cases go into the analysis: those not excluded in the envelope, nor by a disposition. */
 export function analysedCases(envelope: EnvelopeData, distribution: DistributionData | null) {
   return envelope.cases.filter((c) => !c.excluded && distribution?.dispositions[c.id]?.action !== "exclude");
@@ -115,14 +171,28 @@ export function parseOrThrow(file: CaseFileInput): CaseFile {
   return parsed.value;
 }
 
+/** Validates a sections document against its case exactly as the command line does; failures name the field. */
+export function parseSectionsOrThrow(sections: SectionsFile | undefined, parsed: CaseFile): SectionsFile | undefined {
+  if (!sections) return undefined;
+  const checked = parseSections(sections, parsed);
+  if (!checked.ok) throw new DomainError(checked.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: checked.problems[0]?.path, kind: "unprocessable" });
+  return checked.value;
+}
+
+/** The key of a result: the SHA-256 of the canonical exchange input (with its sections document, when there is one). */
+export function analysisInputHash(parsed: CaseFile, sections?: SectionsFile): string {
+  return sha256Hex(canonicalJson(sections ? { case: parsed, sections } : parsed));
+}
+
 /**
  * The stored result for these inputs, computed and recorded on first request. Results are keyed by
- * the SHA-256 of the canonical exchange input and the engine version, so the same inputs are never
- * solved twice and a result always names what it was computed from.
+ * the SHA-256 of the canonical exchange input (and its richer section data) and the engine version, so
+ * the same inputs are never solved twice and a result always names what it was computed from.
  */
-export async function resultsFor(caseId: string, file: CaseFileInput, actorId: string | null): Promise<{ result: CaseResult; inputHash: string; computedAt: Date }> {
+export async function resultsFor(caseId: string, file: CaseFileInput, actorId: string | null, sectionsDoc?: SectionsFile): Promise<{ result: CaseResult; inputHash: string; computedAt: Date }> {
   const parsed = parseOrThrow(file);
-  const inputHash = sha256Hex(canonicalJson(parsed));
+  const sections = parseSectionsOrThrow(sectionsDoc, parsed);
+  const inputHash = analysisInputHash(parsed, sections);
   const [cached] = await db
     .select()
     .from(caseResults)
@@ -132,14 +202,15 @@ export async function resultsFor(caseId: string, file: CaseFileInput, actorId: s
   if (cached) return { result: cached.result as unknown as CaseResult, inputHash, computedAt: cached.computedAt };
   let result: CaseResult;
   try {
-    result = runCase(parsed);
+    result = runCase(parsed, { sections });
   } catch (error) {
     if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
     throw error;
   }
+  const input = (sections ? { case: parsed, sections } : parsed) as unknown as Record<string, unknown>;
   const [row] = await db
     .insert(caseResults)
-    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input: parsed as unknown as Record<string, unknown>, result: result as unknown as Record<string, unknown>, computedBy: actorId })
+    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, computedBy: actorId })
     .returning();
   return { result, inputHash, computedAt: row!.computedAt };
 }
@@ -149,6 +220,12 @@ export async function exportCase(caseId: string, title: string): Promise<CaseFil
   return buildCaseFile(title, caseInputs(await getCaseSteps(caseId)));
 }
 
+/** Export of a case with its richer section data (`spanwright.sections/1`, undefined when it has none). */
+export async function exportCaseDocuments(caseId: string, title: string): Promise<{ file: CaseFileInput; sections: SectionsFile | undefined }> {
+  const inputs = caseInputs(await getCaseSteps(caseId));
+  return { file: buildCaseFile(title, inputs), sections: buildSectionsFile(inputs) };
+}
+
 /** Sweeps larger than this are solved by a worker rather than inside the web request. */
 export const SWEEP_THRESHOLD = 500;
 
@@ -156,16 +233,16 @@ export const SWEEP_THRESHOLD = 500;
  * The stored result when there is one; otherwise small cases are solved at once and large sweeps
  * are handed to the job queue (the caller answers "computing" and asks again).
  */
-export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorId: string | null): Promise<{ pending: true; cases: number } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
-  if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId)) };
+export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorId: string | null, sections?: SectionsFile): Promise<{ pending: true; cases: number } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
+  if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
   const parsed = parseOrThrow(file);
-  const inputHash = sha256Hex(canonicalJson(parsed));
+  const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
   const [cached] = await db
     .select({ id: caseResults.id })
     .from(caseResults)
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .limit(1);
-  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId)) };
+  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
   const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
   return { pending: true, cases: file.cases.length };
@@ -179,12 +256,13 @@ const resultDocuments = new LRUCache<string, string>({ maxSize: 64 * 2 ** 20, si
  * As resultsOrQueue, with the `spanwright.result/1` document already serialised: the API sends the
  * same bytes for the same input without reading and re-encoding the stored result every time.
  */
-export async function resultJsonOrQueue(caseId: string, file: CaseFileInput, actorId: string | null): Promise<{ pending: true; cases: number } | { pending: false; json: string; inputHash: string }> {
-  const inputHash = sha256Hex(canonicalJson(parseOrThrow(file)));
+export async function resultJsonOrQueue(caseId: string, file: CaseFileInput, actorId: string | null, sections?: SectionsFile): Promise<{ pending: true; cases: number } | { pending: false; json: string; inputHash: string }> {
+  const parsed = parseOrThrow(file);
+  const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
   const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
   const hit = resultDocuments.get(key);
   if (hit) return { pending: false, json: hit, inputHash };
-  const answer = await resultsOrQueue(caseId, file, actorId);
+  const answer = await resultsOrQueue(caseId, file, actorId, sections);
   if (answer.pending) return answer;
   const json = JSON.stringify(answer.result);
   resultDocuments.set(key, json);
@@ -195,5 +273,6 @@ export async function resultJsonOrQueue(caseId: string, file: CaseFileInput, act
 export async function computeQueuedResults(caseId: string): Promise<void> {
   const [row] = await db.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
   if (!row) return;
-  await resultsFor(caseId, await exportCase(caseId, row.title), null);
+  const { file, sections } = await exportCaseDocuments(caseId, row.title);
+  await resultsFor(caseId, file, null, sections);
 }

@@ -5,7 +5,7 @@ import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { caseSteps, cases, programmes, stepRevisions } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
-import { formatPath, parseCase, type CaseFile, type CaseProblem } from "~/exchange";
+import { formatPath, parseCase, parseSections, type CaseFile, type CaseProblem, type SectionsFile } from "~/exchange";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 
@@ -22,8 +22,9 @@ type ImportedSteps = { planform: unknown; sections: unknown; envelope: unknown; 
  * cases → envelope (each case "manual", rule "imported"), mass → loads. The certification basis is
  * not part of the exchange format and stays unsaved.
  */
-export function stepsFromCaseFile(file: CaseFile): ImportedSteps {
+export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): ImportedSteps {
   const stations = file.wing.stations;
+  const richer = new Map((sections?.sections ?? []).map((s) => [s.y, s]));
   return {
     planform: {
       stations: stations.map((s) => ({ y: s.y, xLe: s.xLe, chord: s.chord, twist: s.twist })),
@@ -38,6 +39,9 @@ export function stepsFromCaseFile(file: CaseFile): ImportedSteps {
         cmAc: s.cmAc,
         ...(s.clMax !== undefined ? { clMax: s.clMax } : {}),
         ...(s.cpMin !== undefined ? { cpMin: s.cpMin } : {}),
+        ...(richer.get(s.y)?.cpMinCl !== undefined ? { cpMinCl: richer.get(s.y)!.cpMinCl } : {}),
+        ...(richer.get(s.y)?.cpMinTable ? { cpMinTable: richer.get(s.y)!.cpMinTable } : {}),
+        ...(richer.get(s.y)?.pressures ? { pressures: richer.get(s.y)!.pressures } : {}),
       })),
       source: { kind: "import" },
       tables: [],
@@ -90,10 +94,16 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
  * stricter rules of the steps it fills (for example at most 60 stations, twist within ±20°,
  * 8–200 output stations, case ids of letters, digits and . _ - +). Returns every problem found.
  */
-export function validateImport(json: unknown): { ok: true; file: CaseFile; steps: Record<keyof ImportedSteps, Record<string, unknown>> } | { ok: false; problems: CaseProblem[] } {
+export function validateImport(json: unknown, sectionsJson?: unknown): { ok: true; file: CaseFile; steps: Record<keyof ImportedSteps, Record<string, unknown>> } | { ok: false; problems: CaseProblem[] } {
   const parsed = parseCase(json);
   if (!parsed.ok) return { ok: false, problems: parsed.problems };
-  const mapped = stepsFromCaseFile(parsed.value);
+  let sections: SectionsFile | undefined;
+  if (sectionsJson !== undefined) {
+    const checked = parseSections(sectionsJson, parsed.value);
+    if (!checked.ok) return { ok: false, problems: checked.problems };
+    sections = checked.value;
+  }
+  const mapped = stepsFromCaseFile(parsed.value, sections);
   const problems: CaseProblem[] = [];
   const steps = {} as Record<keyof ImportedSteps, Record<string, unknown>>;
   for (const key of Object.keys(mapped) as (keyof ImportedSteps)[]) {
@@ -111,8 +121,8 @@ export function validateImport(json: unknown): { ok: true; file: CaseFile; steps
  * The case title is `title`, else the document's title, else the reference.
  * @throws DomainError "unprocessable" with every bad field in `problems`; "not-found"/"conflict" for programme or reference.
  */
-export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; actor: Actor }) {
-  const checked = validateImport(input.document);
+export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; sections?: unknown; actor: Actor }) {
+  const checked = validateImport(input.document, input.sections);
   if (!checked.ok) throw importRefused(checked.problems);
   const title = input.title ?? checked.file.title ?? input.reference;
   return db.transaction(async (tx) => {

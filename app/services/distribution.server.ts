@@ -1,15 +1,18 @@
 import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
-import { wingModelOf, type CaseFile, type CaseFileInput, type CaseResult } from "~/exchange";
+import { wingModelOf, withSections, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
-import { buildCaseFile, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
+import { buildCaseFile, buildSectionsFile, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
 
 export interface CaseFlag {
   id: string;
   reasons: string[];
 }
 
-/** Cases the engineer must disposition: above the critical Mach number, or with stations over clMax. */
+/**
+ * Cases the engineer must disposition: above the critical Mach number, with stations over clMax, or whose
+ * critical-Mach check rests on a single Cp,min taken far from the case's lift.
+ */
 export function flaggedCases(result: CaseResult): CaseFlag[] {
   return result.cases
     .map((c) => ({
@@ -17,11 +20,13 @@ export function flaggedCases(result: CaseResult): CaseFlag[] {
       reasons: [
         ...(c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : []),
         ...summariseStall(c.warnings),
+        ...c.warnings.filter((w) => CRITICAL_MACH_DOUBT.test(w)).map(() => "the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"),
       ],
     }))
     .filter((f) => f.reasons.length > 0);
 }
 
+const CRITICAL_MACH_DOUBT = /^the critical Mach number rests on one cpMin per section/;
 const STALL = /station y = ([\d.]+) m: cl ([\d.-]+) exceeds the section clMax ([\d.-]+)/;
 
 /** One line for all of a case's stations over clmax: how many, where, and the worst ratio. */
@@ -47,10 +52,10 @@ const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laiton
  * Schrenk's approximation, section cl and cm, the same case under each of the three
  * compressibility rules, and each station's critical Mach number against the case Mach number.
  */
-export function distributionView(input: CaseFileInput, caseId: string) {
+export function distributionView(input: CaseFileInput, caseId: string, sections?: SectionsFile) {
   const file: CaseFile = parseOrThrow(input);
   const lc = file.cases.find((c) => c.id === caseId) ?? file.cases[0]!;
-  const model = wingModelOf(file);
+  const model = withSections(wingModelOf(file), sections);
   const loadCase = lc.alpha !== undefined ? { id: lc.id, mach: lc.mach, altitude: lc.altitude, alphaDeg: lc.alpha } : { id: lc.id, mach: lc.mach, altitude: lc.altitude, weightN: lc.weight!, nz: lc.nz! };
   const byRule = RULES.map((rule) => {
     const sol = solveMach(model, lc.mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips });
@@ -80,8 +85,15 @@ export function distributionView(input: CaseFileInput, caseId: string) {
     cl: loads.cl,
     clMax: sol.clMax,
     cm: loads.cm,
-    stationMachCritical: sol.stationMachCritical,
-    rules: byRule.map((r) => ({ rule: r.rule, cl: r.loads.cl, cm: r.loads.cm, CL: r.loads.CL, clAlpha: r.sol.clAlphaPerRad, machCritical: r.sol.machCritical })),
+    // At this case's lift where the sections give Cp,min against lift; simple sweep theory scales each by 1/cos Λ.
+    stationMachCritical: loads.stationMachCritical,
+    stationMachCriticalSwept: loads.stationMachCritical.map((m, i) => {
+      const u = sol.stationMachCritical[i];
+      const w = sol.stationMachCriticalSwept[i];
+      return m === null || u === null || u === undefined || w === null || w === undefined ? m : (m * w) / u;
+    }),
+    machCriticalSwept: sol.machCriticalSwept !== null && sol.machCritical !== null && loads.machCritical !== null ? (loads.machCritical * sol.machCriticalSwept) / sol.machCritical : null,
+    rules: byRule.map((r) => ({ rule: r.rule, cl: r.loads.cl, cm: r.loads.cm, CL: r.loads.CL, clAlpha: r.sol.clAlphaPerRad, machCritical: r.loads.machCritical })),
     cases: file.cases.map((c) => c.id),
   };
 }
@@ -89,8 +101,8 @@ export function distributionView(input: CaseFileInput, caseId: string) {
 export type DistributionView = ReturnType<typeof distributionView>;
 
 /** The view with one summary line for all stations over clmax, as the page shows it. */
-export function distributionViewForPage(input: CaseFileInput, caseId: string) {
-  const full = distributionView(input, caseId);
+export function distributionViewForPage(input: CaseFileInput, caseId: string, sections?: SectionsFile) {
+  const full = distributionView(input, caseId, sections);
   return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings)] };
 }
 
@@ -103,12 +115,13 @@ export async function distributionStep(input: { caseId: string; title: string; i
   const dispositions = input.inputs.distribution?.dispositions ?? {};
   try {
     const file = buildCaseFile(input.title, input.inputs, "envelope");
-    const { result } = await resultsFor(input.caseId, file, input.actorId);
+    const sections = buildSectionsFile(input.inputs);
+    const { result } = await resultsFor(input.caseId, file, input.actorId, sections);
     const flags = flaggedCases(result);
     const shown = input.requested && file.cases.some((k) => k.id === input.requested) ? input.requested : (flags[0]?.id ?? file.cases[0]!.id);
-    return { problem: null, view: distributionViewForPage(file, shown), flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
+    return { problem: null, view: distributionViewForPage(file, shown, sections), method: result.method, flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
   } catch (error) {
-    if (error instanceof DomainError) return { problem: error.message, view: null, flags: [], open: [], dispositions };
+    if (error instanceof DomainError) return { problem: error.message, view: null, method: null, flags: [], open: [], dispositions };
     throw error;
   }
 }
@@ -116,7 +129,7 @@ export async function distributionStep(input: { caseId: string; title: string; i
 /** Flagged cases without a disposition keep the distribution step from being submitted: the reasons, or none. */
 export async function dispositionBlockers(caseId: string, title: string, inputs: CaseInputs): Promise<string[]> {
   try {
-    const { result } = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null);
+    const { result } = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs));
     const open = undispositioned(flaggedCases(result), inputs.distribution);
     return open.length ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open.join(", ")}.`] : [];
   } catch (error) {

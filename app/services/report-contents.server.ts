@@ -7,7 +7,7 @@ import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
 import { exchangeDocumentText } from "~/exchange";
 import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { eq } from "drizzle-orm";
-import { buildCaseFile, caseInputs, resultsFor } from "./analysis.server";
+import { buildCaseFile, buildSectionsFile, caseInputs, resultsFor } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
 import { distributionView, flaggedCases } from "./distribution.server";
 import { vnSets } from "./envelope.server";
@@ -39,8 +39,9 @@ export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
   const inputs = caseInputs(steps);
   if (!inputs.basis || !inputs.planform || !inputs.sections || !inputs.envelope || !inputs.loads) throw new Error("a step of the case has no valid data");
   const exchange = buildCaseFile(row!.c.title, inputs);
-  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy);
-  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy)).result).map((f) => ({
+  const sections = buildSectionsFile(inputs);
+  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy, sections);
+  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy, sections)).result).map((f) => ({
     ...f,
     action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
     comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",

@@ -1,13 +1,13 @@
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
-import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
+import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, memberships, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
 import { ISSUED_REPORT_STATUSES, PENDING_REPORT_STATUSES, type Role } from "~/domain/vocabulary";
 import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
 import type { ReportSnapshot } from "~/reports/snapshot";
 import { env } from "~/utils/env.server";
-import { buildCaseFile, caseInputs, parseOrThrow } from "./analysis.server";
+import { analysisInputHash, buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, parseSectionsOrThrow } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
 import { sendMail } from "./mail.server";
 import { buildSnapshot, renderReport, versionChanges } from "./report-contents.server";
@@ -45,7 +45,9 @@ export async function requestReport(input: { caseId: string; actor: Actor }): Pr
 export async function createReportRow(input: { caseId: string; actor: Actor }): Promise<Report> {
   const [current] = await db.select().from(cases).where(eq(cases.id, input.caseId));
   if (!current) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
-  const inputHash = sha256Hex(canonicalJson(parseOrThrow(buildCaseFile(current.title, caseInputs(await getCaseSteps(input.caseId))))));
+  const currentInputs = caseInputs(await getCaseSteps(input.caseId));
+  const currentFile = parseOrThrow(buildCaseFile(current.title, currentInputs));
+  const inputHash = analysisInputHash(currentFile, parseSectionsOrThrow(buildSectionsFile(currentInputs), currentFile));
   const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES]))).orderBy(desc(reports.version)).limit(1);
   if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, { field: "case", kind: "conflict" });
   return db.transaction(async (tx) => {

@@ -1,5 +1,6 @@
 import { and, eq } from "drizzle-orm";
-import { parseSectionCsv, type SectionCsvResult } from "~/domain/section-csv";
+import { parseSectionCsv, sectionsWithUpload, type SectionCsvResult } from "~/domain/section-csv";
+import type { SectionsData } from "~/domain/step-data";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { uploads } from "~/db/schema";
@@ -42,13 +43,23 @@ export async function readSectionUpload(caseId: string, uploadId: string): Promi
 }
 
 /**
- * The section data of an upload of this case, for the sections step: its rows and fitted tables,
- * with the file named and its SHA-256 as the data's source.
- * @throws DomainError (field uploadId) when the upload is not this case's or its file no longer parses
+ * The section data of an upload of this case, for the sections step: a coefficient or polar file's rows
+ * and fitted tables, with the file named and its SHA-256 as the data's source; a chordwise pressure file's
+ * pressures added to the saved rows at the same y.
+ * @throws DomainError (field uploadId) when the upload is not this case's, its file no longer parses, or a
+ * pressure file names a station the saved data do not have
  */
-export async function sectionsFromUpload(caseId: string, uploadId: string) {
+export async function sectionsFromUpload(caseId: string, uploadId: string, saved: SectionsData | null) {
   const found = await readSectionUpload(caseId, uploadId);
   if (!found || !found.parsed.ok) throw new DomainError("That upload was not found for this case; upload the file again.", { field: "uploadId" });
   const { upload, parsed } = found;
-  return { rows: parsed.rows, tables: parsed.tables, source: { kind: "upload" as const, uploadId: upload.id, filename: upload.filename, sha256: upload.sha256 } };
+  const merged = sectionsWithUpload(saved, parsed, { kind: "upload", uploadId: upload.id, filename: upload.filename, sha256: upload.sha256 });
+  if ("problem" in merged) throw new DomainError(merged.problem, { field: "uploadId" });
+  return merged.data;
+}
+
+/** The saved section data without their chordwise pressures (the rule then scales at Cp,min again). */
+export function sectionsWithoutPressures(saved: SectionsData | null) {
+  if (!saved) throw new DomainError("There are no saved section data.", { field: "form" });
+  return { ...saved, rows: saved.rows.map(({ pressures: _pressures, ...r }) => r) };
 }

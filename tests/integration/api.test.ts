@@ -326,6 +326,36 @@ describe("import and export", () => {
     expect(again.value).toEqual(expected);
   });
 
+  it("imports a case with its richer section data and exports both back unchanged; the results use them", async () => {
+    const file = example("kf60-tern-wing") as { wing: { stations: { y: number }[] } } & Record<string, unknown>;
+    const x = [0, 0.01, 0.05, 0.15, 0.3, 0.5, 0.7, 0.9, 1];
+    const cp = (a: number) => ({ alpha: a, x, cpUpper: x.map((v) => -0.6 * (1 + a / 4) * Math.sqrt(1 - v) + 0.1 * v), cpLower: x.map((v) => 0.3 * (1 - v) - 0.05 * a * (1 - v)) });
+    const sections = {
+      schema: "spanwright.sections/1",
+      sections: file.wing.stations.map((s, i) => ({ y: s.y, cpMinTable: [{ cl: 0, cpMin: -0.45 }, { cl: 1, cpMin: -1.2 - 0.1 * i }], ...(i === 0 ? { pressures: [cp(0), cp(4)] } : {}) })),
+    };
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "RT-SECTIONS", case: file, sections }) });
+    expect(res.status).toBe(201);
+    const id = res.body!.id as string;
+    const exported = await call(exportLoader, `/api/v1/cases/${id}/export`, { token: tokens.engineer, params: { caseId: id } });
+    const again = parseCase(exported.body);
+    const parsed = parseCase(file);
+    if (!again.ok || !parsed.ok) throw new Error("must parse");
+    expect(again.value).toEqual(parsed.value);
+    expect(exported.headers.get("Link")).toContain("part=sections");
+    const part = await call(exportLoader, `/api/v1/cases/${id}/export?part=sections`, { token: tokens.engineer, params: { caseId: id } });
+    expect(part.status).toBe(200);
+    expect(part.body).toEqual(sections);
+    const results = await call(resultsLoader, `/api/v1/cases/${id}/results`, { token: tokens.engineer, params: { caseId: id } });
+    expect((results.body!.method as { criticalMach: string; sectionScaling: string }).criticalMach).toBe("cp-min-against-lift");
+    const checked = parseSections(sections, parsed.value);
+    if (!checked.ok) throw new Error("must parse");
+    expect(results.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value, { sections: checked.value }))));
+    // A case without richer data has no sections part.
+    const plain = await call(exportLoader, `/api/v1/cases/${kestrelCaseId}/export?part=sections`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    expect(plain.status).toBe(404);
+  });
+
   it("takes the bare document with the target in the query", async () => {
     const res = await call(importAction, `/api/v1/cases/import?programmeId=${kestrelProgrammeId}&reference=TN-WL-BARE&title=Bare%20import`, { token: tokens.engineer, ...jsonPost(example("kf60-tern-swept-variant")) });
     expect(res.status).toBe(201);

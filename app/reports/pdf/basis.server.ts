@@ -15,7 +15,7 @@ export function basisAndScope({ w, s, q, sym }: Section) {
     ["Altitudes", `${b.altitudes.map((a) => q("altitude", a, 5)).join(", ")} ${sym("altitude")} (ISA)`],
     ["Wing reference area", `${q("area", b.wingArea)} ${sym("area")}`],
     ["Aircraft CLmax", `${formatNumber(b.clMax)} positive, ${formatNumber(b.clMaxNegative)} negative (flaps up)`],
-    ["Method choice", `${RULE_LABELS[s.inputs.envelope.compressibility]}; ${SPANWISE_LABELS[s.inputs.envelope.spanwise]}, ${s.inputs.envelope.stations} output stations per semispan`],
+    ["Method choice", `${RULE_LABELS[s.inputs.envelope.compressibility]}; ${SPANWISE_LABELS[s.inputs.envelope.spanwise]}${s.result.method?.strips ? `, ${s.result.method.strips} strips` : ""}, ${s.inputs.envelope.stations} output stations per semispan`],
     ["Semispan structural mass", `${q("mass", s.inputs.loads.semispanMass)} ${sym("mass")} (inertia relief)`],
   ]);
   w.subheading("Scope");

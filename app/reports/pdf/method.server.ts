@@ -1,4 +1,5 @@
-import { METHOD_STATEMENT as METHODS } from "~/domain/method-statement";
+import { METHOD_STATEMENT as METHODS, methodUsedLines } from "~/domain/method-statement";
+import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
 import type { Section } from "./layout.server";
 
@@ -7,7 +8,7 @@ const VALIDITY: [string, string, string][] = [
   ["Kármán–Tsien", "Tangent-gas hodograph correction", "M below the critical Mach number; not for the spanwise solve"],
   ["Laitone", "Local-Mach correction of Prandtl–Glauert", "M below the critical Mach number; singular fallback to Prandtl–Glauert"],
   ["Cp* (isentropic, γ = 1.4)", "Sonic pressure coefficient", "Defines the critical Mach number; perfect gas"],
-  ["Lifting line", "Glauert Fourier series", "Unswept or slightly swept wings of moderate to high aspect ratio"],
+  ["Lifting line", "Glauert Fourier series", "Quarter-chord sweep up to 15° (refused beyond), moderate to high aspect ratio"],
   ["Vortex lattice", "Horseshoe vortices, 3/4-chord control points", "Attached flow, linear lift range; swept, tapered, cranked planforms"],
   ["Schrenk", "Mean of chord and ellipse", "Cross-check of the spanwise loading only; unswept wings"],
   ["Pratt gust formula", "Alleviated sharp-edged gust (NACA TN 2964)", "Part 23 gust loads; Part 25 preliminary only (25.341(a) asks for a dynamic analysis)"],
@@ -23,6 +24,10 @@ export function methodStatement({ w, s }: Section) {
     w.subheading(m.title);
     w.bullets(m.body, { size: 8.6 });
   }
+  // What this case's result used (snapshots from before engine 0.3.0 carry no method block).
+  w.subheading("As computed for this case");
+  w.para(axisConvention(referenceAxisOf(s.inputs.planform)));
+  if (s.result.method) w.facts(methodUsedLines(s.result.method));
   w.table(
     [
       { header: "Method", width: 120 },

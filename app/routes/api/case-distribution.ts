@@ -1,5 +1,5 @@
 import { requireCase } from "~/auth/case-access.server";
-import { buildCaseFile, caseInputs } from "~/services/analysis.server";
+import { buildCaseFile, buildSectionsFile, caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionViewForPage } from "~/services/distribution.server";
 import type { Route } from "./+types/case-distribution";
@@ -14,9 +14,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { case: c } = await requireCase(request, params.caseId, "case:read");
   const id = new URL(request.url).searchParams.get("case") ?? "";
   try {
-    const file = buildCaseFile(c.title, caseInputs(await getCaseSteps(c.id)), "envelope");
+    const inputs = caseInputs(await getCaseSteps(c.id));
+    const file = buildCaseFile(c.title, inputs, "envelope");
     if (!file.cases.some((k) => k.id === id)) return apiRefusal(new DomainError(`Case file ${c.reference} has no load case "${id}".`, { kind: "not-found" }));
-    return Response.json(distributionViewForPage(file, id), { headers: { "Cache-Control": "no-store" } });
+    return Response.json(distributionViewForPage(file, id, buildSectionsFile(inputs)), { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
     if (error instanceof DomainError) return apiRefusal(error);
     throw error;

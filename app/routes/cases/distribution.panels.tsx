@@ -6,6 +6,8 @@ import { Panel } from "~/components/ui/page-header";
 import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
 import { formatNumber } from "~/domain/units";
 import type { CaseFlag, DistributionView } from "~/services/distribution.server";
+import { methodUsedLines } from "~/domain/method-statement";
+import type { ResultMethod } from "~/exchange";
 
 type View = Omit<DistributionView, "cases"> & { cases: string[] };
 
@@ -28,6 +30,7 @@ export function CasePicker({ view, flags, computing, show }: { view: View; flags
         <span className="tabular text-ink-muted">
           Mach {formatNumber(view.mach)} · {formatNumber(view.altitude)} m · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
           {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
+          {view.machCriticalSwept !== null && view.machCritical !== null && view.machCriticalSwept > view.machCritical + 1e-9 ? ` · simple sweep theory ${view.machCriticalSwept >= 1 ? "above 1" : formatNumber(view.machCriticalSwept)} (optimistic)` : ""}
         </span>
         {computing ? <span className="text-xs text-ink-muted" role="status">Computing…</span> : null}
       </div>
@@ -39,6 +42,27 @@ export function CasePicker({ view, flags, computing, show }: { view: View; flags
         </ul>
       ) : null}
     </>
+  );
+}
+
+/** What the solve used, and how far its resolution can be trusted: strips, convergence, section scaling, critical-Mach basis. */
+export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultMethod; machCriticalSwept: number | null }) {
+  return (
+    <Panel title="Method used for this case file" className="mb-4">
+      <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[max-content_1fr]" data-testid="method-used">
+        {methodUsedLines(method).map(([label, text]) => (
+          <div key={label} className="contents">
+            <dt className="font-semibold">{label}</dt>
+            <dd>
+              {text}
+              {label === "Critical Mach number"
+                ? `; unswept sections, conservative${machCriticalSwept !== null ? ` (simple sweep theory, optimistic, would give ${machCriticalSwept >= 1 ? "above 1" : formatNumber(machCriticalSwept)} for the case shown)` : ""}`
+                : ""}
+            </dd>
+          </div>
+        ))}
+      </dl>
+    </Panel>
   );
 }
 

@@ -10,7 +10,7 @@ import { distributionStep } from "~/services/distribution.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
-import { CasePicker, DispositionsPanel, DistributionCharts } from "./distribution.panels";
+import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -56,6 +56,7 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
           ) : null}
           {actionData?.ok ? <div className="mb-3"><Alert tone="info">{actionData.message}</Alert></div> : null}
           {errors.length ? <div className="mb-3"><Alert>{errors.map(([k, m]) => `${k}: ${m?.join(" ")}`).join(" · ")}</Alert></div> : null}
+          {loaderData.method ? <MethodUsedPanel method={loaderData.method} machCriticalSwept={view.machCriticalSwept} /> : null}
           <CasePicker view={view} flags={flags} computing={busy || picked.state !== "idle"} show={show} />
           <DistributionCharts view={view} />
           <DispositionsPanel flags={flags} dispositions={loaderData.dispositions} revision={loaderData.revision} canEdit={loaderData.canEdit} busy={busy} show={show} />

@@ -1,4 +1,5 @@
 import { useState } from "react";
+import { VORTEX_LATTICE_DEFAULT_STRIPS } from "~/engine";
 import { vnOption } from "~/charts/vn";
 import { Chart } from "~/components/charts/chart";
 import { SelectField, TextField } from "~/components/forms/field";
@@ -51,11 +52,11 @@ export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; proble
   );
 }
 
-/** The compressibility rule, the spanwise solver and the output stations of every case of this file. */
+/** The compressibility rule, the spanwise solver, its strips and the output stations of every case of this file. */
 export function MethodPanel({ form, server, disabled, busy, noDiagram }: { form: EnvelopeForm; server: FieldErrors | undefined; disabled: boolean; busy: boolean; noDiagram: boolean }) {
   return (
     <Panel title="Method for this case file">
-      <div className="grid gap-x-4 sm:grid-cols-3">
+      <div className="grid gap-x-4 sm:grid-cols-2 xl:grid-cols-4">
         <SelectField label="Compressibility rule" {...form.register("compressibility")} errors={errorsFor(form, server, "compressibility")}>
           {COMPRESSIBILITY_RULES.map((r) => (
             <option key={r} value={r}>
@@ -71,7 +72,11 @@ export function MethodPanel({ form, server, disabled, busy, noDiagram }: { form:
           ))}
         </SelectField>
         <TextField label="Output stations per semispan" inputMode="numeric" {...form.register("stations")} errors={errorsFor(form, server, "stations")} />
+        <TextField label="Vortex-lattice strips per semispan" inputMode="numeric" placeholder={String(VORTEX_LATTICE_DEFAULT_STRIPS)} {...form.register("strips")} errors={errorsFor(form, server, "strips")} />
       </div>
+      <p className="mb-2 text-xs text-ink-muted">
+        Strips set the resolution of the vortex-lattice solve ({VORTEX_LATTICE_DEFAULT_STRIPS} when empty, 8–2000; not used by the lifting line). The distribution page shows how much the result moves when they are halved.
+      </p>
       {disabled ? null : (
         <Button type="submit" variant="secondary" disabled={busy || noDiagram} onClick={() => form.setValue("intent", "generate")}>
           Generate cases from the basis rules

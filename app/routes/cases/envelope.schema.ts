@@ -13,6 +13,8 @@ const method = {
   compressibility: z.enum(COMPRESSIBILITY_RULES, "Choose a compressibility rule"),
   spanwise: z.enum(SPANWISE_METHODS, "Choose a spanwise solver"),
   stations: numberInput("Output stations"),
+  /** Vortex-lattice strips per semispan; empty for the engine's default (60). */
+  strips: optionalNumber("Strips"),
 };
 
 /** The envelope form in display units (altitude and weight); the action converts to SI. */
@@ -50,6 +52,7 @@ export function envelopeFormValues(env: EnvelopeData | null, units: UnitSystem) 
     compressibility: m.compressibility,
     spanwise: m.spanwise,
     stations: String(m.stations),
+    strips: "strips" in m && m.strips !== undefined ? String(m.strips) : "",
     cases: m.cases.map((c) => ({
       id: c.id,
       kind: c.kind,

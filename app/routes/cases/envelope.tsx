@@ -44,7 +44,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const form = parsed.value;
-  const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations };
+  const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations, ...(form.strips !== undefined ? { strips: form.strips } : {}) };
   return answer(async () => {
     const cases = form.intent === "generate" ? regeneratedCases(inputs, method) : casesToSI(form.cases, units);
     const si = EnvelopeSchema.safeParse({ ...method, cases });
@@ -64,7 +64,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
       <PageHeader title="Envelope" description="Load cases from the manoeuvre and gust rules of the basis, drawn on the V–n diagram, and the method used for every case of this file." />
       <ResultsCaution />
       <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      <StepAnswer answer={actionData} inline={["compressibility", "spanwise", "stations", "cases."]} />
+      <StepAnswer answer={actionData} inline={["compressibility", "spanwise", "stations", "strips", "cases."]} />
       <CaseRowErrors server={server} />
       <div className="grid gap-5 2xl:grid-cols-2">
         <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} />

@@ -9,6 +9,7 @@ import { tidy } from "~/domain/form-values";
 import { hasPermission } from "~/domain/permissions";
 import { criticalCase } from "~/domain/results";
 import { LoadsSchema } from "~/domain/step-data";
+import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { fromSI, toSI } from "~/domain/units";
 import { analysedCases, caseInputs } from "~/services/analysis.server";
 import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
@@ -32,6 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     values: { semispanMass: String(tidy(fromSI(units, "mass", inputs.loads?.semispanMass ?? 0))) },
     caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
     ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
+    axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.loads.status !== "submitted",
   };
 }
@@ -58,6 +60,11 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
     <>
       <PageHeader title="Loads" description="Shear, bending moment and torsion about the reference axis along the span for every case, net of inertia relief, and their envelope." />
       <ResultsCaution />
+      {loaderData.axisConvention ? (
+        <p className="mb-3 max-w-5xl text-sm text-ink-muted" data-testid="axis-convention">
+          {loaderData.axisConvention}
+        </p>
+      ) : null}
       <StepAnswer answer={actionData} inline={["semispanMass"]} />
       <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
         <InertiaPanel form={form} onSubmit={onSubmit} server={actionData?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} />

@@ -5,14 +5,32 @@ import { type ZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
-import { COEFFICIENT_COLUMNS, describeProblem, POLAR_COLUMNS, type CsvProblem } from "~/domain/section-csv";
+import { COEFFICIENT_COLUMNS, describeProblem, POLAR_COLUMNS, PRESSURE_COLUMNS, type CsvProblem, type SectionCsvResult } from "~/domain/section-csv";
 import type { SectionsData } from "~/domain/step-data";
 import { formatNumber, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { ActionAnswer, ActionRefusal, FieldErrors } from "~/utils/form-data";
 import type { SectionsFormSchema } from "./sections.schema";
 
 /** A checked upload: the file's data, shown for the engineer to confirm before they are saved. */
-export type Preview = { uploadId: string; filename: string; sha256: string; kind: string; lines: number; rows: SectionsData["rows"]; tables: SectionsData["tables"] };
+export type Preview = {
+  uploadId: string;
+  filename: string;
+  sha256: string;
+  kind: string;
+  lines: number;
+  rows: SectionsData["rows"];
+  tables: SectionsData["tables"];
+  /** A chordwise pressure file: its stations, angles and chord points. */
+  pressures: { y: number; angles: number[]; points: number }[];
+};
+
+/** The preview of a checked file. */
+export function previewOf(upload: { id: string; filename: string; sha256: string }, parsed: Extract<SectionCsvResult, { ok: true }>): Preview {
+  const base = { uploadId: upload.id, filename: upload.filename, sha256: upload.sha256, kind: parsed.kind, lines: parsed.lines };
+  return parsed.kind === "pressures"
+    ? { ...base, rows: [], tables: [], pressures: parsed.pressures.map((p) => ({ y: p.y, angles: p.sets.map((x) => x.alpha), points: p.sets[0]?.x.length ?? 0 })) }
+    : { ...base, rows: parsed.rows, tables: parsed.tables, pressures: [] };
+}
 /** The upload fetcher's answer: the refusal with every problem of the file, or the file's data to confirm. */
 export type UploadAnswer = (ActionRefusal & { problems?: CsvProblem[] }) | (ActionAnswer & { ok: true; preview?: Preview });
 
@@ -31,13 +49,17 @@ export function SectionGridPanel({ form, server, units, disabled }: { form: ZodF
           { key: "cmAc", label: "cm,ac [–]" },
           { key: "clMax", label: "clmax [–]" },
           { key: "cpMin", label: "Cp,min [–]" },
+          { key: "cpMinCl", label: "at cl [–]" },
         ]}
         serverErrors={server}
-        emptyRow={{ y: "", a0: "", alphaL0: "", cmAc: "", clMax: "", cpMin: "" }}
+        emptyRow={{ y: "", a0: "", alphaL0: "", cmAc: "", clMax: "", cpMin: "", cpMinCl: "" }}
         disabled={disabled}
         csvName="section-data.csv"
       />
-      <p className="mt-2 text-xs text-ink-muted">clmax and Cp,min may be left empty: the stall and critical-Mach checks then skip that station.</p>
+      <p className="mt-2 text-xs text-ink-muted">
+        clmax and Cp,min may be left empty: the stall and critical-Mach checks then skip that station. “at cl” is the section lift coefficient the Cp,min was taken at; left empty, a cruise-like 0.4 is assumed, and cases
+        whose lift is far from it are flagged. A polar file with Cp,min per angle gives Cp,min against lift instead, read at each case's own lift.
+      </p>
     </Panel>
   );
 }
@@ -51,7 +73,8 @@ export function UploadPanel({ revision, maxKiB }: { revision: number; maxKiB: nu
       <upload.Form method="post" encType="multipart/form-data">
         <p className="mb-2 text-xs text-ink-muted">
           y in metres. Header line, then one row per station: <code>{COEFFICIENT_COLUMNS.join(", ")}</code> (clMax, cpMin optional) — or polar tables with several rows per station: <code>{POLAR_COLUMNS.join(", ")}</code>, fitted over their linear
-          range. Comma, semicolon or tab separated; at most {maxKiB} KiB.
+          range (cpMin per angle gives Cp,min against lift) — or incompressible chordwise pressures at two or more angles for stations already saved: <code>{PRESSURE_COLUMNS.join(", ")}</code> (x a chord fraction), over which the
+          compressibility rule is then applied point by point. Comma, semicolon or tab separated; at most {maxKiB} KiB.
         </p>
         <label className="block text-sm font-semibold" htmlFor="section-file">
           CSV file
@@ -84,8 +107,68 @@ export function SectionFitCharts({ saved }: { saved: SectionsData | null }) {
   });
 }
 
+/** What richer data the saved sections carry: Cp,min against lift and chordwise pressures, by station. */
+export function RicherDataPanel({ rows, canEdit, revision }: { rows: SectionsData["rows"]; canEdit: boolean; revision: number }) {
+  const withTable = rows.filter((r) => r.cpMinTable);
+  const withPressures = rows.filter((r) => r.pressures);
+  if (!withTable.length && !withPressures.length) return null;
+  return (
+    <Panel title="Richer section data">
+      <div className="space-y-2 text-sm" data-testid="richer-section-data">
+        {withTable.length ? (
+          <p>
+            Cp,min against lift at y = {withTable.map((r) => `${formatNumber(r.y)} m (cl ${formatNumber(r.cpMinTable![0]!.cl)} to ${formatNumber(r.cpMinTable![r.cpMinTable!.length - 1]!.cl)})`).join(", ")}: each case's critical Mach
+            number is taken at its own lift there.
+          </p>
+        ) : null}
+        {withPressures.length ? (
+          <>
+            <p>
+              Chordwise pressures at y = {withPressures.map((r) => `${formatNumber(r.y)} m (${r.pressures!.map((p) => `${formatNumber(p.alpha)}°`).join(", ")})`).join("; ")}: the compressibility rule is applied point by point there.
+            </p>
+            {canEdit ? (
+              <Form method="post">
+                <input type="hidden" name="intent" value="remove-pressures" />
+                <input type="hidden" name="revision" value={revision} />
+                <Button type="submit" variant="secondary">
+                  Remove the pressures
+                </Button>
+              </Form>
+            ) : null}
+          </>
+        ) : null}
+      </div>
+    </Panel>
+  );
+}
+
 function UploadPreview({ preview, revision }: { preview: Preview; revision: number }) {
   const busy = useNavigation().state === "submitting";
+  if (preview.kind === "pressures") {
+    return (
+      <div className="mt-4 border-t border-line pt-3">
+        <p className="text-sm">
+          <strong>{preview.filename}</strong>: {preview.lines} data lines, chordwise pressures at {preview.pressures.length} station{preview.pressures.length === 1 ? "" : "s"}. SHA-256{" "}
+          <code className="text-xs">{preview.sha256.slice(0, 16)}…</code>
+        </p>
+        <ul className="mt-1 list-disc pl-5 text-xs">
+          {preview.pressures.map((p) => (
+            <li key={p.y}>
+              y = {formatNumber(p.y)} m: {p.angles.length} angles ({p.angles.map((a) => `${formatNumber(a)}°`).join(", ")}), {p.points} chord points
+            </li>
+          ))}
+        </ul>
+        <Form method="post" className="mt-3">
+          <input type="hidden" name="intent" value="accept-upload" />
+          <input type="hidden" name="revision" value={revision} />
+          <input type="hidden" name="uploadId" value={preview.uploadId} />
+          <Button type="submit" disabled={busy}>
+            Add these pressures to the saved sections
+          </Button>
+        </Form>
+      </div>
+    );
+  }
   return (
     <div className="mt-4 border-t border-line pt-3">
       <p className="text-sm">
@@ -119,6 +202,11 @@ function UploadPreview({ preview, revision }: { preview: Preview; revision: numb
           y = {t.y}: linear range α = {t.linearFrom}° … {t.linearTo}°
         </p>
       ))}
+      {preview.rows.some((r) => r.cpMinTable) ? (
+        <p className="mt-1 text-xs text-ink-muted">
+          Cp,min varies with the angle at {preview.rows.filter((r) => r.cpMinTable).length} station(s): it is kept against lift, and the Cp,min shown is the one at cl {formatNumber(preview.rows.find((r) => r.cpMinTable)?.cpMinCl ?? null)}.
+        </p>
+      ) : null}
       <Form method="post" className="mt-3">
         <input type="hidden" name="intent" value="accept-upload" />
         <input type="hidden" name="revision" value={revision} />

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { numberInput, tidy } from "~/domain/form-values";
 import type { PlanformData, SectionsData } from "~/domain/step-data";
+import { keepRicherData } from "~/domain/section-csv";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
 const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
@@ -10,23 +11,37 @@ export const SectionsFormSchema = z.discriminatedUnion("intent", [
     intent: z.literal("save"),
     revision: numberInput("Revision"),
     rows: z
-      .array(z.strictObject({ y: numberInput("y"), a0: numberInput("a0"), alphaL0: numberInput("αL0"), cmAc: numberInput("cm,ac"), clMax: optionalNumber("clmax"), cpMin: optionalNumber("Cp,min") }))
+      .array(
+        z.strictObject({
+          y: numberInput("y"),
+          a0: numberInput("a0"),
+          alphaL0: numberInput("αL0"),
+          cmAc: numberInput("cm,ac"),
+          clMax: optionalNumber("clmax"),
+          cpMin: optionalNumber("Cp,min"),
+          cpMinCl: optionalNumber("cl of Cp,min"),
+        }),
+      )
       .min(1, "Give section data for at least one station"),
   }),
   z.strictObject({ intent: z.literal("accept-upload"), revision: numberInput("Revision"), uploadId: z.uuid("Upload a file first") }),
+  z.strictObject({ intent: z.literal("remove-pressures"), revision: numberInput("Revision") }),
 ]);
 
 const text = (v: number | undefined) => (v === undefined ? "" : String(tidy(v)));
 
 /** The saved section data as the grid shows it; before any is saved, one empty row at each planform station. */
 export function sectionsFormValues(saved: SectionsData | null, planform: PlanformData | null, units: UnitSystem) {
-  const rows: { y: number; a0?: number; alphaL0?: number; cmAc?: number; clMax?: number; cpMin?: number }[] = saved?.rows ?? (planform?.stations ?? [{ y: 0 }]).map((s) => ({ y: s.y }));
+  const rows: { y: number; a0?: number; alphaL0?: number; cmAc?: number; clMax?: number; cpMin?: number; cpMinCl?: number }[] = saved?.rows ?? (planform?.stations ?? [{ y: 0 }]).map((s) => ({ y: s.y }));
   return {
-    rows: rows.map((r) => ({ y: text(fromSI(units, "length", r.y)), a0: text(r.a0), alphaL0: text(r.alphaL0), cmAc: text(r.cmAc), clMax: text(r.clMax), cpMin: text(r.cpMin) })),
+    rows: rows.map((r) => ({ y: text(fromSI(units, "length", r.y)), a0: text(r.a0), alphaL0: text(r.alphaL0), cmAc: text(r.cmAc), clMax: text(r.clMax), cpMin: text(r.cpMin), cpMinCl: text(r.cpMinCl) })),
   };
 }
 
-/** Typed rows in SI, as the sections step stores them (the step's own schema checks them next). */
-export function sectionsToSI(input: Extract<z.output<typeof SectionsFormSchema>, { intent: "save" }>, units: UnitSystem) {
-  return { rows: input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), source: { kind: "typed" as const }, tables: [] };
+/**
+ * Typed rows in SI, as the sections step stores them (the step's own schema checks them next); each row
+ * keeps the richer data (Cp,min table, chordwise pressures) the saved row at the same y has.
+ */
+export function sectionsToSI(input: Extract<z.output<typeof SectionsFormSchema>, { intent: "save" }>, units: UnitSystem, saved: SectionsData | null) {
+  return { rows: keepRicherData(input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), saved), source: { kind: "typed" as const }, tables: [] };
 }

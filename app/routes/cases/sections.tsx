@@ -9,11 +9,11 @@ import { hasPermission } from "~/domain/permissions";
 import { MAX_SECTION_CSV_BYTES, type CsvProblem } from "~/domain/section-csv";
 import { SectionsSchema } from "~/domain/step-data";
 import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
-import { receiveSectionCsv, sectionsFromUpload } from "~/services/uploads.server";
+import { receiveSectionCsv, sectionsFromUpload, sectionsWithoutPressures } from "~/services/uploads.server";
 import { fieldErrorsOf, formDataToObject, type ActionRefusal } from "~/utils/form-data";
 import { accepted, answer, refused } from "~/utils/http.server";
 import type { Route } from "./+types/sections";
-import { SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
+import { previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
 import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -48,15 +48,17 @@ export async function action({ request, params }: Route.ActionArgs) {
       const refusal: ActionRefusal & { problems: CsvProblem[] } = { ok: false, message: null, fieldErrors: { file: [`${file.name} was not accepted: ${problems.length} problem(s).`] }, problems };
       return data(refusal, { status: 400 });
     }
-    const { upload, parsed } = received;
-    return accepted(null, { revision: null, preview: { uploadId: upload!.id, filename: upload!.filename, sha256: upload!.sha256, kind: parsed.kind, lines: parsed.lines, rows: parsed.rows, tables: parsed.tables } });
+    return accepted(null, { revision: null, preview: previewOf(received.upload!, received.parsed) });
   }
 
   const checked = SectionsFormSchema.safeParse(formDataToObject(body));
   if (!checked.success) return refused(fieldErrorsOf(checked.error));
   const input = checked.data;
   return answer(async () => {
-    const candidate = input.intent === "save" ? sectionsToSI(input, caseUnits(await getCaseSteps(c.id))) : await sectionsFromUpload(c.id, input.uploadId);
+    const steps = await getCaseSteps(c.id);
+    const saved = stepData(steps, "sections");
+    const candidate =
+      input.intent === "save" ? sectionsToSI(input, caseUnits(steps), saved) : input.intent === "remove-pressures" ? sectionsWithoutPressures(saved) : await sectionsFromUpload(c.id, input.uploadId, saved);
     const si = SectionsSchema.safeParse(candidate);
     if (!si.success) return refused(fieldErrorsOf(si.error));
     return saveStepAnswer({ caseId: c.id, step: "sections", baseRevision: input.revision, data: si.data, actor: current.user });
@@ -88,6 +90,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
         </Form>
         <div className="space-y-5">
           {loaderData.canEdit ? <UploadPanel revision={loaderData.revision} maxKiB={loaderData.maxKiB} /> : null}
+          <RicherDataPanel rows={saved?.rows ?? []} canEdit={loaderData.canEdit} revision={loaderData.revision} />
           <SectionFitCharts saved={saved} />
         </div>
       </div>

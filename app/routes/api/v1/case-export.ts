@@ -1,6 +1,6 @@
 import { requireApiUser } from "~/auth/api-auth.server";
 import { exchangeDocumentText } from "~/exchange";
-import { exportCase } from "~/services/analysis.server";
+import { exportCaseDocuments } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import type { Route } from "./+types/case-export";
 import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
@@ -8,15 +8,25 @@ import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
 /**
  * GET /api/v1/cases/:caseId/export — the case as a `spanwright.case/1` document, as the command
  * line reads it; 409 naming the steps still to save when planform, sections or envelope is missing.
+ * `?part=sections` gives its richer section data as `spanwright.sections/1` instead (the command line's
+ * `--sections`; 404 when the case has none), so the pair reproduces the application's results.
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const current = await requireApiUser(request, "case:read");
+    const part = new URL(request.url).searchParams.get("part") ?? "case";
+    if (part !== "case" && part !== "sections") return Response.json({ error: "bad-request", message: `part must be "case" or "sections" (got "${part}").` }, { status: 400 });
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const file = await exportCase(found.case.id, found.case.title);
+    const { file, sections } = await exportCaseDocuments(found.case.id, found.case.title);
     // The same bytes an issued report attaches for an unchanged case (exchangeDocumentText).
-    return new Response(exchangeDocumentText(file), { headers: { "Content-Type": "application/json", "Content-Disposition": `inline; filename="${filenameOf(found.case.reference)}.case.json"` } });
+    const json = (doc: unknown, name: string, extra: Record<string, string> = {}) =>
+      new Response(exchangeDocumentText(doc), { headers: { "Content-Type": "application/json", "Content-Disposition": `inline; filename="${filenameOf(found.case.reference)}.${name}.json"`, ...extra } });
+    if (part === "sections") {
+      if (!sections) return notFoundJson("Richer section data of this case");
+      return json(sections, "sections");
+    }
+    return json(file, "case", sections ? { Link: `</api/v1/cases/${found.case.id}/export?part=sections>; rel="related"; type="application/json"` } : {});
   });
 }
 

@@ -15,10 +15,12 @@ export const ImportTargetSchema = z.strictObject({
     .regex(/^[A-Za-z0-9][A-Za-z0-9._\-/]*$/, { error: "uses letters, digits and . _ - / only, starting with a letter or digit" }),
   title: z.string().trim().min(3, { error: "has at least 3 characters" }).max(160, { error: "has at most 160 characters" }).optional(),
   case: z.unknown(),
+  /** Richer section data beside the case (`spanwright.sections/1`, docs/decisions/009). */
+  sections: z.unknown().optional(),
 });
 
 /**
- * POST /api/v1/cases/import — `{ programmeId, reference, title?, case }`, or the case document
+ * POST /api/v1/cases/import — `{ programmeId, reference, title?, case, sections? }`, or the case document
  * alone with `?programmeId=&reference=[&title=]`. Creates the case with its planform, sections,
  * envelope and loads steps in one transaction; 422 naming every bad field, and nothing written.
  */
@@ -39,7 +41,7 @@ export async function action({ request }: Route.ActionArgs) {
       return invalidCase(
         target.error.issues.flatMap((i) =>
           i.code === "unrecognized_keys"
-            ? i.keys.map((k) => ({ path: k, message: "is not a field of an import request (programmeId, reference, title, case)" }))
+            ? i.keys.map((k) => ({ path: k, message: "is not a field of an import request (programmeId, reference, title, case, sections)" }))
             : [{ path: i.path.map(String).join(".") || "(body)", message: i.message }],
         ),
       );
@@ -52,6 +54,7 @@ export async function action({ request }: Route.ActionArgs) {
       reference: target.data.reference,
       title: target.data.title,
       document: target.data.case,
+      sections: target.data.sections,
       actor: current.user,
     });
     return Response.json(

@@ -1,7 +1,7 @@
 import { requireApiUser } from "~/auth/api-auth.server";
 import { resultToCsv } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { exportCase, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
+import { exportCaseDocuments, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import type { Route } from "./+types/case-results";
 import { filenameOf } from "./case-export";
@@ -21,8 +21,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const file = await exportCase(found.case.id, found.case.title);
-    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, file, current.user.id) : await resultsOrQueue(found.case.id, file, current.user.id);
+    const { file, sections } = await exportCaseDocuments(found.case.id, found.case.title);
+    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, file, current.user.id, sections) : await resultsOrQueue(found.case.id, file, current.user.id, sections);
     if (answer.pending) {
       return Response.json(
         { status: "computing", message: `${answer.cases} load cases are being solved by a background worker; ask again in a moment.` },
