@@ -84,6 +84,16 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(s.stderr).toMatch(/^wing\.stations\[1\]\.xLe: .*sweep of 89\.0°/m);
   });
 
+  it("names a chord of 0 and a negative a0 in one line each, exit status 2 (a chord of 0 printed a stack trace, exit 1)", () => {
+    const bad = structuredClone(doc);
+    bad.wing.stations[1].chord = 0;
+    bad.wing.stations[0].a0 = -6.05;
+    const r = run(["-"], JSON.stringify(bad));
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe("");
+    expect(r.stderr.trim().split("\n")).toEqual(["wing.stations[0].a0: must be greater than 0 (per radian)", "wing.stations[1].chord: must be greater than 0"]);
+  });
+
   it("reports progress on stderr for a long sweep (a Mach grid here), and the stated interpolation error", () => {
     const sweep = { ...structuredClone(doc), method: { stations: 8, spanwise: "vortex-lattice", strips: 16 } };
     sweep.cases = Array.from({ length: 100 }, (_, i) => ({ id: `c${i}`, mach: 0.2 + 0.004 * i, altitude: 3000, weight: 62000, nz: 1 }));

@@ -97,7 +97,7 @@ export function validateStations(stations: readonly WingStation[]): void {
       throw new EngineError("invalid-planform", "must be greater than the previous station's y (strictly increasing)", f("y"));
     }
     if (!(s.chord > 0)) throw new EngineError("invalid-planform", "must be greater than 0", f("chord"));
-    if (!(s.a0 > 0)) throw new EngineError("invalid-section", "must be greater than 0", f("a0"));
+    if (!(s.a0 > 0)) throw new EngineError("invalid-section", "must be greater than 0 (per radian)", f("a0"));
     if (s.cpMin !== undefined && !(s.cpMin < 0)) throw new EngineError("invalid-section", "must be below 0", f("cpMin"));
     if (s.clMax !== undefined && !(s.clMax > 0)) throw new EngineError("invalid-section", "must be greater than 0", f("clMax"));
     validateSectionData(s, `wing.stations[${i}]`);

@@ -1,5 +1,6 @@
+import { isEngineError } from "./errors";
 import type { WingStation } from "./planform";
-import { wingGeometry } from "./planform";
+import { validateStations, wingGeometry } from "./planform";
 
 /**
  * Plausible ranges of the inputs (docs/engine.md, "Plausible input"). Outside `min`/`max` an input is
@@ -44,6 +45,11 @@ export const PLAUSIBLE = {
 export interface Refusal {
   field: string;
   message: string;
+  /**
+   * True where the station list is not well formed (a chord or slope not above 0, y not increasing…):
+   * a rule every field schema states itself, so a schema that has already said it leaves this one out.
+   */
+  malformed?: boolean;
 }
 
 /** What the plausibility check of a wing found: refusals (impossible) and warnings (unusual). */
@@ -55,10 +61,17 @@ export interface WingPlausibility {
 const fmt = (v: number) => (Math.abs(v) >= 1e4 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : String(Number(v.toPrecision(6))));
 
 /**
- * Check a wing's stations against the plausible ranges (the stations must already be well formed:
- * validateStations). Pure; the exchange schema and solveMach both use it.
+ * Check a wing's stations against the plausible ranges. A station list that is not well formed
+ * (validateStations) gives its first fault as the one refusal, marked `malformed`, and nothing else is
+ * checked; it never throws for bad input. Pure; the exchange schema and solveMach both use it.
  */
 export function wingPlausibility(stations: readonly WingStation[]): WingPlausibility {
+  try {
+    validateStations(stations);
+  } catch (error) {
+    if (!isEngineError(error) || !error.field) throw error;
+    return { refusals: [{ field: error.field, message: error.message.slice(error.field.length + 2), malformed: true }], warnings: [] };
+  }
   const refusals: Refusal[] = [];
   const warnings: string[] = [];
   const P = PLAUSIBLE;
@@ -76,6 +89,7 @@ export function wingPlausibility(stations: readonly WingStation[]): WingPlausibi
       refusals.push({
         field: f("a0"),
         message:
+          // validateStations has refused a0 ≤ 0, so a small positive slope is the per-degree mistake.
           s.a0 < 0.25
             ? `${fmt(s.a0)} is per radian: it looks like a per-degree value (multiply by 57.3); sections have about 2π = 6.28 per radian`
             : `${fmt(s.a0)} per radian is outside ${P.a0.min} to 4π = 12.57: thin-airfoil theory gives 2π, thickness adds a little`,

@@ -85,6 +85,37 @@ describe("impossible input is refused, naming the field (the audit's examples)",
   });
 });
 
+describe("malformed stations are named, never thrown (a chord of 0 crashed the parser)", () => {
+  const at = (i: number, over: Record<string, number>) => {
+    const w = wing();
+    w.stations[i] = { ...w.stations[i], ...over };
+    return doc(w, [{ id: "c", mach: 0.3, altitude: 0, alpha: 2 }]);
+  };
+
+  it.each([0, -1])("a chord of %s at the root or the tip is a refusal naming that station's chord", (chord) => {
+    for (const i of [0, 1]) {
+      const p = problems(at(i, { chord }));
+      expect(p).toEqual([{ path: `wing.stations[${i}].chord`, message: "must be greater than 0" }]);
+    }
+  });
+
+  it("a negative or zero a0 is refused as such, not called a per-degree value", () => {
+    for (const a0 of [-6.1, 0]) {
+      const p = problems(at(0, { a0 }));
+      expect(p).toEqual([{ path: "wing.stations[0].a0", message: "must be greater than 0 (per radian)" }]);
+    }
+    // A small positive slope is the per-degree mistake, and is called so.
+    expect(problems(at(0, { a0: 0.105 }))[0]!.message).toMatch(/per-degree value/);
+  });
+
+  it("the engine's own check names a non-positive a0 the same way (for callers that bypass the schema)", async () => {
+    const { wingPlausibility } = await import("../engine/plausibility");
+    const w = wing();
+    const r = wingPlausibility([{ ...w.stations[0]!, a0: -6.1 }, w.stations[1]!]);
+    expect(r.refusals).toEqual([{ field: "wing.stations[0].a0", message: "must be greater than 0 (per radian)", malformed: true }]);
+  });
+});
+
 describe("unusual input runs, with a warning", () => {
   it("Mach 0.99 without cpMin warns that the critical Mach number is not checked (it ran silently)", () => {
     const r = run(doc(wing(), [{ id: "fast", mach: 0.99, altitude: 11000, alpha: 0.5 }]));

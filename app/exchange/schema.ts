@@ -118,9 +118,10 @@ export const WingSchema = z
         if (v !== undefined && !(v >= 0 && v <= semispan)) ctx.addIssue({ code: "custom", path: ["mass", "items", i, k], message: inside });
       }
     });
-    // Plausible ranges (docs/engine.md): only once the stations are well formed.
-    if (w.stations[0].y !== 0 || w.stations.some((s, i) => i > 0 && !(s.y > w.stations[i - 1].y))) return;
+    // Plausible ranges (docs/engine.md). A malformed station list (chord or a0 not above 0, y out of
+    // order) is named by the field rules above already: the range check then has nothing to add.
     for (const r of wingPlausibility(w.stations).refusals) {
+      if (r.malformed) return;
       ctx.addIssue({ code: "custom", path: r.field.replace(/^wing\./, "").split(/[.[\]]+/).filter(Boolean).map((k) => (/^\d+$/.test(k) ? Number(k) : k)), message: r.message });
     }
   });
