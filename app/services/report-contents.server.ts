@@ -60,7 +60,7 @@ export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
     inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
     exchange,
     result,
-    documents: { case: exchangeDocumentText(exchange) },
+    documents: { case: exchangeDocumentText(exchange), ...(sections ? { sections: exchangeDocumentText(sections) } : {}) },
     flags,
     signatures: await signatureLines(report.caseId),
   };

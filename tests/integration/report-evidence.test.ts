@@ -8,10 +8,11 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, reports, users } from "~/db/schema";
 import { STEPS } from "~/domain/steps";
-import { parseCase } from "~/exchange";
+import { parseCase, parseSections } from "~/exchange";
 import { loader as exportLoader } from "~/routes/api/v1/case-export";
 import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
 import { action as reviewAction } from "~/routes/cases/review";
+import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
 
@@ -89,4 +90,33 @@ describe("the input snapshot travels with the report", () => {
     const result = JSON.parse(fs.readFileSync(path.join(first.dir, "attached", `${stem}.result.json`), "utf8"));
     expect(result).toEqual((first.row.snapshot as { result: unknown }).result);
   });
+});
+
+describe("richer section data travel with the report too", () => {
+  it("attaches them as spanwright.sections/1, byte for byte as the export's sections part gives them", async () => {
+    // Give the case Cp,min against lift (invented values) and issue the next version.
+    const steps = await getCaseSteps(caseId);
+    const saved = steps.sections.data as { rows: { y: number; cpMin?: number }[] };
+    const rows = saved.rows.map((r) => ({ ...r, cpMinTable: [{ cl: 0, cpMin: -0.4 }, { cl: 0.5, cpMin: (r.cpMin ?? -0.6) - 0.02 }, { cl: 1.2, cpMin: -1.6 }] }));
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    await saveStep({ caseId, step: "sections", baseRevision: steps.sections.revision, data: { ...saved, rows }, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    await approveAll();
+    const second = await issue();
+    const stem = second.row.reportNumber.replace(/[^A-Za-z0-9._-]+/g, "_");
+    expect(execFileSync("pdfdetach", ["-list", second.file], { encoding: "utf8" })).toContain(`${stem}.sections.json`);
+    const out = path.join(second.dir, "attached");
+    fs.mkdirSync(out);
+    execFileSync("pdfdetach", ["-saveall", "-o", out, second.file]);
+    const attached = fs.readFileSync(path.join(out, `${stem}.sections.json`));
+    const res = (await exportLoader({ request: request(`/api/v1/cases/${caseId}/export?part=sections`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+    expect(res.status).toBe(200);
+    expect(Buffer.from(attached).equals(Buffer.from(new Uint8Array(await res.arrayBuffer())))).toBe(true);
+    // The command line the report prints reads them, and the result says it used them.
+    const caseDoc = parseCase(JSON.parse(fs.readFileSync(path.join(out, `${stem}.case.json`), "utf8")));
+    if (!caseDoc.ok) throw new Error("the attached case must parse");
+    expect(parseSections(JSON.parse(attached.toString("utf8")), caseDoc.value).ok).toBe(true);
+    expect(second.text).toContain(`--sections ${stem}.sections.json`);
+    const result = JSON.parse(fs.readFileSync(path.join(out, `${stem}.result.json`), "utf8")) as { method: { criticalMach: string } };
+    expect(result.method.criticalMach).toBe("cp-min-against-lift");
+  }, 180_000);
 });
