@@ -3,6 +3,7 @@ import path from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
 import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
 import express, { type Express, type NextFunction, type Request, type Response } from "express";
 import type { ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
@@ -67,6 +68,9 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
     next();
   });
   app.use(sameOriginForWrites(opts.origin));
+  // Pages, JSON, CSV and assets go out compressed (brotli at quality 4, or gzip, as the client
+  // accepts); types that are compressed already (PDF, fonts) are sent as they are.
+  app.use(compression({ threshold: 1024 }));
   // Reads shared by the loaders of one page are made once per request (never in a writing request).
   app.use((req: Request, res: Response, next: NextFunction) => (req.method === "GET" || req.method === "HEAD" ? withRequestMemo(next, (end) => res.once("close", end)) : next()));
   mount(app);

@@ -7,6 +7,7 @@ import { caseResults, cases } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION, isEngineError } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, parseSections, runCase, SECTIONS_SCHEMA_ID, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
 import { DomainError } from "~/domain/errors";
 
@@ -243,7 +244,6 @@ export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorI
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .limit(1);
   if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
-  const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
   return { pending: true, cases: file.cases.length };
 }

@@ -1,8 +1,9 @@
 import { lazy, Suspense, useEffect, useRef, useState } from "react";
 import type { EChartsOption } from "echarts";
 
-// ECharts needs a browser: the server renders a sized frame and the chart appears on hydration.
-const ReactECharts = lazy(() => import("echarts-for-react"));
+// ECharts needs a browser: the server renders a sized frame and the chart appears on hydration,
+// from a chunk of its own holding only the chart types and components the app draws.
+const ReactECharts = lazy(() => import("./echarts-client"));
 
 /** One chart with hover read-outs and PNG/SVG saving; options come from app/charts builders. */
 export function Chart({ option, height = 320, label, fileName }: { option: EChartsOption; height?: number; label: string; fileName: string }) {
@@ -18,7 +19,7 @@ export function Chart({ option, height = 320, label, fileName }: { option: EChar
       a.href = instance.getDataURL({ type: "png", pixelRatio: 2, backgroundColor: "#fff" });
     } else {
       // The same option rendered as vectors, as the PDF report does on the server.
-      const echarts = await import("echarts");
+      const { echarts } = await import("./echarts-svg");
       const off = echarts.init(null, null, { renderer: "svg", ssr: true, width: 900, height });
       off.setOption({ ...option, animation: false });
       a.href = URL.createObjectURL(new Blob([off.renderToSVGString()], { type: "image/svg+xml" }));

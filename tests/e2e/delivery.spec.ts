@@ -1,0 +1,47 @@
+import { expect, test, type Page, type Response } from "@playwright/test";
+import { DEMO_USERS } from "../../app/db/demo";
+
+// What the browser downloads: compressed, only the chart types drawn, nothing of the server.
+// Behaviour, not timing: which headers and which code arrive, never how fast.
+
+async function signIn(page: Page) {
+  const u = DEMO_USERS.find((d) => d.label === "engineer")!;
+  await page.goto("/login");
+  await page.getByLabel("E-mail", { exact: true }).fill(u.email);
+  await page.getByLabel("Password").fill(u.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page).toHaveURL("/cases");
+}
+
+test.setTimeout(120_000);
+
+test("pages and their scripts arrive compressed, with only the chart parts drawn and no server code", async ({ page }) => {
+  await signIn(page);
+  const responses: Response[] = [];
+  page.on("response", (r) => responses.push(r));
+  await page.getByRole("link", { name: "TN-WL-001" }).first().click();
+  await page.getByRole("navigation", { name: "Steps" }).getByRole("link", { name: /Loads/ }).click();
+  await expect(page.getByRole("figure", { name: "Bending moment along the span" }).locator("canvas")).toHaveCount(1, { timeout: 60_000 });
+  // A full load of the same page: the document itself, its styles and every script of the route.
+  responses.length = 0;
+  await page.reload();
+  await expect(page.getByRole("figure", { name: "Bending moment along the span" }).locator("canvas")).toHaveCount(1, { timeout: 60_000 });
+
+  const doc = responses.find((r) => r.request().resourceType() === "document")!;
+  expect(doc.headers()["content-encoding"], "the page's HTML").toMatch(/^(br|gzip)$/);
+  const scripts = responses.filter((r) => r.request().resourceType() === "script" && r.url().includes("/assets/"));
+  expect(scripts.length).toBeGreaterThan(3);
+  let chartCode = "";
+  for (const s of scripts) {
+    const body = await s.text();
+    if (body.length > 1024) expect(s.headers()["content-encoding"], s.url()).toMatch(/^(br|gzip)$/);
+    // The database library and the schema stay on the server.
+    expect(body, s.url()).not.toMatch(/drizzle-orm|pg-protocol|pgTable\(|pg-boss/);
+    if (body.includes("series.line")) chartCode = body;
+  }
+  expect(chartCode, "the chart chunk").not.toBe("");
+  // Only the series the pages draw (line, scatter) are registered; the whole library is not sent.
+  for (const unused of ["series.pie", "series.bar", "series.candlestick", "series.map"]) expect(chartCode).not.toContain(unused);
+  const css = responses.find((r) => r.request().resourceType() === "stylesheet")!;
+  expect(css.headers()["content-encoding"]).toMatch(/^(br|gzip)$/);
+});
