@@ -169,6 +169,18 @@ describe("the signed report PDF of the demo case", () => {
     expect(section).toMatch(new RegExp(comment.split(" ").map(escape).join("[\\s\\S]*?")));
   });
 
+  it("says in its method statement about which axis the loads are taken and what this case's solve used", () => {
+    // Words wrap across lines in extracted text: compare with the white space folded.
+    const text = pages.join("\n").replace(/\s+/g, " ");
+    const method = text.slice(text.indexOf("As computed for this case"));
+    expect(method.length).toBeGreaterThan(0);
+    expect(method).toMatch(/torsion is its component along the axis \(nose up positive\), bending its component about the in-plane normal to the axis/);
+    const m = snapshot.result.method;
+    expect(method).toContain(`Vortex lattice, ${m.strips} strips per semispan`);
+    expect(method).toContain(`With half the strips (${m.convergence.halfResolution})`);
+    expect(method).toMatch(/Critical Mach number one Cp,min per section/);
+  });
+
   it("rasterises every page for a look", async () => {
     await run("pdftoppm", ["-png", "-r", "60", pdfPath, join(dir, "page")]);
     const pngs = (await readdir(dir)).filter((f) => f.endsWith(".png"));
