@@ -6,6 +6,7 @@ import {
   integer,
   jsonb,
   pgTable,
+  primaryKey,
   text,
   timestamp,
   uniqueIndex,
@@ -207,6 +208,27 @@ export const caseResults = pgTable(
     computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
   },
   (t) => [index("case_results_case_idx").on(t.caseId, t.computedAt)],
+);
+
+/**
+ * How far the job worker has got with a large sweep (results.compute): one row per case input and engine
+ * version, written as the engine reports its progress, so every web process can show it while the
+ * result is not stored yet.
+ */
+export const resultProgress = pgTable(
+  "result_progress",
+  {
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    inputHash: text("input_hash").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    /** queued: waiting for a worker; solving: spanwise solves; cases: evaluating the cases; done: stored. */
+    phase: text().$type<"queued" | "solving" | "cases" | "done">().default("queued").notNull(),
+    solves: integer().default(0).notNull(),
+    casesDone: integer("cases_done").default(0).notNull(),
+    casesTotal: integer("cases_total").notNull(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.caseId, t.inputHash, t.engineVersion] })],
 );
 
 /** Files received from people (section-data CSV), stored whole in S3 with their SHA-256. */

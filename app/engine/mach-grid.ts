@@ -12,8 +12,6 @@ export interface MachGridOptions {
   initialIntervals?: number;
   /** Narrowest interval in β: where the tolerance is not met there, the Mach numbers inside are solved directly. */
   minWidth?: number;
-  /** Called after every spanwise solve the grid makes, with the count so far. */
-  onSolve?: (solves: number) => void;
 }
 
 export const MACH_GRID_DEFAULTS = { tolerance: 1e-4, initialIntervals: 6, minWidth: 2e-3 } as const;
@@ -136,6 +134,18 @@ function singularMach(model: WingModel, rule: CompressibilityRule): number {
  * number where the rule becomes singular at a section, every Mach number is solved directly.
  */
 export function buildMachGrid(model: WingModel, opts: SolveOptions, machMin: number, machMax: number, gridOptions: MachGridOptions = {}): MachGrid {
+  const steps = machGridSteps(model, opts, machMin, machMax, gridOptions);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * buildMachGrid one spanwise solve at a time: yields the count of solves made after each, and returns the
+ * grid. A caller that must stay responsive (a job reporting its progress) can pause between solves.
+ */
+export function* machGridSteps(model: WingModel, opts: SolveOptions, machMin: number, machMax: number, gridOptions: MachGridOptions = {}): Generator<number, MachGrid> {
   const tol = gridOptions.tolerance ?? MACH_GRID_DEFAULTS.tolerance;
   const minWidth = gridOptions.minWidth ?? MACH_GRID_DEFAULTS.minWidth;
   const n0 = gridOptions.initialIntervals ?? MACH_GRID_DEFAULTS.initialIntervals;
@@ -143,7 +153,6 @@ export function buildMachGrid(model: WingModel, opts: SolveOptions, machMin: num
   const solve = (m: number) => {
     const s = solveMach(model, m, opts);
     count++;
-    gridOptions.onSolve?.(count);
     return s;
   };
   const singular = singularMach(model, opts.rule);
@@ -155,12 +164,15 @@ export function buildMachGrid(model: WingModel, opts: SolveOptions, machMin: num
   const nodes = new Map<number, MachSolution>();
   // The end nodes are solved at the range's own Mach numbers, so cases there match them exactly.
   nodes.set(bHi, solve(machMin));
+  yield count;
   if (bHi > bLo) {
     for (let i = 1; i < n0; i++) {
       const b = bHi - ((bHi - bLo) * i) / n0;
       nodes.set(b, solve(machOf(b)));
+      yield count;
     }
     nodes.set(bLo, solve(Math.max(machMin, top)));
+    yield count;
   }
   const sortedBetas = () => [...nodes.keys()].sort((a, b) => b - a);
   const interpolate = (betas: number[], b: number, mach: number): MachSolution => {
@@ -189,6 +201,7 @@ export function buildMachGrid(model: WingModel, opts: SolveOptions, machMin: num
       if (!exact) {
         exact = solve(machOf(bm));
         mids.set(bm, exact);
+        yield count;
       }
       const err = solutionDifference(exact, interpolate(betas, bm, exact.mach));
       // Accept at half the tolerance in the middle, where a cubic's error is largest for smooth data,

@@ -7,7 +7,8 @@ import type { MassCase, MassItem } from "../engine/mass";
 import type { MachSolution, ResolutionCheck, SolveOptions, WingModel } from "../engine/superposition";
 import { resolutionCheck, solveMach } from "../engine/superposition";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "../engine/vortex-lattice";
-import { MACH_GRID_DEFAULTS, buildMachGrid } from "../engine/mach-grid";
+import type { MachGrid } from "../engine/mach-grid";
+import { MACH_GRID_DEFAULTS, machGridSteps } from "../engine/mach-grid";
 import { RESULT_SCHEMA_ID } from "./schema";
 import type { CaseFile, CaseResult, ResultCase, ResultMethod } from "./schema";
 import type { SectionsFile } from "./sections";
@@ -45,6 +46,9 @@ export interface RunOptions {
 /** Up to this many distinct Mach numbers each gets its own solve; beyond it they share a Mach grid. */
 export const DIRECT_MACH_LIMIT = 24;
 
+/** Cases evaluated between two progress reports. */
+const CASES_PER_REPORT = 1000;
+
 /**
  * Run a parsed `spanwright.case/1` document: one spanwise solve per distinct Mach number (up to
  * DIRECT_MACH_LIMIT of them; beyond, a Mach grid with a checked interpolation error), every case by
@@ -52,35 +56,66 @@ export const DIRECT_MACH_LIMIT = 24;
  * @throws EngineError for a domain failure the schema cannot see (naming the field).
  */
 export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
+  const steps = runSteps(file, options);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+    options.onProgress?.(step.value);
+  }
+}
+
+/**
+ * runCase for a process that must stay responsive while a long sweep runs (the application's job
+ * worker): between solves and every 1 000 cases it waits for `onProgress` and lets other work run.
+ * The result is the same as runCase's.
+ */
+export async function runCaseAsync(file: CaseFile, options: Omit<RunOptions, "onProgress"> & { onProgress?: (p: RunProgress) => void | Promise<void> } = {}): Promise<CaseResult> {
+  const steps = runSteps(file, options);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+    await options.onProgress?.(step.value);
+    await new Promise<void>((resolve) => setTimeout(resolve, 0));
+  }
+}
+
+/** The run one step at a time: yields after every spanwise solve and every 1 000 cases, returns the result. */
+function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Generator<RunProgress, CaseResult> {
   const model = withSections(wingModelOf(file), options.sections);
   const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
   const machs = [...new Set(file.cases.map((c) => c.mach))].sort((a, b) => a - b);
   let solves = 0;
-  const solved = () => options.onProgress?.({ phase: "solves", done: ++solves });
-  const grid =
-    machs.length > DIRECT_MACH_LIMIT
-      ? buildMachGrid(model, opts, machs[0], machs[machs.length - 1], { onSolve: (n) => options.onProgress?.({ phase: "solves", done: (solves = n) }) })
-      : undefined;
+  let grid: MachGrid | undefined;
+  if (machs.length > DIRECT_MACH_LIMIT) {
+    const building = machGridSteps(model, opts, machs[0], machs[machs.length - 1]);
+    for (let step = building.next(); ; step = building.next()) {
+      if (step.done) {
+        grid = step.value;
+        break;
+      }
+      yield { phase: "solves", done: (solves = step.value) };
+    }
+  }
   const solutions = new Map<number, MachSolution>();
   const solutionFor = (m: number): MachSolution => {
     let sol = solutions.get(m);
     if (!sol) {
-      if (grid) sol = grid.solutionAt(m);
-      else {
-        sol = solveMach(model, m, opts);
-        solved();
-      }
+      sol = grid ? grid.solutionAt(m) : solveMach(model, m, opts);
       solutions.set(m, sol);
     }
     return sol;
   };
+  // Solves made so far: one per distinct Mach number without a grid; the grid's count (its direct solves included) with one.
+  const solvesNow = () => (grid ? grid.solves() : solutions.size);
   const withStations = options.forceStations || file.method.output === "full";
   let env: ReturnType<typeof createEnvelope> | undefined;
   let geometry: MachSolution["geometry"] | undefined;
   const massCases = new Map<string, MassCase>((file.massCases ?? []).map((mc) => [mc.id, mc]));
-  const cases: ResultCase[] = file.cases.map((c, i) => {
+  const cases: ResultCase[] = [];
+  for (let i = 0; i < file.cases.length; i++) {
+    const c = file.cases[i];
     const sol = solutionFor(c.mach);
-    if (options.onProgress && i % 1000 === 999) options.onProgress({ phase: "cases", done: i + 1, total: file.cases.length });
+    if (solvesNow() > solves) yield { phase: "solves", done: (solves = solvesNow()) };
     geometry ??= sol.geometry;
     const massCase = c.massCase !== undefined ? massCases.get(c.massCase) : undefined;
     const lc: LoadCase =
@@ -117,10 +152,10 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
       }));
       // Keep the contract's field order: stations before root.
       const { root, ...rest } = out;
-      return { ...rest, root } as ResultCase;
-    }
-    return out;
-  });
+      cases.push({ ...rest, root } as ResultCase);
+    } else cases.push(out);
+    if ((i + 1) % CASES_PER_REPORT === 0) yield { phase: "cases", done: i + 1, total: file.cases.length };
+  }
   const g = geometry!;
   // Convergence: halve the resolution at the lowest and the highest Mach number solved.
   const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => resolutionCheck(model, m, opts, solutionFor(m)));

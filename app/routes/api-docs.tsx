@@ -42,7 +42,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "GET",
       path: "/api/v1/cases/{caseId}/results",
       permission: "case:read",
-      what: "The spanwright.result/1 document of the case, computed once per input and engine version and then kept. Add ?format=csv for every case's station table as CSV.",
+      what: "The spanwright.result/1 document of the case, computed once per input and engine version and then kept. Add ?format=csv for every case's station table as CSV. A sweep of more than 500 cases is solved by a background worker: until it is stored the answer is 202 with status \"computing\", a message and the progress so far (phase queued, solving or cases; solves, casesDone, casesTotal); ask again after the Retry-After seconds.",
       curl: `curl ${AUTH} -o results.csv "${origin}/api/v1/cases/$CASE_ID/results?format=csv"`,
     },
     {

@@ -3,10 +3,10 @@ import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { caseResults, cases } from "~/db/schema";
+import { caseResults, cases, resultProgress } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION, isEngineError } from "~/engine";
-import { CASE_SCHEMA_ID, parseCase, parseSections, runCase, SECTIONS_SCHEMA_ID, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
 import { DomainError } from "~/domain/errors";
@@ -190,7 +190,13 @@ export function analysisInputHash(parsed: CaseFile, sections?: SectionsFile): st
  * the SHA-256 of the canonical exchange input (and its richer section data) and the engine version, so
  * the same inputs are never solved twice and a result always names what it was computed from.
  */
-export async function resultsFor(caseId: string, file: CaseFileInput, actorId: string | null, sectionsDoc?: SectionsFile): Promise<{ result: CaseResult; inputHash: string; computedAt: Date }> {
+export async function resultsFor(
+  caseId: string,
+  file: CaseFileInput,
+  actorId: string | null,
+  sectionsDoc?: SectionsFile,
+  opts: { recordProgress?: boolean } = {},
+): Promise<{ result: CaseResult; inputHash: string; computedAt: Date }> {
   const parsed = parseOrThrow(file);
   const sections = parseSectionsOrThrow(sectionsDoc, parsed);
   const inputHash = analysisInputHash(parsed, sections);
@@ -203,7 +209,8 @@ export async function resultsFor(caseId: string, file: CaseFileInput, actorId: s
   if (cached) return { result: cached.result as unknown as CaseResult, inputHash, computedAt: cached.computedAt };
   let result: CaseResult;
   try {
-    result = runCase(parsed, { sections });
+    // The job worker runs a sweep step by step and records how far it has got (sweepProgress reads it).
+    result = opts.recordProgress ? await runCaseAsync(parsed, { sections, onProgress: progressRecorder(caseId, inputHash, parsed.cases.length) }) : runCase(parsed, { sections });
   } catch (error) {
     if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
     throw error;
@@ -213,7 +220,40 @@ export async function resultsFor(caseId: string, file: CaseFileInput, actorId: s
     .insert(caseResults)
     .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, computedBy: actorId })
     .returning();
+  if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   return { result, inputHash, computedAt: row!.computedAt };
+}
+
+/** How far the job worker has got with a sweep: its phase, the spanwise solves made and the cases evaluated. */
+export interface SweepProgress {
+  phase: "queued" | "solving" | "cases" | "done";
+  solves: number;
+  casesDone: number;
+  casesTotal: number;
+  updatedAt: Date;
+}
+
+async function recordProgress(caseId: string, inputHash: string, p: Partial<Omit<SweepProgress, "updatedAt">> & { casesTotal: number }) {
+  const values = { ...p, updatedAt: new Date() };
+  await db
+    .insert(resultProgress)
+    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, ...values })
+    .onConflictDoUpdate({ target: [resultProgress.caseId, resultProgress.inputHash, resultProgress.engineVersion], set: values });
+}
+
+/** The engine's progress reports as rows of result_progress (one write per solve and per 1 000 cases). */
+function progressRecorder(caseId: string, inputHash: string, casesTotal: number) {
+  return (p: RunProgress) =>
+    recordProgress(caseId, inputHash, p.phase === "solves" ? { phase: "solving", solves: p.done, casesTotal } : { phase: "cases", casesDone: p.done, casesTotal });
+}
+
+/** The recorded progress of a case input's sweep, or null when no job has taken or queued it. */
+export async function sweepProgress(caseId: string, inputHash: string): Promise<SweepProgress | null> {
+  const [row] = await db
+    .select()
+    .from(resultProgress)
+    .where(and(eq(resultProgress.caseId, caseId), eq(resultProgress.inputHash, inputHash), eq(resultProgress.engineVersion, ENGINE_VERSION)));
+  return row ? { phase: row.phase, solves: row.solves, casesDone: row.casesDone, casesTotal: row.casesTotal, updatedAt: row.updatedAt } : null;
 }
 
 /** Export of a case as the exchange document the CLI reads. */
@@ -234,7 +274,12 @@ export const SWEEP_THRESHOLD = 500;
  * The stored result when there is one; otherwise small cases are solved at once and large sweeps
  * are handed to the job queue (the caller answers "computing" and asks again).
  */
-export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorId: string | null, sections?: SectionsFile): Promise<{ pending: true; cases: number } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
+export async function resultsOrQueue(
+  caseId: string,
+  file: CaseFileInput,
+  actorId: string | null,
+  sections?: SectionsFile,
+): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
   if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
   const parsed = parseOrThrow(file);
   const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
@@ -245,7 +290,9 @@ export async function resultsOrQueue(caseId: string, file: CaseFileInput, actorI
     .limit(1);
   if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
   await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
-  return { pending: true, cases: file.cases.length };
+  // A first row says the sweep waits for a worker; the worker's reports then move it on.
+  await db.insert(resultProgress).values({ caseId, inputHash, engineVersion: ENGINE_VERSION, casesTotal: parsed.cases.length }).onConflictDoNothing();
+  return { pending: true, cases: file.cases.length, progress: await sweepProgress(caseId, inputHash) };
 }
 
 // Serialised result documents by case, input hash and engine version. A result is a function of
@@ -256,7 +303,12 @@ const resultDocuments = new LRUCache<string, string>({ maxSize: 64 * 2 ** 20, si
  * As resultsOrQueue, with the `spanwright.result/1` document already serialised: the API sends the
  * same bytes for the same input without reading and re-encoding the stored result every time.
  */
-export async function resultJsonOrQueue(caseId: string, file: CaseFileInput, actorId: string | null, sections?: SectionsFile): Promise<{ pending: true; cases: number } | { pending: false; json: string; inputHash: string }> {
+export async function resultJsonOrQueue(
+  caseId: string,
+  file: CaseFileInput,
+  actorId: string | null,
+  sections?: SectionsFile,
+): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: string; inputHash: string }> {
   const parsed = parseOrThrow(file);
   const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
   const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
@@ -274,5 +326,5 @@ export async function computeQueuedResults(caseId: string): Promise<void> {
   const [row] = await db.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
   if (!row) return;
   const { file, sections } = await exportCaseDocuments(caseId, row.title);
-  await resultsFor(caseId, file, null, sections);
+  await resultsFor(caseId, file, null, sections, { recordProgress: true });
 }

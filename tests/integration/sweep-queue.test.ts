@@ -2,12 +2,12 @@ import fs from "node:fs";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { programmes, users } from "~/db/schema";
+import { programmes, resultProgress, users } from "~/db/schema";
 import { parseCase, runCase, type CaseFileInput } from "~/exchange";
 import { stopBoss } from "~/jobs/boss.server";
 import { startWorkers } from "~/jobs/workers.server";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
-import { exportCase } from "~/services/analysis.server";
+import { analysisInputHash, exportCase, sweepProgress } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { cookieFor, demoUser, request, seed } from "./helpers";
 
@@ -42,7 +42,17 @@ describe("large sweeps go through the job queue", () => {
   it("answers 202 while a worker solves the sweep, then the stored result, equal to the engine's", async () => {
     const first = await ask();
     expect(first.status).toBe(202);
-    expect(((await first.json()) as { status: string }).status).toBe("computing");
+    const waiting = (await first.json()) as { status: string; message: string; progress: { phase: string; casesTotal: number } };
+    expect(waiting.status).toBe("computing");
+    // Before a worker takes it, the answer says so and how many cases there are.
+    expect(waiting.progress).toEqual({ phase: "queued", solves: 0, casesDone: 0, casesTotal: 600 });
+    expect(waiting.message).toBe("600 load cases wait for a background worker. Ask again in a moment.");
+    // As a worker records its progress, every web process answers with it (set here as a worker would).
+    await db.update(resultProgress).set({ phase: "cases", solves: 6, casesDone: 300 }).where(eq(resultProgress.caseId, caseId));
+    const halfway = (await (await ask()).json()) as { message: string; progress: unknown };
+    expect(halfway.progress).toEqual({ phase: "cases", solves: 6, casesDone: 300, casesTotal: 600 });
+    expect(halfway.message).toBe("600 load cases: spanwise solves done (6); 300 of 600 cases evaluated. Ask again in a moment.");
+    await db.update(resultProgress).set({ phase: "queued", solves: 0, casesDone: 0 }).where(eq(resultProgress.caseId, caseId));
     await startWorkers();
     let answer = first;
     for (let i = 0; i < 60 && answer.status === 202; i++) {
@@ -54,5 +64,8 @@ describe("large sweeps go through the job queue", () => {
     const parsed = parseCase(JSON.parse(JSON.stringify(await exportCase(caseId, "Sweep"))));
     if (!parsed.ok) throw new Error("export does not parse");
     expect(stored).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+    // The worker recorded its progress as it went: one solve per distinct Mach number, every case evaluated.
+    const progress = await sweepProgress(caseId, analysisInputHash(parsed.value));
+    expect(progress).toMatchObject({ phase: "done", solves: 6, casesDone: 600, casesTotal: 600 });
   }, 60_000);
 });

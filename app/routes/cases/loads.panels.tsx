@@ -7,13 +7,14 @@ import { TextField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { DataTable } from "~/components/tables/data-table";
 import { Alert, Panel } from "~/components/ui/page-header";
+import { sweepFraction, type SweepProgressView } from "~/domain/results";
 import type { StepStatus } from "~/domain/vocabulary";
 import { formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseResult, ResultCase } from "~/exchange";
 import type { FieldErrors } from "~/utils/form-data";
 import type { LoadsFormSchema } from "./loads.schema";
 
-type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string };
+type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string; progress: SweepProgressView | null };
 
 /**
  * The case's results from the API, loaded again whenever the loads step gets a new revision, so a
@@ -31,6 +32,7 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number)
   }, [url, ready, revision]);
   const data = results.data;
   const computing = data && "status" in data ? data.message : null;
+  const progress = data && "status" in data ? data.progress : null;
   useEffect(() => {
     if (!computing) return;
     const t = setTimeout(() => results.load(url), 1000);
@@ -40,6 +42,7 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number)
     result: data && "schema" in data ? data : null,
     failure: data && "error" in data ? data.message : null,
     computing,
+    progress,
     loading: results.state !== "idle",
     loadedFor,
   };
@@ -68,7 +71,9 @@ export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, r
 
 /** Where the results stand: not ready, computing, refused, or how many cases with the root bending envelope. */
 export function ResultsStatus({ ready, caseCount, results, current, onSelect, units }: { ready: boolean; caseCount: number; results: ReturnType<typeof useCaseResults>; current: ResultCase | null; onSelect: (id: string) => void; units: UnitSystem }) {
-  const { result, failure, computing, loadedFor } = results;
+  const { result, failure, computing, progress, loadedFor } = results;
+  // A sweep on the job worker shows how far it has got; a request the page waits on only that it runs.
+  const fraction = progress ? sweepFraction(progress) : null;
   const env = result?.envelope ?? [];
   return (
     <div role="status" aria-live="polite">
@@ -78,9 +83,15 @@ export function ResultsStatus({ ready, caseCount, results, current, onSelect, un
         <div className="rounded border border-line bg-surface p-4 text-sm">
           <p className="font-semibold">Computing {caseCount} load case{caseCount === 1 ? "" : "s"}…</p>
           {computing ? <p className="text-xs text-ink-muted">{computing}</p> : null}
-          <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas">
-            <div className="h-full w-1/3 animate-pulse rounded bg-accent" />
-          </div>
+          {fraction !== null && fraction > 0 ? (
+            <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas" role="progressbar" aria-label="Cases evaluated" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(100 * fraction)}>
+              <div className="h-full rounded bg-accent" style={{ width: `${(100 * fraction).toFixed(1)}%` }} />
+            </div>
+          ) : (
+            <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas">
+              <div className="h-full w-1/3 animate-pulse rounded bg-accent" />
+            </div>
+          )}
         </div>
       ) : failure ? (
         <Alert>{failure}</Alert>

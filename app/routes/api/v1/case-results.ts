@@ -1,4 +1,5 @@
 import { requireApiUser } from "~/auth/api-auth.server";
+import { sweepProgressText } from "~/domain/results";
 import { resultToCsv } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
 import { exportCaseDocuments, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
@@ -24,8 +25,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const { file, sections } = await exportCaseDocuments(found.case.id, found.case.title);
     const answer = format === "json" ? await resultJsonOrQueue(found.case.id, file, current.user.id, sections) : await resultsOrQueue(found.case.id, file, current.user.id, sections);
     if (answer.pending) {
+      const p = answer.progress;
       return Response.json(
-        { status: "computing", message: `${answer.cases} load cases are being solved by a background worker; ask again in a moment.` },
+        {
+          status: "computing",
+          message: `${sweepProgressText(p, answer.cases)} Ask again in a moment.`,
+          progress: p ? { phase: p.phase, solves: p.solves, casesDone: p.casesDone, casesTotal: p.casesTotal } : null,
+        },
         { status: 202, headers: { "Retry-After": "1", "Cache-Control": "no-store" } },
       );
     }
