@@ -4,9 +4,9 @@ import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { memberships, signInAttempts, users } from "~/db/schema";
 import { hasPermission, type Permission } from "~/domain/permissions";
-import { dummyPasswordHash, verifyPassword } from "./password.server";
+import { dummyPasswordHash, verifyPassword } from "~/utils/password.server";
 import type { CurrentUser } from "~/domain/people";
-import { clearSessionCookie, createSession, readSession } from "./session.server";
+import { clearSessionCookie, createSession, deleteAllSessions, deleteSession, readSession } from "./session.server";
 
 /** Failed attempts allowed in THROTTLE_WINDOW_MS for one account, and for one client address. */
 export const MAX_FAILURES_PER_ACCOUNT = 5;
@@ -39,6 +39,30 @@ export async function requirePermission(request: Request, permission: Permission
 export async function getOptionalUser(request: Request): Promise<CurrentUser | null> {
   const state = await readSession(request);
   return state.status === "valid" ? state.current : null;
+}
+
+/**
+ * Ends the session of the request (or, with `everywhere`, every session of its person) and records
+ * it; returns the Set-Cookie header that clears the cookie. A request without a valid session only
+ * has its cookie cleared.
+ */
+export async function signOut(request: Request, opts: { everywhere: boolean }): Promise<string> {
+  const state = await readSession(request);
+  if (state.status === "valid") {
+    const { current } = state;
+    if (opts.everywhere) await deleteAllSessions(current.user.id);
+    else await deleteSession(current.sessionId);
+    await db.transaction((tx) =>
+      writeAudit(tx, {
+        organisationId: current.organisation.id,
+        actor: { id: current.user.id, email: current.user.email },
+        action: opts.everywhere ? "auth.sign-out.everywhere" : "auth.sign-out",
+        entityType: "user",
+        entityId: current.user.id,
+      }),
+    );
+  }
+  return clearSessionCookie();
 }
 
 export type SignInResult =

@@ -1,9 +1,9 @@
 import { encodeBase32LowerCaseNoPadding } from "@oslojs/encoding";
-import { and, eq, gt, lt } from "drizzle-orm";
+import { and, desc, eq, gt, lt } from "drizzle-orm";
 import { createCookie } from "react-router";
 import { sha256Hex } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { rethrowUnavailable } from "~/db/unavailable.server";
+import { rethrowUnavailable } from "~/utils/unavailable.server";
 import { memberships, organisations, sessions, users } from "~/db/schema";
 import type { CurrentUser } from "~/domain/people";
 import { cookiesSecure } from "~/utils/env.server";
@@ -101,6 +101,15 @@ async function loadSession(request: Request): Promise<SessionState> {
   }
   const { disabled: _disabled, ...user } = row.user;
   return { status: "valid", current: { sessionId: row.id, user, organisation: row.organisation, roles: row.roles } };
+}
+
+/** The person's open sessions, most recently used first: where they are signed in. */
+export function listSessions(userId: string) {
+  return db
+    .select({ id: sessions.id, method: sessions.method, createdAt: sessions.createdAt, lastSeenAt: sessions.lastSeenAt, userAgent: sessions.userAgent })
+    .from(sessions)
+    .where(eq(sessions.userId, userId))
+    .orderBy(desc(sessions.lastSeenAt));
 }
 
 export async function deleteSession(sessionId: string): Promise<void> {

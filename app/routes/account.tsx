@@ -1,9 +1,7 @@
-import { desc, eq } from "drizzle-orm";
-import { Form, Link } from "react-router";
+import { Form, href, Link } from "react-router";
 import { requireUser } from "~/auth/auth.server";
+import { listSessions } from "~/auth/session.server";
 import { ROLE_LABELS } from "~/domain/permissions";
-import { db } from "~/db/client.server";
-import { sessions } from "~/db/schema";
 import { Button } from "~/components/ui/button";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { formatUtc } from "~/utils/format";
@@ -11,12 +9,7 @@ import type { Route } from "./+types/account";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const current = await requireUser(request);
-  const open = await db
-    .select({ id: sessions.id, method: sessions.method, createdAt: sessions.createdAt, lastSeenAt: sessions.lastSeenAt, userAgent: sessions.userAgent })
-    .from(sessions)
-    .where(eq(sessions.userId, current.user.id))
-    .orderBy(desc(sessions.lastSeenAt));
-  return { current, sessions: open };
+  return { current, sessions: await listSessions(current.user.id) };
 }
 
 export default function AccountRoute({ loaderData }: Route.ComponentProps) {
@@ -37,7 +30,7 @@ export default function AccountRoute({ loaderData }: Route.ComponentProps) {
             <dd>{current.roles.map((r) => ROLE_LABELS[r]).join(", ") || "none"}</dd>
           </dl>
           <p className="mt-4 text-sm">
-            <Link to="/account/tokens">API tokens</Link> — personal tokens for scripts that use the <Link to="/api">Spanwright API</Link>.
+            <Link to={href("/account/tokens")}>API tokens</Link> — personal tokens for scripts that use the <Link to={href("/api")}>Spanwright API</Link>.
           </p>
         </Panel>
         <Panel title="Where you are signed in">
@@ -51,7 +44,7 @@ export default function AccountRoute({ loaderData }: Route.ComponentProps) {
               </li>
             ))}
           </ul>
-          <Form method="post" action="/logout">
+          <Form method="post" action={href("/logout")}>
             <input type="hidden" name="everywhere" value="1" />
             <Button type="submit" variant="danger">
               Sign out everywhere

@@ -1,29 +1,16 @@
-import { desc, eq, lt, and } from "drizzle-orm";
 import { Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { verifyAuditChain } from "~/db/audit.server";
-import { db } from "~/db/client.server";
-import { auditLog } from "~/db/schema";
+import { auditTrail } from "~/services/audit.server";
 import { Alert, PageHeader } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/audit";
 
-const PAGE = 100;
-
 /** The organisation's audit trail, newest first, with a check of the whole hash chain. */
 export async function loader({ request }: Route.LoaderArgs) {
   const current = await requirePermission(request, "audit:read");
   const before = Number(new URL(request.url).searchParams.get("before"));
-  const filters = [eq(auditLog.organisationId, current.organisation.id)];
-  if (Number.isInteger(before) && before > 0) filters.push(lt(auditLog.id, before));
-  const entries = await db.select().from(auditLog).where(and(...filters)).orderBy(desc(auditLog.id)).limit(PAGE);
-  const chain = await verifyAuditChain(db);
-  return {
-    chain,
-    entries: entries.map((e) => ({ id: e.id, at: e.at, actorEmail: e.actorEmail, action: e.action, entityType: e.entityType, entityId: e.entityId, before: e.before, after: e.after, hash: e.hash })),
-    next: entries.length === PAGE ? entries[entries.length - 1]!.id : null,
-  };
+  return auditTrail(current.organisation.id, { before });
 }
 
 export default function AuditRoute({ loaderData }: Route.ComponentProps) {

@@ -1,14 +1,11 @@
-import { Form, Link, useNavigation } from "react-router";
+import { Form, href, Link, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { db } from "~/db/client.server";
-import { cases } from "~/db/schema";
 import { Button } from "~/components/ui/button";
 import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";
-import { listReports, verifyPdf } from "~/services/reports.server";
+import { listReportsWithCases, verifyPdf } from "~/services/reports.server";
 import { formatUtc } from "~/utils/format";
 import { accepted, refused } from "~/utils/http.server";
-import { eq } from "drizzle-orm";
 import type { Route } from "./+types/reports";
 
 /** Largest PDF accepted for verification, bytes. */
@@ -16,11 +13,7 @@ const MAX_VERIFY_BYTES = 50 * 1024 * 1024;
 
 export async function loader({ request }: Route.LoaderArgs) {
   const current = await requirePermission(request, "report:read");
-  const [list, refs] = await Promise.all([
-    listReports(current.organisation.id),
-    db.select({ id: cases.id, reference: cases.reference, title: cases.title }).from(cases).where(eq(cases.organisationId, current.organisation.id)),
-  ]);
-  return { reports: list.map((r) => ({ ...r, case: refs.find((c) => c.id === r.caseId) ?? null })) };
+  return { reports: await listReportsWithCases(current.organisation.id) };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -53,14 +46,14 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
             {loaderData.reports.map((r) => (
               <tr key={r.id} className="border-b border-line last:border-0">
                 <td className="px-3 py-2 font-semibold">
-                  <Link to={`/cases/${r.caseId}/reports`}>{r.reportNumber}</Link>
+                  <Link to={href("/cases/:caseId/reports", { caseId: r.caseId })}>{r.reportNumber}</Link>
                   <span className="block text-xs font-normal text-ink-muted">version {r.version}</span>
                 </td>
                 <td className="px-3 py-2">{r.case ? `${r.case.reference} — ${r.case.title}` : "—"}</td>
                 <td className="px-3 py-2">{r.status === "issued" ? <strong className="text-status-issued">■ issued, awaiting release</strong> : r.status === "released" ? <strong className="text-status-released">★ released</strong> : r.status}</td>
                 <td className="px-3 py-2 tabular">{formatUtc(r.issuedAt)}</td>
                 <td className="px-3 py-2 tabular">{formatUtc(r.releasedAt)}</td>
-                <td className="px-3 py-2">{r.sha256 ? <a href={`/api/v1/reports/${r.id}/pdf`}>Download</a> : "—"}</td>
+                <td className="px-3 py-2">{r.sha256 ? <a href={href("/api/v1/reports/:reportId/pdf", { reportId: r.id })}>Download</a> : "—"}</td>
               </tr>
             ))}
           </ListTable>

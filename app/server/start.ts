@@ -9,7 +9,7 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { DEMO_USERS } from "../db/demo";
+import { DEMO_USERS } from "../demo/scenario";
 
 const dev = process.argv.includes("--dev");
 const dataDir = path.resolve(process.env.SPANWRIGHT_DATA_DIR ?? ".data");
@@ -108,7 +108,7 @@ async function main() {
   const { runMigrations } = await import("../db/migrate.server");
   await runMigrations(process.env.DATABASE_URL!);
   const { db, closeDb } = await import("../db/client.server");
-  const { seedDemo } = await import("../db/seed.server");
+  const { seedDemo } = await import("../demo/seed.server");
   const seeded = await seedDemo(db);
   await closeDb();
   say(`database migrated; demo seed ${seeded.created ? `created ${seeded.created} records` : "already present"}`);

@@ -2,13 +2,14 @@ import { and, desc, eq } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { caseResults, cases, resultProgress } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
-import { ENGINE_VERSION, isEngineError } from "~/engine";
-import { CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { ENGINE_VERSION } from "~/engine";
+import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
+import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError } from "~/domain/errors";
 
 export interface CaseInputs {
@@ -167,7 +168,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
 
 /** Validates an exchange document exactly as the command line does; failures name the field. */
 export function parseOrThrow(file: CaseFileInput): CaseFile {
-  const parsed = parseCase(file);
+  const parsed = runEngine(() => parseCase(file));
   if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: parsed.problems[0]?.path, kind: "unprocessable" });
   return parsed.value;
 }
@@ -175,7 +176,7 @@ export function parseOrThrow(file: CaseFileInput): CaseFile {
 /** Validates a sections document against its case exactly as the command line does; failures name the field. */
 export function parseSectionsOrThrow(sections: SectionsFile | undefined, parsed: CaseFile): SectionsFile | undefined {
   if (!sections) return undefined;
-  const checked = parseSections(sections, parsed);
+  const checked = runEngine(() => parseSections(sections, parsed));
   if (!checked.ok) throw new DomainError(checked.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: checked.problems[0]?.path, kind: "unprocessable" });
   return checked.value;
 }
@@ -195,28 +196,25 @@ export async function resultsFor(
   file: CaseFileInput,
   actorId: string | null,
   sectionsDoc?: SectionsFile,
-  opts: { recordProgress?: boolean } = {},
+  opts: { recordProgress?: boolean; database?: Db | Tx } = {},
 ): Promise<{ result: CaseResult; inputHash: string; computedAt: Date }> {
+  const database = opts.database ?? db;
   const parsed = parseOrThrow(file);
   const sections = parseSectionsOrThrow(sectionsDoc, parsed);
   const inputHash = analysisInputHash(parsed, sections);
-  const [cached] = await db
+  const [cached] = await database
     .select()
     .from(caseResults)
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   if (cached) return { result: cached.result as unknown as CaseResult, inputHash, computedAt: cached.computedAt };
-  let result: CaseResult;
-  try {
-    // The job worker runs a sweep step by step and records how far it has got (sweepProgress reads it).
-    result = opts.recordProgress ? await runCaseAsync(parsed, { sections, onProgress: progressRecorder(caseId, inputHash, parsed.cases.length) }) : runCase(parsed, { sections });
-  } catch (error) {
-    if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
-    throw error;
-  }
+  // The job worker runs a sweep step by step and records how far it has got (sweepProgress reads it).
+  const result = opts.recordProgress
+    ? await runEngineAsync(() => runCaseAsync(parsed, { sections, onProgress: progressRecorder(caseId, inputHash, parsed.cases.length) }))
+    : runEngine(() => runCase(parsed, { sections }));
   const input = (sections ? { case: parsed, sections } : parsed) as unknown as Record<string, unknown>;
-  const [row] = await db
+  const [row] = await database
     .insert(caseResults)
     .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, computedBy: actorId })
     .returning();
@@ -256,14 +254,25 @@ export async function sweepProgress(caseId: string, inputHash: string): Promise<
   return row ? { phase: row.phase, solves: row.solves, casesDone: row.casesDone, casesTotal: row.casesTotal, updatedAt: row.updatedAt } : null;
 }
 
+/**
+ * The stateless analysis the API offers: a `spanwright.case/1` document (or `{ case, sections }`)
+ * computed exactly as the command line computes it; nothing is stored.
+ * @throws DomainError (unprocessable) with every problem of the document, each with its path
+ */
+export function analyze(body: unknown): CaseResult {
+  const answer = runEngine(() => analyzeDocument(body));
+  if (!answer.ok) throw new DomainError(answer.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { kind: "unprocessable", field: answer.problems[0]?.path, problems: answer.problems });
+  return answer.result;
+}
+
 /** Export of a case as the exchange document the CLI reads. */
-export async function exportCase(caseId: string, title: string): Promise<CaseFileInput> {
-  return buildCaseFile(title, caseInputs(await getCaseSteps(caseId)));
+export async function exportCase(caseId: string, title: string, database: Db | Tx = db): Promise<CaseFileInput> {
+  return buildCaseFile(title, caseInputs(await getCaseSteps(caseId, database)));
 }
 
 /** Export of a case with its richer section data (`spanwright.sections/1`, undefined when it has none). */
-export async function exportCaseDocuments(caseId: string, title: string): Promise<{ file: CaseFileInput; sections: SectionsFile | undefined }> {
-  const inputs = caseInputs(await getCaseSteps(caseId));
+export async function exportCaseDocuments(caseId: string, title: string, database: Db | Tx = db): Promise<{ file: CaseFileInput; sections: SectionsFile | undefined }> {
+  const inputs = caseInputs(await getCaseSteps(caseId, database));
   return { file: buildCaseFile(title, inputs), sections: buildSectionsFile(inputs) };
 }
 
@@ -279,16 +288,17 @@ export async function resultsOrQueue(
   file: CaseFileInput,
   actorId: string | null,
   sections?: SectionsFile,
+  database: Db | Tx = db,
 ): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | ({ pending: false } & Awaited<ReturnType<typeof resultsFor>>)> {
-  if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
+  if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
   const parsed = parseOrThrow(file);
   const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
-  const [cached] = await db
+  const [cached] = await database
     .select({ id: caseResults.id })
     .from(caseResults)
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .limit(1);
-  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections)) };
+  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
   await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
   // A first row says the sweep waits for a worker; the worker's reports then move it on.
   await db.insert(resultProgress).values({ caseId, inputHash, engineVersion: ENGINE_VERSION, casesTotal: parsed.cases.length }).onConflictDoNothing();
@@ -322,9 +332,9 @@ export async function resultJsonOrQueue(
 }
 
 /** The job: solve and store the case's current results (idempotent: stored results are reused). */
-export async function computeQueuedResults(caseId: string): Promise<void> {
-  const [row] = await db.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
+export async function computeQueuedResults(caseId: string, database: Db | Tx = db): Promise<void> {
+  const [row] = await database.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
   if (!row) return;
-  const { file, sections } = await exportCaseDocuments(caseId, row.title);
-  await resultsFor(caseId, file, null, sections, { recordProgress: true });
+  const { file, sections } = await exportCaseDocuments(caseId, row.title, database);
+  await resultsFor(caseId, file, null, sections, { recordProgress: true, database });
 }

@@ -2,12 +2,13 @@ import { and, eq } from "drizzle-orm";
 import type { z } from "zod";
 import { STEP_SCHEMAS } from "~/domain/step-data";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, programmes, stepRevisions } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { formatPath, parseCase, parseSections, type CaseFile, type CaseProblem, type SectionsFile } from "~/exchange";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
+import { runEngine } from "./engine.server";
 
 
 /** Refusal of an import: every problem found, each with its path in the exchange document. */
@@ -121,11 +122,11 @@ export function validateImport(json: unknown, sectionsJson?: unknown): { ok: tru
  * The case title is `title`, else the document's title, else the reference.
  * @throws DomainError "unprocessable" with every bad field in `problems`; "not-found"/"conflict" for programme or reference.
  */
-export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; sections?: unknown; actor: Actor }) {
-  const checked = validateImport(input.document, input.sections);
+export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; sections?: unknown; actor: Actor }, database: Db | Tx = db) {
+  const checked = runEngine(() => validateImport(input.document, input.sections));
   if (!checked.ok) throw importRefused(checked.problems);
   const title = input.title ?? checked.file.title ?? input.reference;
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     const [programme] = await tx
       .select()
       .from(programmes)

@@ -60,11 +60,11 @@ export function caseUnits(steps: Record<StepKey, StepState>): UnitSystem {
  * if anyone saved since, nothing is written and the person is told who and when (optimistic
  * concurrency). The revision, its hash, the step's new state and the audit entry are one transaction.
  */
-export async function saveStep(input: { caseId: string; step: StepKey; baseRevision: number; data: Record<string, unknown>; actor: Actor }) {
+export async function saveStep(input: { caseId: string; step: StepKey; baseRevision: number; data: Record<string, unknown>; actor: Actor }, database: Db | Tx = db) {
   const parsed = STEP_SCHEMAS[input.step].safeParse(input.data);
   if (!parsed.success) throw new DomainError(parsed.error.issues[0]?.message ?? "The step's data are not valid", { field: parsed.error.issues[0]?.path.join(".") });
   const data = parsed.data as Record<string, unknown>;
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     await tx.insert(caseSteps).values({ caseId: input.caseId, step: input.step }).onConflictDoNothing();
     const [current] = await tx
       .select({ row: caseSteps, updatedByName: users.name })

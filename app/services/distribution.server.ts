@@ -3,6 +3,7 @@ import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule 
 import { wingModelOf, withSections, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
 import { buildCaseFile, buildSectionsFile, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
+import { runEngine } from "./engine.server";
 
 export interface CaseFlag {
   id: string;
@@ -102,7 +103,7 @@ export type DistributionView = ReturnType<typeof distributionView>;
 
 /** The view with one summary line for all stations over clmax, as the page shows it. */
 export function distributionViewForPage(input: CaseFileInput, caseId: string, sections?: SectionsFile) {
-  const full = distributionView(input, caseId, sections);
+  const full = runEngine(() => distributionView(input, caseId, sections));
   return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings)] };
 }
 

@@ -13,6 +13,7 @@ import {
 import { CASE_SCHEMA_ID, parseCase, wingModelOf } from "~/exchange";
 import { exchangeStations, type CaseInputs } from "./analysis.server";
 import { DomainError } from "~/domain/errors";
+import { runEngine } from "./engine.server";
 
 const G0 = 9.80665;
 const FT = 0.3048;
@@ -40,7 +41,7 @@ function category(basis: BasisData): { part: "23" | "25"; category?: Part23Categ
  * Part 25 gusts use the reference gust velocity without the flight-profile alleviation (F_g = 1,
  * conservative); 25.341(a) asks for a dynamic analysis, so those points are preliminary.
  */
-export function vnSets(basis: BasisData, planform: PlanformData, sections: SectionsData, method: Pick<EnvelopeData, "compressibility" | "spanwise">): VnSet[] {
+function vnSetsOf(basis: BasisData, planform: PlanformData, sections: SectionsData, method: Pick<EnvelopeData, "compressibility" | "spanwise">): VnSet[] {
   const parsed = parseCase({
     schema: CASE_SCHEMA_ID,
     wing: { stations: exchangeStations(planform, sections) },
@@ -108,6 +109,11 @@ export function regeneratedCases(inputs: Pick<CaseInputs, "basis" | "planform" |
   if (!inputs.basis || !inputs.planform || !inputs.sections) throw new DomainError("Save the basis, planform and sections first.", { kind: "conflict" });
   const kept = (inputs.envelope?.cases ?? []).filter((k) => k.kind === "manual");
   return [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method)), ...kept];
+}
+
+/** The V–n diagrams of the basis (as vnSetsOf above), the engine's refusals answered as refusals naming the field. */
+export function vnSets(...args: Parameters<typeof vnSetsOf>): VnSet[] {
+  return runEngine(() => vnSetsOf(...args));
 }
 
 /** Load cases from the V–n corner points (not the 1-g stall point), each naming its rule. */

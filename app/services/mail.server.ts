@@ -1,4 +1,5 @@
 import nodemailer, { type Transporter } from "nodemailer";
+import { listCapturedMail } from "~/server/dev-services/mail";
 import { env } from "~/utils/env.server";
 
 let transport: Transporter | undefined;
@@ -32,4 +33,11 @@ export async function sendMail(mail: Mail): Promise<void> {
     "<p>— Spanwright</p>",
   ].join("\n");
   await transporter().sendMail({ from: env().MAIL_FROM, to: mail.to, subject: mail.subject, text, html });
+}
+
+/** Mail the local capture received, newest first (optionally to one address): the development mailbox. */
+export function capturedMail(opts: { to?: string } = {}) {
+  const dir = env().MAIL_CAPTURE_DIR;
+  if (!dir) throw new Error("MAIL_CAPTURE_DIR is not set: mail goes to a real relay");
+  return listCapturedMail(dir, opts);
 }

@@ -1,10 +1,10 @@
 import { encodeBase32LowerCaseNoPadding } from "@oslojs/encoding";
 import { and, asc, eq, gt, isNull } from "drizzle-orm";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { invitations, memberships, organisations, users } from "~/db/schema";
 import type { Role } from "~/domain/vocabulary";
-import { hashPassword, verifyPassword } from "~/auth/password.server";
+import { hashPassword, verifyPassword } from "~/utils/password.server";
 import { env } from "~/utils/env.server";
 import { sendMail } from "./mail.server";
 import { DomainError } from "~/domain/errors";
@@ -12,8 +12,8 @@ import type { Actor } from "~/domain/people";
 
 const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 
-export async function listMembers(organisationId: string) {
-  return db
+export async function listMembers(organisationId: string, database: Db | Tx = db) {
+  return database
     .select({ userId: users.id, name: users.name, email: users.email, roles: memberships.roles, lastSignInAt: users.lastSignInAt, sso: users.ssoSubject })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
@@ -21,8 +21,8 @@ export async function listMembers(organisationId: string) {
     .orderBy(asc(users.name));
 }
 
-export async function listOpenInvitations(organisationId: string) {
-  return db
+export async function listOpenInvitations(organisationId: string, database: Db | Tx = db) {
+  return database
     .select({ id: invitations.id, email: invitations.email, roles: invitations.roles, createdAt: invitations.createdAt, expiresAt: invitations.expiresAt })
     .from(invitations)
     .where(and(eq(invitations.organisationId, organisationId), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())))
@@ -30,8 +30,8 @@ export async function listOpenInvitations(organisationId: string) {
 }
 
 /** Changes a member's roles; the last administrator cannot remove their own administration. */
-export async function setMemberRoles(input: { organisationId: string; userId: string; roles: Role[]; actor: Actor }) {
-  await db.transaction(async (tx) => {
+export async function setMemberRoles(input: { organisationId: string; userId: string; roles: Role[]; actor: Actor }, database: Db | Tx = db) {
+  await database.transaction(async (tx) => {
     const [member] = await tx
       .select()
       .from(memberships)
@@ -65,7 +65,7 @@ function newToken(): string {
 }
 
 /** Records an invitation (only its token's hash) and e-mails the one-time link. */
-export async function inviteMember(input: { organisationId: string; email: string; roles: Role[]; actor: Actor }) {
+export async function inviteMember(input: { organisationId: string; email: string; roles: Role[]; actor: Actor }, database: Db | Tx = db) {
   const email = input.email.trim().toLowerCase();
   const [existing] = await db
     .select({ id: memberships.id })
@@ -73,9 +73,9 @@ export async function inviteMember(input: { organisationId: string; email: strin
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.organisationId, input.organisationId), eq(users.email, email)));
   if (existing) throw new DomainError(`${email} is already a member of this organisation.`, { field: "email" });
-  const [org] = await db.select().from(organisations).where(eq(organisations.id, input.organisationId));
+  const [org] = await database.select().from(organisations).where(eq(organisations.id, input.organisationId));
   const token = newToken();
-  await db.transaction(async (tx) => {
+  await database.transaction(async (tx) => {
     const [row] = await tx
       .insert(invitations)
       .values({
@@ -107,8 +107,8 @@ export async function inviteMember(input: { organisationId: string; email: strin
   });
 }
 
-export async function revokeInvitation(input: { organisationId: string; invitationId: string; actor: Actor }) {
-  await db.transaction(async (tx) => {
+export async function revokeInvitation(input: { organisationId: string; invitationId: string; actor: Actor }, database: Db | Tx = db) {
+  await database.transaction(async (tx) => {
     const [row] = await tx
       .update(invitations)
       .set({ revokedAt: new Date() })
@@ -120,14 +120,14 @@ export async function revokeInvitation(input: { organisationId: string; invitati
 }
 
 /** The open invitation behind a link, or null when it is unknown, used, revoked or expired. */
-export async function findInvitation(token: string) {
+export async function findInvitation(token: string, database: Db | Tx = db) {
   const [row] = await db
     .select({ invitation: invitations, organisationName: organisations.name })
     .from(invitations)
     .innerJoin(organisations, eq(organisations.id, invitations.organisationId))
     .where(and(eq(invitations.tokenHash, sha256Hex(token)), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())));
   if (!row) return null;
-  const [account] = await db.select({ id: users.id }).from(users).where(eq(users.email, row.invitation.email));
+  const [account] = await database.select({ id: users.id }).from(users).where(eq(users.email, row.invitation.email));
   return { ...row, accountExists: Boolean(account) };
 }
 
@@ -135,16 +135,16 @@ export async function findInvitation(token: string) {
  * Accepts an invitation: a new account is created with the given name and password; an existing
  * account must confirm its password. Either way the membership and the audit entry are one transaction.
  */
-export async function acceptInvitation(input: { token: string; name?: string; password: string }) {
+export async function acceptInvitation(input: { token: string; name?: string; password: string }, database: Db | Tx = db) {
   const found = await findInvitation(input.token);
   if (!found) throw new DomainError("This invitation link is not valid any more (used, revoked or expired).", { field: "token", kind: "not-found" });
   const inv = found.invitation;
-  const [account] = await db.select().from(users).where(eq(users.email, inv.email));
+  const [account] = await database.select().from(users).where(eq(users.email, inv.email));
   if (account && !(account.passwordHash && (await verifyPassword(account.passwordHash, input.password)))) {
     throw new DomainError("The password is not correct for this existing account.", { field: "password", kind: "unauthenticated" });
   }
   const passwordHash = account ? null : await hashPassword(input.password);
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     let userId = account?.id;
     if (!userId) {
       const [created] = await tx.insert(users).values({ email: inv.email, name: input.name!.trim(), passwordHash }).returning();

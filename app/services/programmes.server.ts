@@ -1,14 +1,14 @@
 import { and, asc, count, desc, eq } from "drizzle-orm";
 import { writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
 import { memoised } from "~/utils/request-memo.server";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 
 
-export async function listProgrammes(organisationId: string) {
-  return db
+export async function listProgrammes(organisationId: string, database: Db | Tx = db) {
+  return database
     .select({
       id: programmes.id,
       code: programmes.code,
@@ -25,17 +25,17 @@ export async function listProgrammes(organisationId: string) {
 }
 
 /** A programme of the given organisation only; another organisation's id gives null, as an unknown one does. */
-export async function getProgramme(organisationId: string, programmeId: string) {
+export async function getProgramme(organisationId: string, programmeId: string, database: Db | Tx = db) {
   if (!isUuid(programmeId)) return null;
-  const [row] = await db
+  const [row] = await database
     .select()
     .from(programmes)
     .where(and(eq(programmes.id, programmeId), eq(programmes.organisationId, organisationId)));
   return row ?? null;
 }
 
-export async function createProgramme(input: { organisationId: string; code: string; name: string; aircraft: string; description: string; actor: Actor }) {
-  return db.transaction(async (tx) => {
+export async function createProgramme(input: { organisationId: string; code: string; name: string; aircraft: string; description: string; actor: Actor }, database: Db | Tx = db) {
+  return database.transaction(async (tx) => {
     const [clash] = await tx
       .select({ id: programmes.id })
       .from(programmes)
@@ -50,11 +50,11 @@ export async function createProgramme(input: { organisationId: string; code: str
   });
 }
 
-export async function listCases(organisationId: string, opts: { programmeId?: string; status?: string } = {}) {
+export async function listCases(organisationId: string, opts: { programmeId?: string; status?: string } = {}, database: Db | Tx = db) {
   const filters = [eq(cases.organisationId, organisationId)];
   if (opts.programmeId) filters.push(eq(cases.programmeId, opts.programmeId));
   if (opts.status) filters.push(eq(cases.status, opts.status as never));
-  return db
+  return database
     .select({
       id: cases.id,
       reference: cases.reference,
@@ -74,13 +74,14 @@ export async function listCases(organisationId: string, opts: { programmeId?: st
     .orderBy(desc(cases.updatedAt));
 }
 
-export async function getCase(organisationId: string, caseId: string) {
+export async function getCase(organisationId: string, caseId: string, database: Db | Tx = db) {
   if (!isUuid(caseId)) return null;
-  return memoised(`case:${organisationId}:${caseId}`, () => readCase(organisationId, caseId));
+  // Inside a transaction the caller may have just written: only plain reads are shared per request.
+  return database === db ? memoised(`case:${organisationId}:${caseId}`, () => readCase(organisationId, caseId, db)) : readCase(organisationId, caseId, database);
 }
 
-async function readCase(organisationId: string, caseId: string) {
-  const [row] = await db
+async function readCase(organisationId: string, caseId: string, database: Db | Tx) {
+  const [row] = await database
     .select({ case: cases, programme: programmes, createdByName: users.name })
     .from(cases)
     .innerJoin(programmes, eq(programmes.id, cases.programmeId))
@@ -89,8 +90,8 @@ async function readCase(organisationId: string, caseId: string) {
   return row ?? null;
 }
 
-export async function createCase(input: { organisationId: string; programmeId: string; reference: string; title: string; description: string; actor: Actor }) {
-  return db.transaction(async (tx) => {
+export async function createCase(input: { organisationId: string; programmeId: string; reference: string; title: string; description: string; actor: Actor }, database: Db | Tx = db) {
+  return database.transaction(async (tx) => {
     const [programme] = await tx
       .select()
       .from(programmes)

@@ -1,7 +1,7 @@
 import { STEPS } from "~/domain/steps";
 import { formatNumber } from "~/domain/units";
 import { criticalCase } from "~/domain/results";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, organisations, programmes, type Report } from "~/db/schema";
 import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
 import { exchangeDocumentText } from "~/exchange";
@@ -19,8 +19,8 @@ import { liveSignatures } from "./review.server";
  */
 
 /** Signature lines of a case (live ones) for the report's signature page. */
-async function signatureLines(caseId: string): Promise<SignatureLine[]> {
-  const live = await liveSignatures(caseId);
+async function signatureLines(caseId: string, database: Db | Tx): Promise<SignatureLine[]> {
+  const live = await liveSignatures(caseId, database);
   return live
     .filter((s) => s.reportId === null)
     .sort((a, b) => a.signedAt.getTime() - b.signedAt.getTime())
@@ -28,20 +28,20 @@ async function signatureLines(caseId: string): Promise<SignatureLine[]> {
 }
 
 /** Freezes everything the report is made from. */
-export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
-  const [row] = await db
+export async function buildSnapshot(report: Report, database: Db | Tx = db): Promise<ReportSnapshot> {
+  const [row] = await database
     .select({ c: cases, p: programmes, o: organisations })
     .from(cases)
     .innerJoin(programmes, eq(programmes.id, cases.programmeId))
     .innerJoin(organisations, eq(organisations.id, cases.organisationId))
     .where(eq(cases.id, report.caseId));
-  const steps = await getCaseSteps(report.caseId);
+  const steps = await getCaseSteps(report.caseId, database);
   const inputs = caseInputs(steps);
   if (!inputs.basis || !inputs.planform || !inputs.sections || !inputs.envelope || !inputs.loads) throw new Error("a step of the case has no valid data");
   const exchange = buildCaseFile(row!.c.title, inputs);
   const sections = buildSectionsFile(inputs);
-  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy, sections);
-  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy, sections)).result).map((f) => ({
+  const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy, sections, { database });
+  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy, sections, { database })).result).map((f) => ({
     ...f,
     action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
     comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",
@@ -62,7 +62,7 @@ export async function buildSnapshot(report: Report): Promise<ReportSnapshot> {
     result,
     documents: { case: exchangeDocumentText(exchange), ...(sections ? { sections: exchangeDocumentText(sections) } : {}) },
     flags,
-    signatures: await signatureLines(report.caseId),
+    signatures: await signatureLines(report.caseId, database),
   };
 }
 

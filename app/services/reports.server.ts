@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, caseSteps, memberships, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
 import { ISSUED_REPORT_STATUSES, PENDING_REPORT_STATUSES, type Role } from "~/domain/vocabulary";
 import { boss, QUEUES, REPORT_JOB_OPTIONS } from "~/jobs/boss.server";
@@ -42,15 +42,15 @@ export async function requestReport(input: { caseId: string; actor: Actor }): Pr
 }
 
 /** The queued report row of the next version, after every check; the caller generates or enqueues it. */
-export async function createReportRow(input: { caseId: string; actor: Actor }): Promise<Report> {
-  const [current] = await db.select().from(cases).where(eq(cases.id, input.caseId));
+export async function createReportRow(input: { caseId: string; actor: Actor }, database: Db | Tx = db): Promise<Report> {
+  const [current] = await database.select().from(cases).where(eq(cases.id, input.caseId));
   if (!current) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
-  const currentInputs = caseInputs(await getCaseSteps(input.caseId));
+  const currentInputs = caseInputs(await getCaseSteps(input.caseId, database));
   const currentFile = parseOrThrow(buildCaseFile(current.title, currentInputs));
   const inputHash = analysisInputHash(currentFile, parseSectionsOrThrow(buildSectionsFile(currentInputs), currentFile));
-  const [latest] = await db.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES]))).orderBy(desc(reports.version)).limit(1);
+  const [latest] = await database.select().from(reports).where(and(eq(reports.caseId, input.caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES]))).orderBy(desc(reports.version)).limit(1);
   if (latest?.inputHash === inputHash) throw new DomainError(`Nothing has changed since version ${latest.version} (${latest.reportNumber}): that report stands.`, { field: "case", kind: "conflict" });
-  return db.transaction(async (tx) => {
+  return database.transaction(async (tx) => {
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId)).for("update");
     if (!c) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId));
@@ -83,10 +83,10 @@ async function setProgress(reportId: string, progress: number, note: string) {
  * "issued" with the object's size and SHA-256. If that transaction fails the object is removed; if
  * the upload fails nothing is recorded and the job is retried. A finished report is left alone.
  */
-export async function generateReport(reportId: string, attempt: { retryCount: number; retryLimit: number } = { retryCount: 0, retryLimit: 0 }): Promise<void> {
-  const [report] = await db.select().from(reports).where(eq(reports.id, reportId));
+export async function generateReport(reportId: string, attempt: { retryCount: number; retryLimit: number } = { retryCount: 0, retryLimit: 0 }, database: Db | Tx = db): Promise<void> {
+  const [report] = await database.select().from(reports).where(eq(reports.id, reportId));
   if (!report || report.status === "issued" || report.status === "released") return;
-  await db.update(reports).set({ status: "generating", attempts: report.attempts + 1, failure: null }).where(eq(reports.id, reportId));
+  await database.update(reports).set({ status: "generating", attempts: report.attempts + 1, failure: null }).where(eq(reports.id, reportId));
   let key: string | null = null;
   try {
     await setProgress(reportId, 10, "freezing the inputs and results");
@@ -99,7 +99,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     const bucket = env().S3_BUCKET_REPORTS;
     key = `cases/${report.caseId}/${report.reportNumber}.pdf`;
     await putObject(bucket, key, pdf, "application/pdf", sha256);
-    await db.transaction(async (tx) => {
+    await database.transaction(async (tx) => {
       const [locked] = await tx.select().from(reports).where(eq(reports.id, reportId)).for("update");
       if (!locked || locked.status === "issued" || locked.status === "released") throw new DomainError("already issued", { field: "report", kind: "conflict" });
       await tx
@@ -123,7 +123,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     throw error;
   }
   await mailRole(report.organisationId, "quality", `${report.reportNumber} issued`, [`Report ${report.reportNumber} (version ${report.version}) has been issued and waits for release.`], `/reports`);
-  const [requester] = await db.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
+  const [requester] = await database.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
   if (requester) {
     await sendMail({ to: requester.email, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
   }
@@ -151,9 +151,9 @@ async function removeUnrecorded(bucket: string, key: string): Promise<void> {
 }
 
 /** Quality's release: a signature with meaning "released" on exactly the issued PDF bytes. */
-export async function releaseReport(input: { reportId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }) {
+export async function releaseReport(input: { reportId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }, database: Db | Tx = db) {
   const actor = input.current.user;
-  const released = await db.transaction(async (tx) => {
+  const released = await database.transaction(async (tx) => {
     const [r] = await tx.select().from(reports).where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId))).for("update");
     if (!r) throw new DomainError("Report not found.", { field: "reportId", kind: "not-found" });
     if (r.status !== "issued") throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, { field: "status", kind: "conflict" });
@@ -188,8 +188,17 @@ export interface ReportListItem {
   signatures: { name: string; role: string; meaning: string; signedAt: Date; revisionHash: string }[];
 }
 
+/** Every report of the organisation with the reference and title of its case. */
+export async function listReportsWithCases(organisationId: string, database: Db | Tx = db) {
+  const [list, refs] = await Promise.all([
+    listReports(organisationId, undefined, database),
+    database.select({ id: cases.id, reference: cases.reference, title: cases.title }).from(cases).where(eq(cases.organisationId, organisationId)),
+  ]);
+  return list.map((r) => ({ ...r, case: refs.find((c) => c.id === r.caseId) ?? null }));
+}
+
 /** Reports of one case (or of the organisation), with every signature that stands behind each. */
-export async function listReports(organisationId: string, caseId?: string): Promise<ReportListItem[]> {
+export async function listReports(organisationId: string, caseId?: string, database: Db | Tx = db): Promise<ReportListItem[]> {
   const rows = await db
     .select()
     .from(reports)
@@ -197,7 +206,7 @@ export async function listReports(organisationId: string, caseId?: string): Prom
     .orderBy(desc(reports.requestedAt));
   const caseIds = [...new Set(rows.map((r) => r.caseId))];
   const sigs = caseIds.length
-    ? await db.select({ s: signatures, v: signatureVoids.id }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(inArray(signatures.caseId, caseIds)).orderBy(asc(signatures.signedAt))
+    ? await database.select({ s: signatures, v: signatureVoids.id }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(inArray(signatures.caseId, caseIds)).orderBy(asc(signatures.signedAt))
     : [];
   return rows.map((r) => {
     // A report carries the case signatures frozen into its snapshot, plus its own release.
@@ -207,8 +216,8 @@ export async function listReports(organisationId: string, caseId?: string): Prom
   });
 }
 
-export async function getReport(organisationId: string, reportId: string) {
-  const [r] = await db.select().from(reports).where(and(eq(reports.id, reportId), eq(reports.organisationId, organisationId)));
+export async function getReport(organisationId: string, reportId: string, database: Db | Tx = db) {
+  const [r] = await database.select().from(reports).where(and(eq(reports.id, reportId), eq(reports.organisationId, organisationId)));
   return r ?? null;
 }
 
@@ -224,26 +233,26 @@ export async function reportBytes(r: Report): Promise<Uint8Array> {
  * The stored PDF of a report for a download, with the download recorded in the audit log.
  * @throws DomainError (not-found) for a report of another organisation or one without a PDF yet
  */
-export async function downloadReport(input: { organisationId: string; reportId: string; actor: Actor }): Promise<{ report: Report; bytes: Uint8Array }> {
+export async function downloadReport(input: { organisationId: string; reportId: string; actor: Actor }, database: Db | Tx = db): Promise<{ report: Report; bytes: Uint8Array }> {
   const report = isUuid(input.reportId) ? await getReport(input.organisationId, input.reportId) : null;
   if (!report || !report.sha256) throw new DomainError("The report was not found, or you have no access to it.", { kind: "not-found" });
   const bytes = await reportBytes(report);
-  await db.transaction((tx) => writeAudit(tx, { organisationId: report.organisationId, actor: input.actor, action: "report.download", entityType: "report", entityId: report.id }));
+  await database.transaction((tx) => writeAudit(tx, { organisationId: report.organisationId, actor: input.actor, action: "report.download", entityType: "report", entityId: report.id }));
   return { report, bytes };
 }
 
 /** Which issued report of the organisation a PDF is, by the SHA-256 of its bytes. */
-export async function verifyPdf(organisationId: string, bytes: Uint8Array) {
+export async function verifyPdf(organisationId: string, bytes: Uint8Array, database: Db | Tx = db) {
   const sha256 = sha256Hex(bytes);
-  const [r] = await db.select().from(reports).where(and(eq(reports.organisationId, organisationId), eq(reports.sha256, sha256)));
+  const [r] = await database.select().from(reports).where(and(eq(reports.organisationId, organisationId), eq(reports.sha256, sha256)));
   return { sha256, report: r ?? null };
 }
 
 
 
 /** The two newest issued versions of a case's report, and what changed between them; null before a second version. */
-export async function latestVersionChanges(caseId: string) {
-  const issued = await db
+export async function latestVersionChanges(caseId: string, database: Db | Tx = db) {
+  const issued = await database
     .select({ version: reports.version, snapshot: reports.snapshot })
     .from(reports)
     .where(and(eq(reports.caseId, caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES])))

@@ -1,8 +1,8 @@
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
-import { verifyPassword } from "~/auth/password.server";
+import { verifyPassword } from "~/utils/password.server";
 import { STEPS, downstreamOf } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
-import { db, type Tx } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, memberships, sessions, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
 import type { Role, SignatureMeaning, StepKey } from "~/domain/vocabulary";
 import { env } from "~/utils/env.server";
@@ -52,23 +52,23 @@ async function lockStep(tx: Tx, caseId: string, step: StepKey) {
  * Re-confirms the signer's identity before a signature: their password, or a company sign-in less
  * than ten minutes old for people who sign in through the identity provider.
  */
-export async function confirmIdentity(current: CurrentUser, password: string | undefined): Promise<"password" | "sso"> {
-  const [user] = await db.select().from(users).where(eq(users.id, current.user.id));
+export async function confirmIdentity(current: CurrentUser, password: string | undefined, database: Db | Tx = db): Promise<"password" | "sso"> {
+  const [user] = await database.select().from(users).where(eq(users.id, current.user.id));
   if (password) {
     if (user?.passwordHash && (await verifyPassword(user.passwordHash, password))) return "password";
     throw new DomainError("The password is not correct: the signature was not recorded.", { field: "password", kind: "unauthenticated" });
   }
   if (!current.sessionId.startsWith("token:")) {
-    const [session] = await db.select().from(sessions).where(eq(sessions.id, current.sessionId));
+    const [session] = await database.select().from(sessions).where(eq(sessions.id, current.sessionId));
     if (session?.method === "sso" && Date.now() - session.createdAt.getTime() < FRESH_SSO_MS) return "sso";
   }
   throw new DomainError("Confirm your identity to sign: enter your password (or sign in again with company sign-in).", { field: "password", kind: "unauthenticated" });
 }
 
 /** Submits a saved step for check: it becomes read-only for the engineer and the checkers are told. */
-export async function submitStep(input: { caseId: string; step: StepKey; actor: Actor; comment?: string; blockers?: string[] }) {
+export async function submitStep(input: { caseId: string; step: StepKey; actor: Actor; comment?: string; blockers?: string[] }, database: Db | Tx = db) {
   if (input.blockers?.length) throw new DomainError(input.blockers.join(" "), { field: "step", kind: "conflict" });
-  const result = await db.transaction(async (tx) => {
+  const result = await database.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
     if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, { field: "status", kind: "conflict" });
     await tx.update(caseSteps).set({ status: "submitted" }).where(eq(caseSteps.id, row.id));
@@ -87,9 +87,9 @@ export async function submitStep(input: { caseId: string; step: StepKey; actor: 
 }
 
 /** Returns a submitted step to the engineer with the checker's comments. */
-export async function returnStep(input: { caseId: string; step: StepKey; actor: Actor; comment: string; anchor?: string }) {
+export async function returnStep(input: { caseId: string; step: StepKey; actor: Actor; comment: string; anchor?: string }, database: Db | Tx = db) {
   if (input.comment.trim().length < 3) throw new DomainError("Say what needs to change: a comment is required to return a step.", { field: "comment" });
-  const result = await db.transaction(async (tx) => {
+  const result = await database.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
     if (row.status !== "submitted") throw new DomainError("Only a submitted step can be returned.", { field: "status", kind: "conflict" });
     await tx.update(caseSteps).set({ status: "returned" }).where(eq(caseSteps.id, row.id));
@@ -108,9 +108,9 @@ export async function returnStep(input: { caseId: string; step: StepKey; actor: 
  * Approves a submitted step with a signature (meaning "checked"). Refused to anyone who edited the
  * step's current revision: nobody checks their own work.
  */
-export async function approveStep(input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string }) {
+export async function approveStep(input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
-  const result = await db.transaction(async (tx) => {
+  const result = await database.transaction(async (tx) => {
     const row = await lockStep(tx, input.caseId, input.step);
     if (row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", { field: "status", kind: "conflict" });
     const [rev] = await tx.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
@@ -130,7 +130,7 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
     await writeAudit(tx, { organisationId: c!.organisationId, actor, action: `step.${input.step}.approve`, entityType: "case", entityId: input.caseId, after: { signatureId: sig!.id, step: input.step, revision: row.revision, revisionHash, meaning: "checked" } });
     return { case: c!, revision: row.revision, author: rev.createdBy };
   });
-  const [author] = await db.select({ email: users.email }).from(users).where(eq(users.id, result.author));
+  const [author] = await database.select({ email: users.email }).from(users).where(eq(users.id, result.author));
   if (author) await notify([author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
 }
 
@@ -149,9 +149,9 @@ export async function liveSignatures(caseId: string, database: Tx | typeof db = 
  * The checker's signature on the whole case ("approved for issue") once every step is approved;
  * its hash binds the signed revision hash of every step. Only then may a report be requested.
  */
-export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }) {
+export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }, database: Db | Tx = db) {
   const actor = input.current.user;
-  await db.transaction(async (tx) => {
+  await database.transaction(async (tx) => {
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId)).for("update");
     if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", { field: "steps", kind: "conflict" });
     const live = await liveSignatures(input.caseId, tx);
@@ -193,9 +193,9 @@ export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; st
   return toVoid.map((s) => s.id);
 }
 
-export async function addComment(input: { caseId: string; step: StepKey; actor: Actor; body: string; anchor?: string }) {
+export async function addComment(input: { caseId: string; step: StepKey; actor: Actor; body: string; anchor?: string }, database: Db | Tx = db) {
   if (input.body.trim().length === 0) throw new DomainError("Write a comment.", { field: "body" });
-  await db.transaction(async (tx) => {
+  await database.transaction(async (tx) => {
     const [row] = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, input.caseId), eq(caseSteps.step, input.step)));
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
     await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row?.revision ?? 0, authorId: input.actor.id, kind: "comment", anchor: input.anchor?.trim() || null, body: input.body.trim() });
@@ -204,12 +204,12 @@ export async function addComment(input: { caseId: string; step: StepKey; actor: 
 }
 
 /** Everything the review page shows: per step, its state, thread and signatures (voided ones marked). */
-export async function reviewState(caseId: string) {
+export async function reviewState(caseId: string, database: Db | Tx = db) {
   const [steps, comments, sigs, revs] = await Promise.all([
-    db.select({ step: caseSteps.step, status: caseSteps.status, revision: caseSteps.revision }).from(caseSteps).where(eq(caseSteps.caseId, caseId)),
-    db.select({ c: stepComments, author: users.name }).from(stepComments).innerJoin(users, eq(users.id, stepComments.authorId)).where(eq(stepComments.caseId, caseId)).orderBy(asc(stepComments.createdAt)),
-    stepSignatures(caseId),
-    db.select({ step: stepRevisions.step, revision: stepRevisions.revision, createdBy: stepRevisions.createdBy, author: users.name }).from(stepRevisions).innerJoin(users, eq(users.id, stepRevisions.createdBy)).where(eq(stepRevisions.caseId, caseId)),
+    database.select({ step: caseSteps.step, status: caseSteps.status, revision: caseSteps.revision }).from(caseSteps).where(eq(caseSteps.caseId, caseId)),
+    database.select({ c: stepComments, author: users.name }).from(stepComments).innerJoin(users, eq(users.id, stepComments.authorId)).where(eq(stepComments.caseId, caseId)).orderBy(asc(stepComments.createdAt)),
+    stepSignatures(caseId, database),
+    database.select({ step: stepRevisions.step, revision: stepRevisions.revision, createdBy: stepRevisions.createdBy, author: users.name }).from(stepRevisions).innerJoin(users, eq(users.id, stepRevisions.createdBy)).where(eq(stepRevisions.caseId, caseId)),
   ]);
   return STEPS.map((s) => {
     const row = steps.find((r) => r.step === s.key);
@@ -229,13 +229,13 @@ export async function reviewState(caseId: string) {
 }
 
 /** Every step signature of the case (not those of reports), newest first, voided ones marked. */
-export async function stepSignatures(caseId: string) {
-  const rows = await db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+export async function stepSignatures(caseId: string, database: Db | Tx = db) {
+  const rows = await database.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
   return rows.map((x) => ({ step: x.sig.step, ...signatureView(x.sig, x.void) }));
 }
 
-export async function caseSignatures(caseId: string) {
-  const rows = await db.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.step), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+export async function caseSignatures(caseId: string, database: Db | Tx = db) {
+  const rows = await database.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.step), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
   return rows.map((x) => signatureView(x.sig, x.void));
 }
 

@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { parseSectionCsv, sectionsWithUpload, type SectionCsvResult } from "~/domain/section-csv";
 import type { SectionsData } from "~/domain/step-data";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db, type Tx } from "~/db/client.server";
 import { uploads } from "~/db/schema";
 import { env } from "~/utils/env.server";
 import { getObjectBytes, putObject } from "./storage.server";
@@ -15,14 +15,14 @@ import type { Actor } from "~/domain/people";
  * is kept whole in S3 under its SHA-256, with a database record, so the accepted data can always
  * be traced to the exact bytes received.
  */
-export async function receiveSectionCsv(input: { organisationId: string; caseId: string; filename: string; bytes: Uint8Array; actor: Actor }) {
+export async function receiveSectionCsv(input: { organisationId: string; caseId: string; filename: string; bytes: Uint8Array; actor: Actor }, database: Db | Tx = db) {
   const parsed = parseSectionCsv(input.bytes);
   if (!parsed.ok) return { parsed, upload: null };
   const sha256 = sha256Hex(input.bytes);
   const bucket = env().S3_BUCKET_UPLOADS;
   const key = `cases/${input.caseId}/sections/${sha256}.csv`;
   await putObject(bucket, key, input.bytes, "text/csv", sha256);
-  const upload = await db.transaction(async (tx) => {
+  const upload = await database.transaction(async (tx) => {
     const [row] = await tx
       .insert(uploads)
       .values({ organisationId: input.organisationId, caseId: input.caseId, bucket, key, filename: input.filename.slice(0, 200), contentType: "text/csv", size: input.bytes.byteLength, sha256, createdBy: input.actor.id })
@@ -34,8 +34,8 @@ export async function receiveSectionCsv(input: { organisationId: string; caseId:
 }
 
 /** Re-reads an upload of this case from S3 and parses it again, checking the bytes against the recorded hash. */
-export async function readSectionUpload(caseId: string, uploadId: string): Promise<{ upload: typeof uploads.$inferSelect; parsed: SectionCsvResult } | null> {
-  const [upload] = await db.select().from(uploads).where(and(eq(uploads.id, uploadId), eq(uploads.caseId, caseId)));
+export async function readSectionUpload(caseId: string, uploadId: string, database: Db | Tx = db): Promise<{ upload: typeof uploads.$inferSelect; parsed: SectionCsvResult } | null> {
+  const [upload] = await database.select().from(uploads).where(and(eq(uploads.id, uploadId), eq(uploads.caseId, caseId)));
   if (!upload) return null;
   const bytes = await getObjectBytes(upload.bucket, upload.key);
   if (sha256Hex(bytes) !== upload.sha256) throw new Error(`stored file ${upload.key} does not match its recorded SHA-256`);

@@ -9,7 +9,7 @@ import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import autocannon from "autocannon";
-import { DEMO_USERS } from "../../app/db/demo";
+import { DEMO_USERS } from "../../app/demo/scenario";
 
 const root = path.join(import.meta.dirname, "..", "..");
 const durationArg = process.argv.indexOf("--duration");

@@ -1,5 +1,5 @@
 import { expect, test, type Page, type Response } from "@playwright/test";
-import { DEMO_USERS } from "../../app/db/demo";
+import { DEMO_USERS } from "../../app/demo/scenario";
 
 // What the browser downloads: compressed, only the chart types drawn, nothing of the server.
 // Behaviour, not timing: which headers and which code arrive, never how fast.

@@ -3,7 +3,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { expect, test, type Browser, type Page } from "@playwright/test";
-import { DEMO_USERS, type DemoUser } from "../../app/db/demo";
+import { DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
 
 const who = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
 

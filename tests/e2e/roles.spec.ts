@@ -1,5 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
-import { DEMO_USERS, type DemoUser } from "../../app/db/demo";
+import { DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
 
 const user = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
 

@@ -1,5 +1,5 @@
 import { expect, test, type APIRequestContext } from "@playwright/test";
-import { DEMO_USERS, type DemoUser } from "../../app/db/demo";
+import { DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
 
 /**
  * Web security at the HTTP level, against the production build the e2e server runs: headers and

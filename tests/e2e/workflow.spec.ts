@@ -3,7 +3,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { expect, test, type Page } from "@playwright/test";
-import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/db/demo";
+import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/demo/scenario";
 
 const engineer = DEMO_USERS.find((u) => u.label === "engineer")!;
 

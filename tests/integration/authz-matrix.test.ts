@@ -5,7 +5,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import routes from "~/routes";
 import { db } from "~/db/client.server";
-import { DEMO_USERS } from "~/db/demo";
+import { DEMO_USERS } from "~/demo/scenario";
 import { cases, programmes, reports } from "~/db/schema";
 import { buildCaseFile, caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";

@@ -15,7 +15,7 @@ import { STEPS } from "~/domain/steps";
 import { closeDb, db } from "~/db/client.server";
 import { runMigrations } from "~/db/migrate.server";
 import { auditLog, caseSteps, cases, reports, users, type Report } from "~/db/schema";
-import { DATABASE_UNAVAILABLE_MESSAGE } from "~/db/unavailable.server";
+import { DATABASE_UNAVAILABLE_MESSAGE } from "~/utils/unavailable.server";
 import { startPostgres, type RunningPostgres } from "~/server/dev-services/postgres";
 import { action as reviewAction } from "~/routes/cases/review";
 import { loader as casesLoader } from "~/routes/cases/list";

@@ -1,6 +1,6 @@
 import { db } from "~/db/client.server";
-import { DEMO_USERS, type DemoUser } from "~/db/demo";
-import { seedDemo } from "~/db/seed.server";
+import { DEMO_USERS, type DemoUser } from "~/demo/scenario";
+import { seedDemo } from "~/demo/seed.server";
 import { signInWithPassword } from "~/auth/auth.server";
 import { CLIENT_ADDRESS_HEADER } from "~/utils/http.server";
 

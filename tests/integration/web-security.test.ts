@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, programmes } from "~/db/schema";
 import { createApp } from "~/server/http";
-import { DEMO_USERS } from "~/db/demo";
+import { DEMO_USERS } from "~/demo/scenario";
 import { cookieFor, seed } from "./helpers";
 
 /**

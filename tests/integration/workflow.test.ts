@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { DEMO_CASE_INPUTS } from "~/db/demo";
+import { DEMO_CASE_INPUTS } from "~/demo/scenario";
 import { auditLog, cases, caseSteps, programmes, stepRevisions, uploads } from "~/db/schema";
 import { parseCase, runCase } from "~/exchange";
 import { action as basisAction } from "~/routes/cases/basis";

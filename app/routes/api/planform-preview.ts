@@ -1,16 +1,16 @@
-import { data } from "react-router";
 import { z } from "zod";
 import { requirePermission } from "~/auth/auth.server";
 import { PlanformSchema } from "~/domain/step-data";
-import { isEngineError, type WingGeometry } from "~/engine";
+import type { WingGeometry } from "~/engine";
 import { planformGeometry } from "~/services/planform.server";
-import { fieldErrorsOf } from "~/utils/form-data";
+import { fieldErrorsOf, type ActionRefusal } from "~/utils/form-data";
+import { accepted, answer, refused } from "~/utils/http.server";
 import type { Route } from "./+types/planform-preview";
 
-const PreviewSchema = PlanformSchema;
+/** The preview's answer: the derived geometry of the stations as typed (SI), or why they are no wing. */
 export type PlanformPreview =
-  | { ok: true; geometry: WingGeometry; stations: z.output<typeof PreviewSchema>["stations"]; axis: { root: number; tip: number } }
-  | { ok: false; fieldErrors: Record<string, string[] | undefined> };
+  | { ok: true; geometry: WingGeometry; stations: z.output<typeof PlanformSchema>["stations"]; axis: { root: number; tip: number } }
+  | ActionRefusal;
 
 /**
  * Derived planform geometry for the drawing that follows the person's typing (JSON in, JSON out,
@@ -19,13 +19,8 @@ export type PlanformPreview =
 export async function action({ request }: Route.ActionArgs) {
   await requirePermission(request, "case:read");
   const body = await request.json().catch(() => null);
-  const parsed = PreviewSchema.safeParse(body);
-  if (!parsed.success) return data<PlanformPreview>({ ok: false, fieldErrors: fieldErrorsOf(parsed.error) }, { status: 422 });
-  try {
-    const geometry = planformGeometry(parsed.data.stations);
-    return data<PlanformPreview>({ ok: true, geometry, stations: parsed.data.stations, axis: { root: parsed.data.axisRoot, tip: parsed.data.axisTip } });
-  } catch (error) {
-    if (isEngineError(error)) return data<PlanformPreview>({ ok: false, fieldErrors: { [error.field ?? "form"]: [error.message] } }, { status: 422 });
-    throw error;
-  }
+  const parsed = PlanformSchema.safeParse(body);
+  if (!parsed.success) return refused(fieldErrorsOf(parsed.error), { status: 422 });
+  const stations = parsed.data.stations;
+  return answer(async () => accepted(null, { geometry: planformGeometry(stations), stations, axis: { root: parsed.data.axisRoot, tip: parsed.data.axisTip } }));
 }

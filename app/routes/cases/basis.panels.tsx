@@ -5,6 +5,7 @@ import { Panel } from "~/components/ui/page-header";
 import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS } from "~/domain/step-data";
 import { unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
 import type { BasisFormSchema } from "./basis.schema";
+import type { BasisCheck } from "~/services/basis.server";
 import type { FieldErrors } from "~/utils/form-data";
 
 /** The panels of the basis step's form; each takes the form, the server's messages and the units shown. */
@@ -88,14 +89,6 @@ export function BasisWingPanel(props: FieldsProps) {
       <TextField label={`Altitudes [${u("altitude")}]`} hint="Comma-separated, geopotential, standard atmosphere." {...form.register("altitudes")} errors={err("altitudes")} />
     </Panel>
   );
-}
-
-/** One line of the check of a saved basis against the rules: what the rule gives, and whether the typed value meets it. */
-export interface BasisCheck {
-  label: string;
-  value: string;
-  rule: string;
-  ok?: boolean;
 }
 
 /** What the rules give for the saved basis, beside what was typed: a check, not a substitute. */

@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { numberInput, numberListInput } from "~/domain/form-values";
-import { CATEGORIES } from "~/domain/step-data";
-import type { Quantity } from "~/domain/units";
+import { convertFields, numberInput, numberListInput, tidy } from "~/domain/form-values";
+import { CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import type { Quantity, UnitSystem } from "~/domain/units";
 
 /** The basis form as typed, in the person's display units; the action converts it to SI. */
 export const BasisFormSchema = z.strictObject({
@@ -33,3 +33,15 @@ export const BASIS_QUANTITIES = {
   altitudes: "altitude",
   wingArea: "area",
 } as const satisfies Record<string, Quantity>;
+
+/** The saved basis as the form shows it, in its display units; a blank basis starts from the transport category's references and no numbers. */
+export function basisFormValues(saved: BasisData | null) {
+  if (!saved) return { units: "SI" as UnitSystem, category: "part25" as const, regulations: DEFAULT_REGULATIONS.part25 };
+  const shown = convertFields(saved, saved.units, BASIS_QUANTITIES, "fromSI");
+  const out: Record<string, unknown> = { ...shown };
+  for (const key of Object.keys(BASIS_QUANTITIES)) {
+    const v = out[key];
+    out[key] = Array.isArray(v) ? v.map((x: number) => tidy(x)).join(", ") : typeof v === "number" ? tidy(v) : v;
+  }
+  return out;
+}

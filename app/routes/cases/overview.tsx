@@ -1,32 +1,15 @@
-import { Link } from "react-router";
+import { href, Link } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
-import { describeCaseEvent, STEPS } from "~/domain/steps";
-import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
-import { auditForEntity } from "~/db/audit.server";
-import { db } from "~/db/client.server";
 import { PageHeader, Panel } from "~/components/ui/page-header";
-import { getCaseSteps } from "~/services/case-steps.server";
-import { stepSignatures } from "~/services/review.server";
+import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
+import { caseOverview } from "~/services/case-overview.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { case: c, programme, createdByName } = await requireCase(request, params.caseId, "case:read");
-  const [steps, history, signatures] = await Promise.all([getCaseSteps(c.id), auditForEntity(db, "case", c.id, 20), stepSignatures(c.id)]);
-  const approval = (key: string) => {
-    const sigs = signatures.filter((g) => g.step === key);
-    const live = sigs.find((g) => !g.voided);
-    if (live) return { kind: "signed" as const, text: `${live.meaning} by ${live.name}, ${formatUtc(live.signedAt)}` };
-    const voided = sigs.find((g) => g.voided);
-    return voided ? { kind: "voided" as const, text: `approval voided: ${voided.voided!.reason}` } : null;
-  };
-  return {
-    case: c,
-    programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft },
-    createdByName,
-    steps: STEPS.map((s) => ({ ...s, status: steps[s.key].status, revision: steps[s.key].revision, updatedAt: steps[s.key].updatedAt, updatedByName: steps[s.key].updatedByName, approval: approval(s.key) })),
-    history: history.map((h) => ({ id: h.id, at: h.at, what: describeCaseEvent(h.action), action: h.action, who: h.actorName ?? h.actorEmail ?? "the system", actorEmail: h.actorEmail })),
-  };
+  const { steps, history } = await caseOverview(c.id);
+  return { case: c, programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft }, createdByName, steps, history };
 }
 
 export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) {
@@ -50,7 +33,7 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
             {steps.map((s, i) => (
               <tr key={s.key} className="border-t border-line">
                 <td className="py-1.5 pr-3">
-                  <Link to={`/cases/${c.id}/${s.key}`} className="font-semibold">
+                  <Link to={href(`/cases/:caseId/${s.key}`, { caseId: c.id })} className="font-semibold">
                     {i + 1}. {s.label}
                   </Link>
                   <span className="block text-xs text-ink-muted">{s.summary}</span>

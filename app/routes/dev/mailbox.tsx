@@ -1,6 +1,6 @@
 import { Link } from "react-router";
-import { listCapturedMail } from "~/server/dev-services/mail";
-import { env, mailCaptureEnabled } from "~/utils/env.server";
+import { capturedMail } from "~/services/mail.server";
+import { mailCaptureEnabled } from "~/utils/env.server";
 import { notFound } from "~/utils/http.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/mailbox";
@@ -13,7 +13,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!mailCaptureEnabled()) notFound("Page");
   const url = new URL(request.url);
   const to = url.searchParams.get("to") ?? undefined;
-  const messages = await listCapturedMail(env().MAIL_CAPTURE_DIR!, { to });
+  const messages = await capturedMail({ to });
   const selectedId = url.searchParams.get("id") ?? messages[0]?.id;
   return { to: to ?? "", messages: messages.slice(0, 200), selected: messages.find((m) => m.id === selectedId) ?? null };
 }

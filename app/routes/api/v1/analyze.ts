@@ -1,7 +1,7 @@
 import { requireApiUser } from "~/auth/api-auth.server";
-import { analyzeDocument } from "~/exchange";
+import { analyze } from "~/services/analysis.server";
 import type { Route } from "./+types/analyze";
-import { apiHandler, invalidCase, methodNotAllowed, readJsonBody } from "./respond.server";
+import { apiHandler, methodNotAllowed, readJsonBody } from "./respond.server";
 
 /**
  * POST /api/v1/analyze — body `spanwright.case/1` (or `{ case, sections }` with the richer section data
@@ -12,8 +12,7 @@ export async function action({ request }: Route.ActionArgs) {
   return apiHandler(async () => {
     if (request.method !== "POST") return methodNotAllowed(request, "POST");
     await requireApiUser(request, "case:read");
-    const answer = analyzeDocument(await readJsonBody(request));
-    return answer.ok ? Response.json(answer.result) : invalidCase(answer.problems);
+    return Response.json(analyze(await readJsonBody(request)));
   });
 }
 

@@ -4,6 +4,8 @@ import { resultToCsv } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
 import { exportCaseDocuments, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
+import { DomainError } from "~/domain/errors";
+import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-results";
 import { filenameOf } from "./case-export";
 import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
@@ -18,7 +20,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const current = await requireApiUser(request, "case:read");
     const format = new URL(request.url).searchParams.get("format") ?? "json";
     if (format !== "json" && format !== "csv") {
-      return Response.json({ error: "bad-request", message: `format must be "json" or "csv" (got "${format}").` }, { status: 400 });
+      return apiRefusal(new DomainError(`format must be "json" or "csv" (got "${format}").`, { field: "format" }));
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");

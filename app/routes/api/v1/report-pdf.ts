@@ -1,10 +1,7 @@
-import { writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
-import { getReport, reportBytes } from "~/services/reports.server";
-import { isUuid } from "~/services/programmes.server";
 import { requireApiUser } from "~/auth/api-auth.server";
+import { downloadReport } from "~/services/reports.server";
 import type { Route } from "./+types/report-pdf";
-import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
+import { apiHandler, methodNotAllowed } from "./respond.server";
 
 /**
  * GET /api/v1/reports/:reportId/pdf — the stored PDF bytes exactly as issued (checked against their
@@ -13,16 +10,13 @@ import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
 export async function loader({ request, params }: Route.LoaderArgs) {
   return apiHandler(async () => {
     const current = await requireApiUser(request, "report:read");
-    const report = isUuid(params.reportId) ? await getReport(current.organisation.id, params.reportId) : null;
-    if (!report || !report.sha256) return notFoundJson("The report");
-    const bytes = await reportBytes(report);
-    await db.transaction((tx) => writeAudit(tx, { organisationId: report.organisationId, actor: current.user, action: "report.download", entityType: "report", entityId: report.id }));
+    const { report, bytes } = await downloadReport({ organisationId: current.organisation.id, reportId: params.reportId, actor: current.user });
     return new Response(bytes as unknown as BodyInit, {
       headers: {
         "Content-Type": "application/pdf",
         "Content-Length": String(bytes.byteLength),
         "Content-Disposition": `attachment; filename="${report.reportNumber}.pdf"`,
-        "X-Content-SHA256": report.sha256,
+        "X-Content-SHA256": report.sha256!,
         "Cache-Control": "private, no-store",
       },
     });

@@ -1,6 +1,5 @@
-import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/db/unavailable.server";
+import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/utils/unavailable.server";
 import { DomainError, type DocumentProblem } from "~/domain/errors";
-import { isEngineError } from "~/engine";
 import { apiError, apiRefusal } from "~/utils/http.server";
 
 /** Largest request body the API reads (bytes): a case file of 100 000 load cases stays well inside it. */
@@ -8,7 +7,8 @@ export const MAX_BODY_BYTES = 20 * 1024 * 1024;
 
 /**
  * Runs an API handler and turns every failure into the API's JSON `{ error, message }` answer:
- * Responses thrown by the auth helpers pass through, domain and engine errors keep their status,
+ * Responses thrown by the auth helpers pass through, domain refusals get their status (services turn
+ * the engine's refusals into domain refusals),
  * a database outage is a 503, anything unexpected is logged once and answered 500 without its stack.
  */
 export async function apiHandler(fn: () => Promise<Response>): Promise<Response> {
@@ -17,7 +17,6 @@ export async function apiHandler(fn: () => Promise<Response>): Promise<Response>
   } catch (error) {
     if (error instanceof Response) return error;
     if (error instanceof DomainError) return apiRefusal(error);
-    if (isEngineError(error)) return apiError(422, "invalid-case", error.message);
     if (isDatabaseUnavailable(error)) return databaseUnavailableResponse();
     console.error("API request failed", error);
     return apiError(500, "internal", "The server failed to answer this request. It has been logged; try again or report it.");
