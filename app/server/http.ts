@@ -2,12 +2,13 @@ import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
-import { createRequestHandler } from "@react-router/express";
+import { writeReadableStreamToWritable } from "@react-router/node";
 import compression from "compression";
 import express, { type Express, type NextFunction, type Request, type Response } from "express";
-import type { ServerBuild } from "react-router";
+import { createRequestHandler, type ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 import { CSP_NONCE_HEADER } from "../utils/csp";
+import { BODY_LIMITS, formatBytes } from "../utils/limits";
 import { withRequestMemo } from "../utils/request-memo.server";
 
 /**
@@ -21,20 +22,22 @@ export async function startHttpServer(opts: { host: string; port: number; origin
     const vite = await import("vite").then((v) => v.createServer({ server: { middlewareMode: true } }));
     mount = (app) => {
       app.use(vite.middlewares);
-      app.all("/{*splat}", createRequestHandler({ build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild> }));
+      app.all("/{*splat}", reactRouterHandler({ build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild>, origin: opts.origin }));
     };
   } else {
     const buildDir = path.resolve("build");
     const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
     mount = (app) => {
-      app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
+      // Static files carry their own caching instead of the no-store every other answer gets.
+      const assets = express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" });
+      app.use("/assets", (req: Request, res: Response, next: NextFunction) => (res.removeHeader("Cache-Control"), assets(req, res, next)));
       // Files in public/ all have an extension; pages never do, so they skip the file-system lookup.
       const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
-      app.use((req: Request, res: Response, next: NextFunction) => (path.extname(req.path) ? publicFiles(req, res, next) : next()));
-      app.all("/{*splat}", createRequestHandler({ build }));
+      app.use((req: Request, res: Response, next: NextFunction) => (path.extname(req.path) ? (res.removeHeader("Cache-Control"), publicFiles(req, res, next)) : next()));
+      app.all("/{*splat}", reactRouterHandler({ build, origin: opts.origin }));
     };
   }
-  const app = createApp({ origin: opts.origin, dev: opts.dev, signInOrigin: process.env.OIDC_ISSUER }, mount);
+  const app = createApp({ origin: opts.origin, dev: opts.dev, signInOrigin: process.env.OIDC_ISSUER, trustProxy: process.env.TRUST_PROXY }, mount);
   return new Promise((resolve, reject) => {
     const server = app.listen(opts.port, opts.host, () => resolve(server));
     server.once("error", reject);
@@ -56,18 +59,23 @@ export async function closeHttpServer(server: Server): Promise<void> {
 
 /**
  * The Express application around whatever `mount` adds (static files, the React Router handler):
- * security headers first, the client address from the socket, the same-origin check on writes,
- * and last an error answer without internals. Exported so the tests can serve a build through it.
+ * security headers first, the client address (from the socket, or from X-Forwarded-For when the
+ * socket is a trusted proxy), the same-origin check on writes, the body limit, and last an error
+ * answer without internals. Exported so the tests can serve a build through it.
  */
-export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: string }, mount: (app: Express) => void): Express {
+export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: string; trustProxy?: string }, mount: (app: Express) => void): Express {
   const app = express();
   app.disable("x-powered-by");
+  app.set("trust proxy", trustedProxies(opts.trustProxy));
   app.use(securityHeaders(opts));
   app.use((req: Request, _res: Response, next: NextFunction) => {
-    req.headers[CLIENT_ADDRESS_HEADER] = req.socket.remoteAddress ?? "unknown";
+    // req.ip is the socket's address unless that is a trusted proxy (TRUST_PROXY), in which case it
+    // is the nearest address in X-Forwarded-For that is not itself a trusted proxy.
+    req.headers[CLIENT_ADDRESS_HEADER] = req.ip ?? req.socket.remoteAddress ?? "unknown";
     next();
   });
   app.use(sameOriginForWrites(opts.origin));
+  app.use(boundedBody);
   // Pages, JSON, CSV and assets go out compressed (brotli at quality 4, or gzip, as the client
   // accepts); types that are compressed already (PDF, fonts) are sent as they are.
   app.use(compression({ threshold: 1024 }));
@@ -115,6 +123,9 @@ function securityHeaders(opts: { dev: boolean; origin: string; signInOrigin?: st
     res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
     res.setHeader("Cross-Origin-Resource-Policy", "same-origin");
     res.setHeader("Permissions-Policy", "camera=(), microphone=(), geolocation=(), payment=(), usb=()");
+    // Nothing is kept by a browser or proxy unless the answer says otherwise: pages, API answers and
+    // downloads carry people's records. Static files replace this with their own caching.
+    res.setHeader("Cache-Control", "no-store");
     if (https) res.setHeader("Strict-Transport-Security", "max-age=31536000");
     next();
   };
@@ -154,4 +165,117 @@ function safeOrigin(url: string): string {
   } catch {
     return "invalid";
   }
+}
+
+/**
+ * TRUST_PROXY: the reverse proxies whose X-Forwarded-For is believed, as a comma-separated list of
+ * addresses, subnets (CIDR) or the words loopback, linklocal, uniquelocal. Unset, no proxy is
+ * trusted and the client address is the socket's: the header is then ignored, so nobody can choose
+ * the address that sign-in throttling counts against.
+ */
+export function trustedProxies(value: string | undefined): string[] | false {
+  const list = (value ?? "")
+    .split(",")
+    .map((v) => v.trim())
+    .filter(Boolean);
+  return list.length ? list : false;
+}
+
+// Bodies read by boundedBody, handed to the React Router handler.
+const bodies = new WeakMap<Request, Buffer>();
+
+/** The body limit of a request: anonymous requests get the smallest, whatever their path. */
+export function bodyLimitFor(req: { path: string; headers: Request["headers"] }): number {
+  const bearer = /^Bearer\s/i.test(req.headers.authorization ?? "");
+  const session = /(?:^|;\s*)sw_session=/.test(req.headers.cookie ?? "");
+  if (!bearer && !session) return BODY_LIMITS.anonymous;
+  if (req.path.startsWith("/api/v1/")) return BODY_LIMITS.api;
+  if (/^\/cases\/[^/]+\/sections\/?$/.test(req.path)) return BODY_LIMITS.upload;
+  return BODY_LIMITS.form;
+}
+
+/**
+ * Reads the body of every request that may have one, whole, before the app sees it, and answers 413
+ * as soon as it is known to be larger than its limit: at once from Content-Length, or while reading
+ * a chunked body. The connection is then closed, so the rest is never read. An action therefore
+ * never starts on a body that was cut short.
+ */
+function boundedBody(req: Request, res: Response, next: NextFunction) {
+  if (req.method === "GET" || req.method === "HEAD") return next();
+  const limit = bodyLimitFor(req);
+  const refuse = () => {
+    res.setHeader("Connection", "close");
+    const message = `The request body is larger than ${formatBytes(limit)}, the limit for this request.`;
+    if (req.path.startsWith("/api/")) res.status(413).type("application/json").send(JSON.stringify({ error: "too-large", message }));
+    else res.status(413).type("text/plain").send(message);
+  };
+  const declared = Number(req.headers["content-length"]);
+  if (Number.isFinite(declared) && declared > limit) {
+    req.pause();
+    return refuse();
+  }
+  const chunks: Buffer[] = [];
+  let size = 0;
+  const stop = () => {
+    req.off("data", onData);
+    req.off("end", onEnd);
+    req.off("error", onError);
+  };
+  const onData = (chunk: Buffer) => {
+    size += chunk.byteLength;
+    if (size <= limit) return void chunks.push(chunk);
+    stop();
+    req.pause();
+    refuse();
+  };
+  const onEnd = () => {
+    stop();
+    bodies.set(req, Buffer.concat(chunks, size));
+    next();
+  };
+  // The client went away mid-body: nothing to answer.
+  const onError = () => stop();
+  req.on("data", onData);
+  req.on("end", onEnd);
+  req.on("error", onError);
+}
+
+/**
+ * React Router's request handler for Express (as @react-router/express's, which reads the body
+ * itself), handing the app the body boundedBody has already read. The URL is built on the
+ * configured origin, never on the Host header a client sends. An answer that says nothing about
+ * caching is not to be stored.
+ */
+export function reactRouterHandler(opts: { build: ServerBuild | (() => Promise<ServerBuild>); origin: string; mode?: string }) {
+  const handle = createRequestHandler(opts.build, opts.mode ?? process.env.NODE_ENV);
+  const origin = new URL(opts.origin).origin;
+  return async (req: Request, res: Response, next: NextFunction) => {
+    try {
+      const headers = new Headers();
+      for (const [key, values] of Object.entries(req.headers)) {
+        if (Array.isArray(values)) for (const value of values) headers.append(key, value);
+        else if (values !== undefined) headers.set(key, values);
+      }
+      let controller: AbortController | null = new AbortController();
+      res.on("finish", () => (controller = null));
+      res.on("close", () => controller?.abort());
+      const read = req.method === "GET" || req.method === "HEAD" ? undefined : bodies.get(req);
+      const body = read ? new Uint8Array(read) : undefined;
+      const request = new Request(origin + req.originalUrl, { method: req.method, headers, body, signal: controller.signal });
+      const response = await handle(request);
+      if (res.destroyed || res.writableEnded) {
+        await response.body?.cancel();
+        return;
+      }
+      res.statusMessage = response.statusText;
+      res.status(response.status);
+      for (const [key, value] of response.headers.entries()) if (key !== "cache-control") res.append(key, value);
+      res.setHeader("Cache-Control", response.headers.get("Cache-Control") ?? "no-store");
+      if (response.body) await writeReadableStreamToWritable(response.body, res);
+      else res.end();
+    } catch (error) {
+      if (res.destroyed || res.writableEnded) return;
+      next(error);
+    }
+  };
 }

@@ -1,16 +1,10 @@
-import path from "node:path";
-import { createServer as createHttpServer, type Server } from "node:http";
-import type { AddressInfo } from "node:net";
-import { createRequestHandler } from "@react-router/express";
 import { eq, sql } from "drizzle-orm";
-import type { ServerBuild } from "react-router";
-import { createServer, type ViteDevServer } from "vite";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, programmes } from "~/db/schema";
-import { createApp } from "~/server/http";
 import { DEMO_USERS } from "~/demo/scenario";
 import { cookieFor, seed } from "./helpers";
+import { startHttpApp, type HttpApp } from "./http-harness";
 
 /**
  * The real Express application of app/server/http.ts serving the app through React Router in
@@ -18,31 +12,19 @@ import { cookieFor, seed } from "./helpers";
  * check on writes, the headers on every answer, and sign-in throttling.
  */
 
-let vite: ViteDevServer;
-let server: Server;
+let http: HttpApp;
 let base = "";
 let engineer = "";
 
 beforeAll(async () => {
   await seed();
   engineer = await cookieFor("engineer");
-  vite = await createServer({ configFile: path.resolve("vite.config.ts"), server: { middlewareMode: true, hmr: false, ws: false }, appType: "custom", logLevel: "error" });
-  const build = (await vite.ssrLoadModule("virtual:react-router/server-build")) as ServerBuild;
-  // "production" so React Router sanitises errors exactly as the deployed server does.
-  // The origin is known once the port is: listen first, then hand the requests to the application.
-  server = createHttpServer();
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  const app = createApp({ origin: base, dev: false }, (a) => a.all("/{*splat}", createRequestHandler({ build, mode: "production" })));
-  server.on("request", app);
+  http = await startHttpApp();
+  base = http.base;
 }, 120_000);
 
 afterAll(async () => {
-  await new Promise((resolve) => server?.close(resolve));
-  // The modules Vite loaded hold their own pool on this file's database: close it before the database is dropped.
-  const client = (await vite?.ssrLoadModule("/app/db/client.server.ts")) as { closeDb?: () => Promise<void> } | undefined;
-  await client?.closeDb?.();
-  await vite?.close();
+  await http?.close();
 });
 
 const get = (p: string, cookie?: string) => fetch(base + p, { headers: cookie ? { Cookie: cookie } : {}, redirect: "manual" });

@@ -1,0 +1,47 @@
+/**
+ * The size limits of requests, in one place: the web server enforces the body limits while it reads
+ * (docs/security.md), the API enforces the analysis limits before any solving starts, and the API
+ * page and the OpenAPI document print them. Isomorphic: no server imports.
+ */
+
+const KiB = 1024;
+const MiB = 1024 * KiB;
+
+/** Largest request body read, in bytes, by kind of request. A larger one is answered 413 unread. */
+export const BODY_LIMITS = {
+  /** A request without a session cookie or bearer token (sign-in, invitations, sign-out). */
+  anonymous: 16 * KiB,
+  /** A signed-in form post: the largest, an envelope of 2000 load cases, is about 0.5 MiB. */
+  form: 2 * MiB,
+  /** The section-data upload: the 1 MiB CSV limit plus the multipart envelope and form fields. */
+  upload: 1 * MiB + 64 * KiB,
+  /** A JSON body of the public API (case import, analyze). */
+  api: 20 * MiB,
+} as const;
+
+/** Sizes in words for answers and documentation: "16 KiB", "2 MiB". */
+export function formatBytes(bytes: number): string {
+  if (bytes >= MiB && bytes % MiB === 0) return `${bytes / MiB} MiB`;
+  if (bytes >= MiB) return `${(bytes / MiB).toFixed(2)} MiB`;
+  return `${Math.round(bytes / KiB)} KiB`;
+}
+
+/**
+ * What one `POST /api/v1/analyze` may ask for. A request inside SYNC_CASES is solved while the
+ * caller waits; up to QUEUED_CASES it goes to the job queue and is answered 202 with a job to poll;
+ * anything larger, or a wing or output beyond its limit, is refused at once (413 or 422) naming the
+ * limit, before any solving starts.
+ */
+export const ANALYZE_LIMITS = {
+  /** Wing stations in `wing.stations`. */
+  wingStations: 200,
+  /** Output stations per semispan (`method.stations`). */
+  outputStations: 400,
+  /** Load cases answered within the request. */
+  syncCases: 500,
+  /** Load cases of one request in all; between syncCases and this, the job queue solves them. */
+  queuedCases: 20_000,
+} as const;
+
+/** An error answer lists at most this many problems, then says how many more there were. */
+export const MAX_LISTED_PROBLEMS = 50;
