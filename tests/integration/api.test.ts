@@ -440,8 +440,8 @@ describe("GET /api/v1/cases/:caseId/results", () => {
   });
 
   // RFC 9110 §8.8.3 and §13.1.2: an entity tag names one representation; If-None-Match with that tag
-  // is answered 304 Not Modified without a body. Cache-Control no-cache (RFC 9111 §5.2.2.4) makes a
-  // client ask again each time, so it never shows results of inputs that have since changed.
+  // is answered 304 Not Modified without a body. Cache-Control no-store (RFC 9111 §5.2.2.5) keeps
+  // browsers and proxies from keeping a copy; a client that keeps one itself revalidates by its tag.
   it("names each representation with an entity tag, answers 304 to a client that holds it, and a new tag once the input changes", async () => {
     const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-TAG", case: example("kf60-tern-wing") }) });
     const id = imported.body!.id as string;
@@ -452,7 +452,7 @@ describe("GET /api/v1/cases/:caseId/results", () => {
     const tag = first.headers.get("ETag");
     expect(tag).toMatch(/^"[^"]+"$/);
     expect(again.headers.get("ETag")).toBe(tag);
-    expect(first.headers.get("Cache-Control")).toBe("private, no-cache");
+    expect(first.headers.get("Cache-Control")).toBe("no-store");
     const csv = await call(resultsLoader, `${url}?format=csv`, { token: tokens.checker, params: { caseId: id } });
     expect(csv.headers.get("ETag")).not.toBe(tag);
 

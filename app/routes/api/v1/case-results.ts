@@ -37,10 +37,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         { status: 202, headers: { "Retry-After": "1", "Cache-Control": "no-store" } },
       );
     }
-    // The result is fixed by its input and the engine version, so they name it: a client that holds
-    // this version is answered 304 without the body, and always asks again (no-cache) after an edit.
+    // The result is fixed by its input and the engine version, so they name it: a client that keeps
+    // this version itself is answered 304 without the body. Browsers and proxies keep nothing
+    // (no-store): results are an organisation's records.
     const etag = `"${ENGINE_VERSION}-${answer.inputHash}-${format}"`;
-    const headers = { "X-Spanwright-Input-Sha256": answer.inputHash, ETag: etag, "Cache-Control": "private, no-cache" };
+    const headers = { "X-Spanwright-Input-Sha256": answer.inputHash, ETag: etag, "Cache-Control": "no-store" };
     if (request.headers.get("If-None-Match")?.split(/\s*,\s*/).includes(etag)) return new Response(null, { status: 304, headers });
     if ("json" in answer) return new Response(answer.json, { headers: { ...headers, "Content-Type": "application/json" } });
     return new Response(resultToCsv(answer.result), {
