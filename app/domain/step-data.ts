@@ -5,6 +5,11 @@ import { z } from "zod";
  * one definition of the rules: the browser checks forms with them and every action re-checks.
  */
 
+/** Most rows each step takes: its form refuses a row beyond these before building anything. */
+export const MAX_PLANFORM_STATIONS = 60;
+export const MAX_SECTION_ROWS = 60;
+export const MAX_LOAD_CASES = 2000;
+
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be greater than 0` });
 
@@ -66,7 +71,7 @@ export const PlanformStationSchema = z.object({
 
 export const PlanformSchema = z
   .object({
-    stations: z.array(PlanformStationSchema).min(2, "Give at least two stations: root and tip").max(60, "At most 60 stations"),
+    stations: z.array(PlanformStationSchema).min(2, "Give at least two stations: root and tip").max(MAX_PLANFORM_STATIONS, `At most ${MAX_PLANFORM_STATIONS} stations`),
     axisRoot: finite("Reference axis at the root").refine((v) => v >= 0 && v <= 1, { message: "The reference axis is a chord fraction between 0 and 1" }),
     axisTip: finite("Reference axis at the tip").refine((v) => v >= 0 && v <= 1, { message: "The reference axis is a chord fraction between 0 and 1" }),
   })
@@ -97,7 +102,7 @@ export const SectionRowSchema = z.object({
 
 export const SectionsSchema = z
   .object({
-    rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(60, "At most 60 section stations"),
+    rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(MAX_SECTION_ROWS, `At most ${MAX_SECTION_ROWS} section stations`),
     source: z.object({ kind: z.enum(["typed", "upload", "import"]), uploadId: z.uuid().optional(), filename: z.string().optional(), sha256: z.string().optional() }),
     tables: z
       .array(z.object({ y: z.number(), points: z.array(z.object({ alpha: z.number(), cl: z.number(), cm: z.number() })), linearFrom: z.number(), linearTo: z.number() }))
@@ -154,7 +159,7 @@ export const EnvelopeSchema = z
     strips: z.number().int("Strips must be a whole number").min(8, "At least 8 strips").max(2000, "At most 2000 strips").optional(),
     /** "summary" leaves the station tables out of stored results (large sweeps); the exchange format's method.output. */
     output: z.enum(["full", "summary"]).default("full"),
-    cases: z.array(LoadCaseSchema).min(1, "Give at least one load case").max(2000, "At most 2000 load cases"),
+    cases: z.array(LoadCaseSchema).min(1, "Give at least one load case").max(MAX_LOAD_CASES, `At most ${MAX_LOAD_CASES} load cases`),
   })
   .superRefine((e, ctx) => {
     if (e.strips !== undefined && e.spanwise === "lifting-line") ctx.addIssue({ code: "custom", path: ["strips"], message: "Strips apply to the vortex lattice only" });

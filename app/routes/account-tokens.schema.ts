@@ -1,8 +1,9 @@
 import { z } from "zod";
+import { plainLine } from "~/utils/text";
 
 export const CreateTokenSchema = z.strictObject({
   intent: z.literal("create"),
-  name: z.string().trim().min(1, "Name the token, e.g. after the script or machine that uses it").max(80, "A token name has at most 80 characters"),
+  name: plainLine("A token name", 1, 80, { min: "Name the token, e.g. after the script or machine that uses it" }),
 });
 
 export const RevokeTokenSchema = z.strictObject({

@@ -9,6 +9,7 @@ import { formatPath, parseCase, parseSections, type CaseFile, type CaseProblem, 
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 import { runEngine } from "./engine.server";
+import { lineProblem } from "~/utils/text";
 
 
 /** Refusal of an import: every problem found, each with its path in the exchange document. */
@@ -125,7 +126,9 @@ export function validateImport(json: unknown, sectionsJson?: unknown): { ok: tru
 export async function importCase(input: { organisationId: string; programmeId: string; reference: string; title?: string; document: unknown; sections?: unknown; actor: Actor }, database: Db | Tx = db) {
   const checked = runEngine(() => validateImport(input.document, input.sections));
   if (!checked.ok) throw importRefused(checked.problems);
-  const title = input.title ?? checked.file.title ?? input.reference;
+  const title = (input.title ?? checked.file.title ?? input.reference).trim();
+  const titleProblem = lineProblem(title);
+  if (titleProblem) throw importRefused([{ path: input.title === undefined ? "case.title" : "title", message: titleProblem }]);
   return database.transaction(async (tx) => {
     const [programme] = await tx
       .select()

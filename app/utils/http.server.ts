@@ -1,7 +1,8 @@
 import { data } from "react-router";
 import type { z } from "zod";
 import { DomainError, type DomainErrorKind } from "~/domain/errors";
-import { fieldErrorsOf, formDataToObject, type ActionAnswer, type ActionRefusal, type FieldErrors } from "./form-data";
+import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionAnswer, type ActionRefusal, type FieldErrors, type FormShape } from "./form-data";
+import { findNul, NUL_MESSAGE } from "./text";
 
 // ---------------------------------------------------------------- the one mapping of refusals to HTTP
 
@@ -103,15 +104,20 @@ export type Parsed<T> = { ok: true; value: T } | { ok: false; fieldErrors: Field
 /**
  * Reads a form post (or a JSON body) and validates it with the same zod schema the browser used.
  * The server always re-validates: the client-side check is only for the person's convenience.
+ * `shape` bounds the form's lists (its step's maximum rows) and names its checkbox groups; a NUL
+ * character anywhere is refused naming the field.
  */
-export async function parseBody<S extends z.ZodType>(request: Request, schema: S, arrays: readonly string[] = []): Promise<Parsed<z.output<S>>> {
+export async function parseBody<S extends z.ZodType>(request: Request, schema: S, shape: FormShape = {}): Promise<Parsed<z.output<S>>> {
   const type = request.headers.get("Content-Type") ?? "";
   let raw: unknown;
   try {
-    raw = type.includes("application/json") ? await request.json() : formDataToObject(await request.formData(), arrays);
-  } catch {
+    raw = type.includes("application/json") ? await request.json() : formDataToObject(await request.formData(), shape);
+  } catch (error) {
+    if (error instanceof FormFieldError) return { ok: false, fieldErrors: { [error.field]: [error.message] } };
     return { ok: false, fieldErrors: { form: ["The request body could not be read."] } };
   }
+  const nul = findNul(raw);
+  if (nul) return { ok: false, fieldErrors: { [nul]: [`The value ${NUL_MESSAGE}.`] } };
   const parsed = schema.safeParse(raw);
   return parsed.success ? { ok: true, value: parsed.data } : { ok: false, fieldErrors: fieldErrorsOf(parsed.error) };
 }

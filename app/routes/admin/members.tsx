@@ -21,7 +21,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const current = await requirePermission(request, "org:admin");
-  const parsed = await parseBody(request, MembersActionSchema, ["roles"]);
+  const parsed = await parseBody(request, MembersActionSchema, { arrays: ["roles"] });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;
   const base = { organisationId: current.organisation.id, actor: current.user };

@@ -1,10 +1,11 @@
 import { z } from "zod";
 import { PASSWORD_MAX_LENGTH as PASSWORD_MAX, PASSWORD_MIN_LENGTH as PASSWORD_MIN } from "~/domain/password-policy";
+import { plainLine } from "~/utils/text";
 
 /** A new account chooses a name and a password of at least 12 characters. */
 export const AcceptNewSchema = z
   .object({
-    name: z.string().trim().min(2, "Enter your full name").max(120, "A name has at most 120 characters"),
+    name: plainLine("A name", 2, 120, { min: "Enter your full name" }),
     password: z.string().min(PASSWORD_MIN, `Choose a password of at least ${PASSWORD_MIN} characters`).max(PASSWORD_MAX, `A password has at most ${PASSWORD_MAX} characters`),
     confirm: z.string(),
   })

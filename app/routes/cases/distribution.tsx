@@ -3,7 +3,7 @@ import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
-import { DistributionSchema } from "~/domain/step-data";
+import { DistributionSchema, MAX_LOAD_CASES } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionStep } from "~/services/distribution.server";
@@ -23,7 +23,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
-  const parsed = await parseBody(request, DispositionFormSchema);
+  const parsed = await parseBody(request, DispositionFormSchema, { maxRows: MAX_LOAD_CASES });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const chosen = Object.fromEntries(parsed.value.dispositions.filter((d) => d.action !== "none").map((d) => [d.id, { action: d.action, comment: d.comment }]));
   const si = DistributionSchema.safeParse({ dispositions: chosen });

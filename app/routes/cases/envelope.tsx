@@ -7,7 +7,7 @@ import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
-import { EnvelopeSchema } from "~/domain/step-data";
+import { EnvelopeSchema, MAX_LOAD_CASES } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
 import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
 import { regeneratedCases, vnView } from "~/services/envelope.server";
@@ -38,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
-  const parsed = await parseBody(request, EnvelopeFormSchema);
+  const parsed = await parseBody(request, EnvelopeFormSchema, { maxRows: MAX_LOAD_CASES });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const steps = await getCaseSteps(c.id);
   const units = caseUnits(steps);

@@ -6,7 +6,7 @@ import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
-import { PlanformSchema } from "~/domain/step-data";
+import { MAX_PLANFORM_STATIONS, PlanformSchema } from "~/domain/step-data";
 import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
 import { planformGeometry } from "~/services/planform.server";
 import { fieldErrorsOf } from "~/utils/form-data";
@@ -38,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
-  const parsed = await parseBody(request, PlanformFormSchema);
+  const parsed = await parseBody(request, PlanformFormSchema, { maxRows: MAX_PLANFORM_STATIONS });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const units = caseUnits(await getCaseSteps(c.id));
   const si = PlanformSchema.safeParse(planformToSI(parsed.value, units));

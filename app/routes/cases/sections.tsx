@@ -7,10 +7,10 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { MAX_SECTION_CSV_BYTES, type CsvProblem } from "~/domain/section-csv";
-import { SectionsSchema } from "~/domain/step-data";
+import { MAX_SECTION_ROWS, SectionsSchema } from "~/domain/step-data";
 import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
 import { receiveSectionCsv, sectionsFromUpload, sectionsWithoutPressures } from "~/services/uploads.server";
-import { fieldErrorsOf, formDataToObject, type ActionRefusal } from "~/utils/form-data";
+import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionRefusal } from "~/utils/form-data";
 import { accepted, answer, refused } from "~/utils/http.server";
 import type { Route } from "./+types/sections";
 import { previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
@@ -51,7 +51,14 @@ export async function action({ request, params }: Route.ActionArgs) {
     return accepted(null, { revision: null, preview: previewOf(received.upload!, received.parsed) });
   }
 
-  const checked = SectionsFormSchema.safeParse(formDataToObject(body));
+  let fields: Record<string, unknown>;
+  try {
+    fields = formDataToObject(body, { maxRows: MAX_SECTION_ROWS });
+  } catch (error) {
+    if (error instanceof FormFieldError) return refused({ [error.field]: [error.message] });
+    throw error;
+  }
+  const checked = SectionsFormSchema.safeParse(fields);
   if (!checked.success) return refused(fieldErrorsOf(checked.error));
   const input = checked.data;
   return answer(async () => {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { plainLine } from "~/utils/text";
 
 export const NewProgrammeSchema = z.strictObject({
   code: z
@@ -7,7 +8,7 @@ export const NewProgrammeSchema = z.strictObject({
     .min(2, "Enter a programme code of at least 2 characters")
     .max(20, "A programme code has at most 20 characters")
     .regex(/^[A-Za-z0-9][A-Za-z0-9\-]*$/, "Use letters, digits and hyphens only"),
-  name: z.string().trim().min(3, "Enter a name of at least 3 characters").max(120, "A name has at most 120 characters"),
-  aircraft: z.string().trim().min(2, "Name the aircraft type").max(120, "At most 120 characters"),
+  name: plainLine("A name", 3, 120, { min: "Enter a name of at least 3 characters" }),
+  aircraft: plainLine("The aircraft type", 2, 120, { min: "Name the aircraft type" }),
   description: z.string().trim().max(2000, "A description has at most 2000 characters").default(""),
 });

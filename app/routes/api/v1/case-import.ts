@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { lineProblem } from "~/utils/text";
 import { requireApiUser } from "~/auth/api-auth.server";
 import { importCase } from "~/services/case-import.server";
 import type { Route } from "./+types/case-import";
@@ -13,7 +14,13 @@ export const ImportTargetSchema = z.strictObject({
     .min(1, { error: "is required (the case reference)" })
     .max(40, { error: "has at most 40 characters" })
     .regex(/^[A-Za-z0-9][A-Za-z0-9._\-/]*$/, { error: "uses letters, digits and . _ - / only, starting with a letter or digit" }),
-  title: z.string().trim().min(3, { error: "has at least 3 characters" }).max(160, { error: "has at most 160 characters" }).optional(),
+  title: z
+    .string()
+    .trim()
+    .min(3, { error: "has at least 3 characters" })
+    .max(160, { error: "has at most 160 characters" })
+    .refine((v) => lineProblem(v) === null, { error: "must not contain control or bidirectional override characters" })
+    .optional(),
   case: z.unknown(),
   /** Richer section data beside the case (`spanwright.sections/1`, docs/decisions/009). */
   sections: z.unknown().optional(),

@@ -1,6 +1,7 @@
 import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/utils/unavailable.server";
 import { DomainError, type DocumentProblem } from "~/domain/errors";
 import { apiError, apiRefusal } from "~/utils/http.server";
+import { findNul, NUL_MESSAGE } from "~/utils/text";
 
 /** Largest request body the API reads (bytes): a case file of 100 000 load cases stays well inside it. */
 export const MAX_BODY_BYTES = 20 * 1024 * 1024;
@@ -62,11 +63,16 @@ export async function readJsonBody(request: Request): Promise<unknown> {
   }
   const text = new TextDecoder().decode(Buffer.concat(chunks));
   if (!text.trim()) throw apiError(400, "invalid-json", "The request body is empty; send a JSON document.");
+  let value: unknown;
   try {
-    return JSON.parse(text) as unknown;
+    value = JSON.parse(text) as unknown;
   } catch (error) {
     throw apiError(400, "invalid-json", `The request body is not valid JSON: ${(error as Error).message}`);
   }
+  // PostgreSQL cannot store it, and no field of ours means it: refused naming where it is.
+  const nul = findNul(value);
+  if (nul) throw apiError(400, "bad-request", `${nul}: ${NUL_MESSAGE}.`);
+  return value;
 }
 
 /** Problems of a bad exchange document, as the API answers them: 422 naming every field. */
