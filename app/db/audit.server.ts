@@ -1,11 +1,11 @@
 import { sha256 } from "@oslojs/crypto/sha2";
 import { encodeHexLowerCase } from "@oslojs/encoding";
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import type { Db, Tx } from "./client.server";
 import { auditLog, users, type AuditEntry } from "./schema";
 
 export const GENESIS_HASH = "0".repeat(64);
-// One chain for the whole database: entries are serialised under this transaction-scoped lock.
+// Entries of one chain are serialised under this transaction-scoped lock (with the chain's key).
 const AUDIT_LOCK = 7_201_227;
 
 export interface AuditInput {
@@ -35,10 +35,17 @@ export function sha256Hex(text: string | Uint8Array): string {
   return encodeHexLowerCase(sha256(bytes));
 }
 
-function entryHash(prevHash: string, e: Omit<AuditEntry, "id" | "hash" | "prevHash">): string {
+/**
+ * The hash an entry carries: of the previous entry's hash and the entry's own key (id), its place
+ * in its organisation's chain (seq) and its content. With id and seq inside, an entry cannot be
+ * moved, renumbered or replayed elsewhere without its hash showing it.
+ */
+export function entryHash(prevHash: string, e: Omit<AuditEntry, "hash" | "prevHash">): string {
   return sha256Hex(
     prevHash +
       canonicalJson({
+        id: e.id,
+        seq: e.seq,
         at: e.at.toISOString(),
         organisationId: e.organisationId,
         actorId: e.actorId,
@@ -52,18 +59,28 @@ function entryHash(prevHash: string, e: Omit<AuditEntry, "id" | "hash" | "prevHa
   );
 }
 
+const chainOf = (organisationId: string | null) => (organisationId === null ? isNull(auditLog.organisationId) : eq(auditLog.organisationId, organisationId));
+
+/** The newest entry of an organisation's chain (null: the system chain), or null when it is empty. */
+export async function chainHead(database: Db | Tx, organisationId: string | null): Promise<{ seq: number; hash: string } | null> {
+  const [last] = await database.select({ seq: auditLog.seq, hash: auditLog.hash }).from(auditLog).where(chainOf(organisationId)).orderBy(desc(auditLog.seq)).limit(1);
+  return last ?? null;
+}
+
 /**
  * Appends one audit entry inside the caller's transaction (so it commits or rolls back with the
- * change it records), chained to the previous entry's hash.
+ * change it records), as the next entry of its organisation's chain.
  */
 export async function writeAudit(tx: Tx, input: AuditInput): Promise<void> {
-  await tx.execute(sql`SELECT pg_advisory_xact_lock(${AUDIT_LOCK})`);
-  const [last] = await tx.select({ hash: auditLog.hash }).from(auditLog).orderBy(desc(auditLog.id)).limit(1);
+  await tx.execute(sql`SELECT pg_advisory_xact_lock(${AUDIT_LOCK}, hashtext(${input.organisationId ?? "system"}))`);
+  const last = await chainHead(tx, input.organisationId);
   const prevHash = last?.hash ?? GENESIS_HASH;
-  // Millisecond precision, as PostgreSQL stores microseconds but JS dates carry milliseconds.
-  const at = new Date();
+  const [{ id }] = (await tx.execute<{ id: string }>(sql`SELECT nextval(pg_get_serial_sequence('audit_log', 'id')) AS id`)).rows as [{ id: string }];
   const row = {
-    at,
+    id: Number(id),
+    seq: (last?.seq ?? 0) + 1,
+    // Millisecond precision, as PostgreSQL stores microseconds but JS dates carry milliseconds.
+    at: new Date(),
     organisationId: input.organisationId,
     actorId: input.actor?.id ?? null,
     actorEmail: input.actor?.email ?? null,
@@ -77,26 +94,50 @@ export async function writeAudit(tx: Tx, input: AuditInput): Promise<void> {
 }
 
 export interface ChainCheck {
+  /** Entries of the chain found in the database. */
   entries: number;
+  /** The newest entry's place and hash (null for an empty chain). */
+  head: { seq: number; hash: string } | null;
   intact: boolean;
-  /** The first entry whose stored hashes do not match its content or its predecessor. */
-  brokenAt?: { id: number; reason: string };
+  /** The first entry whose stored hashes, number or place do not match its content or its predecessor. */
+  brokenAt?: { seq: number; id: number | null; reason: string };
 }
 
-/** Re-computes the whole chain from the genesis hash and reports the first break, if any. */
-export async function verifyAuditChain(database: Db | Tx): Promise<ChainCheck> {
-  const rows = await database.select().from(auditLog).orderBy(asc(auditLog.id));
+const BATCH = 2000;
+
+/**
+ * Re-computes one organisation's chain (null: the system chain) from the genesis hash, reading it
+ * in batches, and reports the first break: a missing or inserted entry, or an altered one. Other
+ * organisations' entries are neither read nor counted.
+ */
+export async function verifyAuditChain(database: Db | Tx, organisationId: string | null): Promise<ChainCheck> {
   let prev = GENESIS_HASH;
-  for (const row of rows) {
-    if (row.prevHash !== prev) {
-      return { entries: rows.length, intact: false, brokenAt: { id: row.id, reason: "does not follow the entry before it (an entry was removed or inserted)" } };
+  let expected = 1;
+  let head: ChainCheck["head"] = null;
+  for (;;) {
+    const rows = await database
+      .select()
+      .from(auditLog)
+      .where(and(chainOf(organisationId), gt(auditLog.seq, expected - 1)))
+      .orderBy(asc(auditLog.seq))
+      .limit(BATCH);
+    for (const row of rows) {
+      const broken = (reason: string): ChainCheck => ({ entries: expected - 1, head, intact: false, brokenAt: { seq: expected, id: row.id, reason } });
+      if (row.seq !== expected) return broken(`entry ${expected} is missing: the chain goes on at ${row.seq} (entries were removed)`);
+      if (row.prevHash !== prev) return broken("does not follow the entry before it (an entry was removed or inserted)");
+      if (entryHash(prev, row) !== row.hash) return broken("content differs from what was recorded (the entry was altered)");
+      prev = row.hash;
+      head = { seq: row.seq, hash: row.hash };
+      expected++;
     }
-    if (entryHash(prev, row) !== row.hash) {
-      return { entries: rows.length, intact: false, brokenAt: { id: row.id, reason: "content differs from what was recorded (the entry was altered)" } };
-    }
-    prev = row.hash;
+    if (rows.length < BATCH) return { entries: expected - 1, head, intact: true };
   }
-  return { entries: rows.length, intact: true };
+}
+
+/** The hash of the entry at `seq` in an organisation's chain, or null when there is none. */
+export async function entryHashAt(database: Db | Tx, organisationId: string | null, seq: number): Promise<string | null> {
+  const [row] = await database.select({ hash: auditLog.hash }).from(auditLog).where(and(chainOf(organisationId), eq(auditLog.seq, seq)));
+  return row?.hash ?? null;
 }
 
 /** The newest entries about one entity, for "who changed it last" read-outs. */

@@ -1,7 +1,9 @@
 import { relations, sql } from "drizzle-orm";
 import {
+  bigint,
   bigserial,
   boolean,
+  check,
   index,
   integer,
   jsonb,
@@ -9,10 +11,11 @@ import {
   primaryKey,
   text,
   timestamp,
+  unique,
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
-import type { CaseStatus, CommentKind, ReportStatus, Role, SignatureMeaning, SignInMethod, StepKey, StepStatus } from "~/domain/vocabulary";
+import type { AnalysisJobStatus, ApiTokenScope, CaseStatus, CommentKind, CredentialPurpose, ReportStatus, Role, SignatureMeaning, SignInMethod, StepKey, StepStatus } from "~/domain/vocabulary";
 
 const createdAt = () => timestamp("created_at", { withTimezone: true }).defaultNow().notNull();
 
@@ -70,17 +73,38 @@ export const sessions = pgTable(
   (t) => [uniqueIndex("sessions_token_hash_key").on(t.tokenHash), index("sessions_user_idx").on(t.userId)],
 );
 
-/** Every sign-in attempt, kept for throttling per account and per client address. */
+/**
+ * Every attempt to prove identity with a password, kept for throttling per account (and, for
+ * sign-in, per client address). `device` marks an attempt from a browser that signed in to this
+ * account successfully before (a known device), which the account's throttle does not hold back.
+ */
 export const signInAttempts = pgTable(
   "sign_in_attempts",
   {
     id: bigserial({ mode: "number" }).primaryKey(),
+    purpose: text().$type<CredentialPurpose>().default("sign-in").notNull(),
     email: text().notNull(),
     address: text().notNull(),
+    device: boolean().default(false).notNull(),
     succeeded: boolean().notNull(),
     at: timestamp({ withTimezone: true }).defaultNow().notNull(),
   },
   (t) => [index("sign_in_attempts_email_idx").on(t.email, t.at), index("sign_in_attempts_address_idx").on(t.address, t.at)],
+);
+
+/**
+ * Browsers that have signed in to an account with its password: the device cookie holds a random
+ * token, only its SHA-256 is kept. A stranger guessing passwords cannot slow these browsers down.
+ */
+export const knownDevices = pgTable(
+  "known_devices",
+  {
+    tokenHash: text("token_hash").notNull(),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.tokenHash, t.userId] }), index("known_devices_user_idx").on(t.userId)],
 );
 
 export const invitations = pgTable(
@@ -136,13 +160,17 @@ export const cases = pgTable(
 );
 
 /**
- * Append-only audit trail, written in the same transaction as the change it records. Each entry
- * carries the hash of the one before, so any edit or deletion breaks the chain visibly.
+ * Append-only audit trail, written in the same transaction as the change it records. Each
+ * organisation has its own chain (entries without one form the system chain): `seq` counts its
+ * entries from 1, and each entry's hash covers its id, chain, sequence, content and the hash of the
+ * entry before, so any edit, insertion or deletion breaks the chain visibly. The chain's head is
+ * also anchored outside the database (app/db/audit-anchors.server.ts).
  */
 export const auditLog = pgTable(
   "audit_log",
   {
     id: bigserial({ mode: "number" }).primaryKey(),
+    seq: bigint({ mode: "number" }).notNull(),
     at: timestamp({ withTimezone: true }).defaultNow().notNull(),
     organisationId: uuid("organisation_id").references(() => organisations.id, { onDelete: "set null" }),
     actorId: uuid("actor_id").references(() => users.id, { onDelete: "set null" }),
@@ -155,7 +183,11 @@ export const auditLog = pgTable(
     prevHash: text("prev_hash").notNull(),
     hash: text().notNull(),
   },
-  (t) => [index("audit_log_org_idx").on(t.organisationId, t.id), index("audit_log_entity_idx").on(t.entityType, t.entityId)],
+  (t) => [
+    index("audit_log_org_idx").on(t.organisationId, t.id),
+    index("audit_log_entity_idx").on(t.entityType, t.entityId),
+    unique("audit_log_chain_seq_key").on(t.organisationId, t.seq).nullsNotDistinct(),
+  ],
 );
 
 /**
@@ -261,6 +293,8 @@ export const apiTokens = pgTable(
     tokenHash: text("token_hash").notNull(),
     /** The first characters, so a person can tell their tokens apart. */
     prefix: text().notNull(),
+    /** "read" tokens only read; "read-write" tokens may also change records (import). */
+    scope: text().$type<ApiTokenScope>().default("read-write").notNull(),
     createdAt: createdAt(),
     lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
     revokedAt: timestamp("revoked_at", { withTimezone: true }),
@@ -352,7 +386,61 @@ export const reports = pgTable(
     issuedAt: timestamp("issued_at", { withTimezone: true }),
     releasedAt: timestamp("released_at", { withTimezone: true }),
   },
-  (t) => [uniqueIndex("reports_case_version_key").on(t.caseId, t.version), index("reports_sha_idx").on(t.sha256)],
+  (t) => [
+    uniqueIndex("reports_case_version_key").on(t.caseId, t.version),
+    index("reports_sha_idx").on(t.sha256),
+    // An issued or released report always names its stored object; a released one its release time.
+    // (Once issued, a row only takes its release: the reports_append_only trigger refuses the rest.)
+    check("reports_issued_has_object", sql`${t.status} NOT IN ('issued', 'released') OR (${t.key} IS NOT NULL AND ${t.sha256} IS NOT NULL AND ${t.size} IS NOT NULL AND ${t.issuedAt} IS NOT NULL)`),
+    check("reports_released_has_time", sql`${t.status} <> 'released' OR ${t.releasedAt} IS NOT NULL`),
+  ],
+);
+
+/**
+ * A signature waiting for its company sign-in: created when a person who signs with the identity
+ * provider asks to sign, completed once, within ten minutes, by an ID token that proves a fresh
+ * authentication (auth_time after this row was made) for this very request (its nonce). What is
+ * signed is fixed here: if the step, case or report changed meanwhile, the signature is refused.
+ */
+export const signingRequests = pgTable("signing_requests", {
+  id: uuid().primaryKey().defaultRandom(),
+  userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+  sessionId: uuid("session_id").notNull().references(() => sessions.id, { onDelete: "cascade" }),
+  organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+  caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+  intent: text().$type<"approve" | "approve-case" | "release">().notNull(),
+  step: text().$type<StepKey>(),
+  reportId: uuid("report_id"),
+  comment: text().default("").notNull(),
+  /** The hash of what will be signed, as it stood when the person asked to sign. */
+  targetHash: text("target_hash").notNull(),
+  /** SHA-256 of the nonce sent to the identity provider. */
+  nonceHash: text("nonce_hash").notNull(),
+  createdAt: createdAt(),
+  expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  completedAt: timestamp("completed_at", { withTimezone: true }),
+});
+
+/**
+ * An analysis of `POST /api/v1/analyze` too large to answer within the request: solved by a
+ * worker, polled by its id, kept for a day. `input` is the parsed document; `result` the
+ * `spanwright.result/1` answer, or `problems` when the engine refused the input.
+ */
+export const analysisJobs = pgTable(
+  "analysis_jobs",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    userId: uuid("user_id").notNull().references(() => users.id, { onDelete: "cascade" }),
+    status: text().$type<AnalysisJobStatus>().default("queued").notNull(),
+    cases: integer().notNull(),
+    input: jsonb().$type<Record<string, unknown>>().notNull(),
+    result: jsonb().$type<Record<string, unknown>>(),
+    problems: jsonb().$type<{ path: string; message: string }[]>(),
+    createdAt: createdAt(),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+  },
+  (t) => [index("analysis_jobs_user_idx").on(t.userId, t.createdAt)],
 );
 
 export const usersRelations = relations(users, ({ many }) => ({ memberships: many(memberships) }));

@@ -54,3 +54,15 @@ export type ReportStatus = (typeof REPORT_STATUSES)[number];
 export const PENDING_REPORT_STATUSES = ["queued", "generating"] as const satisfies readonly ReportStatus[];
 /** A report in these states exists as a stored PDF. */
 export const ISSUED_REPORT_STATUSES = ["issued", "released"] as const satisfies readonly ReportStatus[];
+
+/** What a password was given for: signing in, signing a record, joining by invitation, changing it. */
+export const CREDENTIAL_PURPOSES = ["sign-in", "signature", "invitation", "password-change"] as const;
+export type CredentialPurpose = (typeof CREDENTIAL_PURPOSES)[number];
+
+/** What a personal API token may do: only read, or also change records. */
+export const API_TOKEN_SCOPES = ["read", "read-write"] as const;
+export type ApiTokenScope = (typeof API_TOKEN_SCOPES)[number];
+
+/** A queued analysis of the API: waiting, being solved, answered, or refused by the engine. */
+export const ANALYSIS_JOB_STATUSES = ["queued", "running", "done", "failed"] as const;
+export type AnalysisJobStatus = (typeof ANALYSIS_JOB_STATUSES)[number];

@@ -1,6 +1,7 @@
 import { computeQueuedResults } from "~/services/analysis.server";
+import { anchorAllChains } from "~/services/audit-trail.server";
 import { generateReport } from "~/services/reports.server";
-import { boss, QUEUES } from "./boss.server";
+import { AUDIT_CHECKPOINT_CRON, boss, QUEUES } from "./boss.server";
 
 /**
  * Registers every job handler. Handlers re-load their record by id and are idempotent, so a retried
@@ -15,4 +16,8 @@ export async function startWorkers(): Promise<void> {
   await queue.work<{ caseId: string }>(QUEUES.computeResults, { pollingIntervalSeconds: 1 }, async ([job]) => {
     if (job) await computeQueuedResults(job.data.caseId);
   });
+  await queue.work(QUEUES.auditCheckpoint, async () => {
+    await anchorAllChains();
+  });
+  await queue.schedule(QUEUES.auditCheckpoint, AUDIT_CHECKPOINT_CRON, {}, { singletonKey: "audit-checkpoint" });
 }

@@ -1,36 +1,49 @@
 import { Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
-import { auditTrail } from "~/services/audit.server";
 import { Alert, PageHeader } from "~/components/ui/page-header";
 import { ListTable } from "~/components/ui/list-table";
+import { checkAuditTrail, listAuditEntries } from "~/services/audit-trail.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/audit";
 
-/** The organisation's audit trail, newest first, with a check of the whole hash chain. */
+/**
+ * The organisation's audit trail, newest first, with a check of its whole chain (only this
+ * organisation's entries are read) against the anchors kept outside the database.
+ */
 export async function loader({ request }: Route.LoaderArgs) {
   const current = await requirePermission(request, "audit:read");
   const before = Number(new URL(request.url).searchParams.get("before"));
-  return auditTrail(current.organisation.id, { before });
+  const [page, check] = await Promise.all([listAuditEntries(current.organisation.id, before), checkAuditTrail(current.organisation.id)]);
+  return {
+    check: { intact: check.intact, entries: check.chain.entries, brokenAt: check.brokenAt ?? null, anchors: check.anchors, anchorsUnavailable: check.anchorsUnavailable ?? null },
+    entries: page.entries,
+    next: page.next,
+  };
 }
 
 export default function AuditRoute({ loaderData }: Route.ComponentProps) {
-  const { chain, entries } = loaderData;
+  const { check, entries } = loaderData;
+  const newest = check.anchors?.newest;
   return (
     <>
-      <PageHeader title="Audit trail" description="Every change, who made it and when, with the values before and after. Entries are chained by hash: any alteration shows below." />
-      <div className="mb-4">
-        {chain.intact ? (
-          <Alert tone="info">✓ Chain intact: every entry verified from the first one.</Alert>
+      <PageHeader title="Audit trail" description="Every change, who made it and when, with the values before and after. Entries are chained by hash and the chain is anchored outside the database: any alteration or removal shows below." />
+      <div className="mb-4 space-y-2">
+        {check.intact ? (
+          <Alert tone="info">
+            ✓ Trail intact: all {check.entries} entries verified from the first one
+            {newest ? `, and against ${check.anchors!.count} checkpoint${check.anchors!.count === 1 ? "" : "s"} in storage (the newest at entry ${newest.seq}, ${formatUtc(newest.at)})` : ""}.
+          </Alert>
         ) : (
           <Alert>
-            ✗ Chain broken at entry {chain.brokenAt!.id}: {chain.brokenAt!.reason}.
+            ✗ Trail broken at entry {check.brokenAt!.seq}: {check.brokenAt!.reason}.
           </Alert>
         )}
+        {check.anchorsUnavailable ? <Alert tone="warn">Checked within the database only: {check.anchorsUnavailable}.</Alert> : null}
       </div>
       <ListTable columns={[{ label: "#", numeric: true }, { label: "When" }, { label: "Who" }, { label: "What" }, { label: "Record" }, { label: "Change" }, { label: "Hash" }]}>
         {entries.map((e) => (
           <tr key={e.id} className="border-b border-line align-top last:border-0">
-            <td className="px-3 py-1.5 text-right tabular">{e.id}</td>
+            <td className="px-3 py-1.5 text-right tabular">{e.seq}</td>
             <td className="whitespace-nowrap px-3 py-1.5 tabular">{formatUtc(e.at)}</td>
             <td className="px-3 py-1.5">{e.actorEmail ?? "system"}</td>
             <td className="px-3 py-1.5 font-semibold">{e.action}</td>

@@ -83,7 +83,7 @@ async function main() {
   }
   if (!process.env.S3_ENDPOINT) {
     const { startS3 } = await import("./dev-services/s3");
-    const s3 = await startS3({ dir: path.join(dataDir, "s3"), port: port("S3_PORT", 4569), buckets: ["spanwright-uploads", "spanwright-reports"] });
+    const s3 = await startS3({ dir: path.join(dataDir, "s3"), port: port("S3_PORT", 4569), buckets: ["spanwright-uploads", "spanwright-reports", "spanwright-audit"] });
     running.push({ name: "S3 stand-in", stop: s3.stop });
     process.env.S3_ENDPOINT = s3.endpoint;
     say(`S3 stand-in  ${s3.endpoint}`);

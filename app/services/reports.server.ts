@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
-import { sha256Hex, writeAudit } from "~/db/audit.server";
+import { chainHead, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, caseSteps, memberships, programmes, reports, signatureVoids, signatures, users, type Report } from "~/db/schema";
 import { ISSUED_REPORT_STATUSES, PENDING_REPORT_STATUSES, type Role } from "~/domain/vocabulary";
@@ -9,6 +9,7 @@ import type { ReportSnapshot } from "~/reports/snapshot";
 import { env } from "~/utils/env.server";
 import { analysisInputHash, buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, parseSectionsOrThrow } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
+import { anchorChain } from "./audit-trail.server";
 import { sendMail } from "./mail.server";
 import { buildSnapshot, renderReport, versionChanges } from "./report-contents.server";
 import { liveSignatures } from "./review.server";
@@ -98,7 +99,9 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
     const sha256 = sha256Hex(pdf);
     const bucket = env().S3_BUCKET_REPORTS;
     key = `cases/${report.caseId}/${report.reportNumber}.pdf`;
-    await putObject(bucket, key, pdf, "application/pdf", sha256);
+    // The stored PDF carries the audit trail's head as it stood when the report was made.
+    const head = await chainHead(database, report.organisationId);
+    await putObject(bucket, key, pdf, "application/pdf", sha256, { "audit-seq": String(head?.seq ?? 0), "audit-hash": head?.hash ?? "" });
     await database.transaction(async (tx) => {
       const [locked] = await tx.select().from(reports).where(eq(reports.id, reportId)).for("update");
       if (!locked || locked.status === "issued" || locked.status === "released") throw new DomainError("already issued", { field: "report", kind: "conflict" });
@@ -122,6 +125,10 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
       .catch(() => {});
     throw error;
   }
+  // The issue is anchored outside the database at once (the periodic checkpoint catches up if not).
+  await anchorChain(report.organisationId, `report ${report.reportNumber} issued`).catch((error: unknown) =>
+    console.warn(`audit checkpoint after ${report.reportNumber} not written: ${error instanceof Error ? error.message : String(error)}`),
+  );
   await mailRole(report.organisationId, "quality", `${report.reportNumber} issued`, [`Report ${report.reportNumber} (version ${report.version}) has been issued and waits for release.`], `/reports`);
   const [requester] = await database.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
   if (requester) {

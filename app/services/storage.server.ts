@@ -22,8 +22,9 @@ export function resetS3Client(): void {
   client = undefined;
 }
 
-export async function putObject(bucket: string, key: string, body: Uint8Array, contentType: string, sha256: string): Promise<void> {
-  await s3().send(new PutObjectCommand({ Bucket: bucket, Key: key, Body: body, ContentType: contentType, Metadata: { sha256 } }));
+/** Stores an object with its SHA-256 (and any further metadata) in the object's metadata. */
+export async function putObject(bucket: string, key: string, body: Uint8Array, contentType: string, sha256: string, metadata: Record<string, string> = {}): Promise<void> {
+  await s3().send(new PutObjectCommand({ Bucket: bucket, Key: key, Body: body, ContentType: contentType, Metadata: { ...metadata, sha256 } }));
 }
 
 export async function getObjectBytes(bucket: string, key: string): Promise<Uint8Array> {

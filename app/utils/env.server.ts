@@ -17,6 +17,8 @@ const EnvSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
   S3_BUCKET_UPLOADS: z.string().default("spanwright-uploads"),
   S3_BUCKET_REPORTS: z.string().default("spanwright-reports"),
+  /** Checkpoints of the audit trail; in a deployment, a bucket that refuses overwrite and deletion. */
+  S3_BUCKET_AUDIT: z.string().default("spanwright-audit"),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default("Spanwright <no-reply@spanwright.invalid>"),
   MAIL_CAPTURE_DIR: z.string().optional(),

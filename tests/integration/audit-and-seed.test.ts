@@ -58,16 +58,17 @@ describe("audit trail", () => {
     await expect(db.execute(sql`DELETE FROM audit_log`)).rejects.toMatchObject(refusal);
   });
 
-  it("verifies the hash chain and shows where an altered entry breaks it", async () => {
-    expect(await verifyAuditChain(db)).toMatchObject({ intact: true });
-    const [victim] = await db.select().from(auditLog).orderBy(sql`id`).offset(2).limit(1);
+  it("verifies an organisation's hash chain and shows where an altered entry breaks it", async () => {
+    const [kestrel] = await db.select().from(organisations).where(eq(organisations.slug, "kestrel-fieldworks"));
+    expect(await verifyAuditChain(db, kestrel!.id)).toMatchObject({ intact: true });
+    const [victim] = await db.select().from(auditLog).where(eq(auditLog.organisationId, kestrel!.id)).orderBy(sql`seq`).offset(2).limit(1);
     // Only someone bypassing the application (a superuser disabling the trigger) can do this.
     await db.execute(sql`ALTER TABLE audit_log DISABLE TRIGGER audit_log_append_only`);
     await db.execute(sql`UPDATE audit_log SET after = '{"forged":true}'::jsonb WHERE id = ${victim!.id}`);
     await db.execute(sql`ALTER TABLE audit_log ENABLE TRIGGER audit_log_append_only`);
-    const check = await verifyAuditChain(db);
+    const check = await verifyAuditChain(db, kestrel!.id);
     expect(check.intact).toBe(false);
-    expect(check.brokenAt?.id).toBe(victim!.id);
+    expect(check.brokenAt).toMatchObject({ id: victim!.id, seq: victim!.seq });
     expect(check.brokenAt?.reason).toMatch(/altered/);
   });
 });

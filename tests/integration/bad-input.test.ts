@@ -184,7 +184,7 @@ const CORPUS: Bad[] = [
   ["new case: a NUL character in the description, as JSON", newCaseAction, () => json("/cases/new", "engineer", { programmeId, reference: "TN-NUL-2", title: "Wing loads", description: "a\u0000b" }), "description"],
   ["review: a NUL character in a comment", reviewAction, () => post(`/cases/${caseId}/review`, "checker", form({ intent: "comment", step: "planform", body: "looks\u0000 fine" })), "body"],
   ["sign-in: a NUL character in the e-mail", loginAction, () => post("/login", "anonymous", form({ email: "erin.hale@kestrel-fieldworks.example\u0000", password: "x" })), "email"],
-  ["import: a NUL character in a load case id", importAction, () => { const c = example() as { cases: { id: string }[] }; c.cases[0]!.id = "M1\u0000"; return json("/api/v1/cases/import", "engineer", { programmeId, reference: "TN-NUL-3", case: c }); }, "case.cases.0.id"],
+  ["import: a NUL character in a load case id", importAction, () => { const c = example() as unknown as { cases: { id: string }[] }; c.cases[0]!.id = "M1\u0000"; return json("/api/v1/cases/import", "engineer", { programmeId, reference: "TN-NUL-3", case: c }); }, "case.cases.0.id"],
   ["new case: a right-to-left override in the title", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-BIDI-1", title: "Wing loads \u202Efdp.exe" })), "title"],
   ["new case: a line break in the title", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-CTRL-1", title: "Wing\nloads" })), "title"],
   ["programme: an isolate character in the name", programmesAction, () => post("/programmes", "admin", form({ code: "BIDI-1", name: "Skua \u2067redesign", aircraft: "NA-14" })), "name"],

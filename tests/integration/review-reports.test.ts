@@ -162,8 +162,11 @@ describe("reports", () => {
     process.env.S3_ENDPOINT = saved;
     resetEnvCache();
     resetS3Client();
-    // The harness's store has none of this report: re-issue there for the remaining checks.
+    // The harness's store has none of this report: re-issue there for the remaining checks. An
+    // issued report cannot be deleted (reports_append_only); only a test switches that off.
+    await db.execute(sql`ALTER TABLE reports DISABLE TRIGGER reports_append_only`);
     await db.execute(sql`DELETE FROM reports WHERE id = ${row.id}`);
+    await db.execute(sql`ALTER TABLE reports ENABLE TRIGGER reports_append_only`);
   });
 
   it("removes the stored PDF when the database refuses to record it", async () => {

@@ -15,7 +15,7 @@ import { startPostgres } from "../../app/server/dev-services/postgres";
 import { startS3 } from "../../app/server/dev-services/s3";
 
 export const TEMPLATE_DATABASE = "spanwright_template";
-export const TEST_BUCKETS = ["spanwright-uploads", "spanwright-reports"];
+export const TEST_BUCKETS = ["spanwright-uploads", "spanwright-reports", "spanwright-audit"];
 
 /** What the workers receive through `inject("testServices")`. */
 export interface TestServices {
