@@ -7,8 +7,9 @@ import { migrate } from "drizzle-orm/node-postgres/migrator";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { canonicalJson, entryHash, GENESIS_HASH, sha256Hex, verifyAuditChain, writeAudit } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, type Db } from "~/db/client.server";
 import { runMigrations } from "~/db/migrate.server";
+import * as schema from "~/db/schema";
 import { auditLog, cases, organisations, reports, users } from "~/db/schema";
 import { anchorChain, checkAuditTrail, listAnchors } from "~/services/audit-trail.server";
 import { seed } from "./helpers";
@@ -237,13 +238,12 @@ describe("the migration that re-chained the old trail (0006)", () => {
     return url;
   }
 
-  async function withDb<T>(url: string, fn: (database: ReturnType<typeof drizzle>) => Promise<T>): Promise<T> {
-    const client = new pg.Client({ connectionString: url });
-    await client.connect();
+  async function withDb<T>(url: string, fn: (database: Db) => Promise<T>): Promise<T> {
+    const pool = new pg.Pool({ connectionString: url, max: 1 });
     try {
-      return await fn(drizzle(client));
+      return await fn(drizzle(pool, { schema }));
     } finally {
-      await client.end();
+      await pool.end();
     }
   }
 
@@ -253,7 +253,7 @@ describe("the migration that re-chained the old trail (0006)", () => {
     await withDb(url, async (d) => {
       const orgs = await d.select().from(organisations);
       for (const o of orgs) {
-        const check = await verifyAuditChain(d as never, o.id);
+        const check = await verifyAuditChain(d, o.id);
         expect(check, o.slug).toMatchObject({ intact: true, entries: 4 });
         const [last] = await d.select().from(auditLog).where(eq(auditLog.organisationId, o.id)).orderBy(sql`seq desc`).limit(1);
         expect(last).toMatchObject({ seq: 4, action: "audit.rechain", after: expect.objectContaining({ previousChain: "intact", entries: 6 }) });
