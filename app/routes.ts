@@ -48,6 +48,7 @@ export default [
     route("cases/:caseId/reports", "routes/api/v1/case-reports.ts"),
     route("reports/:reportId/pdf", "routes/api/v1/report-pdf.ts"),
     route("analyze", "routes/api/v1/analyze.ts"),
+    route("analyze/jobs/:jobId", "routes/api/v1/analyze-job.ts"),
     route("openapi.json", "routes/api/v1/openapi.ts"),
     route("*", "routes/api/v1/not-found.ts"),
   ]),

@@ -3,11 +3,12 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { apiTokens, memberships, organisations, users } from "~/db/schema";
-import { hasPermission, type Permission } from "~/domain/permissions";
+import { hasPermission, scopeFor, type Permission } from "~/domain/permissions";
 import type { CurrentUser } from "~/domain/people";
 import { readSession } from "./session.server";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
+import type { ApiTokenScope } from "~/domain/vocabulary";
 import { apiError } from "~/utils/http.server";
 
 /** Every personal API token starts with this, so it is recognisable in a configuration file or a leak scan. */
@@ -20,8 +21,11 @@ const SHOWN_PREFIX_LENGTH = API_TOKEN_PREFIX.length + 6;
 const TOUCH_AFTER_MS = 60 * 1000;
 
 
-/** The person behind an API call, and whether they came with the browser cookie or a personal token. */
-export type ApiUser = CurrentUser & { via: "session" | "token"; tokenId: string | null };
+/**
+ * The person behind an API call, whether they came with the browser cookie or a personal token, and
+ * what the token may do (a session may do whatever the person's roles allow).
+ */
+export type ApiUser = CurrentUser & { via: "session" | "token"; tokenId: string | null; scope: ApiTokenScope };
 
 function unauthorized(message: string, invalidToken: boolean): never {
   // RFC 6750 §3: the challenge names the scheme, and the error when a token was presented but refused.
@@ -34,19 +38,22 @@ function unauthorized(message: string, invalidToken: boolean): never {
  * `Authorization: Bearer sw_…` with a personal API token that is not revoked, whose person is not
  * disabled and is still a member of the token's organisation. Refusals are thrown as JSON
  * Responses, never redirects: 401 without or with bad credentials, 403 when none of the person's
- * roles grants `permission`.
+ * roles grants `permission`, or when the token's scope is read-only and `permission` changes records.
  */
 export async function requireApiUser(request: Request, permission: Permission): Promise<ApiUser> {
   const current = request.headers.has("Authorization") ? await tokenUser(request.headers.get("Authorization")!) : await sessionUser(request);
   if (!hasPermission(current.roles, permission)) {
     throw apiError(403, "forbidden", `Your role in ${current.organisation.name} does not allow this (needs ${permission}).`);
   }
+  if (scopeFor(permission) === "read-write" && current.scope !== "read-write") {
+    throw apiError(403, "insufficient-scope", `This API token is read-only; ${permission} needs a token with the read-write scope (create one at /account/tokens).`);
+  }
   return current;
 }
 
 async function sessionUser(request: Request): Promise<ApiUser> {
   const state = await readSession(request);
-  if (state.status === "valid") return { ...state.current, via: "session", tokenId: null };
+  if (state.status === "valid") return { ...state.current, via: "session", tokenId: null, scope: "read-write" };
   if (state.status === "invalid") unauthorized("Your session has ended or is not valid. Sign in again, or send a personal API token.", false);
   unauthorized("Sign in, or send a personal API token as 'Authorization: Bearer sw_…' (create one at /account/tokens).", false);
 }
@@ -61,6 +68,7 @@ async function tokenUser(header: string): Promise<ApiUser> {
       id: apiTokens.id,
       lastUsedAt: apiTokens.lastUsedAt,
       revokedAt: apiTokens.revokedAt,
+      scope: apiTokens.scope,
       user: { id: users.id, email: users.email, name: users.name, disabled: users.disabled },
       organisation: { id: organisations.id, name: organisations.name, slug: organisations.slug },
       roles: memberships.roles,
@@ -79,14 +87,15 @@ async function tokenUser(header: string): Promise<ApiUser> {
     await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, row.id));
   }
   const { disabled: _disabled, ...user } = row.user;
-  return { sessionId: `token:${row.id}`, user, organisation: row.organisation, roles: row.roles, via: "token", tokenId: row.id };
+  return { sessionId: `token:${row.id}`, user, organisation: row.organisation, roles: row.roles, via: "token", tokenId: row.id, scope: row.scope };
 }
 
 /**
- * Creates a personal API token for a member of an organisation. The token (`sw_` + 160 random bits,
- * base32) is returned once and never stored: only its SHA-256 and its first characters are kept.
+ * Creates a personal API token for a member of an organisation, read-only or read-write. The token
+ * (`sw_` + 160 random bits, base32) is returned once and never stored: only its SHA-256 and its
+ * first characters are kept.
  */
-export async function createApiToken(input: { userId: string; organisationId: string; name: string; actor: Actor }): Promise<{ id: string; token: string }> {
+export async function createApiToken(input: { userId: string; organisationId: string; name: string; scope: ApiTokenScope; actor: Actor }): Promise<{ id: string; token: string }> {
   const name = input.name.trim();
   if (name.length < 1 || name.length > 80) throw new DomainError("Give the token a name of 1 to 80 characters.", { field: "name" });
   const bytes = new Uint8Array(20);
@@ -100,7 +109,7 @@ export async function createApiToken(input: { userId: string; organisationId: st
     if (!member) throw new DomainError("Only a member of the organisation can hold a token for it.", { field: "organisationId", kind: "forbidden" });
     const [row] = await tx
       .insert(apiTokens)
-      .values({ userId: input.userId, organisationId: input.organisationId, name, tokenHash: sha256Hex(token), prefix: token.slice(0, SHOWN_PREFIX_LENGTH) })
+      .values({ userId: input.userId, organisationId: input.organisationId, name, scope: input.scope, tokenHash: sha256Hex(token), prefix: token.slice(0, SHOWN_PREFIX_LENGTH) })
       .returning({ id: apiTokens.id, prefix: apiTokens.prefix });
     await writeAudit(tx, {
       organisationId: input.organisationId,
@@ -108,7 +117,7 @@ export async function createApiToken(input: { userId: string; organisationId: st
       action: "api-token.create",
       entityType: "api-token",
       entityId: row!.id,
-      after: { userId: input.userId, name, prefix: row!.prefix },
+      after: { userId: input.userId, name, prefix: row!.prefix, scope: input.scope },
     });
     return { id: row!.id, token };
   });
@@ -148,6 +157,7 @@ export async function listApiTokens(userId: string) {
       id: apiTokens.id,
       name: apiTokens.name,
       prefix: apiTokens.prefix,
+      scope: apiTokens.scope,
       organisationName: organisations.name,
       createdAt: apiTokens.createdAt,
       lastUsedAt: apiTokens.lastUsedAt,

@@ -15,6 +15,8 @@ export type DomainErrorKind =
   | "conflict"
   /** The request is larger than the limit it names (413). */
   | "too-large"
+  /** Too many attempts or requests for now: wait and try again (429). */
+  | "too-many"
   /** The case cannot be computed as given: the engine or the exchange contract refuses it (422). */
   | "unprocessable";
 
@@ -43,6 +45,16 @@ export class DomainError extends Error {
     this.field = options.field;
     this.problems = options.problems;
   }
+}
+
+/**
+ * The problems of a refused document in one short message: the first few with their paths, then
+ * how many more there are. A document with a hundred thousand bad rows is answered in a line.
+ */
+export function problemsMessage(problems: readonly DocumentProblem[], shown = 5): string {
+  const head = problems.slice(0, shown).map((p) => `${p.path}: ${p.message}`).join("; ");
+  const more = problems.length - shown;
+  return more > 0 ? `${head}; and ${more} more problem${more === 1 ? "" : "s"}` : head;
 }
 
 export function isDomainError(error: unknown): error is DomainError {

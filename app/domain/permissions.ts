@@ -1,4 +1,4 @@
-import type { Role } from "./vocabulary";
+import type { ApiTokenScope, Role } from "./vocabulary";
 
 /**
  * What each role may do, as typed strings. Checked on the server for every loader and action
@@ -21,6 +21,19 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
   checker: ["programme:read", "case:read", "step:check", "report:read"],
   quality: ["programme:read", "case:read", "report:read", "report:release", "audit:read"],
   admin: ["programme:read", "programme:manage", "case:read", "audit:read", "org:admin"],
+};
+
+/** Permissions that change records: an API token needs the read-write scope for them. */
+const WRITE_PERMISSIONS: readonly Permission[] = ["programme:manage", "case:create", "case:edit", "step:check", "report:release", "org:admin"];
+
+/** The token scope a permission needs: reading, or also changing records. */
+export function scopeFor(permission: Permission): ApiTokenScope {
+  return WRITE_PERMISSIONS.includes(permission) ? "read-write" : "read";
+}
+
+export const API_TOKEN_SCOPE_LABELS: Record<ApiTokenScope, string> = {
+  read: "Read only: list, read and export cases, results and reports; analyse case files",
+  "read-write": "Read and write: also import cases",
 };
 
 export const ROLE_LABELS: Record<Role, string> = {

@@ -1,4 +1,5 @@
 import { computeQueuedResults } from "~/services/analysis.server";
+import { runAnalysisJob } from "~/services/analysis-jobs.server";
 import { anchorAllChains } from "~/services/audit-trail.server";
 import { generateReport } from "~/services/reports.server";
 import { AUDIT_CHECKPOINT_CRON, boss, QUEUES } from "./boss.server";
@@ -15,6 +16,9 @@ export async function startWorkers(): Promise<void> {
   });
   await queue.work<{ caseId: string }>(QUEUES.computeResults, { pollingIntervalSeconds: 1 }, async ([job]) => {
     if (job) await computeQueuedResults(job.data.caseId);
+  });
+  await queue.work<{ jobId: string }>(QUEUES.analyze, { pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (job) await runAnalysisJob(job.data.jobId);
   });
   await queue.work(QUEUES.auditCheckpoint, async () => {
     await anchorAllChains();

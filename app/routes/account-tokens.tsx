@@ -2,6 +2,8 @@ import { useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/auth/api-auth.server";
 import { requireUser } from "~/auth/auth.server";
+import { API_TOKEN_SCOPE_LABELS } from "~/domain/permissions";
+import { API_TOKEN_SCOPES } from "~/domain/vocabulary";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
@@ -24,8 +26,8 @@ export async function action({ request }: Route.ActionArgs) {
   return answer(async () => {
     if (input.intent === "create") {
       // The token belongs to the organisation the person is working in now.
-      const { token } = await createApiToken({ userId: current.user.id, organisationId: current.organisation.id, name: input.name, actor: current.user });
-      return accepted(`Token “${input.name}” created.`, { created: { name: input.name, token } });
+      const { token } = await createApiToken({ userId: current.user.id, organisationId: current.organisation.id, name: input.name, scope: input.scope, actor: current.user });
+      return accepted(`Token “${input.name}” created.`, { created: { name: input.name, token, scope: input.scope } });
     }
     await revokeApiToken({ tokenId: input.tokenId, userId: current.user.id, actor: current.user });
     return accepted("Token revoked.", { created: null });
@@ -39,8 +41,9 @@ export default function AccountTokensRoute({ loaderData, actionData }: Route.Com
         title="API tokens"
         description={
           <>
-            Personal tokens let scripts and other programs use the <Link to="/api">Spanwright API</Link> as you, in {loaderData.organisation}, with your roles. Treat a
-            token like a password; revoke it when it is no longer needed.
+            Personal tokens let scripts and other programs use the <Link to="/api">Spanwright API</Link> as you, in {loaderData.organisation}, with your roles. A
+            read-only token can never change a record, whatever your roles allow; give a token write access only when its script imports cases. Treat a token
+            like a password; revoke it when it is no longer needed.
           </>
         }
       />
@@ -65,6 +68,7 @@ function TokenList({ tokens }: { tokens: Route.ComponentProps["loaderData"]["tok
           <tr>
             <th className="px-3 py-2">Name</th>
             <th className="px-3 py-2">Starts with</th>
+            <th className="px-3 py-2">Scope</th>
             <th className="px-3 py-2">Created</th>
             <th className="px-3 py-2">Last used</th>
             <th className="px-3 py-2">State</th>
@@ -76,6 +80,9 @@ function TokenList({ tokens }: { tokens: Route.ComponentProps["loaderData"]["tok
             <tr key={t.id} className="border-b border-line last:border-0">
               <td className="px-3 py-2 font-semibold">{t.name}</td>
               <td className="px-3 py-2 font-mono text-xs">{t.prefix}…</td>
+              <td className="px-3 py-2" title={API_TOKEN_SCOPE_LABELS[t.scope]}>
+                {t.scope === "read" ? "read only" : "read and write"}
+              </td>
               <td className="px-3 py-2">{formatUtc(t.createdAt)}</td>
               <td className="px-3 py-2">{t.lastUsedAt ? formatUtc(t.lastUsedAt) : "never"}</td>
               <td className="px-3 py-2">{t.revokedAt ? `revoked ${formatUtc(t.revokedAt)}` : `active · ${t.organisationName}`}</td>
@@ -98,11 +105,11 @@ function TokenList({ tokens }: { tokens: Route.ComponentProps["loaderData"]["tok
   );
 }
 
-function NewToken({ name, token }: { name: string; token: string }) {
+function NewToken({ name, token, scope }: { name: string; token: string; scope: string }) {
   const [copied, setCopied] = useState(false);
   return (
     <Panel title="New token">
-      <Alert tone="warn">Copy the token “{name}” now: it is shown only once and cannot be shown again.</Alert>
+      <Alert tone="warn">Copy the token “{name}” ({scope === "read" ? "read only" : "read and write"}) now: it is shown only once and cannot be shown again.</Alert>
       <output aria-label="New API token" className="mt-3 block break-all rounded border border-line-strong bg-canvas px-2.5 py-1.5 font-mono text-sm">
         {token}
       </output>
@@ -122,7 +129,7 @@ function NewToken({ name, token }: { name: string; token: string }) {
 
 function CreateTokenForm({ serverErrors, createdToken }: { serverErrors?: Record<string, string[] | undefined>; createdToken?: string }) {
   // A token just created empties the form for the next one.
-  const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "" }, createdToken);
+  const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "", scope: "read" }, createdToken);
   const busy = useNavigation().state === "submitting";
   return (
     <Panel title="Create a token">
@@ -134,6 +141,20 @@ function CreateTokenForm({ serverErrors, createdToken }: { serverErrors?: Record
         ) : null}
         <input type="hidden" {...form.register("intent")} />
         <TextField label="Name" hint="What will use it, e.g. “nightly loads export”" {...form.register("name")} errors={errorsFor(form, serverErrors, "name")} />
+        <fieldset className="mb-3">
+          <legend className="text-sm font-semibold">What it may do</legend>
+          {API_TOKEN_SCOPES.map((scope) => (
+            <label key={scope} className="mt-1 flex items-start gap-2 text-sm">
+              <input type="radio" value={scope} className="mt-1" {...form.register("scope")} />
+              <span>{API_TOKEN_SCOPE_LABELS[scope]}</span>
+            </label>
+          ))}
+          {errorsFor(form, serverErrors, "scope").filter(Boolean).map((m) => (
+            <p key={m} className="mt-1 text-xs font-semibold text-danger">
+              {m}
+            </p>
+          ))}
+        </fieldset>
         <Button type="submit" disabled={busy}>
           Create token
         </Button>

@@ -1,6 +1,8 @@
 import { Link } from "react-router";
 import { PageHeader, Panel } from "~/components/ui/page-header";
+import { MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/services/analysis-jobs.server";
 import { env } from "~/utils/env.server";
+import { ANALYZE_LIMITS, BODY_LIMITS, formatBytes, MAX_LISTED_PROBLEMS } from "~/utils/limits";
 import { exchangeFormatHtml } from "./api-docs.server";
 import type { Route } from "./+types/api-docs";
 
@@ -8,6 +10,8 @@ interface Endpoint {
   method: "GET" | "POST";
   path: string;
   permission: string;
+  /** The token scope it needs. */
+  scope: "read" | "read-write";
   what: string;
   curl: string;
 }
@@ -21,6 +25,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "GET",
       path: "/api/v1/cases",
       permission: "case:read",
+      scope: "read",
       what: "Your organisation's cases: id, reference, title, programme, status and time of the last change.",
       curl: `curl ${AUTH} ${origin}/api/v1/cases`,
     },
@@ -28,6 +33,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "GET",
       path: "/api/v1/cases/{caseId}",
       permission: "case:read",
+      scope: "read",
       what: "One case with the status and revision of each of its steps.",
       curl: `curl ${AUTH} ${origin}/api/v1/cases/$CASE_ID`,
     },
@@ -35,6 +41,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "GET",
       path: "/api/v1/cases/{caseId}/export",
       permission: "case:read",
+      scope: "read",
       what: "The case as a spanwright.case/1 document, ready for the command line. 409 while planform, sections or envelope is unsaved.",
       curl: `curl ${AUTH} -o case.json ${origin}/api/v1/cases/$CASE_ID/export`,
     },
@@ -42,6 +49,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "GET",
       path: "/api/v1/cases/{caseId}/results",
       permission: "case:read",
+      scope: "read",
       what: "The spanwright.result/1 document of the case, computed once per input and engine version and then kept. Add ?format=csv for every case's station table as CSV. A sweep of more than 500 cases is solved by a background worker: until it is stored the answer is 202 with status \"computing\", a message and the progress so far (phase queued, solving or cases; solves, casesDone, casesTotal); ask again after the Retry-After seconds.",
       curl: `curl ${AUTH} -o results.csv "${origin}/api/v1/cases/$CASE_ID/results?format=csv"`,
     },
@@ -49,6 +57,7 @@ function endpoints(origin: string): Endpoint[] {
       method: "POST",
       path: "/api/v1/cases/import",
       permission: "case:create",
+      scope: "read-write",
       what: "Creates a case from a spanwright.case/1 document: body { programmeId, reference, title?, case }, or the document alone with ?programmeId=&reference= (programme ids are in the case list). Planform, sections, envelope and loads are filled in one go; the certification basis is left for you to enter. A refusal names every bad field and writes nothing.",
       curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json "${origin}/api/v1/cases/import?programmeId=$PROGRAMME_ID&reference=TN-WL-010"`,
     },
@@ -56,14 +65,35 @@ function endpoints(origin: string): Endpoint[] {
       method: "POST",
       path: "/api/v1/analyze",
       permission: "case:read",
-      what: "Analyses a spanwright.case/1 document (up to 20 MB) and answers spanwright.result/1. Nothing is stored. A bad document answers 422 with every problem and its path.",
+      scope: "read",
+      what: `Analyses a spanwright.case/1 document and answers spanwright.result/1. Up to ${ANALYZE_LIMITS.syncCases} load cases are answered at once and nothing is stored; a larger sweep, up to ${ANALYZE_LIMITS.queuedCases} cases, is answered 202 with a job to poll (below). A bad document answers 422 with its first ${MAX_LISTED_PROBLEMS} problems and their count.`,
       curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json ${origin}/api/v1/analyze`,
+    },
+    {
+      method: "GET",
+      path: "/api/v1/analyze/jobs/{jobId}",
+      permission: "case:read",
+      scope: "read",
+      what: `A sweep you sent to /api/v1/analyze that went to the job queue: 202 while it waits or runs, then 200 with the result (kept for a day). You may have ${MAX_OPEN_ANALYSES} waiting at once; another person's job answers 404.`,
+      curl: `curl ${AUTH} ${origin}/api/v1/analyze/jobs/$JOB_ID`,
     },
   ];
 }
 
+/** What one request may ask for, as the server enforces it. */
+const LIMITS = [
+  ["Request body", formatBytes(BODY_LIMITS.api)],
+  ["Wing stations (wing.stations)", String(ANALYZE_LIMITS.wingStations)],
+  ["Output stations (method.stations)", String(ANALYZE_LIMITS.outputStations)],
+  ["Load cases answered at once", String(ANALYZE_LIMITS.syncCases)],
+  ["Load cases per request (the rest through the job queue)", String(ANALYZE_LIMITS.queuedCases)],
+  ['Station rows with method.output "full" (cases × output stations)', String(MAX_OUTPUT_ROWS)],
+  ["Analyses of yours waiting at once", String(MAX_OPEN_ANALYSES)],
+  ["Problems listed in a 422 answer", String(MAX_LISTED_PROBLEMS)],
+] as const;
+
 export function loader() {
-  return { endpoints: endpoints(env().APP_ORIGIN), exchangeFormat: exchangeFormatHtml() };
+  return { endpoints: endpoints(env().APP_ORIGIN), exchangeFormat: exchangeFormatHtml(), limits: LIMITS };
 }
 
 export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
@@ -79,7 +109,9 @@ export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
             <p>
               Every endpoint except the description answers only to a signed-in person. From a browser where you are signed in, the session cookie is enough. From a
               script, create a personal token at <Link to="/account/tokens">Account → API tokens</Link> and send it as <code>Authorization: Bearer sw_…</code>. A token
-              acts as you, in the organisation you created it in, with the roles you hold there now; revoke it when it is no longer needed.
+              acts as you, in the organisation you created it in, with the roles you hold there now; revoke it when it is no longer needed. Its scope is chosen when
+              it is made: <strong>read only</strong> (every read, and analysis) or <strong>read and write</strong> (also import). A read-only token asking to
+              change a record is answered 403 <code>insufficient-scope</code>.
             </p>
             <p>
               Errors are JSON: <code>{'{ "error": "…", "message": "…" }'}</code>. 401 means no credentials or a token that is unknown or revoked; 403 that your role
@@ -94,10 +126,28 @@ export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
               {e.method} {e.path}
             </h2>
             <p className="mt-1 text-sm">{e.what}</p>
-            <p className="mt-1 text-xs text-ink-muted">Needs {e.permission}.</p>
+            <p className="mt-1 text-xs text-ink-muted">
+              Needs {e.permission}; a token of scope {e.scope === "read" ? "read only or read and write" : "read and write"}.
+            </p>
             <pre className="mt-2 overflow-x-auto rounded bg-canvas p-3 text-xs">{e.curl}</pre>
           </Panel>
         ))}
+        <Panel title="Limits">
+          <p className="mb-2 text-sm">
+            What one request may ask for. A request beyond a limit is answered at once with 413 (or 422 for a value out of range), naming the limit; nothing is
+            solved or stored.
+          </p>
+          <table className="text-sm">
+            <tbody>
+              {loaderData.limits.map(([what, value]) => (
+                <tr key={what} className="border-t border-line">
+                  <td className="py-1 pr-6">{what}</td>
+                  <td className="py-1 text-right tabular">{value}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </Panel>
         <Panel title="Formats">
           <ul className="list-disc space-y-1 pl-5 text-sm">
             <li>

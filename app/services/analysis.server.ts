@@ -10,7 +10,7 @@ import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, run
 import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
 import { runEngine, runEngineAsync } from "./engine.server";
-import { DomainError } from "~/domain/errors";
+import { DomainError, problemsMessage } from "~/domain/errors";
 
 export interface CaseInputs {
   basis: BasisData | null;
@@ -169,7 +169,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
 /** Validates an exchange document exactly as the command line does; failures name the field. */
 export function parseOrThrow(file: CaseFileInput): CaseFile {
   const parsed = runEngine(() => parseCase(file));
-  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: parsed.problems[0]?.path, kind: "unprocessable" });
+  if (!parsed.ok) throw new DomainError(problemsMessage(parsed.problems), { field: parsed.problems[0]?.path, kind: "unprocessable" });
   return parsed.value;
 }
 

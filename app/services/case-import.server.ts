@@ -7,14 +7,14 @@ import { caseSteps, cases, programmes, stepRevisions } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { formatPath, parseCase, parseSections, type CaseFile, type CaseProblem, type SectionsFile } from "~/exchange";
 import type { Actor } from "~/domain/people";
-import { DomainError } from "~/domain/errors";
+import { DomainError, problemsMessage } from "~/domain/errors";
 import { runEngine } from "./engine.server";
 import { lineProblem } from "~/utils/text";
 
 
 /** Refusal of an import: every problem found, each with its path in the exchange document. */
 function importRefused(problems: CaseProblem[]): DomainError {
-  return new DomainError(problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: problems[0]?.path, kind: "unprocessable", problems });
+  return new DomainError(problemsMessage(problems), { field: problems[0]?.path, kind: "unprocessable", problems });
 }
 
 type ImportedSteps = { planform: unknown; sections: unknown; envelope: unknown; loads: unknown };

@@ -12,7 +12,7 @@ import {
 } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, wingModelOf } from "~/exchange";
 import { exchangeStations, type CaseInputs } from "./analysis.server";
-import { DomainError } from "~/domain/errors";
+import { DomainError, problemsMessage } from "~/domain/errors";
 import { runEngine } from "./engine.server";
 
 const G0 = 9.80665;
@@ -48,7 +48,7 @@ function vnSetsOf(basis: BasisData, planform: PlanformData, sections: SectionsDa
     method: { compressibility: method.compressibility, spanwise: method.spanwise, stations: 20 },
     cases: [{ id: "probe", mach: 0, altitude: 0, alpha: 0 }],
   });
-  if (!parsed.ok) throw new DomainError(parsed.problems.map((p) => `${p.path}: ${p.message}`).join("; "), { field: "planform", kind: "unprocessable" });
+  if (!parsed.ok) throw new DomainError(problemsMessage(parsed.problems), { field: "planform", kind: "unprocessable" });
   const model = wingModelOf(parsed.value);
   const geometry = wingGeometry(model.stations);
   const { part, category: cat } = category(basis);

@@ -2,6 +2,7 @@ import { data } from "react-router";
 import type { z } from "zod";
 import { DomainError, type DomainErrorKind } from "~/domain/errors";
 import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionAnswer, type ActionRefusal, type FieldErrors, type FormShape } from "./form-data";
+import { MAX_LISTED_PROBLEMS } from "./limits";
 import { findNul, NUL_MESSAGE } from "./text";
 
 // ---------------------------------------------------------------- the one mapping of refusals to HTTP
@@ -13,6 +14,7 @@ const STATUS: Record<DomainErrorKind, number> = {
   "not-found": 404,
   conflict: 409,
   "too-large": 413,
+  "too-many": 429,
   unprocessable: 422,
 };
 
@@ -24,6 +26,7 @@ const API_CODE: Record<DomainErrorKind, string> = {
   "not-found": "not-found",
   conflict: "conflict",
   "too-large": "too-large",
+  "too-many": "too-many-requests",
   unprocessable: "invalid-case",
 };
 
@@ -37,10 +40,13 @@ export function apiError(status: number, error: string, message: string, headers
   return Response.json({ error, message }, { status, headers });
 }
 
-/** A domain refusal as the API answers it. */
+/**
+ * A domain refusal as the API answers it. A refused document's problems are listed up to
+ * MAX_LISTED_PROBLEMS, in document order, with their count, so the answer stays short.
+ */
 export function apiRefusal(error: DomainError): Response {
-  const body = { error: API_CODE[error.kind], message: error.message, ...(error.problems ? { problems: error.problems } : {}) };
-  return Response.json(body, { status: statusOf(error) });
+  const problems = error.problems ? { problemCount: error.problems.length, problems: error.problems.slice(0, MAX_LISTED_PROBLEMS), ...(error.problems.length > MAX_LISTED_PROBLEMS ? { omitted: error.problems.length - MAX_LISTED_PROBLEMS } : {}) } : {};
+  return Response.json({ error: API_CODE[error.kind], message: error.message, ...problems }, { status: statusOf(error) });
 }
 
 // ---------------------------------------------------------------- page actions

@@ -38,7 +38,7 @@ const tokens: Record<"engineer" | "checker" | "outsider", string> = { engineer: 
 async function tokenFor(label: keyof typeof tokens, name = `${label} script`) {
   const u = demoUser(label);
   const [row] = await db.select({ user: users, organisationId: memberships.organisationId }).from(users).innerJoin(memberships, eq(memberships.userId, users.id)).where(eq(users.email, u.email));
-  return createApiToken({ userId: row!.user.id, organisationId: row!.organisationId, name, actor: { id: row!.user.id, email: row!.user.email } });
+  return createApiToken({ userId: row!.user.id, organisationId: row!.organisationId, name, scope: "read-write", actor: { id: row!.user.id, email: row!.user.email } });
 }
 
 type Handler = (args: never) => Promise<Response>;
@@ -95,7 +95,7 @@ describe("personal API tokens", () => {
 
   it("are created, listed and revoked from /account/tokens, the new token shown once", async () => {
     const cookie = await cookieFor("engineer");
-    const created = await run(tokensAction, { request: request("/account/tokens", { method: "POST", cookie, body: form({ intent: "create", name: "nightly export" }) }) });
+    const created = await run(tokensAction, { request: request("/account/tokens", { method: "POST", cookie, body: form({ intent: "create", name: "nightly export", scope: "read" }) }) });
     expect(created.status).toBe(200);
     const token = (created.body as { created: { token: string } }).created.token;
     expect(token).toMatch(/^sw_[a-z2-7]{32}$/);
@@ -114,6 +114,40 @@ describe("personal API tokens", () => {
     expect(after.status).toBe(401);
     expect(after.body).toMatchObject({ error: "unauthorized" });
     expect((await db.select().from(auditLog).where(and(eq(auditLog.action, "api-token.revoke"), eq(auditLog.entityId, entry.id))))).toHaveLength(1);
+  });
+
+  it("carry a scope: a read-only token reads but cannot import, a read-write one can; the scope is listed and audited", async () => {
+    const cookie = await cookieFor("engineer");
+    const make = async (name: string, scope: string) => {
+      const res = await run(tokensAction, { request: request("/account/tokens", { method: "POST", cookie, body: form({ intent: "create", name, scope }) }) });
+      expect(res.status).toBe(200);
+      return (res.body as { created: { token: string; scope: string } }).created;
+    };
+    const readOnly = await make("scope read", "read");
+    const readWrite = await make("scope write", "read-write");
+    expect(readOnly.scope).toBe("read");
+    const body = (reference: string) => jsonPost({ programmeId: kestrelProgrammeId, reference, case: example("kf60-tern-wing") });
+    expect((await call(casesLoader, "/api/v1/cases", { token: readOnly.token })).status).toBe(200);
+    const before = await rowCounts();
+    const refused = await call(importAction, "/api/v1/cases/import", { token: readOnly.token, ...body("TN-SCOPE-1") });
+    expect(refused.status).toBe(403);
+    expect(refused.body).toMatchObject({ error: "insufficient-scope", message: expect.stringContaining("read-only") });
+    // Only the token's last use was written.
+    expect(await rowCounts()).toEqual(before);
+    // A read-write token passes the scope check: what answers is the document (left empty here, so no case is made).
+    const allowed = await call(importAction, "/api/v1/cases/import", { token: readWrite.token, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-SCOPE-2", case: {} }) });
+    expect(allowed.status).toBe(422);
+
+    const listed = await run(tokensLoader, { request: request("/account/tokens", { cookie }) });
+    const rows = (listed.body as { tokens: { name: string; scope: string }[] }).tokens;
+    expect(rows.find((t) => t.name === "scope read")!.scope).toBe("read");
+    expect(rows.find((t) => t.name === "scope write")!.scope).toBe("read-write");
+    const [audit] = await db.select().from(auditLog).where(eq(auditLog.action, "api-token.create")).orderBy(sql`id desc`).limit(1);
+    expect(audit!.after).toMatchObject({ name: "scope write", scope: "read-write" });
+
+    const missing = await run(tokensAction, { request: request("/account/tokens", { method: "POST", cookie, body: form({ intent: "create", name: "no scope" }) }) });
+    expect(missing.status).toBe(400);
+    expect((missing.body as { fieldErrors: Record<string, string[]> }).fieldErrors.scope?.[0]).toMatch(/read only, or read and write/);
   });
 
   it("refuses an empty name on the form, and someone else's token on revoke", async () => {
@@ -506,8 +540,16 @@ describe("GET /api/v1/openapi.json", () => {
     const doc = JSON.parse(res.text) as { openapi: string; paths: Record<string, Record<string, unknown>>; components: { schemas: Record<string, { properties?: Record<string, unknown>; required?: string[] }> } };
     expect(doc.openapi).toBe("3.1.0");
     expect(Object.keys(doc.paths).sort()).toEqual(
-      ["/api/v1/analyze", "/api/v1/cases", "/api/v1/cases/import", "/api/v1/cases/{caseId}", "/api/v1/cases/{caseId}/export", "/api/v1/cases/{caseId}/results", "/api/v1/openapi.json"].sort(),
+      ["/api/v1/analyze", "/api/v1/analyze/jobs/{jobId}", "/api/v1/cases", "/api/v1/cases/import", "/api/v1/cases/{caseId}", "/api/v1/cases/{caseId}/export", "/api/v1/cases/{caseId}/results", "/api/v1/openapi.json"].sort(),
     );
+    // Token scopes: import needs read-write; everything else takes either.
+    const ops = doc.paths as Record<string, Record<string, { security?: { bearer?: string[] }[]; description?: string; "x-limits"?: Record<string, number> }>>;
+    expect(ops["/api/v1/cases/import"]!.post!.security).toEqual([{ bearer: ["read-write"] }, { cookie: [] }]);
+    expect((doc as unknown as { security: unknown }).security).toEqual([{ bearer: ["read"] }, { bearer: ["read-write"] }, { cookie: [] }]);
+    expect(JSON.stringify((doc as unknown as { components: { securitySchemes: unknown } }).components.securitySchemes)).toContain("read-write");
+    // The analysis limits, named and numbered.
+    expect(ops["/api/v1/analyze"]!.post!["x-limits"]).toMatchObject({ wingStations: 200, outputStations: 400, casesAnsweredAtOnce: 500, casesPerRequest: 20000 });
+    expect(ops["/api/v1/analyze"]!.post!.description).toContain("at most 200 wing stations");
     expect(doc.paths["/api/v1/analyze"]).toHaveProperty("post");
     expect(doc.paths["/api/v1/cases/import"]).toHaveProperty("post");
     const caseFile = doc.components.schemas.CaseFile!;

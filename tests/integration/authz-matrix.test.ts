@@ -27,7 +27,8 @@ const ALL: readonly Role[] = ["engineer", "checker", "quality", "admin"];
 type Rule =
   | { kind: "public" }
   | { kind: "fixed"; answer: Outcome; note: string }
-  | { kind: "roles"; roles: readonly Role[]; anon: "sign-in" | "401"; record: boolean };
+  | { kind: "roles"; roles: readonly Role[]; anon: "sign-in" | "401"; record: boolean }
+  | { kind: "own"; anon: "sign-in" | "401" };
 
 type Outcome = "allowed" | "sign-in" | "401" | "403" | "404" | "405";
 
@@ -36,6 +37,8 @@ const page = (roles: readonly Role[], record = false): Rule => ({ kind: "roles",
 const api = (roles: readonly Role[], record = false): Rule => ({ kind: "roles", roles, anon: "401", record });
 const fixed = (answer: Outcome, note: string): Rule => ({ kind: "fixed", answer, note });
 const notAllowed = fixed("405", "method not answered, before any check");
+/** A record only its own person sees: the id in the matrix names nobody's, so every signed-in caller gets 404. */
+const own: Rule = { kind: "own", anon: "401" };
 
 /** The policy per route module file; `intents` adds rows for actions whose permission depends on the intent. */
 const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<string, Rule>; query?: string }> = {
@@ -93,6 +96,7 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/api/v1/case-reports.ts": { loader: api(["engineer", "checker", "quality"], true), action: notAllowed },
   "routes/api/v1/report-pdf.ts": { loader: api(["engineer", "checker", "quality"], true), action: notAllowed },
   "routes/api/v1/analyze.ts": { loader: notAllowed, action: api(ALL) },
+  "routes/api/v1/analyze-job.ts": { loader: own, action: notAllowed },
   "routes/api/v1/openapi.ts": { loader: pub, action: notAllowed },
   "routes/api/v1/not-found.ts": { loader: fixed("404", "no such endpoint"), action: fixed("404", "no such endpoint") },
   "routes/api/healthz.ts": { loader: pub },
@@ -117,6 +121,7 @@ function expected(rule: Rule, caller: Caller): Outcome {
   if (rule.kind === "public") return "allowed";
   if (rule.kind === "fixed") return rule.answer;
   if (caller === "anonymous") return rule.anon;
+  if (rule.kind === "own") return "404";
   const roles: readonly Role[] = caller === "outsider" ? outsiderRoles : [caller];
   // Kestrel's records are invisible to Northmoor's person whatever their role: the same 404 as a missing record.
   if (caller === "outsider" && rule.record) return "404";
@@ -148,7 +153,7 @@ beforeAll(async () => {
   const [r] = await db.select().from(reports).where(eq(reports.caseId, c!.id));
   emptyCaseId = empty!.id;
   const loadCaseId = buildCaseFile(c!.title, caseInputs(await getCaseSteps(c!.id)), "envelope").cases[0]!.id;
-  params = { loadCaseId, caseId: c!.id, programmeId: p!.id, reportId: r!.id, token: "no-such-invitation-token-0000000000", "*": "no-such-endpoint" };
+  params = { loadCaseId, caseId: c!.id, programmeId: p!.id, reportId: r!.id, token: "no-such-invitation-token-0000000000", jobId: "00000000-0000-4000-8000-000000000000", "*": "no-such-endpoint" };
   for (const caller of CALLERS) if (caller !== "anonymous") cookies[caller] = await cookieFor(caller);
 }, 120_000);
 
@@ -257,7 +262,7 @@ describe("ids of another organisation's records inside a body", () => {
     const outsider = DEMO_USERS.find((u) => u.label === "outsider")!;
     const [jonas] = await db.select().from(users).where(eq(users.email, outsider.email));
     const [membership] = await db.select().from(memberships).where(eq(memberships.userId, jonas!.id));
-    const token = await createApiToken({ userId: jonas!.id, organisationId: membership!.organisationId, name: "matrix", actor: { id: jonas!.id, email: jonas!.email } });
+    const token = await createApiToken({ userId: jonas!.id, organisationId: membership!.organisationId, name: "matrix", scope: "read", actor: { id: jonas!.id, email: jonas!.email } });
 
     // Kestrel's administrator tries to change the roles of Northmoor's person.
     const roles = new FormData();

@@ -105,7 +105,7 @@ describe("answers are not stored by caches (item 11)", () => {
       expect(res.status, path).toBeLessThan(500);
       expect(res.headers.get("Cache-Control"), path).toBe("no-store");
     }
-    const created = await app.postForm("/account/tokens", { intent: "create", name: "cache probe" }, { Cookie: engineer });
+    const created = await app.postForm("/account/tokens", { intent: "create", name: "cache probe", scope: "read" }, { Cookie: engineer });
     expect(created.headers.get("Cache-Control")).toBe("no-store");
   });
 });

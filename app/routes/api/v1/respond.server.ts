@@ -1,10 +1,12 @@
 import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/utils/unavailable.server";
-import { DomainError, type DocumentProblem } from "~/domain/errors";
+import { DomainError, problemsMessage, type DocumentProblem } from "~/domain/errors";
+import { isEngineError } from "~/engine";
 import { apiError, apiRefusal } from "~/utils/http.server";
+import { BODY_LIMITS, formatBytes } from "~/utils/limits";
 import { findNul, NUL_MESSAGE } from "~/utils/text";
 
-/** Largest request body the API reads (bytes): a case file of 100 000 load cases stays well inside it. */
-export const MAX_BODY_BYTES = 20 * 1024 * 1024;
+/** Largest request body the API reads (bytes); the web server refuses a larger one before this is reached. */
+export const MAX_BODY_BYTES = BODY_LIMITS.api;
 
 /**
  * Runs an API handler and turns every failure into the API's JSON `{ error, message }` answer:
@@ -43,7 +45,7 @@ export async function readJsonBody(request: Request): Promise<unknown> {
   if (type && !/^application\/(?:[\w.+-]+\+)?json\b/i.test(type)) {
     throw apiError(415, "unsupported-media-type", "Send the body as JSON (Content-Type: application/json).");
   }
-  const tooLarge = () => apiError(413, "too-large", `The request body is larger than ${MAX_BODY_BYTES / (1024 * 1024)} MB.`);
+  const tooLarge = () => apiError(413, "too-large", `The request body is larger than ${formatBytes(MAX_BODY_BYTES)}, the limit for this request.`);
   const declared = Number(request.headers.get("Content-Length") ?? NaN);
   if (declared > MAX_BODY_BYTES) throw tooLarge();
   const chunks: Uint8Array[] = [];
@@ -75,7 +77,10 @@ export async function readJsonBody(request: Request): Promise<unknown> {
   return value;
 }
 
-/** Problems of a bad exchange document, as the API answers them: 422 naming every field. */
+/**
+ * Problems of a bad exchange document, as the API answers them: 422 naming each field (at most
+ * MAX_LISTED_PROBLEMS of them, with their count: see apiRefusal).
+ */
 export function invalidCase(problems: DocumentProblem[]): Response {
-  return apiRefusal(new DomainError(problems.map((p) => `${p.path}: ${p.message}`).join("; "), { kind: "unprocessable", field: problems[0]?.path, problems }));
+  return apiRefusal(new DomainError(problemsMessage(problems), { kind: "unprocessable", field: problems[0]?.path, problems }));
 }

@@ -1,0 +1,143 @@
+import { and, eq, inArray, lt } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { analysisJobs } from "~/db/schema";
+import { DomainError } from "~/domain/errors";
+import type { AnalysisJobStatus } from "~/domain/vocabulary";
+import { isEngineError } from "~/engine";
+import { parseCase, runCase, type CaseFile, type CaseProblem, type CaseResult } from "~/exchange";
+import { ANALYZE_LIMITS } from "~/utils/limits";
+
+/** Analyses kept after they finish, for their caller to fetch. */
+export const ANALYSIS_JOB_TTL_MS = 24 * 60 * 60 * 1000;
+/** Analyses one person may have waiting or running at once. */
+export const MAX_OPEN_ANALYSES = 3;
+/** Output station rows (cases × output stations) a request may ask for with method.output "full". */
+export const MAX_OUTPUT_ROWS = ANALYZE_LIMITS.syncCases * ANALYZE_LIMITS.outputStations;
+
+/** A request beyond a limit of ANALYZE_LIMITS, refused before it is validated or solved (413). */
+export class AnalysisLimitError extends DomainError {
+  constructor(
+    readonly limit: string,
+    readonly max: number,
+    message: string,
+  ) {
+    super(message, { kind: "too-large", field: limit });
+  }
+}
+
+const lengthOf = (value: unknown, key: string): number | null => {
+  const v = typeof value === "object" && value !== null ? (value as Record<string, unknown>)[key] : undefined;
+  return Array.isArray(v) ? v.length : null;
+};
+
+/**
+ * Checks the sizes a request asks for before anything else reads it: a million empty stations or a
+ * hundred thousand cases is refused in microseconds, naming the limit, rather than validated one by
+ * one. Only counts are read here; everything else is the schema's business.
+ * @throws AnalysisLimitError (413) naming the limit
+ */
+export function checkAnalysisSize(document: unknown): void {
+  const wing = typeof document === "object" && document !== null ? (document as Record<string, unknown>).wing : undefined;
+  const stations = lengthOf(wing, "stations");
+  if (stations !== null && stations > ANALYZE_LIMITS.wingStations) {
+    throw new AnalysisLimitError("wing.stations", ANALYZE_LIMITS.wingStations, `wing.stations: ${stations} stations; a request takes at most ${ANALYZE_LIMITS.wingStations}.`);
+  }
+  const cases = lengthOf(document, "cases");
+  if (cases !== null && cases > ANALYZE_LIMITS.queuedCases) {
+    throw new AnalysisLimitError("cases", ANALYZE_LIMITS.queuedCases, `cases: ${cases} load cases; a request takes at most ${ANALYZE_LIMITS.queuedCases} (up to ${ANALYZE_LIMITS.syncCases} are answered at once, more go to the job queue). Split the sweep.`);
+  }
+}
+
+/**
+ * The output a parsed request asks for: with station tables ("full"), cases × output stations rows.
+ * @throws AnalysisLimitError (413) when that is more than MAX_OUTPUT_ROWS
+ */
+function checkOutputSize(file: CaseFile): void {
+  if (file.method.output !== "full") return;
+  const rows = file.cases.length * file.method.stations;
+  if (rows > MAX_OUTPUT_ROWS) {
+    throw new AnalysisLimitError(
+      "method.output",
+      MAX_OUTPUT_ROWS,
+      `method.output "full" would give ${rows} station rows (${file.cases.length} cases × ${file.method.stations} stations); a request gives at most ${MAX_OUTPUT_ROWS}. Ask for "summary" (root loads and the envelope), fewer output stations, or fewer cases.`,
+    );
+  }
+}
+
+export type AnalysisAnswer =
+  | { kind: "result"; result: CaseResult }
+  | { kind: "invalid"; problems: CaseProblem[] }
+  | { kind: "queued"; job: AnalysisJobView };
+
+export interface AnalysisJobView {
+  id: string;
+  status: AnalysisJobStatus;
+  cases: number;
+  createdAt: Date;
+  finishedAt: Date | null;
+}
+
+const view = (j: typeof analysisJobs.$inferSelect): AnalysisJobView => ({ id: j.id, status: j.status, cases: j.cases, createdAt: j.createdAt, finishedAt: j.finishedAt });
+
+/**
+ * `POST /api/v1/analyze`: checks the sizes, validates, then solves at once (up to
+ * ANALYZE_LIMITS.syncCases cases) or records a job for the queue and answers with it. Nothing is
+ * stored for an answer given at once.
+ * @throws AnalysisLimitError (too-large) beyond a limit; DomainError (too-many) with too many analyses open
+ */
+export async function analyse(input: { organisationId: string; userId: string; document: unknown }): Promise<AnalysisAnswer> {
+  checkAnalysisSize(input.document);
+  const parsed = parseCase(input.document);
+  if (!parsed.ok) return { kind: "invalid", problems: parsed.problems };
+  const file = parsed.value;
+  checkOutputSize(file);
+  if (file.cases.length <= ANALYZE_LIMITS.syncCases) {
+    try {
+      return { kind: "result", result: runCase(file) };
+    } catch (error) {
+      if (isEngineError(error)) return { kind: "invalid", problems: [{ path: error.field ?? "(document)", message: error.message }] };
+      throw error;
+    }
+  }
+  const open = await db.select({ id: analysisJobs.id }).from(analysisJobs).where(and(eq(analysisJobs.userId, input.userId), inArray(analysisJobs.status, ["queued", "running"])));
+  if (open.length >= MAX_OPEN_ANALYSES) {
+    throw new DomainError(`You have ${open.length} analyses waiting or running; at most ${MAX_OPEN_ANALYSES} at once. Fetch their results first.`, { kind: "too-many", field: "cases" });
+  }
+  const [job] = await db
+    .insert(analysisJobs)
+    .values({ organisationId: input.organisationId, userId: input.userId, cases: file.cases.length, input: file as unknown as Record<string, unknown> })
+    .returning();
+  const { boss, QUEUES } = await import("~/jobs/boss.server");
+  await (await boss()).send(QUEUES.analyze, { jobId: job!.id }, { singletonKey: job!.id, retryLimit: 2, expireInSeconds: 30 * 60 });
+  return { kind: "queued", job: view(job!) };
+}
+
+/**
+ * The job: solves a queued analysis and keeps its result (or the engine's refusal). Idempotent: a
+ * finished job is left alone. Finished jobs older than ANALYSIS_JOB_TTL_MS are removed on the way.
+ */
+export async function runAnalysisJob(jobId: string): Promise<void> {
+  await db.delete(analysisJobs).where(lt(analysisJobs.createdAt, new Date(Date.now() - ANALYSIS_JOB_TTL_MS)));
+  const [job] = await db.select().from(analysisJobs).where(eq(analysisJobs.id, jobId));
+  if (!job || job.status === "done" || job.status === "failed") return;
+  await db.update(analysisJobs).set({ status: "running" }).where(eq(analysisJobs.id, jobId));
+  const parsed = parseCase(job.input);
+  if (!parsed.ok) {
+    await db.update(analysisJobs).set({ status: "failed", problems: parsed.problems, finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
+    return;
+  }
+  try {
+    const result = runCase(parsed.value);
+    await db.update(analysisJobs).set({ status: "done", result: result as unknown as Record<string, unknown>, finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
+  } catch (error) {
+    if (!isEngineError(error)) throw error;
+    await db.update(analysisJobs).set({ status: "failed", problems: [{ path: error.field ?? "(document)", message: error.message }], finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
+  }
+}
+
+/** One of the person's own analyses (another person's answers null, as a missing one does). */
+export async function getAnalysisJob(userId: string, jobId: string) {
+  const [job] = await db.select().from(analysisJobs).where(and(eq(analysisJobs.id, jobId), eq(analysisJobs.userId, userId)));
+  if (!job) return null;
+  return { ...view(job), result: job.result as unknown as CaseResult | null, problems: job.problems };
+}
