@@ -1,8 +1,7 @@
 import { Link } from "react-router";
 import { PageHeader, Panel } from "~/components/ui/page-header";
-import { MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/services/analysis-jobs.server";
 import { env } from "~/utils/env.server";
-import { ANALYZE_LIMITS, BODY_LIMITS, formatBytes, MAX_LISTED_PROBLEMS } from "~/utils/limits";
+import { ANALYZE_LIMITS, BODY_LIMITS, formatBytes, MAX_LISTED_PROBLEMS, MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/utils/limits";
 import { exchangeFormatHtml } from "./api-docs.server";
 import type { Route } from "./+types/api-docs";
 

@@ -5,14 +5,10 @@ import { DomainError } from "~/domain/errors";
 import type { AnalysisJobStatus } from "~/domain/vocabulary";
 import { isEngineError } from "~/engine";
 import { parseCase, runCase, type CaseFile, type CaseProblem, type CaseResult } from "~/exchange";
-import { ANALYZE_LIMITS } from "~/utils/limits";
+import { ANALYZE_LIMITS, MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/utils/limits";
 
 /** Analyses kept after they finish, for their caller to fetch. */
 export const ANALYSIS_JOB_TTL_MS = 24 * 60 * 60 * 1000;
-/** Analyses one person may have waiting or running at once. */
-export const MAX_OPEN_ANALYSES = 3;
-/** Output station rows (cases × output stations) a request may ask for with method.output "full". */
-export const MAX_OUTPUT_ROWS = ANALYZE_LIMITS.syncCases * ANALYZE_LIMITS.outputStations;
 
 /** A request beyond a limit of ANALYZE_LIMITS, refused before it is validated or solved (413). */
 export class AnalysisLimitError extends DomainError {

@@ -99,10 +99,24 @@ export function forbidden(message: string): never {
   throw data({ message }, { status: 403 });
 }
 
-/** Only same-site relative paths are followed after sign-in, never another origin. */
+// Any origin of our own would do: only whether a return path stays on it matters.
+const HOME = new URL("http://spanwright.invalid");
+
+/**
+ * The path to return to after sign-in, resolved as a browser would resolve it (tabs and line
+ * breaks dropped, backslashes read as slashes, other characters percent-encoded) and kept only if
+ * it stays on our own origin: "/%09/evil.example" and "/\evil.example" become the fallback.
+ */
 export function safeRedirectPath(value: unknown, fallback: string): string {
-  if (typeof value !== "string" || !value.startsWith("/") || value.startsWith("//") || value.startsWith("/\\")) return fallback;
-  return value;
+  if (typeof value !== "string" || !value.startsWith("/") || value.length > 2048) return fallback;
+  let url: URL;
+  try {
+    url = new URL(value, HOME);
+  } catch {
+    return fallback;
+  }
+  if (url.origin !== HOME.origin) return fallback;
+  return url.pathname + url.search + url.hash;
 }
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; fieldErrors: FieldErrors };

@@ -43,5 +43,10 @@ export const ANALYZE_LIMITS = {
   queuedCases: 20_000,
 } as const;
 
+/** Output station rows (cases × output stations) a request may ask for with method.output "full". */
+export const MAX_OUTPUT_ROWS = ANALYZE_LIMITS.syncCases * ANALYZE_LIMITS.outputStations;
+/** Queued analyses one person may have waiting or running at once. */
+export const MAX_OPEN_ANALYSES = 3;
+
 /** An error answer lists at most this many problems, then says how many more there were. */
 export const MAX_LISTED_PROBLEMS = 50;

@@ -9,8 +9,7 @@ import { stopBoss } from "~/jobs/boss.server";
 import { startWorkers } from "~/jobs/workers.server";
 import { action as analyzeAction } from "~/routes/api/v1/analyze";
 import { loader as jobLoader } from "~/routes/api/v1/analyze-job";
-import { MAX_OPEN_ANALYSES } from "~/services/analysis-jobs.server";
-import { ANALYZE_LIMITS, MAX_LISTED_PROBLEMS } from "~/utils/limits";
+import { ANALYZE_LIMITS, MAX_LISTED_PROBLEMS, MAX_OPEN_ANALYSES } from "~/utils/limits";
 import { demoUser, request, seed } from "./helpers";
 
 /**

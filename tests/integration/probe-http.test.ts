@@ -1,7 +1,7 @@
 import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { BODY_LIMITS } from "~/utils/limits";
-import { cookieFor, seed } from "./helpers";
+import { cookieFor, demoUser, seed } from "./helpers";
 import { startHttpApp, type HttpApp } from "./http-harness";
 
 /**
@@ -107,5 +107,34 @@ describe("answers are not stored by caches (item 11)", () => {
     }
     const created = await app.postForm("/account/tokens", { intent: "create", name: "cache probe", scope: "read" }, { Cookie: engineer });
     expect(created.headers.get("Cache-Control")).toBe("no-store");
+  });
+});
+
+describe("the return path after sign-in stays on this origin (item 4)", () => {
+  const HOSTILE = ["/%09/evil.example/x", "/%0a/evil.example/x", "/%0d%0a/evil.example", "/%5Cevil.example", "/%E3%80%80", "//evil.example", "https://evil.example/", "/%2F%2Fevil.example"];
+
+  it("never leaves the origin, and never fails, for a signed-in visitor of /login", async () => {
+    for (const target of HOSTILE) {
+      const res = await app.get(`/login?redirectTo=${target}`, { Cookie: engineer });
+      expect(res.status, target).toBe(302);
+      const location = res.headers.get("Location")!;
+      expect(new URL(location, app.base).origin, `${target} → ${location}`).toBe(app.base);
+      expect(location.startsWith("//"), location).toBe(false);
+    }
+  });
+
+  it("never leaves the origin after a password sign-in", async () => {
+    const u = demoUser("checker");
+    for (const target of HOSTILE.slice(0, 4)) {
+      const res = await app.postForm("/login", { email: u.email, password: u.password, redirectTo: decodeURIComponent(target) });
+      expect(res.status, target).toBe(302);
+      const location = res.headers.get("Location")!;
+      expect(new URL(location, app.base).origin, `${target} → ${location}`).toBe(app.base);
+    }
+  });
+
+  it("keeps an ordinary return path, query included", async () => {
+    const res = await app.get("/login?redirectTo=%2Fcases%3Fq%3D1", { Cookie: engineer });
+    expect(res.headers.get("Location")).toBe("/cases?q=1");
   });
 });
