@@ -423,7 +423,7 @@ export const signingRequests = pgTable("signing_requests", {
 
 /**
  * An analysis of `POST /api/v1/analyze` too large to answer within the request: solved by a
- * worker, polled by its id, kept for a day. `input` is the parsed document; `result` the
+ * worker, polled by its id, kept for a day. `input` is the document as sent; `result` the
  * `spanwright.result/1` answer, or `problems` when the engine refused the input.
  */
 export const analysisJobs = pgTable(

@@ -101,7 +101,8 @@ export async function analyse(input: { organisationId: string; userId: string; d
   }
   const [job] = await db
     .insert(analysisJobs)
-    .values({ organisationId: input.organisationId, userId: input.userId, cases: file.cases.length, input: file as unknown as Record<string, unknown> })
+    // The document as sent: the worker validates it again, exactly as the command line would.
+    .values({ organisationId: input.organisationId, userId: input.userId, cases: file.cases.length, input: input.document as Record<string, unknown> })
     .returning();
   const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.analyze, { jobId: job!.id }, { singletonKey: job!.id, retryLimit: 2, expireInSeconds: 30 * 60 });

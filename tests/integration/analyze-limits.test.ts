@@ -22,7 +22,7 @@ const base = () => JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json
 const sweep = (n: number, extra: Partial<CaseFileInput> = {}): CaseFileInput => ({
   ...base(),
   ...extra,
-  cases: Array.from({ length: n }, (_, i) => ({ id: `s${i}`, mach: 0.2 + 0.05 * (i % 6), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })),
+  cases: Array.from({ length: n }, (_, i) => ({ id: `s${i}`, mach: 0.3 + 0.04 * (i % 6), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 36) / 10 })),
 });
 
 const tokens: Record<string, string> = {};
