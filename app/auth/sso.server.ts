@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { cookiesSecure, env } from "~/utils/env.server";
 import { completeSignIn, firstMembership, type SignInResult } from "./auth.server";
+import type { SsoErrorCode } from "~/domain/sso";
 
 interface Discovery {
   issuer: string;
@@ -61,7 +62,7 @@ export async function beginSso(input: { loginHint?: string; redirectTo: string }
   return { url: url.toString(), setCookie };
 }
 
-export type SsoOutcome = (SignInResult & { redirectTo?: string }) | { ok: false; status: 400 | 403; message: string };
+export type SsoOutcome = (SignInResult & { ok: true; redirectTo?: string }) | { ok: false; code: SsoErrorCode };
 
 interface IdClaims {
   iss?: string;
@@ -85,10 +86,10 @@ export async function completeSso(request: Request): Promise<SsoOutcome> {
     | { state: string; codeVerifier: string; nonce: string; redirectTo: string }
     | null;
   const error = url.searchParams.get("error");
-  if (error) return { ok: false, status: 403, message: `Company sign-in was refused by the identity provider (${error}).` };
+  if (error) return { ok: false, code: "refused" };
   const code = url.searchParams.get("code");
   if (!flow || !code || url.searchParams.get("state") !== flow.state) {
-    return { ok: false, status: 400, message: "Company sign-in could not be completed: the sign-in request expired or did not match. Start again." };
+    return { ok: false, code: "expired" };
   }
   const meta = await loadDiscovery();
   let claims: IdClaims;
@@ -96,7 +97,7 @@ export async function completeSso(request: Request): Promise<SsoOutcome> {
     const tokens = await client().validateAuthorizationCode(meta.token_endpoint, code, flow.codeVerifier);
     claims = decodeIdToken(tokens.idToken()) as IdClaims;
   } catch {
-    return { ok: false, status: 400, message: "Company sign-in failed: the identity provider did not accept the sign-in code." };
+    return { ok: false, code: "code" };
   }
   const audience = Array.isArray(claims.aud) ? claims.aud : [claims.aud];
   const valid =
@@ -108,13 +109,13 @@ export async function completeSso(request: Request): Promise<SsoOutcome> {
     typeof claims.sub === "string" &&
     typeof claims.email === "string" &&
     claims.email_verified !== false;
-  if (!valid) return { ok: false, status: 400, message: "Company sign-in failed: the identity token did not pass its checks." };
+  if (!valid) return { ok: false, code: "token" };
 
   const email = claims.email!.toLowerCase();
   const [user] = await db.select().from(users).where(eq(users.email, email)).limit(1);
   const membership = user && !user.disabled ? await firstMembership(user.id) : undefined;
   if (!user || !membership || (user.ssoSubject && user.ssoSubject !== claims.sub)) {
-    return { ok: false, status: 403, message: `There is no Spanwright account for ${email}. Ask your administrator for an invitation.` };
+    return { ok: false, code: "no-account" };
   }
   if (!user.ssoSubject) {
     await db.update(users).set({ ssoSubject: claims.sub! }).where(and(eq(users.id, user.id), isNull(users.ssoSubject)));

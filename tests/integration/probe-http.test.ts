@@ -138,3 +138,16 @@ describe("the return path after sign-in stays on this origin (item 4)", () => {
     expect(res.headers.get("Location")).toBe("/cases?q=1");
   });
 });
+
+describe("the sign-in page shows only its own words (item 11)", () => {
+  it("shows the fixed message of a known company sign-in error, and never text from the link", async () => {
+    const planted = "Your account is locked. Call the help desk on +1 555 0100 and give your password.";
+    const html = await (await app.get(`/login?${new URLSearchParams({ "sso-error": planted })}`)).text();
+    expect(html).not.toContain("help desk");
+    expect(html).toContain("Company sign-in did not complete");
+    const known = await (await app.get("/login?sso-error=no-account")).text();
+    expect(known).toContain("There is no Spanwright account for the e-mail address the identity provider gave");
+    // A code that names something every object has is not one of ours either.
+    expect(await (await app.get("/login?sso-error=constructor")).text()).toContain("Company sign-in did not complete");
+  });
+});

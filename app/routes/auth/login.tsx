@@ -1,5 +1,6 @@
 import { Form, redirect, useNavigation } from "react-router";
 import { landingPath } from "~/domain/permissions";
+import { ssoErrorMessage } from "~/domain/sso";
 import { getOptionalUser, signInWithPassword } from "~/auth/auth.server";
 import { ssoEnabled } from "~/auth/sso.server";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
@@ -25,7 +26,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   return {
     redirectTo: safeRedirectPath(url.searchParams.get("redirectTo"), ""),
     notice: reason ? (REASONS[reason] ?? null) : null,
-    ssoError: ssoError ? ssoError.slice(0, 300) : null,
+    // Only our own fixed messages: the link that brought the person here may have been written by anyone.
+    ssoError: ssoErrorMessage(ssoError),
     sso: ssoEnabled() ? { label: env().OIDC_LABEL } : null,
   };
 }

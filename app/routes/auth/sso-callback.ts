@@ -9,7 +9,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const outcome = await completeSso(request);
   const headers = new Headers({ "Set-Cookie": await clearSsoFlowCookie() });
   if (!outcome.ok) {
-    throw redirect(`/login?${new URLSearchParams({ "sso-error": outcome.message })}`, { headers });
+    throw redirect(`/login?${new URLSearchParams({ "sso-error": outcome.code })}`, { headers });
   }
   headers.append("Set-Cookie", outcome.setCookie);
   const target = "redirectTo" in outcome ? outcome.redirectTo : undefined;

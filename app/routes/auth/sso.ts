@@ -1,4 +1,5 @@
 import { redirect } from "react-router";
+import type { SsoErrorCode } from "~/domain/sso";
 import { beginSso, ssoEnabled } from "~/auth/sso.server";
 import { notFound, safeRedirectPath } from "~/utils/http.server";
 import type { Route } from "./+types/sso";
@@ -10,7 +11,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const parsed = SsoStartSchema.safeParse(Object.fromEntries(url.searchParams));
   if (!parsed.success) {
-    throw redirect(`/login?${new URLSearchParams({ "sso-error": "Enter your company e-mail address to use company sign-in." })}`);
+    throw redirect(`/login?${new URLSearchParams({ "sso-error": "email" satisfies SsoErrorCode })}`);
   }
   const { url: target, setCookie } = await beginSso({
     loginHint: parsed.data.email.toLowerCase(),
