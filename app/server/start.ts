@@ -99,7 +99,8 @@ async function main() {
   }
   if (!process.env.OIDC_ISSUER) {
     const { startOidcProvider } = await import("./dev-services/oidc");
-    const oidc = await startOidcProvider({ port: port("OIDC_PORT", 4580), users: DEMO_USERS.map((u) => ({ email: u.email, name: u.name })) });
+    // The stand-in asks each demo person for their own demo password before it answers for them.
+    const oidc = await startOidcProvider({ port: port("OIDC_PORT", 4580), users: DEMO_USERS.map((u) => ({ email: u.email, name: u.name, password: u.password })) });
     running.push({ name: "sign-in stand-in", stop: oidc.stop });
     process.env.OIDC_ISSUER = oidc.issuer;
     say(`Sign-in stand-in ${oidc.issuer}`);

@@ -12,8 +12,13 @@ function transporter(): Transporter {
   return transport;
 }
 
+/** Names the organisation a message is about, for the local mailbox page (an admin reads the organisation's). */
+export const ORGANISATION_HEADER = "X-Spanwright-Organisation";
+
 export interface Mail {
   to: string;
+  /** The organisation whose work the message is about. */
+  organisationId: string;
   subject: string;
   /** Plain-text body; the HTML version is built from the same paragraphs. */
   paragraphs: string[];
@@ -32,7 +37,7 @@ export async function sendMail(mail: Mail): Promise<void> {
     ...(mail.link ? [`<p><a href="${escapeHtml(mail.link.href)}">${escapeHtml(mail.link.label)}</a></p>`] : []),
     "<p>— Spanwright</p>",
   ].join("\n");
-  await transporter().sendMail({ from: env().MAIL_FROM, to: mail.to, subject: mail.subject, text, html });
+  await transporter().sendMail({ from: env().MAIL_FROM, to: mail.to, subject: mail.subject, text, html, headers: { [ORGANISATION_HEADER]: mail.organisationId } });
 }
 
 /** Mail the local capture received, newest first (optionally to one address): the development mailbox. */

@@ -98,6 +98,7 @@ export async function inviteMember(input: { organisationId: string; email: strin
   });
   await sendMail({
     to: email,
+    organisationId: input.organisationId,
     subject: `You are invited to ${org!.name} on Spanwright`,
     paragraphs: [
       `${input.actor.email} has invited you to join ${org!.name} on Spanwright as ${input.roles.join(", ")}.`,

@@ -22,7 +22,7 @@ import { isUuid } from "./programmes.server";
 async function mailRole(organisationId: string, role: Role, subject: string, paragraphs: string[], path: string) {
   const rows = await db.select({ email: users.email, roles: memberships.roles }).from(memberships).innerJoin(users, eq(users.id, memberships.userId)).where(eq(memberships.organisationId, organisationId));
   for (const r of rows.filter((x) => x.roles.includes(role))) {
-    await sendMail({ to: r.email, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((e: unknown) => console.warn(`mail not sent: ${String(e)}`));
+    await sendMail({ to: r.email, organisationId, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((e: unknown) => console.warn(`mail not sent: ${String(e)}`));
   }
 }
 
@@ -132,7 +132,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
   await mailRole(report.organisationId, "quality", `${report.reportNumber} issued`, [`Report ${report.reportNumber} (version ${report.version}) has been issued and waits for release.`], `/reports`);
   const [requester] = await database.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
   if (requester) {
-    await sendMail({ to: requester.email, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
+    await sendMail({ to: requester.email, organisationId: report.organisationId, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
   }
 }
 

@@ -34,9 +34,9 @@ async function members(organisationId: string, role: Role) {
 }
 
 /** Notifications never undo the change they announce: a mail failure is logged, not thrown. */
-async function notify(to: string[], subject: string, paragraphs: string[], path: string) {
+async function notify(organisationId: string, to: string[], subject: string, paragraphs: string[], path: string) {
   for (const address of to) {
-    await sendMail({ to: address, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((error: unknown) =>
+    await sendMail({ to: address, organisationId, subject, paragraphs, link: { href: `${env().APP_ORIGIN}${path}`, label: "Open in Spanwright" } }).catch((error: unknown) =>
       console.warn(`mail to ${address} not sent: ${error instanceof Error ? error.message : String(error)}`),
     );
   }
@@ -79,6 +79,7 @@ export async function submitStep(input: { caseId: string; step: StepKey; actor: 
   });
   const checkers = await members(result.case.organisationId, "checker");
   await notify(
+    result.case.organisationId,
     checkers.map((c) => c.email),
     `${result.case.reference}: ${input.step} submitted for check`,
     [`${input.actor.email} submitted the ${input.step} step of ${result.case.reference} (${result.case.title}), revision ${result.revision}, for your check.`],
@@ -100,7 +101,7 @@ export async function returnStep(input: { caseId: string; step: StepKey; actor: 
     return { case: c!, revision: row.revision, author: author?.email };
   });
   if (result.author) {
-    await notify([result.author], `${result.case.reference}: ${input.step} returned`, [`${input.actor.email} returned the ${input.step} step of ${result.case.reference}, revision ${result.revision}, with this comment:`, input.comment.trim()], `/cases/${input.caseId}/review`);
+    await notify(result.case.organisationId, [result.author], `${result.case.reference}: ${input.step} returned`, [`${input.actor.email} returned the ${input.step} step of ${result.case.reference}, revision ${result.revision}, with this comment:`, input.comment.trim()], `/cases/${input.caseId}/review`);
   }
 }
 
@@ -131,7 +132,7 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
     return { case: c!, revision: row.revision, author: rev.createdBy };
   });
   const [author] = await database.select({ email: users.email }).from(users).where(eq(users.id, result.author));
-  if (author) await notify([author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
+  if (author) await notify(result.case.organisationId, [author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
 }
 
 /** Signatures not voided, newest first, for a case. */

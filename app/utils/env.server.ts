@@ -62,9 +62,12 @@ export function cookiesSecure(): boolean {
 }
 
 /**
- * The development mailbox page exists only while mail goes to the local capture: start-up sets
- * MAIL_CAPTURE_DIR only when no real relay (SMTP_URL) was configured.
+ * The development mailbox page exists only in local mode: mail goes to the local capture (start-up
+ * sets MAIL_CAPTURE_DIR only when no real relay, SMTP_URL, was configured) and the app is served on
+ * loopback, never at an address others reach.
  */
 export function mailCaptureEnabled(): boolean {
-  return Boolean(env().MAIL_CAPTURE_DIR);
+  const e = env();
+  const host = new URL(e.APP_ORIGIN).hostname;
+  return Boolean(e.MAIL_CAPTURE_DIR) && ["127.0.0.1", "localhost", "[::1]"].includes(host);
 }

@@ -75,21 +75,32 @@ test("a wrong password is refused and says so", async ({ page }) => {
   await shot(page, "login-refused");
 });
 
-test("the checker signs in through company sign-in (OpenID Connect stand-in)", async ({ page }) => {
+test("the checker signs in through company sign-in: the stand-in asks for the demo password first", async ({ page }) => {
   await page.goto("/login");
   await page.getByLabel("Company e-mail").fill(user("checker").email);
   await page.getByRole("button", { name: "Continue with company sign-in" }).click();
+  // The identity provider's own page: nothing is answered for the person without a credential.
+  await expect(page.getByRole("heading", { name: "Local sign-in stand-in" })).toBeVisible();
+  await expect(page.getByLabel("E-mail")).toHaveValue(user("checker").email);
+  await page.getByLabel("Password").fill("not-the-password");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page.getByRole("alert")).toContainText("not correct");
+  await page.getByLabel("Password").fill(user("checker").password);
+  await page.getByRole("button", { name: "Sign in" }).click();
   await expect(page).toHaveURL("/checks");
   await page.goto("/account");
   await expect(page.getByText("company sign-in")).toBeVisible();
 });
 
-test("company sign-in for an address without an account is refused", async ({ page }) => {
+test("company sign-in for an address the identity provider does not know is refused there", async ({ page }) => {
   await page.goto("/login");
   await page.getByLabel("Company e-mail").fill("stranger@kestrel-fieldworks.example");
   await page.getByRole("button", { name: "Continue with company sign-in" }).click();
+  await page.getByLabel("Password").fill("anything-at-all");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page.getByRole("alert")).toContainText("not correct");
+  await page.goto("/cases");
   await expect(page).toHaveURL(/\/login/);
-  await expect(page.getByRole("alert")).toBeVisible();
 });
 
 test("a tampered session cookie is refused and the person is asked to sign in again", async ({ page, context }) => {

@@ -84,7 +84,7 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/admin/members.tsx": { loader: page(["admin"]), action: page(["admin"]) },
   "routes/account.tsx": { loader: page(ALL) },
   "routes/account-tokens.tsx": { loader: page(ALL), action: page(ALL) },
-  "routes/dev/mailbox.tsx": { loader: fixed("allowed", "local mail capture only; absent (404) when a real relay is configured") },
+  "routes/dev/mailbox.tsx": { loader: page(ALL) },
   "routes/api/planform-preview.ts": { action: page(ALL) },
   "routes/api/case-distribution.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
   "routes/api-docs.tsx": { loader: pub },

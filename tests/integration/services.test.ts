@@ -82,8 +82,8 @@ describe("mail capture", () => {
 
 describe("OpenID Connect stand-in", () => {
   const users = [
-    { email: "ada.engineer@kestrel-fieldworks.example", name: "Ada Engineer" },
-    { email: "ben.checker@kestrel-fieldworks.example", name: "Ben Checker" },
+    { email: "ada.engineer@kestrel-fieldworks.example", name: "Ada Engineer", password: "ada-demo-password" },
+    { email: "ben.checker@kestrel-fieldworks.example", name: "Ben Checker", password: "ben-demo-password" },
   ];
   const clientId = "spanwright";
   const redirectUri = "http://127.0.0.1:3000/auth/sso/callback";
@@ -100,9 +100,8 @@ describe("OpenID Connect stand-in", () => {
     return JSON.parse(Buffer.from(part, "base64url").toString("utf8")) as Record<string, unknown>;
   }
 
-  async function authorize(loginHint: string, challenge: string, nonce: string): Promise<URL> {
-    const url = new URL(`${provider.issuer}/authorize`);
-    url.search = new URLSearchParams({
+  function authorizeParams(loginHint: string, challenge: string, nonce: string, extra: Record<string, string> = {}) {
+    return new URLSearchParams({
       response_type: "code",
       client_id: clientId,
       redirect_uri: redirectUri,
@@ -112,11 +111,46 @@ describe("OpenID Connect stand-in", () => {
       code_challenge: challenge,
       code_challenge_method: "S256",
       login_hint: loginHint,
-    }).toString();
-    const res = await fetch(url, { redirect: "manual" });
-    expect(res.status).toBe(302);
-    return new URL(res.headers.get("location")!);
+      ...extra,
+    });
   }
+
+  /** GET /authorize, with the stand-in's own session cookie when given. */
+  async function ask(params: URLSearchParams, cookie?: string) {
+    return fetch(`${provider.issuer}/authorize?${params}`, { redirect: "manual", headers: cookie ? { Cookie: cookie } : {} });
+  }
+
+  /** Answers the stand-in's sign-in form; resolves with the redirect back (or the refusal) and the session cookie. */
+  async function signIn(params: URLSearchParams, password: string, email = params.get("login_hint")!) {
+    const body = new URLSearchParams(params);
+    body.set("email", email);
+    body.set("password", password);
+    const res = await fetch(`${provider.issuer}/authorize`, { method: "POST", body, redirect: "manual" });
+    return { res, back: res.headers.get("location") ? new URL(res.headers.get("location")!) : null, cookie: res.headers.get("set-cookie")?.split(";")[0] };
+  }
+
+  /** The whole front channel for one person: ask, sign in with their password, come back with a code. */
+  async function authorize(loginHint: string, challenge: string, nonce: string): Promise<URL> {
+    const params = authorizeParams(loginHint, challenge, nonce);
+    const person = users.find((u) => u.email === loginHint.toLowerCase());
+    const { res, back } = await signIn(params, person?.password ?? "not-a-password");
+    expect(res.status).toBe(302);
+    return back!;
+  }
+
+  async function idTokenFor(back: URL, verifier: string) {
+    const res = await fetch(`${provider.issuer}/token`, {
+      method: "POST",
+      headers: { "Content-Type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ grant_type: "authorization_code", client_id: clientId, code: back.searchParams.get("code")!, redirect_uri: redirectUri, code_verifier: verifier }),
+    });
+    return decodePart(((await res.json()) as { id_token: string }).id_token.split(".")[1]!);
+  }
+
+  const pkce = () => {
+    const verifier = randomBytes(32).toString("base64url");
+    return { verifier, challenge: createHash("sha256").update(verifier).digest("base64url") };
+  };
 
   it("publishes a discovery document whose issuer is its own loopback URL", async () => {
     const res = await fetch(`${provider.issuer}/.well-known/openid-configuration`);
@@ -128,7 +162,7 @@ describe("OpenID Connect stand-in", () => {
     expect(doc.code_challenge_methods_supported).toContain("S256");
   });
 
-  it("signs in the hinted user through authorize → token with PKCE S256", async () => {
+  it("signs in the named person, after their password, through authorize → token with PKCE S256", async () => {
     const verifier = randomBytes(32).toString("base64url");
     const challenge = createHash("sha256").update(verifier).digest("base64url");
     const back = await authorize("Ben.Checker@kestrel-fieldworks.example", challenge, "nonce-456");
@@ -201,10 +235,44 @@ describe("OpenID Connect stand-in", () => {
     expect(res.status).toBe(400);
   });
 
-  it("answers an unknown login_hint with access_denied and no code", async () => {
-    const back = await authorize("someone@northmoor-aero.example", "x".repeat(43), "n");
-    expect(back.searchParams.get("error")).toBe("access_denied");
-    expect(back.searchParams.get("code")).toBeNull();
-    expect(back.searchParams.get("state")).toBe("state-123");
+  it("answers for nobody on a login_hint alone: it asks for the person's password and issues no code", async () => {
+    const res = await ask(authorizeParams(users[1]!.email, pkce().challenge, "n"));
+    expect(res.status).toBe(200);
+    expect(res.headers.get("location")).toBeNull();
+    const html = await res.text();
+    expect(html).toContain('type="password"');
+    expect(html).toContain(`value="${users[1]!.email}"`);
+  });
+
+  it("refuses a wrong password or an unknown person with the form again, and no code", async () => {
+    for (const [email, password] of [[users[0]!.email, "wrong-password"], ["someone@northmoor-aero.example", "anything"]] as const) {
+      const { res, back } = await signIn(authorizeParams(email, pkce().challenge, "n"), password, email);
+      expect(res.status).toBe(401);
+      expect(back).toBeNull();
+      expect(await res.text()).toContain("not correct");
+    }
+  });
+
+  it("keeps its own sign-in session, and honours prompt=login and max_age by asking again; auth_time is when the person signed in", async () => {
+    const first = pkce();
+    const before = Math.floor(Date.now() / 1000);
+    const { back, cookie } = await signIn(authorizeParams(users[0]!.email, first.challenge, "n1"), users[0]!.password);
+    expect(cookie).toMatch(/^sw_idp=/);
+    const claims = await idTokenFor(back!, first.verifier);
+    expect(claims.auth_time).toBeGreaterThanOrEqual(before);
+    expect(claims.auth_time).toBeLessThanOrEqual(Math.floor(Date.now() / 1000));
+
+    // Within its session and without prompt, it answers at once with the same auth_time (single sign-on).
+    const again = pkce();
+    const quick = await ask(authorizeParams(users[0]!.email, again.challenge, "n2"), cookie);
+    expect(quick.status).toBe(302);
+    expect((await idTokenFor(new URL(quick.headers.get("location")!), again.verifier)).auth_time).toBe(claims.auth_time);
+
+    // prompt=login and max_age=0 each make it ask for the password again, even within its session.
+    for (const extra of [{ prompt: "login" }, { max_age: "0" }] as Record<string, string>[]) {
+      const res = await ask(authorizeParams(users[0]!.email, pkce().challenge, "n3", extra), cookie);
+      expect(res.status, JSON.stringify(extra)).toBe(200);
+      expect(await res.text()).toContain("Confirm who you are again");
+    }
   });
 });

@@ -1,21 +1,28 @@
 import { Link } from "react-router";
-import { capturedMail } from "~/services/mail.server";
-import { mailCaptureEnabled } from "~/utils/env.server";
+import { requireUser } from "~/auth/auth.server";
+import { isDomainError } from "~/domain/errors";
+import { mailboxAvailable, mailboxFor } from "~/services/mailbox.server";
 import { notFound } from "~/utils/http.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/mailbox";
 
 /**
- * Development only: the messages the local mail capture received (invitations, review notices),
- * so links in them can be followed without a real mail server. Absent whenever a real relay is set.
+ * Local mode only: the messages the local mail capture received (invitations, review notices), so
+ * links in them can be followed without a real mail server. Only to a signed-in person, and only
+ * their own mail (an administrator also sees their organisation's). Absent with a real relay.
  */
 export async function loader({ request }: Route.LoaderArgs) {
-  if (!mailCaptureEnabled()) notFound("Page");
+  if (!mailboxAvailable()) notFound("Page");
+  const current = await requireUser(request);
   const url = new URL(request.url);
   const to = url.searchParams.get("to") ?? undefined;
-  const messages = await capturedMail({ to });
-  const selectedId = url.searchParams.get("id") ?? messages[0]?.id;
-  return { to: to ?? "", messages: messages.slice(0, 200), selected: messages.find((m) => m.id === selectedId) ?? null };
+  try {
+    const { messages, selected } = await mailboxFor(current, { to, id: url.searchParams.get("id") ?? undefined });
+    return { to: to ?? "", messages, selected, admin: current.roles.includes("admin") };
+  } catch (error) {
+    if (isDomainError(error) && error.kind === "not-found") notFound("Page");
+    throw error;
+  }
 }
 
 export default function MailboxRoute({ loaderData }: Route.ComponentProps) {
@@ -23,7 +30,7 @@ export default function MailboxRoute({ loaderData }: Route.ComponentProps) {
   return (
     <main className="mx-auto max-w-6xl px-6 py-6">
       <div className="mb-4 rounded border border-warn/40 bg-warn-soft px-3 py-2 text-sm text-warn">
-        Development mailbox: mail captured locally instead of being delivered. It does not exist when a real mail relay is configured.
+        Local mailbox: mail captured instead of being delivered, shown to its recipient{loaderData.admin ? " (and, to you as administrator, everything about your organisation, invitations included)" : ""}. It does not exist when a real mail relay is configured.
       </div>
       <h1 className="mb-3 text-xl font-semibold">Captured mail</h1>
       <form method="get" className="mb-4 flex gap-2 text-sm">

@@ -13,6 +13,8 @@ export interface CapturedMail {
   from: string;
   /** Envelope recipients, lower-cased. */
   to: string[];
+  /** The organisation the message is about (the application's X-Spanwright-Organisation header), if named. */
+  organisationId: string | null;
   subject: string;
   /** Plain-text body ("" when the message has none). */
   text: string;
@@ -37,6 +39,10 @@ const ID_PATTERN = /^[0-9a-f-]{36}$/;
 function addressText(value: AddressObject | AddressObject[] | undefined): string | undefined {
   if (!value) return undefined;
   return (Array.isArray(value) ? value : [value]).map((a) => a.text).join(", ") || undefined;
+}
+
+function headerText(value: unknown): string | null {
+  return typeof value === "string" && value.trim() ? value.trim() : null;
 }
 
 function envelopeAddress(address: { address: string } | false): string {
@@ -68,6 +74,7 @@ export async function startMailCapture(opts: StartMailCaptureOptions): Promise<R
             receivedAt: receivedAt.toISOString(),
             from: addressText(parsed.from) ?? envelopeAddress(session.envelope.mailFrom),
             to: session.envelope.rcptTo.map((r) => r.address.toLowerCase()),
+            organisationId: headerText(parsed.headers.get("x-spanwright-organisation")),
             subject: parsed.subject ?? "",
             text: parsed.text ?? "",
             html: typeof parsed.html === "string" ? parsed.html : null,
@@ -113,7 +120,8 @@ async function readMailFile(path: string): Promise<CapturedMail | undefined> {
 
 /**
  * Lists the messages captured in `dir`, newest first. `to` keeps only those addressed to that
- * recipient (compared case-insensitively). A missing folder means no mail yet.
+ * recipient (compared case-insensitively). A missing folder means no mail yet. Messages captured
+ * before the organisation was recorded read as naming none.
  */
 export async function listCapturedMail(dir: string, opts: { to?: string } = {}): Promise<CapturedMail[]> {
   let names: string[];
@@ -124,7 +132,7 @@ export async function listCapturedMail(dir: string, opts: { to?: string } = {}):
     throw error;
   }
   const files = names.filter((n) => n.endsWith(".json") && !n.startsWith("."));
-  const mails = (await Promise.all(files.map((n) => readMailFile(join(dir, n))))).filter((m): m is CapturedMail => m !== undefined);
+  const mails = (await Promise.all(files.map((n) => readMailFile(join(dir, n))))).filter((m): m is CapturedMail => m !== undefined).map((m) => ({ ...m, organisationId: m.organisationId ?? null }));
   const to = opts.to?.trim().toLowerCase();
   return mails
     .filter((m) => !to || m.to.includes(to))
