@@ -1,17 +1,13 @@
-import { and, asc, count, eq, gt } from "drizzle-orm";
+import { asc, eq } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { memberships, signInAttempts, users } from "~/db/schema";
+import { memberships, users } from "~/db/schema";
 import { hasPermission, type Permission } from "~/domain/permissions";
 import { dummyPasswordHash, verifyPassword } from "~/utils/password.server";
 import type { CurrentUser } from "~/domain/people";
 import { clearSessionCookie, createSession, deleteAllSessions, deleteSession, readSession } from "./session.server";
-
-/** Failed attempts allowed in THROTTLE_WINDOW_MS for one account, and for one client address. */
-export const MAX_FAILURES_PER_ACCOUNT = 5;
-export const MAX_FAILURES_PER_ADDRESS = 20;
-export const THROTTLE_WINDOW_MS = 15 * 60 * 1000;
+import { checkThrottle, deviceTokenOf, isKnownDevice, recordAttempt, rememberDevice } from "./throttle.server";
 
 /**
  * The signed-in person, or a redirect to the sign-in page (with the reason when the cookie was
@@ -66,17 +62,8 @@ export async function signOut(request: Request, opts: { everywhere: boolean }): 
 }
 
 export type SignInResult =
-  | { ok: true; setCookie: string; current: { userId: string; roles: CurrentUser["roles"] } }
-  | { ok: false; status: 401 | 429; message: string };
-
-async function recentFailures(column: typeof signInAttempts.email | typeof signInAttempts.address, value: string) {
-  const since = new Date(Date.now() - THROTTLE_WINDOW_MS);
-  const [row] = await db
-    .select({ n: count() })
-    .from(signInAttempts)
-    .where(and(eq(column, value), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since)));
-  return row?.n ?? 0;
-}
+  | { ok: true; setCookie: string; current: { userId: string; roles: CurrentUser["roles"] }; deviceCookie?: string }
+  | { ok: false; status: 401 | 429; message: string; retryAfterSeconds?: number };
 
 /** The organisation a new session opens in: the person's oldest membership. */
 export async function firstMembership(userId: string) {
@@ -85,32 +72,35 @@ export async function firstMembership(userId: string) {
 }
 
 /**
- * E-mail + password sign-in with per-account and per-address throttling. Unknown e-mail and wrong
- * password give the same answer, after the same amount of work.
+ * E-mail + password sign-in, throttled per account and per client address with growing delays
+ * (throttle.server.ts). A browser that signed in to the account before (its device cookie, from
+ * `cookieHeader`) is not held back by others' failures, so nobody can lock the owner out. Unknown
+ * e-mail and wrong password give the same answer, after the same amount of work. On success the
+ * answer sets the session cookie and the device cookie.
  */
 export async function signInWithPassword(input: {
   email: string;
   password: string;
   address: string;
   userAgent: string | null;
+  cookieHeader?: string | null;
 }): Promise<SignInResult> {
   const email = input.email.trim().toLowerCase();
-  if ((await recentFailures(signInAttempts.email, email)) >= MAX_FAILURES_PER_ACCOUNT) {
-    return { ok: false, status: 429, message: "Too many failed sign-in attempts for this account. Wait 15 minutes, then try again." };
-  }
-  if ((await recentFailures(signInAttempts.address, input.address)) >= MAX_FAILURES_PER_ADDRESS) {
-    return { ok: false, status: 429, message: "Too many failed sign-in attempts from your network address. Wait 15 minutes, then try again." };
-  }
   const [user] = await db.select().from(users).where(eq(users.email, email)).limit(1);
+  const deviceToken = await deviceTokenOf(input.cookieHeader ?? null);
+  const device = user ? await isKnownDevice(deviceToken, user.id) : false;
+  const throttle = await checkThrottle({ purpose: "sign-in", email, address: input.address, device });
+  if (!throttle.ok) return { ok: false, status: 429, message: `Too many failed sign-in attempts. ${throttle.message.replace(/^Too many wrong passwords\. /, "")}`, retryAfterSeconds: throttle.retryAfterSeconds };
   const valid = user?.passwordHash
     ? await verifyPassword(user.passwordHash, input.password)
     : (await verifyPassword(await dummyPasswordHash(), input.password), false);
   const membership = valid && user && !user.disabled ? await firstMembership(user.id) : undefined;
-  await db.insert(signInAttempts).values({ email, address: input.address, succeeded: Boolean(membership) });
+  await recordAttempt({ purpose: "sign-in", email, address: input.address, device, succeeded: Boolean(membership) });
   if (!user || !membership) {
     return { ok: false, status: 401, message: "The e-mail address or password is not correct." };
   }
-  return completeSignIn(user, membership, "password", input.userAgent);
+  const signedIn = await completeSignIn(user, membership, "password", input.userAgent);
+  return { ...signedIn, deviceCookie: await rememberDevice(deviceToken, user.id) };
 }
 
 /** Opens a session for a person already identified (by password or by the company identity provider). */

@@ -64,9 +64,9 @@ export function accepted(message: string | null, values?: object) {
 type Accepted = ActionAnswer & { ok: true };
 
 /** An action's refusal: messages by field ("form" for the whole form), nothing written. */
-export function refused(fieldErrors: FieldErrors, options: { status?: number; message?: string; intent?: string } = {}) {
+export function refused(fieldErrors: FieldErrors, options: { status?: number; message?: string; intent?: string; headers?: HeadersInit } = {}) {
   const body: ActionRefusal = { ok: false, message: options.message ?? null, fieldErrors, ...(options.intent ? { intent: options.intent } : {}) };
-  return data(body, { status: options.status ?? 400 });
+  return data(body, { status: options.status ?? 400, headers: options.headers });
 }
 
 /** A domain refusal as an action answers it: its status, its message, and the message by its field. */

@@ -1,9 +1,10 @@
 import { eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
-import { MAX_FAILURES_PER_ACCOUNT, requireUser, signInWithPassword } from "~/auth/auth.server";
+import { requireUser, signInWithPassword } from "~/auth/auth.server";
+import { BASE_DELAY_MS, delayAfter, FREE_FAILURES, MAX_DELAY_MS } from "~/auth/throttle.server";
 import { readSession, SESSION_IDLE_MS } from "~/auth/session.server";
 import { db } from "~/db/client.server";
-import { sessions, users } from "~/db/schema";
+import { sessions, signInAttempts, users } from "~/db/schema";
 import { action as logoutAction } from "~/routes/auth/logout";
 import { action as loginAction } from "~/routes/auth/login";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
@@ -49,24 +50,62 @@ describe("password sign-in", () => {
     expect(errors.email?.[0]).toMatch(/e-mail/i);
     expect(errors.password?.[0]).toMatch(/password/i);
   });
+});
 
-  it("throttles an account after repeated failures, even when the right password follows", async () => {
-    const u = demoUser("admin");
-    for (let i = 0; i < MAX_FAILURES_PER_ACCOUNT; i++) {
-      const r = await signInWithPassword({ email: u.email, password: `wrong-password-${i}`, address: `10.1.1.${i}`, userAgent: null });
-      expect(r.ok).toBe(false);
-    }
-    const blocked = await signInWithPassword({ email: u.email, password: u.password, address: "10.1.2.1", userAgent: null });
-    expect(blocked).toMatchObject({ ok: false, status: 429 });
+describe("throttling without lock-out (issue 9, item 5)", () => {
+  /** A stranger's failed attempts on an account, `ago` ms back, as the attempts table records them. */
+  async function strangerFailures(email: string, n: number, ago = 0, address = "198.51.100.7") {
+    const at = new Date(Date.now() - ago);
+    await db.insert(signInAttempts).values(Array.from({ length: n }, () => ({ purpose: "sign-in" as const, email, address, device: false, succeeded: false, at })));
+  }
+  const signIn = (label: Parameters<typeof demoUser>[0], opts: { password?: string; address?: string; cookieHeader?: string } = {}) =>
+    signInWithPassword({ email: demoUser(label).email, password: opts.password ?? demoUser(label).password, address: opts.address ?? "10.20.0.1", userAgent: "vitest", cookieHeader: opts.cookieHeader });
+
+  it("delays, never blocks: each failure beyond the free ones doubles the wait, capped", () => {
+    expect([0, 1, 2, 3].map((n) => delayAfter(n, FREE_FAILURES.account))).toEqual([0, 0, 0, 0]);
+    expect([4, 5, 6, 7].map((n) => delayAfter(n, FREE_FAILURES.account))).toEqual([BASE_DELAY_MS, 2 * BASE_DELAY_MS, 4 * BASE_DELAY_MS, 8 * BASE_DELAY_MS]);
+    expect(delayAfter(1000, FREE_FAILURES.account)).toBe(MAX_DELAY_MS);
   });
 
-  it("throttles a client address that guesses across many accounts", async () => {
-    for (let i = 0; i < 20; i++) {
-      await signInWithPassword({ email: `guess${i}@nowhere.example`, password: "guess-guess-guess", address: "10.9.9.9", userAgent: null });
-    }
-    const u = demoUser("quality");
-    const blocked = await signInWithPassword({ email: u.email, password: u.password, address: "10.9.9.9", userAgent: null });
-    expect(blocked).toMatchObject({ ok: false, status: 429 });
+  it("holds an unknown browser back after a stranger's failures, saying how long, but lets the owner's known browser in", async () => {
+    // The owner signed in from this browser before: it carries the device cookie.
+    const first = await signIn("admin");
+    if (!first.ok) throw new Error("first sign-in failed");
+    expect(first.deviceCookie).toMatch(/^sw_device=[^;]+;.*HttpOnly/i);
+    const device = first.deviceCookie!.split(";")[0]!;
+
+    await strangerFailures(demoUser("admin").email, 12);
+    const held = await signIn("admin", { address: "10.20.0.2" });
+    expect(held).toMatchObject({ ok: false, status: 429 });
+    if (held.ok) return;
+    expect(held.retryAfterSeconds).toBeGreaterThan(60);
+    expect(held.message).toMatch(/Too many failed sign-in attempts\. Wait \d+ minutes/);
+
+    const known = await signIn("admin", { cookieHeader: device });
+    expect(known.ok).toBe(true);
+  });
+
+  it("lets anyone in again once the delay has passed: failures older than the wait hold nobody back", async () => {
+    await strangerFailures(demoUser("outsider").email, 40, MAX_DELAY_MS + 1000);
+    expect((await signIn("outsider", { address: "10.20.0.3" })).ok).toBe(true);
+  });
+
+  it("gives a known browser its own allowance: wrong passwords there are delayed too, after more of them", async () => {
+    const first = await signIn("checker");
+    const device = first.ok ? first.deviceCookie!.split(";")[0]! : "";
+    for (let i = 0; i < FREE_FAILURES.device; i++) expect(await signIn("checker", { password: `wrong-${i}`, cookieHeader: device })).toMatchObject({ ok: false, status: 401 });
+    // One more failure makes the next attempt wait; recorded as just now, so the wait has not passed.
+    await db.insert(signInAttempts).values({ purpose: "sign-in", email: demoUser("checker").email, address: "10.20.0.1", device: true, succeeded: false });
+    expect(await signIn("checker", { cookieHeader: device })).toMatchObject({ ok: false, status: 429 });
+    // A device cookie of another account is no exemption.
+    const other = await signIn("engineer");
+    expect(other.ok).toBe(true);
+  });
+
+  it("counts a client address across accounts, with the same growing delay", async () => {
+    for (let i = 0; i < 14; i++) await strangerFailures(`guess${i}@nowhere.example`, 1, 0, "10.9.9.9");
+    expect(await signIn("engineer", { address: "10.9.9.9" })).toMatchObject({ ok: false, status: 429 });
+    expect((await signIn("engineer", { address: "10.9.9.10" })).ok).toBe(true);
   });
 });
 

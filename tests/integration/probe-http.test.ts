@@ -1,5 +1,8 @@
 import http from "node:http";
+import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createApp } from "~/server/http";
+import { CLIENT_ADDRESS_HEADER } from "~/utils/http.server";
 import { BODY_LIMITS } from "~/utils/limits";
 import { cookieFor, demoUser, seed } from "./helpers";
 import { startHttpApp, type HttpApp } from "./http-harness";
@@ -149,5 +152,33 @@ describe("the sign-in page shows only its own words (item 11)", () => {
     expect(known).toContain("There is no Spanwright account for the e-mail address the identity provider gave");
     // A code that names something every object has is not one of ours either.
     expect(await (await app.get("/login?sso-error=constructor")).text()).toContain("Company sign-in did not complete");
+  });
+});
+
+describe("the client address behind a proxy (item 5)", () => {
+  /** The address the app would throttle, as the web server works it out. */
+  async function addressSeen(trustProxy: string | undefined, headers: Record<string, string>) {
+    const probe = createApp({ origin: "http://127.0.0.1", dev: false, trustProxy }, (a) => a.get("/probe", (req, res) => res.json({ address: req.headers[CLIENT_ADDRESS_HEADER] })));
+    const server = probe.listen(0, "127.0.0.1");
+    await new Promise((r) => server.once("listening", r));
+    try {
+      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/probe`, { headers });
+      return ((await res.json()) as { address: string }).address;
+    } finally {
+      server.close();
+    }
+  }
+
+  it("ignores X-Forwarded-For unless TRUST_PROXY names the proxy, and never takes the address header from the client", async () => {
+    expect(await addressSeen(undefined, { "X-Forwarded-For": "203.0.113.5" })).toBe("127.0.0.1");
+    expect(await addressSeen(undefined, { [CLIENT_ADDRESS_HEADER]: "203.0.113.99" })).toBe("127.0.0.1");
+  });
+
+  it("takes the nearest untrusted address of X-Forwarded-For from a trusted proxy", async () => {
+    expect(await addressSeen("loopback", { "X-Forwarded-For": "203.0.113.5" })).toBe("203.0.113.5");
+    // A client's own forged entry sits further left and is not believed: the proxy appended the real one.
+    expect(await addressSeen("loopback", { "X-Forwarded-For": "198.51.100.1, 203.0.113.5" })).toBe("203.0.113.5");
+    expect(await addressSeen("127.0.0.1, 10.0.0.0/8", { "X-Forwarded-For": "203.0.113.5, 10.1.2.3" })).toBe("203.0.113.5");
+    expect(await addressSeen("10.0.0.0/8", { "X-Forwarded-For": "203.0.113.5" })).toBe("127.0.0.1");
   });
 });

@@ -1,7 +1,7 @@
 import { eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { cases, programmes } from "~/db/schema";
+import { cases, programmes, signInAttempts } from "~/db/schema";
 import { DEMO_USERS } from "~/demo/scenario";
 import { cookieFor, seed } from "./helpers";
 import { startHttpApp, type HttpApp } from "./http-harness";
@@ -106,17 +106,25 @@ describe("cross-site request forgery", () => {
 });
 
 describe("sign-in over HTTP", () => {
-  it("sets an httpOnly SameSite=Lax cookie, and throttles an account after five failures", async () => {
+  it("sets httpOnly SameSite=Lax session and device cookies; after a stranger's failures it holds unknown browsers back (429, Retry-After) but not the owner's", async () => {
     const u = DEMO_USERS.find((d) => d.label === "quality")!;
     const ok = await postForm("/login", { email: u.email, password: u.password }, { Origin: base });
     expect(ok.status).toBe(302);
-    const cookie = ok.headers.get("Set-Cookie")!;
-    expect(cookie).toMatch(/HttpOnly/i);
-    expect(cookie).toMatch(/SameSite=Lax/i);
+    const cookies = ok.headers.getSetCookie();
+    const session = cookies.find((c) => c.startsWith("sw_session="))!;
+    const device = cookies.find((c) => c.startsWith("sw_device="))!;
+    for (const c of [session, device]) {
+      expect(c).toMatch(/HttpOnly/i);
+      expect(c).toMatch(/SameSite=Lax/i);
+    }
 
-    for (let i = 0; i < 5; i++) expect((await postForm("/login", { email: u.email, password: `wrong-${i}` }, { Origin: base })).status).toBe(401);
+    // Someone else's wrong guesses at this account, as recorded.
+    await db.insert(signInAttempts).values(Array.from({ length: 12 }, () => ({ purpose: "sign-in" as const, email: u.email, address: "203.0.113.9", device: false, succeeded: false })));
     const refused = await postForm("/login", { email: u.email, password: u.password }, { Origin: base });
     expect(refused.status).toBe(429);
+    expect(Number(refused.headers.get("Retry-After"))).toBeGreaterThan(60);
     expect(await refused.text()).toContain("Too many failed sign-in attempts");
+    const owner = await postForm("/login", { email: u.email, password: u.password }, { Origin: base, Cookie: device.split(";")[0]! });
+    expect(owner.status).toBe(302);
   });
 });

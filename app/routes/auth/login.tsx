@@ -40,9 +40,12 @@ export async function action({ request }: Route.ActionArgs) {
     password: parsed.value.password,
     address: clientAddress(request),
     userAgent: request.headers.get("User-Agent"),
+    cookieHeader: request.headers.get("Cookie"),
   });
-  if (!result.ok) return refused({}, { status: result.status, message: result.message });
-  throw redirect(safeRedirectPath(parsed.value.redirectTo, landingPath(result.current.roles)), { headers: { "Set-Cookie": result.setCookie } });
+  if (!result.ok) return refused({}, { status: result.status, message: result.message, headers: result.retryAfterSeconds ? { "Retry-After": String(result.retryAfterSeconds) } : undefined });
+  const headers = new Headers({ "Set-Cookie": result.setCookie });
+  if (result.deviceCookie) headers.append("Set-Cookie", result.deviceCookie);
+  throw redirect(safeRedirectPath(parsed.value.redirectTo, landingPath(result.current.roles)), { headers });
 }
 
 export default function LoginRoute({ loaderData, actionData }: Route.ComponentProps) {
@@ -86,6 +89,11 @@ export default function LoginRoute({ loaderData, actionData }: Route.ComponentPr
       </div>
     </main>
   );
+}
+
+/** A refused sign-in says when to try again (Retry-After) in the page's own answer. */
+export function headers({ actionHeaders }: Route.HeadersArgs) {
+  return actionHeaders;
 }
 
 export function meta() {
