@@ -86,6 +86,7 @@ const LIMITS = [
   ["Output stations (method.stations)", String(ANALYZE_LIMITS.outputStations)],
   ["Load cases answered at once", String(ANALYZE_LIMITS.syncCases)],
   ["Load cases per request (the rest through the job queue)", String(ANALYZE_LIMITS.queuedCases)],
+  ["Values of section data beside the case (sections)", String(ANALYZE_LIMITS.sectionValues)],
   ['Station rows with method.output "full" (cases × output stations)', String(MAX_OUTPUT_ROWS)],
   ["Analyses of yours waiting at once", String(MAX_OPEN_ANALYSES)],
   ["Problems listed in a 422 answer", String(MAX_LISTED_PROBLEMS)],

@@ -3,8 +3,7 @@ import { db } from "~/db/client.server";
 import { analysisJobs } from "~/db/schema";
 import { DomainError } from "~/domain/errors";
 import type { AnalysisJobStatus } from "~/domain/vocabulary";
-import { isEngineError } from "~/engine";
-import { parseCase, runCase, type CaseFile, type CaseProblem, type CaseResult } from "~/exchange";
+import { analyzeDocument, parseCase, type CaseFile, type CaseProblem, type CaseResult } from "~/exchange";
 import { ANALYZE_LIMITS, MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/utils/limits";
 
 /** Analyses kept after they finish, for their caller to fetch. */
@@ -26,13 +25,40 @@ const lengthOf = (value: unknown, key: string): number | null => {
   return Array.isArray(v) ? v.length : null;
 };
 
+/** The two documents of a request body: the bare case, or `{ case, sections }`. */
+function documentsOf(body: unknown): { caseDoc: unknown; sectionsDoc: unknown } {
+  const pair = typeof body === "object" && body !== null && !Array.isArray(body) && !("schema" in body);
+  return pair ? { caseDoc: (body as Record<string, unknown>).case, sectionsDoc: (body as Record<string, unknown>).sections } : { caseDoc: body, sectionsDoc: undefined };
+}
+
+/** How many numbers and strings a JSON value holds, counted no further than `limit`. */
+function countValues(value: unknown, limit: number): number {
+  let n = 0;
+  const stack: unknown[] = [value];
+  while (stack.length && n <= limit) {
+    const v = stack.pop();
+    if (Array.isArray(v)) stack.push(...v);
+    else if (v !== null && typeof v === "object") stack.push(...Object.values(v));
+    else n++;
+  }
+  return n;
+}
+
 /**
  * Checks the sizes a request asks for before anything else reads it: a million empty stations or a
  * hundred thousand cases is refused in microseconds, naming the limit, rather than validated one by
  * one. Only counts are read here; everything else is the schema's business.
  * @throws AnalysisLimitError (413) naming the limit
  */
-export function checkAnalysisSize(document: unknown): void {
+export function checkAnalysisSize(body: unknown): void {
+  const { caseDoc: document, sectionsDoc } = documentsOf(body);
+  const sections = lengthOf(sectionsDoc, "sections");
+  if (sections !== null && sections > ANALYZE_LIMITS.wingStations) {
+    throw new AnalysisLimitError("sections.sections", ANALYZE_LIMITS.wingStations, `sections.sections: ${sections} sections; a request takes at most ${ANALYZE_LIMITS.wingStations} (one per wing station).`);
+  }
+  if (sectionsDoc !== undefined && countValues(sectionsDoc, ANALYZE_LIMITS.sectionValues) > ANALYZE_LIMITS.sectionValues) {
+    throw new AnalysisLimitError("sections", ANALYZE_LIMITS.sectionValues, `sections: more than ${ANALYZE_LIMITS.sectionValues} values of section data; a request takes at most that many.`);
+  }
   const wing = typeof document === "object" && document !== null ? (document as Record<string, unknown>).wing : undefined;
   const stations = lengthOf(wing, "stations");
   if (stations !== null && stations > ANALYZE_LIMITS.wingStations) {
@@ -83,18 +109,14 @@ const view = (j: typeof analysisJobs.$inferSelect): AnalysisJobView => ({ id: j.
  */
 export async function analyse(input: { organisationId: string; userId: string; document: unknown }): Promise<AnalysisAnswer> {
   checkAnalysisSize(input.document);
-  const parsed = parseCase(input.document);
-  if (!parsed.ok) return { kind: "invalid", problems: parsed.problems };
-  const file = parsed.value;
-  checkOutputSize(file);
-  if (file.cases.length <= ANALYZE_LIMITS.syncCases) {
-    try {
-      return { kind: "result", result: runCase(file) };
-    } catch (error) {
-      if (isEngineError(error)) return { kind: "invalid", problems: [{ path: error.field ?? "(document)", message: error.message }] };
-      throw error;
-    }
+  // The case alone first, for its size; the whole request is then analysed as the command line would.
+  const parsed = parseCase(documentsOf(input.document).caseDoc);
+  if (parsed.ok) checkOutputSize(parsed.value);
+  if (!parsed.ok || parsed.value.cases.length <= ANALYZE_LIMITS.syncCases) {
+    const answer = analyzeDocument(input.document);
+    return answer.ok ? { kind: "result", result: answer.result } : { kind: "invalid", problems: answer.problems };
   }
+  const file = parsed.value;
   const open = await db.select({ id: analysisJobs.id }).from(analysisJobs).where(and(eq(analysisJobs.userId, input.userId), inArray(analysisJobs.status, ["queued", "running"])));
   if (open.length >= MAX_OPEN_ANALYSES) {
     throw new DomainError(`You have ${open.length} analyses waiting or running; at most ${MAX_OPEN_ANALYSES} at once. Fetch their results first.`, { kind: "too-many", field: "cases" });
@@ -118,18 +140,11 @@ export async function runAnalysisJob(jobId: string): Promise<void> {
   const [job] = await db.select().from(analysisJobs).where(eq(analysisJobs.id, jobId));
   if (!job || job.status === "done" || job.status === "failed") return;
   await db.update(analysisJobs).set({ status: "running" }).where(eq(analysisJobs.id, jobId));
-  const parsed = parseCase(job.input);
-  if (!parsed.ok) {
-    await db.update(analysisJobs).set({ status: "failed", problems: parsed.problems, finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
-    return;
-  }
-  try {
-    const result = runCase(parsed.value);
-    await db.update(analysisJobs).set({ status: "done", result: result as unknown as Record<string, unknown>, finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
-  } catch (error) {
-    if (!isEngineError(error)) throw error;
-    await db.update(analysisJobs).set({ status: "failed", problems: [{ path: error.field ?? "(document)", message: error.message }], finishedAt: new Date() }).where(eq(analysisJobs.id, jobId));
-  }
+  const answer = analyzeDocument(job.input);
+  await db
+    .update(analysisJobs)
+    .set(answer.ok ? { status: "done", result: answer.result as unknown as Record<string, unknown>, finishedAt: new Date() } : { status: "failed", problems: answer.problems, finishedAt: new Date() })
+    .where(eq(analysisJobs.id, jobId));
 }
 
 /** One of the person's own analyses (another person's answers null, as a missing one does). */

@@ -41,6 +41,8 @@ export const ANALYZE_LIMITS = {
   syncCases: 500,
   /** Load cases of one request in all; between syncCases and this, the job queue solves them. */
   queuedCases: 20_000,
+  /** Numbers and strings in the richer section data beside the case (`sections`). */
+  sectionValues: 500_000,
 } as const;
 
 /** Output station rows (cases × output stations) a request may ask for with method.output "full". */

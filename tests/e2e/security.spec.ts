@@ -122,16 +122,33 @@ test.describe("cross-site requests", () => {
   });
 });
 
-test("sign-in is throttled at the HTTP level: after 5 failures the account is refused with 429", async ({ request }) => {
-  // An address no person has, so no demo account is locked for the specs that follow.
-  const email = `throttle-${Date.now()}@example.invalid`;
-  for (let i = 0; i < 5; i++) {
-    const res = await request.post("/login", { form: { email, password: `wrong-${i}` }, headers: { Origin: ORIGIN }, maxRedirects: 0 });
-    expect(res.status()).toBe(401);
+test("sign-in is throttled at the HTTP level with a growing delay, and the owner's known browser is not held back", async ({ request, playwright }) => {
+  // An account no later spec signs in to, and a client address of this spec's own (behind the
+  // trusted proxy), so no other spec is held back.
+  const u = user("outsider");
+  const from = { Origin: ORIGIN, "X-Forwarded-For": `203.0.113.${1 + Math.floor(Math.random() * 250)}` };
+  const owner = await playwright.request.newContext({ baseURL: ORIGIN });
+  const first = await owner.post("/login", { form: { email: u.email, password: u.password }, headers: { Origin: ORIGIN }, maxRedirects: 0 });
+  expect(first.status()).toBe(302);
+  expect(first.headersArray().some((h) => h.name.toLowerCase() === "set-cookie" && h.value.startsWith("sw_device="))).toBe(true);
+
+  // A stranger guesses: the first three are answered 401; then each attempt must wait, longer every time.
+  const statuses: number[] = [];
+  let refused: Awaited<ReturnType<typeof request.post>> | undefined;
+  for (let i = 0; i < 20 && !refused; i++) {
+    const res = await request.post("/login", { form: { email: u.email, password: `wrong-${i}` }, headers: from, maxRedirects: 0 });
+    statuses.push(res.status());
+    if (res.status() === 429) refused = res;
   }
-  const refused = await request.post("/login", { form: { email, password: "wrong-again" }, headers: { Origin: ORIGIN }, maxRedirects: 0 });
-  expect(refused.status()).toBe(429);
-  expect(await refused.text()).toContain("Too many failed sign-in attempts");
+  expect(statuses.slice(0, 3)).toEqual([401, 401, 401]);
+  expect(refused, `statuses: ${statuses.join(", ")}`).toBeTruthy();
+  expect(Number(refused!.headers()["retry-after"])).toBeGreaterThan(0);
+  expect(await refused!.text()).toContain("Too many failed sign-in attempts");
+
+  // The owner's browser, which signed in before, is not locked out by the stranger.
+  const again = await owner.post("/login", { form: { email: u.email, password: u.password }, headers: { Origin: ORIGIN }, maxRedirects: 0 });
+  expect(again.status()).toBe(302);
+  await owner.dispose();
 });
 
 test.describe("errors say nothing about the inside", () => {

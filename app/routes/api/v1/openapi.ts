@@ -61,6 +61,7 @@ const LIMITS = {
   outputStations: ANALYZE_LIMITS.outputStations,
   casesAnsweredAtOnce: ANALYZE_LIMITS.syncCases,
   casesPerRequest: ANALYZE_LIMITS.queuedCases,
+  sectionDataValues: ANALYZE_LIMITS.sectionValues,
   outputStationRows: MAX_OUTPUT_ROWS,
   openAnalysesPerPerson: MAX_OPEN_ANALYSES,
   problemsListed: MAX_LISTED_PROBLEMS,
@@ -141,7 +142,7 @@ export function openApiDocument() {
           summary: `Analyse a ${CASE_SCHEMA_ID} document`,
           description: [
             "Needs case:read (either token scope).",
-            `Limits per request (also in x-limits): at most ${ANALYZE_LIMITS.wingStations} wing stations, ${ANALYZE_LIMITS.outputStations} output stations (method.stations), ${ANALYZE_LIMITS.queuedCases} load cases, and with method.output "full" at most ${MAX_OUTPUT_ROWS} station rows (cases × output stations).`,
+            `Limits per request (also in x-limits): at most ${ANALYZE_LIMITS.wingStations} wing stations, ${ANALYZE_LIMITS.outputStations} output stations (method.stations), ${ANALYZE_LIMITS.queuedCases} load cases, ${ANALYZE_LIMITS.sectionValues} values of section data beside the case, and with method.output "full" at most ${MAX_OUTPUT_ROWS} station rows (cases × output stations).`,
             `Up to ${ANALYZE_LIMITS.syncCases} cases are answered at once (200) and nothing is stored. More are answered 202 with a job: poll /api/v1/analyze/jobs/{jobId} until it answers 200; the job and its result are kept for a day, and one person may have ${MAX_OPEN_ANALYSES} waiting at once (429 beyond).`,
             `A request beyond a limit is answered 413 at once, naming the limit. A bad document is answered 422 with its first ${MAX_LISTED_PROBLEMS} problems and their count.`,
           ].join(" "),
