@@ -96,6 +96,7 @@ test("company sign-in for an address the identity provider does not know is refu
   await page.goto("/login");
   await page.getByLabel("Company e-mail").fill("stranger@kestrel-fieldworks.example");
   await page.getByRole("button", { name: "Continue with company sign-in" }).click();
+  await expect(page.getByRole("heading", { name: "Local sign-in stand-in" })).toBeVisible();
   await page.getByLabel("Password").fill("anything-at-all");
   await page.getByRole("button", { name: "Sign in" }).click();
   await expect(page.getByRole("alert")).toContainText("not correct");
