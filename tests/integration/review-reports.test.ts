@@ -133,7 +133,8 @@ describe("reports", () => {
     expect(await db.select().from(reports)).toHaveLength(0);
   });
 
-  it("leaves no half-issued report when S3 is down, and completes once it returns", async () => {
+  // Two PDFs and the store's retries: a generous limit, so a busy machine cannot fail it.
+  it("leaves no half-issued report when S3 is down, and completes once it returns", { timeout: 180_000 }, async () => {
     await approveAll();
     expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
     // A store of our own that we can take down and bring back.
