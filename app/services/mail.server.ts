@@ -1,5 +1,4 @@
 import nodemailer, { type Transporter } from "nodemailer";
-import { listCapturedMail } from "~/server/dev-services/mail";
 import { env } from "~/utils/env.server";
 
 let transport: Transporter | undefined;
@@ -38,11 +37,4 @@ export async function sendMail(mail: Mail): Promise<void> {
     "<p>— Spanwright</p>",
   ].join("\n");
   await transporter().sendMail({ from: env().MAIL_FROM, to: mail.to, subject: mail.subject, text, html, headers: { [ORGANISATION_HEADER]: mail.organisationId } });
-}
-
-/** Mail the local capture received, newest first (optionally to one address): the development mailbox. */
-export function capturedMail(opts: { to?: string } = {}) {
-  const dir = env().MAIL_CAPTURE_DIR;
-  if (!dir) throw new Error("MAIL_CAPTURE_DIR is not set: mail goes to a real relay");
-  return listCapturedMail(dir, opts);
 }

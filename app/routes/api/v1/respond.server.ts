@@ -1,6 +1,5 @@
 import { databaseUnavailableResponse, isDatabaseUnavailable } from "~/utils/unavailable.server";
 import { DomainError, problemsMessage, type DocumentProblem } from "~/domain/errors";
-import { isEngineError } from "~/engine";
 import { apiError, apiRefusal } from "~/utils/http.server";
 import { BODY_LIMITS, formatBytes } from "~/utils/limits";
 import { findNul, NUL_MESSAGE } from "~/utils/text";
