@@ -1,12 +1,12 @@
 import type { Role } from "~/domain/vocabulary";
 
 /**
- * The invented demo scenario: Kestrel Fieldworks certifying its KF-60 Tern twin-turboprop commuter,
+ * The invented demo scenario: Kelvard Fenlow Aircraft certifying its KF-60 Tern twin-turboprop commuter,
  * and an unrelated organisation, Northmoor Aerostructures, whose user shows that organisations are
  * isolated from each other. These passwords exist only for local demonstration.
  */
 export const DEMO_ORGANISATIONS = {
-  kestrel: { slug: "kestrel-fieldworks", name: "Kestrel Fieldworks" },
+  kelvard: { slug: "kelvard-fenlow", name: "Kelvard Fenlow Aircraft" },
   northmoor: { slug: "northmoor-aerostructures", name: "Northmoor Aerostructures" },
 } as const;
 
@@ -20,16 +20,16 @@ export interface DemoUser {
 }
 
 export const DEMO_USERS: readonly DemoUser[] = [
-  { label: "engineer", name: "Erin Hale", email: "erin.hale@kestrel-fieldworks.example", password: "tern-engineer-2026", organisation: "kestrel", roles: ["engineer"] },
-  { label: "checker", name: "Marek Oduya", email: "marek.oduya@kestrel-fieldworks.example", password: "tern-checker-2026", organisation: "kestrel", roles: ["checker"] },
-  { label: "quality", name: "Priya Lindqvist", email: "priya.lindqvist@kestrel-fieldworks.example", password: "tern-quality-2026", organisation: "kestrel", roles: ["quality"] },
-  { label: "admin", name: "Sam Okafor", email: "sam.okafor@kestrel-fieldworks.example", password: "tern-admin-2026", organisation: "kestrel", roles: ["admin"] },
+  { label: "engineer", name: "Erin Hale", email: "erin.hale@kelvard-fenlow.example", password: "tern-engineer-2026", organisation: "kelvard", roles: ["engineer"] },
+  { label: "checker", name: "Marek Oduya", email: "marek.oduya@kelvard-fenlow.example", password: "tern-checker-2026", organisation: "kelvard", roles: ["checker"] },
+  { label: "quality", name: "Priya Lindqvist", email: "priya.lindqvist@kelvard-fenlow.example", password: "tern-quality-2026", organisation: "kelvard", roles: ["quality"] },
+  { label: "admin", name: "Sam Okafor", email: "sam.okafor@kelvard-fenlow.example", password: "tern-admin-2026", organisation: "kelvard", roles: ["admin"] },
   { label: "outsider", name: "Jonas Reyes", email: "jonas.reyes@northmoor-aero.example", password: "skua-engineer-2026", organisation: "northmoor", roles: ["engineer", "admin"] },
 ];
 
 export const DEMO_PROGRAMMES = [
   {
-    organisation: "kestrel",
+    organisation: "kelvard",
     code: "KF60",
     name: "KF-60 Tern type certification",
     aircraft: "KF-60 Tern, twin-turboprop commuter, 6 350 kg MTOW",
@@ -40,7 +40,7 @@ export const DEMO_PROGRAMMES = [
     code: "NA14",
     name: "NA-14 Skua wing redesign",
     aircraft: "NA-14 Skua, single-engine utility aeroplane",
-    description: "Northmoor's own programme; Kestrel users must never see it.",
+    description: "Northmoor's own programme; Kelvard users must never see it.",
   },
 ] as const;
 

@@ -30,7 +30,7 @@ for (const [label, expected] of Object.entries(LANDING) as [keyof typeof LANDING
     const nav = page.getByRole("navigation", { name: "Main" });
     for (const item of expected.nav) await expect(nav.getByRole("link", { name: item })).toBeVisible();
     for (const item of expected.hidden) await expect(nav.getByRole("link", { name: item })).toHaveCount(0);
-    await expect(page.getByTestId("organisation")).toHaveText("Kestrel Fieldworks");
+    await expect(page.getByTestId("organisation")).toHaveText("Kelvard Fenlow Aircraft");
     await shot(page, `landing-${label}`);
   });
 }
@@ -44,7 +44,7 @@ test("a role is refused pages it may not use, with a clear message", async ({ pa
   await shot(page, "refused-engineer-admin");
 });
 
-test("the outsider cannot reach Kestrel's case or programme by URL", async ({ page, browser }) => {
+test("the outsider cannot reach Kelvard's case or programme by URL", async ({ page, browser }) => {
   await signIn(page, "engineer");
   await page.getByRole("link", { name: "TN-WL-001" }).click();
   await expect(page.getByRole("heading", { level: 1 })).toContainText("TN-WL-001");
@@ -94,7 +94,7 @@ test("the checker signs in through company sign-in: the stand-in asks for the de
 
 test("company sign-in for an address the identity provider does not know is refused there", async ({ page }) => {
   await page.goto("/login");
-  await page.getByLabel("Company e-mail").fill("stranger@kestrel-fieldworks.example");
+  await page.getByLabel("Company e-mail").fill("stranger@kelvard-fenlow.example");
   await page.getByRole("button", { name: "Continue with company sign-in" }).click();
   await expect(page.getByRole("heading", { name: "Local sign-in stand-in" })).toBeVisible();
   await page.getByLabel("Password").fill("anything-at-all");

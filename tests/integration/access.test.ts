@@ -12,16 +12,16 @@ import { action as programmesAction } from "~/routes/programmes/list";
 import { loader as casesLoader } from "~/routes/cases/list";
 import { cookieFor, form, request, run, seed } from "./helpers";
 
-let kestrelProgrammeId = "";
-let kestrelCaseId = "";
+let kelvardProgrammeId = "";
+let kelvardCaseId = "";
 let northmoorCaseId = "";
 
 beforeAll(async () => {
   await seed();
   const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
-  kestrelProgrammeId = p!.id;
+  kelvardProgrammeId = p!.id;
   const [c] = await db.select().from(cases).where(and(eq(cases.programmeId, p!.id), eq(cases.reference, "TN-WL-001")));
-  kestrelCaseId = c!.id;
+  kelvardCaseId = c!.id;
   const [n] = await db.select().from(cases).where(eq(cases.reference, "SK-L-07"));
   northmoorCaseId = n!.id;
 });
@@ -29,17 +29,17 @@ beforeAll(async () => {
 describe("organisation isolation", () => {
   it("answers another organisation's programme and case by URL with 404 and no data", async () => {
     const cookie = await cookieFor("outsider");
-    const p = await run(programmeLoader, { request: request(`/programmes/${kestrelProgrammeId}`, { cookie }), params: { programmeId: kestrelProgrammeId } });
+    const p = await run(programmeLoader, { request: request(`/programmes/${kelvardProgrammeId}`, { cookie }), params: { programmeId: kelvardProgrammeId } });
     expect(p.status).toBe(404);
     expect(JSON.stringify(p.body)).not.toContain("KF-60");
-    const c = await run(caseLoader, { request: request(`/cases/${kestrelCaseId}`, { cookie }), params: { caseId: kestrelCaseId } });
+    const c = await run(caseLoader, { request: request(`/cases/${kelvardCaseId}`, { cookie }), params: { caseId: kelvardCaseId } });
     expect(c.status).toBe(404);
     expect(JSON.stringify(c.body)).not.toContain("TN-WL-001");
   });
 
   it("lists only the person's own organisation's cases", async () => {
-    const kestrel = await run(casesLoader, { request: request("/cases", { cookie: await cookieFor("engineer") }) });
-    const refs = (kestrel.body as { cases: { reference: string }[] }).cases.map((c) => c.reference);
+    const kelvard = await run(casesLoader, { request: request("/cases", { cookie: await cookieFor("engineer") }) });
+    const refs = (kelvard.body as { cases: { reference: string }[] }).cases.map((c) => c.reference);
     expect(refs).toContain("TN-WL-001");
     expect(refs).not.toContain("SK-L-07");
     const mine = await run(caseLoader, { request: request(`/cases/${northmoorCaseId}`, { cookie: await cookieFor("outsider") }), params: { caseId: northmoorCaseId } });
@@ -55,7 +55,7 @@ describe("organisation isolation", () => {
     const cookie = await cookieFor("outsider");
     const before = (await db.select().from(cases)).length;
     const res = await run(newCaseAction, {
-      request: request("/cases/new", { method: "POST", cookie, body: form({ programmeId: kestrelProgrammeId, reference: "X-1", title: "Intrusion" }) }),
+      request: request("/cases/new", { method: "POST", cookie, body: form({ programmeId: kelvardProgrammeId, reference: "X-1", title: "Intrusion" }) }),
     });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors.programmeId).toBeDefined();

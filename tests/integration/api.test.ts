@@ -28,10 +28,10 @@ import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
 const EXAMPLES = ["kf60-tern-wing", "kf60-tern-lifting-line", "kf60-tern-swept-variant"] as const;
 const example = (name: (typeof EXAMPLES)[number]) => JSON.parse(readFileSync(`docs/examples/${name}.json`, "utf8")) as Record<string, unknown>;
 
-let kestrelProgrammeId = "";
+let kelvardProgrammeId = "";
 let northmoorProgrammeId = "";
-let kestrelCaseId = "";
-let emptyKestrelCaseId = "";
+let kelvardCaseId = "";
+let emptyKelvardCaseId = "";
 let northmoorCaseId = "";
 const tokens: Record<"engineer" | "checker" | "outsider", string> = { engineer: "", checker: "", outsider: "" };
 
@@ -70,11 +70,11 @@ beforeAll(async () => {
   await seed();
   const [kp] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
   const [np] = await db.select().from(programmes).where(eq(programmes.code, "NA14"));
-  kestrelProgrammeId = kp!.id;
+  kelvardProgrammeId = kp!.id;
   northmoorProgrammeId = np!.id;
   const byRef = async (ref: string) => (await db.select().from(cases).where(eq(cases.reference, ref)))[0]!.id;
-  kestrelCaseId = await byRef("TN-WL-001");
-  emptyKestrelCaseId = await byRef("TN-WL-002");
+  kelvardCaseId = await byRef("TN-WL-001");
+  emptyKelvardCaseId = await byRef("TN-WL-002");
   northmoorCaseId = await byRef("SK-L-07");
   for (const label of Object.keys(tokens) as (keyof typeof tokens)[]) tokens[label] = (await tokenFor(label)).token;
 });
@@ -126,7 +126,7 @@ describe("personal API tokens", () => {
     const readOnly = await make("scope read", "read");
     const readWrite = await make("scope write", "read-write");
     expect(readOnly.scope).toBe("read");
-    const body = (reference: string) => jsonPost({ programmeId: kestrelProgrammeId, reference, case: example("kf60-tern-wing") });
+    const body = (reference: string) => jsonPost({ programmeId: kelvardProgrammeId, reference, case: example("kf60-tern-wing") });
     expect((await call(casesLoader, "/api/v1/cases", { token: readOnly.token })).status).toBe(200);
     const before = await rowCounts();
     const refused = await call(importAction, "/api/v1/cases/import", { token: readOnly.token, ...body("TN-SCOPE-1") });
@@ -135,7 +135,7 @@ describe("personal API tokens", () => {
     // Only the token's last use was written.
     expect(await rowCounts()).toEqual(before);
     // A read-write token passes the scope check: what answers is the document (left empty here, so no case is made).
-    const allowed = await call(importAction, "/api/v1/cases/import", { token: readWrite.token, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-SCOPE-2", case: {} }) });
+    const allowed = await call(importAction, "/api/v1/cases/import", { token: readWrite.token, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-SCOPE-2", case: {} }) });
     expect(allowed.status).toBe(422);
 
     const listed = await run(tokensLoader, { request: request("/account/tokens", { cookie }) });
@@ -194,9 +194,9 @@ describe("authentication and access", () => {
   });
 
   it("accepts the browser's session cookie too", async () => {
-    const res = await call(caseLoader, `/api/v1/cases/${kestrelCaseId}`, { cookie: await cookieFor("quality"), params: { caseId: kestrelCaseId } });
+    const res = await call(caseLoader, `/api/v1/cases/${kelvardCaseId}`, { cookie: await cookieFor("quality"), params: { caseId: kelvardCaseId } });
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ id: kestrelCaseId, reference: "TN-WL-001", programme: { code: "KF60" } });
+    expect(res.body).toMatchObject({ id: kelvardCaseId, reference: "TN-WL-001", programme: { code: "KF60" } });
     const steps = res.body!.steps as { step: string; status: string; revision: number }[];
     expect(steps.map((s) => s.step)).toEqual(["basis", "planform", "sections", "envelope", "distribution", "loads"]);
   });
@@ -215,7 +215,7 @@ describe("authentication and access", () => {
   });
 
   it("answers another organisation's case exactly like an unknown one, and a malformed id with 404", async () => {
-    const foreign = await call(caseLoader, `/api/v1/cases/${kestrelCaseId}`, { token: tokens.outsider, params: { caseId: kestrelCaseId } });
+    const foreign = await call(caseLoader, `/api/v1/cases/${kelvardCaseId}`, { token: tokens.outsider, params: { caseId: kelvardCaseId } });
     const unknown = "00000000-0000-4000-8000-000000000000";
     const missing = await call(caseLoader, `/api/v1/cases/${unknown}`, { token: tokens.outsider, params: { caseId: unknown } });
     const malformed = await call(exportLoader, "/api/v1/cases/not-a-uuid/export", { token: tokens.outsider, params: { caseId: "not-a-uuid" } });
@@ -225,7 +225,7 @@ describe("authentication and access", () => {
     expect(malformed.status).toBe(404);
     expect(malformed.body).toMatchObject({ error: "not-found" });
     for (const fn of [exportLoader, resultsLoader]) {
-      const res = await call(fn, `/api/v1/cases/${kestrelCaseId}/x`, { token: tokens.outsider, params: { caseId: kestrelCaseId } });
+      const res = await call(fn, `/api/v1/cases/${kelvardCaseId}/x`, { token: tokens.outsider, params: { caseId: kelvardCaseId } });
       expect(res.status).toBe(404);
     }
     expect((await call(caseLoader, `/api/v1/cases/${northmoorCaseId}`, { token: tokens.outsider, params: { caseId: northmoorCaseId } })).status).toBe(200);
@@ -233,7 +233,7 @@ describe("authentication and access", () => {
 
   it("refuses import to a role without case:create with 403 JSON", async () => {
     const before = await rowCounts();
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.checker, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-X-1", case: example("kf60-tern-wing") }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.checker, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-X-1", case: example("kf60-tern-wing") }) });
     expect(res.status).toBe(403);
     expect(res.body).toEqual({ error: "forbidden", message: expect.stringContaining("case:create") });
     expect(await rowCounts()).toEqual(before);
@@ -342,7 +342,7 @@ describe("import and export", () => {
     const file = example(name);
     const parsed = parseCase(file);
     if (!parsed.ok) throw new Error(`example ${name} does not parse`);
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: `RT-${name}`, case: file }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: `RT-${name}`, case: file }) });
     expect(res.status).toBe(201);
     const id = res.body!.id as string;
     expect(res.headers.get("Location")).toBe(`/api/v1/cases/${id}`);
@@ -368,7 +368,7 @@ describe("import and export", () => {
       schema: "spanwright.sections/1",
       sections: file.wing.stations.map((s, i) => ({ y: s.y, cpMinTable: [{ cl: 0, cpMin: -0.45 }, { cl: 1, cpMin: -1.2 - 0.1 * i }], ...(i === 0 ? { pressures: [cp(0), cp(4)] } : {}) })),
     };
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "RT-SECTIONS", case: file, sections }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "RT-SECTIONS", case: file, sections }) });
     expect(res.status).toBe(201);
     const id = res.body!.id as string;
     const exported = await call(exportLoader, `/api/v1/cases/${id}/export`, { token: tokens.engineer, params: { caseId: id } });
@@ -386,12 +386,12 @@ describe("import and export", () => {
     if (!checked.ok) throw new Error("must parse");
     expect(results.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value, { sections: checked.value }))));
     // A case without richer data has no sections part.
-    const plain = await call(exportLoader, `/api/v1/cases/${kestrelCaseId}/export?part=sections`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    const plain = await call(exportLoader, `/api/v1/cases/${kelvardCaseId}/export?part=sections`, { token: tokens.engineer, params: { caseId: kelvardCaseId } });
     expect(plain.status).toBe(404);
   });
 
   it("takes the bare document with the target in the query", async () => {
-    const res = await call(importAction, `/api/v1/cases/import?programmeId=${kestrelProgrammeId}&reference=TN-WL-BARE&title=Bare%20import`, { token: tokens.engineer, ...jsonPost(example("kf60-tern-swept-variant")) });
+    const res = await call(importAction, `/api/v1/cases/import?programmeId=${kelvardProgrammeId}&reference=TN-WL-BARE&title=Bare%20import`, { token: tokens.engineer, ...jsonPost(example("kf60-tern-swept-variant")) });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ reference: "TN-WL-BARE", title: "Bare import", status: "draft" });
     const entries = await db.select().from(auditLog).where(eq(auditLog.entityId, res.body!.id as string));
@@ -403,7 +403,7 @@ describe("import and export", () => {
     file.cases[1]!.mach = 1.2;
     file.wing.stations[0]!.sweep = 3;
     const before = await rowCounts();
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-BAD-1", case: file }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-BAD-1", case: file }) });
     expect(res.status).toBe(422);
     expect((res.body!.problems as { path: string }[]).map((p) => p.path)).toEqual(expect.arrayContaining(["cases[1].mach", "wing.stations[0].sweep"]));
     const target = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: "nope", reference: " ", extra: 1, case: example("kf60-tern-wing") }) });
@@ -417,7 +417,7 @@ describe("import and export", () => {
     file.wing.stations[1]!.twist = -25;
     file.cases[0]!.id = "cruise 1g";
     const before = await rowCounts();
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-BAD-2", case: file }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-BAD-2", case: file }) });
     expect(res.status).toBe(422);
     const problems = res.body!.problems as { path: string; message: string }[];
     expect(problems.find((p) => p.path === "wing.stations[1].twist")?.message).toMatch(/±20/);
@@ -427,7 +427,7 @@ describe("import and export", () => {
 
   it("refuses a reference already used in the programme (409) and another organisation's programme (404)", async () => {
     const before = await rowCounts();
-    const dup = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-001", case: example("kf60-tern-wing") }) });
+    const dup = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-001", case: example("kf60-tern-wing") }) });
     expect(dup.status).toBe(409);
     expect(dup.body).toMatchObject({ error: "conflict", message: expect.stringContaining("TN-WL-001") });
     const foreign = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: northmoorProgrammeId, reference: "TN-X-2", case: example("kf60-tern-wing") }) });
@@ -436,17 +436,17 @@ describe("import and export", () => {
   });
 
   it("answers 409 with a message when the case's steps are not saved", async () => {
-    const res = await call(exportLoader, `/api/v1/cases/${emptyKestrelCaseId}/export`, { token: tokens.engineer, params: { caseId: emptyKestrelCaseId } });
+    const res = await call(exportLoader, `/api/v1/cases/${emptyKelvardCaseId}/export`, { token: tokens.engineer, params: { caseId: emptyKelvardCaseId } });
     expect(res.status).toBe(409);
     expect(res.body).toEqual({ error: "conflict", message: expect.stringMatching(/planform, sections, envelope/) });
-    const results = await call(resultsLoader, `/api/v1/cases/${emptyKestrelCaseId}/results`, { token: tokens.engineer, params: { caseId: emptyKestrelCaseId } });
+    const results = await call(resultsLoader, `/api/v1/cases/${emptyKelvardCaseId}/results`, { token: tokens.engineer, params: { caseId: emptyKelvardCaseId } });
     expect(results.status).toBe(409);
   });
 });
 
 describe("GET /api/v1/cases/:caseId/results", () => {
   it("answers the stored spanwright.result/1, equal to running the exported case, and CSV on request", async () => {
-    const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-RES", case: example("kf60-tern-wing") }) });
+    const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-RES", case: example("kf60-tern-wing") }) });
     const id = imported.body!.id as string;
     const res = await call(resultsLoader, `/api/v1/cases/${id}/results`, { token: tokens.checker, params: { caseId: id } });
     expect(res.status).toBe(200);
@@ -477,7 +477,7 @@ describe("GET /api/v1/cases/:caseId/results", () => {
   // is answered 304 Not Modified without a body. Cache-Control no-store (RFC 9111 §5.2.2.5) keeps
   // browsers and proxies from keeping a copy; a client that keeps one itself revalidates by its tag.
   it("names each representation with an entity tag, answers 304 to a client that holds it, and a new tag once the input changes", async () => {
-    const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-TAG", case: example("kf60-tern-wing") }) });
+    const imported = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-TAG", case: example("kf60-tern-wing") }) });
     const id = imported.body!.id as string;
     const url = `/api/v1/cases/${id}/results`;
     const first = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id } });
@@ -510,12 +510,12 @@ describe("GET /api/v1/cases/:caseId/results", () => {
 
 describe("the seeded demo case", () => {
   it("exports a valid document whose stored results equal running it", async () => {
-    const exported = await call(exportLoader, `/api/v1/cases/${kestrelCaseId}/export`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    const exported = await call(exportLoader, `/api/v1/cases/${kelvardCaseId}/export`, { token: tokens.engineer, params: { caseId: kelvardCaseId } });
     expect(exported.status).toBe(200);
     expect(exported.headers.get("Content-Disposition")).toBe('inline; filename="TN-WL-001.case.json"');
     const parsed = parseCase(exported.body);
     if (!parsed.ok) throw new Error(`export does not parse: ${JSON.stringify(parsed.problems)}`);
-    const res = await call(resultsLoader, `/api/v1/cases/${kestrelCaseId}/results`, { token: tokens.engineer, params: { caseId: kestrelCaseId } });
+    const res = await call(resultsLoader, `/api/v1/cases/${kelvardCaseId}/results`, { token: tokens.engineer, params: { caseId: kelvardCaseId } });
     expect(res.status).toBe(200);
     expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
   });
@@ -564,7 +564,7 @@ describe("GET /api/v1/openapi.json", () => {
 
 describe("case steps stored by an import", () => {
   it("are the planform, sections, envelope and loads the document describes", async () => {
-    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kestrelProgrammeId, reference: "TN-WL-STEPS", case: example("kf60-tern-lifting-line") }) });
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-STEPS", case: example("kf60-tern-lifting-line") }) });
     const rows = await db.select().from(caseSteps).where(eq(caseSteps.caseId, res.body!.id as string));
     const byStep = Object.fromEntries(rows.map((r) => [r.step, r.data as Record<string, unknown>]));
     const file = example("kf60-tern-lifting-line") as { wing: { stations: { y: number; chord: number }[]; mass: { kg: number } }; cases: { id: string }[] };

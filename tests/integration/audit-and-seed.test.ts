@@ -35,7 +35,7 @@ describe("audit trail", () => {
     });
     expect(res.status).toBe(302);
     const [entry] = await db.select().from(auditLog).where(eq(auditLog.action, "case.create")).orderBy(sql`id desc`).limit(1);
-    expect(entry!.actorEmail).toBe("erin.hale@kestrel-fieldworks.example");
+    expect(entry!.actorEmail).toBe("erin.hale@kelvard-fenlow.example");
     expect((entry!.after as { reference: string }).reference).toBe("TN-WL-900");
     expect(entry!.at.getTime()).toBeGreaterThan(Date.now() - 60_000);
   });
@@ -59,14 +59,14 @@ describe("audit trail", () => {
   });
 
   it("verifies an organisation's hash chain and shows where an altered entry breaks it", async () => {
-    const [kestrel] = await db.select().from(organisations).where(eq(organisations.slug, "kestrel-fieldworks"));
-    expect(await verifyAuditChain(db, kestrel!.id)).toMatchObject({ intact: true });
-    const [victim] = await db.select().from(auditLog).where(eq(auditLog.organisationId, kestrel!.id)).orderBy(sql`seq`).offset(2).limit(1);
+    const [kelvard] = await db.select().from(organisations).where(eq(organisations.slug, "kelvard-fenlow"));
+    expect(await verifyAuditChain(db, kelvard!.id)).toMatchObject({ intact: true });
+    const [victim] = await db.select().from(auditLog).where(eq(auditLog.organisationId, kelvard!.id)).orderBy(sql`seq`).offset(2).limit(1);
     // Only someone bypassing the application (a superuser disabling the trigger) can do this.
     await db.execute(sql`ALTER TABLE audit_log DISABLE TRIGGER audit_log_append_only`);
     await db.execute(sql`UPDATE audit_log SET after = '{"forged":true}'::jsonb WHERE id = ${victim!.id}`);
     await db.execute(sql`ALTER TABLE audit_log ENABLE TRIGGER audit_log_append_only`);
-    const check = await verifyAuditChain(db, kestrel!.id);
+    const check = await verifyAuditChain(db, kelvard!.id);
     expect(check.intact).toBe(false);
     expect(check.brokenAt).toMatchObject({ id: victim!.id, seq: victim!.seq });
     expect(check.brokenAt?.reason).toMatch(/altered/);

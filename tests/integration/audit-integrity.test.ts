@@ -22,13 +22,13 @@ import { seed } from "./helpers";
  * reports cannot be changed or deleted at the database.
  */
 
-let kestrel = "";
+let kelvard = "";
 let northmoor = "";
 
 beforeAll(async () => {
   await seed();
   const orgs = await db.select().from(organisations);
-  kestrel = orgs.find((o) => o.slug === "kestrel-fieldworks")!.id;
+  kelvard = orgs.find((o) => o.slug === "kelvard-fenlow")!.id;
   northmoor = orgs.find((o) => o.slug === "northmoor-aerostructures")!.id;
 });
 
@@ -61,11 +61,11 @@ async function addEntries(organisationId: string, n: number, action = "probe.ent
 
 describe("each organisation's audit trail is verified on its own (item 10)", () => {
   it("counts and reads only the organisation's entries, numbered from 1", async () => {
-    const mine = await rowsOf(kestrel);
+    const mine = await rowsOf(kelvard);
     const theirs = await rowsOf(northmoor);
     expect(mine.map((r) => r.seq)).toEqual(mine.map((_, i) => i + 1));
     expect(theirs.map((r) => r.seq)).toEqual(theirs.map((_, i) => i + 1));
-    const check = await verifyAuditChain(db, kestrel);
+    const check = await verifyAuditChain(db, kelvard);
     expect(check).toMatchObject({ intact: true, entries: mine.length });
   });
 
@@ -73,7 +73,7 @@ describe("each organisation's audit trail is verified on its own (item 10)", () 
     await addEntries(northmoor, 2, "probe.northmoor");
     const [victim] = (await rowsOf(northmoor)).slice(-1);
     await bypassingTriggers(() => db.execute(sql`UPDATE audit_log SET action = 'forged' WHERE id = ${victim!.id}`));
-    expect(await verifyAuditChain(db, kestrel)).toMatchObject({ intact: true });
+    expect(await verifyAuditChain(db, kelvard)).toMatchObject({ intact: true });
     const theirs = await verifyAuditChain(db, northmoor);
     expect(theirs.intact).toBe(false);
     expect(theirs.brokenAt!.seq).toBe(victim!.seq);
@@ -84,54 +84,54 @@ describe("each organisation's audit trail is verified on its own (item 10)", () 
 
 describe("the audit trail holds against someone with database access (item 8)", () => {
   it("hashes each entry's own id and sequence: an entry moved to another place no longer verifies", async () => {
-    const base = (await rowsOf(kestrel))[0]!;
+    const base = (await rowsOf(kelvard))[0]!;
     expect(entryHash(GENESIS_HASH, { ...base, seq: base.seq + 1 })).not.toBe(entryHash(GENESIS_HASH, base));
     expect(entryHash(GENESIS_HASH, { ...base, id: base.id + 1000 })).not.toBe(entryHash(GENESIS_HASH, base));
-    await addEntries(kestrel, 1, "probe.move");
-    const [last] = (await rowsOf(kestrel)).slice(-1);
+    await addEntries(kelvard, 1, "probe.move");
+    const [last] = (await rowsOf(kelvard)).slice(-1);
     // Renumber the newest entry, keeping its content and stored hashes: the chain shows the gap and the moved entry.
     await bypassingTriggers(() => db.execute(sql`UPDATE audit_log SET seq = seq + 5 WHERE id = ${last!.id}`));
-    const check = await verifyAuditChain(db, kestrel);
+    const check = await verifyAuditChain(db, kelvard);
     expect(check.intact).toBe(false);
     expect(check.brokenAt!.reason).toMatch(/missing/);
     await bypassingTriggers(() => db.execute(sql`UPDATE audit_log SET seq = seq - 5 WHERE id = ${last!.id}`));
-    expect(await verifyAuditChain(db, kestrel)).toMatchObject({ intact: true });
+    expect(await verifyAuditChain(db, kelvard)).toMatchObject({ intact: true });
   });
 
   it("shows an edited entry whose hashes were all recomputed, once the trail has been anchored", async () => {
-    const head = await anchorChain(kestrel, "checkpoint");
+    const head = await anchorChain(kelvard, "checkpoint");
     expect(head).not.toBeNull();
-    const anchors = await listAnchors(kestrel);
+    const anchors = await listAnchors(kelvard);
     expect(anchors.map((a) => a.seq)).toContain(head!.seq);
-    expect(await checkAuditTrail(kestrel)).toMatchObject({ intact: true });
+    expect(await checkAuditTrail(kelvard)).toMatchObject({ intact: true });
 
-    const victim = (await rowsOf(kestrel))[1]!;
+    const victim = (await rowsOf(kelvard))[1]!;
     await bypassingTriggers(async () => {
-      await db.execute(sql`UPDATE audit_log SET actor_email = 'someone.else@kestrel-fieldworks.example' WHERE id = ${victim.id}`);
-      await recomputeFrom(kestrel, victim.seq);
+      await db.execute(sql`UPDATE audit_log SET actor_email = 'someone.else@kelvard-fenlow.example' WHERE id = ${victim.id}`);
+      await recomputeFrom(kelvard, victim.seq);
     });
     // Inside the database alone the forgery is consistent…
-    expect(await verifyAuditChain(db, kestrel)).toMatchObject({ intact: true });
+    expect(await verifyAuditChain(db, kelvard)).toMatchObject({ intact: true });
     // …but the hash anchored outside it no longer matches.
-    const check = await checkAuditTrail(kestrel);
+    const check = await checkAuditTrail(kelvard);
     expect(check.intact).toBe(false);
     expect(check.brokenAt!.seq).toBe(head!.seq);
     expect(check.brokenAt!.reason).toMatch(/anchored in storage.*rewritten/);
 
     await bypassingTriggers(async () => {
       await db.execute(sql`UPDATE audit_log SET actor_email = ${victim.actorEmail} WHERE id = ${victim.id}`);
-      await recomputeFrom(kestrel, victim.seq);
+      await recomputeFrom(kelvard, victim.seq);
     });
-    expect(await checkAuditTrail(kestrel)).toMatchObject({ intact: true });
+    expect(await checkAuditTrail(kelvard)).toMatchObject({ intact: true });
   });
 
   it("notices that the newest entries were deleted", async () => {
-    await addEntries(kestrel, 3, "probe.tail");
-    const head = await anchorChain(kestrel, "checkpoint");
-    const tail = (await rowsOf(kestrel)).slice(-2);
+    await addEntries(kelvard, 3, "probe.tail");
+    const head = await anchorChain(kelvard, "checkpoint");
+    const tail = (await rowsOf(kelvard)).slice(-2);
     await bypassingTriggers(() => db.execute(sql`DELETE FROM audit_log WHERE id IN (${tail[0]!.id}, ${tail[1]!.id})`));
-    expect(await verifyAuditChain(db, kestrel)).toMatchObject({ intact: true });
-    const check = await checkAuditTrail(kestrel);
+    expect(await verifyAuditChain(db, kelvard)).toMatchObject({ intact: true });
+    const check = await checkAuditTrail(kelvard);
     expect(check.intact).toBe(false);
     expect(check.brokenAt!.reason).toContain(`anchored at ${head!.seq} entries`);
     expect(check.brokenAt!.reason).toContain(`only ${head!.seq - 2} remain`);
@@ -142,11 +142,11 @@ describe("issued and released reports are append-only at the database (item 8)",
   let reportId = "";
 
   beforeAll(async () => {
-    const [c] = await db.select().from(cases).where(and(eq(cases.organisationId, kestrel), eq(cases.reference, "TN-WL-002")));
-    const [erin] = await db.select().from(users).where(eq(users.email, "erin.hale@kestrel-fieldworks.example"));
+    const [c] = await db.select().from(cases).where(and(eq(cases.organisationId, kelvard), eq(cases.reference, "TN-WL-002")));
+    const [erin] = await db.select().from(users).where(eq(users.email, "erin.hale@kelvard-fenlow.example"));
     const [r] = await db
       .insert(reports)
-      .values({ organisationId: kestrel, caseId: c!.id, version: 90, reportNumber: "KF60-TN-WL-002-R90", status: "issued", requestedBy: erin!.id, bucket: "spanwright-reports", key: "cases/x/R90.pdf", size: 10, sha256: "a".repeat(64), issuedAt: new Date() })
+      .values({ organisationId: kelvard, caseId: c!.id, version: 90, reportNumber: "KF60-TN-WL-002-R90", status: "issued", requestedBy: erin!.id, bucket: "spanwright-reports", key: "cases/x/R90.pdf", size: 10, sha256: "a".repeat(64), issuedAt: new Date() })
       .returning();
     reportId = r!.id;
   });
@@ -173,7 +173,7 @@ describe("issued and released reports are append-only at the database (item 8)",
   it("refuses a report marked issued without its stored object", async () => {
     const [other] = await db.select().from(reports).where(eq(reports.id, reportId));
     await expect(
-      db.insert(reports).values({ organisationId: kestrel, caseId: other!.caseId, version: 91, reportNumber: "KF60-TN-WL-002-R91", status: "issued", requestedBy: other!.requestedBy }),
+      db.insert(reports).values({ organisationId: kelvard, caseId: other!.caseId, version: 91, reportNumber: "KF60-TN-WL-002-R91", status: "issued", requestedBy: other!.requestedBy }),
     ).rejects.toMatchObject(refused(/reports_issued_has_object/));
   });
 
@@ -181,7 +181,7 @@ describe("issued and released reports are append-only at the database (item 8)",
     const [r] = await db.select().from(reports).where(eq(reports.id, reportId));
     const [sig] = (
       await db.execute<{ id: string }>(
-        sql`INSERT INTO signatures (organisation_id, case_id, report_id, signer_id, signer_name, role, meaning, confirmed_by, revision_hash) VALUES (${kestrel}, ${r!.caseId}, ${reportId}, ${r!.requestedBy}, 'Probe', 'quality', 'released', 'password', ${r!.sha256}) RETURNING id`,
+        sql`INSERT INTO signatures (organisation_id, case_id, report_id, signer_id, signer_name, role, meaning, confirmed_by, revision_hash) VALUES (${kelvard}, ${r!.caseId}, ${reportId}, ${r!.requestedBy}, 'Probe', 'quality', 'released', 'password', ${r!.sha256}) RETURNING id`,
       )
     ).rows;
     await expect(db.execute(sql`UPDATE signatures SET signer_name = 'Someone else' WHERE id = ${sig!.id}`)).rejects.toMatchObject(refused(/append-only/));

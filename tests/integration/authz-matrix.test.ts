@@ -123,7 +123,7 @@ function expected(rule: Rule, caller: Caller): Outcome {
   if (caller === "anonymous") return rule.anon;
   if (rule.kind === "own") return "404";
   const roles: readonly Role[] = caller === "outsider" ? outsiderRoles : [caller];
-  // Kestrel's records are invisible to Northmoor's person whatever their role: the same 404 as a missing record.
+  // Kelvard's records are invisible to Northmoor's person whatever their role: the same 404 as a missing record.
   if (caller === "outsider" && rule.record) return "404";
   return roles.some((r) => rule.roles.includes(r)) ? "allowed" : "403";
 }
@@ -264,7 +264,7 @@ describe("ids of another organisation's records inside a body", () => {
     const [membership] = await db.select().from(memberships).where(eq(memberships.userId, jonas!.id));
     const token = await createApiToken({ userId: jonas!.id, organisationId: membership!.organisationId, name: "matrix", scope: "read", actor: { id: jonas!.id, email: jonas!.email } });
 
-    // Kestrel's administrator tries to change the roles of Northmoor's person.
+    // Kelvard's administrator tries to change the roles of Northmoor's person.
     const roles = new FormData();
     roles.set("intent", "set-roles");
     roles.set("userId", jonas!.id);
@@ -275,7 +275,7 @@ describe("ids of another organisation's records inside a body", () => {
     const [after] = await db.select().from(memberships).where(eq(memberships.userId, jonas!.id));
     expect(after!.roles).toEqual(membership!.roles);
 
-    // Kestrel's engineer tries to revoke Northmoor's person's API token.
+    // Kelvard's engineer tries to revoke Northmoor's person's API token.
     const revoke = new FormData();
     revoke.set("intent", "revoke");
     revoke.set("tokenId", token.id);

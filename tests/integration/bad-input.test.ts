@@ -153,7 +153,7 @@ const CORPUS: Bad[] = [
   ["new case: title too long", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-9", title: "t".repeat(161) })), "title"],
   ["programme: code missing", programmesAction, () => post("/programmes", "admin", form({ name: "A name", aircraft: "KF-60" })), "code"],
   ["members: invitation to a malformed address", membersAction, () => post("/admin", "admin", form({ intent: "invite", email: "not-an-address", roles: "engineer" })), "email"],
-  ["members: unknown role", membersAction, () => post("/admin", "admin", form({ intent: "invite", email: "new.person@kestrel-fieldworks.example", roles: "superuser" })), "roles.0"],
+  ["members: unknown role", membersAction, () => post("/admin", "admin", form({ intent: "invite", email: "new.person@kelvard-fenlow.example", roles: "superuser" })), "roles.0"],
   ["tokens: name missing", tokensAction, () => post("/account/tokens", "engineer", form({ intent: "create", name: "   " })), "name"],
   ["sign-in: e-mail of the wrong type", loginAction, () => json("/login", "anonymous", { email: 42, password: ["x"] }), "email"],
   // Review form
@@ -183,7 +183,7 @@ const CORPUS: Bad[] = [
   ["new case: a NUL character in the title", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-NUL-1", title: "Wing\u0000 loads" })), "title"],
   ["new case: a NUL character in the description, as JSON", newCaseAction, () => json("/cases/new", "engineer", { programmeId, reference: "TN-NUL-2", title: "Wing loads", description: "a\u0000b" }), "description"],
   ["review: a NUL character in a comment", reviewAction, () => post(`/cases/${caseId}/review`, "checker", form({ intent: "comment", step: "planform", body: "looks\u0000 fine" })), "body"],
-  ["sign-in: a NUL character in the e-mail", loginAction, () => post("/login", "anonymous", form({ email: "erin.hale@kestrel-fieldworks.example\u0000", password: "x" })), "email"],
+  ["sign-in: a NUL character in the e-mail", loginAction, () => post("/login", "anonymous", form({ email: "erin.hale@kelvard-fenlow.example\u0000", password: "x" })), "email"],
   ["import: a NUL character in a load case id", importAction, () => { const c = example() as unknown as { cases: { id: string }[] }; c.cases[0]!.id = "M1\u0000"; return json("/api/v1/cases/import", "engineer", { programmeId, reference: "TN-NUL-3", case: c }); }, "case.cases.0.id"],
   ["new case: a right-to-left override in the title", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-BIDI-1", title: "Wing loads \u202Efdp.exe" })), "title"],
   ["new case: a line break in the title", newCaseAction, () => post("/cases/new", "engineer", form({ programmeId, reference: "TN-CTRL-1", title: "Wing\nloads" })), "title"],

@@ -13,12 +13,12 @@ beforeAll(async () => {
 
 describe("invitations", () => {
   it("e-mails a one-time link that creates the account with the invited roles", async () => {
-    const email = `new.checker.${Date.now()}@kestrel-fieldworks.example`;
+    const email = `new.checker.${Date.now()}@kelvard-fenlow.example`;
     const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "invite", email, roles: ["checker", "quality"] }) }) });
     expect(res.status).toBe(200);
     const [stored] = await db.select().from(invitations).where(eq(invitations.email, email));
     const mail = (await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: email }))[0];
-    expect(mail?.subject).toContain("Kestrel Fieldworks");
+    expect(mail?.subject).toContain("Kelvard Fenlow Aircraft");
     expect(mail?.html).toContain("<a href=");
     const token = /\/invite\/([a-z2-7]+)/.exec(mail!.text ?? "")![1]!;
     expect(stored!.tokenHash).not.toBe(token);
@@ -44,7 +44,7 @@ describe("invitations", () => {
 
   it("refuses an invitation with no role, naming the field, and writes nothing", async () => {
     const before = (await db.select().from(invitations)).length;
-    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "invite", email: "x@kestrel-fieldworks.example" }) }) });
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("admin"), body: form({ intent: "invite", email: "x@kelvard-fenlow.example" }) }) });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors.roles).toBeDefined();
     expect((await db.select().from(invitations)).length).toBe(before);

@@ -56,7 +56,7 @@ describe("S3 stand-in", () => {
 describe("mail capture", () => {
   it("captures a message sent over SMTP with its subject, text and HTML, newest first", async () => {
     const transport = nodemailer.createTransport({ url: process.env.SMTP_URL, secure: false, ignoreTLS: true } as never);
-    const to = `harness-${randomBytes(4).toString("hex")}@kestrel-fieldworks.example`;
+    const to = `harness-${randomBytes(4).toString("hex")}@kelvard-fenlow.example`;
     await transport.sendMail({ from: "Spanwright <no-reply@spanwright.invalid>", to, subject: "First notice", text: "one", html: "<p>one</p>" });
     await transport.sendMail({
       from: "Spanwright <no-reply@spanwright.invalid>",
@@ -82,8 +82,8 @@ describe("mail capture", () => {
 
 describe("OpenID Connect stand-in", () => {
   const users = [
-    { email: "ada.engineer@kestrel-fieldworks.example", name: "Ada Engineer", password: "ada-demo-password" },
-    { email: "ben.checker@kestrel-fieldworks.example", name: "Ben Checker", password: "ben-demo-password" },
+    { email: "ada.engineer@kelvard-fenlow.example", name: "Ada Engineer", password: "ada-demo-password" },
+    { email: "ben.checker@kelvard-fenlow.example", name: "Ben Checker", password: "ben-demo-password" },
   ];
   const clientId = "spanwright";
   const redirectUri = "http://127.0.0.1:3000/auth/sso/callback";
@@ -165,7 +165,7 @@ describe("OpenID Connect stand-in", () => {
   it("signs in the named person, after their password, through authorize → token with PKCE S256", async () => {
     const verifier = randomBytes(32).toString("base64url");
     const challenge = createHash("sha256").update(verifier).digest("base64url");
-    const back = await authorize("Ben.Checker@kestrel-fieldworks.example", challenge, "nonce-456");
+    const back = await authorize("Ben.Checker@kelvard-fenlow.example", challenge, "nonce-456");
     expect(back.origin + back.pathname).toBe(redirectUri);
     expect(back.searchParams.get("state")).toBe("state-123");
     const code = back.searchParams.get("code");
@@ -188,7 +188,7 @@ describe("OpenID Connect stand-in", () => {
     expect(claims).toMatchObject({
       iss: provider.issuer,
       aud: clientId,
-      email: "ben.checker@kestrel-fieldworks.example",
+      email: "ben.checker@kelvard-fenlow.example",
       email_verified: true,
       name: "Ben Checker",
       nonce: "nonce-456",
@@ -203,7 +203,7 @@ describe("OpenID Connect stand-in", () => {
 
     // The user-info endpoint answers for the same person.
     const info = (await (await fetch(`${provider.issuer}/userinfo`, { headers: { Authorization: `Bearer ${tokens.access_token}` } })).json()) as Record<string, unknown>;
-    expect(info).toMatchObject({ sub: claims.sub, email: "ben.checker@kestrel-fieldworks.example" });
+    expect(info).toMatchObject({ sub: claims.sub, email: "ben.checker@kelvard-fenlow.example" });
 
     // A code is single-use (RFC 6749 §4.1.2).
     expect((await exchange()).status).toBe(400);

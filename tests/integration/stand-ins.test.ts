@@ -11,7 +11,7 @@ import { cookieFor, form, request, run, seed } from "./helpers";
  * needing a fresh proof in signing.test.ts.)
  */
 
-const invited = `mailbox.probe.${Date.now()}@kestrel-fieldworks.example`;
+const invited = `mailbox.probe.${Date.now()}@kelvard-fenlow.example`;
 const cookies: Record<string, string> = {};
 
 beforeAll(async () => {
@@ -46,12 +46,12 @@ describe("the local mailbox", () => {
     expect(box.messages).toEqual([]);
     expect(box.selected).toBeNull();
     const all = (await open("engineer")).body as Box;
-    expect(all.messages.every((m) => m.to.includes("erin.hale@kestrel-fieldworks.example"))).toBe(true);
+    expect(all.messages.every((m) => m.to.includes("erin.hale@kelvard-fenlow.example"))).toBe(true);
   });
 
   it("shows an administrator their organisation's mail, the invitation with its link included", async () => {
     const box = (await open("admin", `?to=${encodeURIComponent(invited)}`)).body as Box;
-    expect(box.messages.map((m) => m.subject)).toEqual([expect.stringContaining("invited to Kestrel Fieldworks")]);
+    expect(box.messages.map((m) => m.subject)).toEqual([expect.stringContaining("invited to Kelvard Fenlow Aircraft")]);
     expect(box.selected!.text).toMatch(/\/invite\/[a-z2-7]+/);
   });
 
@@ -65,7 +65,7 @@ describe("the local mailbox", () => {
     resetEnvCache();
     expect((await open("admin")).status).toBe(404);
     process.env.MAIL_CAPTURE_DIR = saved.dir;
-    process.env.APP_ORIGIN = "https://spanwright.kestrel-fieldworks.example";
+    process.env.APP_ORIGIN = "https://spanwright.kelvard-fenlow.example";
     resetEnvCache();
     expect((await open("admin")).status).toBe(404);
   });
