@@ -74,8 +74,12 @@ export async function createReportRow(input: { caseId: string; actor: Actor }, d
   });
 }
 
-async function setProgress(reportId: string, progress: number, note: string) {
-  await db.update(reports).set({ progress, progressNote: note }).where(eq(reports.id, reportId));
+/**
+ * Records the job's progress for the reports page, only while the job is generating: the renderer's
+ * progress writes are not awaited, and a late one must not overwrite what a failed attempt recorded.
+ */
+export async function setProgress(reportId: string, progress: number, note: string) {
+  await db.update(reports).set({ progress, progressNote: note }).where(and(eq(reports.id, reportId), eq(reports.status, "generating")));
 }
 
 /**

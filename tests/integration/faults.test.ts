@@ -20,7 +20,7 @@ import { startPostgres, type RunningPostgres } from "~/server/dev-services/postg
 import { action as reviewAction } from "~/routes/cases/review";
 import { loader as casesLoader } from "~/routes/cases/list";
 import { loader as apiCasesLoader } from "~/routes/api/v1/cases";
-import { createReportRow, generateReport } from "~/services/reports.server";
+import { createReportRow, generateReport, setProgress } from "~/services/reports.server";
 import { listKeys, resetS3Client } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
 import { freePort } from "../setup/global-setup";
@@ -136,6 +136,16 @@ describe("a report through S3 and database faults", () => {
     expect(row!.progressNote).toMatch(/failed; retrying/);
     expect(await issueAudits(report.id)).toHaveLength(0);
   }, 120_000);
+
+  it("keeps a failed attempt's note when a progress write of that attempt arrives late", async () => {
+    // The renderer's progress writes are not awaited: one can reach the database after the attempt
+    // has failed and the row went back to "queued". It must not overwrite "failed; retrying".
+    const [before] = await db.select().from(reports).where(eq(reports.id, report.id));
+    expect(before!.status).toBe("queued");
+    await setProgress(report.id, 80, "Attached documents");
+    const [after] = await db.select().from(reports).where(eq(reports.id, report.id));
+    expect(after).toMatchObject({ status: "queued", progress: before!.progress, progressNote: before!.progressNote });
+  });
 
   it("leaves no half-issued report when the database restarts while the issue is being recorded", async () => {
     // Hold the case row so the job stops inside its final transaction: PDF already in S3, the
