@@ -38,6 +38,8 @@ export default [
   route("dev/mailbox", "routes/dev/mailbox.tsx"),
   route("api/planform-preview", "routes/api/planform-preview.ts"),
   route("api/cases/:caseId/distribution", "routes/api/case-distribution.ts"),
+  route("api/cases/:caseId/rule-sensitivity", "routes/api/case-rule-sensitivity.ts"),
+  route("api/cases/:caseId/spanwise-methods", "routes/api/case-spanwise-methods.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

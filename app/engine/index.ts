@@ -28,3 +28,4 @@ export * from "./load-case";
 export * from "./envelope";
 export * from "./certification";
 export * from "./schrenk";
+export * from "./schrenk-loads";

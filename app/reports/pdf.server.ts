@@ -2,6 +2,7 @@ import PDFDocument from "pdfkit";
 import { criticalCase } from "~/domain/results";
 import type { UnitSystem } from "~/domain/units";
 import { basisAndScope } from "./pdf/basis.server";
+import { ruleSensitivity, spanwiseMethods } from "./pdf/comparisons.server";
 import { cover } from "./pdf/cover.server";
 import { documents } from "./pdf/documents.server";
 import { flagsAndCautions } from "./pdf/flags.server";
@@ -24,6 +25,8 @@ const SECTIONS: [pct: number, note: string, write: (section: Section) => void][]
   [45, "V–n diagram", resultsVn],
   [60, "Distributions of the critical case", resultsDistribution],
   [75, "Shear, bending and torsion", resultsLoads],
+  [80, "Rule sensitivity", ruleSensitivity],
+  [84, "Spanwise methods compared", spanwiseMethods],
   [88, "Flags, cautions and signatures", flagsAndCautions],
   [89, "Attached documents", documents],
   [90, "Flags, cautions and signatures", signatures],

@@ -2,6 +2,7 @@ import type { BasisData, DistributionData, EnvelopeData, LoadsData, PlanformData
 import type { DistributionSeries } from "~/charts/distribution";
 import type { CompressibilityRule, VnPoint, WingGeometry } from "~/engine";
 import type { CaseFileInput, CaseResult } from "~/exchange";
+import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
 
 /** One signature as it appears on the report's signature page and in the API. */
 export interface SignatureLine {
@@ -48,6 +49,13 @@ export interface ReportSnapshot {
    * documents are serialised from `exchange` when they are rendered.
    */
   documents?: { case: string; sections?: string };
+  /**
+   * Beyond the results, computed from the exchange document when the report is issued and frozen
+   * with it (absent from reports issued before): the critical cases' root loads under each of the
+   * three compressibility rules, and the critical cases by each spanwise method where it is valid.
+   */
+  sensitivity?: RuleSensitivity;
+  spanwise?: SpanwiseComparison[];
   /** Flagged cases with their dispositions. */
   flags: { id: string; reasons: string[]; action: string; comment: string }[];
   signatures: SignatureLine[];

@@ -12,6 +12,8 @@ import { getCaseSteps } from "./case-steps.server";
 import { distributionView, flaggedCases } from "./distribution.server";
 import { vnSets } from "./envelope.server";
 import { liveSignatures } from "./review.server";
+import { ruleSensitivity, spanwiseComparison } from "./comparisons.server";
+import { rootCriticalCases } from "~/domain/comparisons";
 
 /*
  * What a report is made of: the snapshot frozen when it is issued, the figures drawn from it, the
@@ -61,6 +63,8 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
     exchange,
     result,
     documents: { case: exchangeDocumentText(exchange), ...(sections ? { sections: exchangeDocumentText(sections) } : {}) },
+    sensitivity: ruleSensitivity(exchange, result, sections),
+    spanwise: rootCriticalCases(result.envelope[0]).map((c) => spanwiseComparison(exchange, c.id, sections)),
     flags,
     signatures: await signatureLines(report.caseId, database),
   };

@@ -7,8 +7,14 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, reports, users } from "~/db/schema";
+import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
 import { STEPS } from "~/domain/steps";
-import { parseCase, parseSections } from "~/exchange";
+import { RULE_LABELS } from "~/domain/step-data";
+import { formatNumber, fromSI } from "~/domain/units";
+import { parseCase, parseSections, type CaseFileInput, type CaseResult } from "~/exchange";
+import { spanwiseComparison } from "~/services/comparisons.server";
+import { loader as ruleSensitivityLoader } from "~/routes/api/case-rule-sensitivity";
+import { loader as spanwiseMethodsLoader } from "~/routes/api/case-spanwise-methods";
 import { loader as exportLoader } from "~/routes/api/v1/case-export";
 import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
 import { action as reviewAction } from "~/routes/cases/review";
@@ -89,6 +95,108 @@ describe("the input snapshot travels with the report", () => {
     const stem = first.row.reportNumber.replace(/[^A-Za-z0-9._-]+/g, "_");
     const result = JSON.parse(fs.readFileSync(path.join(first.dir, "attached", `${stem}.result.json`), "utf8"));
     expect(result).toEqual((first.row.snapshot as { result: unknown }).result);
+  });
+});
+
+type Snapshot = { exchange: CaseFileInput; result: CaseResult; sensitivity: RuleSensitivity; spanwise: SpanwiseComparison[] };
+const json = async (loader: (args: never) => unknown, path: string) => {
+  const res = (await loader({ request: request(path, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+  expect(res.status).toBe(200);
+  return res.json();
+};
+const kNm = (si: number) => formatNumber(fromSI("SI", "moment", si), 5);
+
+/**
+ * Checks that the cases named are the root-critical ones, found here from every case's root loads:
+ * each extreme (largest and smallest root shear, bending and torsion) is reached by one of them
+ * (cases tie, e.g. two trimmed cases at one nz·W carry one root shear), and each of them reaches one.
+ */
+function expectRootCritical(named: string[], result: CaseResult) {
+  const root = (id: string) => result.cases.find((c) => c.id === id)!.root;
+  const reaches = new Set<string>();
+  for (const q of ["shear", "bending", "torsion"] as const) {
+    const values = result.cases.map((c) => c.root[q]);
+    for (const extreme of [Math.max(...values), Math.min(...values)]) {
+      const hits = named.filter((id) => Math.abs(root(id)[q] - extreme) <= 1e-9 * Math.abs(extreme));
+      expect(hits.length, `${q} ${extreme}`).toBeGreaterThan(0);
+      hits.forEach((id) => reaches.add(id));
+    }
+  }
+  expect([...reaches].sort()).toEqual([...named].sort());
+}
+
+describe("rule sensitivity", () => {
+  it("gives the critical cases' root loads under each rule with the spread, on the distribution page", async () => {
+    const body = (await json(ruleSensitivityLoader, `/api/cases/${caseId}/rule-sensitivity`)) as { units: string; sensitivity: RuleSensitivity };
+    const snap = first.row.snapshot as unknown as Snapshot;
+    const s = body.sensitivity;
+    expectRootCritical(s.cases.map((c) => c.id), snap.result);
+    for (const c of s.cases) {
+      expect(c.rules.map((r) => r.rule)).toEqual(["prandtl-glauert", "karman-tsien", "laitone"]);
+      for (const q of ["shear", "bending", "torsion"] as const) {
+        const values = c.rules.map((r) => r.root[q]);
+        expect(c.spread[q]).toBeCloseTo(Math.max(...values) - Math.min(...values), 9);
+      }
+      // Equilibrium: a trimmed case's wing carries nz·W whatever the rule, so its root shear does not move (statics, common practice, no source).
+      const own = snap.result.cases.find((k) => k.id === c.id)!;
+      if (snap.exchange.cases.find((k) => k.id === c.id)!.nz !== undefined) expect(c.spread.shear / Math.abs(own.root.shear)).toBeLessThan(1e-9);
+    }
+    // The rules do change the loads somewhere: bending or torsion spreads are not all nil.
+    expect(s.cases.some((c) => c.relative.torsion > 1e-4)).toBe(true);
+  });
+
+  it("prints the same table in the report, frozen at issue", () => {
+    const snap = first.row.snapshot as unknown as Snapshot;
+    expect(first.text).toContain("Sensitivity to the compressibility rule");
+    const lines = first.text.split("\n");
+    for (const c of snap.sensitivity.cases) {
+      expect(first.text).toContain(c.id);
+      for (const r of c.rules) {
+        // The rule's row carries its root bending and torsion as the report prints loads (the rule's
+        // name may wrap in its cell: its first word is on the row).
+        const row = lines.find((l) => l.includes(RULE_LABELS[r.rule].split(" ")[0]!) && l.includes(kNm(r.root.bending)) && l.includes(kNm(r.root.torsion)));
+        expect(row, `${c.id} ${r.rule}`).toBeDefined();
+      }
+    }
+  });
+});
+
+describe("spanwise methods overlaid", () => {
+  it("shows the vortex lattice, the lifting line and Schrenk for the demo's unswept wing, Schrenk carrying the same lift", async () => {
+    const snap = first.row.snapshot as unknown as Snapshot;
+    const trimmed = snap.exchange.cases.find((k) => k.nz !== undefined)!;
+    const body = (await json(spanwiseMethodsLoader, `/api/cases/${caseId}/spanwise-methods?case=${encodeURIComponent(trimmed.id)}`)) as { comparison: SpanwiseComparison };
+    const ways = body.comparison.ways;
+    expect(ways.map((w) => `${w.way}:${w.valid}`)).toEqual(["vortex-lattice:true", "lifting-line:true", "schrenk:true"]);
+    const [vlm, ll, schrenk] = ways as Extract<SpanwiseComparison["ways"][number], { valid: true }>[];
+    // A trimmed case: every method carries the same wing lift, so the same root shear (statics).
+    expect(ll!.root.shear).toBeCloseTo(vlm!.root.shear, 3);
+    expect(schrenk!.root.shear).toBeCloseTo(vlm!.root.shear, 3);
+    // The vortex lattice here is the case's own method: its root loads are the case's results.
+    const own = snap.result.cases.find((k) => k.id === trimmed.id);
+    if (own) expect(vlm!.root.bending).toBeCloseTo(own.root.bending, 6);
+  });
+
+  it("leaves the lifting line and Schrenk out of a wing swept 25°, saying why", async () => {
+    const swept = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-swept-variant.json", "utf8")) as CaseFileInput;
+    const c = spanwiseComparison(swept, swept.cases[0]!.id);
+    const ll = c.ways.find((w) => w.way === "lifting-line")!;
+    const schrenk = c.ways.find((w) => w.way === "schrenk")!;
+    expect(ll.valid).toBe(false);
+    expect(!ll.valid && ll.reason).toMatch(/limited to 15° of quarter-chord sweep/);
+    expect(!schrenk.valid && schrenk.reason).toMatch(/unswept wings.*25\.0°/);
+    expect(c.ways.find((w) => w.way === "vortex-lattice")!.valid).toBe(true);
+  });
+
+  it("prints the methods, their root loads and differences in the report", () => {
+    const snap = first.row.snapshot as unknown as Snapshot;
+    expect(first.text).toContain("Spanwise methods compared");
+    expectRootCritical(snap.spanwise.map((c) => c.caseId), snap.result);
+    for (const c of snap.spanwise) {
+      for (const w of c.ways) if (w.valid) expect(first.text).toContain(kNm(w.root.bending));
+    }
+    expect(first.text).toMatch(/Lifting line/);
+    expect(first.text).toMatch(/Schrenk approximation/);
   });
 });
 

@@ -1,10 +1,13 @@
-import { Form, Link } from "react-router";
+import { useEffect } from "react";
+import { Form, href, Link, useFetcher } from "react-router";
+import { spanwiseWaysOption } from "~/charts/comparisons";
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
 import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
 import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
-import { formatNumber } from "~/domain/units";
+import { formatChange, formatPercent, SPANWISE_WAY_LABELS, type RuleSensitivity, type SpanwiseComparison } from "~/domain/comparisons";
+import { formatNumber, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseFlag, DistributionView } from "~/services/distribution.server";
 import { methodUsedLines } from "~/domain/method-statement";
 import type { ResultMethod } from "~/exchange";
@@ -167,5 +170,182 @@ export function DispositionsPanel({ flags, dispositions, revision, canEdit, busy
         </Form>
       )}
     </Panel>
+  );
+}
+
+type Refusal = { error: string; message: string };
+const refusalOf = (d: unknown): string | null => (d && typeof d === "object" && "error" in d ? (d as Refusal).message : null);
+
+/** A root load in the case's display units, without the symbol. */
+const root = (units: UnitSystem, q: "shear" | "bending" | "torsion", si: number) => formatNumber(fromSI(units, q === "shear" ? "force" : "moment", si), 5);
+
+/**
+ * The root loads of the critical cases (those giving the six root extremes of the envelope) under
+ * each compressibility rule side by side, with the spread between the rules. Loaded after the page.
+ */
+export function RuleSensitivityPanel({ caseId, revision }: { caseId: string; revision: number }) {
+  const data = useFetcher<{ units: UnitSystem; sensitivity: RuleSensitivity } | Refusal>();
+  useEffect(() => {
+    data.load(href("/api/cases/:caseId/rule-sensitivity", { caseId }));
+  }, [caseId, revision]);
+  const failed = refusalOf(data.data);
+  const loaded = data.data && "sensitivity" in data.data ? data.data : null;
+  return (
+    <Panel title="Sensitivity to the compressibility rule" className="mt-5">
+      {failed ? (
+        <p className="text-sm text-danger">{failed}</p>
+      ) : !loaded ? (
+        <p className="text-sm text-ink-muted" role="status">
+          Solving the critical cases under each rule…
+        </p>
+      ) : (
+        <RuleSensitivityTable units={loaded.units} s={loaded.sensitivity} />
+      )}
+    </Panel>
+  );
+}
+
+function RuleSensitivityTable({ units, s }: { units: UnitSystem; s: RuleSensitivity }) {
+  const f = unitSymbol(units, "force");
+  const m = unitSymbol(units, "moment");
+  const spread = (c: RuleSensitivity["cases"][number], q: "shear" | "bending" | "torsion") => {
+    const display = (si: number) => fromSI(units, q === "shear" ? "force" : "moment", si);
+    const change = formatChange(display(c.spread[q]), Math.max(...c.rules.map((r) => Math.abs(display(r.root[q])))));
+    return `${change.replace("+", "")} (${formatPercent(c.relative[q])})`;
+  };
+  return (
+    <>
+      <div className="overflow-x-auto">
+        <table className="w-full text-sm tabular" aria-label="Root loads of the critical cases under each compressibility rule">
+          <thead className="text-xs text-ink-muted">
+            <tr>
+              <th className="py-1 pr-3 text-left">Case</th>
+              <th className="py-1 pr-3 text-left">Rule</th>
+              <th className="py-1 pl-3 text-right">Root shear [{f}]</th>
+              <th className="py-1 pl-3 text-right">Root bending [{m}]</th>
+              <th className="py-1 pl-3 text-right">Root torsion [{m}]</th>
+              <th className="py-1 pl-3 text-right">Critical Mach</th>
+            </tr>
+          </thead>
+          {s.cases.map((c) => (
+            <tbody key={c.id} className="border-t-2 border-line-strong">
+              {c.rules.map((r, i) => (
+                <tr key={r.rule} className={`border-t border-line ${r.rule === s.chosen ? "font-semibold" : ""}`}>
+                  <td className="py-1 pr-3 align-top">{i === 0 ? <><span className="font-semibold">{c.id}</span> <span className="block text-xs font-normal text-ink-muted">{c.gives.join(", ")} · Mach {formatNumber(c.mach)}</span></> : null}</td>
+                  <td className="py-1 pr-3">
+                    {RULE_LABELS[r.rule]}
+                    {r.rule === s.chosen ? " (this case's rule)" : ""}
+                  </td>
+                  <td className="py-1 pl-3 text-right">{root(units, "shear", r.root.shear)}</td>
+                  <td className="py-1 pl-3 text-right">{root(units, "bending", r.root.bending)}</td>
+                  <td className="py-1 pl-3 text-right">{root(units, "torsion", r.root.torsion)}</td>
+                  <td className={`py-1 pl-3 text-right ${r.regime === "supercritical" ? "text-danger" : ""}`}>
+                    {formatNumber(r.machCritical)}
+                    {r.regime === "supercritical" ? " ⚠ below the case Mach" : ""}
+                  </td>
+                </tr>
+              ))}
+              <tr className="border-t border-line bg-canvas/60 text-ink-muted">
+                <td className="py-1 pr-3" />
+                <td className="py-1 pr-3">Spread (largest − smallest)</td>
+                <td className="py-1 pl-3 text-right">{spread(c, "shear")}</td>
+                <td className="py-1 pl-3 text-right">{spread(c, "bending")}</td>
+                <td className="py-1 pl-3 text-right">{spread(c, "torsion")}</td>
+                <td className="py-1 pl-3" />
+              </tr>
+            </tbody>
+          ))}
+        </table>
+      </div>
+      <p className="mt-2 text-xs text-ink-muted">{s.basis} The spread in per cent is of the largest magnitude of the three.</p>
+    </>
+  );
+}
+
+/**
+ * The case shown, by the vortex lattice, the lifting line and Schrenk's approximation where each is
+ * valid: running lift overlaid, root loads with their difference from the case's own method, and
+ * why a method is absent.
+ */
+export function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: string; loadCase: string; revision: number }) {
+  const data = useFetcher<{ units: UnitSystem; comparison: SpanwiseComparison } | Refusal>();
+  useEffect(() => {
+    data.load(`${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`);
+  }, [caseId, loadCase, revision]);
+  const failed = refusalOf(data.data);
+  const loaded = data.data && "comparison" in data.data && data.data.comparison.caseId === loadCase ? data.data : null;
+  return (
+    <Panel title={`Spanwise methods compared: case ${loadCase}`} className="mt-5">
+      {failed ? (
+        <p className="text-sm text-danger">{failed}</p>
+      ) : !loaded ? (
+        <p className="text-sm text-ink-muted" role="status">
+          Solving case {loadCase} by each spanwise method…
+        </p>
+      ) : (
+        <SpanwiseMethods units={loaded.units} c={loaded.comparison} />
+      )}
+    </Panel>
+  );
+}
+
+function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseComparison }) {
+  const base = c.ways.find((w) => w.way === c.chosen);
+  const delta = (q: "shear" | "bending" | "torsion", v: number) => {
+    if (!base?.valid) return "—";
+    const display = (si: number) => fromSI(units, q === "shear" ? "force" : "moment", si);
+    const d = v - base.root[q];
+    const rel = base.root[q] !== 0 ? ` (${formatPercent(d / Math.abs(base.root[q]))})` : "";
+    return `${formatChange(display(d), display(base.root[q]))}${rel}`;
+  };
+  const f = unitSymbol(units, "force");
+  const m = unitSymbol(units, "moment");
+  const lift = { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) };
+  return (
+    <div className="grid gap-4 xl:grid-cols-2">
+      <Chart option={spanwiseWaysOption(c, lift) as never} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
+      <div className="overflow-x-auto">
+        <table className="w-full text-sm tabular" aria-label="Root loads by spanwise method">
+          <thead className="text-xs text-ink-muted">
+            <tr>
+              <th className="py-1 pr-3 text-left">Method</th>
+              <th className="py-1 pl-3 text-right">CL</th>
+              <th className="py-1 pl-3 text-right">Root shear [{f}]</th>
+              <th className="py-1 pl-3 text-right">Root bending [{m}]</th>
+              <th className="py-1 pl-3 text-right">Root torsion [{m}]</th>
+            </tr>
+          </thead>
+          <tbody>
+            {c.ways.map((w) =>
+              w.valid ? (
+                <tr key={w.way} className={`border-t border-line align-top ${w.way === c.chosen ? "font-semibold" : ""}`}>
+                  <td className="py-1 pr-3">
+                    {SPANWISE_WAY_LABELS[w.way]}
+                    {w.way === c.chosen ? " (this case's method)" : ""}
+                  </td>
+                  <td className="py-1 pl-3 text-right">{formatNumber(w.CL)}</td>
+                  {(["shear", "bending", "torsion"] as const).map((q) => (
+                    <td key={q} className="py-1 pl-3 text-right">
+                      {root(units, q, w.root[q])}
+                      {w.way !== c.chosen ? <span className="block text-xs text-ink-muted">{delta(q, w.root[q])}</span> : null}
+                    </td>
+                  ))}
+                </tr>
+              ) : (
+                <tr key={w.way} className="border-t border-line align-top">
+                  <td className="py-1 pr-3">{SPANWISE_WAY_LABELS[w.way]}</td>
+                  <td colSpan={4} className="py-1 pl-3 text-warn">
+                    ⚠ Not shown: {w.reason}
+                  </td>
+                </tr>
+              ),
+            )}
+          </tbody>
+        </table>
+        <p className="mt-2 text-xs text-ink-muted">
+          Differences are from the case's own method. Both solvers run at the case's Mach number under its rule; a case given by α carries each solver's own lift, Schrenk's approximation the lift of the case's method, its basic loading that of the incompressible sections.
+        </p>
+      </div>
+    </div>
   );
 }

@@ -10,7 +10,7 @@ import { distributionStep } from "~/services/distribution.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
-import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel } from "./distribution.panels";
+import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -41,7 +41,7 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
   const errors = Object.entries(actionData && !actionData.ok ? actionData.fieldErrors : {});
   return (
     <>
-      <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station." />
+      <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station; the case by each spanwise method, and the critical cases' root loads under each rule." />
       <ResultsCaution />
       {loaderData.problem ? (
         <EmptyState title="Nothing to show yet">{loaderData.problem}</EmptyState>
@@ -59,6 +59,8 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
           {loaderData.method ? <MethodUsedPanel method={loaderData.method} machCriticalSwept={view.machCriticalSwept} /> : null}
           <CasePicker view={view} flags={flags} computing={busy || picked.state !== "idle"} show={show} />
           <DistributionCharts view={view} />
+          <SpanwiseMethodsPanel caseId={loaderData.caseId} loadCase={view.caseId} revision={loaderData.revision} />
+          <RuleSensitivityPanel caseId={loaderData.caseId} revision={loaderData.revision} />
           <DispositionsPanel flags={flags} dispositions={loaderData.dispositions} revision={loaderData.revision} canEdit={loaderData.canEdit} busy={busy} show={show} />
         </>
       ) : null}

@@ -1,0 +1,17 @@
+import { requireCase } from "~/auth/case-access.server";
+import { DomainError } from "~/domain/errors";
+import { caseSpanwiseComparison } from "~/services/comparisons.server";
+import { apiRefusal } from "~/utils/http.server";
+import type { Route } from "./+types/case-spanwise-methods";
+
+/** One load case (`?case=`) by the vortex lattice, the lifting line and Schrenk's approximation, as JSON for the distribution page. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { case: c } = await requireCase(request, params.caseId, "case:read");
+  try {
+    const loadCase = new URL(request.url).searchParams.get("case") ?? "";
+    return Response.json(await caseSpanwiseComparison({ caseId: c.id, title: c.title, loadCase }), { headers: { "Cache-Control": "no-store" } });
+  } catch (error) {
+    if (error instanceof DomainError) return apiRefusal(error);
+    throw error;
+  }
+}

@@ -1,0 +1,188 @@
+import { LRUCache } from "lru-cache";
+import { canonicalJson, sha256Hex } from "~/db/audit.server";
+import {
+  rootCriticalCases,
+  ROOT_LOADS,
+  spreadOf,
+  type RootLoads,
+  type RuleSensitivity,
+  type SpanwiseComparison,
+  type SpanwiseWayResult,
+} from "~/domain/comparisons";
+import { DomainError } from "~/domain/errors";
+import { RULE_LABELS } from "~/domain/step-data";
+import type { UnitSystem } from "~/domain/units";
+import {
+  evaluateCase,
+  isEngineError,
+  LIFTING_LINE_MAX_SWEEP_DEG,
+  schrenkCaseLoads,
+  solveMach,
+  wingGeometry,
+  type CompressibilityRule,
+  type LoadCase,
+  type MachSolution,
+  type SpanwiseMethod,
+  type WingModel,
+} from "~/engine";
+import { withSections, wingModelOf, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
+import { caseUnits, getCaseSteps } from "./case-steps.server";
+
+/*
+ * Comparisons beyond the case's own results, for the distribution page and the report: the root
+ * loads of the critical cases under each of the three compressibility rules, and one case by each
+ * spanwise method where it is valid. Both are computed from the exchange document alone.
+ */
+
+const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laitone"];
+
+function loadCaseOf(file: CaseFile, id: string): LoadCase {
+  const c = file.cases.find((k) => k.id === id);
+  if (!c) throw new DomainError(`No load case "${id}" in this case.`, { field: "case", kind: "not-found" });
+  const massCase = c.massCase !== undefined ? file.massCases?.find((m) => m.id === c.massCase) : undefined;
+  return c.alpha !== undefined
+    ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha, massCase }
+    : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz!, tailLoadN: c.tailLoad, massCase };
+}
+
+/** Engine refusals become the product's one error, naming the field. */
+function engine<T>(fn: () => T): T {
+  try {
+    return fn();
+  } catch (error) {
+    if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
+    throw error;
+  }
+}
+
+/**
+ * The root shear, bending and torsion of the critical cases (those giving the envelope's six root
+ * extremes) under each of the three compressibility rules, with the spread. Direct solves at each
+ * case's Mach number with the case's own spanwise method, strips and masses; where the case's
+ * results were solved directly too, its own rule's values are those results exactly.
+ */
+export function ruleSensitivity(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): RuleSensitivity {
+  const file = parseOrThrow(input);
+  const model = withSections(wingModelOf(file), sections);
+  const chosen = file.method.compressibility;
+  const direct = !result.method?.machGrid;
+  const solutions = new Map<string, MachSolution>();
+  const solution = (rule: CompressibilityRule, mach: number) => {
+    const key = `${rule}:${mach}`;
+    let sol = solutions.get(key);
+    if (!sol) {
+      sol = engine(() => solveMach(model, mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips }));
+      solutions.set(key, sol);
+    }
+    return sol;
+  };
+  const cases = rootCriticalCases(result.envelope[0]).map((critical) => {
+    const lc = loadCaseOf(file, critical.id);
+    const own = result.cases.find((c) => c.id === critical.id)!;
+    const rules = RULES.map((rule) => {
+      if (rule === chosen && direct) return { rule, root: { ...own.root }, machCritical: own.machCritical, regime: own.regime };
+      const r = engine(() => evaluateCase(solution(rule, lc.mach), lc));
+      return { rule, root: { ...r.root }, machCritical: r.machCritical, regime: r.regime };
+    });
+    const stats = Object.fromEntries(ROOT_LOADS.map((q) => [q, spreadOf(rules.map((r) => r.root[q]))])) as Record<keyof RootLoads, { spread: number; relative: number }>;
+    return {
+      ...critical,
+      mach: lc.mach,
+      altitude: lc.altitude,
+      rules,
+      spread: { shear: stats.shear.spread, bending: stats.bending.spread, torsion: stats.torsion.spread },
+      relative: { shear: stats.shear.relative, bending: stats.bending.relative, torsion: stats.torsion.relative },
+    };
+  });
+  const method = file.method.spanwise === "vortex-lattice" ? `the vortex lattice${file.method.strips ? ` (${file.method.strips} strips)` : ""}` : "the lifting line";
+  return {
+    chosen,
+    cases,
+    basis: direct
+      ? `Each case solved at its own Mach number by ${method} under each rule, with the case's masses; the ${RULE_LABELS[chosen]} row is the case's own result.`
+      : `Each case solved directly at its own Mach number by ${method} under each rule, with the case's masses; the case's own results come from a Mach grid (within its stated error), so its ${RULE_LABELS[chosen]} row may differ from them in the last digits.`,
+  };
+}
+
+/** The largest quarter-chord sweep of the planform's panels, deg. */
+function maxSweep(model: WingModel): number {
+  return Math.max(...wingGeometry(model.stations).panels.map((p) => Math.abs(p.sweepQuarterChordDeg)));
+}
+
+/**
+ * One case by the vortex lattice, the lifting line and Schrenk's approximation, each where it is
+ * valid: the lifting line is refused by the engine beyond its sweep limit (the reason is kept);
+ * Schrenk's approximation, a planform rule for unswept wings, is shown up to the same sweep. The
+ * solvers run at the case's Mach number under the case's rule (a case given by α carries each
+ * solver's own lift); Schrenk carries the lift of the case's own method.
+ */
+export function spanwiseComparison(input: CaseFileInput, caseId: string, sections?: SectionsFile): SpanwiseComparison {
+  const file = parseOrThrow(input);
+  const model = withSections(wingModelOf(file), sections);
+  const lc = loadCaseOf(file, caseId);
+  const chosen = file.method.spanwise;
+  const rule = file.method.compressibility;
+  const solved = new Map<SpanwiseMethod, { sol: MachSolution; loads: ReturnType<typeof evaluateCase> }>();
+  const solver = (way: SpanwiseMethod): SpanwiseWayResult => {
+    try {
+      const sol = solveMach(model, lc.mach, { spanwise: way, rule, stations: file.method.stations, resolution: way === "vortex-lattice" ? file.method.strips : undefined });
+      const loads = evaluateCase(sol, lc);
+      solved.set(way, { sol, loads });
+      return { way, valid: true, CL: loads.CL, y: [...loads.y], lift: [...loads.lift], root: { ...loads.root } };
+    } catch (error) {
+      // The lifting line's sweep limit, in the engine's own words; any other refusal is the case's own fault.
+      if (isEngineError(error) && way !== chosen) return { way, valid: false, reason: error.message };
+      if (isEngineError(error)) throw new DomainError(error.message, { field: error.field, kind: "unprocessable" });
+      throw error;
+    }
+  };
+  const ways: SpanwiseWayResult[] = [solver("vortex-lattice"), solver("lifting-line")];
+  const sweep = maxSweep(model);
+  const base = solved.get(chosen)!;
+  ways.push(
+    sweep > LIFTING_LINE_MAX_SWEEP_DEG
+      ? { way: "schrenk", valid: false, reason: `Schrenk's approximation is a planform rule for unswept wings; this planform's quarter-chord sweep reaches ${sweep.toFixed(1)}° (shown up to ${LIFTING_LINE_MAX_SWEEP_DEG}°, the lifting line's limit)` }
+      : (() => {
+          const r = schrenkCaseLoads(model, base.sol, base.loads);
+          return { way: "schrenk" as const, valid: true as const, CL: base.loads.CL, y: r.y, lift: r.lift, root: r.root };
+        })(),
+  );
+  return { caseId: lc.id, mach: lc.mach, altitude: lc.altitude, chosen, ways };
+}
+
+// Rule sensitivity of an input, by the SHA-256 of the document (and its sections): a function of
+// exactly those, so an entry is never stale; the bound keeps the process's memory flat.
+const sensitivityCache = new LRUCache<string, RuleSensitivity>({ max: 64 });
+
+/** ruleSensitivity, remembered per input for the pages (the report computes its own when it is issued). */
+export function ruleSensitivityCached(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): RuleSensitivity {
+  const key = sha256Hex(canonicalJson({ input, sections: sections ?? null, engine: result.engine }));
+  const hit = sensitivityCache.get(key);
+  if (hit) return hit;
+  const out = ruleSensitivity(input, result, sections);
+  sensitivityCache.set(key, out);
+  return out;
+}
+
+/**
+ * The rule sensitivity the distribution page shows: of the critical cases among those the envelope
+ * step includes (dispositions not yet applied, as the page examines them).
+ * @throws DomainError when a step is missing or the engine refuses the case
+ */
+export async function caseRuleSensitivity(input: { caseId: string; title: string; actorId: string | null }): Promise<{ units: UnitSystem; sensitivity: RuleSensitivity }> {
+  const steps = await getCaseSteps(input.caseId);
+  const file = buildCaseFile(input.title, caseInputs(steps), "envelope");
+  const { result } = await resultsFor(input.caseId, file, input.actorId);
+  return { units: caseUnits(steps), sensitivity: ruleSensitivityCached(file, result) };
+}
+
+/**
+ * One load case of the case by each spanwise method, for the distribution page.
+ * @throws DomainError (not-found) for a load case the envelope step does not include
+ */
+export async function caseSpanwiseComparison(input: { caseId: string; title: string; loadCase: string }): Promise<{ units: UnitSystem; comparison: SpanwiseComparison }> {
+  const steps = await getCaseSteps(input.caseId);
+  const file = buildCaseFile(input.title, caseInputs(steps), "envelope");
+  return { units: caseUnits(steps), comparison: spanwiseComparison(file, input.loadCase) };
+}
