@@ -135,6 +135,6 @@ async function seedDemoReport(db: Db, userIds: Record<string, string>): Promise<
   await approveCaseForIssue({ caseId: demo.id, current: checker, role: "checker", confirmedBy: "password" });
   const report = await createReportRow({ caseId: demo.id, actor: engineer.user });
   await generateReport(report.id);
-  await releaseReport({ reportId: report.id, organisationId: demo.organisationId, current: quality, role: "quality", confirmedBy: "password" });
+  await releaseReport({ reportId: report.id, caseId: demo.id, organisationId: demo.organisationId, current: quality, role: "quality", confirmedBy: "password" });
   return 1;
 }

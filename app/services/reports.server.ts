@@ -12,7 +12,7 @@ import { getCaseSteps } from "./case-steps.server";
 import { anchorChain } from "./audit-trail.server";
 import { sendMail } from "./mail.server";
 import { buildSnapshot, renderReport, versionChanges } from "./report-contents.server";
-import { liveSignatures } from "./review.server";
+import { liveSignatures, revisionAuthors } from "./review.server";
 import { deleteObject, putObject, getObjectBytes } from "./storage.server";
 import type { Actor, CurrentUser } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
@@ -161,16 +161,41 @@ async function removeUnrecorded(bucket: string, key: string): Promise<void> {
   }
 }
 
-/** Quality's release: a signature with meaning "released" on exactly the issued PDF bytes. */
-export async function releaseReport(input: { reportId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }, database: Db | Tx = db) {
+/** An issued report of this case (another case's report, even of the same organisation, is not found here). */
+async function issuedReport(database: Db | Tx, input: { reportId: string; caseId: string; organisationId: string }, lock = false): Promise<Report & { sha256: string }> {
+  const query = database
+    .select()
+    .from(reports)
+    .where(and(eq(reports.id, input.reportId), eq(reports.caseId, input.caseId), eq(reports.organisationId, input.organisationId)));
+  const [r] = lock ? await query.for("update") : await query;
+  if (!r) throw new DomainError("Report not found in this case.", { field: "reportId", kind: "not-found" });
+  if (r.status !== "issued" || !r.sha256) throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, { field: "status", kind: "conflict" });
+  return { ...r, sha256: r.sha256 };
+}
+
+/** What a release signature would bind if made now: the issued PDF's SHA-256 (see review.signatureTarget). */
+export async function releaseTarget(input: { reportId: string; caseId: string; organisationId: string }, database: Db | Tx = db): Promise<string> {
+  return (await issuedReport(database, input)).sha256;
+}
+
+/**
+ * Quality's release: a signature with meaning "released" on exactly the issued PDF bytes, of a
+ * report of this case (a report of another case, even of the same organisation, is not found here).
+ * Nobody signs two roles on one report: whoever wrote a revision of the case or signed it as checker
+ * does not release its report. `expectedHash`, when given, is the PDF hash the signer was shown.
+ */
+export async function releaseReport(input: { reportId: string; caseId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; expectedHash?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
   const released = await database.transaction(async (tx) => {
-    const [r] = await tx.select().from(reports).where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId))).for("update");
-    if (!r) throw new DomainError("Report not found.", { field: "reportId", kind: "not-found" });
-    if (r.status !== "issued") throw new DomainError(`Only an issued report can be released (this one is ${r.status}).`, { field: "status", kind: "conflict" });
+    const r = await issuedReport(tx, input, true);
+    if (input.expectedHash !== undefined && input.expectedHash !== r.sha256) throw new DomainError("The report you asked to sign has changed since: sign anew.", { field: "reportId", kind: "conflict" });
+    const signed = (await liveSignatures(r.caseId, tx)).filter((s) => s.reportId === null && s.signerId === actor.id);
+    if ((await revisionAuthors(tx, r.caseId)).has(actor.id) || signed.length) {
+      throw new DomainError(`You ${signed.length ? `signed this case as ${signed[0]!.role}` : "wrote revisions of this case"}: someone else must release its report (nobody signs two roles on one report).`, { field: "reportId", kind: "forbidden" });
+    }
     const [sig] = await tx
       .insert(signatures)
-      .values({ organisationId: r.organisationId, caseId: r.caseId, reportId: r.id, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "released", confirmedBy: input.confirmedBy, revisionHash: r.sha256! })
+      .values({ organisationId: r.organisationId, caseId: r.caseId, reportId: r.id, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "released", confirmedBy: input.confirmedBy, revisionHash: r.sha256 })
       .returning();
     const now = new Date();
     await tx.update(reports).set({ status: "released", releasedAt: now }).where(eq(reports.id, r.id));

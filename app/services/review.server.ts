@@ -1,18 +1,14 @@
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
-import { verifyPassword } from "~/utils/password.server";
 import { STEPS, downstreamOf } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { caseSteps, cases, memberships, sessions, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
+import { caseSteps, cases, memberships, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
 import type { Role, SignatureMeaning, StepKey } from "~/domain/vocabulary";
 import { env } from "~/utils/env.server";
 import { sendMail } from "./mail.server";
 import type { Actor, CurrentUser } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 
-
-/** A fresh company sign-in counts as re-confirming identity for this long. */
-export const FRESH_SSO_MS = 10 * 60 * 1000;
 
 /** The hash a step signature carries: the canonical serialisation of exactly the revision signed. */
 export function stepRevisionHash(caseId: string, step: StepKey, revision: number, data: unknown): string {
@@ -48,21 +44,52 @@ async function lockStep(tx: Tx, caseId: string, step: StepKey) {
   return row;
 }
 
+/** Every person who wrote a revision of the case (or of one step of it). */
+export async function revisionAuthors(database: Db | Tx, caseId: string, step?: StepKey): Promise<Set<string>> {
+  const rows = await database
+    .selectDistinct({ id: stepRevisions.createdBy })
+    .from(stepRevisions)
+    .where(step ? and(eq(stepRevisions.caseId, caseId), eq(stepRevisions.step, step)) : eq(stepRevisions.caseId, caseId));
+  return new Set(rows.map((r) => r.id));
+}
+
+/** A signature that would bind something other than what the person saw when they asked to sign. */
+function changedSince(expected: string | undefined, actual: string): void {
+  if (expected !== undefined && expected !== actual) {
+    throw new DomainError("What you asked to sign has changed since: look at it again and sign anew.", { field: "revision", kind: "conflict" });
+  }
+}
+
+/** The submitted revision of a step and the hash a "checked" signature on it carries. */
+async function submittedRevision(database: Db | Tx, caseId: string, step: StepKey) {
+  const [row] = await database.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step)));
+  if (!row || row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", { field: "status", kind: "conflict" });
+  const [rev] = await database.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, caseId), eq(stepRevisions.step, step), eq(stepRevisions.revision, row.revision)));
+  if (!rev) throw new DomainError("The revision to approve was not found.", { field: "revision", kind: "conflict" });
+  return { row, rev, hash: stepRevisionHash(caseId, step, row.revision, rev.data) };
+}
+
+/** The hash an "approved for issue" signature carries: every step's live check, once all are approved and the case is not yet approved. */
+async function approvalHash(database: Db | Tx, caseId: string): Promise<string> {
+  const live = await liveSignatures(caseId, database);
+  if (live.some((s) => s.meaning === "approved for issue")) throw new DomainError("The case is already approved for issue.", { field: "case", kind: "conflict" });
+  const hashes = {} as Record<StepKey, string>;
+  for (const s of STEPS) {
+    const sig = live.find((x) => x.step === s.key && x.meaning === "checked");
+    if (!sig) throw new DomainError(`The ${s.key} step has no valid check signature.`, { field: "steps", kind: "conflict" });
+    hashes[s.key] = sig.revisionHash;
+  }
+  return caseApprovalHash(caseId, hashes);
+}
+
 /**
- * Re-confirms the signer's identity before a signature: their password, or a company sign-in less
- * than ten minutes old for people who sign in through the identity provider.
+ * What a signature would bind if made now, as the signer is shown it when they ask to sign: the
+ * submitted revision of a step ("checked") or every step's check ("approved for issue"). A
+ * signature completed later with this as `expectedHash` is refused if it changed meanwhile.
+ * @throws DomainError conflict when there is nothing to sign
  */
-export async function confirmIdentity(current: CurrentUser, password: string | undefined, database: Db | Tx = db): Promise<"password" | "sso"> {
-  const [user] = await database.select().from(users).where(eq(users.id, current.user.id));
-  if (password) {
-    if (user?.passwordHash && (await verifyPassword(user.passwordHash, password))) return "password";
-    throw new DomainError("The password is not correct: the signature was not recorded.", { field: "password", kind: "unauthenticated" });
-  }
-  if (!current.sessionId.startsWith("token:")) {
-    const [session] = await database.select().from(sessions).where(eq(sessions.id, current.sessionId));
-    if (session?.method === "sso" && Date.now() - session.createdAt.getTime() < FRESH_SSO_MS) return "sso";
-  }
-  throw new DomainError("Confirm your identity to sign: enter your password (or sign in again with company sign-in).", { field: "password", kind: "unauthenticated" });
+export async function signatureTarget(input: { caseId: string; step?: StepKey }, database: Db | Tx = db): Promise<string> {
+  return input.step ? (await submittedRevision(database, input.caseId, input.step)).hash : approvalHash(database, input.caseId);
 }
 
 /** Submits a saved step for check: it becomes read-only for the engineer and the checkers are told. */
@@ -106,18 +133,19 @@ export async function returnStep(input: { caseId: string; step: StepKey; actor: 
 }
 
 /**
- * Approves a submitted step with a signature (meaning "checked"). Refused to anyone who edited the
- * step's current revision: nobody checks their own work.
+ * Approves a submitted step with a signature (meaning "checked"). Refused to anyone who wrote any
+ * revision of the step: nobody checks their own work. `expectedHash`, when given, is the revision
+ * hash the signer was shown; a different current revision is refused.
  */
-export async function approveStep(input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string }, database: Db | Tx = db) {
+export async function approveStep(input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string; expectedHash?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
   const result = await database.transaction(async (tx) => {
-    const row = await lockStep(tx, input.caseId, input.step);
-    if (row.status !== "submitted") throw new DomainError("Only a submitted step can be approved.", { field: "status", kind: "conflict" });
-    const [rev] = await tx.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
-    if (!rev) throw new DomainError("The revision to approve was not found.", { field: "revision", kind: "conflict" });
-    if (rev.createdBy === actor.id) throw new DomainError("You edited this revision yourself: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
-    const revisionHash = stepRevisionHash(input.caseId, input.step, row.revision, rev.data);
+    await lockStep(tx, input.caseId, input.step);
+    const { row, rev, hash: revisionHash } = await submittedRevision(tx, input.caseId, input.step);
+    if ((await revisionAuthors(tx, input.caseId, input.step)).has(actor.id)) {
+      throw new DomainError("You wrote a revision of this step: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
+    }
+    changedSince(input.expectedHash, revisionHash);
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
     const [sig] = await tx
       .insert(signatures)
@@ -149,22 +177,19 @@ export async function liveSignatures(caseId: string, database: Tx | typeof db = 
 /**
  * The checker's signature on the whole case ("approved for issue") once every step is approved;
  * its hash binds the signed revision hash of every step. Only then may a report be requested.
+ * Nobody who wrote any revision of the case approves it for issue (separation of duties).
  */
-export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso" }, database: Db | Tx = db) {
+export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; expectedHash?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
   await database.transaction(async (tx) => {
+    if ((await revisionAuthors(tx, input.caseId)).has(actor.id)) {
+      throw new DomainError("You wrote revisions of this case: another checker must approve it for issue (separation of duties).", { field: "case", kind: "forbidden" });
+    }
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId)).for("update");
     if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", { field: "steps", kind: "conflict" });
-    const live = await liveSignatures(input.caseId, tx);
-    if (live.some((s) => s.meaning === "approved for issue")) throw new DomainError("The case is already approved for issue.", { field: "case", kind: "conflict" });
-    const hashes = {} as Record<StepKey, string>;
-    for (const s of STEPS) {
-      const sig = live.find((x) => x.step === s.key && x.meaning === "checked");
-      if (!sig) throw new DomainError(`The ${s.key} step has no valid check signature.`, { field: "steps", kind: "conflict" });
-      hashes[s.key] = sig.revisionHash;
-    }
+    const revisionHash = await approvalHash(tx, input.caseId);
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
-    const revisionHash = caseApprovalHash(input.caseId, hashes);
+    changedSince(input.expectedHash, revisionHash);
     const [sig] = await tx
       .insert(signatures)
       .values({ organisationId: c!.organisationId, caseId: input.caseId, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "approved for issue", confirmedBy: input.confirmedBy, revisionHash })

@@ -14,6 +14,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     throw redirect(`/login?${new URLSearchParams({ "sso-error": "email" satisfies SsoErrorCode })}`);
   }
   const { url: target, setCookie } = await beginSso({
+    kind: "sign-in",
     loginHint: parsed.data.email.toLowerCase(),
     redirectTo: safeRedirectPath(parsed.data.redirectTo, ""),
   });

@@ -5,6 +5,7 @@ import { Alert, Panel } from "~/components/ui/page-header";
 import { PENDING_REPORT_STATUSES, type ReportStatus } from "~/domain/vocabulary";
 import type { latestVersionChanges, ReportListItem } from "~/services/reports.server";
 import { formatUtc } from "~/utils/format";
+import { SsoSignButton } from "~/components/case/sso-sign-button";
 
 /** A report still being made: queued for a worker or being generated. */
 export const isPending = (status: string) => (PENDING_REPORT_STATUSES as readonly string[]).includes(status);
@@ -43,7 +44,7 @@ export function RequestReportForm({ first, busy, pending }: { first: boolean; bu
 }
 
 /** One version of the report: state, hashes, download, the signatures behind it, and quality's release. */
-export function ReportPanel({ report: r, progress, canRelease, busy }: { report: ReportListItem; progress: number; canRelease: boolean; busy: boolean }) {
+export function ReportPanel({ report: r, progress, canRelease, canSso, busy }: { report: ReportListItem; progress: number; canRelease: boolean; canSso: boolean; busy: boolean }) {
   return (
     <Panel title={`${r.reportNumber} · version ${r.version}`}>
       <div className="flex flex-wrap items-start gap-6 text-sm">
@@ -96,9 +97,10 @@ export function ReportPanel({ report: r, progress, canRelease, busy }: { report:
                 <span className="block font-semibold">Your password, to sign</span>
                 <input name="password" type="password" autoComplete="current-password" className="rounded border border-line-strong px-2 py-1" />
               </label>
-              <Button type="submit" disabled={busy}>
+              <Button type="submit" name="confirm" value="password" disabled={busy}>
                 Release (sign: released)
               </Button>
+              {canSso ? <SsoSignButton busy={busy} label="Release with company sign-in" /> : null}
             </Form>
           ) : null}
         </div>

@@ -3,5 +3,10 @@ import { z } from "zod";
 /** The reports page's forms: request the next version, or release an issued one with a signature. */
 export const ReportsActionSchema = z.discriminatedUnion("intent", [
   z.strictObject({ intent: z.literal("request") }),
-  z.strictObject({ intent: z.literal("release"), reportId: z.uuid("Unknown report"), password: z.string().max(256).default("") }),
+  z.strictObject({
+    intent: z.literal("release"),
+    reportId: z.uuid("Unknown report"),
+    confirm: z.enum(["password", "sso"], "Sign with your password or with company sign-in").default("password"),
+    password: z.string().max(256).default(""),
+  }),
 ]);

@@ -1,20 +1,23 @@
 import { useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { canSignWithSso, sign } from "~/auth/signing.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
-import { latestVersionChanges, listReports, releaseReport, requestReport } from "~/services/reports.server";
-import { confirmIdentity } from "~/services/review.server";
-import { accepted, answer, forbidden, parseBody, refused } from "~/utils/http.server";
+import { signatureOutcomeMessage } from "~/domain/sso";
+import { latestVersionChanges, listReports, requestReport } from "~/services/reports.server";
+import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/reports";
 import { isPending, ReportPanel, RequestReportForm, useReportProgress, VersionChangesPanel } from "./reports.panels";
 import { ReportsActionSchema } from "./reports.schema";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "report:read");
-  const [list, diff] = await Promise.all([listReports(current.organisation.id, c.id), latestVersionChanges(c.id)]);
+  const [list, diff, canSso] = await Promise.all([listReports(current.organisation.id, c.id), latestVersionChanges(c.id), canSignWithSso(current)]);
   return {
     caseId: c.id,
+    signature: signatureOutcomeMessage(new URL(request.url).searchParams.get("signature")),
+    canSso,
     reports: list,
     diff,
     canRequest: hasPermission(current.roles, "case:edit"),
@@ -35,8 +38,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       return accepted(`Report ${r.reportNumber} requested: it is being generated.`);
     }
     if (!hasPermission(current.roles, "report:release")) forbidden("Only quality staff release reports.");
-    const confirmedBy = await confirmIdentity(current, input.password || undefined);
-    await releaseReport({ reportId: input.reportId, organisationId: current.organisation.id, current, role: "quality", confirmedBy });
+    // The report must be one of this case's: another case's report is not found here.
+    await sign(current, { intent: "release", caseId: c.id, reportId: input.reportId }, { ...input, address: clientAddress(request) });
     return accepted("Report released and signed.");
   });
 }
@@ -48,6 +51,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
     <>
       <PageHeader title="Reports" description="Issued versions of this case's report. Each is kept in storage unchanged, with its SHA-256 and every signature behind it." />
       <ResultsCaution />
+      {loaderData.signature && !actionData ? <div className="mb-4"><Alert tone={loaderData.signature.ok ? "info" : "danger"}>{loaderData.signature.message}</Alert></div> : null}
       {actionData?.message ? <div className="mb-4"><Alert tone={actionData.ok ? "info" : "danger"}>{actionData.message}</Alert></div> : null}
       {loaderData.canRequest ? <RequestReportForm first={loaderData.reports.length === 0} busy={busy} pending={loaderData.pending} /> : null}
       {loaderData.reports.length === 0 ? (
@@ -55,7 +59,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
       ) : (
         <div className="space-y-4">
           {loaderData.reports.map((r) => (
-            <ReportPanel key={r.id} report={r} progress={live?.find((x) => x.id === r.id)?.progress ?? r.progress} canRelease={loaderData.canRelease} busy={busy} />
+            <ReportPanel key={r.id} report={r} progress={live?.find((x) => x.id === r.id)?.progress ?? r.progress} canRelease={loaderData.canRelease} canSso={loaderData.canSso} busy={busy} />
           ))}
         </div>
       )}

@@ -4,6 +4,7 @@ import { Panel } from "~/components/ui/page-header";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import type { reviewState, caseSignatures } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
+import { SsoSignButton } from "~/components/case/sso-sign-button";
 
 type StepReview = Awaited<ReturnType<typeof reviewState>>[number];
 type CaseSignature = Awaited<ReturnType<typeof caseSignatures>>[number];
@@ -13,7 +14,7 @@ type CaseSignature = Awaited<ReturnType<typeof caseSignatures>>[number];
  * through with the reason), its thread, and the forms the person's roles allow: comment, submit,
  * approve with a signature, or return.
  */
-export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck, busy }: { step: StepReview; index: number; selfId: string; canSubmit: boolean; canCheck: boolean; busy: boolean }) {
+export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck, canSso, busy }: { step: StepReview; index: number; selfId: string; canSubmit: boolean; canCheck: boolean; canSso: boolean; busy: boolean }) {
   const ownRevision = s.revisionAuthorId === selfId;
   return (
     <Panel title={`${i + 1}. ${s.label}`}>
@@ -79,9 +80,10 @@ export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck
                     Your password, to sign
                   </label>
                   <input id={`pw-${s.key}`} name="password" type="password" autoComplete="current-password" className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
-                  <Button type="submit" disabled={busy}>
+                  <Button type="submit" name="confirm" value="password" disabled={busy}>
                     Approve {s.label.toLowerCase()} (sign: checked)
                   </Button>
+                  {canSso ? <SsoSignButton busy={busy} label={`Approve ${s.label.toLowerCase()} with company sign-in`} /> : null}
                 </Form>
                 <Form method="post" className="space-y-2 rounded border border-line p-3">
                   <input type="hidden" name="intent" value="return" />
@@ -102,7 +104,7 @@ export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck
 }
 
 /** The checker's signature on the whole case once every step is approved. */
-export function CaseApprovalPanel({ signatures, approvedForIssue, allApproved, canCheck, busy }: { signatures: CaseSignature[]; approvedForIssue: boolean; allApproved: boolean; canCheck: boolean; busy: boolean }) {
+export function CaseApprovalPanel({ signatures, approvedForIssue, allApproved, canCheck, canSso, busy }: { signatures: CaseSignature[]; approvedForIssue: boolean; allApproved: boolean; canCheck: boolean; canSso: boolean; busy: boolean }) {
   return (
     <Panel title="Approval for issue">
       {signatures.length ? (
@@ -124,9 +126,10 @@ export function CaseApprovalPanel({ signatures, approvedForIssue, allApproved, c
             <span className="block font-semibold">Your password, to sign</span>
             <input name="password" type="password" autoComplete="current-password" className="rounded border border-line-strong px-2 py-1" />
           </label>
-          <Button type="submit" disabled={busy}>
+          <Button type="submit" name="confirm" value="password" disabled={busy}>
             Approve the case for issue (sign)
           </Button>
+          {canSso ? <SsoSignButton busy={busy} label="Approve for issue with company sign-in" /> : null}
         </Form>
       ) : (
         <p className="text-sm text-ink-muted">Once every step is approved, a checker signs the case as approved for issue.</p>

@@ -1,21 +1,26 @@
 import { useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { canSignWithSso, sign } from "~/auth/signing.server";
 import { hasPermission } from "~/domain/permissions";
 import { Alert, PageHeader } from "~/components/ui/page-header";
 import { caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { dispositionBlockers } from "~/services/distribution.server";
-import { addComment, approveCaseForIssue, approveStep, caseSignatures, confirmIdentity, returnStep, reviewState, submitStep } from "~/services/review.server";
-import { accepted, answer, forbidden, parseBody, refused } from "~/utils/http.server";
+import { signatureOutcomeMessage } from "~/domain/sso";
+import { addComment, caseSignatures, returnStep, reviewState, submitStep } from "~/services/review.server";
+import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/review";
 import { CaseApprovalPanel, StepReviewPanel } from "./review.panels";
 import { ReviewActionSchema } from "./review.schema";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const [steps, caseSigs] = await Promise.all([reviewState(c.id), caseSignatures(c.id)]);
+  const [steps, caseSigs, canSso] = await Promise.all([reviewState(c.id), caseSignatures(c.id), canSignWithSso(current)]);
   return {
     caseId: c.id,
+    // How a signature through company sign-in ended (a fixed message for a code in the URL).
+    signature: signatureOutcomeMessage(new URL(request.url).searchParams.get("signature")),
+    canSso,
     steps,
     caseSignatures: caseSigs,
     selfId: current.user.id,
@@ -42,8 +47,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     if (v.intent === "approve") {
       need(hasPermission(current.roles, "step:check"), "approving needs the checker role");
-      const confirmedBy = await confirmIdentity(current, v.password || undefined);
-      await approveStep({ caseId: c.id, step: v.step, current, role: "checker", confirmedBy, comment: v.comment });
+      await sign(current, { intent: "approve", caseId: c.id, step: v.step, comment: v.comment }, { ...v, address: clientAddress(request) });
       return accepted(`${v.step} approved and signed.`);
     }
     if (v.intent === "return") {
@@ -56,8 +60,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return accepted("Comment added.");
     }
     need(hasPermission(current.roles, "step:check"), "approving for issue needs the checker role");
-    const confirmedBy = await confirmIdentity(current, v.password || undefined);
-    await approveCaseForIssue({ caseId: c.id, current, role: "checker", confirmedBy });
+    await sign(current, { intent: "approve-case", caseId: c.id }, { ...v, address: clientAddress(request) });
     return accepted("Case approved for issue and signed.");
   });
 }
@@ -67,13 +70,14 @@ export default function ReviewRoute({ loaderData, actionData }: Route.ComponentP
   return (
     <>
       <PageHeader title="Review" description="Each step is submitted by its engineer, then checked: approved with a signature, or returned with comments. Nobody approves a revision they edited." />
+      {loaderData.signature && !actionData ? <div className="mb-4"><Alert tone={loaderData.signature.ok ? "info" : "danger"}>{loaderData.signature.message}</Alert></div> : null}
       {actionData?.message ? <div className="mb-4"><Alert tone={actionData.ok ? "info" : "danger"}>{actionData.message}</Alert></div> : null}
       {actionData && !actionData.ok && !actionData.message ? <div className="mb-4"><Alert>{Object.values(actionData.fieldErrors).flat().join(" ")}</Alert></div> : null}
       <div className="space-y-4">
         {loaderData.steps.map((s, i) => (
-          <StepReviewPanel key={s.key} step={s} index={i} selfId={loaderData.selfId} canSubmit={loaderData.canSubmit} canCheck={loaderData.canCheck} busy={busy} />
+          <StepReviewPanel key={s.key} step={s} index={i} selfId={loaderData.selfId} canSubmit={loaderData.canSubmit} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} />
         ))}
-        <CaseApprovalPanel signatures={loaderData.caseSignatures} approvedForIssue={loaderData.approvedForIssue} allApproved={loaderData.allApproved} canCheck={loaderData.canCheck} busy={busy} />
+        <CaseApprovalPanel signatures={loaderData.caseSignatures} approvedForIssue={loaderData.approvedForIssue} allApproved={loaderData.allApproved} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} />
       </div>
     </>
   );
