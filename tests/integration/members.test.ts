@@ -1,8 +1,8 @@
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { listCapturedMail } from "~/server/dev-services/mail";
 import { db } from "~/db/client.server";
-import { invitations, memberships, users } from "~/db/schema";
+import { auditLog, invitations, memberships, users } from "~/db/schema";
 import { action as membersAction } from "~/routes/admin/members";
 import { action as inviteAction, loader as inviteLoader } from "~/routes/auth/invite";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
@@ -63,5 +63,26 @@ describe("invitations", () => {
     expect(res.status).toBe(404);
     const [m] = await db.select().from(memberships).where(eq(memberships.userId, outsider!.id));
     expect(m!.roles).toEqual(["engineer", "admin"]);
+  });
+  it("throttles and audits guesses at an existing account's password through an invitation link (issue 9, item 7)", async () => {
+    // Northmoor invites Marek, who already has an account: whoever holds the link must give his password.
+    const email = demoUser("checker").email;
+    const res = await run(membersAction, { request: request("/admin", { method: "POST", cookie: await cookieFor("outsider"), body: form({ intent: "invite", email, roles: ["checker"] }) }) });
+    expect(res.status).toBe(200);
+    const mail = (await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: email })).find((m) => m.subject.includes("Northmoor"));
+    const token = /\/invite\/([a-z2-7]+)/.exec(mail!.text ?? "")![1]!;
+    const [inv] = await db.select().from(invitations).where(eq(invitations.email, email));
+    const guess = (password: string) => run(inviteAction, { request: request(`/invite/${token}`, { method: "POST", body: form({ password }) }), params: { token } });
+    const answers: number[] = [];
+    for (let i = 0; i < 12 && !answers.includes(429); i++) answers.push((await guess(`guess-${i}`)).status);
+    expect(answers.at(-1)).toBe(429);
+    expect(answers.slice(0, -1).every((s) => s === 401)).toBe(true);
+    // Held back now, even with the right password; the invitation is still open and nothing joined.
+    expect((await guess(demoUser("checker").password)).status).toBe(429);
+    const [marek] = await db.select().from(users).where(eq(users.email, email));
+    expect(await db.select().from(memberships).where(and(eq(memberships.userId, marek!.id), eq(memberships.organisationId, inv!.organisationId)))).toHaveLength(0);
+    const refused = await db.select().from(auditLog).where(and(eq(auditLog.action, "auth.invitation.password-refused"), eq(auditLog.entityId, inv!.id)));
+    expect(refused).toHaveLength(answers.length - 1);
+    expect(refused.every((r) => r.organisationId === inv!.organisationId && r.actorEmail === email)).toBe(true);
   });
 });

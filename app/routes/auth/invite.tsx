@@ -1,12 +1,13 @@
 import { data, Form, redirect, useNavigation } from "react-router";
 import { completeSignIn } from "~/auth/auth.server";
+import { joinByInvitation } from "~/auth/invitation.server";
 import { landingPath } from "~/domain/permissions";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, useZodForm } from "~/components/forms/use-zod-form";
 import { Button } from "~/components/ui/button";
 import { Alert } from "~/components/ui/page-header";
-import { acceptInvitation, findInvitation } from "~/services/organisation.server";
-import { answer, parseBody, refused } from "~/utils/http.server";
+import { findInvitation } from "~/services/organisation.server";
+import { answer, clientAddress, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/invite";
 import { AcceptExistingSchema, AcceptNewSchema } from "./invite.schema";
 
@@ -23,7 +24,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value as { name?: string; password: string };
   return answer(async () => {
-    const joined = await acceptInvitation({ token: params.token, name: input.name, password: input.password });
+    const joined = await joinByInvitation({ token: params.token, name: input.name, password: input.password, address: clientAddress(request) });
     const signedIn = await completeSignIn({ id: joined.userId, email: joined.email }, joined, "password", request.headers.get("User-Agent"));
     throw redirect(landingPath(joined.roles), { headers: { "Set-Cookie": signedIn.setCookie } });
   });
