@@ -8,7 +8,7 @@ import { z } from "zod";
 /** Most rows each step takes: its form refuses a row beyond these before building anything. */
 export const MAX_PLANFORM_STATIONS = 60;
 export const MAX_SECTION_ROWS = 60;
-export const MAX_LOAD_CASES = 2000;
+export const MAX_LOAD_CASES = 100_000;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be greater than 0` });

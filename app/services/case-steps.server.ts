@@ -55,6 +55,13 @@ export function caseUnits(steps: Record<StepKey, StepState>): UnitSystem {
   return stepData(steps, "basis")?.units ?? "SI";
 }
 
+/** The display units of a case, reading its basis step only (a window of a large envelope needs no more). */
+export async function getCaseUnits(caseId: string, database: Db | Tx = db): Promise<UnitSystem> {
+  const [row] = await database.select({ data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
+  const parsed = row?.data ? STEP_SCHEMAS.basis.safeParse(row.data) : null;
+  return parsed?.success ? parsed.data.units : "SI";
+}
+
 /**
  * Saves a new revision of a step. `baseRevision` is the revision the person started editing from:
  * if anyone saved since, nothing is written and the person is told who and when (optimistic

@@ -11,7 +11,7 @@ const MiB = 1024 * KiB;
 export const BODY_LIMITS = {
   /** A request without a session cookie or bearer token (sign-in, invitations, sign-out). */
   anonymous: 16 * KiB,
-  /** A signed-in form post: the largest, an envelope of 2000 load cases, is about 0.5 MiB. */
+  /** A signed-in form post: the largest, a whole envelope grid of 500 load cases or 2000 edited rows of a larger one, is about 0.5 MiB. */
   form: 2 * MiB,
   /** The section-data upload: the 1 MiB CSV limit plus the multipart envelope and form fields. */
   upload: 1 * MiB + 64 * KiB,

@@ -1,4 +1,9 @@
-import { useState } from "react";
+import { useVirtualizer } from "@tanstack/react-virtual";
+import { useEffect, useRef, useState } from "react";
+import { href, useFetcher } from "react-router";
+import { UnsavedGuard } from "~/components/case/unsaved-guard";
+import type { StepStatus } from "~/domain/vocabulary";
+import type { LoadCaseRows } from "../api/case-load-cases";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "~/engine";
 import { vnOption } from "~/charts/vn";
 import { Chart } from "~/components/charts/chart";
@@ -130,5 +135,271 @@ export function CaseRowErrors({ server }: { server: FieldErrors | undefined }) {
         ))}
       </Alert>
     </div>
+  );
+}
+
+/** Rows the page carries of a large case file, and the rows fetched at a time as the grid scrolls. */
+export const FIRST_ROWS = 100;
+const PAGE_ROWS = FIRST_ROWS;
+const ROW_PX = 34;
+
+type CaseRow = LoadCaseRows["rows"][number];
+
+const WINDOW_COLUMNS: {
+  key: keyof CaseRow;
+  label: (units: UnitSystem) => string;
+  type?: "text" | "checkbox";
+}[] = [
+  { key: "id", label: () => "Case", type: "text" },
+  { key: "kind", label: () => "Kind", type: "text" },
+  { key: "mach", label: () => "Mach" },
+  { key: "altitude", label: (u) => `Altitude [${unitSymbol(u, "altitude")}]` },
+  { key: "weight", label: (u) => `Weight [${unitSymbol(u, "mass")}]` },
+  { key: "nz", label: () => "nz" },
+  { key: "alpha", label: () => "α [°]" },
+  { key: "excluded", label: () => "Excluded", type: "checkbox" },
+  { key: "rule", label: () => "From rule", type: "text" },
+];
+
+/**
+ * The load cases of a large case file: a window on the stored rows (only the rows in view are in
+ * the page, fetched a page at a time as they scroll in), edited row by row. Changed, removed and
+ * added rows are kept here until saved, in view or not, and the save sends only them, on the
+ * revision they were made on.
+ */
+export function CasesWindowPanel({ caseId, first, revision, units, canEdit, status }: { caseId: string; first: { total: number; rows: CaseRow[] }; revision: number; units: UnitSystem; canEdit: boolean; status: StepStatus }) {
+  const { total } = first;
+  const [pages, setPages] = useState<Map<number, CaseRow[]>>(() => new Map([[0, first.rows]]));
+  const [changed, setChanged] = useState<Map<number, CaseRow>>(() => new Map());
+  const [removed, setRemoved] = useState<Set<number>>(() => new Set());
+  const [added, setAdded] = useState<CaseRow[]>([]);
+  const [stale, setStale] = useState(false);
+  const [goTo, setGoTo] = useState("");
+  const requested = useRef(new Set<number>([0]));
+  const scroller = useRef<HTMLDivElement>(null);
+  const save = useFetcher<{ ok: boolean; message?: string; fieldErrors?: FieldErrors }>();
+  // A new revision (this page's save) replaces the rows held and the edits made on the old one.
+  const [shownRevision, setShownRevision] = useState(revision);
+  if (shownRevision !== revision) {
+    setShownRevision(revision);
+    setPages(new Map([[0, first.rows]]));
+    setChanged(new Map());
+    setRemoved(new Set());
+    setAdded([]);
+    setStale(false);
+    requested.current = new Set([0]);
+  }
+  const virtualizer = useVirtualizer({ count: total + added.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 12 });
+  const items = virtualizer.getVirtualItems();
+  const firstIndex = items[0]?.index ?? 0;
+  const lastIndex = items[items.length - 1]?.index ?? 0;
+
+  useEffect(() => {
+    for (let p = Math.floor(firstIndex / PAGE_ROWS); p <= Math.floor(Math.min(lastIndex, total - 1) / PAGE_ROWS); p++) {
+      if (requested.current.has(p)) continue;
+      requested.current.add(p);
+      const url = `${href("/api/cases/:caseId/load-cases", { caseId })}?offset=${p * PAGE_ROWS}&limit=${PAGE_ROWS}`;
+      fetch(url, { headers: { Accept: "application/json" } })
+        .then((r) => (r.ok ? (r.json() as Promise<LoadCaseRows>) : Promise.reject(new Error(String(r.status)))))
+        .then((page) => {
+          if (page.revision !== revision) setStale(true);
+          setPages((m) => new Map(m).set(p, page.rows));
+        })
+        .catch(() => requested.current.delete(p));
+    }
+  }, [firstIndex, lastIndex, total, caseId, revision]);
+
+  const stored = (i: number) => pages.get(Math.floor(i / PAGE_ROWS))?.[i % PAGE_ROWS];
+  const rowAt = (i: number): CaseRow | undefined => (i >= total ? added[i - total] : (changed.get(i) ?? stored(i)));
+  const edit = (i: number, key: keyof CaseRow, value: string | boolean) => {
+    if (i >= total) {
+      setAdded((rows) => rows.map((r, n) => (n === i - total ? { ...r, [key]: value } : r)));
+      return;
+    }
+    const base = rowAt(i);
+    if (base) setChanged((m) => new Map(m).set(i, { ...base, [key]: value }));
+  };
+  const errors = save.state === "idle" && save.data && !save.data.ok ? (save.data.fieldErrors ?? {}) : {};
+  const errorKey = (i: number) => (i >= total ? `added.${i - total}` : `cases.${i}`);
+  const cellErrors = (i: number, key: string) => errors[`${errorKey(i)}.${key}`] ?? [];
+  const edits = changed.size + removed.size + added.length;
+  const show = (row: number) => virtualizer.scrollToIndex(Math.max(0, Math.min(row, total + added.length - 1)), { align: "start" });
+  const onSave = () =>
+    save.submit(
+      { intent: "rows", revision, changed: [...changed].filter(([i]) => !removed.has(i)).map(([index, row]) => ({ index, row })), removed: [...removed], added },
+      { method: "post", encType: "application/json" },
+    );
+  const rowMessages = Object.entries(errors).map(([key, messages]) => {
+    const [, part, n] = /^(cases|added)\.(\d+)/.exec(key) ?? [];
+    const row = part === "cases" ? Number(n) : part === "added" ? total + Number(n) : null;
+    return { key, row, text: messages?.join(" ") ?? "" };
+  });
+  const padTop = items[0]?.start ?? 0;
+  const padBottom = virtualizer.getTotalSize() - (items[items.length - 1]?.end ?? 0);
+
+  return (
+    <Panel title={`Load cases (${total.toLocaleString("en-GB")})`} className="mt-5">
+      <UnsavedGuard dirty={edits > 0} />
+      <div className="p-3">
+        <p className="mb-2 text-xs text-ink-muted">
+          A large case file: the grid shows the rows in view and fetches the others as you scroll. Edit any row; the changed, removed and added rows are kept until you save them, and only they are sent.
+        </p>
+        {stale ? (
+          <div className="mb-2">
+            <Alert tone="warn">The envelope was saved again since this page was opened (revision {revision} shown). Reload the page before editing.</Alert>
+          </div>
+        ) : null}
+        {rowMessages.length ? (
+          <div className="mb-2">
+            <Alert>
+              {rowMessages.slice(0, 20).map((m) => (
+                <span key={m.key} className="block">
+                  {m.row === null ? (
+                    m.text
+                  ) : (
+                    <>
+                      Case row {m.row + 1}: {m.text}{" "}
+                      <button type="button" className="underline" onClick={() => show(m.row!)}>
+                        show
+                      </button>
+                    </>
+                  )}
+                </span>
+              ))}
+            </Alert>
+          </div>
+        ) : null}
+        <form
+          className="mb-2 flex items-end gap-2 text-sm"
+          onSubmit={(e) => {
+            e.preventDefault();
+            const n = Number(goTo);
+            if (Number.isInteger(n) && n >= 1) show(n - 1);
+          }}
+        >
+          <label className="flex flex-col">
+            <span className="text-xs font-semibold">Go to row</span>
+            <input value={goTo} onChange={(e) => setGoTo(e.target.value)} inputMode="numeric" className="w-28 rounded border border-line-strong px-2 py-1" />
+          </label>
+          <Button type="submit" variant="secondary">
+            Show
+          </Button>
+        </form>
+        <div ref={scroller} className="h-[32rem] overflow-auto rounded border border-line bg-surface" data-testid="load-case-window">
+          <table className="w-full text-sm" aria-rowcount={total + added.length + 1}>
+            <caption className="sr-only">Load cases</caption>
+            <thead className="sticky top-0 z-10 border-b border-line bg-canvas text-xs text-ink-muted">
+              <tr>
+                <th scope="col" className="px-2 py-1.5 text-left font-semibold">
+                  #
+                </th>
+                {WINDOW_COLUMNS.map((c) => (
+                  <th key={c.key} scope="col" className="px-2 py-1.5 text-right font-semibold">
+                    {c.label(units)}
+                  </th>
+                ))}
+                <th scope="col">
+                  <span className="sr-only">Row actions</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {padTop > 0 ? <tr aria-hidden="true" style={{ height: padTop }} /> : null}
+              {items.map((item) => {
+                const i = item.index;
+                const row = rowAt(i);
+                const gone = removed.has(i);
+                return (
+                  <tr key={item.key} aria-rowindex={i + 2} style={{ height: ROW_PX }} className={`border-b border-line ${gone ? "bg-danger-soft line-through" : changed.has(i) || i >= total ? "bg-accent-soft" : ""}`}>
+                    <td className="px-2 text-ink-faint tabular">{i + 1}</td>
+                    {WINDOW_COLUMNS.map((c) => {
+                      const label = `${c.label(units)}, row ${i + 1}`;
+                      if (!row)
+                        return (
+                          <td key={c.key} className="px-2 text-ink-faint">
+                            …
+                          </td>
+                        );
+                      const messages = cellErrors(i, c.key);
+                      return (
+                        <td key={c.key} className="px-1">
+                          {c.type === "checkbox" ? (
+                            <input type="checkbox" aria-label={label} className="mx-auto block" checked={Boolean(row[c.key])} disabled={!canEdit || gone} onChange={(e) => edit(i, c.key, e.target.checked)} />
+                          ) : (
+                            <input
+                              aria-label={label}
+                              aria-invalid={messages.length > 0}
+                              title={messages.join(" ")}
+                              value={String(row[c.key])}
+                              disabled={!canEdit || gone}
+                              inputMode={c.type === "text" ? "text" : "decimal"}
+                              onChange={(e) => edit(i, c.key, e.target.value)}
+                              className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${c.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
+                            />
+                          )}
+                        </td>
+                      );
+                    })}
+                    <td className="px-1">
+                      {canEdit && row ? (
+                        i >= total ? (
+                          <button type="button" className="rounded px-1 text-xs text-danger hover:bg-danger-soft" aria-label={`Delete row ${i + 1}`} onClick={() => setAdded((rows) => rows.filter((_, n) => n !== i - total))}>
+                            delete
+                          </button>
+                        ) : (
+                          <button
+                            type="button"
+                            className="rounded px-1 text-xs text-danger hover:bg-danger-soft"
+                            aria-label={`${gone ? "Keep" : "Delete"} row ${i + 1}`}
+                            onClick={() =>
+                              setRemoved((s) => {
+                                const next = new Set(s);
+                                if (gone) next.delete(i);
+                                else next.add(i);
+                                return next;
+                              })
+                            }
+                          >
+                            {gone ? "keep" : "delete"}
+                          </button>
+                        )
+                      ) : null}
+                    </td>
+                  </tr>
+                );
+              })}
+              {padBottom > 0 ? <tr aria-hidden="true" style={{ height: padBottom }} /> : null}
+            </tbody>
+          </table>
+        </div>
+        {canEdit ? (
+          <div className="mt-2 flex flex-wrap items-center gap-3">
+            <button
+              type="button"
+              className="rounded border border-line-strong bg-surface px-2 py-1 text-xs font-semibold hover:bg-canvas"
+              onClick={() => {
+                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", excluded: false }]);
+                setTimeout(() => show(total + added.length));
+              }}
+            >
+              Add row
+            </button>
+            <Button type="button" disabled={edits === 0 || save.state !== "idle"} onClick={onSave}>
+              {save.state !== "idle" ? "Saving…" : `Save ${edits} changed row${edits === 1 ? "" : "s"}`}
+            </Button>
+            <span className="text-xs text-ink-muted">
+              Revision {revision} · saving makes revision {revision + 1}
+            </span>
+            {save.state === "idle" && save.data?.ok ? (
+              <span role="status" className="text-sm text-accent-strong">
+                {save.data.message}
+              </span>
+            ) : null}
+          </div>
+        ) : (
+          <p className="mt-4 text-sm text-ink-muted">{status === "submitted" ? "Submitted for check: read-only until returned or approved." : "Read-only for your role."}</p>
+        )}
+      </div>
+    </Panel>
   );
 }

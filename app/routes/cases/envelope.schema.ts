@@ -17,30 +17,46 @@ const method = {
   strips: optionalNumber("Strips"),
 };
 
-/** The envelope form in display units (altitude and weight); the action converts to SI. */
+/** One load case as typed into the grid, in display units (altitude, weight as a mass). */
+const caseRow = z.strictObject({
+  id: z.string().trim(),
+  kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
+  rule: z.string().default(""),
+  mach: numberInput("Mach"),
+  altitude: numberInput("Altitude"),
+  alpha: optionalNumber("Angle of attack"),
+  weight: optionalNumber("Weight"),
+  nz: optionalNumber("Load factor"),
+  excluded: checkbox,
+});
+
+/** Rows one edit of a large case file may carry (changed, removed and added together). */
+export const MAX_EDITED_ROWS = 2000;
+
+/**
+ * The envelope form in display units (altitude and weight); the action converts to SI. A case file
+ * of up to WHOLE_GRID_LOAD_CASES cases is edited whole ("save": every row posted); a larger one
+ * row by row ("rows": only the changed, removed and added rows, on the revision they were made on)
+ * and its method alone ("method": the stored cases kept).
+ */
 export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
-  z.strictObject({
-    intent: z.literal("save"),
-    ...method,
-    cases: z
-      .array(
-        z.strictObject({
-          id: z.string().trim(),
-          kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
-          rule: z.string().default(""),
-          mach: numberInput("Mach"),
-          altitude: numberInput("Altitude"),
-          alpha: optionalNumber("Angle of attack"),
-          weight: optionalNumber("Weight"),
-          nz: optionalNumber("Load factor"),
-          excluded: checkbox,
-        }),
-      )
-      .default([]),
-  }),
+  z.strictObject({ intent: z.literal("save"), ...method, cases: z.array(caseRow).default([]) }),
   // Generating replaces the generated rows, so the grid's rows posted with it are not read.
   z.strictObject({ intent: z.literal("generate"), ...method, cases: z.unknown().optional() }),
+  z.strictObject({ intent: z.literal("method"), ...method, cases: z.unknown().optional() }),
+  z
+    .strictObject({
+      intent: z.literal("rows"),
+      revision: numberInput("Revision"),
+      changed: z.array(z.strictObject({ index: z.number().int().min(0), row: caseRow })).default([]),
+      removed: z.array(z.number().int().min(0)).default([]),
+      added: z.array(caseRow).default([]),
+    })
+    .refine((r) => r.changed.length + r.removed.length + r.added.length <= MAX_EDITED_ROWS, { message: `At most ${MAX_EDITED_ROWS} rows in one save`, path: ["changed"] }),
 ]);
+
+/** Above this many load cases the page shows a window on the stored cases and saves edited rows only. */
+export const WHOLE_GRID_LOAD_CASES = 500;
 
 /** The method a new envelope starts with. */
 export const DEFAULT_METHOD = { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 } as const;
@@ -53,21 +69,26 @@ export function envelopeFormValues(env: EnvelopeData | null, units: UnitSystem) 
     spanwise: m.spanwise,
     stations: String(m.stations),
     strips: "strips" in m && m.strips !== undefined ? String(m.strips) : "",
-    cases: m.cases.map((c) => ({
-      id: c.id,
-      kind: c.kind,
-      rule: c.rule,
-      mach: String(tidy(c.mach)),
-      altitude: String(tidy(fromSI(units, "altitude", c.altitude))),
-      alpha: c.alpha === undefined ? "" : String(c.alpha),
-      weight: c.weight === undefined ? "" : String(tidy(fromSI(units, "mass", c.weight / G0))),
-      nz: c.nz === undefined ? "" : String(tidy(c.nz)),
-      excluded: c.excluded,
-    })),
+    cases: m.cases.map((c) => loadCaseRowValues(c, units)),
+  };
+}
+
+/** One stored load case as the grid shows it: text in the display units (altitude, weight as a mass). */
+export function loadCaseRowValues(c: EnvelopeData["cases"][number], units: UnitSystem) {
+  return {
+    id: c.id,
+    kind: c.kind,
+    rule: c.rule,
+    mach: String(tidy(c.mach)),
+    altitude: String(tidy(fromSI(units, "altitude", c.altitude))),
+    alpha: c.alpha === undefined ? "" : String(c.alpha),
+    weight: c.weight === undefined ? "" : String(tidy(fromSI(units, "mass", c.weight / G0))),
+    nz: c.nz === undefined ? "" : String(tidy(c.nz)),
+    excluded: c.excluded,
   };
 }
 
 /** Typed load cases in SI (altitude in m, weight as a force in N), as the envelope step stores them. */
-export function casesToSI(cases: Extract<z.output<typeof EnvelopeFormSchema>, { intent: "save" }>["cases"], units: UnitSystem) {
+export function casesToSI(cases: z.output<typeof caseRow>[], units: UnitSystem) {
   return cases.map((k) => ({ ...k, altitude: toSI(units, "altitude", k.altitude), weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0 }));
 }

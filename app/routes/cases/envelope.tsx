@@ -7,15 +7,16 @@ import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
-import { EnvelopeSchema, MAX_LOAD_CASES } from "~/domain/step-data";
+import { EnvelopeSchema } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
 import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
 import { regeneratedCases, vnView } from "~/services/envelope.server";
+import { editLoadCases } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
-import { answer, parseBody, refused } from "~/utils/http.server";
+import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/envelope";
-import { CaseRowErrors, CasesPanel, MethodPanel, VnPanel } from "./envelope.panels";
-import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues } from "./envelope.schema";
+import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, VnPanel } from "./envelope.panels";
+import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues, MAX_EDITED_ROWS, WHOLE_GRID_LOAD_CASES } from "./envelope.schema";
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -24,11 +25,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const vn = vnView(inputs, DEFAULT_METHOD);
+  const values = envelopeFormValues(inputs.envelope, units);
+  const total = values.cases.length;
+  // A large case file is not sent whole: the page carries the first rows, the grid fetches the rest as they scroll into view.
+  const windowed = total > WHOLE_GRID_LOAD_CASES;
   return {
+    caseId: c.id,
     units,
     revision: steps.envelope.revision,
     status: steps.envelope.status,
-    values: envelopeFormValues(inputs.envelope, units),
+    values: windowed ? { ...values, cases: [] } : values,
+    window: windowed ? { total, rows: values.cases.slice(0, FIRST_ROWS) } : null,
     sets: vn.sets,
     vnProblem: vn.problem,
     stall: inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null,
@@ -38,15 +45,28 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
-  const parsed = await parseBody(request, EnvelopeFormSchema, { maxRows: MAX_LOAD_CASES });
+  const parsed = await parseBody(request, EnvelopeFormSchema, { maxRows: Math.max(WHOLE_GRID_LOAD_CASES, MAX_EDITED_ROWS) });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const steps = await getCaseSteps(c.id);
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const form = parsed.value;
+  if (form.intent === "rows") {
+    return answer(async () => {
+      const edited = await editLoadCases({
+        caseId: c.id,
+        baseRevision: form.revision,
+        changed: form.changed.map((r) => ({ index: r.index, values: casesToSI([r.row], units)[0]! })),
+        removed: form.removed,
+        added: casesToSI(form.added, units),
+        actor: current.user,
+      });
+      return edited.ok ? accepted(`Saved as revision ${edited.revision}.`, { revision: edited.revision }) : refused(edited.fieldErrors);
+    });
+  }
   const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations, ...(form.strips !== undefined ? { strips: form.strips } : {}) };
   return answer(async () => {
-    const cases = form.intent === "generate" ? regeneratedCases(inputs, method) : casesToSI(form.cases, units);
+    const cases = form.intent === "generate" ? regeneratedCases(inputs, method) : form.intent === "method" ? (inputs.envelope?.cases ?? []) : casesToSI(form.cases, units);
     const si = EnvelopeSchema.safeParse({ ...method, cases });
     if (!si.success) return refused(fieldErrorsOf(si.error));
     return saveStepAnswer({ caseId: c.id, step: "envelope", baseRevision: form.revision, data: si.data, actor: current.user });
@@ -55,7 +75,9 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export default function EnvelopeRoute({ loaderData, actionData }: Route.ComponentProps) {
   const { units } = loaderData;
-  const { form, onSubmit } = useZodForm(EnvelopeFormSchema, { intent: "save", revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
+  const windowed = loaderData.window !== null;
+  const saveIntent = windowed ? "method" : "save";
+  const { form, onSubmit } = useZodForm(EnvelopeFormSchema, { intent: saveIntent, revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
   const busy = useNavigation().state === "submitting";
   const server = actionData?.fieldErrors;
   const disabled = !loaderData.canEdit;
@@ -68,15 +90,18 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
       <CaseRowErrors server={server} />
       <div className="grid gap-5 2xl:grid-cols-2">
         <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} />
-        <Form method="post" onSubmit={onSubmit} noValidate>
-          <input type="hidden" {...form.register("revision")} />
-          <input type="hidden" {...form.register("intent")} />
-          <fieldset disabled={disabled}>
-            <MethodPanel form={form} server={server} disabled={disabled} busy={busy} noDiagram={Boolean(loaderData.vnProblem)} />
-            <CasesPanel form={form} server={server} units={units} disabled={disabled} count={loaderData.values.cases.length} />
-          </fieldset>
-          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save envelope" onSave={() => form.setValue("intent", "save")} />
-        </Form>
+        <div>
+          <Form method="post" onSubmit={onSubmit} noValidate>
+            <input type="hidden" {...form.register("revision")} />
+            <input type="hidden" {...form.register("intent")} />
+            <fieldset disabled={disabled}>
+              <MethodPanel form={form} server={server} disabled={disabled} busy={busy} noDiagram={Boolean(loaderData.vnProblem)} />
+              {windowed ? null : <CasesPanel form={form} server={server} units={units} disabled={disabled} count={loaderData.values.cases.length} />}
+            </fieldset>
+            <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label={windowed ? "Save method" : "Save envelope"} onSave={() => form.setValue("intent", saveIntent)} />
+          </Form>
+          {loaderData.window ? <CasesWindowPanel caseId={loaderData.caseId} first={loaderData.window} revision={loaderData.revision} units={units} canEdit={loaderData.canEdit} status={loaderData.status} /> : null}
+        </div>
       </div>
     </>
   );

@@ -1,0 +1,114 @@
+import { sql } from "drizzle-orm";
+import { db, type Db, type Tx } from "~/db/client.server";
+import { DomainError } from "~/domain/errors";
+import type { Actor } from "~/domain/people";
+import { EnvelopeSchema, LoadCaseSchema, type LoadCase } from "~/domain/step-data";
+import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
+import { getCaseSteps, saveStep, stepData } from "./case-steps.server";
+
+/** Rows one window request may ask for: a screenful or a few, never the whole file. */
+export const MAX_WINDOW_ROWS = 500;
+
+export interface LoadCaseWindow {
+  /** The envelope step's revision the rows belong to (0 before it is saved). */
+  revision: number;
+  /** Load cases in the stored envelope. */
+  total: number;
+  offset: number;
+  cases: LoadCase[];
+}
+
+/**
+ * Rows offset … offset + limit − 1 of the stored load cases and how many there are. PostgreSQL
+ * picks them out of the stored document (element access into a jsonb array), so a case file of
+ * 100 000 cases is never read whole for one screenful.
+ */
+export async function loadCaseWindow(caseId: string, offset: number, limit: number, database: Db | Tx = db): Promise<LoadCaseWindow> {
+  if (!Number.isInteger(offset) || offset < 0)
+    throw new DomainError("offset must be a whole number ≥ 0", {
+      field: "offset",
+    });
+  if (!Number.isInteger(limit) || limit < 1 || limit > MAX_WINDOW_ROWS) throw new DomainError(`limit must be a whole number from 1 to ${MAX_WINDOW_ROWS}`, { field: "limit" });
+  // Materialised: the list is taken out of the stored document once, not once per row asked for.
+  const result = await database.execute<{ revision: number; total: number; cases: unknown[] | null }>(sql`
+    with s as materialized (select revision, data -> 'cases' as cases from case_steps where case_id = ${caseId} and step = 'envelope')
+    select s.revision, coalesce(jsonb_array_length(s.cases), 0)::int as total,
+      (select jsonb_agg(s.cases -> i order by i) from generate_series(${offset}::int, least(${offset + limit}::int, coalesce(jsonb_array_length(s.cases), 0)) - 1) as i) as cases
+    from s`);
+  const row = result.rows[0];
+  if (!row) return { revision: 0, total: 0, offset, cases: [] };
+  return {
+    revision: row.revision,
+    total: row.total,
+    offset,
+    cases: (row.cases ?? []).map((c) => LoadCaseSchema.parse(c)),
+  };
+}
+
+export interface LoadCaseEdits {
+  caseId: string;
+  /** The revision the edits were made on; a save by anyone since refuses them (nothing is written). */
+  baseRevision: number;
+  /** Changed rows by their index in the stored list, whole rows in SI. */
+  changed: { index: number; values: Record<string, unknown> }[];
+  /** Indices of stored rows to remove. */
+  removed: number[];
+  /** New rows, appended after the stored ones, in SI. */
+  added: Record<string, unknown>[];
+  actor: Actor;
+}
+
+/**
+ * Applies edits of single rows to a stored envelope and saves the result as a new revision: the
+ * way a large case file is edited, where the page holds only the rows in view. Every row is
+ * checked with the step's own schema; messages name the row as the person sees it
+ * (`cases.<index>.<field>` for stored rows, `added.<n>.<field>` for new ones) and nothing is written.
+ */
+export async function editLoadCases(input: LoadCaseEdits): Promise<{ ok: true; revision: number } | { ok: false; fieldErrors: FieldErrors }> {
+  const steps = await getCaseSteps(input.caseId);
+  const envelope = stepData(steps, "envelope");
+  if (!envelope) throw new DomainError("The envelope has no load cases yet: save it from the whole grid first.", { field: "revision", kind: "conflict" });
+  if (steps.envelope.revision !== input.baseRevision) {
+    throw new DomainError(`Not saved: the envelope was saved again (revision ${steps.envelope.revision}) after you opened revision ${input.baseRevision}. Reload to see it; your changes were not written.`, {
+      field: "revision",
+      kind: "conflict",
+    });
+  }
+  const total = envelope.cases.length;
+  for (const i of [...input.changed.map((c) => c.index), ...input.removed]) {
+    if (!Number.isInteger(i) || i < 0 || i >= total) throw new DomainError(`Row ${i + 1} does not exist: the envelope has ${total} load cases.`, { field: "cases" });
+  }
+  // Where each row of the new list came from, so that messages name the row the person edited.
+  const rows: unknown[] = envelope.cases.slice();
+  for (const c of input.changed) rows[c.index] = c.values;
+  const removed = new Set(input.removed);
+  const origin: string[] = [];
+  const next: unknown[] = [];
+  rows.forEach((r, i) => {
+    if (removed.has(i)) return;
+    next.push(r);
+    origin.push(`cases.${i}`);
+  });
+  input.added.forEach((r, n) => {
+    next.push(r);
+    origin.push(`added.${n}`);
+  });
+  const parsed = EnvelopeSchema.safeParse({ ...envelope, cases: next });
+  if (!parsed.success) {
+    const errors = fieldErrorsOf(parsed.error);
+    const named: FieldErrors = {};
+    for (const [key, messages] of Object.entries(errors)) {
+      const m = /^cases\.(\d+)(\..*)?$/.exec(key);
+      named[m ? `${origin[Number(m[1])]}${m[2] ?? ""}` : key] = messages;
+    }
+    return { ok: false, fieldErrors: named };
+  }
+  const saved = await saveStep({
+    caseId: input.caseId,
+    step: "envelope",
+    baseRevision: input.baseRevision,
+    data: parsed.data,
+    actor: input.actor,
+  });
+  return { ok: true, revision: saved.revision };
+}
