@@ -1,8 +1,18 @@
 import type { CaseResult } from "./schema";
 
+/**
+ * Text a spreadsheet would run as a formula: it starts with = + - @ (or a tab or carriage return)
+ * and is not simply a number. Such a cell is written with a leading apostrophe (OWASP's advice on
+ * CSV injection), so a load case named "=HYPERLINK(…)" stays text. app/utils/csv.ts applies the
+ * same rule to the pages' CSV downloads.
+ */
+export const FORMULA_START = /^(?![+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$)[=+\-@\t\r]/i;
+
 function cell(v: string | number): string {
   if (typeof v === "number") return String(v);
-  return /[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+  const formula = FORMULA_START.test(v);
+  const text = formula ? `'${v}` : v;
+  return formula || /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /**

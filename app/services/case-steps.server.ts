@@ -3,7 +3,7 @@ import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
 import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
-import { STEP_SCHEMAS } from "~/domain/step-data";
+import { STEP_SCHEMAS, type DistributionData, type EnvelopeData } from "~/domain/step-data";
 import { voidApprovalsAfterEdit } from "./review.server";
 import { memoised } from "~/utils/request-memo.server";
 import type { Actor } from "~/domain/people";
@@ -63,6 +63,20 @@ export async function getCaseUnits(caseId: string, database: Db | Tx = db): Prom
 }
 
 /**
+ * A disposition names a load case of the case's envelope: one for an id the envelope does not
+ * hold would sit in the record, and in the report, as if that case had been judged.
+ */
+async function refuseUnknownLoadCases(tx: Tx, caseId: string, data: DistributionData): Promise<void> {
+  const [envelope] = await tx.select({ data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+  const known = new Set(((envelope?.data as EnvelopeData | null)?.cases ?? []).map((c) => c.id));
+  const unknown = Object.keys(data.dispositions).filter((id) => !known.has(id));
+  if (unknown.length) {
+    const shown = unknown.slice(0, 5).map((id) => JSON.stringify(id)).join(", ");
+    throw new DomainError(`Dispositions name load cases the envelope does not have: ${shown}${unknown.length > 5 ? ` and ${unknown.length - 5} more` : ""}. Disposition only the envelope's cases.`, { field: "dispositions" });
+  }
+}
+
+/**
  * Saves a new revision of a step. `baseRevision` is the revision the person started editing from:
  * if anyone saved since, nothing is written and the person is told who and when (optimistic
  * concurrency). The revision, its hash, the step's new state and the audit entry are one transaction.
@@ -89,6 +103,7 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
     if (row.status === "submitted") {
       throw new DomainError("This step is submitted for check and is read-only until the checker returns or approves it.", { field: "status", kind: "conflict" });
     }
+    if (input.step === "distribution") await refuseUnknownLoadCases(tx, input.caseId, data as DistributionData);
     const revision = row.revision + 1;
     const hash = sha256Hex(canonicalJson(data));
     await tx.insert(stepRevisions).values({ caseId: input.caseId, step: input.step, revision, data, hash, createdBy: input.actor.id });

@@ -1,8 +1,15 @@
 import Papa from "papaparse";
 
-/** CSV text from a header and rows (RFC 4180 quoting by papaparse). */
+// Text a spreadsheet would run as a formula (= + - @, tab, CR first) unless it is simply a number:
+// the same rule as FORMULA_START of app/exchange/csv.ts (a layer this one does not import).
+const FORMULA_START = /^(?![+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$)[=+\-@\t\r]/i;
+
+/**
+ * CSV text from a header and rows (RFC 4180 quoting by papaparse). A text cell a spreadsheet would
+ * run as a formula is written with a leading apostrophe (CSV injection); numbers stay numbers.
+ */
 export function toCsv(header: string[], rows: (string | number | null | undefined)[][]): string {
-  return Papa.unparse({ fields: header, data: rows.map((r) => r.map((v) => (v === null || v === undefined ? "" : v))) }, { newline: "\r\n" });
+  return Papa.unparse({ fields: header, data: rows.map((r) => r.map((v) => (v === null || v === undefined ? "" : v))) }, { newline: "\r\n", escapeFormulae: FORMULA_START });
 }
 
 /** Saves text as a file from the browser. */
