@@ -80,6 +80,8 @@ async function refuseUnknownLoadCases(tx: Tx, caseId: string, data: Distribution
  * Saves a new revision of a step. `baseRevision` is the revision the person started editing from:
  * if anyone saved since, nothing is written and the person is told who and when (optimistic
  * concurrency). The revision, its hash, the step's new state and the audit entry are one transaction.
+ * Data equal to the stored ones make no revision (`unchanged: true`): a new revision would void the
+ * step's approvals for nothing.
  */
 export async function saveStep(input: { caseId: string; step: StepKey; baseRevision: number; data: Record<string, unknown>; actor: Actor }, database: Db | Tx = db) {
   const parsed = STEP_SCHEMAS[input.step].safeParse(input.data);
@@ -104,6 +106,7 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
       throw new DomainError("This step is submitted for check and is read-only until the checker returns or approves it.", { field: "status", kind: "conflict" });
     }
     if (input.step === "distribution") await refuseUnknownLoadCases(tx, input.caseId, data as DistributionData);
+    if (row.data && sameStepData(row.data, data)) return { revision: row.revision, hash: null, unchanged: true as const };
     const revision = row.revision + 1;
     const hash = sha256Hex(canonicalJson(data));
     await tx.insert(stepRevisions).values({ caseId: input.caseId, step: input.step, revision, data, hash, createdBy: input.actor.id });
@@ -120,6 +123,23 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
       before: row.data ? { revision: row.revision, data: row.data } : null,
       after: { revision, hash, data, ...(voided.length ? { voidedSignatures: voided } : {}) },
     });
-    return { revision, hash };
+    return { revision, hash, unchanged: false as const };
   });
+}
+
+/**
+ * Equal step data, numbers within display rounding: a value shown in other units to ten significant
+ * figures (or tidied for an input) and posted back differs from the stored one in its last bits only.
+ */
+export function sameStepData(a: unknown, b: unknown): boolean {
+  if (typeof a === "number" && typeof b === "number") return a === b || Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b));
+  if (Array.isArray(a) || Array.isArray(b)) return Array.isArray(a) && Array.isArray(b) && a.length === b.length && a.every((x, i) => sameStepData(x, b[i]));
+  if (a && b && typeof a === "object" && typeof b === "object") {
+    const ra = a as Record<string, unknown>;
+    const rb = b as Record<string, unknown>;
+    // A key that holds nothing counts as absent (JSON drops undefined when it is stored).
+    const keys = new Set([...Object.keys(ra), ...Object.keys(rb)].filter((k) => ra[k] !== undefined || rb[k] !== undefined));
+    return [...keys].every((k) => sameStepData(ra[k], rb[k]));
+  }
+  return a === b;
 }

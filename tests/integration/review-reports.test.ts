@@ -102,8 +102,21 @@ describe("review of each step", () => {
     await expect(db.execute(sql`UPDATE signatures SET meaning = 'released'`)).rejects.toMatchObject({ cause: expect.objectContaining({ message: expect.stringMatching(/append-only/) }) });
   });
 
-  it("voids the approval of an edited step, of every step downstream and of the case, and says so", async () => {
+  it("makes no revision and voids nothing when a step is saved unchanged, numbers back through display rounding included", async () => {
     expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
+    const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    // As a chord shown in feet to ten figures and typed back comes out in metres.
+    const data = structuredClone(planform!.data) as { stations: { chord: number }[] };
+    data.stations[1]!.chord = Number(((data.stations[1]!.chord / 0.3048).toPrecision(10) as unknown as number) * 0.3048);
+    const saved = await saveStep({ caseId, step: "planform", baseRevision: planform!.revision, data, actor: { id: erin!.id, email: erin!.email } });
+    expect(saved).toMatchObject({ revision: planform!.revision, unchanged: true });
+    expect(await db.select().from(signatureVoids)).toHaveLength(0);
+    const [after] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
+    expect(after).toMatchObject({ revision: planform!.revision, status: "approved" });
+  });
+
+  it("voids the approval of an edited step, of every step downstream and of the case, and says so", async () => {
     const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
     const data = planform!.data as { stations: { chord: number }[] };

@@ -1,6 +1,6 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useEffect, useRef } from "react";
-import { useForm, type DefaultValues, type FieldValues, type UseFormReturn } from "react-hook-form";
+import { get, useForm, type DefaultValues, type FieldValues, type Path, type PathValue, type UseFormRegister, type UseFormReturn } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
 
@@ -15,9 +15,20 @@ export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormRetu
 export function useZodForm<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input>, defaultValues?: DefaultValues<Input>, resetKey?: unknown) {
   const submit = useSubmit();
   const form = useForm<Input, unknown, Output>({ resolver: zodResolver(schema), defaultValues, mode: "onTouched" });
+  // True until the first commit: the ref callbacks of that commit meet the server-rendered inputs.
+  const hydrating = useRef(true);
+  useEffect(() => {
+    hydrating.current = false;
+  }, []);
+  const patched = useRef(false);
+  if (!patched.current) {
+    // Every field of every form (panels and grid cells alike) registers through this one place.
+    form.register = registerKeepingTyped(form, form.register, hydrating);
+    patched.current = true;
+  }
   // A new saved revision (resetKey) replaces what the form holds, including its base revision. Not
-  // on the first render: the form already starts from those values, and what was typed into the
-  // server-rendered page before its scripts ran must be kept (react-hook-form keeps it).
+  // on the first render: the form already starts from those values. Forms are disabled from the
+  // post until the page holds the new revision (useSaving), so nothing typed is replaced here.
   const shownKey = useRef(resetKey);
   useEffect(() => {
     if (resetKey === undefined || shownKey.current === resetKey) return;
@@ -29,6 +40,45 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
     if (el) submit(el, { method: "post" });
   });
   return { form, onSubmit };
+}
+
+type Control = HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement;
+
+/** The value a server-rendered control had before anyone typed into it. */
+function renderedValue(el: Control): string | boolean {
+  if (el instanceof HTMLSelectElement) return [...el.options].find((o) => o.defaultSelected)?.value ?? el.options[0]?.value ?? "";
+  if (el instanceof HTMLInputElement && (el.type === "checkbox" || el.type === "radio")) return el.defaultChecked;
+  return el.defaultValue;
+}
+
+function currentValue(el: Control): string | boolean {
+  return el instanceof HTMLInputElement && (el.type === "checkbox" || el.type === "radio") ? el.checked : el.value;
+}
+
+/**
+ * react-hook-form's register, with two changes that keep what a person typed:
+ * - the control carries its saved value as defaultValue/defaultChecked, so the server-rendered page
+ *   shows the saved values before its scripts run (react-hook-form alone fills inputs from scripts);
+ * - when the scripts start, react-hook-form writes the saved value into each control it registers,
+ *   over anything typed into the page before then; a control whose value differs from what the
+ *   server rendered gets what was typed back, marked as a change.
+ */
+function registerKeepingTyped<T extends FieldValues, O>(form: UseFormReturn<T, unknown, O>, register: UseFormRegister<T>, hydrating: { current: boolean }): UseFormRegister<T> {
+  return (name, options) => {
+    const field = register(name, options);
+    const saved: unknown = get(form.control._defaultValues, name);
+    const initial = typeof saved === "boolean" ? { defaultChecked: saved } : typeof saved === "number" || typeof saved === "string" ? { defaultValue: String(saved) } : {};
+    return {
+      ...field,
+      ...initial,
+      ref: (el: Control | null) => {
+        const typed = el && hydrating.current ? currentValue(el) : undefined;
+        const changed = el !== null && typed !== undefined && typed !== renderedValue(el);
+        field.ref(el);
+        if (changed) form.setValue(name as Path<T>, typed as PathValue<T, Path<T>>, { shouldDirty: true });
+      },
+    };
+  };
 }
 
 /** Messages for one field: the browser's check first, then what the server said. */

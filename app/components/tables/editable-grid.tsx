@@ -1,5 +1,5 @@
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import type { ClipboardEvent, KeyboardEvent, ReactNode } from "react";
+import { useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
 import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
@@ -37,6 +37,25 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
   const emptyRow = props.emptyRow as FieldArray<T, ArrayPath<T>>;
   const helper = createColumnHelper<Record<string, unknown>>();
   const cellId = (row: number, col: number) => `${props.name}-${row}-${col}`;
+  // The server spoke about the values it was sent: a cell changed since then loses its message.
+  const [changed, setChanged] = useState<{ for: unknown; cells: ReadonlySet<string> }>({ for: props.serverErrors, cells: new Set() });
+  const changedCells = changed.for === props.serverErrors ? changed.cells : new Set<string>();
+  const serverMessages = (name: string) => (changedCells.has(name) ? [] : (props.serverErrors?.[name] ?? []));
+  const markChanged = (names: string[]) => {
+    const spoken = names.filter((n) => props.serverErrors?.[n]?.length && !changedCells.has(n));
+    if (spoken.length) setChanged({ for: props.serverErrors, cells: new Set([...changedCells, ...spoken]) });
+  };
+
+  const registered = (name: Path<T>) => {
+    const field = form.register(name);
+    return {
+      ...field,
+      onChange: (e: { target: unknown; type?: unknown }) => {
+        markChanged([name]);
+        return field.onChange(e);
+      },
+    };
+  };
 
   const focusCell = (row: number, col: number) => {
     const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
@@ -68,12 +87,17 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
     const rows = first.some((c) => c !== "" && Number.isNaN(Number(c.replace(",", ".")))) ? cells.slice(1) : cells;
     const missing = row + rows.length - fields.length;
     for (let i = 0; i < missing; i++) append(emptyRow);
+    // Once the form was sent, pasted cells are checked again at once, as typed ones are.
+    const pasted: Path<T>[] = [];
     rows.forEach((values, i) =>
       values.forEach((v, j) => {
         const column = props.columns[col + j];
+        if (column) pasted.push(cell(row + i, column.key));
         if (column) form.setValue(cell(row + i, column.key), v as PathValue<T, Path<T>>, { shouldDirty: true });
       }),
     );
+    markChanged(pasted);
+    if (form.formState.isSubmitted) void form.trigger(pasted);
   };
 
   const columns = [
@@ -84,11 +108,11 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
         header: col.label,
         cell: (c) => {
           const name = cell(c.row.index, col.key);
-          const messages = props.serverErrors?.[name] ?? [];
+          const messages = serverMessages(name);
           const clientError = (get(form.formState.errors, name) as { message?: string } | undefined)?.message;
           const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
           if (col.type === "checkbox") {
-            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...form.register(name)} />;
+            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...registered(name)} />;
           }
           return (
             <div>
@@ -99,7 +123,7 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
                 title={all.join(" ")}
                 inputMode={col.type === "text" ? "text" : "decimal"}
                 className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${col.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
-                {...form.register(name)}
+                {...registered(name)}
                 onKeyDown={onKeyDown(c.row.index, j)}
                 onPaste={onPaste(c.row.index, j)}
               />

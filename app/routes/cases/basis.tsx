@@ -1,4 +1,5 @@
-import { Form, useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
+import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
@@ -42,17 +43,18 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function BasisRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const shown = useSettledAnswer(actionData);
   const { form, onSubmit } = useZodForm(BasisFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
-  const busy = useNavigation().state === "submitting";
-  const fields = { form, server: actionData?.fieldErrors, units: form.watch("units") ?? "SI" };
+  const busy = useSaving();
+  const fields = { form, server: shown?.fieldErrors, units: form.watch("units") ?? "SI" };
   return (
     <>
       <PageHeader title="Basis" description="The certification basis of the case: the rules that apply, weights, design speeds (equivalent airspeed) and altitudes." />
-      <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      <StepAnswer answer={actionData} inline={Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision")} />
+      <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
+      <StepAnswer answer={shown} inline={Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision")} />
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
-        <fieldset disabled={!loaderData.canEdit} className="grid gap-5 xl:grid-cols-2">
+        <fieldset disabled={!loaderData.canEdit || busy} className="grid gap-5 xl:grid-cols-2">
           <BasisRulesPanel {...fields} />
           <BasisWeightsPanel {...fields} />
           <BasisSpeedsPanel {...fields} />

@@ -1,4 +1,5 @@
-import { href, useFetcher, useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
+import { href, useFetcher } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
@@ -32,13 +33,14 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function DistributionRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state !== "idle";
+  const shown = useSettledAnswer(actionData);
+  const busy = useSaving();
   const picked = useFetcher<typeof loaderData.view>();
   const { flags } = loaderData;
   // Another case is fetched from the resource route; the page itself does not navigate.
   const view = picked.data && "y" in picked.data ? picked.data : loaderData.view;
   const show = (id: string) => picked.load(`${href("/api/cases/:caseId/distribution", { caseId: loaderData.caseId })}?case=${encodeURIComponent(id)}`);
-  const errors = Object.entries(actionData && !actionData.ok ? actionData.fieldErrors : {});
+  const errors = Object.entries(shown && !shown.ok ? shown.fieldErrors : {});
   return (
     <>
       <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station; the case by each spanwise method, and the critical cases' root loads under each rule." />
@@ -54,7 +56,7 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
               </Alert>
             </div>
           ) : null}
-          {actionData?.ok ? <div className="mb-3"><Alert tone="info">{actionData.message}</Alert></div> : null}
+          {shown?.ok ? <div className="mb-3"><Alert tone="info">{shown.message}</Alert></div> : null}
           {errors.length ? <div className="mb-3"><Alert>{errors.map(([k, m]) => `${k}: ${m?.join(" ")}`).join(" · ")}</Alert></div> : null}
           {loaderData.method ? <MethodUsedPanel method={loaderData.method} machCriticalSwept={view.machCriticalSwept} /> : null}
           <CasePicker view={view} flags={flags} computing={busy || picked.state !== "idle"} show={show} />

@@ -1,4 +1,5 @@
-import { Form, useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
+import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { StepAnswer } from "~/components/case/step-answer";
@@ -74,27 +75,36 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function EnvelopeRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const shown = useSettledAnswer(actionData);
   const { units } = loaderData;
   const windowed = loaderData.window !== null;
   const saveIntent = windowed ? "method" : "save";
   const { form, onSubmit } = useZodForm(EnvelopeFormSchema, { intent: saveIntent, revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
-  const busy = useNavigation().state === "submitting";
-  const server = actionData?.fieldErrors;
+  const busy = useSaving();
+  const server = shown?.fieldErrors;
   const disabled = !loaderData.canEdit;
+  // Enter in a field saves what was typed. The browser would press the form's first button, which
+  // is "Generate cases": it would replace the cases typed into the grid with generated ones.
+  const saveOnEnter = (e: React.KeyboardEvent<HTMLFormElement>) => {
+    if (e.key !== "Enter" || !(e.target instanceof HTMLInputElement) || e.defaultPrevented) return;
+    e.preventDefault();
+    form.setValue("intent", saveIntent);
+    e.currentTarget.requestSubmit();
+  };
   return (
     <>
       <PageHeader title="Envelope" description="Load cases from the manoeuvre and gust rules of the basis, drawn on the V–n diagram, and the method used for every case of this file." />
       <ResultsCaution />
-      <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      <StepAnswer answer={actionData} inline={["compressibility", "spanwise", "stations", "strips", "cases."]} />
+      <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
+      <StepAnswer answer={shown} inline={["compressibility", "spanwise", "stations", "strips", "cases."]} />
       <CaseRowErrors server={server} />
       <div className="grid gap-5 2xl:grid-cols-2">
         <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} />
         <div>
-          <Form method="post" onSubmit={onSubmit} noValidate>
+          <Form method="post" onSubmit={onSubmit} onKeyDown={saveOnEnter} noValidate>
             <input type="hidden" {...form.register("revision")} />
             <input type="hidden" {...form.register("intent")} />
-            <fieldset disabled={disabled}>
+            <fieldset disabled={disabled || busy}>
               <MethodPanel form={form} server={server} disabled={disabled} busy={busy} noDiagram={Boolean(loaderData.vnProblem)} />
               {windowed ? null : <CasesPanel form={form} server={server} units={units} disabled={disabled} count={loaderData.values.cases.length} />}
             </fieldset>

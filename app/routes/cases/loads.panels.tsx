@@ -54,7 +54,7 @@ export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, r
     <Panel title="Inertia relief">
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
-        <fieldset disabled={!canEdit}>
+        <fieldset disabled={!canEdit || busy}>
           <TextField
             label={`Semispan structural mass [${unitSymbol(units, "mass")}]`}
             hint="Spread in proportion to chord on the reference axis and multiplied by nz·g. 0 for aerodynamic loads only."

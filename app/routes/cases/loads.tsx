@@ -1,5 +1,5 @@
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { useState } from "react";
-import { useNavigation } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { StepAnswer } from "~/components/case/step-answer";
@@ -49,9 +49,10 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function LoadsRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const shown = useSettledAnswer(actionData);
   const { units } = loaderData;
   const { form, onSubmit } = useZodForm(LoadsFormSchema, { revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
-  const busy = useNavigation().state === "submitting";
+  const busy = useSaving();
   const results = useCaseResults(loaderData.caseId, loaderData.ready, loaderData.revision);
   const [selected, setSelected] = useState<string | null>(null);
   const { result } = results;
@@ -65,9 +66,9 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
           {loaderData.axisConvention}
         </p>
       ) : null}
-      <StepAnswer answer={actionData} inline={["semispanMass"]} />
+      <StepAnswer answer={shown} inline={["semispanMass"]} />
       <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
-        <InertiaPanel form={form} onSubmit={onSubmit} server={actionData?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} />
+        <InertiaPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} />
         <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} />
       </div>
       {result && current ? (

@@ -1,4 +1,5 @@
-import { Form, useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
+import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
@@ -47,21 +48,22 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function PlanformRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const shown = useSettledAnswer(actionData);
   const { units, saved } = loaderData;
   const { form, onSubmit } = useZodForm(PlanformFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
-  const busy = useNavigation().state === "submitting";
-  const server = actionData?.fieldErrors;
+  const busy = useSaving();
+  const server = shown?.fieldErrors;
   const preview = useLivePreview(form.watch(), units);
   const disabled = !loaderData.canEdit;
   return (
     <>
       <PageHeader title="Planform" description="The wing from root to tip: stations where chord, leading edge or twist change; straight lines between them." />
-      <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      <StepAnswer answer={actionData} inline={["stations.", "axisRoot", "axisTip"]} />
+      <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
+      <StepAnswer answer={shown} inline={["stations.", "axisRoot", "axisTip"]} />
       <div className="grid gap-5 2xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <Form method="post" onSubmit={onSubmit} noValidate>
           <input type="hidden" {...form.register("revision")} />
-          <fieldset disabled={disabled}>
+          <fieldset disabled={disabled || busy}>
             <StationsPanel form={form} server={server} units={units} disabled={disabled} />
             {disabled ? null : <PanelEntryPanel units={units} onStations={(rows) => form.setValue("stations", rows, { shouldDirty: true })} />}
           </fieldset>

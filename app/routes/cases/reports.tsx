@@ -1,4 +1,4 @@
-import { useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { requireCase } from "~/auth/case-access.server";
 import { canSignWithSso, sign } from "~/auth/signing.server";
 import { ResultsCaution } from "~/components/case/caution";
@@ -45,14 +45,15 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ReportsRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state === "submitting";
+  const shown = useSettledAnswer(actionData);
+  const busy = useSaving();
   const live = useReportProgress(loaderData.caseId, loaderData.pending);
   return (
     <>
       <PageHeader title="Reports" description="Issued versions of this case's report. Each is kept in storage unchanged, with its SHA-256 and every signature behind it." />
       <ResultsCaution />
       {loaderData.signature && !actionData ? <div className="mb-4"><Alert tone={loaderData.signature.ok ? "info" : "danger"}>{loaderData.signature.message}</Alert></div> : null}
-      {actionData?.message ? <div className="mb-4"><Alert tone={actionData.ok ? "info" : "danger"}>{actionData.message}</Alert></div> : null}
+      {shown?.message ? <div className="mb-4"><Alert tone={shown.ok ? "info" : "danger"}>{shown.message}</Alert></div> : null}
       {loaderData.canRequest ? <RequestReportForm first={loaderData.reports.length === 0} busy={busy} pending={loaderData.pending} /> : null}
       {loaderData.reports.length === 0 ? (
         <EmptyState title="No report yet">When the case is approved for issue, the engineer requests the report; it is generated in the background.</EmptyState>

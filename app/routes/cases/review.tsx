@@ -1,4 +1,4 @@
-import { useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { requireCase } from "~/auth/case-access.server";
 import { canSignWithSso, sign } from "~/auth/signing.server";
 import { hasPermission } from "~/domain/permissions";
@@ -66,13 +66,14 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ReviewRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state === "submitting";
+  const shown = useSettledAnswer(actionData);
+  const busy = useSaving();
   return (
     <>
       <PageHeader title="Review" description="Each step is submitted by its engineer, then checked: approved with a signature, or returned with comments. Nobody approves a revision they edited." />
       {loaderData.signature && !actionData ? <div className="mb-4"><Alert tone={loaderData.signature.ok ? "info" : "danger"}>{loaderData.signature.message}</Alert></div> : null}
-      {actionData?.message ? <div className="mb-4"><Alert tone={actionData.ok ? "info" : "danger"}>{actionData.message}</Alert></div> : null}
-      {actionData && !actionData.ok && !actionData.message ? <div className="mb-4"><Alert>{Object.values(actionData.fieldErrors).flat().join(" ")}</Alert></div> : null}
+      {shown?.message ? <div className="mb-4"><Alert tone={shown.ok ? "info" : "danger"}>{shown.message}</Alert></div> : null}
+      {shown && !shown.ok && !shown.message ? <div className="mb-4"><Alert>{Object.values(shown.fieldErrors).flat().join(" ")}</Alert></div> : null}
       <div className="space-y-4">
         {loaderData.steps.map((s, i) => (
           <StepReviewPanel key={s.key} step={s} index={i} selfId={loaderData.selfId} canSubmit={loaderData.canSubmit} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} />

@@ -1,4 +1,5 @@
-import { Form, useFetcher, useNavigation } from "react-router";
+import { Form, useFetcher } from "react-router";
+import { useSaving } from "~/components/forms/use-saving";
 import { sectionFitOption } from "~/charts/section-fit";
 import { Chart } from "~/components/charts/chart";
 import { type ZodForm } from "~/components/forms/use-zod-form";
@@ -143,7 +144,7 @@ export function RicherDataPanel({ rows, canEdit, revision }: { rows: SectionsDat
 }
 
 function UploadPreview({ preview, revision }: { preview: Preview; revision: number }) {
-  const busy = useNavigation().state === "submitting";
+  const busy = useSaving();
   if (preview.kind === "pressures") {
     return (
       <div className="mt-4 border-t border-line pt-3">

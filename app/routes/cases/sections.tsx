@@ -1,4 +1,5 @@
-import { data, Form, useNavigation } from "react-router";
+import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
+import { data, Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
@@ -73,14 +74,15 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function SectionsRoute({ loaderData, actionData }: Route.ComponentProps) {
+  const shown = useSettledAnswer(actionData);
   const { form, onSubmit } = useZodForm(SectionsFormSchema, { intent: "save", revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
-  const busy = useNavigation().state === "submitting";
+  const busy = useSaving();
   const saved = loaderData.saved;
   return (
     <>
       <PageHeader title="Sections" description="Incompressible 2-D section data along the span, from a wind tunnel or a 2-D analysis. Linear between stations; the compressibility rule is applied later." />
-      <UnsavedGuard dirty={form.formState.isDirty && !actionData?.ok} />
-      <StepAnswer answer={actionData} inline={["rows.", "file"]} />
+      <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
+      <StepAnswer answer={shown} inline={["rows.", "file"]} />
       {saved?.source.kind === "upload" ? (
         <p className="mb-3 text-sm text-ink-muted">
           Current data from the uploaded file <strong>{saved.source.filename}</strong> (SHA-256 <code className="text-xs">{saved.source.sha256?.slice(0, 16)}…</code>).
@@ -90,8 +92,8 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
         <Form method="post" onSubmit={onSubmit} noValidate>
           <input type="hidden" {...form.register("intent")} />
           <input type="hidden" {...form.register("revision")} />
-          <fieldset disabled={!loaderData.canEdit}>
-            <SectionGridPanel form={form} server={actionData?.fieldErrors} units={loaderData.units} disabled={!loaderData.canEdit} />
+          <fieldset disabled={!loaderData.canEdit || busy}>
+            <SectionGridPanel form={form} server={shown?.fieldErrors} units={loaderData.units} disabled={!loaderData.canEdit} />
           </fieldset>
           <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" />
         </Form>

@@ -1,0 +1,98 @@
+import { expect, type Browser, type Page } from "@playwright/test";
+import { DEMO_CASE_INPUTS, DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
+
+/** Shared steps of the browser tests: sign-in, a case of one's own, the basis typed in. */
+export const demoUser = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
+
+export async function signIn(page: Page, label: DemoUser["label"]) {
+  const u = demoUser(label);
+  await page.goto("/login");
+  await page.getByLabel("E-mail", { exact: true }).fill(u.email);
+  await page.getByLabel("Password").fill(u.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page).not.toHaveURL(/\/login/);
+}
+
+export async function signedIn(browser: Browser, label: DemoUser["label"]): Promise<Page> {
+  const page = await (await browser.newContext()).newPage();
+  await signIn(page, label);
+  return page;
+}
+
+/** Waits until the page's scripts have run (root.tsx marks html[data-hydrated]). */
+export async function hydrated(page: Page) {
+  await expect(page.locator("html[data-hydrated]")).toHaveCount(1);
+}
+
+/**
+ * A new case of the signed-in engineer with the demo case's planform, sections, envelope and loads
+ * (through the API's export and import, as a user of the API would copy one), and no basis yet.
+ * Each test works on its own copy, so the seeded demo cases stay as other tests expect them.
+ */
+export async function copyOfDemoCase(page: Page, reference: string, opts: { oneCase?: boolean } = {}): Promise<string> {
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  const document = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: { id: string }[] };
+  // Imported cases count as added by hand: with `oneCase` a single one under an id of its own, so
+  // that cases generated from the basis later do not clash with the demo's ids.
+  if (opts.oneCase) document.cases = [{ ...document.cases[0]!, id: "hand-1" }];
+  const created = await page.request.post("/api/v1/cases/import", {
+    data: { programmeId: demo.programme.id, reference, title: `Copy of the demo case (${reference})`, case: document },
+    headers: { Origin: new URL(page.url()).origin },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  return ((await created.json()) as { id: string }).id;
+}
+
+/** The demo basis typed into the basis form in SI units, and saved. */
+export async function typeDemoBasis(page: Page, caseId: string) {
+  await page.goto(`/cases/${caseId}/basis`);
+  await hydrated(page);
+  const b = DEMO_CASE_INPUTS.basis;
+  await page.getByLabel("Category").selectOption(b.category);
+  const fields: [string, number | string][] = [
+    ["Max take-off [kg]", b.mtow],
+    ["Max zero-fuel [kg]", b.mzfw],
+    ["Minimum design [kg]", b.minWeight],
+    ["VS1 [m/s]", b.vs1],
+    ["VA [m/s]", b.va],
+    ["VC [m/s]", b.vc],
+    ["VD [m/s]", b.vd],
+    ["Wing reference area [m²]", b.wingArea],
+    ["Aircraft CLmax", b.clMax],
+    ["Negative CLmax", b.clMaxNegative],
+    ["Altitudes [m]", b.altitudes.join(", ")],
+  ];
+  for (const [label, value] of fields) await page.getByLabel(label).fill(String(value));
+  await page.getByRole("button", { name: "Save basis" }).click();
+  await expect(page.getByRole("status").filter({ hasText: /Saved as revision/ })).toBeVisible();
+}
+
+/** The case as stored, in the exchange format (SI). */
+export async function exported(page: Page, caseId: string) {
+  const res = await page.request.get(`/api/v1/cases/${caseId}/export`);
+  expect(res.ok()).toBe(true);
+  return (await res.json()) as { cases: { id: string; altitude: number; mach: number; weight?: number; nz?: number }[]; wing: { stations: { y: number; chord: number }[] } };
+}
+
+/**
+ * Holds back the page's re-reading of its data after a post (the GET of `<page>.data`), as a busy
+ * server would, until `release` is called: what the page shows in that time is what a person sees
+ * between the answer and the new data. After `release` nothing more is held.
+ */
+export async function holdReloads(page: Page, pageName: string) {
+  let held = true;
+  const waiting: (() => void)[] = [];
+  const matches = (url: URL) => url.pathname.endsWith(`/${pageName}.data`);
+  await page.route(matches, async (route) => {
+    if (held && route.request().method() === "GET") await new Promise<void>((r) => waiting.push(r));
+    await route.continue();
+  });
+  return {
+    release: () => {
+      held = false;
+      waiting.splice(0).forEach((r) => r());
+    },
+    stop: () => page.unroute(matches),
+  };
+}
