@@ -1,12 +1,13 @@
-import { asc, eq } from "drizzle-orm";
+import { and, asc, eq, ne } from "drizzle-orm";
 import { data, redirect } from "react-router";
 import { writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
-import { memberships, users } from "~/db/schema";
+import { memberships, sessions, users } from "~/db/schema";
 import { hasPermission, type Permission } from "~/domain/permissions";
-import { dummyPasswordHash, verifyPassword } from "~/utils/password.server";
+import { dummyPasswordHash, hashPassword, verifyPassword } from "~/utils/password.server";
 import type { CurrentUser } from "~/domain/people";
 import { clearSessionCookie, createSession, deleteAllSessions, deleteSession, readSession } from "./session.server";
+import { reconfirmPassword } from "./reconfirm.server";
 import { checkThrottle, deviceTokenOf, isKnownDevice, recordAttempt, rememberDevice } from "./throttle.server";
 
 /**
@@ -124,4 +125,29 @@ export async function completeSignIn(
   return { ok: true, setCookie, current: { userId: user.id, roles: membership.roles } };
 }
 
-
+/**
+ * Changes the person's own password after their current one (throttled and audited as a
+ * signature's is) and ends every other session of theirs: whoever may have learnt the old password
+ * and signed in with it elsewhere is signed out. This session stays; API tokens are separate
+ * credentials, listed and revoked on the tokens page.
+ * @throws DomainError unauthenticated for a wrong current password, too-many while held back
+ * @returns how many other sessions were ended
+ */
+export async function changeOwnPassword(input: { current: CurrentUser; currentPassword: string; newPassword: string; address: string }): Promise<number> {
+  const { current } = input;
+  await reconfirmPassword({ current, password: input.currentPassword, purpose: "password-change", about: { entityType: "user", entityId: current.user.id, what: "change their password" }, address: input.address, field: "current" });
+  const passwordHash = await hashPassword(input.newPassword);
+  return db.transaction(async (tx) => {
+    await tx.update(users).set({ passwordHash }).where(eq(users.id, current.user.id));
+    const ended = await tx.delete(sessions).where(and(eq(sessions.userId, current.user.id), ne(sessions.id, current.sessionId))).returning({ id: sessions.id });
+    await writeAudit(tx, {
+      organisationId: current.organisation.id,
+      actor: { id: current.user.id, email: current.user.email },
+      action: "auth.password-change",
+      entityType: "user",
+      entityId: current.user.id,
+      after: { otherSessionsEnded: ended.length, address: input.address },
+    });
+    return ended.length;
+  });
+}

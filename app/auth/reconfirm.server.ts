@@ -22,13 +22,16 @@ export async function reconfirmPassword(input: {
   /** What the proof is for, for the audit trail: the record and what was to be done to it. */
   about: { entityType: string; entityId: string; what: string };
   address: string;
+  /** The form field that holds the password, for the refusal's message. */
+  field?: string;
 }): Promise<void> {
   const { current } = input;
+  const field = input.field ?? "password";
   const missing = input.purpose === "signature" ? "Confirm your identity to sign: enter your password." : "Enter your current password.";
-  if (!input.password) throw new DomainError(missing, { field: "password", kind: "unauthenticated" });
+  if (!input.password) throw new DomainError(missing, { field, kind: "unauthenticated" });
   const email = current.user.email.toLowerCase();
   const throttle = await checkThrottle({ purpose: input.purpose, email, device: false });
-  if (!throttle.ok) throw new DomainError(throttle.message, { field: "password", kind: "too-many" });
+  if (!throttle.ok) throw new DomainError(throttle.message, { field, kind: "too-many" });
   const [user] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, current.user.id));
   const valid = user?.passwordHash ? await verifyPassword(user.passwordHash, input.password) : (await verifyPassword(await dummyPasswordHash(), input.password), false);
   await recordAttempt({ purpose: input.purpose, email, address: input.address, device: false, succeeded: valid });
@@ -44,5 +47,5 @@ export async function reconfirmPassword(input: {
     }),
   );
   const wrong = input.purpose === "signature" ? "The password is not correct: the signature was not recorded." : "The current password is not correct.";
-  throw new DomainError(user?.passwordHash ? wrong : `${wrong} Your account has no password: use company sign-in.`, { field: "password", kind: "unauthenticated" });
+  throw new DomainError(user?.passwordHash ? wrong : `${wrong} Your account has no password: use company sign-in.`, { field, kind: "unauthenticated" });
 }
