@@ -11,8 +11,12 @@ import { validateStations, wingGeometry } from "./planform";
 export const PLAUSIBLE = {
   /** Semispan, m: smaller than a hand-launched model, larger than any aeroplane built (117 m span [M]). */
   semispan: { min: 0.05, max: 150, warnMin: 0.5, warnMax: 60 },
-  /** Chord at a station, m. */
-  chord: { max: 100, warnMax: 30 },
+  /**
+   * Chord at a station, m. Relative to the largest chord: below `minFraction` refused (a pointed tip is
+   * given a small chord, as ellipticWing's 1e-4; elsewhere the section cl would grow without bound),
+   * a root chord below `warnRootFraction` warned of.
+   */
+  chord: { max: 100, warnMax: 30, minFraction: 1e-4, warnRootFraction: 0.05 },
   /** Whole-wing aspect ratio b²/S. */
   aspectRatio: { min: 0.5, max: 100, warnMin: 3, warnMax: 40 },
   /** Quarter-chord sweep of any panel, deg (either way). */
@@ -35,6 +39,15 @@ export const PLAUSIBLE = {
   nz: { max: 20, warnMin: -5, warnMax: 10 },
   /** Whole-aircraft weight, N. */
   weight: { max: 2e7 },
+  /** Any mass of one semispan (structure or item), kg: the heaviest aeroplane built weighs about 6.4·10⁵ kg [M]. */
+  massKg: { max: 1e6 },
+  /** Balancing tail load, N (either way): no larger than the heaviest weight accepted. */
+  tailLoad: { max: 2e7 },
+  /**
+   * Streamwise position of a mass item, in chords of the largest chord beyond the wing's leading and
+   * trailing edges: engines on pylons and tip stores sit within about one chord ahead [M].
+   */
+  massItemXChords: { max: 3 },
   /** Wing loading nz = 1, W/S, N/m². */
   wingLoading: { warnMin: 20, warnMax: 10000 },
   /** Mach number above which an unchecked critical Mach number is warned of. */
@@ -79,18 +92,25 @@ export function wingPlausibility(stations: readonly WingStation[]): WingPlausibi
     if (v < lo || v > hi) refusals.push({ field, message: `${fmt(v)} is outside ${fmt(lo)} to ${fmt(hi)}${what}` });
   };
   const unusual: string[] = [];
+  const maxChord = Math.max(...stations.map((s) => s.chord));
   stations.forEach((s, i) => {
     const f = (k: string) => `wing.stations[${i}].${k}`;
     if (s.chord > P.chord.max) refusals.push({ field: f("chord"), message: `${fmt(s.chord)} m is more than ${P.chord.max} m, larger than any wing` });
-    else if (s.chord > P.chord.warnMax) unusual.push(`chord ${fmt(s.chord)} m at y = ${fmt(s.y)} m`);
+    else if (s.chord < P.chord.minFraction * maxChord) {
+      refusals.push({
+        field: f("chord"),
+        message: `${fmt(s.chord)} m is less than ${P.chord.minFraction} of the largest chord (${fmt(maxChord)} m): the section cl there would grow without bound`,
+      });
+    } else if (s.chord > P.chord.warnMax) unusual.push(`chord ${fmt(s.chord)} m at y = ${fmt(s.y)} m`);
+    else if (i === 0 && s.chord < P.chord.warnRootFraction * maxChord) unusual.push(`root chord ${fmt(s.chord)} m, under ${P.chord.warnRootFraction * 100} % of the largest`);
     range(f("twist"), s.twist, -P.twistDeg.max, P.twistDeg.max, " deg: a twist beyond any wing (linear theory)");
     if (Math.abs(s.twist) > P.twistDeg.warnMax && Math.abs(s.twist) <= P.twistDeg.max) unusual.push(`twist ${fmt(s.twist)}° at y = ${fmt(s.y)} m`);
     if (s.a0 < P.a0.min || s.a0 > P.a0.max) {
       refusals.push({
         field: f("a0"),
         message:
-          // validateStations has refused a0 ≤ 0, so a small positive slope is the per-degree mistake.
-          s.a0 < 0.25
+          // validateStations has refused a0 ≤ 0; 0.05–0.25 is where a per-degree slope (2π/57.3 = 0.11) would lie.
+          s.a0 >= 0.05 && s.a0 < 0.25
             ? `${fmt(s.a0)} is per radian: it looks like a per-degree value (multiply by 57.3); sections have about 2π = 6.28 per radian`
             : `${fmt(s.a0)} per radian is outside ${P.a0.min} to 4π = 12.57: thin-airfoil theory gives 2π, thickness adds a little`,
       });

@@ -85,6 +85,57 @@ describe("impossible input is refused, naming the field (the audit's examples)",
   });
 });
 
+describe("absurd values in every field are refused naming that field and its rule (an engineer's sweep of 0, −1, 1e-300, 1e6, 1e15, 1e308 and 1e999)", () => {
+  const alphaCase = [{ id: "c", mach: 0.3, altitude: 0, alpha: 2 }];
+  const trimmed = [{ id: "c", mach: 0.3, altitude: 0, weight: 60000, nz: 1 }];
+  const withMass = (mass: Record<string, unknown>, cases: Record<string, unknown>[] = trimmed) => ({ ...doc(wing(), cases), wing: { ...wing(), mass } });
+
+  it("a root chord of 1e-300 m (which ran, giving a section cl of 1e298) is refused as smaller than any wing's chord", () => {
+    const w = wing();
+    w.stations[0] = { ...w.stations[0]!, chord: 1e-300 };
+    expect(refusal(doc(w, trimmed))).toEqual({ path: "wing.stations[0].chord", message: expect.stringMatching(/less than 0\.0001 of the largest chord \(0\.9 m\)/) });
+  });
+
+  it("a root chord under 5 % of the largest runs with a warning naming it; a pointed tip does not", () => {
+    const w = wing();
+    w.stations[0] = { ...w.stations[0]!, chord: 0.02 };
+    expect(run(doc(w, alphaCase)).cases[0].warnings.join(" ")).toMatch(/root chord 0\.02 m, under 5 % of the largest/);
+    const pointed = wing();
+    pointed.stations[1] = { ...pointed.stations[1]!, chord: 0.01 };
+    expect(run(doc(pointed, alphaCase)).cases[0].warnings.join(" ")).not.toMatch(/chord/);
+  });
+
+  it("a structural mass or an item of 1e6, 1e15 or 1e308 kg names its own kg (the refusal named the case's weight, with Infinity N)", () => {
+    for (const kg of [2e6, 1e15, 1e308]) {
+      expect(problems(withMass({ kg }))).toEqual([{ path: "wing.mass.kg", message: expect.stringMatching(/at most 1e\+6 kg/) }]);
+      expect(problems(withMass({ kg: 100, items: [{ id: "e", kg, x: 0.5, y: 2 }] }))).toEqual([{ path: "wing.mass.items[0].kg", message: expect.stringMatching(/at most 1e\+6 kg/) }]);
+    }
+  });
+
+  it("a mass item 1e6 m or 1e308 m aft of the wing (which ran, or overflowed naming the case) is refused naming its x", () => {
+    for (const x of [1e6, -1e6, 1e308]) {
+      const p = problems(withMass({ kg: 100, items: [{ id: "e", kg: 50, x, y: 2 }] }));
+      expect(p).toEqual([{ path: "wing.mass.items[0].x", message: expect.stringMatching(/must lie within 3 of the largest chords \(2 m\) of the wing, -6 to 8 m/) }]);
+    }
+    // An engine a chord ahead of the leading edge is a usual place.
+    expect(problems(withMass({ kg: 100, items: [{ id: "e", kg: 50, x: -2, y: 2 }] }))).toEqual([]);
+  });
+
+  it("a tail load of 1e15 N names the tail load (the refusal named nz)", () => {
+    const p = problems(doc(wing(), [{ id: "c", mach: 0.3, altitude: 0, weight: 60000, nz: 1, tailLoad: 1e15 }]));
+    expect(p).toEqual([{ path: "cases[0].tailLoad", message: expect.stringMatching(/within ±2e\+7 N/) }]);
+  });
+
+  it("a0 = 1e-300 is refused as out of range, not called a per-degree value", () => {
+    expect(problems(doc(wing({ a0: 1e-300 }), alphaCase))[0]).toEqual({ path: "wing.stations[0].a0", message: expect.stringMatching(/outside 2 to 4π/) });
+  });
+
+  it("a number too large for a double (1e999 in the JSON reads as Infinity) is called not finite", () => {
+    const d = JSON.parse(JSON.stringify(doc(wing(), alphaCase)).replace('"altitude":0', '"altitude":1e999'));
+    expect(problems(d)).toEqual([{ path: "cases[0].altitude", message: "must be a finite number (got Infinity)" }]);
+  });
+});
+
 describe("malformed stations are named, never thrown (a chord of 0 crashed the parser)", () => {
   const at = (i: number, over: Record<string, number>) => {
     const w = wing();

@@ -14,7 +14,8 @@ export const MAX_OUTPUT_STATIONS = 400;
 /** Fewest vortex-lattice strips per semispan accepted in `method.strips`. */
 export const MIN_STRIPS = 8;
 
-const typeError = (what: string) => (iss: { input?: unknown }) => (iss.input === undefined ? "is required" : `must be ${what}`);
+const typeError = (what: string) => (iss: { input?: unknown }) =>
+  iss.input === undefined ? "is required" : typeof iss.input === "number" && !Number.isFinite(iss.input) ? `must be a finite number (got ${iss.input})` : `must be ${what}`;
 const num = () => z.number({ error: typeError("a number") });
 
 export const StationSchema = z.strictObject({
@@ -38,6 +39,8 @@ export const AxisSchema = z.strictObject({
   tipChordFraction: fraction.default(0.25),
 });
 
+const massRule = `must be at most ${PLAUSIBLE.massKg.max.toExponential(0)} kg (one semispan; the heaviest aeroplane built weighs about 6.4e+5 kg)`;
+
 const itemId = z.string({ error: typeError("a string") }).min(1, { error: "must not be empty" });
 
 /**
@@ -48,7 +51,7 @@ const itemId = z.string({ error: typeError("a string") }).min(1, { error: "must 
 export const MassItemSchema = z
   .strictObject({
     id: itemId,
-    kg: num().min(0, { error: "must be 0 or more (kg)" }),
+    kg: num().min(0, { error: "must be 0 or more (kg)" }).max(PLAUSIBLE.massKg.max, { error: massRule }),
     x: num(),
     y: num().optional(),
     yFrom: num().optional(),
@@ -70,7 +73,7 @@ export const MassItemSchema = z
 
 export const MassSchema = z
   .strictObject({
-    kg: num().gt(0, { error: "must be greater than 0 (kg, one semispan)" }).optional(),
+    kg: num().gt(0, { error: "must be greater than 0 (kg, one semispan)" }).max(PLAUSIBLE.massKg.max, { error: massRule }).optional(),
     distribution: z.literal("chord", { error: 'must be "chord" (mass spread in proportion to chord)' }).default("chord"),
     items: z.array(MassItemSchema).optional(),
   })
@@ -112,10 +115,21 @@ export const WingSchema = z
     });
     const semispan = w.stations[w.stations.length - 1]?.y ?? 0;
     const inside = `must lie inside the semispan, 0 to ${semispan} m`;
+    // Streamwise: within a few of the largest chords of the wing's leading and trailing edges.
+    const cMax = Math.max(...w.stations.map((s) => s.chord));
+    const xFront = Math.min(...w.stations.map((s) => s.xLe)) - PLAUSIBLE.massItemXChords.max * cMax;
+    const xBack = Math.max(...w.stations.map((s) => s.xLe + s.chord)) + PLAUSIBLE.massItemXChords.max * cMax;
     w.mass?.items?.forEach((it, i) => {
       for (const k of ["y", "yFrom", "yTo"] as const) {
         const v = it[k];
         if (v !== undefined && !(v >= 0 && v <= semispan)) ctx.addIssue({ code: "custom", path: ["mass", "items", i, k], message: inside });
+      }
+      if (w.stations.length && !(it.x >= xFront && it.x <= xBack)) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["mass", "items", i, "x"],
+          message: `must lie within ${PLAUSIBLE.massItemXChords.max} of the largest chords (${Number(cMax.toPrecision(4))} m) of the wing, ${Number(xFront.toPrecision(6))} to ${Number(xBack.toPrecision(6))} m (streamwise, same origin as xLe)`,
+        });
       }
     });
     // Plausible ranges (docs/engine.md). A malformed station list (chord or a0 not above 0, y out of
@@ -150,6 +164,7 @@ export const MethodSchema = z.strictObject({
 
 const alphaRule = `must be within ±${PLAUSIBLE.alphaDeg.max}° (beyond it the linear, attached-flow methods mean nothing)`;
 const nzRule = `must be within ±${PLAUSIBLE.nz.max} (more than any aircraft structure is designed for)`;
+const tailRule = `must be within ±${PLAUSIBLE.tailLoad.max.toExponential(0)} N (no larger than the heaviest weight accepted)`;
 const altitudeRule = `must be between ${ISA_MIN_ALTITUDE} and ${ISA_MAX_ALTITUDE} m (geopotential, standard atmosphere range)`;
 
 export const CaseSchema = z.strictObject({
@@ -171,7 +186,10 @@ export const CaseSchema = z.strictObject({
     .max(PLAUSIBLE.nz.max, { error: nzRule })
     .optional(),
   massCase: z.string({ error: typeError("a string") }).optional(),
-  tailLoad: num().optional(),
+  tailLoad: num()
+    .min(-PLAUSIBLE.tailLoad.max, { error: tailRule })
+    .max(PLAUSIBLE.tailLoad.max, { error: tailRule })
+    .optional(),
 });
 
 export const CaseFileSchema = z
