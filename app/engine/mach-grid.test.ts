@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { joukowski, joukowskiTable } from "../../tests/fixtures/engine/joukowski";
 import type { CompressibilityRule } from "./compressibility";
 import { evaluateCase } from "./load-case";
 import { buildMachGrid, MACH_GRID_DEFAULTS, solutionDifference } from "./mach-grid";
@@ -39,6 +40,25 @@ describe("Mach grid: many distinct Mach numbers from a few solves, with a checke
       const scale = Math.max(...a.bending.map(Math.abs)) / Math.max(a.CL, 1);
       expect(Math.abs(a.root.bending - b.root.bending)).toBeLessThan(2 * MACH_GRID_DEFAULTS.tolerance * scale * Math.max(a.CL, 1));
       expect(b.warnings.filter((w) => !/clMax/.test(w))).toEqual(a.warnings.filter((w) => !/clMax/.test(w)));
+    }
+  });
+
+  it("with chordwise pressures: the point-by-point scaling at each case's own Mach number, the distributions within the tolerance", () => {
+    // Exact incompressible pressures of a Joukowski section (closed form, tests/fixtures/engine/joukowski.ts).
+    const sec = joukowski(0.1, 0.04);
+    const xs = Array.from({ length: 61 }, (_, k) => 0.5 * (1 - Math.cos((Math.PI * k) / 60)));
+    const pressures = [-2, 0, 2, 4].map((alphaDeg) => ({ alphaDeg, ...joukowskiTable(sec, alphaDeg, xs) }));
+    const withPressures: WingModel = { ...model, stations: stations.map((s, i) => (i < 2 ? { ...s, pressures } : s)) };
+    const opts: SolveOptions = { spanwise: "vortex-lattice", rule: "karman-tsien", stations: 20, resolution: 30 };
+    const grid = buildMachGrid(withPressures, opts, 0.2, 0.6);
+    for (const m of sample(0.2, 0.6, 6)) {
+      const direct = solveMach(withPressures, m, opts);
+      const interpolated = grid.solutionAt(m);
+      expect(interpolated.sectionScaling).toEqual(direct.sectionScaling);
+      expect(interpolated.sectionScaling).toContain("point-by-point");
+      expect(interpolated.scale).toEqual(direct.scale);
+      expect(interpolated.cm).toEqual(direct.cm);
+      expect(solutionDifference(direct, interpolated)).toBeLessThan(MACH_GRID_DEFAULTS.tolerance);
     }
   });
 

@@ -1,6 +1,8 @@
 import type { CompressibilityRule } from "./compressibility";
 import { ruleDenominator } from "./compressibility";
-import { compressibleSectionAt, DEG } from "./spanwise";
+import type { SectionAt } from "./planform";
+import { sectionAt } from "./planform";
+import { DEG, sectionRuleScaling } from "./spanwise";
 import type { MachSolution, SolveOptions, WingModel } from "./superposition";
 import { solveMach, stallOf, uncheckedMachWarning } from "./superposition";
 
@@ -86,13 +88,41 @@ function combine(values: unknown[], w: number[]): unknown {
     for (let i = 0; i < values.length; i++) s += w[i] * (values[i] as number);
     return s;
   }
-  if (Array.isArray(first)) return first.map((_, k) => combine(values.map((v) => (v as unknown[])[k]), w));
+  if (Array.isArray(first)) {
+    // Arrays of numbers (every distribution) in one loop, without an array per element: a sweep of
+    // 100 000 distinct Mach numbers interpolates them once per case.
+    const arrays = values as unknown[][];
+    const out = new Array(first.length);
+    for (let k = 0; k < first.length; k++) {
+      const v0 = first[k];
+      let same = true;
+      for (let i = 1; i < arrays.length; i++) if (arrays[i][k] !== v0) same = false;
+      if (same) out[k] = v0;
+      else if (typeof v0 === "number") {
+        let s = 0;
+        for (let i = 0; i < arrays.length; i++) s += w[i] * (arrays[i][k] as number);
+        out[k] = s;
+      } else out[k] = combine(arrays.map((a) => a[k]), w);
+    }
+    return out;
+  }
   if (first !== null && typeof first === "object") {
     const out: Record<string, unknown> = {};
     for (const key of Object.keys(first)) out[key] = combine(values.map((v) => (v as Record<string, unknown>)[key]), w);
     return out;
   }
   return first;
+}
+
+/** Deep equality of plain data (numbers, strings, null, arrays, objects). */
+function sameData(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (Array.isArray(a)) return Array.isArray(b) && a.length === b.length && a.every((v, i) => sameData(v, b[i]));
+  if (a !== null && b !== null && typeof a === "object" && typeof b === "object") {
+    const ka = Object.keys(a);
+    return ka.length === Object.keys(b).length && ka.every((k) => sameData((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+  }
+  return false;
 }
 
 /**
@@ -175,7 +205,18 @@ export function* machGridSteps(model: WingModel, opts: SolveOptions, machMin: nu
     yield count;
   }
   const sortedBetas = () => [...nodes.keys()].sort((a, b) => b - a);
+  // The section data at the output stations do not depend on Mach: found once, scaled per Mach number.
+  const first = nodes.get(bHi)!;
+  const sections = first.y.map((y) => sectionAt(model.stations, y));
+  // Fields equal at every node (geometry, mass loads, section data) are shared, not interpolated.
+  let varying: (keyof MachSolution)[] = [];
+  let varyingOf = -1;
   const interpolate = (betas: number[], b: number, mach: number): MachSolution => {
+    if (varyingOf !== nodes.size) {
+      const all = [...nodes.values()];
+      varying = (Object.keys(first) as (keyof MachSolution)[]).filter((k) => !EXACT_AT_ANY_MACH.has(k) && all.some((s) => !sameData(s[k], first[k])));
+      varyingOf = nodes.size;
+    }
     // The four nearest nodes around b (fewer where the grid is smaller).
     let i = 0;
     while (i < betas.length - 2 && betas[i + 1] > b) i++;
@@ -183,8 +224,9 @@ export function* machGridSteps(model: WingModel, opts: SolveOptions, machMin: nu
     const stencil = betas.slice(lo, lo + 4);
     const w = lagrangeWeights(stencil, b);
     const sols = stencil.map((x) => nodes.get(x)!);
-    const out = combine(sols, w) as MachSolution;
-    return exactAt(model, opts.rule, out, mach);
+    const out: Record<string, unknown> = { ...first };
+    for (const k of varying) out[k] = combine(sols.map((s) => s[k]), w);
+    return exactAt(model, opts.rule, out as unknown as MachSolution, mach, sections);
   };
   // Refine until every interval's midpoint agrees with a direct solve, or the interval is too narrow.
   const mids = new Map<number, MachSolution>();
@@ -242,9 +284,12 @@ export function* machGridSteps(model: WingModel, opts: SolveOptions, machMin: nu
   };
 }
 
-/** Put back what is exact at any Mach number into an interpolated solution. */
-function exactAt(model: WingModel, rule: CompressibilityRule, sol: MachSolution, mach: number): MachSolution {
-  const secs = sol.y.map((y) => compressibleSectionAt(model.stations, y, rule, mach));
+/** The fields exactAt computes at the case's own Mach number (never interpolated). */
+const EXACT_AT_ANY_MACH = new Set<keyof MachSolution>(["mach", "beta", "scale", "sectionScaling", "cm", "stall", "warnings"]);
+
+/** Put back what is exact at any Mach number into an interpolated solution (`sections`: the section data at its stations). */
+function exactAt(model: WingModel, rule: CompressibilityRule, sol: MachSolution, mach: number, sections: readonly SectionAt[]): MachSolution {
+  const secs = sections.map((s) => sectionRuleScaling(model.stations, s, rule, mach));
   const out: MachSolution = {
     ...sol,
     mach,

@@ -51,6 +51,8 @@ function stationScalings(stations: readonly WingStation[], rule: Compressibility
   const key = `${rule}@${mach}`;
   let list = byKey.get(key);
   if (!list) {
+    // A sweep of many distinct Mach numbers would otherwise keep one entry for each.
+    if (byKey.size >= 64) byKey.clear();
     list = stations.map((st) => {
       if (!st.pressures) return null;
       const s = pointByPointScaling(st.pressures, rule, mach);
@@ -74,6 +76,23 @@ export function compressibleSectionAt(
   mach: number,
 ): CompressibleSection {
   const s = sectionAt(stations, y);
+  const r = sectionRuleScaling(stations, s, rule, mach);
+  return { ...s, alphaL0: s.alphaL0 + r.alphaL0Shift, scale: r.scale, a: r.scale * s.a0, cm: r.cm, singular: r.singular, scaling: r.scaling };
+}
+
+/** What the rule changes in the section data `s` at its y (see compressibleSectionAt), without copying them. */
+export interface SectionRuleScaling {
+  scale: number;
+  /** Added to αL0, deg (point by point only; 0 otherwise). */
+  alphaL0Shift: number;
+  cm: number;
+  singular: boolean;
+  scaling: SectionScaling;
+}
+
+/** The rule's scaling of the section data `s` (= sectionAt(stations, s.y)) at a Mach number: compressibleSectionAt's part that depends on Mach. */
+export function sectionRuleScaling(stations: readonly WingStation[], s: SectionAt, rule: CompressibilityRule, mach: number): SectionRuleScaling {
+  const y = s.y;
   if (stations.some((st) => st.pressures)) {
     const n = stations.length;
     let i = 0;
@@ -87,10 +106,8 @@ export function compressibleSectionAt(
     const k = mix((x) => x.slopeRatio);
     if (k !== undefined) {
       return {
-        ...s,
-        alphaL0: s.alphaL0 + mix((x) => x.alphaL0Shift)!,
         scale: k,
-        a: k * s.a0,
+        alphaL0Shift: mix((x) => x.alphaL0Shift)!,
         cm: mix((x) => x.cm)!,
         singular: Boolean((t < 1 && u?.singular) || (t > 0 && v?.singular)),
         scaling: "point-by-point",
@@ -99,7 +116,7 @@ export function compressibleSectionAt(
   }
   const { factor, singular } = sectionScaleFactor(rule, mach, s.cpMin);
   const scaling: SectionScaling = rule === "prandtl-glauert" || s.cpMin === undefined || singular ? "prandtl-glauert" : "at-cp-min";
-  return { ...s, scale: factor, a: factor * s.a0, cm: factor * s.cmAc, singular, scaling };
+  return { scale: factor, alphaL0Shift: 0, cm: factor * s.cmAc, singular, scaling };
 }
 
 /** Critical Mach number of the section at y under a rule, or null where it gives no cpMin. */

@@ -96,11 +96,18 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
       yield { phase: "solves", done: (solves = step.value) };
     }
   }
+  // Direct solves are kept per Mach number. Interpolated ones are cheap and, in a sweep of 100 000
+  // distinct Mach numbers, would fill the heap: only the last one is kept (cases often repeat a Mach).
   const solutions = new Map<number, MachSolution>();
+  let last: MachSolution | undefined;
   const solutionFor = (m: number): MachSolution => {
+    if (grid) {
+      if (last?.mach !== m) last = grid.solutionAt(m);
+      return last;
+    }
     let sol = solutions.get(m);
     if (!sol) {
-      sol = grid ? grid.solutionAt(m) : solveMach(model, m, opts);
+      sol = solveMach(model, m, opts);
       solutions.set(m, sol);
     }
     return sol;
