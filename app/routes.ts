@@ -41,6 +41,7 @@ export default [
   route("api/cases/:caseId/rule-sensitivity", "routes/api/case-rule-sensitivity.ts"),
   route("api/cases/:caseId/spanwise-methods", "routes/api/case-spanwise-methods.ts"),
   route("api/cases/:caseId/load-cases", "routes/api/case-load-cases.ts"),
+  route("api/cases/:caseId/loads", "routes/api/case-loads.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

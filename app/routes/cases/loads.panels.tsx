@@ -11,19 +11,22 @@ import { sweepFraction, type SweepProgressView } from "~/domain/results";
 import type { StepStatus } from "~/domain/vocabulary";
 import { formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseResult, ResultCase } from "~/exchange";
+import type { LoadsView } from "~/services/loads-view.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { LoadsFormSchema } from "./loads.schema";
 
-type ResultsResponse = CaseResult | { error: string; message: string } | { status: "computing"; message: string; progress: SweepProgressView | null };
+type ResultsResponse = LoadsView | { error: string; message: string } | { status: "computing"; message: string; progress: SweepProgressView | null };
 
 /**
- * The case's results from the API, loaded again whenever the loads step gets a new revision, so a
- * change of inputs re-computes without a full navigation. A large sweep is solved by a worker: the
- * route answers "computing" and is asked again each second until the result is stored.
+ * What the page shows of the case's results (the envelope, the root loads of at most 500 cases and
+ * the case on the plots, never the whole result document), loaded again whenever the loads step gets
+ * a new revision or another case is chosen, so a change of inputs re-computes without a full
+ * navigation. A large sweep is solved by a worker: the route answers "computing" and is asked again
+ * each second until the result is stored.
  */
-export function useCaseResults(caseId: string, ready: boolean, revision: number) {
+export function useCaseResults(caseId: string, ready: boolean, revision: number, selected: string | null) {
   const results = useFetcher<ResultsResponse>();
-  const url = href("/api/v1/cases/:caseId/results", { caseId });
+  const url = `${href("/api/cases/:caseId/loads", { caseId })}${selected ? `?case=${encodeURIComponent(selected)}` : ""}`;
   const [loadedFor, setLoadedFor] = useState<number | null>(null);
   useEffect(() => {
     if (!ready) return;
@@ -39,7 +42,7 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number)
     return () => clearTimeout(t);
   }, [computing, data]);
   return {
-    result: data && "schema" in data ? data : null,
+    result: data && "envelope" in data ? data : null,
     failure: data && "error" in data ? data.message : null,
     computing,
     progress,
@@ -71,6 +74,7 @@ export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, r
 
 /** Where the results stand: not ready, computing, refused, or how many cases with the root bending envelope. */
 export function ResultsStatus({ ready, caseCount, results, current, onSelect, units }: { ready: boolean; caseCount: number; results: ReturnType<typeof useCaseResults>; current: ResultCase | null; onSelect: (id: string) => void; units: UnitSystem }) {
+  const listed = results.result ? (results.result.cases.some((c) => c.id === current?.id) || !current ? results.result.cases : [current, ...results.result.cases]) : [];
   const { result, failure, computing, progress, loadedFor } = results;
   // A sweep on the job worker shows how far it has got; a request the page waits on only that it runs.
   const fraction = progress ? sweepFraction(progress) : null;
@@ -98,14 +102,14 @@ export function ResultsStatus({ ready, caseCount, results, current, onSelect, un
       ) : result && current ? (
         <div className="rounded border border-line bg-surface p-4 text-sm">
           <p>
-            <strong>{result.cases.length}</strong> cases analysed (engine {result.engine}) from the inputs at loads revision {loadedFor}. Root bending envelope:{" "}
+            <strong>{result.caseCount}</strong> cases analysed (engine {result.engine}) from the inputs at loads revision {loadedFor}. Root bending envelope:{" "}
             <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMax)}</strong> ({env[0]?.bendingMaxCase}) /{" "}
             <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMin)}</strong> ({env[0]?.bendingMinCase}).
           </p>
           <label className="mt-2 block">
             <span className="mr-2 font-semibold">Case shown on the plots</span>
             <select value={current.id} onChange={(e) => onSelect(e.target.value)} className="rounded border border-line-strong px-2 py-1">
-              {result.cases.map((c) => (
+              {listed.map((c) => (
                 <option key={c.id} value={c.id}>
                   {c.id}
                 </option>
@@ -167,7 +171,7 @@ export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envel
 
 const round = (v: number) => Number(v.toPrecision(5));
 
-export function RootLoadsTable({ cases, units }: { cases: ResultCase[]; units: UnitSystem }) {
+export function RootLoadsTable({ cases, units }: { cases: Omit<ResultCase, "stations">[]; units: UnitSystem }) {
   const F = unitSymbol(units, "force");
   const M = unitSymbol(units, "moment");
   return (

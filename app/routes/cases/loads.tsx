@@ -7,7 +7,6 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { tidy } from "~/domain/form-values";
 import { hasPermission } from "~/domain/permissions";
-import { criticalCase } from "~/domain/results";
 import { LoadsSchema } from "~/domain/step-data";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { fromSI, toSI } from "~/domain/units";
@@ -53,10 +52,10 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
   const { units } = loaderData;
   const { form, onSubmit } = useZodForm(LoadsFormSchema, { revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
   const busy = useSaving();
-  const results = useCaseResults(loaderData.caseId, loaderData.ready, loaderData.revision);
   const [selected, setSelected] = useState<string | null>(null);
+  const results = useCaseResults(loaderData.caseId, loaderData.ready, loaderData.revision, selected);
   const { result } = results;
-  const current = result?.cases.find((c) => c.id === selected) ?? (result ? criticalCase(result.cases) : null);
+  const current = result?.current ?? null;
   return (
     <>
       <PageHeader title="Loads" description="Shear, bending moment and torsion about the reference axis along the span for every case, net of inertia relief, and their envelope." />
@@ -74,7 +73,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
       {result && current ? (
         <div className={results.loading ? "opacity-50" : undefined} aria-busy={results.loading}>
           <LoadsCharts envelope={result.envelope} current={current} units={units} />
-          <Panel title="Root loads, every case" className="mt-5">
+          <Panel title={result.cases.length < result.caseCount ? `Root loads, the ${result.cases.length} most critical of ${result.caseCount} cases` : "Root loads, every case"} className="mt-5">
             <RootLoadsTable cases={result.cases} units={units} />
           </Panel>
           <EnvelopeTable envelope={result.envelope} units={units} />

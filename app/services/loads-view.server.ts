@@ -1,0 +1,69 @@
+import { LRUCache } from "lru-cache";
+import { criticalCase, type SweepProgressView } from "~/domain/results";
+import type { CaseResult, ResultCase } from "~/exchange";
+import { ENGINE_VERSION } from "~/engine";
+import { analysisInputHash, exportCaseDocuments, parseOrThrow, parseSectionsOrThrow, resultsOrQueue } from "./analysis.server";
+
+/** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
+export const MAX_ROOT_ROWS = 500;
+
+/**
+ * What the loads page shows of a case's results, whatever the number of cases: the envelope by
+ * station, the root loads of the cases (all of them up to MAX_ROOT_ROWS, else the most critical by
+ * root bending, shear and torsion), and one case with its station table. The full result document
+ * stays on the server (and in the results API).
+ */
+export interface LoadsView {
+  engine: string;
+  inputHash: string;
+  caseCount: number;
+  envelope: CaseResult["envelope"];
+  /** Root loads only (no stations), the most critical by |root bending| first. */
+  cases: Omit<ResultCase, "stations">[];
+  /** The case asked for (or the critical one), with its stations where the result keeps them. */
+  current: ResultCase;
+}
+
+export type LoadsViewAnswer = { pending: true; cases: number; progress: SweepProgressView | null } | ({ pending: false } & LoadsView);
+
+// Root loads sorted once per result (a result is fixed by its input hash and the engine version,
+// so an entry is never stale); a few large results at most are kept.
+const ranked = new LRUCache<string, { result: CaseResult; order: Omit<ResultCase, "stations">[] }>({ max: 4 });
+
+/** The loads page's view of a case's current results, or how far their computation has got. */
+export async function loadsView(caseId: string, title: string, actorId: string, requested: string | null): Promise<LoadsViewAnswer> {
+  const { file, sections } = await exportCaseDocuments(caseId, title);
+  const parsed = parseOrThrow(file);
+  const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
+  const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+  let entry = ranked.get(key);
+  if (!entry) {
+    const answer = await resultsOrQueue(caseId, file, actorId, sections);
+    if (answer.pending) return { pending: true, cases: answer.cases, progress: answer.progress };
+    const order = answer.result.cases.map(({ stations: _stations, ...root }) => root).sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
+    entry = { result: answer.result, order };
+    ranked.set(key, entry);
+  }
+  const all = entry.result.cases;
+  const current = (requested ? all.find((c) => c.id === requested) : undefined) ?? criticalCase(all);
+  return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope: entry.result.envelope, cases: mostCritical(entry.order, MAX_ROOT_ROWS), current };
+}
+
+/**
+ * Up to `limit` cases: every case giving an extreme of root shear, bending or torsion first, then
+ * the rest by |root bending|; in |root bending| order.
+ */
+function mostCritical(order: Omit<ResultCase, "stations">[], limit: number) {
+  if (order.length <= limit) return order;
+  const extremes = new Set<Omit<ResultCase, "stations">>();
+  for (const q of ["shear", "bending", "torsion"] as const) {
+    extremes.add(order.reduce((a, b) => (b.root[q] > a.root[q] ? b : a)));
+    extremes.add(order.reduce((a, b) => (b.root[q] < a.root[q] ? b : a)));
+  }
+  const picked = new Set(extremes);
+  for (const c of order) {
+    if (picked.size >= limit) break;
+    picked.add(c);
+  }
+  return order.filter((c) => picked.has(c));
+}

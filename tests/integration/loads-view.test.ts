@@ -1,0 +1,63 @@
+import fs from "node:fs";
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { programmes, users } from "~/db/schema";
+import type { CaseFileInput, CaseResult } from "~/exchange";
+import { loader as loadsLoader } from "~/routes/api/case-loads";
+import { loader as resultsLoader } from "~/routes/api/v1/case-results";
+import { computeQueuedResults } from "~/services/analysis.server";
+import { importCase } from "~/services/case-import.server";
+import { cookieFor, demoUser, request, seed } from "./helpers";
+
+// The loads page of a large case file gets the envelope, the root loads of the most critical cases
+// and the case on the plots, not the whole result document (which stays the results API's).
+
+const CASES = 1200;
+let caseId = "";
+let cookie = "";
+
+beforeAll(async () => {
+  await seed();
+  cookie = await cookieFor("engineer");
+  const base = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as CaseFileInput;
+  const sweep: CaseFileInput = { ...base, cases: Array.from({ length: CASES }, (_, i) => ({ id: `v${i}`, mach: 0.3 + 0.05 * (i % 6), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })) };
+  const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+  const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+  caseId = (await importCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "VIEW-1200", title: "Loads view", document: sweep, actor: { id: erin!.id, email: erin!.email } })).id;
+  await computeQueuedResults(caseId);
+}, 300_000);
+
+const get = async (path: string, loader: typeof loadsLoader) => (await loader({ request: request(path, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+
+describe("the loads page's view of a large case file", () => {
+  it("sends the envelope, 500 root-load rows with every extreme case among them, and the critical case with its stations", async () => {
+    const full = await get(`/api/v1/cases/${caseId}/results`, resultsLoader as never);
+    const fullText = await full.text();
+    const result = JSON.parse(fullText) as CaseResult;
+    const res = await get(`/api/cases/${caseId}/loads`, loadsLoader);
+    expect(res.status).toBe(200);
+    const text = await res.text();
+    const view = JSON.parse(text) as { caseCount: number; envelope: CaseResult["envelope"]; cases: { id: string; stations?: unknown }[]; current: { id: string; stations: unknown[] } };
+    expect(view.caseCount).toBe(CASES);
+    expect(view.envelope).toEqual(result.envelope);
+    expect(view.cases).toHaveLength(500);
+    expect(view.cases.every((c) => c.stations === undefined)).toBe(true);
+    const ids = new Set(view.cases.map((c) => c.id));
+    const root = result.envelope[0]!;
+    for (const id of [root.shearMaxCase, root.shearMinCase, root.bendingMaxCase, root.bendingMinCase, root.torsionMaxCase, root.torsionMinCase]) expect(ids.has(id), id).toBe(true);
+    // The plotted case is the one of largest |root bending|, with its station table.
+    const critical = result.cases.reduce((a, b) => (Math.abs(b.root.bending) > Math.abs(a.root.bending) ? b : a));
+    expect(view.current.id).toBe(critical.id);
+    expect(view.current.stations.length).toBeGreaterThan(0);
+    // A small fraction of the whole document.
+    expect(text.length).toBeLessThan(fullText.length / 4);
+  });
+
+  it("another case is sent with its stations when asked for, whether listed or not", async () => {
+    const res = await get(`/api/cases/${caseId}/loads?case=v7`, loadsLoader);
+    const view = (await res.json()) as { current: { id: string; stations: unknown[] } };
+    expect(view.current.id).toBe("v7");
+    expect(view.current.stations.length).toBeGreaterThan(0);
+  });
+});
