@@ -1,4 +1,5 @@
 import type { CompressibilityRule } from "~/engine";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE } from "./theme";
 
 export interface DistributionSeries {
@@ -15,15 +16,17 @@ export interface DistributionSeries {
   spanwise: string;
 }
 
-const zip = (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[v, y[i] as number] as [number, number]]));
+// Stations (SI metres) in the length unit shown.
+const zipIn = (units: UnitSystem) => (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[fromSI(units, "length", v), y[i] as number] as [number, number]]));
 // The span axis ends at the tip rather than at a rounded value beyond it.
-const spanAxis = () => axis("Spanwise station y [m]", { min: 0, max: "dataMax" });
+const spanAxis = (units: UnitSystem) => axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: "dataMax" });
 
 /** Spanwise loading c·cl/(c̄·CL): the solver against Schrenk's approximation. */
-export function loadingOption(d: DistributionSeries) {
+export function loadingOption(d: DistributionSeries, units: UnitSystem = "SI") {
+  const zip = zipIn(units);
   return {
     ...baseOption("Spanwise loading"),
-    xAxis: spanAxis(),
+    xAxis: spanAxis(units),
     yAxis: axis("c·cl/(c̄·CL) [–]", { min: 0 }),
     series: [
       line(`${d.spanwise === "lifting-line" ? "Lifting line" : "Vortex lattice"}`, zip(d.y, d.loading.solver), SERIES_STYLE.solver),
@@ -33,30 +36,33 @@ export function loadingOption(d: DistributionSeries) {
 }
 
 /** Section lift coefficient with the section clmax where given. */
-export function clOption(d: DistributionSeries) {
+export function clOption(d: DistributionSeries, units: UnitSystem = "SI") {
+  const zip = zipIn(units);
   return {
     ...baseOption("Section lift coefficient"),
-    xAxis: spanAxis(),
+    xAxis: spanAxis(units),
     yAxis: axis("cl [–]"),
     series: [line("cl", zip(d.y, d.cl), SERIES_STYLE.solver), line("clmax", zip(d.y, d.clMax), SERIES_STYLE.limit)],
   };
 }
 
 /** The same case under each compressibility rule: cl (or cm) along the span, fixed colours per rule. */
-export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm") {
+export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm", units: UnitSystem = "SI") {
+  const zip = zipIn(units);
   return {
     ...baseOption(quantity === "cl" ? "Section cl by compressibility rule" : "Section cm (quarter chord) by compressibility rule"),
-    xAxis: spanAxis(),
+    xAxis: spanAxis(units),
     yAxis: axis(quantity === "cl" ? "cl [–]" : "cm,c/4 [–]"),
     series: d.rules.map((r) => line(SERIES_STYLE[r.rule].label, zip(d.y, r[quantity]), SERIES_STYLE[r.rule])),
   };
 }
 
 /** Each station's critical Mach number at this case's lift against the case Mach number, with simple sweep theory's beside it. */
-export function machCriticalOption(d: DistributionSeries) {
+export function machCriticalOption(d: DistributionSeries, units: UnitSystem = "SI") {
+  const zip = zipIn(units);
   return {
     ...baseOption("Critical Mach number along the span"),
-    xAxis: spanAxis(),
+    xAxis: spanAxis(units),
     yAxis: axis("Mach number [–]"),
     series: [
       line("Station critical Mach (unswept, conservative)", zip(d.y, d.stationMachCritical), SERIES_STYLE.solver),

@@ -1,3 +1,4 @@
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE } from "./theme";
 
 export type LoadQuantity = "shear" | "bending" | "torsion";
@@ -6,20 +7,21 @@ const TITLES: Record<LoadQuantity, string> = { shear: "Shear force", bending: "B
 
 /**
  * One internal load along the span: the chosen case and the envelope (max and min over all cases).
- * `scale` converts SI to the display unit named in `unit`.
+ * `scale` converts SI to the display unit named in `unit`; stations are shown in the length unit of `units`.
  */
 export function loadsOption(
   quantity: LoadQuantity,
   data: { y: number[]; caseValues?: number[]; caseId?: string; max: number[]; min: number[] },
   unit: { symbol: string; scale: (si: number) => number },
+  units: UnitSystem = "SI",
 ) {
-  const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [y, unit.scale(v[i]!)]);
+  const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [fromSI(units, "length", y), unit.scale(v[i]!)]);
   const base = baseOption(TITLES[quantity]);
   return {
     ...base,
     // Three legend entries wrap to two rows in the pages' third-width charts: keep the plot below them.
     grid: { ...base.grid, top: 80 },
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    xAxis: axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: "dataMax" }),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),

@@ -1,4 +1,5 @@
 import type { BasisData } from "~/domain/step-data";
+import { fromSI, unitSymbol } from "~/domain/units";
 import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
 
 /** One line of the check of a saved basis: what the rule gives, and whether the typed value meets it. */
@@ -16,9 +17,11 @@ const KT = 1852 / 3600;
 /**
  * What the rules of the saved basis give, beside what was typed: a check, not a substitute. Load
  * factors and minimum design speeds by the category's rules, the stall speed from CLmax, VA against
- * VS1·√n.
+ * VS1·√n. Speeds in the basis's own display units, EAS.
  */
 export function basisChecks(b: BasisData): BasisCheck[] {
+  const speed = (si: number) => fromSI(b.units, "speed", si).toFixed(1);
+  const sym = unitSymbol(b.units, "speed");
   const weightN = b.mtow * G0;
   const mtowLb = weightN / UNITS.lbfToN;
   const part23 = b.category !== "part25";
@@ -29,14 +32,14 @@ export function basisChecks(b: BasisData): BasisCheck[] {
     { label: "Positive limit load factor", value: f.positive.value.toFixed(3), rule: f.positive.rule },
     { label: "Negative limit load factor at VC", value: f.negativeAtVc.value.toFixed(3), rule: f.negativeAtVc.rule },
     { label: "Negative limit load factor at VD", value: f.negativeAtVd.value.toFixed(3), rule: f.negativeAtVd.rule },
-    { label: "1-g stall speed from CLmax", value: `${vs.toFixed(1)} m/s EAS (typed VS1 ${b.vs1.toFixed(1)})`, rule: "VS = √(2W/(ρ0·S·CLmax))", ok: Math.abs(vs - b.vs1) / vs < 0.05 },
-    { label: "VA at least VS1·√n", value: `${(b.vs1 * Math.sqrt(f.positive.value)).toFixed(1)} m/s (typed ${b.va.toFixed(1)})`, rule: part23 ? "14 CFR 23.335(c)" : "14 CFR 25.335(c)", ok: b.va >= b.vs1 * Math.sqrt(f.positive.value) - 1e-9 },
+    { label: "1-g stall speed from CLmax", value: `${speed(vs)} ${sym} EAS (typed VS1 ${speed(b.vs1)})`, rule: "VS = √(2W/(ρ0·S·CLmax))", ok: Math.abs(vs - b.vs1) / vs < 0.05 },
+    { label: "VA at least VS1·√n", value: `${speed(b.vs1 * Math.sqrt(f.positive.value))} ${sym} (typed ${speed(b.va)})`, rule: part23 ? "14 CFR 23.335(c)" : "14 CFR 25.335(c)", ok: b.va >= b.vs1 * Math.sqrt(f.positive.value) - 1e-9 },
   ];
   if (part23) {
     const m = minimumDesignSpeedsPart23(weightN / b.wingArea / PSF, b.category.replace("part23-", "") as Part23Category);
     rows.push(
-      { label: "Minimum VC", value: `${(m.vc.value * KT).toFixed(1)} m/s (typed ${b.vc.toFixed(1)})`, rule: m.vc.rule, ok: b.vc >= m.vc.value * KT - 1e-9 },
-      { label: "Minimum VD", value: `${(m.vd.value * KT).toFixed(1)} m/s (typed ${b.vd.toFixed(1)})`, rule: m.vd.rule, ok: b.vd >= m.vd.value * KT - 1e-9 },
+      { label: "Minimum VC", value: `${speed(m.vc.value * KT)} ${sym} (typed ${speed(b.vc)})`, rule: m.vc.rule, ok: b.vc >= m.vc.value * KT - 1e-9 },
+      { label: "Minimum VD", value: `${speed(m.vd.value * KT)} ${sym} (typed ${speed(b.vd)})`, rule: m.vd.rule, ok: b.vd >= m.vd.value * KT - 1e-9 },
     );
   }
   return rows;

@@ -2,9 +2,10 @@ import type { z } from "zod";
 import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { Panel } from "~/components/ui/page-header";
-import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS } from "~/domain/step-data";
+import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import { convertTyped } from "~/domain/form-values";
 import { unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
-import type { BasisFormSchema } from "./basis.schema";
+import { BASIS_QUANTITIES, type BasisFormSchema } from "./basis.schema";
 import type { BasisCheck } from "~/services/basis.server";
 import type { FieldErrors } from "~/utils/form-data";
 
@@ -13,10 +14,20 @@ interface FieldsProps {
   form: ZodForm<typeof BasisFormSchema>;
   server: FieldErrors | undefined;
   units: UnitSystem;
+  /** The saved basis in SI, or null before the first save. */
+  saved: BasisData | null;
 }
 
 const fieldErrors = ({ form, server }: FieldsProps) => (name: keyof z.input<typeof BasisFormSchema>) => errorsFor(form, server, name);
 const symbols = (units: UnitSystem) => (q: Quantity) => unitSymbol(units, q);
+
+/** The quantities of the form, typed in the other system, shown in the one just chosen (from the saved SI values where unchanged). */
+function convertShown(form: FieldsProps["form"], to: UnitSystem, saved: BasisData | null) {
+  const from: UnitSystem = to === "US" ? "SI" : "US";
+  for (const [key, q] of Object.entries(BASIS_QUANTITIES) as [keyof typeof BASIS_QUANTITIES, Quantity][]) {
+    form.setValue(key, convertTyped(form.getValues(key), q, from, to, saved?.[key]) as never, { shouldDirty: true });
+  }
+}
 
 /** Category (which sets the regulation references it starts from), the references, the units shown. */
 export function BasisRulesPanel(props: FieldsProps) {
@@ -36,7 +47,7 @@ export function BasisRulesPanel(props: FieldsProps) {
         ))}
       </SelectField>
       <TextAreaField label="Applicable regulation references" hint="Edit to the agreed certification basis (amendment levels, special conditions)." {...form.register("regulations")} errors={err("regulations")} />
-      <SelectField label="Units shown" hint="Stored in SI whatever you choose." {...form.register("units")} errors={err("units")}>
+      <SelectField label="Units shown" hint="Switching converts the values shown; stored in SI whatever you choose." {...form.register("units", { onChange: (e) => convertShown(form, e.target.value as UnitSystem, props.saved) })} errors={err("units")}>
         <option value="SI">SI (m, kg, m/s)</option>
         <option value="US">US customary (ft, lb, kt)</option>
       </SelectField>

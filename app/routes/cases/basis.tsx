@@ -6,7 +6,7 @@ import { StepSaveBar } from "~/components/case/step-save-bar";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
-import { convertFields } from "~/domain/form-values";
+import { toSIKeepingShown } from "~/domain/form-values";
 import { hasPermission } from "~/domain/permissions";
 import { BasisSchema } from "~/domain/step-data";
 import { basisChecks } from "~/services/basis.server";
@@ -27,6 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     revision: steps.basis.revision,
     status: steps.basis.status,
     values: basisFormValues(saved),
+    saved,
     derived: saved ? basisChecks(saved) : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
   };
@@ -37,7 +38,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const parsed = await parseBody(request, BasisFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const { revision, ...typed } = parsed.value;
-  const si = BasisSchema.safeParse(convertFields(typed, typed.units, BASIS_QUANTITIES, "toSI"));
+  const saved = stepData(await getCaseSteps(c.id), "basis");
+  const si = BasisSchema.safeParse(toSIKeepingShown(typed, typed.units, BASIS_QUANTITIES, saved));
   if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });
 }
@@ -46,7 +48,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
   const shown = useSettledAnswer(actionData);
   const { form, onSubmit } = useZodForm(BasisFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useSaving();
-  const fields = { form, server: shown?.fieldErrors, units: form.watch("units") ?? "SI" };
+  const fields = { form, server: shown?.fieldErrors, units: form.watch("units") ?? "SI", saved: loaderData.saved };
   return (
     <>
       <PageHeader title="Basis" description="The certification basis of the case: the rules that apply, weights, design speeds (equivalent airspeed) and altitudes." />

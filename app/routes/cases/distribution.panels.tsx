@@ -7,7 +7,7 @@ import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
 import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
 import { formatChange, formatPercent, SPANWISE_WAY_LABELS, type RuleSensitivity, type SpanwiseComparison } from "~/domain/comparisons";
-import { formatNumber, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseFlag, DistributionView } from "~/services/distribution.server";
 import { methodUsedLines } from "~/domain/method-statement";
 import type { ResultMethod } from "~/exchange";
@@ -15,7 +15,7 @@ import type { ResultMethod } from "~/exchange";
 type View = Omit<DistributionView, "cases"> & { cases: string[] };
 
 /** The case shown, chosen from every case of the envelope (flagged ones marked), and its condition. */
-export function CasePicker({ view, flags, computing, show }: { view: View; flags: CaseFlag[]; computing: boolean; show: (id: string) => void }) {
+export function CasePicker({ view, units, flags, computing, show }: { view: View; units: UnitSystem; flags: CaseFlag[]; computing: boolean; show: (id: string) => void }) {
   return (
     <>
       <div className="mb-4 flex flex-wrap items-center gap-3 text-sm">
@@ -31,7 +31,7 @@ export function CasePicker({ view, flags, computing, show }: { view: View; flags
           </select>
         </label>
         <span className="tabular text-ink-muted">
-          Mach {formatNumber(view.mach)} · {formatNumber(view.altitude)} m · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
+          Mach {formatNumber(view.mach)} · {formatQuantity(units, "altitude", view.altitude, 5)} · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
           {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
           {view.machCriticalSwept !== null && view.machCritical !== null && view.machCriticalSwept > view.machCritical + 1e-9 ? ` · simple sweep theory ${view.machCriticalSwept >= 1 ? "above 1" : formatNumber(view.machCriticalSwept)} (optimistic)` : ""}
         </span>
@@ -70,14 +70,14 @@ export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultM
 }
 
 /** The solver's loading beside Schrenk's, cl, cl and cm under each rule, critical Mach by station. */
-export function DistributionCharts({ view }: { view: View }) {
+export function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
   return (
     <div className="grid gap-4 xl:grid-cols-2">
-      <Chart option={loadingOption(view) as never} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
-      <Chart option={clOption(view) as never} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cl") as never} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cm") as never} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
-      <Chart option={machCriticalOption(view) as never} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
+      <Chart option={loadingOption(view, units) as never} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
+      <Chart option={clOption(view, units) as never} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cl", units) as never} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cm", units) as never} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
+      <Chart option={machCriticalOption(view, units) as never} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
       <Panel title="The three rules for this case">
         <table className="w-full text-sm tabular">
           <thead className="text-xs text-ink-muted">

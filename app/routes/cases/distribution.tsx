@@ -6,7 +6,7 @@ import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { DistributionSchema, MAX_LOAD_CASES } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
-import { getCaseSteps } from "~/services/case-steps.server";
+import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
 import { distributionStep } from "~/services/distribution.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
@@ -19,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:read");
   const steps = await getCaseSteps(c.id);
   const shown = await distributionStep({ caseId: c.id, title: c.title, inputs: caseInputs(steps), requested: new URL(request.url).searchParams.get("case"), actorId: current.user.id });
-  return { caseId: c.id, revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", ...shown };
+  return { caseId: c.id, units: caseUnits(steps), revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", ...shown };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -59,8 +59,8 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
           {shown?.ok ? <div className="mb-3"><Alert tone="info">{shown.message}</Alert></div> : null}
           {errors.length ? <div className="mb-3"><Alert>{errors.map(([k, m]) => `${k}: ${m?.join(" ")}`).join(" · ")}</Alert></div> : null}
           {loaderData.method ? <MethodUsedPanel method={loaderData.method} machCriticalSwept={view.machCriticalSwept} /> : null}
-          <CasePicker view={view} flags={flags} computing={busy || picked.state !== "idle"} show={show} />
-          <DistributionCharts view={view} />
+          <CasePicker view={view} units={loaderData.units} flags={flags} computing={busy || picked.state !== "idle"} show={show} />
+          <DistributionCharts view={view} units={loaderData.units} />
           <SpanwiseMethodsPanel caseId={loaderData.caseId} loadCase={view.caseId} revision={loaderData.revision} />
           <RuleSensitivityPanel caseId={loaderData.caseId} revision={loaderData.revision} />
           <DispositionsPanel flags={flags} dispositions={loaderData.dispositions} revision={loaderData.revision} canEdit={loaderData.canEdit} busy={busy} show={show} />

@@ -135,9 +135,9 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
   });
   return (
     <div className="grid gap-4 xl:grid-cols-3">
-      <Chart option={loadsOption("shear", series("shear"), force) as never} label="Shear force along the span" fileName="shear" />
-      <Chart option={loadsOption("bending", series("bending"), moment) as never} label="Bending moment along the span" fileName="bending" />
-      <Chart option={loadsOption("torsion", series("torsion"), moment) as never} label="Torsion along the span" fileName="torsion" />
+      <Chart option={loadsOption("shear", series("shear"), force, units) as never} label="Shear force along the span" fileName="shear" />
+      <Chart option={loadsOption("bending", series("bending"), moment, units) as never} label="Bending moment along the span" fileName="bending" />
+      <Chart option={loadsOption("torsion", series("torsion"), moment, units) as never} label="Torsion along the span" fileName="torsion" />
     </div>
   );
 }
@@ -152,7 +152,7 @@ export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envel
         caption="Envelope by station"
         csvName="envelope.csv"
         columns={[
-          { id: "y", header: "y [m]", value: (e) => e.y, numeric: true, format: (e) => e.y.toFixed(3) },
+          { id: "y", header: `y [${unitSymbol(units, "length")}]`, value: (e) => round(fromSI(units, "length", e.y)), numeric: true },
           ...(["shear", "bending", "torsion"] as const).flatMap((q) => {
             const quantity = q === "shear" ? "force" : "moment";
             const sym = unitSymbol(units, quantity);
@@ -183,7 +183,7 @@ export function RootLoadsTable({ cases, units }: { cases: Omit<ResultCase, "stat
       columns={[
         { id: "id", header: "Case", value: (c) => c.id },
         { id: "mach", header: "Mach", value: (c) => round(c.mach), numeric: true },
-        { id: "altitude", header: "Altitude [m]", value: (c) => round(c.altitude), numeric: true },
+        { id: "altitude", header: `Altitude [${unitSymbol(units, "altitude")}]`, value: (c) => round(fromSI(units, "altitude", c.altitude)), numeric: true },
         { id: "cl", header: "CL", value: (c) => round(c.cl), numeric: true },
         { id: "alpha", header: "α [°]", value: (c) => round(c.alpha), numeric: true },
         { id: "regime", header: "Regime", value: (c) => c.regime, format: (c) => (c.regime === "supercritical" ? <span className="font-semibold text-danger">⚠ supercritical</span> : c.regime) },

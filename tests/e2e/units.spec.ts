@@ -1,0 +1,75 @@
+import { expect, test } from "@playwright/test";
+import { copyOfDemoCase, exported, hydrated, signIn, typeDemoBasis } from "./helpers";
+
+// Exact unit definitions (international yard and pound, 1959; NIST SP 811 appendix B; REFERENCES.md §8):
+// 1 ft = 0.3048 m, 1 lb = 0.45359237 kg, 1 kt = 1852/3600 m/s. Expected values are computed here
+// from these definitions, never taken from the application.
+const FT = 0.3048;
+const LB = 0.45359237;
+const KT = 1852 / 3600;
+// As an input shows a converted value: ten significant figures.
+const shown = (v: number) => String(Number.parseFloat(v.toPrecision(10)));
+const saved = (page: import("@playwright/test").Page, revision: number) => page.getByRole("status").filter({ hasText: `Saved as revision ${revision}.` });
+
+test("switching the units converts what is shown; what is typed in either system is stored in SI, and every page follows", async ({ page }) => {
+  test.setTimeout(300_000);
+  await signIn(page, "engineer");
+  const caseId = await copyOfDemoCase(page, "E2E-UNITS-1", { oneCase: true });
+  await typeDemoBasis(page, caseId); // SI: 6350 kg, VD 150 m/s, revision 1
+
+  // Switching to US customary converts the numbers shown, it does not relabel them.
+  await page.getByLabel("Units shown").selectOption("US");
+  await expect(page.getByLabel("Max take-off [lb]")).toHaveValue(shown(6350 / LB));
+  await expect(page.getByLabel("VD [kt]")).toHaveValue(shown(150 / KT));
+  await page.getByLabel("VD [kt]").fill("300");
+  await page.getByRole("button", { name: "Save basis" }).click();
+  await expect(saved(page, 2)).toBeVisible({ timeout: 60_000 });
+  await expect(page.getByLabel("VD [kt]")).toHaveValue("300");
+  await expect(page.getByLabel("Max take-off [lb]")).toHaveValue(shown(6350 / LB));
+
+  // A chord typed in feet is stored in metres.
+  await page.goto(`/cases/${caseId}/planform`);
+  await hydrated(page);
+  // The copy's root chord as stored (other browser tests may have edited the demo it was copied from).
+  const rootChord = (await exported(page, caseId)).wing.stations[0]!.chord;
+  await expect(page.locator("#stations-0-2")).toHaveValue(shown(rootChord / FT));
+  await page.locator("#stations-0-2").fill("7");
+  await page.getByRole("button", { name: "Save planform" }).click();
+  await expect(saved(page, 2)).toBeVisible({ timeout: 60_000 });
+  expect((await exported(page, caseId)).wing.stations[0]!.chord).toBeCloseTo(7 * FT, 9);
+
+  // An altitude typed in feet is stored in metres.
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  await page.locator("#cases-0-3").fill("5000");
+  await page.getByRole("button", { name: "Save envelope" }).click();
+  await expect(saved(page, 2)).toBeVisible({ timeout: 60_000 });
+  const first = (await exported(page, caseId)).cases[0]!;
+  expect(first.altitude).toBeCloseTo(5000 * FT, 9);
+
+  // The other pages show the same case in feet and pounds-force.
+  await page.goto(`/cases/${caseId}/distribution`);
+  await expect(page.getByText("5 000 ft", { exact: false }).first()).toBeVisible({ timeout: 120_000 });
+  await expect(page.getByText(/· \d[\d ]* m ·/)).toHaveCount(0);
+  await page.goto(`/cases/${caseId}/loads`);
+  await expect(page.getByRole("columnheader", { name: /Altitude \[ft\]/ })).toBeVisible({ timeout: 120_000 });
+  await expect(page.getByRole("columnheader", { name: /Root shear \[lbf\]/ })).toBeVisible();
+  await expect(page.getByRole("columnheader", { name: /^y \[ft\]/ })).toBeVisible();
+  await expect(page.getByRole("row", { name: new RegExp(`^${first.id} `) }).getByRole("cell").nth(2)).toHaveText("5000");
+
+  // Back to SI: the numbers shown convert back, and what is typed in metres is stored as typed.
+  await page.goto(`/cases/${caseId}/basis`);
+  await hydrated(page);
+  await page.getByLabel("Units shown").selectOption("SI");
+  await expect(page.getByLabel("VD [m/s]")).toHaveValue(shown(300 * KT));
+  await expect(page.getByLabel("Max take-off [kg]")).toHaveValue("6350");
+  await page.getByRole("button", { name: "Save basis" }).click();
+  await expect(saved(page, 3)).toBeVisible({ timeout: 60_000 });
+  await page.goto(`/cases/${caseId}/planform`);
+  await hydrated(page);
+  await expect(page.locator("#stations-0-2")).toHaveValue(shown(7 * FT));
+  await page.locator("#stations-0-2").fill("2.2");
+  await page.getByRole("button", { name: "Save planform" }).click();
+  await expect(saved(page, 3)).toBeVisible({ timeout: 60_000 });
+  expect((await exported(page, caseId)).wing.stations[0]!.chord).toBe(2.2);
+});
