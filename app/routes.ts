@@ -21,6 +21,7 @@ export default [
         route("loads", "routes/cases/loads.tsx"),
         route("review", "routes/cases/review.tsx"),
         route("reports", "routes/cases/reports.tsx"),
+        route("reports/compare", "routes/cases/report-compare.tsx"),
       ]),
     ]),
     ...prefix("programmes", [
@@ -42,6 +43,7 @@ export default [
   route("api/cases/:caseId/spanwise-methods", "routes/api/case-spanwise-methods.ts"),
   route("api/cases/:caseId/load-cases", "routes/api/case-load-cases.ts"),
   route("api/cases/:caseId/loads", "routes/api/case-loads.ts"),
+  route("api/cases/:caseId/report-comparison", "routes/api/case-report-comparison.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

@@ -1,4 +1,6 @@
 import type { SpanwiseComparison } from "~/domain/comparisons";
+import type { ReportComparison } from "~/domain/report-comparison";
+import type { EnvelopeRow } from "~/engine";
 import { axis, baseOption, line, SERIES_STYLE } from "./theme";
 
 /** A display unit: its symbol and the conversion from SI. */
@@ -18,5 +20,31 @@ export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit) {
     xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
     yAxis: axis(`Running lift [${unit.symbol}]`),
     series: c.ways.flatMap((w) => (w.valid ? [line(SERIES_STYLE[w.way].label, w.y.map((y, i) => [y, unit.scale(w.lift[i]!)] as [number, number]), SERIES_STYLE[w.way])] : [])),
+  };
+}
+
+/**
+ * The envelope of one load (shear, bending or torsion) of two report versions overlaid: the newer
+ * version's maximum and minimum in the envelope colours, the older one's in the earlier-version
+ * grey, dashed.
+ */
+export function envelopeVersionsOption(
+  kind: "shear" | "bending" | "torsion",
+  c: Pick<ReportComparison, "envelopes" | "from" | "to">,
+  unit: DisplayUnit,
+) {
+  const title = { shear: "Shear force", bending: "Bending moment", torsion: "Torsion" }[kind];
+  const base = baseOption(`${title} envelope: version ${c.from.version} and version ${c.to.version}`);
+  const pts = (rows: EnvelopeRow[], k: "Max" | "Min") => rows.map((r) => [r.y, unit.scale(r[`${kind}${k}`])] as [number, number]);
+  return {
+    ...base,
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    yAxis: axis(`${title} [${unit.symbol}]`),
+    series: [
+      line(`v${c.to.version} max`, pts(c.envelopes.after, "Max"), SERIES_STYLE.envelopeMax),
+      line(`v${c.to.version} min`, pts(c.envelopes.after, "Min"), SERIES_STYLE.envelopeMin),
+      line(`v${c.from.version} max`, pts(c.envelopes.before, "Max"), SERIES_STYLE.earlier),
+      line(`v${c.from.version} min`, pts(c.envelopes.before, "Min"), { ...SERIES_STYLE.earlier, type: "dotted" }),
+    ],
   };
 }

@@ -14,6 +14,7 @@ import { resultsDistribution } from "./pdf/results-distribution.server";
 import { resultsLoads } from "./pdf/results-loads.server";
 import { resultsVn } from "./pdf/results-vn.server";
 import { signatures } from "./pdf/signatures.server";
+import { versionChanges } from "./pdf/version-changes.server";
 import type { ReportFigures, ReportSnapshot } from "./snapshot";
 
 /** The report's sections in order, each with the progress shown when it starts. */
@@ -27,6 +28,7 @@ const SECTIONS: [pct: number, note: string, write: (section: Section) => void][]
   [75, "Shear, bending and torsion", resultsLoads],
   [80, "Rule sensitivity", ruleSensitivity],
   [84, "Spanwise methods compared", spanwiseMethods],
+  [86, "Changes from the previous version", versionChanges],
   [88, "Flags, cautions and signatures", flagsAndCautions],
   [89, "Attached documents", documents],
   [90, "Flags, cautions and signatures", signatures],

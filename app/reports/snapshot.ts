@@ -3,6 +3,7 @@ import type { DistributionSeries } from "~/charts/distribution";
 import type { CompressibilityRule, VnPoint, WingGeometry } from "~/engine";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
+import type { ReportComparison } from "~/domain/report-comparison";
 
 /** One signature as it appears on the report's signature page and in the API. */
 export interface SignatureLine {
@@ -56,6 +57,12 @@ export interface ReportSnapshot {
    */
   sensitivity?: RuleSensitivity;
   spanwise?: SpanwiseComparison[];
+  /**
+   * What changed from the previous issued version of the report (inputs field by field, root loads,
+   * the envelope at each station), computed from both snapshots at issue; absent from a first version
+   * and from reports issued before comparisons were part of the report.
+   */
+  comparison?: ReportComparison;
   /** Flagged cases with their dispositions. */
   flags: { id: string; reasons: string[]; action: string; comment: string }[];
   signatures: SignatureLine[];

@@ -2,11 +2,13 @@ import { STEPS } from "~/domain/steps";
 import { formatNumber } from "~/domain/units";
 import { criticalCase } from "~/domain/results";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { cases, organisations, programmes, type Report } from "~/db/schema";
+import { cases, organisations, programmes, reports, type Report } from "~/db/schema";
+import { compareReports } from "~/domain/report-comparison";
+import { ISSUED_REPORT_STATUSES } from "~/domain/vocabulary";
 import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
 import { exchangeDocumentText } from "~/exchange";
 import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
-import { eq } from "drizzle-orm";
+import { and, desc, eq, inArray, lt } from "drizzle-orm";
 import { buildCaseFile, buildSectionsFile, caseInputs, resultsFor } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
 import { distributionView, flaggedCases } from "./distribution.server";
@@ -48,7 +50,7 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
     action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
     comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",
   }));
-  return {
+  const snapshot: ReportSnapshot = {
     reportId: report.id,
     reportNumber: report.reportNumber,
     version: report.version,
@@ -68,6 +70,19 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
     flags,
     signatures: await signatureLines(report.caseId, database),
   };
+  const previous = await previousIssued(report, database);
+  return previous ? { ...snapshot, comparison: compareReports(previous, snapshot) } : snapshot;
+}
+
+/** The snapshot of the newest issued (or released) version before this one, if any. */
+async function previousIssued(report: Report, database: Db | Tx): Promise<ReportSnapshot | null> {
+  const [row] = await database
+    .select({ snapshot: reports.snapshot })
+    .from(reports)
+    .where(and(eq(reports.caseId, report.caseId), lt(reports.version, report.version), inArray(reports.status, [...ISSUED_REPORT_STATUSES])))
+    .orderBy(desc(reports.version))
+    .limit(1);
+  return (row?.snapshot as unknown as ReportSnapshot | undefined) ?? null;
 }
 
 /** What the report draws beyond the snapshot's numbers, computed from the snapshot alone. */

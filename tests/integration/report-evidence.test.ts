@@ -15,7 +15,9 @@ import { parseCase, parseSections, type CaseFileInput, type CaseResult } from "~
 import { spanwiseComparison } from "~/services/comparisons.server";
 import { loader as ruleSensitivityLoader } from "~/routes/api/case-rule-sensitivity";
 import { loader as spanwiseMethodsLoader } from "~/routes/api/case-spanwise-methods";
+import { loader as comparisonPdfLoader } from "~/routes/api/case-report-comparison";
 import { loader as exportLoader } from "~/routes/api/v1/case-export";
+import { loader as compareLoader } from "~/routes/cases/report-compare";
 import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
 import { action as reviewAction } from "~/routes/cases/review";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
@@ -227,4 +229,85 @@ describe("richer section data travel with the report too", () => {
     const result = JSON.parse(fs.readFileSync(path.join(out, `${stem}.result.json`), "utf8")) as { method: { criticalMach: string } };
     expect(result.method.criticalMach).toBe("cp-min-against-lift");
   }, 180_000);
+});
+
+describe("report to report", () => {
+  let third: Awaited<ReturnType<typeof issue>>;
+  let massBefore = 0;
+  let massAfter = 0;
+  const compare = async (query: string) => {
+    const res = await compareLoader({ request: request(`/cases/${caseId}/reports/compare?${query}`, { cookie: cookies.checker }), params: { caseId }, context: {} } as never);
+    return res as Awaited<ReturnType<typeof compareLoader>>;
+  };
+
+  beforeAll(async () => {
+    // A heavier wing structure (invented: +15 %) changes the inertia relief, so the loads move.
+    const steps = await getCaseSteps(caseId);
+    const loads = steps.loads.data as { semispanMass: number };
+    massBefore = loads.semispanMass;
+    massAfter = Math.round(massBefore * 1.15);
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    await saveStep({ caseId, step: "loads", baseRevision: steps.loads.revision, data: { ...loads, semispanMass: massAfter }, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    await approveAll();
+    third = await issue();
+  }, 240_000);
+
+  it("compares any two issued versions on the page: each changed input by step and field, the envelope at each station", async () => {
+    const view = await compare(`from=${first.row.id}&to=${third.row.id}`);
+    expect(view.problem).toBeNull();
+    const c = view.comparison!;
+    expect([c.from.version, c.to.version]).toEqual([first.row.version, third.row.version]);
+    // Version 1 → 3 spans both edits: the sections' Cp,min tables (version 2) and the structural mass (version 3).
+    expect(c.inputs).toContainEqual({ step: "loads", field: "semispanMass", before: String(massBefore), after: String(massAfter) });
+    expect(c.inputs.some((x) => x.step === "sections" && x.field.endsWith("cpMinTable"))).toBe(true);
+    expect(new Set(c.inputs.map((x) => x.step))).toEqual(new Set(["sections", "loads"]));
+    // Every station's extremes are those of the two issued results, as stored.
+    const a = (first.row.snapshot as unknown as Snapshot).result.envelope;
+    const b = (third.row.snapshot as unknown as Snapshot).result.envelope;
+    expect(c.interpolated).toBe(false);
+    expect(c.stations).toHaveLength(b.length);
+    c.stations.forEach((st, i) => {
+      expect(st.y).toBe(b[i]!.y);
+      for (const k of ["shearMax", "shearMin", "bendingMax", "bendingMin", "torsionMax", "torsionMin"] as const) {
+        expect(st.before[k]).toBe(a[i]![k]);
+        expect(st.after[k]).toBe(b[i]![k]);
+      }
+    });
+    // More structure, more relief: the positive root bending falls (statics, common practice, no source).
+    expect(c.stations[0]!.after.bendingMax).toBeLessThan(c.stations[0]!.before.bendingMax);
+    // Chosen the other way round, the earlier version is still "from".
+    expect((await compare(`from=${third.row.id}&to=${first.row.id}`)).comparison!.from.version).toBe(first.row.version);
+  });
+
+  it("says what is wrong with a version that is not an issued report of the case, naming the field", async () => {
+    const view = await compare(`from=${first.row.id}&to=00000000-0000-4000-8000-000000000000`);
+    expect(view.problem).toMatch(/^to: /);
+    expect((await compare(`from=${first.row.id}&to=${first.row.id}`)).problem).toMatch(/two different versions/);
+  });
+
+  it("prints the changes from the previous version in the next report", () => {
+    const snap = third.row.snapshot as unknown as Snapshot & { comparison: { from: { version: number }; inputs: { field: string }[] } };
+    expect(snap.comparison.from.version).toBe(third.row.version - 1);
+    expect(snap.comparison.inputs.map((x) => x.field)).toEqual(["semispanMass"]);
+    expect(third.text).toContain("Changes from the previous version");
+    const line = third.text.split("\n").find((l) => l.includes("semispanMass"));
+    expect(line).toMatch(new RegExp(`${massBefore}\\s+${massAfter}`));
+    expect(first.text).toContain("This is the first issued version of the report");
+  });
+
+  it("gives the comparison of any two versions as a PDF that says it is not a report", async () => {
+    const res = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${third.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
+    expect(res.status).toBe(200);
+    expect(res.headers.get("Content-Type")).toBe("application/pdf");
+    const file = path.join(third.dir, "comparison.pdf");
+    fs.writeFileSync(file, new Uint8Array(await res.arrayBuffer()));
+    const text = execFileSync("pdftotext", ["-layout", "-enc", "UTF-8", file, "-"], { encoding: "utf8" });
+    expect(text).toContain(first.row.reportNumber);
+    expect(text).toContain(third.row.reportNumber);
+    expect(text).toContain("not a report, unsigned");
+    expect(text).toContain("semispanMass");
+    expect(text).toMatch(/cpMinTable/);
+    const refused = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
+    expect(refused.status).toBe(400);
+  });
 });

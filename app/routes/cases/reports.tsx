@@ -1,3 +1,4 @@
+import { href, Link } from "react-router";
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { requireCase } from "~/auth/case-access.server";
 import { canSignWithSso, sign } from "~/auth/signing.server";
@@ -64,7 +65,17 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
           ))}
         </div>
       )}
-      {loaderData.diff ? <VersionChangesPanel diff={loaderData.diff} /> : null}
+      {loaderData.diff ? (
+        <>
+          <VersionChangesPanel diff={loaderData.diff} />
+          <p className="mt-2 text-sm">
+            <Link to={href("/cases/:caseId/reports/compare", { caseId: loaderData.caseId })} className="font-semibold">
+              Compare any two versions
+            </Link>{" "}
+            <span className="text-ink-muted">— every changed input field by field, root loads and the envelope at each station, with overlay charts and a PDF.</span>
+          </p>
+        </>
+      ) : null}
     </>
   );
 }

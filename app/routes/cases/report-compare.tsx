@@ -1,0 +1,84 @@
+import { Form, href, Link } from "react-router";
+import { requireCase } from "~/auth/case-access.server";
+import { ResultsCaution } from "~/components/case/caution";
+import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { DomainError } from "~/domain/errors";
+import { compareReportVersions } from "~/services/report-comparison.server";
+import type { Route } from "./+types/report-compare";
+import { ComparisonTables, EnvelopeOverlays, VersionsCompared } from "./report-compare.panels";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase(request, params.caseId, "report:read");
+  const url = new URL(request.url);
+  const choice = { organisationId: current.organisation.id, caseId: c.id, fromId: url.searchParams.get("from"), toId: url.searchParams.get("to") };
+  try {
+    return { caseId: c.id, problem: null, ...(await compareReportVersions(choice)) };
+  } catch (error) {
+    if (!(error instanceof DomainError)) throw error;
+    // A bad choice is said beside the picker; the two newest versions are shown meanwhile.
+    return { caseId: c.id, problem: error.message, ...(await compareReportVersions({ ...choice, fromId: null, toId: null })) };
+  }
+}
+
+export default function ReportCompareRoute({ loaderData }: Route.ComponentProps) {
+  const { caseId, versions, fromId, toId, comparison, units, problem } = loaderData;
+  const pdf = comparison && fromId && toId ? `${href("/api/cases/:caseId/report-comparison", { caseId })}?${new URLSearchParams({ from: fromId, to: toId })}` : null;
+  return (
+    <>
+      <PageHeader
+        title="Compare report versions"
+        description="Any two issued versions of this case's report side by side: every input that changed, step by step and field by field, and the change in the root loads and in the envelope at each station."
+        actions={<Link to={href("/cases/:caseId/reports", { caseId })}>Back to the reports</Link>}
+      />
+      <ResultsCaution />
+      {versions.length < 2 ? (
+        <EmptyState title="Nothing to compare yet">A comparison needs two issued versions of the report. Issue the next version when the case has changed and been approved again.</EmptyState>
+      ) : (
+        <>
+          <Form method="get" className="mb-4 flex flex-wrap items-end gap-3 text-sm">
+            <label>
+              <span className="block font-semibold">Earlier version</span>
+              <select name="from" defaultValue={fromId ?? ""} className="rounded border border-line-strong px-2 py-1">
+                {versions.map((v) => (
+                  <option key={v.id} value={v.id}>
+                    {v.reportNumber} · version {v.version}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <label>
+              <span className="block font-semibold">Later version</span>
+              <select name="to" defaultValue={toId ?? ""} className="rounded border border-line-strong px-2 py-1">
+                {versions.map((v) => (
+                  <option key={v.id} value={v.id}>
+                    {v.reportNumber} · version {v.version}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <button type="submit" className="rounded border border-line-strong px-3 py-1 font-semibold">
+              Compare
+            </button>
+            {pdf ? (
+              <a href={pdf} className="font-semibold">
+                Download this comparison (PDF)
+              </a>
+            ) : null}
+          </Form>
+          {problem ? <div className="mb-4"><Alert>{problem}</Alert></div> : null}
+          {comparison ? (
+            <>
+              <VersionsCompared c={comparison} />
+              <ComparisonTables c={comparison} units={units} />
+              <EnvelopeOverlays c={comparison} units={units} />
+            </>
+          ) : null}
+        </>
+      )}
+    </>
+  );
+}
+
+export function meta() {
+  return [{ title: "Compare report versions · Spanwright" }];
+}
