@@ -397,6 +397,36 @@ export const reports = pgTable(
 );
 
 /**
+ * A re-run of an issued report: its stored input snapshot recomputed with the engine of the day (a
+ * job), and every number compared with the issued one. The recomputed numbers are kept, so the
+ * comparison can be checked again.
+ */
+export const reportReruns = pgTable(
+  "report_reruns",
+  {
+    id: uuid().primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
+    reportId: uuid("report_id").notNull().references(() => reports.id, { onDelete: "cascade" }),
+    requestedBy: uuid("requested_by").notNull().references(() => users.id),
+    status: text().$type<AnalysisJobStatus>().default("queued").notNull(),
+    progress: integer().default(0).notNull(),
+    progressNote: text("progress_note").default("").notNull(),
+    /** Engine that recomputed the numbers (the report's own is on the report). */
+    engineVersion: text("engine_version"),
+    identical: boolean(),
+    compared: integer(),
+    differing: integer(),
+    /** The first differences found, in document order. */
+    differences: jsonb().$type<{ path: string; issued: string; now: string }[]>(),
+    result: jsonb().$type<Record<string, unknown>>(),
+    failure: text(),
+    createdAt: createdAt(),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+  },
+  (t) => [index("report_reruns_report_idx").on(t.reportId, t.createdAt)],
+);
+
+/**
  * A signature waiting for its company sign-in: created when a person who signs with the identity
  * provider asks to sign, completed once, within ten minutes, by an ID token that proves a fresh
  * authentication (auth_time after this row was made) for this very request (its nonce). What is

@@ -1,7 +1,7 @@
 import PgBoss from "pg-boss";
 
 /** Queue names: every background job of the product. */
-export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute", analyze: "analysis.run", auditCheckpoint: "audit.checkpoint" } as const;
+export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute", analyze: "analysis.run", auditCheckpoint: "audit.checkpoint", rerunReport: "report.rerun" } as const;
 
 /** How often the audit trail's heads are anchored outside the database (cron, UTC). */
 export const AUDIT_CHECKPOINT_CRON = "*/15 * * * *";

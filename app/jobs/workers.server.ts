@@ -2,6 +2,7 @@ import { computeQueuedResults } from "~/services/analysis.server";
 import { runAnalysisJob } from "~/services/analysis-jobs.server";
 import { anchorAllChains } from "~/services/audit-trail.server";
 import { generateReport } from "~/services/reports.server";
+import { runRerun } from "~/services/reproduction.server";
 import { AUDIT_CHECKPOINT_CRON, boss, QUEUES } from "./boss.server";
 
 /**
@@ -19,6 +20,9 @@ export async function startWorkers(): Promise<void> {
   });
   await queue.work<{ jobId: string }>(QUEUES.analyze, { pollingIntervalSeconds: 1 }, async ([job]) => {
     if (job) await runAnalysisJob(job.data.jobId);
+  });
+  await queue.work<{ rerunId: string }>(QUEUES.rerunReport, { pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (job) await runRerun(job.data.rerunId);
   });
   await queue.work(QUEUES.auditCheckpoint, async () => {
     await anchorAllChains();

@@ -3,10 +3,12 @@ import { createHash } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import { and, desc, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cases, caseSteps, reports, users } from "~/db/schema";
+import { cases, caseSteps, reportReruns, reports, users } from "~/db/schema";
+import { ENGINE_VERSION } from "~/engine";
+import { stopBoss } from "~/jobs/boss.server";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
 import { STEPS } from "~/domain/steps";
 import { RULE_LABELS } from "~/domain/step-data";
@@ -19,7 +21,9 @@ import { loader as comparisonPdfLoader } from "~/routes/api/case-report-comparis
 import { loader as exportLoader } from "~/routes/api/v1/case-export";
 import { loader as compareLoader } from "~/routes/cases/report-compare";
 import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
+import { action as reportsAction, loader as reportsLoader } from "~/routes/cases/reports";
 import { action as reviewAction } from "~/routes/cases/review";
+import { runRerun } from "~/services/reproduction.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
@@ -309,5 +313,59 @@ describe("report to report", () => {
     expect(text).toMatch(/cpMinTable/);
     const refused = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
     expect(refused.status).toBe(400);
+  });
+});
+
+describe("reproduction: re-run this report", () => {
+  afterAll(async () => {
+    await stopBoss();
+  });
+
+  /** Every number in a JSON value, counted here (not by the product). */
+  const numbers = (v: unknown): number => (typeof v === "number" ? 1 : Array.isArray(v) ? v.reduce<number>((n, x) => n + numbers(x), 0) : v && typeof v === "object" ? Object.values(v).reduce<number>((n, x) => n + numbers(x), 0) : 0);
+  const rerunOf = async (reportId: string) => {
+    const res = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.checker, body: form({ intent: "rerun", reportId }) }), params: { caseId } });
+    expect(res.status).toBe(200);
+    const [row] = await db.select().from(reportReruns).where(eq(reportReruns.reportId, reportId)).orderBy(desc(reportReruns.createdAt)).limit(1);
+    expect(row!.status).toBe("queued");
+    // The job's handler, as the worker runs it.
+    await runRerun(row!.id);
+    const [done] = await db.select().from(reportReruns).where(eq(reportReruns.id, row!.id));
+    return done!;
+  };
+
+  it("recomputes every number of an issued report from its stored inputs and finds them identical", async () => {
+    const done = await rerunOf(first.row.id);
+    expect(done.status).toBe("done");
+    const snap = first.row.snapshot as unknown as Snapshot;
+    const recomputed = done.result as unknown as Snapshot;
+    // Every number compared here, by the test: the results, the rule sensitivity and the spanwise methods.
+    expect({ ...recomputed.result, engine: null }).toEqual({ ...snap.result, engine: null });
+    expect(recomputed.sensitivity).toEqual(snap.sensitivity);
+    expect(recomputed.spanwise).toEqual(snap.spanwise);
+    expect(done.compared).toBe(numbers(snap.result) + numbers(snap.sensitivity) + numbers(snap.spanwise));
+    expect(done.identical).toBe(true);
+    expect(done.differing).toBe(0);
+    expect(done.engineVersion).toBe(ENGINE_VERSION);
+    // The reports page says so, with both engine versions.
+    const page = (await reportsLoader({ request: request(`/cases/${caseId}/reports`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Awaited<ReturnType<typeof reportsLoader>>;
+    const shown = page.reruns[first.row.id]!;
+    expect(shown).toMatchObject({ status: "done", identical: true, engineVersion: ENGINE_VERSION, issuedEngine: first.row.engineVersion });
+    expect(page.rerunning).toBe(false);
+  }, 180_000);
+
+  it("re-runs a report whose inputs carry richer section data, with them", async () => {
+    const [latest] = await db.select().from(reports).where(eq(reports.caseId, caseId)).orderBy(desc(reports.version)).limit(1);
+    const done = await rerunOf(latest!.id);
+    expect(done.identical).toBe(true);
+    expect(done.compared).toBeGreaterThan(1000);
+  }, 180_000);
+
+  it("refuses a report that is not issued, naming the field, and writes nothing", async () => {
+    const before = await db.select().from(reportReruns);
+    const res = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.checker, body: form({ intent: "rerun", reportId: "00000000-0000-4000-8000-000000000000" }) }), params: { caseId } });
+    expect(res.status).toBe(404);
+    expect(JSON.stringify(res.body)).toContain("reportId");
+    expect(await db.select().from(reportReruns)).toHaveLength(before.length);
   });
 });

@@ -4,6 +4,7 @@ import { Button } from "~/components/ui/button";
 import { Alert, Panel } from "~/components/ui/page-header";
 import { PENDING_REPORT_STATUSES, type ReportStatus } from "~/domain/vocabulary";
 import type { latestVersionChanges, ReportListItem } from "~/services/reports.server";
+import type { RerunView } from "~/services/reproduction.server";
 import { formatUtc } from "~/utils/format";
 import { SsoSignButton } from "~/components/case/sso-sign-button";
 
@@ -30,6 +31,21 @@ export function useReportProgress(caseId: string, pending: boolean) {
   return live;
 }
 
+/** A re-run still waiting for a worker or running. */
+export const isRerunPending = (status: string) => status === "queued" || status === "running";
+
+/** While a re-run is pending, the page's data again each 1.5 s (its progress, then its verdict). */
+export function useRerunProgress(pending: boolean) {
+  const revalidator = useRevalidator();
+  useEffect(() => {
+    if (!pending) return;
+    const t = setInterval(() => {
+      if (revalidator.state === "idle") void revalidator.revalidate();
+    }, 1500);
+    return () => clearInterval(t);
+  }, [pending, revalidator]);
+}
+
 /** The engineer's request for the next version, once the case is approved for issue. */
 export function RequestReportForm({ first, busy, pending }: { first: boolean; busy: boolean; pending: boolean }) {
   return (
@@ -44,7 +60,7 @@ export function RequestReportForm({ first, busy, pending }: { first: boolean; bu
 }
 
 /** One version of the report: state, hashes, download, the signatures behind it, and quality's release. */
-export function ReportPanel({ report: r, progress, canRelease, canSso, busy }: { report: ReportListItem; progress: number; canRelease: boolean; canSso: boolean; busy: boolean }) {
+export function ReportPanel({ report: r, progress, canRelease, canSso, busy, rerun }: { report: ReportListItem; progress: number; canRelease: boolean; canSso: boolean; busy: boolean; rerun: RerunView | null }) {
   return (
     <Panel title={`${r.reportNumber} · version ${r.version}`}>
       <div className="flex flex-wrap items-start gap-6 text-sm">
@@ -89,6 +105,7 @@ export function ReportPanel({ report: r, progress, canRelease, canSso, busy }: {
               ))}
             </ul>
           ) : null}
+          {r.status === "issued" || r.status === "released" ? <Reproduction reportId={r.id} rerun={rerun} busy={busy} /> : null}
           {canRelease && r.status === "issued" ? (
             <Form method="post" className="mt-3 flex flex-wrap items-end gap-2">
               <input type="hidden" name="intent" value="release" />
@@ -106,6 +123,65 @@ export function ReportPanel({ report: r, progress, canRelease, canSso, busy }: {
         </div>
       </div>
     </Panel>
+  );
+}
+
+/**
+ * "Re-run this report": recompute every number from the report's stored inputs with the current
+ * engine, and say whether they are identical, with both engine versions.
+ */
+function Reproduction({ reportId, rerun, busy }: { reportId: string; rerun: RerunView | null; busy: boolean }) {
+  const pending = rerun ? isRerunPending(rerun.status) : false;
+  return (
+    <section className="mt-3 border-t border-line pt-2" aria-label="Reproduction">
+      <Form method="post" className="flex flex-wrap items-center gap-2">
+        <input type="hidden" name="intent" value="rerun" />
+        <input type="hidden" name="reportId" value={reportId} />
+        <Button type="submit" disabled={busy || pending}>
+          Re-run this report
+        </Button>
+        <span className="text-xs text-ink-muted">Recomputes every number from the report's stored inputs with the current engine and compares them with the issued ones.</span>
+      </Form>
+      {rerun && pending ? (
+        <div role="status" aria-live="polite" className="mt-2">
+          <p>Re-running… {rerun.progress}% — {rerun.progressNote}</p>
+          <div className="mt-1 h-2 rounded bg-canvas">
+            <div className="h-2 rounded bg-accent" style={{ width: `${Math.max(5, rerun.progress)}%` }} />
+          </div>
+        </div>
+      ) : null}
+      {rerun?.status === "failed" ? <div className="mt-2"><Alert>Re-run of {formatUtc(rerun.createdAt)} failed: {rerun.failure}</Alert></div> : null}
+      {rerun?.status === "done" ? (
+        <div className="mt-2" role="status">
+          <p className={rerun.identical ? "font-semibold text-ink" : "font-semibold text-warn"}>
+            {rerun.identical ? "✓ Identical" : "⚠ Differs"}: {rerun.identical ? `all ${rerun.compared} numbers recomputed equal the issued ones` : `${rerun.differing} of ${rerun.compared} values differ from the issued ones`}.
+          </p>
+          <p className="text-xs text-ink-muted">
+            Recomputed with engine {rerun.engineVersion}; issued with engine {rerun.issuedEngine ?? "—"}. Re-run by {rerun.requestedBy}, {formatUtc(rerun.finishedAt)}.
+          </p>
+          {rerun.differences.length ? (
+            <table className="mt-1 w-full text-xs tabular" aria-label="Values that differ on re-running">
+              <thead className="text-ink-muted">
+                <tr>
+                  <th className="py-0.5 pr-2 text-left">Where</th>
+                  <th className="py-0.5 pr-2 text-right">Issued</th>
+                  <th className="py-0.5 text-right">Now</th>
+                </tr>
+              </thead>
+              <tbody>
+                {rerun.differences.map((d) => (
+                  <tr key={d.path} className="border-t border-line">
+                    <td className="py-0.5 pr-2"><code>{d.path}</code></td>
+                    <td className="py-0.5 pr-2 text-right">{d.issued}</td>
+                    <td className="py-0.5 text-right">{d.now}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          ) : null}
+        </div>
+      ) : null}
+    </section>
   );
 }
 

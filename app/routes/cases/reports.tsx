@@ -8,18 +8,22 @@ import { hasPermission } from "~/domain/permissions";
 import { signatureOutcomeMessage } from "~/domain/sso";
 import { latestVersionChanges, listReports, requestReport } from "~/services/reports.server";
 import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
+import { latestReruns, requestRerun } from "~/services/reproduction.server";
 import type { Route } from "./+types/reports";
-import { isPending, ReportPanel, RequestReportForm, useReportProgress, VersionChangesPanel } from "./reports.panels";
+import { isPending, isRerunPending, ReportPanel, RequestReportForm, useReportProgress, useRerunProgress, VersionChangesPanel } from "./reports.panels";
 import { ReportsActionSchema } from "./reports.schema";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "report:read");
   const [list, diff, canSso] = await Promise.all([listReports(current.organisation.id, c.id), latestVersionChanges(c.id), canSignWithSso(current)]);
+  const reruns = await latestReruns(current.organisation.id, list.map((r) => r.id));
   return {
     caseId: c.id,
     signature: signatureOutcomeMessage(new URL(request.url).searchParams.get("signature")),
     canSso,
     reports: list,
+    reruns,
+    rerunning: Object.values(reruns).some((r) => isRerunPending(r.status)),
     diff,
     canRequest: hasPermission(current.roles, "case:edit"),
     canRelease: hasPermission(current.roles, "report:release"),
@@ -38,6 +42,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       const r = await requestReport({ caseId: c.id, actor: current.user });
       return accepted(`Report ${r.reportNumber} requested: it is being generated.`);
     }
+    if (input.intent === "rerun") {
+      await requestRerun({ organisationId: current.organisation.id, reportId: input.reportId, actor: current.user });
+      return accepted("Re-run queued: the report's numbers are being recomputed from its stored inputs with the current engine.");
+    }
     if (!hasPermission(current.roles, "report:release")) forbidden("Only quality staff release reports.");
     // The report must be one of this case's: another case's report is not found here.
     await sign(current, { intent: "release", caseId: c.id, reportId: input.reportId }, { ...input, address: clientAddress(request) });
@@ -49,6 +57,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
   const shown = useSettledAnswer(actionData);
   const busy = useSaving();
   const live = useReportProgress(loaderData.caseId, loaderData.pending);
+  useRerunProgress(loaderData.rerunning);
   return (
     <>
       <PageHeader title="Reports" description="Issued versions of this case's report. Each is kept in storage unchanged, with its SHA-256 and every signature behind it." />
@@ -61,7 +70,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
       ) : (
         <div className="space-y-4">
           {loaderData.reports.map((r) => (
-            <ReportPanel key={r.id} report={r} progress={live?.find((x) => x.id === r.id)?.progress ?? r.progress} canRelease={loaderData.canRelease} canSso={loaderData.canSso} busy={busy} />
+            <ReportPanel key={r.id} report={r} progress={live?.find((x) => x.id === r.id)?.progress ?? r.progress} canRelease={loaderData.canRelease} canSso={loaderData.canSso} busy={busy} rerun={loaderData.reruns[r.id] ?? null} />
           ))}
         </div>
       )}
