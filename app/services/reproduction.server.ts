@@ -42,15 +42,16 @@ export interface RerunView {
 }
 
 /**
- * Queues a re-run of an issued (or released) report of the organisation. One at a time per report.
+ * Queues a re-run of an issued (or released) report of the case (another case's report is not found
+ * through it). One at a time per report.
  * @throws DomainError (not-found) for another organisation's or an unissued report; (conflict) while one runs
  */
-export async function requestRerun(input: { organisationId: string; reportId: string; actor: Actor }, database: Db | Tx = db): Promise<{ id: string }> {
+export async function requestRerun(input: { organisationId: string; caseId: string; reportId: string; actor: Actor }, database: Db | Tx = db): Promise<{ id: string }> {
   const row = await database.transaction(async (tx) => {
     const [r] = await tx
       .select({ id: reports.id, status: reports.status, reportNumber: reports.reportNumber })
       .from(reports)
-      .where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId)))
+      .where(and(eq(reports.id, input.reportId), eq(reports.organisationId, input.organisationId), eq(reports.caseId, input.caseId)))
       .for("update");
     if (!r || !(ISSUED_REPORT_STATUSES as readonly string[]).includes(r.status)) throw new DomainError("reportId: only an issued report can be re-run, and this one was not found among them.", { field: "reportId", kind: "not-found" });
     const open = await tx.select({ id: reportReruns.id }).from(reportReruns).where(and(eq(reportReruns.reportId, r.id), inArray(reportReruns.status, [...OPEN])));

@@ -2,7 +2,7 @@ import fs from "node:fs";
 import path from "node:path";
 import type { RouteConfigEntry } from "@react-router/dev/routes";
 import { and, eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import routes from "~/routes";
 import { db } from "~/db/client.server";
 import { DEMO_USERS } from "~/demo/scenario";
@@ -73,8 +73,9 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/cases/reports.tsx": {
     loader: page(["engineer", "checker", "quality"], true),
     action: page(["engineer", "checker", "quality"], true),
-    intents: { request: page(["engineer"], true), release: page(["quality"], true) },
+    intents: { request: page(["engineer"], true), rerun: page(["engineer", "checker", "quality"], true), release: page(["quality"], true) },
   },
+  "routes/cases/report-compare.tsx": { loader: page(["engineer", "checker", "quality"], true) },
   "routes/programmes/list.tsx": { loader: page(ALL), action: page(["admin"]) },
   "routes/programmes/detail.tsx": { loader: page(ALL, true) },
   "routes/checks.tsx": { loader: page(["checker"]) },
@@ -90,6 +91,8 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/api/case-rule-sensitivity.ts": { loader: page(ALL, true) },
   "routes/api/case-spanwise-methods.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
   "routes/api/case-load-cases.ts": { loader: page(ALL, true) },
+  "routes/api/case-loads.ts": { loader: page(ALL, true) },
+  "routes/api/case-report-comparison.ts": { loader: page(["engineer", "checker", "quality"], true) },
   "routes/api-docs.tsx": { loader: pub },
   "routes/api/v1/cases.ts": { loader: api(ALL), action: notAllowed },
   "routes/api/v1/case-import.ts": { loader: notAllowed, action: api(["engineer"]) },
@@ -160,6 +163,12 @@ beforeAll(async () => {
   for (const caller of CALLERS) if (caller !== "anonymous") cookies[caller] = await cookieFor(caller);
 }, 120_000);
 
+// A re-run queues a job: the queue's connections end with the file.
+afterAll(async () => {
+  const { stopBoss } = await import("~/jobs/boss.server");
+  await stopBoss();
+});
+
 /**
  * Bodies that pass each intent's schema, with the caller's own password where the intent re-confirms
  * identity, so the role check behind the schema is what answers.
@@ -174,7 +183,7 @@ function intentBody(file: string, intent: string, caller: Caller): FormData {
     if (intent === "return") fd.set("comment", "Please recheck the tip chord.");
     if (intent === "comment") fd.set("body", "Matrix comment.");
   }
-  if (intent === "release") fd.set("reportId", params.reportId!);
+  if (intent === "release" || intent === "rerun") fd.set("reportId", params.reportId!);
   return fd;
 }
 
@@ -213,7 +222,7 @@ describe("authorisation matrix", () => {
       ];
       for (const [intent, rule] of Object.entries(policy.intents ?? {})) {
         // Intents that could change the demo case run against the empty case, where they are refused for content, not role.
-        const onEmpty = intent !== "release" && intent !== "comment";
+        const onEmpty = intent !== "release" && intent !== "comment" && intent !== "rerun";
         const p = onEmpty ? { ...params, caseId: emptyCaseId } : params;
         kinds.push({ handler: `action intent=${intent}`, fn: mod.action, rule, method: "POST", body: (caller: Caller) => intentBody(r.file, intent, caller), url: r.path.replace(/:(\w+)/g, (_, n: string) => p[n]!), params: p });
       }

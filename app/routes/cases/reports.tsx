@@ -43,7 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return accepted(`Report ${r.reportNumber} requested: it is being generated.`);
     }
     if (input.intent === "rerun") {
-      await requestRerun({ organisationId: current.organisation.id, reportId: input.reportId, actor: current.user });
+      await requestRerun({ organisationId: current.organisation.id, caseId: c.id, reportId: input.reportId, actor: current.user });
       return accepted("Re-run queued: the report's numbers are being recomputed from its stored inputs with the current engine.");
     }
     if (!hasPermission(current.roles, "report:release")) forbidden("Only quality staff release reports.");
