@@ -3,7 +3,7 @@ import { beamLoads, integrate } from "./loads";
 import { sectionAt, wingGeometry } from "./planform";
 import { schrenkDistribution } from "./schrenk";
 import { compressibleSectionAt } from "./spanwise";
-import { referenceAxis, resolveAboutAxis, type MachSolution, type WingModel } from "./superposition";
+import { integrationGrid, referenceAxis, resolveAboutAxis, type MachSolution, type WingModel } from "./superposition";
 
 /** Loads of one case at the output stations of its solution, with the lift spread by Schrenk's approximation. */
 export interface SchrenkCaseLoads {
@@ -31,7 +31,7 @@ export function schrenkCaseLoads(model: WingModel, sol: MachSolution, lc: Pick<C
   const st = model.stations;
   const s = st[st.length - 1].y;
   const halfArea = wingGeometry(st).area / 2;
-  const grid = gridWith(s, [...st.map((x) => x.y), ...sol.y], points);
+  const grid = integrationGrid(s, [...st.map((x) => x.y), ...sol.y], points);
   const schrenk = schrenkDistribution(st, grid);
   const ia = integrate(grid, schrenk.cclAdditional);
   const ccla = schrenk.cclAdditional.map((v) => (v * halfArea) / ia);
@@ -57,22 +57,4 @@ export function schrenkCaseLoads(model: WingModel, sol: MachSolution, lc: Pick<C
   const bending = out.bending.map((v, k) => v - lc.relief.bending[k]);
   const torsion = out.torsion.map((v, k) => v - lc.relief.torsion[k]);
   return { y: [...sol.y], lift: idx.map((i) => f[i]), shear, bending, torsion, root: { shear: shear[0], bending: bending[0], torsion: torsion[0] } };
-}
-
-/** Full-cosine points from root to tip with the given positions added exactly (duplicates merged). */
-function gridWith(semispan: number, extra: readonly number[], points: number): number[] {
-  const raw: number[] = [];
-  for (let k = 0; k <= points; k++) raw.push((semispan * (1 - Math.cos((k * Math.PI) / points))) / 2);
-  raw.push(...extra);
-  raw.sort((a, b) => a - b);
-  const tol = 1e-9 * semispan;
-  const out: number[] = [];
-  for (const v of raw) {
-    const c = Math.min(Math.max(v, 0), semispan);
-    if (out.length === 0 || c - out[out.length - 1] > tol) out.push(c);
-    else if (extra.includes(c)) out[out.length - 1] = c;
-  }
-  out[0] = 0;
-  out[out.length - 1] = semispan;
-  return out;
 }

@@ -153,7 +153,8 @@ export function outputStations(semispan: number, count: number): number[] {
   return out;
 }
 
-function integrationGrid(semispan: number, extra: readonly number[], points: number): number[] {
+/** Full-cosine points from root to tip with the given positions added exactly (duplicates merged). */
+export function integrationGrid(semispan: number, extra: readonly number[], points: number): number[] {
   const raw: number[] = [];
   for (let k = 0; k <= points; k++) raw.push((semispan * (1 - Math.cos((k * Math.PI) / points))) / 2);
   raw.push(...extra);

@@ -36,26 +36,8 @@ export default function ReportCompareRoute({ loaderData }: Route.ComponentProps)
       ) : (
         <>
           <Form method="get" className="mb-4 flex flex-wrap items-end gap-3 text-sm">
-            <label>
-              <span className="block font-semibold">Earlier version</span>
-              <select name="from" defaultValue={fromId ?? ""} className="rounded border border-line-strong px-2 py-1">
-                {versions.map((v) => (
-                  <option key={v.id} value={v.id}>
-                    {v.reportNumber} · version {v.version}
-                  </option>
-                ))}
-              </select>
-            </label>
-            <label>
-              <span className="block font-semibold">Later version</span>
-              <select name="to" defaultValue={toId ?? ""} className="rounded border border-line-strong px-2 py-1">
-                {versions.map((v) => (
-                  <option key={v.id} value={v.id}>
-                    {v.reportNumber} · version {v.version}
-                  </option>
-                ))}
-              </select>
-            </label>
+            <VersionSelect name="from" label="Earlier version" versions={versions} value={fromId} />
+            <VersionSelect name="to" label="Later version" versions={versions} value={toId} />
             <button type="submit" className="rounded border border-line-strong px-3 py-1 font-semibold">
               Compare
             </button>
@@ -76,6 +58,21 @@ export default function ReportCompareRoute({ loaderData }: Route.ComponentProps)
         </>
       )}
     </>
+  );
+}
+
+function VersionSelect({ name, label, versions, value }: { name: string; label: string; versions: { id: string; version: number; reportNumber: string }[]; value: string | null }) {
+  return (
+    <label>
+      <span className="block font-semibold">{label}</span>
+      <select name={name} defaultValue={value ?? ""} className="rounded border border-line-strong px-2 py-1">
+        {versions.map((v) => (
+          <option key={v.id} value={v.id}>
+            {v.reportNumber} · version {v.version}
+          </option>
+        ))}
+      </select>
+    </label>
   );
 }
 
