@@ -1,19 +1,21 @@
 /**
- * `npm test`: the type check, Vitest (unit + integration) and Playwright, one after the other, then
- * one closing line `N passed, N failed` that CI reads. The type check counts as one test. A stage
- * that cannot run, crashes or leaves no report counts as a failure, never as zero tests.
+ * `npm test`: the type check, ESLint, the Drizzle schema↔migrations check, Vitest (unit +
+ * integration) and Playwright, one after the other, then one closing line `N passed, N failed` that
+ * CI reads. The type check counts as one test, ESLint one per linted file, the schema check two (the
+ * migration snapshots are consistent; the schema needs no new migration). A stage that cannot run,
+ * crashes or leaves no report counts as a failure, never as zero tests.
  *
  *   npm test                      everything
  *   npm test -- --no-e2e          without the browser tests
- *   npm test -- --only unit       one stage: typecheck | unit | integration | e2e
+ *   npm test -- --only unit       one stage: typecheck | lint | schema | unit | integration | e2e
  */
 import { spawn } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 
-type Stage = "typecheck" | "unit" | "integration" | "e2e";
-const STAGES: Stage[] = ["typecheck", "unit", "integration", "e2e"];
+type Stage = "typecheck" | "lint" | "schema" | "unit" | "integration" | "e2e";
+const STAGES: Stage[] = ["typecheck", "lint", "schema", "unit", "integration", "e2e"];
 
 interface Outcome {
   name: string;
@@ -42,10 +44,13 @@ function parseArgs(argv: string[]): Set<Stage> {
 
 const bin = (name: string) => path.resolve("node_modules/.bin", name);
 
-/** Runs a command with the console attached; resolves with its exit code, or a description of why it could not run. */
+/**
+ * Runs a command with the console attached; resolves with its exit code, or a description of why it
+ * could not run. Its input is closed, so a tool that would ask a question fails instead of waiting.
+ */
 function run(command: string, args: string[], env: NodeJS.ProcessEnv = process.env): Promise<{ code: number | null; error?: string }> {
   return new Promise((resolve) => {
-    const child = spawn(command, args, { stdio: "inherit", env });
+    const child = spawn(command, args, { stdio: ["ignore", "inherit", "inherit"], env });
     child.once("error", (error) => resolve({ code: null, error: `could not start ${command}: ${error.message}` }));
     child.once("exit", (code, signal) => resolve(signal ? { code: null, error: `${path.basename(command)} was killed by ${signal}` } : { code }));
   });
@@ -72,6 +77,78 @@ async function typecheck(): Promise<Outcome> {
   else {
     outcome.failed = 1;
     outcome.notes.push(typegen.code !== 0 ? typegen.error ?? `typegen exited with ${typegen.code}` : tsc?.error ?? `tsc exited with ${tsc?.code}`);
+  }
+  return outcome;
+}
+
+interface EslintFileReport {
+  filePath: string;
+  errorCount: number;
+  warningCount: number;
+  messages: { line?: number; column?: number; ruleId: string | null; message: string; severity: number }[];
+}
+
+/** ESLint over the whole tree (eslint.config.js): a file passes when it has no error and no warning. */
+async function lint(tmp: string): Promise<Outcome> {
+  banner("lint (eslint .)");
+  const outcome: Outcome = { name: "lint", passed: 0, failed: 0, skipped: 0, notes: [] };
+  const report = path.join(tmp, "eslint.json");
+  const result = await run(bin("eslint"), [".", "--format", "json", "--output-file", report]);
+  const json = readJson<EslintFileReport[]>(report);
+  if (!json) {
+    outcome.failed = 1;
+    outcome.notes.push(result.error ?? `eslint left no report (exit ${result.code})`);
+    return outcome;
+  }
+  for (const file of json) {
+    if (file.errorCount + file.warningCount === 0) {
+      outcome.passed++;
+      continue;
+    }
+    outcome.failed++;
+    for (const m of file.messages) {
+      const where = `${path.relative(process.cwd(), file.filePath)}:${m.line ?? 0}:${m.column ?? 0}`;
+      process.stdout.write(`${where}  ${m.severity === 2 ? "error" : "warning"}  ${m.message.split("\n")[0]}  ${m.ruleId ?? ""}\n`);
+    }
+  }
+  if (result.code !== 0 && outcome.failed === 0) {
+    outcome.failed = 1;
+    outcome.notes.push(result.error ?? `eslint exited with ${result.code}`);
+  }
+  process.stdout.write(`${json.length} files linted, ${outcome.failed} with problems\n`);
+  return outcome;
+}
+
+/**
+ * The Drizzle schema and the committed migrations agree: drizzle-kit checks that the snapshots in
+ * drizzle/meta form one consistent chain, then generates against a copy of drizzle/ — a schema
+ * change without its migration shows up as a new file there (named in the failure), and the
+ * project's own drizzle/ is never touched.
+ */
+async function schema(tmp: string): Promise<Outcome> {
+  banner("schema ↔ migrations (drizzle-kit check, drizzle-kit generate on a copy)");
+  const outcome: Outcome = { name: "schema ↔ migrations", passed: 0, failed: 0, skipped: 0, notes: [] };
+  const copy = path.join(tmp, "drizzle");
+  fs.cpSync("drizzle", copy, { recursive: true });
+  // drizzle-kit reads --out relative to the working folder.
+  const out = path.relative(process.cwd(), copy);
+  const check = await run(bin("drizzle-kit"), ["check", "--dialect", "postgresql", "--out", out]);
+  if (check.code === 0) outcome.passed++;
+  else {
+    outcome.failed++;
+    outcome.notes.push(check.error ?? `drizzle-kit check found the migration snapshots inconsistent (exit ${check.code})`);
+  }
+  const before = new Set(fs.readdirSync(copy));
+  const generate = await run(bin("drizzle-kit"), ["generate", "--dialect", "postgresql", "--schema", "./app/db/schema.ts", "--out", out, "--name", "schema-check"]);
+  const added = fs.readdirSync(copy).filter((f) => !before.has(f));
+  if (generate.code === 0 && added.length === 0) outcome.passed++;
+  else {
+    outcome.failed++;
+    if (generate.code !== 0) outcome.notes.push(generate.error ?? `drizzle-kit generate exited with ${generate.code}`);
+    for (const file of added) {
+      outcome.notes.push(`app/db/schema.ts differs from drizzle/: run \`npm run db:generate\` and commit the migration; it would be:`);
+      outcome.notes.push(...fs.readFileSync(path.join(copy, file), "utf8").trim().split("\n"));
+    }
   }
   return outcome;
 }
@@ -165,6 +242,8 @@ async function main(): Promise<number> {
   const outcomes: Outcome[] = [];
   try {
     if (chosen.has("typecheck")) outcomes.push(await typecheck());
+    if (chosen.has("lint")) outcomes.push(await lint(tmp));
+    if (chosen.has("schema")) outcomes.push(await schema(tmp));
     const projects = (["unit", "integration"] as const).filter((p) => chosen.has(p));
     if (projects.length > 0) outcomes.push(await vitest(projects, tmp));
     if (chosen.has("e2e")) outcomes.push(await playwright(tmp));

@@ -1,4 +1,5 @@
 import { and, eq } from "drizzle-orm";
+import type { z } from "zod";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
@@ -47,7 +48,7 @@ export function stepData<K extends StepKey>(steps: Record<StepKey, StepState>, k
   const raw = steps[key].data;
   if (!raw) return null;
   const parsed = STEP_SCHEMAS[key].safeParse(raw);
-  return parsed.success ? (parsed.data as import("zod").output<(typeof STEP_SCHEMAS)[K]>) : null;
+  return parsed.success ? (parsed.data as z.output<(typeof STEP_SCHEMAS)[K]>) : null;
 }
 
 /** The display units chosen in the case's basis (SI until a basis is saved). */

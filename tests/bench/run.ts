@@ -51,6 +51,9 @@ const MARK_END = "<!-- end of engine benchmark -->";
 const SECTIONS = ["spanwise", "dense", "envelope", "cli"] as const;
 const onlyArg = process.argv.indexOf("--only");
 const only = onlyArg > 0 ? process.argv[onlyArg + 1].split(",") : null;
+for (const name of only ?? []) {
+  if (!(SECTIONS as readonly string[]).includes(name)) throw new Error(`--only takes ${SECTIONS.join(", ")}; got "${name}"`);
+}
 const runs = (name: (typeof SECTIONS)[number]) => !only || only.includes(name);
 
 const cpu = os.cpus();

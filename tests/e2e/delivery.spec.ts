@@ -1,19 +1,8 @@
-import { expect, test, type Page, type Response } from "@playwright/test";
-import { DEMO_USERS } from "../../app/demo/scenario";
+import { expect, test, type Response } from "@playwright/test";
+import { signIn } from "../playwright-utils";
 
 // What the browser downloads: compressed, only the chart types drawn, nothing of the server.
 // Behaviour, not timing: which headers and which code arrive, never how fast.
-
-async function signIn(page: Page) {
-  const u = DEMO_USERS.find((d) => d.label === "engineer")!;
-  await page.goto("/login");
-  await page.getByLabel("E-mail", { exact: true }).fill(u.email);
-  await page.getByLabel("Password").fill(u.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page).toHaveURL("/cases");
-}
-
-test.setTimeout(120_000);
 
 test("pages and their scripts arrive compressed, with only the chart parts drawn and no server code", async ({ page }) => {
   await signIn(page);

@@ -1,19 +1,5 @@
-import { expect, test, type Page } from "@playwright/test";
-import { DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
-
-const user = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
-
-async function signIn(page: Page, label: DemoUser["label"]) {
-  const u = user(label);
-  await page.goto("/login");
-  await page.getByLabel("E-mail", { exact: true }).fill(u.email);
-  await page.getByLabel("Password").fill(u.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-}
-
-async function shot(page: Page, name: string) {
-  await page.screenshot({ path: `tests/e2e/screenshots/${name}.png`, fullPage: true });
-}
+import { expect, test } from "@playwright/test";
+import { shot, signIn, user } from "../playwright-utils";
 
 const LANDING = {
   engineer: { path: "/cases", heading: "Cases", nav: ["Cases", "Programmes", "Reports"], hidden: ["Checks", "Audit trail", "Members"] },

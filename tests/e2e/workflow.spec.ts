@@ -3,23 +3,10 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { expect, test, type Page } from "@playwright/test";
-import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/demo/scenario";
-
-const engineer = DEMO_USERS.find((u) => u.label === "engineer")!;
-
-async function signIn(page: Page) {
-  await page.goto("/login");
-  await page.getByLabel("E-mail", { exact: true }).fill(engineer.email);
-  await page.getByLabel("Password").fill(engineer.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page).toHaveURL("/cases");
-}
-
-const step = (page: Page, name: RegExp) => page.getByRole("navigation", { name: "Steps" }).getByRole("link", { name });
-const shot = (page: Page, name: string) => page.screenshot({ path: `tests/e2e/screenshots/workflow-${name}.png`, fullPage: true });
+import { DEMO_CASE_INPUTS } from "../../app/demo/scenario";
+import { caseStep as step, shot, signIn } from "../playwright-utils";
 
 test("an engineer builds a case from nothing and reads the critical root bending moment, equal to the command line's", async ({ page }) => {
-  test.setTimeout(120_000);
   await signIn(page);
   await page.getByRole("link", { name: "New case" }).click();
   await page.getByLabel("Case reference").fill("E2E-WL-100");
@@ -47,7 +34,7 @@ test("an engineer builds a case from nothing and reads the critical root bending
   for (const [label, value] of fields) await page.getByLabel(label).fill(String(value));
   await page.getByRole("button", { name: "Save basis" }).click();
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
-  await shot(page, "basis");
+  await shot(page, "workflow-basis");
 
   // Planform, typed into the grid; first a negative chord, which is refused with the field named
   await step(page, /Planform/).click();
@@ -68,7 +55,7 @@ test("an engineer builds a case from nothing and reads the critical root bending
   await page.getByRole("button", { name: "Save planform" }).click();
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
   await expect(page.getByRole("img", { name: "Planform drawn to scale" })).toBeVisible();
-  await shot(page, "planform");
+  await shot(page, "workflow-planform");
 
   // Sections, uploaded as CSV: checked, previewed, then accepted
   await step(page, /Sections/).click();
@@ -79,14 +66,14 @@ test("an engineer builds a case from nothing and reads the critical root bending
   await page.getByRole("button", { name: "Use this file's data" }).click();
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
   await expect(page.getByText("Current data from the uploaded file")).toBeVisible();
-  await shot(page, "sections");
+  await shot(page, "workflow-sections");
 
   // Envelope, generated from the basis rules
   await step(page, /Envelope/).click();
   await page.getByRole("button", { name: "Generate cases from the basis rules" }).click();
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
   await expect(page.getByText("Load cases (81)")).toBeVisible();
-  await shot(page, "envelope");
+  await shot(page, "workflow-envelope");
 
   // Distribution: every flagged case dispositioned
   await step(page, /Distribution/).click();
@@ -102,7 +89,7 @@ test("an engineer builds a case from nothing and reads the critical root bending
     await expect(page.getByText(/Dispositions saved as revision 1/)).toBeVisible();
     await expect(page.getByText(/flagged case.* without a disposition/)).toHaveCount(0);
   }
-  await shot(page, "distribution");
+  await shot(page, "workflow-distribution");
 
   // Loads: the root-loads table, sorted by root bending, largest first
   await step(page, /Loads/).click();
@@ -118,7 +105,7 @@ test("an engineer builds a case from nothing and reads the critical root bending
   const firstRow = table.locator("tbody tr").first();
   const criticalCase = (await firstRow.locator("td").nth(0).textContent())!.trim();
   const shownKNm = Number((await firstRow.locator("td").nth(bendingColumn).textContent())!.trim());
-  await shot(page, "loads");
+  await shot(page, "workflow-loads");
 
   // The same case exported and run through the command line
   const caseId = new URL(page.url()).pathname.split("/")[2]!;

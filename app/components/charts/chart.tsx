@@ -1,4 +1,4 @@
-import { lazy, Suspense, useEffect, useRef, useState } from "react";
+import { lazy, Suspense, useRef, useSyncExternalStore } from "react";
 import type { EChartsOption } from "echarts";
 
 // ECharts needs a browser: the server renders a sized frame and the chart appears on hydration,
@@ -7,9 +7,8 @@ const ReactECharts = lazy(() => import("./echarts-client"));
 
 /** One chart with hover read-outs and PNG/SVG saving; options come from app/charts builders. */
 export function Chart({ option, height = 320, label, fileName }: { option: EChartsOption; height?: number; label: string; fileName: string }) {
-  const [client, setClient] = useState(false);
+  const client = useHydrated();
   const ref = useRef<{ getEchartsInstance(): { getDataURL(o: object): string } } | null>(null);
-  useEffect(() => setClient(true), []);
   const save = async (type: "png" | "svg") => {
     const a = document.createElement("a");
     a.download = `${fileName}.${type}`;
@@ -46,4 +45,11 @@ export function Chart({ option, height = 320, label, fileName }: { option: EChar
       </figcaption>
     </figure>
   );
+}
+
+const neverChanges = () => () => {};
+
+/** False on the server and while the page hydrates, true from then on (React's own hydration switch, no effect). */
+function useHydrated() {
+  return useSyncExternalStore(neverChanges, () => true, () => false);
 }

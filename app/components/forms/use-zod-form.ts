@@ -30,11 +30,12 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
   // on the first render: the form already starts from those values. Forms are disabled from the
   // post until the page holds the new revision (useSaving), so nothing typed is replaced here.
   const shownKey = useRef(resetKey);
+  const { reset } = form;
   useEffect(() => {
     if (resetKey === undefined || shownKey.current === resetKey) return;
     shownKey.current = resetKey;
-    form.reset(defaultValues);
-  }, [resetKey]);
+    reset(defaultValues);
+  }, [resetKey, reset, defaultValues]);
   const onSubmit = form.handleSubmit((_values, event) => {
     const el = (event?.target ?? null) as HTMLFormElement | null;
     if (el) submit(el, { method: "post" });

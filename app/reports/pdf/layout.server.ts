@@ -1,5 +1,5 @@
 import * as echarts from "echarts";
-import PDFDocument from "pdfkit";
+import type PDFDocument from "pdfkit";
 import SVGtoPDF from "svg-to-pdfkit";
 import { formatNumber, fromSI, unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
 import type { ResultCase } from "~/exchange";

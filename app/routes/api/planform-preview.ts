@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { type z } from "zod";
 import { requirePermission } from "~/auth/auth.server";
 import { PlanformSchema } from "~/domain/step-data";
 import type { WingGeometry } from "~/engine";

@@ -185,9 +185,11 @@ const root = (units: UnitSystem, q: "shear" | "bending" | "torsion", si: number)
  */
 export function RuleSensitivityPanel({ caseId, revision }: { caseId: string; revision: number }) {
   const data = useFetcher<{ units: UnitSystem; sensitivity: RuleSensitivity } | Refusal>();
+  const { load } = data;
+  // Asked again for a new revision of the step: the same address answers for the new inputs.
   useEffect(() => {
-    data.load(href("/api/cases/:caseId/rule-sensitivity", { caseId }));
-  }, [caseId, revision]);
+    load(href("/api/cases/:caseId/rule-sensitivity", { caseId }));
+  }, [load, caseId, revision]);
   const failed = refusalOf(data.data);
   const loaded = data.data && "sensitivity" in data.data ? data.data : null;
   return (
@@ -269,9 +271,10 @@ function RuleSensitivityTable({ units, s }: { units: UnitSystem; s: RuleSensitiv
  */
 export function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: string; loadCase: string; revision: number }) {
   const data = useFetcher<{ units: UnitSystem; comparison: SpanwiseComparison } | Refusal>();
+  const { load } = data;
   useEffect(() => {
-    data.load(`${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`);
-  }, [caseId, loadCase, revision]);
+    load(`${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`);
+  }, [load, caseId, loadCase, revision]);
   const failed = refusalOf(data.data);
   const loaded = data.data && "comparison" in data.data && data.data.comparison.caseId === loadCase ? data.data : null;
   return (

@@ -27,20 +27,21 @@ type ResultsResponse = LoadsView | { error: string; message: string } | { status
 export function useCaseResults(caseId: string, ready: boolean, revision: number, selected: string | null) {
   const results = useFetcher<ResultsResponse>();
   const url = `${href("/api/cases/:caseId/loads", { caseId })}${selected ? `?case=${encodeURIComponent(selected)}` : ""}`;
+  const { load } = results;
+  // The revision asked for, recorded while rendering (React's pattern for state that follows a prop).
   const [loadedFor, setLoadedFor] = useState<number | null>(null);
+  if (ready && loadedFor !== revision) setLoadedFor(revision);
   useEffect(() => {
-    if (!ready) return;
-    results.load(url);
-    setLoadedFor(revision);
-  }, [url, ready, revision]);
+    if (ready) load(url);
+  }, [load, url, ready, revision]);
   const data = results.data;
   const computing = data && "status" in data ? data.message : null;
   const progress = data && "status" in data ? data.progress : null;
   useEffect(() => {
     if (!computing) return;
-    const t = setTimeout(() => results.load(url), 1000);
+    const t = setTimeout(() => load(url), 1000);
     return () => clearTimeout(t);
-  }, [computing, data]);
+  }, [computing, data, load, url]);
   return {
     result: data && "envelope" in data ? data : null,
     failure: data && "error" in data ? data.message : null,

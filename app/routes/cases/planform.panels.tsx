@@ -68,16 +68,18 @@ export function useLivePreview(values: unknown, units: UnitSystem) {
   const fetcher = useFetcher<PlanformPreview>();
   const key = JSON.stringify(values);
   const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
+  // Keyed on the form's contents, not on the values object react-hook-form renews at every render.
   const body = useMemo(() => {
-    const parsed = PlanformFormSchema.safeParse(values);
+    const parsed = PlanformFormSchema.safeParse(JSON.parse(key));
     return parsed.success ? planformToSI(parsed.data, units) : null;
   }, [key, units]);
+  const { submit } = fetcher;
   useEffect(() => {
     if (!body) return;
     clearTimeout(timer.current);
-    timer.current = setTimeout(() => fetcher.submit(body, { method: "post", action: href("/api/planform-preview"), encType: "application/json" }), 300);
+    timer.current = setTimeout(() => submit(body, { method: "post", action: href("/api/planform-preview"), encType: "application/json" }), 300);
     return () => clearTimeout(timer.current);
-  }, [body]);
+  }, [body, submit]);
   return fetcher.data;
 }
 

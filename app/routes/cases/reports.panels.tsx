@@ -19,15 +19,17 @@ export function useReportProgress(caseId: string, pending: boolean) {
   const revalidator = useRevalidator();
   const status = useFetcher<{ reports: { id: string; status: ReportStatus; progress: number }[] }>();
   const url = href("/api/v1/cases/:caseId/reports", { caseId });
+  const { load } = status;
+  const { revalidate } = revalidator;
   useEffect(() => {
     if (!pending) return;
-    const t = setInterval(() => status.load(url), 1500);
+    const t = setInterval(() => load(url), 1500);
     return () => clearInterval(t);
-  }, [pending, url]);
+  }, [pending, url, load]);
   const live = status.data?.reports;
   useEffect(() => {
-    if (pending && live && !live.some((r) => isPending(r.status))) void revalidator.revalidate();
-  }, [live, pending]);
+    if (pending && live && !live.some((r) => isPending(r.status))) void revalidate();
+  }, [live, pending, revalidate]);
   return live;
 }
 
