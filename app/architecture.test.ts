@@ -177,3 +177,14 @@ describe("the layers point one way", () => {
     expect(cycles).toEqual([]);
   });
 });
+
+describe("route modules read in the same order", () => {
+  // docs/DEVELOPERS.md: middleware → loader → action → default component → local components → meta → ErrorBoundary.
+  const HOUSE_ORDER = ["middleware", "loader", "action", "default", "meta", "ErrorBoundary"];
+  const EXPORT = /^export\s+(?:(default)\b|(?:async\s+)?(?:function|const)\s+(\w+))/gm;
+
+  it.each([...ROUTE_MODULES].filter((f) => f.startsWith("routes/")).map((f) => [f]))("%s exports in the house order", (file) => {
+    const names = [...readFileSync(join(APP, file), "utf8").matchAll(EXPORT)].map((m) => m[1] ?? m[2]!).filter((n) => HOUSE_ORDER.includes(n));
+    expect(names).toEqual([...names].sort((a, b) => HOUSE_ORDER.indexOf(a) - HOUSE_ORDER.indexOf(b)));
+  });
+});

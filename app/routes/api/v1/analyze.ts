@@ -4,6 +4,10 @@ import { statusOf } from "~/utils/http.server";
 import type { Route } from "./+types/analyze";
 import { apiHandler, invalidCase, methodNotAllowed, readJsonBody } from "./respond.server";
 
+export async function loader({ request }: Route.LoaderArgs) {
+  return methodNotAllowed(request, "POST");
+}
+
 /**
  * POST /api/v1/analyze — body `spanwright.case/1` (or `{ case, sections }` with the richer section data
  * of `spanwright.sections/1` beside it), answer `spanwright.result/1`, exactly as the command line computes
@@ -30,8 +34,4 @@ export async function action({ request }: Route.ActionArgs) {
       throw error;
     }
   });
-}
-
-export async function loader({ request }: Route.LoaderArgs) {
-  return methodNotAllowed(request, "POST");
 }

@@ -26,6 +26,10 @@ export const ImportTargetSchema = z.strictObject({
   sections: z.unknown().optional(),
 });
 
+export async function loader({ request }: Route.LoaderArgs) {
+  return methodNotAllowed(request, "POST");
+}
+
 /**
  * POST /api/v1/cases/import — `{ programmeId, reference, title?, case, sections? }`, or the case document
  * alone with `?programmeId=&reference=[&title=]`. Creates the case with its planform, sections,
@@ -69,8 +73,4 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 201, headers: { Location: `/api/v1/cases/${row.id}` } },
     );
   });
-}
-
-export async function loader({ request }: Route.LoaderArgs) {
-  return methodNotAllowed(request, "POST");
 }
