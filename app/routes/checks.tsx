@@ -1,4 +1,4 @@
-import { Link } from "react-router";
+import { href, Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { EmptyState, PageHeader } from "~/components/ui/page-header";
@@ -22,7 +22,7 @@ export default function ChecksRoute({ loaderData }: Route.ComponentProps) {
         <ul className="divide-y divide-line rounded border border-line bg-surface">
           {loaderData.waiting.map((c) => (
             <li key={c.id} className="flex items-center gap-4 px-4 py-2 text-sm">
-              <Link to={`/cases/${c.id}`} className="w-32 font-semibold">
+              <Link to={href("/cases/:caseId", { caseId: c.id })} className="w-32 font-semibold">
                 {c.reference}
               </Link>
               <span className="flex-1">{c.title}</span>

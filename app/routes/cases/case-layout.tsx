@@ -1,4 +1,4 @@
-import { Link, NavLink, Outlet } from "react-router";
+import { href, Link, NavLink, Outlet } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { STEPS } from "~/domain/steps";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
@@ -22,7 +22,7 @@ export default function CaseLayout({ loaderData }: Route.ComponentProps) {
   return (
     <div>
       <nav aria-label="Breadcrumb" className="mb-1 text-sm text-ink-muted">
-        <Link to={`/programmes/${programme.id}`}>{programme.code}</Link> › <Link to={`/cases/${c.id}`}>{c.reference}</Link>
+        <Link to={href("/programmes/:programmeId", { programmeId: programme.id })}>{programme.code}</Link> › <Link to={href("/cases/:caseId", { caseId: c.id })}>{c.reference}</Link>
       </nav>
       <div className="mb-4 flex flex-wrap items-center gap-3">
         <p className="text-lg font-semibold">{c.title}</p>
@@ -32,13 +32,13 @@ export default function CaseLayout({ loaderData }: Route.ComponentProps) {
         <nav aria-label="Steps" className="shrink-0 lg:w-48">
           <ol className="flex gap-1 overflow-x-auto lg:flex-col">
             <li>
-              <NavLink end to={`/cases/${c.id}`} className={stepClass}>
+              <NavLink end to={href("/cases/:caseId", { caseId: c.id })} className={stepClass}>
                 <span className="font-semibold">Overview</span>
               </NavLink>
             </li>
             {steps.map((s, i) => (
               <li key={s.key}>
-                <NavLink to={`/cases/${c.id}/${s.key}`} className={stepClass}>
+                <NavLink to={href(`/cases/:caseId/${s.key}`, { caseId: c.id })} className={stepClass}>
                   <span className="font-semibold">
                     {i + 1}. {s.label}
                   </span>
@@ -50,13 +50,13 @@ export default function CaseLayout({ loaderData }: Route.ComponentProps) {
               </li>
             ))}
             <li className="mt-2 border-t border-line pt-2">
-              <NavLink to={`/cases/${c.id}/review`} className={stepClass}>
+              <NavLink to={href("/cases/:caseId/review", { caseId: c.id })} className={stepClass}>
                 <span className="font-semibold">Review</span>
                 <span className="block text-xs text-ink-muted">submit, check, sign</span>
               </NavLink>
             </li>
             <li>
-              <NavLink to={`/cases/${c.id}/reports`} className={stepClass}>
+              <NavLink to={href("/cases/:caseId/reports", { caseId: c.id })} className={stepClass}>
                 <span className="font-semibold">Reports</span>
                 <span className="block text-xs text-ink-muted">issued versions</span>
               </NavLink>

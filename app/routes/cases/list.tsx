@@ -1,4 +1,4 @@
-import { Form, Link } from "react-router";
+import { Form, href, Link } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
 import { hasPermission } from "~/domain/permissions";
 import { CASE_STATUSES, type CaseStatus } from "~/domain/vocabulary";
@@ -71,7 +71,7 @@ export default function CasesRoute({ loaderData }: Route.ComponentProps) {
           {cases.map((c) => (
             <tr key={c.id} className="border-b border-line last:border-0 hover:bg-canvas">
               <td className="px-3 py-2 font-semibold">
-                <Link to={`/cases/${c.id}`}>{c.reference}</Link>
+                <Link to={href("/cases/:caseId", { caseId: c.id })}>{c.reference}</Link>
               </td>
               <td className="px-3 py-2">{c.title}</td>
               <td className="px-3 py-2">{c.programmeCode}</td>

@@ -1,4 +1,4 @@
-import { Form, Link, useNavigation } from "react-router";
+import { Form, href, Link, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/auth.server";
 import { hasPermission } from "~/domain/permissions";
 import { TextAreaField, TextField } from "~/components/forms/field";
@@ -39,7 +39,7 @@ export default function ProgrammesRoute({ loaderData, actionData }: Route.Compon
             {loaderData.programmes.map((p) => (
               <tr key={p.id} className="border-b border-line last:border-0">
                 <td className="px-3 py-2 font-semibold">
-                  <Link to={`/programmes/${p.id}`}>{p.code}</Link>
+                  <Link to={href("/programmes/:programmeId", { programmeId: p.id })}>{p.code}</Link>
                 </td>
                 <td className="px-3 py-2">{p.name}</td>
                 <td className="px-3 py-2">{p.aircraft}</td>

@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { requireApiUser } from "~/auth/api-auth.server";
 import { getAnalysisJob } from "~/services/analysis-jobs.server";
 import type { Route } from "./+types/analyze-job";
@@ -18,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (job.status === "done" && job.result) return Response.json(job.result);
     if (job.status === "failed") return invalidCase(job.problems ?? []);
     const { result: _result, problems: _problems, ...status } = job;
-    return Response.json({ job: { ...status, links: { self: `/api/v1/analyze/jobs/${job.id}` } } }, { status: 202, headers: { "Retry-After": "2" } });
+    return Response.json({ job: { ...status, links: { self: href("/api/v1/analyze/jobs/:jobId", { jobId: job.id }) } } }, { status: 202, headers: { "Retry-After": "2" } });
   });
 }
 

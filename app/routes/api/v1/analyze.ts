@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { requireApiUser } from "~/auth/api-auth.server";
 import { analyse, AnalysisLimitError } from "~/services/analysis-jobs.server";
 import { statusOf } from "~/utils/http.server";
@@ -24,7 +25,7 @@ export async function action({ request }: Route.ActionArgs) {
       const answer = await analyse({ organisationId: current.organisation.id, userId: current.user.id, document });
       if (answer.kind === "invalid") return invalidCase(answer.problems);
       if (answer.kind === "result") return Response.json(answer.result);
-      const location = `/api/v1/analyze/jobs/${answer.job.id}`;
+      const location = href("/api/v1/analyze/jobs/:jobId", { jobId: answer.job.id });
       return Response.json(
         { job: { ...answer.job, links: { self: location } }, message: `${answer.job.cases} load cases are solved by a background worker; fetch ${location} until it answers 200.` },
         { status: 202, headers: { Location: location, "Retry-After": "2" } },

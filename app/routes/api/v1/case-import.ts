@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { z } from "zod";
 import { lineProblem } from "~/utils/text";
 import { requireApiUser } from "~/auth/api-auth.server";
@@ -68,9 +69,10 @@ export async function action({ request }: Route.ActionArgs) {
       sections: target.data.sections,
       actor: current.user,
     });
+    const self = href("/api/v1/cases/:caseId", { caseId: row.id });
     return Response.json(
-      { id: row.id, reference: row.reference, title: row.title, status: row.status, links: { case: `/api/v1/cases/${row.id}`, export: `/api/v1/cases/${row.id}/export`, results: `/api/v1/cases/${row.id}/results` } },
-      { status: 201, headers: { Location: `/api/v1/cases/${row.id}` } },
+      { id: row.id, reference: row.reference, title: row.title, status: row.status, links: { case: self, export: href("/api/v1/cases/:caseId/export", { caseId: row.id }), results: href("/api/v1/cases/:caseId/results", { caseId: row.id }) } },
+      { status: 201, headers: { Location: self } },
     );
   });
 }
