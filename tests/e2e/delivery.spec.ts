@@ -1,5 +1,5 @@
 import { expect, test, type Response } from "@playwright/test";
-import { signIn } from "../playwright-utils";
+import { signIn } from "./helpers";
 
 // What the browser downloads: compressed, only the chart types drawn, nothing of the server.
 // Behaviour, not timing: which headers and which code arrive, never how fast.

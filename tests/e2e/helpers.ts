@@ -1,10 +1,15 @@
 import { expect, type Browser, type Page } from "@playwright/test";
 import { DEMO_CASE_INPUTS, DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
 
-/** Shared steps of the browser tests: sign-in, a case of one's own, the basis typed in. */
+/*
+ * Shared steps of the browser tests: sign-in, screenshots, the stepper, a case of one's own, the
+ * basis typed in. The tests wait for what a page shows (its URL, a heading, a saved revision, a
+ * figure), never for a length of time; the limits in playwright.config.ts only say when a test has
+ * hung, so a busy machine makes the run slower, not red (docs/decisions/012).
+ */
 export const demoUser = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
 
-export async function signIn(page: Page, label: DemoUser["label"]) {
+export async function signIn(page: Page, label: DemoUser["label"] = "engineer") {
   const u = demoUser(label);
   await page.goto("/login");
   await page.getByLabel("E-mail", { exact: true }).fill(u.email);
@@ -12,6 +17,12 @@ export async function signIn(page: Page, label: DemoUser["label"]) {
   await page.getByRole("button", { name: "Sign in" }).click();
   await expect(page).not.toHaveURL(/\/login/);
 }
+
+/** A full-page screenshot in tests/e2e/screenshots/ (kept out of git) for people to look at. */
+export const shot = (page: Page, name: string) => page.screenshot({ path: `tests/e2e/screenshots/${name}.png`, fullPage: true });
+
+/** A step of the case's stepper, by its label. */
+export const caseStep = (page: Page, name: RegExp) => page.getByRole("navigation", { name: "Steps" }).getByRole("link", { name });
 
 export async function signedIn(browser: Browser, label: DemoUser["label"]): Promise<Page> {
   const page = await (await browser.newContext()).newPage();

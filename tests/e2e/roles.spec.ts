@@ -1,5 +1,5 @@
 import { expect, test } from "@playwright/test";
-import { shot, signIn, user } from "../playwright-utils";
+import { demoUser as user, shot, signIn } from "./helpers";
 
 const LANDING = {
   engineer: { path: "/cases", heading: "Cases", nav: ["Cases", "Programmes", "Reports"], hidden: ["Checks", "Audit trail", "Members"] },

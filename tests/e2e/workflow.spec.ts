@@ -4,7 +4,7 @@ import os from "node:os";
 import path from "node:path";
 import { expect, test, type Page } from "@playwright/test";
 import { DEMO_CASE_INPUTS } from "../../app/demo/scenario";
-import { caseStep as step, shot, signIn } from "../playwright-utils";
+import { caseStep as step, shot, signIn } from "./helpers";
 
 test("an engineer builds a case from nothing and reads the critical root bending moment, equal to the command line's", async ({ page }) => {
   await signIn(page);

@@ -21,11 +21,15 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
     hydrating.current = false;
   }, []);
   const patched = useRef(false);
+  /* eslint-disable react-hooks/refs, react-hooks/immutability -- register is wrapped once per form
+     instance in its first render, so the fields registered in that same render go through it; the
+     hydrating ref is read later, in the fields' ref callbacks, not while rendering. */
   if (!patched.current) {
     // Every field of every form (panels and grid cells alike) registers through this one place.
     form.register = registerKeepingTyped(form, form.register, hydrating);
     patched.current = true;
   }
+  /* eslint-enable react-hooks/refs, react-hooks/immutability */
   // A new saved revision (resetKey) replaces what the form holds, including its base revision. Not
   // on the first render: the form already starts from those values. Forms are disabled from the
   // post until the page holds the new revision (useSaving), so nothing typed is replaced here.
