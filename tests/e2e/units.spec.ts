@@ -1,4 +1,4 @@
-import { expect, test } from "@playwright/test";
+import { expect, test, type Page } from "@playwright/test";
 import { copyOfDemoCase, exported, hydrated, signIn, typeDemoBasis } from "./helpers";
 
 // Exact unit definitions (international yard and pound, 1959; NIST SP 811 appendix B; REFERENCES.md §8):
@@ -9,7 +9,7 @@ const LB = 0.45359237;
 const KT = 1852 / 3600;
 // As an input shows a converted value: ten significant figures.
 const shown = (v: number) => String(Number.parseFloat(v.toPrecision(10)));
-const saved = (page: import("@playwright/test").Page, revision: number) => page.getByRole("status").filter({ hasText: `Saved as revision ${revision}.` });
+const saved = (page: Page, revision: number) => page.getByRole("status").filter({ hasText: `Saved as revision ${revision}.` });
 
 test("switching the units converts what is shown; what is typed in either system is stored in SI, and every page follows", async ({ page }) => {
   test.setTimeout(300_000);

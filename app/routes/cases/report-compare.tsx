@@ -1,7 +1,7 @@
 import { Form, href, Link } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
-import { Alert, EmptyState, PageHeader, Panel } from "~/components/ui/page-header";
+import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { DomainError } from "~/domain/errors";
 import { compareReportVersions } from "~/services/report-comparison.server";
 import type { Route } from "./+types/report-compare";
