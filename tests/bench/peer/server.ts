@@ -1,0 +1,29 @@
+/**
+ * The peer of the load benchmark: the page in app/routes/case.tsx built by React Router and served
+ * by Express (with the same compression middleware as the app), one process per core like the app's
+ * `npm start`. Started by tests/bench/load.ts with PORT, DATABASE_URL and WEB_PROCESSES.
+ */
+import cluster from "node:cluster";
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
+import express from "express";
+import type { ServerBuild } from "react-router";
+
+const processes = Number(process.env.WEB_PROCESSES ?? 2);
+if (cluster.isPrimary && processes > 1) {
+  for (let i = 0; i < processes; i++) cluster.fork();
+  process.on("SIGTERM", () => {
+    for (const w of Object.values(cluster.workers ?? {})) w?.kill("SIGTERM");
+    process.exit(0);
+  });
+} else {
+  const build = (await import(pathToFileURL(path.join(import.meta.dirname, "build/server/index.js")).href)) as ServerBuild;
+  const app = express();
+  app.disable("x-powered-by");
+  app.use(compression({ threshold: 1024 }));
+  app.use("/assets", express.static(path.join(import.meta.dirname, "build/client/assets"), { immutable: true, maxAge: "1y" }));
+  app.all("/{*splat}", createRequestHandler({ build }));
+  app.listen(Number(process.env.PORT), "127.0.0.1");
+}
