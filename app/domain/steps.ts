@@ -17,6 +17,11 @@ export function stepIndex(key: StepKey): number {
 }
 
 /** The steps whose inputs depend on the given step (everything after it). */
+/** Why the approval of a step waits: the steps before it that are not approved yet. */
+export function approvalWaits(step: StepKey, waiting: readonly StepKey[]): string {
+  return `The ${step} step waits for the approval of ${waiting.join(", ")}: steps are approved in order, each resting on the ones before it.`;
+}
+
 export function downstreamOf(key: StepKey): StepKey[] {
   return STEPS.slice(stepIndex(key) + 1).map((s) => s.key);
 }

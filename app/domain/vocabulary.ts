@@ -52,6 +52,18 @@ export const REPORT_STATUSES = ["queued", "generating", "issued", "released", "f
 export type ReportStatus = (typeof REPORT_STATUSES)[number];
 /** A report in these states is still being made: no second one may be requested. */
 export const PENDING_REPORT_STATUSES = ["queued", "generating"] as const satisfies readonly ReportStatus[];
+
+/**
+ * What is happening to a report, in the words the reports page shows beside its bar: queued (no
+ * worker has taken it yet), rendering (the PDF is being drawn), storing (the PDF goes to storage
+ * and its record is written), issued, or failed. The job's progress notes name the stage they are in.
+ */
+export function reportStage(status: ReportStatus, note: string): "Queued" | "Rendering" | "Storing" | "Issued" | "Failed" {
+  if (status === "queued") return "Queued";
+  if (status === "failed") return "Failed";
+  if (status === "issued" || status === "released") return "Issued";
+  return note.startsWith("storing") ? "Storing" : "Rendering";
+}
 /** A report in these states exists as a stored PDF. */
 export const ISSUED_REPORT_STATUSES = ["issued", "released"] as const satisfies readonly ReportStatus[];
 

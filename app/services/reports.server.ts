@@ -67,7 +67,7 @@ export async function createReportRow(input: { caseId: string; actor: Actor }, d
     const [p] = await tx.select().from(programmes).where(eq(programmes.id, c.programmeId));
     const [r] = await tx
       .insert(reports)
-      .values({ organisationId: c.organisationId, caseId: c.id, version, reportNumber: reportNumber(p!.code, c.reference, version), requestedBy: input.actor.id, progressNote: "waiting for a worker" })
+      .values({ organisationId: c.organisationId, caseId: c.id, version, reportNumber: reportNumber(p!.code, c.reference, version), requestedBy: input.actor.id, progressNote: "waiting for the report worker to take it" })
       .returning();
     await writeAudit(tx, { organisationId: c.organisationId, actor: input.actor, action: "report.request", entityType: "report", entityId: r!.id, after: { caseId: c.id, version, reportNumber: r!.reportNumber } });
     return r!;

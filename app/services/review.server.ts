@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
-import { STEPS, downstreamOf } from "~/domain/steps";
+import { STEPS, approvalWaits, downstreamOf, stepIndex } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, memberships, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
@@ -142,6 +142,8 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
   const result = await database.transaction(async (tx) => {
     await lockStep(tx, input.caseId, input.step);
     const { row, rev, hash: revisionHash } = await submittedRevision(tx, input.caseId, input.step);
+    const waiting = await unapprovedBefore(tx, input.caseId, input.step);
+    if (waiting.length) throw new DomainError(approvalWaits(input.step, waiting), { field: "step", kind: "conflict" });
     if ((await revisionAuthors(tx, input.caseId, input.step)).has(actor.id)) {
       throw new DomainError("You wrote a revision of this step: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
     }
@@ -163,6 +165,31 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
   if (author) await notify(result.case.organisationId, [author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
 }
 
+/**
+ * The steps before `step` that are not approved. A step rests on those before it (the envelope on
+ * the basis and the planform, the loads on everything), so a checker approves them in order.
+ */
+export async function unapprovedBefore(database: Db | Tx, caseId: string, step: StepKey): Promise<StepKey[]> {
+  const rows = await database.select({ step: caseSteps.step, status: caseSteps.status }).from(caseSteps).where(eq(caseSteps.caseId, caseId));
+  return STEPS.slice(0, stepIndex(step))
+    .map((s) => s.key)
+    .filter((key) => rows.find((r) => r.step === key)?.status !== "approved");
+}
+
+/** The live signatures an edit of `step` voids: the checks of it and of every step downstream, and the case's approval for issue. */
+function voidedByEdit(live: Awaited<ReturnType<typeof liveSignatures>>, step: StepKey) {
+  const affected: StepKey[] = [step, ...downstreamOf(step)];
+  return live.filter((s) => (s.step !== null && affected.includes(s.step) && s.meaning === "checked") || (s.step === null && s.reportId === null && s.meaning === "approved for issue"));
+}
+
+/**
+ * What saving a change to `step` would void, in words, for the warning the step page shows before
+ * anyone saves: "checked by Marek Oduya on planform", "approved for issue by Marek Oduya".
+ */
+export async function signaturesVoidedByEdit(caseId: string, step: StepKey, database: Db | Tx = db): Promise<string[]> {
+  return voidedByEdit(await liveSignatures(caseId, database), step).map((s) => (s.step ? `${s.meaning} by ${s.signerName} on ${s.step}` : `${s.meaning} by ${s.signerName}`));
+}
+
 /** Signatures not voided, newest first, for a case. */
 export async function liveSignatures(caseId: string, database: Tx | typeof db = db) {
   const rows = await database
@@ -181,7 +208,7 @@ export async function liveSignatures(caseId: string, database: Tx | typeof db = 
  */
 export async function approveCaseForIssue(input: { caseId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; expectedHash?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
-  await database.transaction(async (tx) => {
+  const approved = await database.transaction(async (tx) => {
     if ((await revisionAuthors(tx, input.caseId)).has(actor.id)) {
       throw new DomainError("You wrote revisions of this case: another checker must approve it for issue (separation of duties).", { field: "case", kind: "forbidden" });
     }
@@ -195,7 +222,17 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
       .values({ organisationId: c!.organisationId, caseId: input.caseId, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "approved for issue", confirmedBy: input.confirmedBy, revisionHash })
       .returning();
     await writeAudit(tx, { organisationId: c!.organisationId, actor, action: "case.approve-for-issue", entityType: "case", entityId: input.caseId, after: { signatureId: sig!.id, revisionHash } });
+    return c!;
   });
+  // The engineers request the report: they are told the case may now be issued.
+  const engineers = await members(approved.organisationId, "engineer");
+  await notify(
+    approved.organisationId,
+    engineers.map((e) => e.email),
+    `${approved.reference}: approved for issue`,
+    [`${actor.name} signed ${approved.reference} (${approved.title}) as approved for issue. An engineer of the case can now request the report on its Reports page.`],
+    `/cases/${input.caseId}/reports`,
+  );
 }
 
 /**
@@ -204,9 +241,7 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
  * the reason is written into each step's thread.
  */
 export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; step: StepKey; revision: number; actor: Actor }) {
-  const affected: StepKey[] = [input.step, ...downstreamOf(input.step)];
-  const live = await liveSignatures(input.caseId, tx);
-  const toVoid = live.filter((s) => (s.step !== null && affected.includes(s.step) && s.meaning === "checked") || (s.step === null && s.reportId === null && s.meaning === "approved for issue"));
+  const toVoid = voidedByEdit(await liveSignatures(input.caseId, tx), input.step);
   if (toVoid.length === 0) return [];
   const reason = `${input.step} changed to revision ${input.revision} by ${input.actor.email}`;
   await tx.insert(signatureVoids).values(toVoid.map((s) => ({ signatureId: s.id, reason, voidedBy: input.actor.id })));

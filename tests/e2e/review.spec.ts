@@ -35,9 +35,17 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
   // Typed once the page's scripts run, as usual; typing before that is covered in workflow.spec.ts.
   await expect(engineer.locator("html[data-hydrated]")).toHaveCount(1);
   await expect(engineer.locator("#stations-0-2")).toHaveValue("2.1");
+  // Before anything is saved, the page says which signatures a change would void: the checks from
+  // planform on and the approval for issue, not the basis's.
+  const voids = engineer.getByTestId("voids-warning");
+  await expect(voids).toContainText("checked by Marek Oduya on planform");
+  await expect(voids).toContainText("checked by Marek Oduya on loads");
+  await expect(voids).toContainText("approved for issue by Marek Oduya");
+  await expect(voids).not.toContainText("on basis");
   await engineer.locator("#stations-0-2").fill("2.12");
   await engineer.getByRole("button", { name: "Save planform" }).click();
   await expect(engineer.getByRole("status").filter({ hasText: "Saved as revision 2" })).toBeVisible();
+  await expect(voids).toHaveCount(0);
   await engineer.goto(caseUrl);
   await expect(engineer.getByText(/approval voided: planform changed to revision 2/).first()).toBeVisible();
   await expect(engineer.getByText(/checked by Marek Oduya/)).toHaveCount(1);

@@ -15,6 +15,7 @@ import { action as verifyAction } from "~/routes/reports";
 import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
 import { loader as caseReportsLoader } from "~/routes/api/v1/case-reports";
 import { STEPS } from "~/domain/steps";
+import { reportStage, type ReportStatus } from "~/domain/vocabulary";
 import { formatQuantity } from "~/domain/units";
 import { saveStep } from "~/services/case-steps.server";
 import { setMemberRoles } from "~/services/organisation.server";
@@ -91,6 +92,17 @@ describe("review of each step", () => {
     expect(mail.some((m) => m.subject.includes("basis returned") && m.text.includes("23.335(b)"))).toBe(true);
   });
 
+  it("approves steps in order: a later step waits, saying for which, until those before it are approved", async () => {
+    const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
+    if (planform!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: "planform" })).status).toBe(200);
+    const early = await review("checker", { intent: "approve", step: "planform", password: demoUser("checker").password });
+    expect(early.status).toBe(409);
+    expect((early.body as { message: string }).message).toMatch(/planform step waits for the approval of basis/);
+    const [after] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
+    expect(after!.status).toBe("submitted");
+    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(0);
+  });
+
   it("records an approval as a signature on the exact revision: signer, role, meaning, UTC time and hash", async () => {
     await approveAll();
     const sigs = await db.select().from(signatures).where(eq(signatures.caseId, caseId));
@@ -104,6 +116,9 @@ describe("review of each step", () => {
 
   it("makes no revision and voids nothing when a step is saved unchanged, numbers back through display rounding included", async () => {
     expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
+    // The engineers, who request the report, are told the case is approved for issue.
+    const mail = await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: demoUser("engineer").email });
+    expect(mail.some((m) => m.subject.includes("TN-WL-001: approved for issue") && (m.html ?? "").includes(`/cases/${caseId}/reports`))).toBe(true);
     const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
     // As a chord shown in feet to ten figures and typed back comes out in metres.
@@ -200,7 +215,26 @@ describe("reports", () => {
   it("issues a PDF whose S3 bytes match PostgreSQL and whose text holds the title, the root bending moment and every signer", async () => {
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
     const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    // What the reports page polls: the stage in words beside the bar, queued until a worker takes it.
+    const polled = async () => ((await ((await caseReportsLoader({ request: request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response).json()) as { reports: { id: string; status: ReportStatus; progressNote: string }[] }).reports.find((r) => r.id === row.id)!;
+    const queued = await polled();
+    expect(reportStage(queued.status, queued.progressNote)).toBe("Queued");
+    expect(queued.progressNote).toMatch(/waiting for the report worker/);
+    // Every progress note the job writes, recorded by the database as it is written.
+    await db.execute(sql`CREATE TABLE progress_log (n serial, status text, note text)`);
+    await db.execute(sql`CREATE FUNCTION log_progress() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN INSERT INTO progress_log (status, note) VALUES (NEW.status, NEW.progress_note); RETURN NEW; END $$`);
+    await db.execute(sql`CREATE TRIGGER log_progress AFTER UPDATE ON reports FOR EACH ROW EXECUTE FUNCTION log_progress()`);
     await generateReport(row.id);
+    await db.execute(sql`DROP TRIGGER log_progress ON reports`);
+    const log = (await db.execute(sql`SELECT status, note FROM progress_log ORDER BY n`)).rows as { status: ReportStatus; note: string }[];
+    await db.execute(sql`DROP TABLE progress_log; DROP FUNCTION log_progress`);
+    const stages = log.filter((l) => l.note !== queued.progressNote).map((l) => reportStage(l.status, l.note));
+    expect(stages[0]).toBe("Rendering");
+    expect(stages).toContain("Storing");
+    expect(stages.at(-1)).toBe("Issued");
+    expect(stages.slice(0, -1).every((st) => st === "Rendering" || st === "Storing")).toBe(true);
+    const done = await polled();
+    expect(reportStage(done.status, done.progressNote)).toBe("Issued");
     const [issued] = await db.select().from(reports).where(eq(reports.id, row.id));
     const download = await run(pdfLoader, { request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id } });
     expect(download.status).toBe(200);

@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { signaturesVoidedByEdit } from "~/services/review.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
@@ -30,6 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     saved,
     derived: saved ? basisChecks(saved) : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
+    voids: await signaturesVoidedByEdit(c.id, "basis"),
   };
 }
 
@@ -63,7 +65,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
           <BasisWingPanel {...fields} />
         </fieldset>
         {loaderData.derived ? <BasisChecksPanel checks={loaderData.derived} /> : null}
-        <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save basis" />
+        <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save basis" voids={loaderData.voids} />
       </Form>
     </>
   );

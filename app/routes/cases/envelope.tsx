@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { signaturesVoidedByEdit } from "~/services/review.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
@@ -41,6 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     vnProblem: vn.problem,
     stall: inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.envelope.status !== "submitted",
+    voids: await signaturesVoidedByEdit(c.id, "envelope"),
   };
 }
 
@@ -108,7 +110,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
               <MethodPanel form={form} server={server} disabled={disabled} busy={busy} noDiagram={Boolean(loaderData.vnProblem)} />
               {windowed ? null : <CasesPanel form={form} server={server} units={units} disabled={disabled} count={loaderData.values.cases.length} />}
             </fieldset>
-            <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label={windowed ? "Save method" : "Save envelope"} onSave={() => form.setValue("intent", saveIntent)} />
+            <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label={windowed ? "Save method" : "Save envelope"} onSave={() => form.setValue("intent", saveIntent)} voids={loaderData.voids} />
           </Form>
           {loaderData.window ? <CasesWindowPanel caseId={loaderData.caseId} first={loaderData.window} revision={loaderData.revision} units={units} canEdit={loaderData.canEdit} status={loaderData.status} /> : null}
         </div>

@@ -53,7 +53,7 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number,
 }
 
 /** The semispan structural mass whose inertia relieves the air loads. */
-export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, revision, busy }: { form: ZodForm<typeof LoadsFormSchema>; onSubmit: React.FormEventHandler<HTMLFormElement>; server: FieldErrors | undefined; units: UnitSystem; canEdit: boolean; status: StepStatus; revision: number; busy: boolean }) {
+export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, revision, busy, voids }: { form: ZodForm<typeof LoadsFormSchema>; onSubmit: React.FormEventHandler<HTMLFormElement>; server: FieldErrors | undefined; units: UnitSystem; canEdit: boolean; status: StepStatus; revision: number; busy: boolean; voids: readonly string[] }) {
   return (
     <Panel title="Inertia relief">
       <Form method="post" onSubmit={onSubmit} noValidate>
@@ -67,7 +67,7 @@ export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, r
             errors={errorsFor(form, server, "semispanMass")}
           />
         </fieldset>
-        <StepSaveBar canEdit={canEdit} status={status} revision={revision} busy={busy} label="Save" />
+        <StepSaveBar canEdit={canEdit} status={status} revision={revision} busy={busy} label="Save" voids={voids} />
       </Form>
     </Panel>
   );

@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { useState } from "react";
 import { requireCase } from "~/auth/case-access.server";
+import { signaturesVoidedByEdit } from "~/services/review.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { StepAnswer } from "~/components/case/step-answer";
 import { useZodForm } from "~/components/forms/use-zod-form";
@@ -34,6 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
     axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.loads.status !== "submitted",
+    voids: await signaturesVoidedByEdit(c.id, "loads"),
   };
 }
 
@@ -67,7 +69,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
       ) : null}
       <StepAnswer answer={shown} inline={["semispanMass"]} />
       <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
-        <InertiaPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} />
+        <InertiaPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} voids={loaderData.voids} />
         <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} />
       </div>
       {result && current ? (

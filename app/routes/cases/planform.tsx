@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { signaturesVoidedByEdit } from "~/services/review.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
@@ -34,6 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       geometry: saved ? planformGeometry(saved.stations) : null,
     },
     canEdit: hasPermission(current.roles, "case:edit") && steps.planform.status !== "submitted",
+    voids: await signaturesVoidedByEdit(c.id, "planform"),
   };
 }
 
@@ -67,7 +69,7 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
             <StationsPanel form={form} server={server} units={units} disabled={disabled} />
             {disabled ? null : <PanelEntryPanel units={units} onStations={(rows) => form.setValue("stations", rows, { shouldDirty: true })} />}
           </fieldset>
-          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save planform" />
+          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save planform" voids={loaderData.voids} />
         </Form>
         <div className="space-y-5">
           <DrawingPanel preview={preview} saved={saved} units={units} />

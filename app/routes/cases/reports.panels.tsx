@@ -2,7 +2,7 @@ import { useEffect } from "react";
 import { Form, href, useFetcher, useRevalidator } from "react-router";
 import { Button } from "~/components/ui/button";
 import { Alert, Panel } from "~/components/ui/page-header";
-import { PENDING_REPORT_STATUSES, type ReportStatus } from "~/domain/vocabulary";
+import { PENDING_REPORT_STATUSES, reportStage, type ReportStatus } from "~/domain/vocabulary";
 import type { latestVersionChanges, ReportListItem } from "~/services/reports.server";
 import type { RerunView } from "~/services/reproduction.server";
 import { formatUtc } from "~/utils/format";
@@ -17,7 +17,7 @@ export const isPending = (status: string) => (PENDING_REPORT_STATUSES as readonl
  */
 export function useReportProgress(caseId: string, pending: boolean) {
   const revalidator = useRevalidator();
-  const status = useFetcher<{ reports: { id: string; status: ReportStatus; progress: number }[] }>();
+  const status = useFetcher<{ reports: { id: string; status: ReportStatus; progress: number; progressNote: string }[] }>();
   const url = href("/api/v1/cases/:caseId/reports", { caseId });
   const { load } = status;
   const { revalidate } = revalidator;
@@ -62,7 +62,9 @@ export function RequestReportForm({ first, busy, pending }: { first: boolean; bu
 }
 
 /** One version of the report: state, hashes, download, the signatures behind it, and quality's release. */
-export function ReportPanel({ report: r, progress, canRelease, canSso, busy, rerun }: { report: ReportListItem; progress: number; canRelease: boolean; canSso: boolean; busy: boolean; rerun: RerunView | null }) {
+export function ReportPanel({ report: r, live, canRelease, canSso, busy, rerun }: { report: ReportListItem; live: { status: ReportStatus; progress: number; progressNote: string } | undefined; canRelease: boolean; canSso: boolean; busy: boolean; rerun: RerunView | null }) {
+  // The polled state while the job runs; the page's own until the first answer.
+  const now = live ?? r;
   return (
     <Panel title={`${r.reportNumber} · version ${r.version}`}>
       <div className="flex flex-wrap items-start gap-6 text-sm">
@@ -83,9 +85,11 @@ export function ReportPanel({ report: r, progress, canRelease, canSso, busy, rer
         <div className="min-w-64 flex-1">
           {isPending(r.status) ? (
             <div role="status" aria-live="polite">
-              <p>Generating… {progress}% — {r.progressNote}</p>
-              <div className="mt-1 h-2 rounded bg-canvas">
-                <div className="h-2 rounded bg-accent" style={{ width: `${Math.max(5, progress)}%` }} />
+              <p>
+                <strong>{reportStage(now.status, now.progressNote)}</strong> · {now.progress}% — {now.progressNote}
+              </p>
+              <div className="mt-1 h-2 rounded bg-canvas" role="progressbar" aria-label={`Report ${r.reportNumber}`} aria-valuemin={0} aria-valuemax={100} aria-valuenow={now.progress}>
+                <div className="h-2 rounded bg-accent" style={{ width: `${Math.max(5, now.progress)}%` }} />
               </div>
             </div>
           ) : null}

@@ -70,7 +70,7 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
       ) : (
         <div className="space-y-4">
           {loaderData.reports.map((r) => (
-            <ReportPanel key={r.id} report={r} progress={live?.find((x) => x.id === r.id)?.progress ?? r.progress} canRelease={loaderData.canRelease} canSso={loaderData.canSso} busy={busy} rerun={loaderData.reruns[r.id] ?? null} />
+            <ReportPanel key={r.id} report={r} live={live?.find((x) => x.id === r.id)} canRelease={loaderData.canRelease} canSso={loaderData.canSso} busy={busy} rerun={loaderData.reruns[r.id] ?? null} />
           ))}
         </div>
       )}

@@ -1,7 +1,8 @@
 import { Form } from "react-router";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
-import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
+import { approvalWaits } from "~/domain/steps";
+import { STEP_STATUS_LABELS, type StepKey } from "~/domain/vocabulary";
 import type { reviewState, caseSignatures } from "~/services/review.server";
 import { formatUtc } from "~/utils/format";
 import { SsoSignButton } from "~/components/case/sso-sign-button";
@@ -14,7 +15,7 @@ type CaseSignature = Awaited<ReturnType<typeof caseSignatures>>[number];
  * through with the reason), its thread, and the forms the person's roles allow: comment, submit,
  * approve with a signature, or return.
  */
-export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck, canSso, busy }: { step: StepReview; index: number; selfId: string; canSubmit: boolean; canCheck: boolean; canSso: boolean; busy: boolean }) {
+export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck, canSso, busy, waitsFor }: { step: StepReview; index: number; selfId: string; canSubmit: boolean; canCheck: boolean; canSso: boolean; busy: boolean; waitsFor: StepKey[] }) {
   const ownRevision = s.revisionAuthorId === selfId;
   return (
     <Panel title={`${i + 1}. ${s.label}`}>
@@ -73,18 +74,22 @@ export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck
               <p className="text-sm text-warn">You edited this revision: another checker must approve or return it.</p>
             ) : (
               <>
-                <Form method="post" className="space-y-2 rounded border border-line p-3">
-                  <input type="hidden" name="intent" value="approve" />
-                  <input type="hidden" name="step" value={s.key} />
-                  <label className="block text-sm font-semibold" htmlFor={`pw-${s.key}`}>
-                    Your password, to sign
-                  </label>
-                  <input id={`pw-${s.key}`} name="password" type="password" autoComplete="current-password" className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
-                  <Button type="submit" name="confirm" value="password" disabled={busy}>
-                    Approve {s.label.toLowerCase()} (sign: checked)
-                  </Button>
-                  {canSso ? <SsoSignButton busy={busy} label={`Approve ${s.label.toLowerCase()} with company sign-in`} /> : null}
-                </Form>
+                {waitsFor.length ? (
+                  <p className="text-sm text-ink-muted">{approvalWaits(s.key, waitsFor)}</p>
+                ) : (
+                  <Form method="post" className="space-y-2 rounded border border-line p-3">
+                    <input type="hidden" name="intent" value="approve" />
+                    <input type="hidden" name="step" value={s.key} />
+                    <label className="block text-sm font-semibold" htmlFor={`pw-${s.key}`}>
+                      Your password, to sign
+                    </label>
+                    <input id={`pw-${s.key}`} name="password" type="password" autoComplete="current-password" className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
+                    <Button type="submit" name="confirm" value="password" disabled={busy}>
+                      Approve {s.label.toLowerCase()} (sign: checked)
+                    </Button>
+                    {canSso ? <SsoSignButton busy={busy} label={`Approve ${s.label.toLowerCase()} with company sign-in`} /> : null}
+                  </Form>
+                )}
                 <Form method="post" className="space-y-2 rounded border border-line p-3">
                   <input type="hidden" name="intent" value="return" />
                   <input type="hidden" name="step" value={s.key} />

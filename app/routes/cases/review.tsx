@@ -76,7 +76,7 @@ export default function ReviewRoute({ loaderData, actionData }: Route.ComponentP
       {shown && !shown.ok && !shown.message ? <div className="mb-4"><Alert>{Object.values(shown.fieldErrors).flat().join(" ")}</Alert></div> : null}
       <div className="space-y-4">
         {loaderData.steps.map((s, i) => (
-          <StepReviewPanel key={s.key} step={s} index={i} selfId={loaderData.selfId} canSubmit={loaderData.canSubmit} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} />
+          <StepReviewPanel key={s.key} step={s} index={i} selfId={loaderData.selfId} canSubmit={loaderData.canSubmit} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} waitsFor={loaderData.steps.slice(0, i).filter((u) => u.status !== "approved").map((u) => u.key)} />
         ))}
         <CaseApprovalPanel signatures={loaderData.caseSignatures} approvedForIssue={loaderData.approvedForIssue} allApproved={loaderData.allApproved} canCheck={loaderData.canCheck} canSso={loaderData.canSso} busy={busy} />
       </div>

@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { data, Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { signaturesVoidedByEdit } from "~/services/review.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
@@ -30,6 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     saved,
     values: sectionsFormValues(saved, stepData(steps, "planform"), units),
     canEdit: hasPermission(current.roles, "case:edit") && steps.sections.status !== "submitted",
+    voids: await signaturesVoidedByEdit(c.id, "sections"),
     maxKiB: MAX_SECTION_CSV_BYTES / 1024,
   };
 }
@@ -95,7 +97,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
           <fieldset disabled={!loaderData.canEdit || busy}>
             <SectionGridPanel form={form} server={shown?.fieldErrors} units={loaderData.units} disabled={!loaderData.canEdit} />
           </fieldset>
-          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" />
+          <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" voids={loaderData.voids} />
         </Form>
         <div className="space-y-5">
           {loaderData.canEdit ? <UploadPanel revision={loaderData.revision} maxKiB={loaderData.maxKiB} /> : null}

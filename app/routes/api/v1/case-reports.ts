@@ -22,6 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           reportNumber: r.reportNumber,
           status: r.status,
           progress: r.progress,
+          progressNote: r.progressNote,
           sha256: r.sha256,
           createdAt: r.createdAt.toISOString(),
           issuedAt: r.issuedAt?.toISOString() ?? null,
