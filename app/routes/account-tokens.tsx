@@ -127,6 +127,15 @@ function NewToken({ name, token, scope }: { name: string; token: string; scope: 
   );
 }
 
+/**
+ * One radio button of a registered field: its own value, checked when it is the saved one. The
+ * registered field's defaultValue (the saved value, for text inputs) must not reach a radio.
+ */
+function radio<F extends object>(field: F, value: string, saved: string) {
+  const { defaultValue: _saved, ...rest } = field as F & { defaultValue?: unknown };
+  return { ...rest, value, defaultChecked: value === saved };
+}
+
 function CreateTokenForm({ serverErrors, createdToken }: { serverErrors?: Record<string, string[] | undefined>; createdToken?: string }) {
   // A token just created empties the form for the next one.
   const { form, onSubmit } = useZodForm(CreateTokenSchema, { intent: "create", name: "", scope: "read" }, createdToken);
@@ -145,7 +154,7 @@ function CreateTokenForm({ serverErrors, createdToken }: { serverErrors?: Record
           <legend className="text-sm font-semibold">What it may do</legend>
           {API_TOKEN_SCOPES.map((scope) => (
             <label key={scope} className="mt-1 flex items-start gap-2 text-sm">
-              <input type="radio" value={scope} className="mt-1" {...form.register("scope")} />
+              <input type="radio" className="mt-1" {...radio(form.register("scope"), scope, "read")} />
               <span>{API_TOKEN_SCOPE_LABELS[scope]}</span>
             </label>
           ))}

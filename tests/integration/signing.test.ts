@@ -167,7 +167,9 @@ describe("a signature's fresh proof", () => {
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
     await returnStep({ caseId, step: "sections", actor: current.user, comment: "Add the tip section." });
     const row = await stepStatus("sections");
-    await saveStep({ caseId, step: "sections", baseRevision: row.revision, data: row.data!, actor: { id: erin!.id, email: erin!.email } });
+    const edited = structuredClone(row.data!) as { rows: { cmAc: number }[] };
+    edited.rows[0]!.cmAc -= 0.01;
+    await saveStep({ caseId, step: "sections", baseRevision: row.revision, data: edited, actor: { id: erin!.id, email: erin!.email } });
     expect((await review(cookies.engineer!, { intent: "submit", step: "sections" })).status).toBe(200);
     const at = Math.floor(req!.createdAt.getTime() / 1000);
     const done = await completeSsoSignature(current, { kind: "signature", state: "s", codeVerifier: "v", nonce: new URL(url).searchParams.get("nonce")!, requestId: req!.id }, { sub: linked!.ssoSubject!, email: current.user.email, authTime: at });
