@@ -16,6 +16,7 @@ export default [
         route("basis", "routes/cases/basis.tsx"),
         route("planform", "routes/cases/planform.tsx"),
         route("sections", "routes/cases/sections.tsx"),
+        route("masses", "routes/cases/masses.tsx"),
         route("envelope", "routes/cases/envelope.tsx"),
         route("distribution", "routes/cases/distribution.tsx"),
         route("loads", "routes/cases/loads.tsx"),
@@ -44,6 +45,7 @@ export default [
   route("api/cases/:caseId/load-cases", "routes/api/case-load-cases.ts"),
   route("api/cases/:caseId/loads", "routes/api/case-loads.ts"),
   route("api/cases/:caseId/report-comparison", "routes/api/case-report-comparison.ts"),
+  route("api/cases/:caseId/case-loads", "routes/api/case-loads-breakdown.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

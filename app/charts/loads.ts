@@ -30,3 +30,27 @@ export function loadsOption(
     ],
   };
 }
+
+/**
+ * One case's load along the span split into its parts: the aerodynamic load, the inertia relief the
+ * masses take off (drawn negative, so the net load is the sum of the two curves), and the net load.
+ */
+export function reliefOption(
+  quantity: LoadQuantity,
+  data: { y: number[]; aero: number[]; relief: number[]; net: number[]; caseId: string },
+  unit: { symbol: string; scale: (si: number) => number },
+) {
+  const pts = (v: number[], sign = 1): [number, number][] => data.y.map((y, i) => [y, unit.scale(sign * v[i]!)]);
+  const base = baseOption(`${TITLES[quantity]}, case ${data.caseId}`);
+  return {
+    ...base,
+    grid: { ...base.grid, top: 80 },
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
+    series: [
+      line(SERIES_STYLE.aerodynamic.label, pts(data.aero), SERIES_STYLE.aerodynamic),
+      line(SERIES_STYLE.relief.label, pts(data.relief, -1), SERIES_STYLE.relief),
+      line(SERIES_STYLE.net.label, pts(data.net), SERIES_STYLE.net),
+    ],
+  };
+}

@@ -15,6 +15,11 @@ export const SERIES_STYLE = {
   envelopeMax: { color: "#0072B2", type: "solid" as const, label: "Envelope max" },
   envelopeMin: { color: "#D55E00", type: "solid" as const, label: "Envelope min" },
   limit: { color: "#a82424", type: "dashed" as const, label: "Limit" },
+  aerodynamic: { color: "#0072B2", type: "dashed" as const, label: "Aerodynamic load" },
+  relief: { color: "#CC79A7", type: "dotted" as const, label: "Inertia relief (taken off)" },
+  net: { color: "#17202b", type: "solid" as const, label: "Net load" },
+  dynamicGust: { color: "#0072B2", type: "solid" as const, label: "Rigid plunge with lift build-up" },
+  prattGust: { color: "#D55E00", type: "dashed" as const, label: "Pratt formula" },
   neutral: { color: "#7a8694", type: "solid" as const, label: "" },
 } as const;
 

@@ -3,7 +3,9 @@ import { axis, baseOption, line, SERIES_STYLE } from "./theme";
 
 /**
  * The V–n diagram of one weight and altitude: the stall lines (n = ½ρ0V²S·CLmax/W), the manoeuvre
- * limits between their corner points, and the gust lines from (0, 1) to the gust points.
+ * limits between their corner points, the gust lines from (0, 1) to the gust points (V_B, V_C, V_D; for
+ * Part 25 the tuned gusts beside Pratt's for comparison), the flaps-extended points where given, and
+ * every generated point labelled with its name (its rule in the tooltip).
  */
 export function vnOption(title: string, points: VnPoint[], stall: { area: number; clMax: number; clMaxNegative: number; weightN: number }, speedUnit: { symbol: string; fromSI: (v: number) => number }) {
   const p = Object.fromEntries(points.map((pt) => [pt.name, pt]));
@@ -18,6 +20,8 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
   };
   const pts = (names: string[]): [number, number][] => names.filter((n) => p[n]).map((n) => [s(p[n]!.veas), p[n]!.nz]);
   const gust = (name: string): [number, number][] => (p[name] ? [[0, 1], [s(p[name]!.veas), p[name]!.nz]] : []);
+  // Each gust line from (0, 1) to its point, the lines kept apart by a gap.
+  const gustLines = (names: string[]): [number, number][] => names.filter((n) => p[n]).flatMap((n, i) => [...(i ? [[NaN, NaN] as [number, number]] : []), ...gust(n)]);
   return {
     ...baseOption(title),
     xAxis: axis(`Equivalent airspeed [${speedUnit.symbol}]`, { min: 0 }),
@@ -27,7 +31,9 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
       line("Positive stall line", stallLine(stall.clMax, p.A?.veas ?? 0), SERIES_STYLE["prandtl-glauert"]),
       line("Negative stall line", stallLine(stall.clMaxNegative, p.H?.veas ?? 0), SERIES_STYLE["prandtl-glauert"]),
       line("Manoeuvre envelope", pts(["A", "D", "E", "F", "H"]), SERIES_STYLE.solver),
-      line("Gust lines", [...gust("gust+VC"), [NaN, NaN] as [number, number], ...gust("gust-VC"), [NaN, NaN] as [number, number], ...gust("gust+VD"), [NaN, NaN] as [number, number], ...gust("gust-VD")], SERIES_STYLE["karman-tsien"], { connectNulls: false }),
+      line("Gust lines" + (p["tuned+VC"] ? " (Pratt, for comparison)" : ""), gustLines(["gust+VB", "gust-VB", "gust+VC", "gust-VC", "gust+VD", "gust-VD"]), SERIES_STYLE["karman-tsien"], { connectNulls: false }),
+      ...(p["tuned+VC"] ? [line("Tuned gusts (rigid plunge)", gustLines(["tuned+VB", "tuned-VB", "tuned+VC", "tuned-VC", "tuned+VD", "tuned-VD"]), SERIES_STYLE.dynamicGust, { connectNulls: false })] : []),
+      ...(p["flaps-VF"] ? [line("Flaps extended", [...pts(["flaps-A", "flaps-VF"])], SERIES_STYLE.laitone)] : []),
       {
         type: "scatter" as const,
         name: "Load cases",

@@ -62,10 +62,11 @@ export const DEMO_CASE_INPUTS = {
     mtow: 6350,
     mzfw: 5900,
     minWeight: 4300,
-    vs1: 42,
-    va: 76,
-    vc: 110,
-    vd: 150,
+    vs1: 50.4,
+    va: 89,
+    vb: 88,
+    vc: 112,
+    vd: 155,
     altitudes: [0, 3000, 6000],
     wingArea: 27.6,
     clMax: 1.45,
@@ -90,6 +91,27 @@ export const DEMO_CASE_INPUTS = {
     tables: [],
   },
   method: { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 },
-  loads: { semispanMass: 310 },
+  /**
+   * What one KF-60 semispan carries (invented): the turboprop and its nacelle ahead of the wing, the main
+   * gear retracting into the nacelle, and two integral tanks; the aircraft's mass states with weight and CG.
+   */
+  masses: {
+    structureKg: 310,
+    items: [
+      { id: "engine", label: "Turboprop, propeller and nacelle", kg: 290, x: -0.55, y: 2.6 },
+      { id: "main-gear", label: "Main landing gear, retracted into the nacelle", kg: 95, x: 0.9, y: 2.6 },
+      { id: "tank-inner", label: "Inner integral tank, full", kg: 260, x: 0.75, yFrom: 0.5, yTo: 2.3 },
+      { id: "tank-outer", label: "Outer integral tank, full", kg: 320, x: 0.6, yFrom: 3.0, yTo: 6.2 },
+    ],
+    massCases: [
+      { id: "MTOW-full", label: "Take-off weight, full wing tanks", weight: 6350, cg: 0.28, fill: {} },
+      { id: "MTOW-MZFW", label: "Take-off weight at the zero-fuel limit: 450 kg of fuel, inner tanks first", weight: 6350, cg: 0.3, fill: { "tank-inner": 0.865, "tank-outer": 0 } },
+      { id: "MZFW", label: "Zero-fuel weight, tanks empty", weight: 5900, cg: 0.24, fill: { "tank-inner": 0, "tank-outer": 0 } },
+      { id: "MIN-reserve", label: "Minimum design weight, reserve fuel in the inner tanks", weight: 4300, cg: 0.22, fill: { "tank-inner": 0.3, "tank-outer": 0 } },
+    ],
+    balance: { cmBody: -0.018, tailArm: 6.4 },
+    source: { kind: "typed" },
+  },
+  loads: { notes: "Demo notes: the envelope covers the four mass cases of the masses step at three altitudes; the critical case of each load is named in the envelope table with its mass case." },
   justification: "Demo disposition: the case lies on the stall line, where local clmax near the tip is reached by definition; kept so that the envelope covers the stall boundary.",
 } as const;

@@ -90,8 +90,9 @@ async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: stri
   await save("basis", d.basis);
   await save("planform", d.planform);
   await save("sections", d.sections);
+  await save("masses", d.masses);
   const inputs = caseInputs(await getCaseSteps(demo.id));
-  const loadCases = generatedCases(vnSets(inputs.basis!, inputs.planform!, inputs.sections!, d.method));
+  const loadCases = generatedCases(vnSets(inputs.basis!, inputs.planform!, inputs.sections!, d.method, inputs.masses));
   await save("envelope", { ...d.method, cases: loadCases });
   await save("loads", d.loads);
   const withLoads = caseInputs(await getCaseSteps(demo.id));
@@ -100,7 +101,7 @@ async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: stri
   await save("distribution", { dispositions });
   const final = caseInputs(await getCaseSteps(demo.id));
   await resultsFor(demo.id, buildCaseFile(demo.title, final), engineerId, buildSectionsFile(final));
-  return 6;
+  return 7;
 }
 
 /**

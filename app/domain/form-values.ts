@@ -17,6 +17,20 @@ export function numberInput(label: string) {
   );
 }
 
+/** A number that may be left empty: empty is "not given" (undefined), text that is not a number is refused. */
+export function optionalNumberInput(label: string) {
+  return z.preprocess(
+    (v) => {
+      if (typeof v === "number") return v;
+      if (v === undefined || v === null || (typeof v === "string" && v.trim() === "")) return undefined;
+      if (typeof v !== "string") return v;
+      const n = Number(v.trim().replace(",", "."));
+      return Number.isNaN(n) ? v : n;
+    },
+    z.number({ error: `${label} must be a number` }).refine(Number.isFinite, { message: `${label} must be a finite number` }).optional(),
+  );
+}
+
 /** A list of numbers typed as "0, 3000, 6000". */
 export function numberListInput(label: string) {
   return z.preprocess(

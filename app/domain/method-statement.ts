@@ -32,14 +32,14 @@ export const METHOD_STATEMENT: readonly { title: string; body: string[] }[] = [
   {
     title: "Load cases",
     body: [
-      "Manoeuvre limit load factors, stall lines and design speeds per the category chosen in the basis (14 CFR 25.333/25.335/25.337, or 23.333/23.335/23.337 before amendment 23-64). Gust load factors by the Pratt formula (NACA TN 2964) with the alleviation factor and mass ratio at the design gust velocities for VC and VD.",
-      "For transport aeroplanes the Pratt gust points are a preliminary estimate only: 14 CFR 25.341(a) requires a dynamic discrete-gust analysis, and flight-profile alleviation is not applied.",
+      "Manoeuvre limit load factors, stall lines and design speeds per the category chosen in the basis (14 CFR 25.333/25.335/25.337, or 23.333/23.335/23.337 before amendment 23-64), for each mass case (its weight) or, without mass cases, for MTOW, MZFW and the minimum design weight. Gust load factors by the Pratt formula (NACA TN 2964) with the alleviation factor and mass ratio at the design gust velocities for VB (commuters), VC and VD, each with the wing's lift slope at that speed's Mach number.",
+      "Transport aeroplanes: the gust cases come from the tuned discrete gust of 14 CFR 25.341(a): one-minus-cosine gusts of gradient 30 to 350 ft with U_ds = U_ref·F_g·(H/350)^(1/6) on a rigid aircraft free only to plunge, with the lift built up by Küssner's and Wagner's functions (R. T. Jones's exponential approximations, NACA Report 681), the critical gradient being the one of largest load factor; Pratt's formula is shown beside it. F_g is 1 unless MLW and Z_mo are given. The rigid model leaves out the flexibility of the structure, the pitching of the aircraft and the tail's own lift; the dynamic analysis the authority accepts governs.",
     ],
   },
   {
     title: "Shear, bending and torsion",
     body: [
-      "Running lift l(y) = q·c·cl per semispan; inertia relief from the semispan structural mass spread in proportion to chord, times nz·g. Shear, bending moment and torsion are integrated from the tip inward; the envelope is the maximum and minimum at each station with the case that gives it.",
+      "Running lift l(y) = q·c·cl per semispan; inertia relief from the semispan structural mass spread in proportion to chord, and from each mass item (point masses such as engines and gear, masses spread over a span range such as fuel) scaled by the case's mass case, times nz·g; an item off the reference axis adds torsion. Trimmed cases put nz·W less the balancing tail load on the wing; the tail load is typed, or taken from pitching-moment equilibrium about the mass case's centre of gravity with the wing's own aerodynamic centre and moment, a wing–body moment increment and the tail arm (steady flight, no pitch acceleration; gust cases balanced at 1 g). Shear, bending moment and torsion are integrated from the tip inward; the envelope is the maximum and minimum at each station with the case that gives it.",
       "Bending and torsion are resolved about the reference axis: the wing is cut at streamwise stations, the moment of all loads outboard of a cut is taken about the axis point at that station, and resolved into its component along the axis (torsion, nose up positive) and about the in-plane normal to the axis (bending, tip up positive). On an unswept axis these are the streamwise bending and pitching moments.",
       "Cases given by angle of attack carry no inertia relief because their load factor is not known.",
     ],

@@ -43,6 +43,11 @@ export const BasisSchema = z
     minWeight: positive("Minimum design weight"),
     vs1: positive("VS1"),
     va: positive("VA"),
+    /** Design speed for maximum gust intensity (Part 25, Part 23 commuter): gives the V_B gust points. */
+    vb: positive("VB").optional(),
+    /** Maximum landing weight and maximum operating altitude (Part 25): with both, the flight-profile alleviation factor of 25.341(a)(6). */
+    mlw: positive("Maximum landing weight").optional(),
+    zmo: positive("Maximum operating altitude").optional(),
     vc: positive("VC"),
     vd: positive("VD"),
     altitudes: z.array(finite("Altitude")).min(1, "Give at least one altitude").max(12, "At most 12 altitudes"),
@@ -55,6 +60,8 @@ export const BasisSchema = z
     if (b.minWeight > b.mtow) ctx.addIssue({ code: "custom", path: ["minWeight"], message: "Minimum design weight cannot exceed the take-off weight" });
     if (!(b.vs1 < b.va)) ctx.addIssue({ code: "custom", path: ["va"], message: "VA must be above VS1" });
     if (!(b.va <= b.vc)) ctx.addIssue({ code: "custom", path: ["vc"], message: "VC must be at least VA" });
+    if (b.vb !== undefined && !(b.vb > b.vs1 && b.vb <= b.vc)) ctx.addIssue({ code: "custom", path: ["vb"], message: "VB must lie above VS1 and not above VC" });
+    if (b.mlw !== undefined && !(b.mlw <= b.mtow && b.mlw >= b.mzfw)) ctx.addIssue({ code: "custom", path: ["mlw"], message: "The maximum landing weight lies between the zero-fuel and the take-off weight" });
     if (!(b.vc < b.vd)) ctx.addIssue({ code: "custom", path: ["vd"], message: "VD must be above VC" });
     b.altitudes.forEach((h, i) => {
       if (h < 0 || h > 20000) ctx.addIssue({ code: "custom", path: ["altitudes", i], message: "Altitudes must lie between 0 and 20 000 m (the standard atmosphere range of the engine)" });
@@ -127,9 +134,95 @@ export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> 
   "lifting-line": "Lifting line (quarter-chord sweep up to 15°)",
 };
 
+const idText = (what: string) =>
+  z
+    .string()
+    .trim()
+    .min(1, `Give the ${what} an id`)
+    .max(40, `A ${what} id has at most 40 characters`)
+    .regex(/^[A-Za-z0-9._\-+]+$/, "Use letters, digits and . _ - + only");
+
+/**
+ * A mass one semispan carries: a point mass at (x, y) — engine, gear, store — or a mass spread evenly
+ * from yFrom to yTo — fuel in a tank bay; x is the streamwise position of its centre of gravity, m, from
+ * the same origin as the planform's leading edges (the exchange format's wing.mass.items).
+ */
+export const MassItemSchema = z
+  .object({
+    id: idText("item"),
+    label: z.string().trim().max(80, "A description has at most 80 characters").default(""),
+    kg: finite("Mass").refine((v) => v >= 0, { message: "Mass must be 0 or more" }),
+    x: finite("x of the centre of gravity"),
+    y: finite("y").optional(),
+    yFrom: finite("y from").optional(),
+    yTo: finite("y to").optional(),
+  })
+  .superRefine((it, ctx) => {
+    const spread = it.yFrom !== undefined || it.yTo !== undefined;
+    if (it.y !== undefined && spread) ctx.addIssue({ code: "custom", path: ["y"], message: `Item ${it.id}: give y for a point mass or y from–to for a spread mass, not both` });
+    else if (it.y === undefined && !spread) ctx.addIssue({ code: "custom", path: ["y"], message: `Item ${it.id}: give y (a point mass) or y from and y to (a spread mass)` });
+    else if (spread && (it.yFrom === undefined || it.yTo === undefined)) ctx.addIssue({ code: "custom", path: [it.yFrom === undefined ? "yFrom" : "yTo"], message: `Item ${it.id}: a spread mass needs both y from and y to` });
+    else if (spread && !(it.yTo! > it.yFrom!)) ctx.addIssue({ code: "custom", path: ["yTo"], message: `Item ${it.id}: y to must be greater than y from` });
+    for (const k of ["y", "yFrom"] as const) if ((it[k] ?? 0) < 0) ctx.addIssue({ code: "custom", path: [k], message: `Item ${it.id}: y must be 0 or more` });
+  });
+export type MassItemData = z.output<typeof MassItemSchema>;
+
+/**
+ * A named mass state of the aircraft: its weight (kg, whole aircraft) and centre of gravity (fraction
+ * of the MAC aft of its leading edge), and the fill factor (0–1) of each item of the wing; items not named
+ * count fully (the exchange format's massCases, with the weight and centre of gravity the app adds).
+ */
+export const MassCaseSchema = z.object({
+  id: idText("mass case"),
+  label: z.string().trim().max(80, "A description has at most 80 characters").default(""),
+  weight: positive("Weight").optional(),
+  cg: finite("Centre of gravity").refine((v) => v >= -0.5 && v <= 1.5, { message: "The centre of gravity is a fraction of the MAC between −0.5 and 1.5 (0.25 = 25 % MAC)" }).optional(),
+  fill: z.record(z.string(), finite("Fill factor").refine((v) => v >= 0 && v <= 1, { message: "A fill factor lies between 0 and 1" })).default({}),
+});
+export type MassCaseData = z.output<typeof MassCaseSchema>;
+
+/**
+ * The balance of the aircraft: the wing–body pitching-moment increment at zero lift (fuselage,
+ * nacelles, on S and the MAC) and the tail arm from the MAC quarter chord to the tail's aerodynamic centre.
+ */
+export const BalanceSchema = z.object({
+  cmBody: finite("Wing–body Cm increment").refine((v) => Math.abs(v) <= 0.5, { message: "The wing–body Cm increment lies within ±0.5" }),
+  tailArm: positive("Tail arm"),
+});
+export type BalanceData = z.output<typeof BalanceSchema>;
+
+export const MassesSchema = z
+  .object({
+    /** Structural mass of one semispan, kg, spread in proportion to chord on the reference axis. */
+    structureKg: finite("Semispan structural mass").refine((v) => v >= 0, { message: "Semispan structural mass must be 0 or more (kg)" }),
+    items: z.array(MassItemSchema).max(100, "At most 100 mass items"),
+    massCases: z.array(MassCaseSchema).max(24, "At most 24 mass cases"),
+    balance: BalanceSchema.optional(),
+    /** Where the item table came from: typed, or a CSV file (its name). */
+    source: z.object({ kind: z.enum(["typed", "csv", "import"]), filename: z.string().max(200).optional() }).default({ kind: "typed" }),
+  })
+  .superRefine((m, ctx) => {
+    const ids = new Set<string>();
+    m.items.forEach((it, i) => {
+      if (ids.has(it.id)) ctx.addIssue({ code: "custom", path: ["items", i, "id"], message: `Item id ${it.id} is used twice` });
+      ids.add(it.id);
+    });
+    const cases = new Set<string>();
+    m.massCases.forEach((mc, i) => {
+      if (cases.has(mc.id)) ctx.addIssue({ code: "custom", path: ["massCases", i, "id"], message: `Mass case id ${mc.id} is used twice` });
+      cases.add(mc.id);
+      for (const id of Object.keys(mc.fill)) {
+        if (!ids.has(id)) ctx.addIssue({ code: "custom", path: ["massCases", i, "fill", id], message: `Mass case ${mc.id}: no item ${id}` });
+      }
+    });
+  });
+export type MassesData = z.output<typeof MassesSchema>;
+
 /**
  * One flight condition of the envelope, as the exchange format has it: Mach, altitude and either
- * the root-chord angle of attack or the whole-aircraft weight (N) with the load factor.
+ * the root-chord angle of attack or the whole-aircraft weight (N) with the load factor; a trimmed case
+ * names its mass case and may carry a typed tail load (N, up positive) — without one, the tail load
+ * comes from the balance of the masses step (0 where no balance is given).
  */
 export const LoadCaseSchema = z
   .object({
@@ -141,10 +234,13 @@ export const LoadCaseSchema = z
     alpha: finite("Angle of attack").refine((v) => Math.abs(v) <= 30, { message: "Angle of attack must lie within ±30°" }).optional(),
     weight: positive("Weight").optional(),
     nz: finite("Load factor").refine((v) => Math.abs(v) <= 15, { message: "Load factor must lie within ±15" }).optional(),
+    massCase: z.string().trim().max(40).optional(),
+    tailLoad: finite("Tail load").optional(),
     excluded: z.boolean().default(false),
   })
   .superRefine((c, ctx) => {
     const trimmed = c.weight !== undefined && c.nz !== undefined;
+    if (c.alpha !== undefined && (c.tailLoad !== undefined || c.massCase)) ctx.addIssue({ code: "custom", path: [c.tailLoad !== undefined ? "tailLoad" : "massCase"], message: `Case ${c.id}: a tail load and a mass case belong to a case given by weight and load factor` });
     if (c.alpha === undefined && !trimmed) ctx.addIssue({ code: "custom", path: [c.weight === undefined ? "weight" : "nz"], message: `Case ${c.id}: give the weight and load factor, or an angle of attack` });
     if (c.alpha !== undefined && (c.weight !== undefined || c.nz !== undefined)) ctx.addIssue({ code: "custom", path: ["alpha"], message: `Case ${c.id}: give an angle of attack or weight and load factor, not both` });
   });
@@ -182,8 +278,13 @@ export const DistributionSchema = z.object({
 });
 export type DistributionData = z.output<typeof DistributionSchema>;
 
+/**
+ * The loads step records the engineer's notes on the results for the checker. `semispanMass` is what
+ * the step held before the masses step existed: read only where a case has no masses step saved.
+ */
 export const LoadsSchema = z.object({
-  semispanMass: finite("Semispan structural mass").refine((v) => v >= 0, { message: "Semispan structural mass must be 0 or more (kg)" }),
+  notes: z.string().trim().max(4000, "At most 4000 characters").default(""),
+  semispanMass: finite("Semispan structural mass").refine((v) => v >= 0, { message: "Semispan structural mass must be 0 or more (kg)" }).optional(),
 });
 export type LoadsData = z.output<typeof LoadsSchema>;
 
@@ -191,6 +292,7 @@ export const STEP_SCHEMAS = {
   basis: BasisSchema,
   planform: PlanformSchema,
   sections: SectionsSchema,
+  masses: MassesSchema,
   envelope: EnvelopeSchema,
   distribution: DistributionSchema,
   loads: LoadsSchema,

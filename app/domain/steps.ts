@@ -4,6 +4,7 @@ const STEP_TEXT: Record<StepKey, { label: string; summary: string }> = {
   basis: { label: "Basis", summary: "Certification basis, weights, design speeds, altitudes" },
   planform: { label: "Planform", summary: "Wing stations: position, chord, twist" },
   sections: { label: "Sections", summary: "Incompressible section data along the span" },
+  masses: { label: "Masses", summary: "Wing masses, fuel states, weights, centre of gravity and balance" },
   envelope: { label: "Envelope", summary: "Manoeuvre and gust load cases, method choice" },
   distribution: { label: "Distribution", summary: "Spanwise lift and moment, critical Mach, flags" },
   loads: { label: "Loads", summary: "Shear, bending, torsion, envelope and root loads" },

@@ -9,7 +9,7 @@ export const ROLES = ["engineer", "checker", "quality", "admin"] as const;
 export type Role = (typeof ROLES)[number];
 
 /** The steps of a case, in working order (labels in ./steps). */
-export const STEP_KEYS = ["basis", "planform", "sections", "envelope", "distribution", "loads"] as const;
+export const STEP_KEYS = ["basis", "planform", "sections", "masses", "envelope", "distribution", "loads"] as const;
 export type StepKey = (typeof STEP_KEYS)[number];
 
 export const STEP_STATUSES = ["empty", "draft", "submitted", "returned", "approved"] as const;

@@ -9,6 +9,7 @@ import {
   manoeuvreLoadFactorsPart23,
   manoeuvreLoadFactorsPart25,
   minimumDesignSpeedsPart23,
+  minimumVbPart23,
   minimumVbPart25,
   referenceGustPart25,
   stallLoadFactor,
@@ -232,5 +233,22 @@ describe("the V_B gust points and the V_D slope (REFERENCES 6.3–6.5)", () => {
 
   it("14 CFR 25.341(a)(5)(i): the reference gust applies from V_B to V_C", () => {
     expect(referenceGustPart25(10000).vb.value).toBe(referenceGustPart25(10000).vc.value);
+  });
+});
+
+describe("14 CFR 23.335(d) minimum V_B of a commuter (text from memory [M])", () => {
+  // Worked aircraft of REFERENCES 6.5/6.6 (SI at sea level): V_S1 = 78.445 kt, n_g at V_C = 200 kt with 50 ft/s is
+  // 3.29841 [C]. The 66 ft/s gust line has slope Δn/V = 2.29841·1.32/200 per kt (linear in V and U at fixed a).
+  it("the lesser of the C_N max line meeting the V_B gust line and V_S1·√n_g, by hand", () => {
+    const vs1 = stallSpeed(W_N, S_M2, 1.6);
+    const r = minimumVbPart23({ vs1, vcEas: 200 * UNITS.ktToMs, weightN: W_N, areaM2: S_M2, clMax: 1.6, gustAtVc: 50 * UNITS.ftToM, gustAtVb: 66 * UNITS.ftToM, density: 1.225, meanChord: 5 * UNITS.ftToM, liftSlope: 5 });
+    // Stall line n = (V/V_S1)², V in kt: (V/78.445)² = 1 + 0.0151695·V → V² − 93.347·V − 6153.6 = 0 → V = 137.95 kt; V_S1·√n_g = 142.47 kt.
+    const k = (2.29841 * 1.32) / 200;
+    const a = 1 / 78.445 ** 2;
+    const meet = (k + Math.sqrt(k * k + 4 * a)) / (2 * a);
+    const root = 78.445 * Math.sqrt(3.29841);
+    expect(Math.min(meet, root)).toBeCloseTo(137.95, 1);
+    expect(r.value / UNITS.ktToMs).toBeCloseTo(Math.min(meet, root), 1);
+    expect(r.rule).toBe("14 CFR 23.335(d)");
   });
 });

@@ -233,6 +233,35 @@ export function minimumDesignSpeedsPart23(wingLoadingPsf: number, category: Part
   return { vc: { value: vc, rule: "14 CFR 23.335(a)" }, vd: { value: kd * vc, rule: "14 CFR 23.335(b)" } };
 }
 
+/**
+ * Minimum design speed for maximum gust intensity of 14 CFR 23.335(d) (commuter category; text from memory [M]):
+ * the lesser of the speed where the positive C_N max line meets the V_B gust line on the gust V–n diagram and
+ * V_S1·√n_g, n_g the gust load factor at V_C (23.341); V_B need not exceed V_C. SI: speeds m/s EAS, W in N.
+ */
+export function minimumVbPart23(p: {
+  vs1: number;
+  vcEas: number;
+  weightN: number;
+  areaM2: number;
+  clMax: number;
+  gustAtVc: number;
+  gustAtVb: number;
+  density: number;
+  meanChord: number;
+  liftSlope: number;
+}): RuleValue {
+  positive(p.vs1, "vs1");
+  positive(p.weightN, "weightN");
+  const ws = p.weightN / p.areaM2;
+  const g = (veas: number, ude: number) => gustLoadFactorSI({ wingLoading: ws, density: p.density, meanChord: p.meanChord, liftSlope: p.liftSlope, veas, ude });
+  const ng = g(p.vcEas, p.gustAtVc).positive;
+  // Stall line ½ρ0V²S·CLmax/W meets the gust line 1 + k·V: A·V² − k·V − 1 = 0.
+  const A = (0.5 * RHO0 * p.areaM2 * p.clMax) / p.weightN;
+  const k = g(1, p.gustAtVb).deltaN;
+  const meet = (k + Math.sqrt(k * k + 4 * A)) / (2 * A);
+  return { value: Math.min(meet, p.vs1 * Math.sqrt(ng), p.vcEas), rule: "14 CFR 23.335(d)" };
+}
+
 /** One corner point of the V–n diagram: EAS m/s, load factor, and the rule it comes from. */
 export interface VnPoint {
   name: string;

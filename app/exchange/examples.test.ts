@@ -15,11 +15,13 @@ describe("docs/examples", () => {
     expect(p.ok ? [] : p.problems).toEqual([]);
     if (!p.ok) return;
     const r = runCase(p.value);
-    const mass = p.value.wing.mass?.kg ?? 0;
+    const mass = p.value.wing.mass;
     p.value.cases.forEach((c, i) => {
       if (c.weight === undefined) return;
-      // Beam statics: root shear = nz·W/2 − nz·g·m per semispan.
-      expect(r.cases[i].root.shear).toBeCloseTo((c.nz! * c.weight) / 2 - c.nz! * 9.80665 * mass, 3);
+      // Beam statics: root shear = (nz·W − P)/2 − nz·g·(m + Σ fill·m_item) per semispan.
+      const fill = p.value.massCases?.find((m) => m.id === c.massCase)?.fill ?? {};
+      const items = (mass?.items ?? []).reduce((s, it) => s + it.kg * (fill[it.id] ?? 1), 0);
+      expect(r.cases[i].root.shear).toBeCloseTo((c.nz! * c.weight - (c.tailLoad ?? 0)) / 2 - c.nz! * 9.80665 * ((mass?.kg ?? 0) + items), 3);
     });
   });
 });

@@ -1,4 +1,4 @@
-import type { BasisData, DistributionData, EnvelopeData, LoadsData, PlanformData, SectionsData } from "~/domain/step-data";
+import type { BasisData, DistributionData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData } from "~/domain/step-data";
 import type { DistributionSeries } from "~/charts/distribution";
 import type { CompressibilityRule, VnPoint, WingGeometry } from "~/engine";
 import type { CaseFileInput, CaseResult } from "~/exchange";
@@ -39,6 +39,8 @@ export interface ReportSnapshot {
     envelope: EnvelopeData;
     distribution: DistributionData;
     loads: LoadsData;
+    /** The masses the case was analysed with (absent in reports issued before the masses step existed). */
+    masses?: MassesData | null;
   };
   /** The exchange document the results were computed from, and the results (spanwright.result/1). */
   exchange: CaseFileInput;

@@ -1,6 +1,6 @@
 import { and, desc, eq } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
-import type { BasisData, EnvelopeData, LoadsData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
+import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { caseResults, cases, resultProgress } from "~/db/schema";
@@ -11,11 +11,13 @@ import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
 import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
+import { checkMassCaseNames, effectiveMasses, exchangeMasses, withTailLoads } from "./masses.server";
 
 export interface CaseInputs {
   basis: BasisData | null;
   planform: PlanformData | null;
   sections: SectionsData | null;
+  masses: MassesData | null;
   envelope: EnvelopeData | null;
   distribution: DistributionData | null;
   loads: LoadsData | null;
@@ -26,6 +28,7 @@ export function caseInputs(steps: Record<StepKey, StepState>): CaseInputs {
     basis: stepData(steps, "basis"),
     planform: stepData(steps, "planform"),
     sections: stepData(steps, "sections"),
+    masses: stepData(steps, "masses"),
     envelope: stepData(steps, "envelope"),
     distribution: stepData(steps, "distribution"),
     loads: stepData(steps, "loads"),
@@ -146,14 +149,16 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
   const { planform, sections, envelope } = inputs as Required<{ [K in keyof CaseInputs]: NonNullable<CaseInputs[K]> }>;
   const cases = scope === "final" ? analysedCases(envelope, inputs.distribution) : envelope.cases.filter((c) => !c.excluded);
   if (cases.length === 0) throw new DomainError("Every load case is excluded: include at least one.", { field: "cases", kind: "conflict" });
-  const mass = inputs.loads?.semispanMass ?? 0;
-  return {
+  const masses = effectiveMasses(inputs);
+  checkMassCaseNames(cases, masses);
+  const { mass, massCases } = exchangeMasses(masses);
+  const file: CaseFileInput = {
     schema: CASE_SCHEMA_ID,
     title,
     wing: {
       stations: exchangeStations(planform, sections),
       axis: { rootChordFraction: planform.axisRoot, tipChordFraction: planform.axisTip },
-      ...(mass > 0 ? { mass: { kg: mass, distribution: "chord" as const } } : {}),
+      ...(mass ? { mass } : {}),
     },
     method: {
       compressibility: envelope.compressibility,
@@ -162,8 +167,23 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
       output: envelope.output,
       ...(envelope.strips !== undefined ? { strips: envelope.strips } : {}),
     },
-    cases: cases.map((c) => (c.alpha !== undefined ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha } : { id: c.id, mach: c.mach, altitude: c.altitude, weight: c.weight!, nz: c.nz! })),
+    ...(massCases ? { massCases } : {}),
+    cases: cases.map((c) =>
+      c.alpha !== undefined
+        ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha }
+        : {
+            id: c.id,
+            mach: c.mach,
+            altitude: c.altitude,
+            weight: c.weight!,
+            nz: c.nz!,
+            ...(c.massCase ? { massCase: c.massCase } : {}),
+            ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}),
+          },
+    ),
   };
+  // Tail loads from the balance need the wing's own moments, so only where a balance is given.
+  return masses?.balance ? withTailLoads(file, parseOrThrow(file), cases, masses) : file;
 }
 
 /** Validates an exchange document exactly as the command line does; failures name the field. */

@@ -17,12 +17,14 @@ function importRefused(problems: CaseProblem[]): DomainError {
   return new DomainError(problemsMessage(problems), { field: problems[0]?.path, kind: "unprocessable", problems });
 }
 
-type ImportedSteps = { planform: unknown; sections: unknown; envelope: unknown; loads: unknown };
+type ImportedSteps = { planform: unknown; sections: unknown; masses: unknown; envelope: unknown };
 
 /**
- * The steps a `spanwright.case/1` document fills: stations → planform and section data, method and
- * cases → envelope (each case "manual", rule "imported"), mass → loads. The certification basis is
- * not part of the exchange format and stays unsaved.
+ * The steps a `spanwright.case/1` document fills: stations → planform and section data; mass, its items
+ * and the mass cases → masses (a mass case's weight is taken from its cases where they all agree; the
+ * centre of gravity and the balance inputs are not in the format and stay to be entered); method and
+ * cases → envelope (each case "manual", rule "imported", with its mass case and tail load as typed).
+ * The certification basis is not part of the exchange format and stays unsaved.
  */
 export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): ImportedSteps {
   const stations = file.wing.stations;
@@ -60,13 +62,25 @@ export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): Impo
         rule: "imported",
         mach: c.mach,
         altitude: c.altitude,
-        ...(c.alpha !== undefined ? { alpha: c.alpha } : { weight: c.weight, nz: c.nz }),
+        ...(c.alpha !== undefined
+          ? { alpha: c.alpha }
+          : { weight: c.weight, nz: c.nz, ...(c.massCase !== undefined ? { massCase: c.massCase } : {}), ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}) }),
         excluded: false,
       })),
     },
-    loads: { semispanMass: file.wing.mass?.kg ?? 0 },
+    masses: {
+      structureKg: file.wing.mass?.kg ?? 0,
+      items: (file.wing.mass?.items ?? []).map((it) => ({ ...it, label: "" })),
+      massCases: (file.massCases ?? []).map((mc) => {
+        const weights = new Set(file.cases.filter((c) => c.massCase === mc.id && c.weight !== undefined).map((c) => c.weight! / G0));
+        return { id: mc.id, label: "", fill: { ...mc.fill }, ...(weights.size === 1 ? { weight: [...weights][0] } : {}) };
+      }),
+      source: { kind: "import" },
+    },
   };
 }
+
+const G0 = 9.80665;
 
 // Where a step field came from in the exchange document, so a refusal names the field the caller wrote.
 function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): string {
@@ -86,8 +100,11 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
       if (head === "strips") return "method.strips";
       if (head === "compressibility" || head === "spanwise") return `method.${head}`;
       return "method";
-    case "loads":
-      return "wing.mass.kg";
+    case "masses":
+      if (head === "structureKg") return "wing.mass.kg";
+      if (head === "items") return formatPath(["wing", "mass", "items", ...(index === undefined ? [] : [index]), ...rest]);
+      if (head === "massCases") return formatPath(["massCases", ...(index === undefined ? [] : [index]), ...rest]);
+      return "wing.mass";
   }
 }
 
@@ -117,8 +134,8 @@ export function validateImport(json: unknown, sectionsJson?: unknown): { ok: tru
 }
 
 /**
- * Creates a case from a `spanwright.case/1` document, with its planform, sections, envelope and
- * loads steps at revision 1 (draft), in ONE transaction with an audit entry for the case and for
+ * Creates a case from a `spanwright.case/1` document, with its planform, sections, masses and
+ * envelope steps at revision 1 (draft), in ONE transaction with an audit entry for the case and for
  * each step: a refusal (bad document, unknown programme, reference taken) writes nothing.
  * The case title is `title`, else the document's title, else the reference.
  * @throws DomainError "unprocessable" with every bad field in `problems`; "not-found"/"conflict" for programme or reference.

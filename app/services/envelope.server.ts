@@ -1,13 +1,20 @@
-import type { BasisData, EnvelopeData, LoadCase, PlanformData, SectionsData } from "~/domain/step-data";
+import type { BasisData, EnvelopeData, LoadCase, MassesData, PlanformData, SectionsData } from "~/domain/step-data";
 import {
   designGustsPart23,
+  flightProfileAlleviation,
   isa,
   machFromEas,
+  minimumVbPart23,
+  minimumVbPart25,
+  plungeGustResponse,
   referenceGustPart25,
   solveMach,
+  tunedDiscreteGust,
   vnDiagram,
   wingGeometry,
   type Part23Category,
+  type RuleValue,
+  type TunedGustResult,
   type VnPoint,
 } from "~/engine";
 import { CASE_SCHEMA_ID, parseCase, wingModelOf } from "~/exchange";
@@ -18,30 +25,73 @@ import { runEngine } from "./engine.server";
 const G0 = 9.80665;
 const FT = 0.3048;
 
+/** The tuned discrete gust of 14 CFR 25.341(a) at one speed of a V–n set. */
+export interface TunedGustAtSpeed {
+  speed: "VB" | "VC" | "VD";
+  veas: number;
+  /** Reference gust velocity at this speed and altitude (halved at V_D), m/s EAS. */
+  uRef: number;
+  liftSlope: number;
+  result: TunedGustResult;
+  /** The response at the critical gradient: s in semichords, gust and Δn as fractions of their peaks. */
+  history: { s: number; gust: number; k: number }[];
+}
+
 export interface VnSet {
   label: string;
   weightKg: number;
   altitude: number;
+  /** The mass case the set stands for, with its centre of gravity (fraction of the MAC), where mass cases are given. */
+  massCase?: string;
+  cg?: number;
   points: VnPoint[];
   /** Airplane lift slope used in the gust formula (wing alone, at the V_C Mach number), per rad. */
   liftSlope: number;
+  /** Lift slopes at the V_D and V_B Mach numbers, per rad. */
+  liftSlopeAtVd: number;
+  liftSlopeAtVb?: number;
+  gustAtVb?: number;
   gustAtVc: number;
   gustAtVd: number;
   gustRule: string;
+  /** Flight-profile alleviation factor used by the tuned gusts (Part 25; 1 where MLW or Z_mo are not given). */
+  fg?: RuleValue;
+  /** Part 25: the tuned discrete gust at V_B (where given), V_C and V_D. */
+  tuned?: TunedGustAtSpeed[];
 }
 
 function category(basis: BasisData): { part: "23" | "25"; category?: Part23Category } {
   return basis.category === "part25" ? { part: "25" } : { part: "23", category: basis.category.replace("part23-", "") as Part23Category };
 }
 
+/** The design weights of the V–n sets: the mass cases where they are given, else MTOW, MZFW and the minimum weight. */
+function designWeights(basis: BasisData, masses: MassesData | null | undefined): { label: string; kg: number; massCase?: string; cg?: number }[] {
+  const cases = masses?.massCases ?? [];
+  if (cases.length > 0) {
+    const missing = cases.find((mc) => mc.weight === undefined);
+    if (missing) throw new DomainError(`Mass case ${missing.id} has no weight: give it in the masses step.`, { field: "massCases", kind: "conflict" });
+    return cases.map((mc) => ({ label: mc.id, kg: mc.weight!, massCase: mc.id, cg: mc.cg }));
+  }
+  const named: [string, number][] = [["MTOW", basis.mtow], ["MZFW", basis.mzfw], ["minimum", basis.minWeight]];
+  return named.filter(([, kg], i) => named.findIndex(([, k]) => k === kg) === i).map(([label, kg]) => ({ label, kg }));
+}
+
 /**
- * The V–n diagram of each design weight and altitude of the basis, by the manoeuvre rules and the
- * Pratt gust formula. The gust formula needs the aeroplane's lift slope: the wing's, from the
- * spanwise solver at the V_C Mach number (the tail's contribution is left to the engineer).
- * Part 25 gusts use the reference gust velocity without the flight-profile alleviation (F_g = 1,
- * conservative); 25.341(a) asks for a dynamic analysis, so those points are preliminary.
+ * The V–n diagram of each design weight (each mass case, where given) and altitude of the basis, by
+ * the manoeuvre rules and the gust rules. The gust formula needs the aeroplane's lift slope: the
+ * wing's, from the spanwise solver at the Mach number of each speed (the tail's contribution is left
+ * to the engineer). Part 23 gusts by Pratt's formula (23.341(c)), with the V_B gust of commuters
+ * (23.333(c)(1)(iii)). Part 25: the Pratt points stay on the diagram for comparison; the cases come from
+ * the tuned discrete gust of 25.341(a) on the rigid aircraft in plunge, with the flight-profile
+ * alleviation factor where MLW and Z_mo are given (F_g = 1 otherwise, conservative).
  */
-function vnSetsOf(basis: BasisData, planform: PlanformData, sections: SectionsData, method: Pick<EnvelopeData, "compressibility" | "spanwise">): VnSet[] {
+function vnSetsOf(
+  basis: BasisData,
+  planform: PlanformData,
+  sections: SectionsData,
+  method: Pick<EnvelopeData, "compressibility" | "spanwise">,
+  masses?: MassesData | null,
+): VnSet[] {
   const parsed = parseCase({
     schema: CASE_SCHEMA_ID,
     wing: { stations: exchangeStations(planform, sections) },
@@ -52,34 +102,83 @@ function vnSetsOf(basis: BasisData, planform: PlanformData, sections: SectionsDa
   const model = wingModelOf(parsed.value);
   const geometry = wingGeometry(model.stations);
   const { part, category: cat } = category(basis);
-  const named: [string, number][] = [["MTOW", basis.mtow], ["MZFW", basis.mzfw], ["minimum", basis.minWeight]];
-  const weights = named.filter(([, kg], i) => named.findIndex(([, k]) => k === kg) === i);
+  const weights = designWeights(basis, masses);
+  const slopes = new Map<number, number>();
+  const slopeAt = (veas: number, altitude: number, name: string) => {
+    const mach = machFromEas(veas, altitude);
+    if (mach >= 1) throw new DomainError(`${name} at ${altitude} m is Mach ${mach.toFixed(3)}: the subsonic rules do not apply.`, { field: name.toLowerCase() });
+    let a = slopes.get(mach);
+    if (a === undefined) {
+      a = solveMach(model, mach, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
+      slopes.set(mach, a);
+    }
+    return a;
+  };
   const sets: VnSet[] = [];
   for (const altitude of basis.altitudes) {
     const atm = isa(altitude);
-    const machVc = machFromEas(basis.vc, altitude);
-    if (machVc >= 1) throw new DomainError(`VC at ${altitude} m is Mach ${machVc.toFixed(3)}: the subsonic rules do not apply.`, { field: "vc" });
-    const liftSlope = solveMach(model, machVc, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
+    const liftSlope = slopeAt(basis.vc, altitude, "VC");
+    const liftSlopeAtVd = slopeAt(basis.vd, altitude, "VD");
     const altFt = altitude / FT;
     const gusts = part === "25" ? referenceGustPart25(altFt) : designGustsPart23(altFt, cat!);
-    for (const [label, kg] of weights) {
+    const vbGust = basis.vb !== undefined ? gusts.vb : undefined;
+    const liftSlopeAtVb = vbGust ? slopeAt(basis.vb!, altitude, "VB") : undefined;
+    const fg =
+      part === "25"
+        ? basis.mlw !== undefined && basis.zmo !== undefined
+          ? flightProfileAlleviation({ mtow: basis.mtow, mlw: basis.mlw, mzfw: basis.mzfw, zmoFt: basis.zmo / FT, altitudeFt: altFt })
+          : { value: 1, rule: "F_g = 1 (MLW and Z_mo not given in the basis: no flight-profile alleviation, conservative)" }
+        : undefined;
+    for (const w of weights) {
+      const common = { weightN: w.kg * G0, areaM2: basis.wingArea, density: atm.density, meanChord: geometry.meanGeometricChord };
       const points = vnDiagram({
         part,
         category: cat,
-        weightN: kg * G0,
+        ...common,
         mtowN: basis.mtow * G0,
-        areaM2: basis.wingArea,
         clMaxPositive: basis.clMax,
         clMaxNegative: basis.clMaxNegative,
         vcEas: basis.vc,
         vdEas: basis.vd,
         gustAtVc: gusts.vc.value * FT,
         gustAtVd: gusts.vd.value * FT,
-        density: atm.density,
-        meanChord: geometry.meanGeometricChord,
         liftSlope,
+        liftSlopeAtVd,
+        ...(vbGust ? { vbEas: basis.vb, gustAtVb: vbGust.value * FT, liftSlopeAtVb } : {}),
       });
-      sets.push({ label: `${label} ${kg.toFixed(0)} kg, ${altitude} m`, weightKg: kg, altitude, points, liftSlope, gustAtVc: gusts.vc.value * FT, gustAtVd: gusts.vd.value * FT, gustRule: `${gusts.vc.rule}; ${gusts.vd.rule}` });
+      let tuned: TunedGustAtSpeed[] | undefined;
+      if (part === "25") {
+        const speeds: [TunedGustAtSpeed["speed"], number, number, number][] = [
+          ...(vbGust ? [["VB", basis.vb!, vbGust.value * FT, liftSlopeAtVb!] as [TunedGustAtSpeed["speed"], number, number, number]] : []),
+          ["VC", basis.vc, gusts.vc.value * FT, liftSlope],
+          ["VD", basis.vd, gusts.vd.value * FT, liftSlopeAtVd],
+        ];
+        tuned = speeds.map(([speed, veas, uRef, a]) => {
+          const result = tunedDiscreteGust({ veas, density: atm.density, wingLoading: common.weightN / common.areaM2, meanChord: common.meanChord, liftSlope: a, uRef, fg: fg!.value });
+          const history = plungeGustResponse({ massRatio: result.massRatio, gradientSemichords: (2 * result.critical.gradient) / common.meanChord, history: true }).history;
+          return { speed, veas, uRef, liftSlope: a, result, history };
+        });
+        for (const t of tuned) {
+          const c = t.result.critical;
+          const rule = `14 CFR 25.341(a): tuned 1-cos gust, H = ${c.gradient.toFixed(1)} m, U_ds = ${c.uds.toFixed(2)} m/s EAS (F_g ${fg!.value.toFixed(3)}), rigid aircraft in plunge`;
+          points.push({ name: `tuned+${t.speed}`, veas: t.veas, nz: 1 + c.deltaN, rule }, { name: `tuned-${t.speed}`, veas: t.veas, nz: 1 - c.deltaN, rule });
+        }
+      }
+      sets.push({
+        label: `${w.label} ${w.kg.toFixed(0)} kg, ${altitude} m`,
+        weightKg: w.kg,
+        altitude,
+        ...(w.massCase ? { massCase: w.massCase, cg: w.cg } : {}),
+        points,
+        liftSlope,
+        liftSlopeAtVd,
+        ...(vbGust ? { liftSlopeAtVb, gustAtVb: vbGust.value * FT } : {}),
+        gustAtVc: gusts.vc.value * FT,
+        gustAtVd: gusts.vd.value * FT,
+        gustRule: [vbGust?.rule, gusts.vc.rule, gusts.vd.rule].filter(Boolean).join("; "),
+        ...(fg ? { fg } : {}),
+        ...(tuned ? { tuned } : {}),
+      });
     }
   }
   return sets;
@@ -89,12 +188,12 @@ function vnSetsOf(basis: BasisData, planform: PlanformData, sections: SectionsDa
  * The V–n diagrams the envelope page draws from the saved steps, or why there are none yet (a step
  * missing, or a rule of the basis the diagram cannot meet, such as VC at or above Mach 1).
  */
-export function vnView(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): { sets: VnSet[]; problem: string | null } {
+export function vnView(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "masses" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): { sets: VnSet[]; problem: string | null } {
   if (!inputs.basis || !inputs.planform || !inputs.sections) {
     return { sets: [], problem: "Save the basis, planform and sections first: the V–n diagram and generated cases need the weights, speeds, the wing and its lift slope." };
   }
   try {
-    return { sets: vnSets(inputs.basis, inputs.planform, inputs.sections, inputs.envelope ?? method), problem: null };
+    return { sets: vnSets(inputs.basis, inputs.planform, inputs.sections, inputs.envelope ?? method, inputs.masses), problem: null };
   } catch (error) {
     if (!(error instanceof DomainError)) throw error;
     return { sets: [], problem: error.message };
@@ -105,10 +204,10 @@ export function vnView(inputs: Pick<CaseInputs, "basis" | "planform" | "sections
  * The cases a "generate" asks for: the V–n corner points of the saved basis, with the cases the
  * engineer added by hand (kind "manual") kept after them.
  */
-export function regeneratedCases(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): LoadCase[] {
+export function regeneratedCases(inputs: Pick<CaseInputs, "basis" | "planform" | "sections" | "masses" | "envelope">, method: Pick<EnvelopeData, "compressibility" | "spanwise">): LoadCase[] {
   if (!inputs.basis || !inputs.planform || !inputs.sections) throw new DomainError("Save the basis, planform and sections first.", { kind: "conflict" });
   const kept = (inputs.envelope?.cases ?? []).filter((k) => k.kind === "manual");
-  return [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method)), ...kept];
+  return [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method, inputs.masses)), ...kept];
 }
 
 /** The V–n diagrams of the basis (as vnSetsOf above), the engine's refusals answered as refusals naming the field. */
@@ -116,26 +215,68 @@ export function vnSets(...args: Parameters<typeof vnSetsOf>): VnSet[] {
   return runEngine(() => vnSetsOf(...args));
 }
 
-/** Load cases from the V–n corner points (not the 1-g stall point), each naming its rule. */
+/** Whether a V–n point gives a load case: not the 1-g stall point, nor for Part 25 the Pratt gust points (shown for comparison; the tuned gusts are the cases). */
+function makesCase(name: string, set: VnSet): boolean {
+  if (name === "S") return false;
+  if (set.tuned && name.startsWith("gust")) return false;
+  return true;
+}
+
+/** Load cases from the V–n corner points, each naming its rule and, where given, its mass case. */
 export function generatedCases(sets: VnSet[]): LoadCase[] {
   const out: LoadCase[] = [];
   sets.forEach((set, i) => {
     for (const p of set.points) {
-      if (p.name === "S") continue;
+      if (!makesCase(p.name, set)) continue;
       const mach = machFromEas(p.veas, set.altitude);
       if (mach >= 1) continue;
       out.push({
         id: `W${i + 1}-${p.name}`,
-        kind: p.name.startsWith("gust") ? "gust" : "manoeuvre",
+        kind: p.name.startsWith("gust") || p.name.startsWith("tuned") ? "gust" : "manoeuvre",
         rule: `${p.rule} — ${set.label}, ${p.veas.toFixed(1)} m/s EAS`,
         // Four decimals keep tables readable; nz is rounded away from zero so no case is lightened.
         mach: Math.round(mach * 1e4) / 1e4,
         altitude: set.altitude,
         weight: set.weightKg * G0,
         nz: Math.sign(p.nz) * Math.ceil(Math.abs(p.nz) * 1e4 - 1e-9) / 1e4,
+        ...(set.massCase ? { massCase: set.massCase } : {}),
         excluded: false,
       });
     }
   });
   return out;
+}
+
+/** One line of the basis page's check of the typed values against the rules. */
+export interface RuleCheck {
+  label: string;
+  value: string;
+  rule: string;
+  ok?: boolean;
+}
+
+/**
+ * The design speed for maximum gust intensity against its rule, at MTOW and sea level: 25.335(d) for
+ * transport aeroplanes, 23.335(d) for commuters [M]. Both need the aeroplane's lift slope, taken from the
+ * wing at the V_C Mach number, so the check waits for the planform and sections.
+ */
+export function vbChecks(basis: BasisData, planform: PlanformData | null, sections: SectionsData | null, method: Pick<EnvelopeData, "compressibility" | "spanwise">): RuleCheck[] {
+  const { part, category: cat } = category(basis);
+  if (part === "23" && cat !== "commuter") return [];
+  const rule = part === "25" ? "14 CFR 25.335(d)" : "14 CFR 23.335(d) [text from memory]";
+  if (basis.vb === undefined) return [{ label: "VB", value: "not given: the VB gust points are left out of the envelope", rule, ok: false }];
+  if (!planform || !sections) return [{ label: "Minimum VB", value: "needs the planform and sections (the lift slope of the gust formula)", rule }];
+  const stations = exchangeStations(planform, sections);
+  const parsed = parseCase({ schema: CASE_SCHEMA_ID, wing: { stations }, method: { ...method, stations: 20 }, cases: [{ id: "probe", mach: 0, altitude: 0, alpha: 0 }] });
+  if (!parsed.ok) return [{ label: "Minimum VB", value: parsed.problems[0]!.message, rule, ok: false }];
+  const model = wingModelOf(parsed.value);
+  const mach = machFromEas(basis.vc, 0);
+  const a = solveMach(model, mach, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
+  const common = { vs1: basis.vs1, vcEas: basis.vc, density: isa(0).density, meanChord: wingGeometry(model.stations).meanGeometricChord, liftSlope: a };
+  const weightN = basis.mtow * G0;
+  const min =
+    part === "25"
+      ? minimumVbPart25({ ...common, uRef: referenceGustPart25(0).vc.value * FT, wingLoading: weightN / basis.wingArea })
+      : minimumVbPart23({ ...common, weightN, areaM2: basis.wingArea, clMax: basis.clMax, gustAtVc: designGustsPart23(0, "commuter").vc.value * FT, gustAtVb: designGustsPart23(0, "commuter").vb!.value * FT });
+  return [{ label: "Minimum VB at MTOW, sea level", value: `${min.value.toFixed(1)} m/s (typed ${basis.vb.toFixed(1)}; lift slope ${a.toFixed(3)} /rad at VC)`, rule, ok: basis.vb >= min.value - 1e-9 }];
 }

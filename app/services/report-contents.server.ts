@@ -11,6 +11,7 @@ import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/sna
 import { and, desc, eq, inArray, lt } from "drizzle-orm";
 import { buildCaseFile, buildSectionsFile, caseInputs, resultsFor } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
+import { effectiveMasses } from "./masses.server";
 import { distributionView, flaggedCases } from "./distribution.server";
 import { vnSets } from "./envelope.server";
 import { liveSignatures } from "./review.server";
@@ -61,7 +62,7 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
     revisions: Object.fromEntries(STEPS.map((s) => [s.key, steps[s.key].revision])),
     inputHash,
     engineVersion: ENGINE_VERSION,
-    inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads },
+    inputs: { basis: inputs.basis, planform: inputs.planform, sections: inputs.sections, envelope: inputs.envelope, distribution: inputs.distribution ?? { dispositions: {} }, loads: inputs.loads, masses: effectiveMasses(inputs) },
     exchange,
     result,
     documents: { case: exchangeDocumentText(exchange), ...(sections ? { sections: exchangeDocumentText(sections) } : {}) },
@@ -87,7 +88,7 @@ async function previousIssued(report: Report, database: Db | Tx): Promise<Report
 
 /** What the report draws beyond the snapshot's numbers, computed from the snapshot alone. */
 export function reportFigures(s: ReportSnapshot): ReportFigures {
-  const sets = vnSets(s.inputs.basis, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise });
+  const sets = vnSets(s.inputs.basis, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise }, s.inputs.masses);
   const stations: WingStation[] = (s.exchange.wing.stations as WingStation[]).map((st) => ({ ...st }));
   return {
     vn: { set: sets[0]!, count: sets.length },
@@ -118,7 +119,9 @@ export function versionChanges(older: ReportSnapshot, newer: ReportSnapshot) {
     "Load cases": s.exchange.cases.length,
     "Compressibility rule": s.inputs.envelope.compressibility,
     "Spanwise solver": s.inputs.envelope.spanwise,
-    "Semispan mass [kg]": s.inputs.loads.semispanMass,
+    "Semispan mass [kg]": s.inputs.masses?.structureKg ?? s.inputs.loads.semispanMass,
+    "Mass items": s.inputs.masses?.items.map((i) => `${i.id} ${i.kg} kg`).join(", ") ?? "",
+    "Mass cases": s.inputs.masses?.massCases.map((m) => m.id).join(", ") ?? "",
   });
   const a = flat(older);
   const b = flat(newer);

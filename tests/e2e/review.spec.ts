@@ -53,7 +53,7 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
 
   // The engineer resubmits every step that went back to draft, and cannot approve any of them.
   await engineer.goto(`${caseUrl}/review`);
-  for (const step of ["planform", "sections", "envelope", "distribution", "loads"]) {
+  for (const step of ["planform", "sections", "masses", "envelope", "distribution", "loads"]) {
     await engineer.getByRole("button", { name: `Submit ${step} for check` }).click();
     await expect(engineer.getByRole("alert").or(engineer.getByRole("status")).filter({ hasText: `${step} submitted for check` })).toBeVisible();
   }
@@ -62,7 +62,7 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
   // The checker signs each with their password, then the case for issue.
   const checker = await signedIn(browser, "checker");
   await checker.goto(`${caseUrl}/review`);
-  for (const step of ["planform", "sections", "envelope", "distribution", "loads"]) {
+  for (const step of ["planform", "sections", "masses", "envelope", "distribution", "loads"]) {
     await checker.locator(`#pw-${step}`).fill(who("checker").password);
     await checker.getByRole("button", { name: `Approve ${step} (sign: checked)` }).click();
     await expect(checker.getByText(`${step} approved and signed.`)).toBeVisible();

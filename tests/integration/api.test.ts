@@ -25,7 +25,7 @@ import { loader as openApiLoader } from "~/routes/api/v1/openapi";
 import { loader as apiDocsLoader } from "~/routes/api-docs";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
 
-const EXAMPLES = ["kf60-tern-wing", "kf60-tern-lifting-line", "kf60-tern-swept-variant"] as const;
+const EXAMPLES = ["kf60-tern-wing", "kf60-tern-lifting-line", "kf60-tern-swept-variant", "kf60-tern-masses"] as const;
 const example = (name: (typeof EXAMPLES)[number]) => JSON.parse(readFileSync(`docs/examples/${name}.json`, "utf8")) as Record<string, unknown>;
 
 let kelvardProgrammeId = "";
@@ -198,7 +198,7 @@ describe("authentication and access", () => {
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ id: kelvardCaseId, reference: "TN-WL-001", programme: { code: "KF60" } });
     const steps = res.body!.steps as { step: string; status: string; revision: number }[];
-    expect(steps.map((s) => s.step)).toEqual(["basis", "planform", "sections", "envelope", "distribution", "loads"]);
+    expect(steps.map((s) => s.step)).toEqual(["basis", "planform", "sections", "masses", "envelope", "distribution", "loads"]);
   });
 
   it.each([
@@ -349,7 +349,8 @@ describe("import and export", () => {
     const detail = await call(caseLoader, `/api/v1/cases/${id}`, { token: tokens.engineer, params: { caseId: id } });
     const steps = Object.fromEntries((detail.body!.steps as { step: string; status: string; revision: number }[]).map((s) => [s.step, s]));
     expect(steps.basis).toMatchObject({ status: "empty", revision: 0 });
-    for (const k of ["planform", "sections", "envelope", "loads"]) expect(steps[k]).toMatchObject({ status: "draft", revision: 1 });
+    for (const k of ["planform", "sections", "masses", "envelope"]) expect(steps[k]).toMatchObject({ status: "draft", revision: 1 });
+    expect(steps.loads).toMatchObject({ status: "empty", revision: 0 });
 
     const exported = await call(exportLoader, `/api/v1/cases/${id}/export`, { token: tokens.engineer, params: { caseId: id } });
     expect(exported.status).toBe(200);
@@ -395,7 +396,7 @@ describe("import and export", () => {
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ reference: "TN-WL-BARE", title: "Bare import", status: "draft" });
     const entries = await db.select().from(auditLog).where(eq(auditLog.entityId, res.body!.id as string));
-    expect(entries.map((e) => e.action).sort()).toEqual(["case.import", "step.envelope.save", "step.loads.save", "step.planform.save", "step.sections.save"]);
+    expect(entries.map((e) => e.action).sort()).toEqual(["case.import", "step.envelope.save", "step.masses.save", "step.planform.save", "step.sections.save"]);
   });
 
   it("answers 422 naming every bad field of the document and of the request, and writes nothing", async () => {
@@ -498,9 +499,9 @@ describe("GET /api/v1/cases/:caseId/results", () => {
     expect(otherTag.status).toBe(200);
 
     // A heavier aircraft: the same case file with every mass-driven load changed.
-    const [loads] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, id), eq(caseSteps.step, "loads")));
-    const data = loads!.data as { semispanMass: number };
-    await db.update(caseSteps).set({ data: { ...data, semispanMass: data.semispanMass * 1.1 } }).where(eq(caseSteps.id, loads!.id));
+    const [masses] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, id), eq(caseSteps.step, "masses")));
+    const data = masses!.data as { structureKg: number };
+    await db.update(caseSteps).set({ data: { ...data, structureKg: data.structureKg * 1.1 } }).where(eq(caseSteps.id, masses!.id));
     const changed = await call(resultsLoader, url, { token: tokens.checker, params: { caseId: id }, headers: { "If-None-Match": tag! } });
     expect(changed.status).toBe(200);
     expect(changed.headers.get("ETag")).not.toBe(tag);
@@ -563,14 +564,36 @@ describe("GET /api/v1/openapi.json", () => {
 });
 
 describe("case steps stored by an import", () => {
-  it("are the planform, sections, envelope and loads the document describes", async () => {
+  it("carry the mass items, the mass cases (weight from their cases) and each case's mass case and tail load", async () => {
+    const file = example("kf60-tern-masses") as {
+      wing: { mass: { kg: number; items: { id: string; kg: number }[] } };
+      massCases: { id: string; fill: Record<string, number> }[];
+      cases: { id: string; weight?: number; massCase?: string; tailLoad?: number }[];
+    };
+    const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-MASS", case: file }) });
+    expect(res.status).toBe(201);
+    const rows = await db.select().from(caseSteps).where(eq(caseSteps.caseId, res.body!.id as string));
+    const byStep = Object.fromEntries(rows.map((r) => [r.step, r.data as Record<string, unknown>]));
+    const masses = byStep.masses as { structureKg: number; items: { id: string; label: string }[]; massCases: { id: string; weight?: number; cg?: number; fill: Record<string, number> }[] };
+    expect(masses.structureKg).toBe(file.wing.mass.kg);
+    expect(masses.items.map((i) => i.id)).toEqual(file.wing.mass.items.map((i) => i.id));
+    expect(masses.massCases.map((m) => m.fill)).toEqual(file.massCases.map((m) => m.fill));
+    // Each mass case's weight is that of its cases (all of one weight), in kg; the CG is not in the format.
+    const zfw = masses.massCases.find((m) => m.id === "MZFW")!;
+    expect(zfw.weight! * 9.80665).toBeCloseTo(file.cases.find((c) => c.massCase === "MZFW")!.weight!, 6);
+    expect(zfw.cg).toBeUndefined();
+    const envCases = byStep.envelope!.cases as { id: string; massCase?: string; tailLoad?: number }[];
+    expect(envCases.map((c) => [c.massCase, c.tailLoad])).toEqual(file.cases.map((c) => [c.massCase, c.tailLoad]));
+  });
+
+  it("are the planform, sections, masses and envelope the document describes", async () => {
     const res = await call(importAction, "/api/v1/cases/import", { token: tokens.engineer, ...jsonPost({ programmeId: kelvardProgrammeId, reference: "TN-WL-STEPS", case: example("kf60-tern-lifting-line") }) });
     const rows = await db.select().from(caseSteps).where(eq(caseSteps.caseId, res.body!.id as string));
     const byStep = Object.fromEntries(rows.map((r) => [r.step, r.data as Record<string, unknown>]));
     const file = example("kf60-tern-lifting-line") as { wing: { stations: { y: number; chord: number }[]; mass: { kg: number } }; cases: { id: string }[] };
-    expect(Object.keys(byStep).sort()).toEqual(["envelope", "loads", "planform", "sections"]);
+    expect(Object.keys(byStep).sort()).toEqual(["envelope", "masses", "planform", "sections"]);
     expect((byStep.planform!.stations as { chord: number }[]).map((s) => s.chord)).toEqual(file.wing.stations.map((s) => s.chord));
-    expect(byStep.loads).toEqual({ semispanMass: file.wing.mass.kg });
+    expect(byStep.masses).toEqual({ structureKg: file.wing.mass.kg, items: [], massCases: [], source: { kind: "import" } });
     const envCases = byStep.envelope!.cases as { id: string; kind: string; rule: string }[];
     expect(envCases.map((c) => c.id)).toEqual(file.cases.map((c) => c.id));
     expect(envCases.every((c) => c.kind === "manual" && c.rule === "imported")).toBe(true);

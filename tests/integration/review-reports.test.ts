@@ -138,7 +138,7 @@ describe("review of each step", () => {
     data.stations[0]!.chord = 2.15;
     await saveStep({ caseId, step: "planform", baseRevision: planform!.revision, data, actor: { id: erin!.id, email: erin!.email } });
     const voids = await db.select({ step: signatures.step, meaning: signatures.meaning, reason: signatureVoids.reason }).from(signatureVoids).innerJoin(signatures, eq(signatures.id, signatureVoids.signatureId));
-    expect(voids.map((v) => v.step ?? v.meaning).sort()).toEqual(["approved for issue", "distribution", "envelope", "loads", "planform", "sections"].sort());
+    expect(voids.map((v) => v.step ?? v.meaning).sort()).toEqual(["approved for issue", "distribution", "envelope", "loads", "masses", "planform", "sections"].sort());
     expect(voids[0]!.reason).toMatch(/planform changed to revision \d+/);
     const state = await run(reviewLoader, { request: request(`/cases/${caseId}/review`, { cookie: cookies.checker }), params: { caseId } });
     const steps = (state.body as { steps: { key: string; status: string }[] }).steps;

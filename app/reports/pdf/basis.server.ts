@@ -16,7 +16,7 @@ export function basisAndScope({ w, s, q, sym }: Section) {
     ["Wing reference area", `${q("area", b.wingArea)} ${sym("area")}`],
     ["Aircraft CLmax", `${formatNumber(b.clMax)} positive, ${formatNumber(b.clMaxNegative)} negative (flaps up)`],
     ["Method choice", `${RULE_LABELS[s.inputs.envelope.compressibility]}; ${SPANWISE_LABELS[s.inputs.envelope.spanwise]}${s.result.method?.strips ? `, ${s.result.method.strips} strips` : ""}, ${s.inputs.envelope.stations} output stations per semispan`],
-    ["Semispan structural mass", `${q("mass", s.inputs.loads.semispanMass)} ${sym("mass")} (inertia relief)`],
+    ["Semispan structural mass", `${q("mass", s.inputs.masses?.structureKg ?? s.inputs.loads.semispanMass ?? 0)} ${sym("mass")} (inertia relief), ${s.inputs.masses?.items.length ?? 0} mass items, ${s.inputs.masses?.massCases.length ?? 0} mass cases`],
   ]);
   w.subheading("Scope");
   w.para(

@@ -66,6 +66,10 @@ export function BasisWeightsPanel(props: FieldsProps) {
         <TextField label={`Max zero-fuel [${u("mass")}]`} inputMode="decimal" {...form.register("mzfw")} errors={err("mzfw")} />
         <TextField label={`Minimum design [${u("mass")}]`} inputMode="decimal" {...form.register("minWeight")} errors={err("minWeight")} />
       </div>
+      <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
+        <TextField label={`Max landing [${u("mass")}]`} hint="Transport: with Zmo, the gust alleviation F_g." inputMode="decimal" {...form.register("mlw")} errors={err("mlw")} />
+        <TextField label={`Max operating altitude Zmo [${u("altitude")}]`} inputMode="decimal" {...form.register("zmo")} errors={err("zmo")} />
+      </div>
     </Panel>
   );
 }
@@ -81,6 +85,9 @@ export function BasisSpeedsPanel(props: FieldsProps) {
         <TextField label={`VA [${u("speed")}]`} inputMode="decimal" {...form.register("va")} errors={err("va")} />
         <TextField label={`VC [${u("speed")}]`} inputMode="decimal" {...form.register("vc")} errors={err("vc")} />
         <TextField label={`VD [${u("speed")}]`} inputMode="decimal" {...form.register("vd")} errors={err("vd")} />
+      </div>
+      <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-4">
+        <TextField label={`VB [${u("speed")}]`} hint="Transport and commuter: gives the VB gust points." inputMode="decimal" {...form.register("vb")} errors={err("vb")} />
       </div>
     </Panel>
   );

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { convertFields, numberInput, numberListInput, tidy } from "~/domain/form-values";
+import { convertFields, numberInput, numberListInput, optionalNumberInput, tidy } from "~/domain/form-values";
 import { CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
 import type { Quantity, UnitSystem } from "~/domain/units";
 
@@ -14,6 +14,9 @@ export const BasisFormSchema = z.strictObject({
   minWeight: numberInput("Minimum design weight"),
   vs1: numberInput("VS1"),
   va: numberInput("VA"),
+  vb: optionalNumberInput("VB"),
+  mlw: optionalNumberInput("Maximum landing weight"),
+  zmo: optionalNumberInput("Maximum operating altitude"),
   vc: numberInput("VC"),
   vd: numberInput("VD"),
   altitudes: numberListInput("Altitudes"),
@@ -28,6 +31,9 @@ export const BASIS_QUANTITIES = {
   minWeight: "mass",
   vs1: "speed",
   va: "speed",
+  vb: "speed",
+  mlw: "mass",
+  zmo: "altitude",
   vc: "speed",
   vd: "speed",
   altitudes: "altitude",

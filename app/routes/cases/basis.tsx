@@ -12,6 +12,7 @@ import { hasPermission } from "~/domain/permissions";
 import { BasisSchema } from "~/domain/step-data";
 import { basisChecks } from "~/services/basis.server";
 import { getCaseSteps, stepData } from "~/services/case-steps.server";
+import { vbChecks } from "~/services/envelope.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/basis";
@@ -29,7 +30,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     status: steps.basis.status,
     values: basisFormValues(saved),
     saved,
-    derived: saved ? basisChecks(saved) : null,
+    derived: saved ? [...basisChecks(saved), ...vbChecks(saved, stepData(steps, "planform"), stepData(steps, "sections"), stepData(steps, "envelope") ?? { compressibility: "prandtl-glauert", spanwise: "vortex-lattice" })] : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "basis"),
   };

@@ -5,7 +5,9 @@ import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import type { StepStatus } from "~/domain/vocabulary";
 import type { LoadCaseRows } from "../api/case-load-cases";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "~/engine";
+import { gustHistoryOption, tunedGustOption } from "~/charts/gust";
 import { vnOption } from "~/charts/vn";
+import { DataTable } from "~/components/tables/data-table";
 import { Chart } from "~/components/charts/chart";
 import { SelectField, TextField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
@@ -47,12 +49,11 @@ export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; proble
             label="V–n diagram"
             fileName={`vn-W${setIndex + 1}`}
           />
-          <p className="mt-2 text-xs text-ink-muted">
-            Gust lift slope (wing, at VC): {set.liftSlope.toFixed(3)} /rad. Gusts {fromSI(units, "speed", set.gustAtVc).toFixed(1)} / {fromSI(units, "speed", set.gustAtVd).toFixed(1)} {unitSymbol(units, "speed")} EAS at VC / VD ({set.gustRule}). For transport aeroplanes the Pratt
-            gust points are a preliminary estimate: 14 CFR 25.341(a) asks for a dynamic discrete-gust analysis, and flight-profile alleviation is not applied here.
-          </p>
+          <VnNotes set={set} units={units} />
+          <VnPointsTable set={set} units={units} />
         </>
       ) : null}
+      {set?.tuned && !problem ? <TunedGustPanel key={setIndex} set={set} units={units} /> : null}
     </Panel>
   );
 }
@@ -107,16 +108,21 @@ export function CasesPanel({ form, server, units, disabled, count }: { form: Env
           { key: "weight", label: `Weight [${unitSymbol(units, "mass")}]` },
           { key: "nz", label: "nz" },
           { key: "alpha", label: "α [°]" },
+          { key: "massCase", label: "Mass case", type: "text" },
+          { key: "tailLoad", label: `Tail load [${unitSymbol(units, "force")}]` },
           { key: "excluded", label: "Excluded", type: "checkbox" },
           { key: "rule", label: "From rule", type: "text" },
         ]}
         form={form}
         serverErrors={server}
-        emptyRow={{ id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "" }}
+        emptyRow={{ id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "" }}
         disabled={disabled}
         csvName="load-cases.csv"
       />
-      <p className="mt-2 text-xs text-ink-muted">Give each case either weight and load factor (trimmed to L = nz·W) or an angle of attack.</p>
+      <p className="mt-2 text-xs text-ink-muted">
+        Give each case either weight and load factor (trimmed so that the wing carries nz·W less the tail load) or an angle of attack. A trimmed case names its mass case (masses step); its tail load (up positive) is taken
+        from the balance of the masses step where left empty, or as typed.
+      </p>
     </Panel>
   );
 }
@@ -157,6 +163,8 @@ const WINDOW_COLUMNS: {
   { key: "weight", label: (u) => `Weight [${unitSymbol(u, "mass")}]` },
   { key: "nz", label: () => "nz" },
   { key: "alpha", label: () => "α [°]" },
+  { key: "massCase", label: () => "Mass case", type: "text" },
+  { key: "tailLoad", label: (u) => `Tail load [${unitSymbol(u, "force")}]` },
   { key: "excluded", label: () => "Excluded", type: "checkbox" },
   { key: "rule", label: () => "From rule", type: "text" },
 ];
@@ -378,7 +386,7 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
               type="button"
               className="rounded border border-line-strong bg-surface px-2 py-1 text-xs font-semibold hover:bg-canvas"
               onClick={() => {
-                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", excluded: false }]);
+                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", excluded: false }]);
                 setTimeout(() => show(total + added.length));
               }}
             >
@@ -403,3 +411,89 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
     </Panel>
   );
 }
+
+type Set = VnSet;
+
+/** What the gust points of one V–n set rest on: lift slopes per speed, gust velocities and their rules. */
+function VnNotes({ set, units }: { set: Set; units: UnitSystem }) {
+  const v = (x: number) => `${fromSI(units, "speed", x).toFixed(1)} ${unitSymbol(units, "speed")}`;
+  return (
+    <p className="mt-2 text-xs text-ink-muted">
+      Gust lift slope of the wing at each speed's Mach number: {set.liftSlopeAtVb !== undefined ? `VB ${set.liftSlopeAtVb.toFixed(3)}, ` : ""}VC {set.liftSlope.toFixed(3)}, VD {set.liftSlopeAtVd.toFixed(3)} /rad. Gusts
+      {set.gustAtVb !== undefined ? ` ${v(set.gustAtVb)} at VB,` : ""} {v(set.gustAtVc)} at VC, {v(set.gustAtVd)} at VD, EAS ({set.gustRule}).
+      {set.tuned ? (
+        <>
+          {" "}
+          Transport aeroplane: the load cases come from the tuned discrete gust of 14 CFR 25.341(a) on a rigid aircraft in plunge (below),{" "}
+          {set.fg ? (set.fg.rule.startsWith("F_g = 1") ? `with ${set.fg.rule}` : `with F_g = ${set.fg.value.toFixed(3)} (${set.fg.rule})`) : ""}; the Pratt gust points are drawn for comparison only. The rigid model leaves out
+          the structure's flexibility and the aircraft's pitching; the dynamic analysis the authority accepts governs.
+        </>
+      ) : null}
+      {set.massCase ? ` Mass case ${set.massCase}${set.cg !== undefined ? `, CG ${(set.cg * 100).toFixed(1)} % MAC` : ""}.` : ""}
+    </p>
+  );
+}
+
+/** Every point of the set, with its speed, load factor and the rule it comes from. */
+function VnPointsTable({ set, units }: { set: Set; units: UnitSystem }) {
+  return (
+    <div className="mt-3">
+      <DataTable
+        rows={set.points}
+        caption={`V–n points, ${set.label}`}
+        csvName="vn-points.csv"
+        columns={[
+          { id: "name", header: "Point", value: (p) => p.name },
+          { id: "veas", header: `EAS [${unitSymbol(units, "speed")}]`, value: (p) => Number(fromSI(units, "speed", p.veas).toPrecision(5)), numeric: true },
+          { id: "nz", header: "nz", value: (p) => Number(p.nz.toPrecision(5)), numeric: true },
+          { id: "rule", header: "From rule", value: (p) => p.rule },
+        ]}
+      />
+    </div>
+  );
+}
+
+/** The tuned discrete gust of each speed of a Part 25 set: Δn against the gradient, and the critical one's history. */
+function TunedGustPanel({ set, units }: { set: Set; units: UnitSystem }) {
+  const [speed, setSpeed] = useState(0);
+  const tuned = set.tuned ?? [];
+  const t = tuned[Math.min(speed, tuned.length - 1)];
+  if (!t) return null;
+  const length = { symbol: unitSymbol(units, "length"), fromSI: (m: number) => fromSI(units, "length", m) };
+  const c = t.result.critical;
+  return (
+    <div className="mt-5 border-t border-line pt-4">
+      <h3 className="mb-2 text-sm font-semibold">Tuned discrete gust (14 CFR 25.341(a)), rigid aircraft in plunge</h3>
+      <label className="mb-2 block text-sm">
+        <span className="mr-2 font-semibold">Speed</span>
+        <select value={speed} onChange={(e) => setSpeed(Number(e.target.value))} className="rounded border border-line-strong px-2 py-1">
+          {tuned.map((x, i) => (
+            <option key={x.speed} value={i}>
+              {x.speed} ({fromSI(units, "speed", x.veas).toFixed(1)} {unitSymbol(units, "speed")} EAS)
+            </option>
+          ))}
+        </select>
+      </label>
+      <p className="mb-2 text-sm">
+        Mass ratio μ = <span className="tabular">{t.result.massRatio.toFixed(2)}</span>, Pratt's K_g = <span className="tabular">{t.result.prattKg.toFixed(4)}</span>. Critical gradient H ={" "}
+        <span className="tabular">
+          {length.fromSI(c.gradient).toFixed(1)} {length.symbol}
+        </span>{" "}
+        ({c.gradientChords.toFixed(1)} mean chords), U_ds ={" "}
+        <span className="tabular">
+          {fromSI(units, "speed", c.uds).toFixed(2)} {unitSymbol(units, "speed")}
+        </span>{" "}
+        EAS: Δn = <strong className="tabular">{c.deltaN.toFixed(4)}</strong> (factor K = {c.k.toFixed(4)}); Pratt's formula with the same gust gives {c.prattDeltaN.toFixed(4)}.
+      </p>
+      <div className="grid gap-4 xl:grid-cols-2">
+        <Chart option={tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length) as never} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
+        <Chart option={gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history) as never} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
+      </div>
+      <p className="mt-2 text-xs text-ink-muted">
+        {t.result.method}. U_ds = U_ref·F_g·(H/350 ft)^(1/6); gradients from 30 to 350 ft. Left out: the flexibility of the structure, the aircraft's pitching and the tail's own lift, compressibility and finite span in the lift
+        build-up. Results support, and do not replace, the dynamic gust analysis the certifying authority accepts.
+      </p>
+    </div>
+  );
+}
+

@@ -17,7 +17,7 @@ const method = {
   strips: optionalNumber("Strips"),
 };
 
-/** One load case as typed into the grid, in display units (altitude, weight as a mass). */
+/** One load case as typed into the grid, in display units (altitude, weight as a mass, tail load as a force). */
 const caseRow = z.strictObject({
   id: z.string().trim(),
   kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
@@ -27,6 +27,8 @@ const caseRow = z.strictObject({
   alpha: optionalNumber("Angle of attack"),
   weight: optionalNumber("Weight"),
   nz: optionalNumber("Load factor"),
+  massCase: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(40).optional()),
+  tailLoad: optionalNumber("Tail load"),
   excluded: checkbox,
 });
 
@@ -84,11 +86,18 @@ export function loadCaseRowValues(c: EnvelopeData["cases"][number], units: UnitS
     alpha: c.alpha === undefined ? "" : String(c.alpha),
     weight: c.weight === undefined ? "" : String(tidy(fromSI(units, "mass", c.weight / G0))),
     nz: c.nz === undefined ? "" : String(tidy(c.nz)),
+    massCase: c.massCase ?? "",
+    tailLoad: c.tailLoad === undefined ? "" : String(tidy(fromSI(units, "force", c.tailLoad))),
     excluded: c.excluded,
   };
 }
 
-/** Typed load cases in SI (altitude in m, weight as a force in N), as the envelope step stores them. */
+/** Typed load cases in SI (altitude in m, weight as a force in N, tail load in N), as the envelope step stores them. */
 export function casesToSI(cases: z.output<typeof caseRow>[], units: UnitSystem) {
-  return cases.map((k) => ({ ...k, altitude: toSI(units, "altitude", k.altitude), weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0 }));
+  return cases.map((k) => ({
+    ...k,
+    altitude: toSI(units, "altitude", k.altitude),
+    weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0,
+    tailLoad: k.tailLoad === undefined ? undefined : toSI(units, "force", k.tailLoad),
+  }));
 }

@@ -1,9 +1,9 @@
 import { useEffect, useState } from "react";
 import { Form, href, useFetcher } from "react-router";
-import { loadsOption, type LoadQuantity } from "~/charts/loads";
+import { loadsOption, reliefOption, type LoadQuantity } from "~/charts/loads";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
-import { TextField } from "~/components/forms/field";
+import { TextAreaField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { DataTable } from "~/components/tables/data-table";
 import { Alert, Panel } from "~/components/ui/page-header";
@@ -12,6 +12,7 @@ import type { StepStatus } from "~/domain/vocabulary";
 import { formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseResult, ResultCase } from "~/exchange";
 import type { LoadsView } from "~/services/loads-view.server";
+import type { CaseLoadsBreakdown, LoadsPageInfo } from "~/services/case-loads.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { LoadsFormSchema } from "./loads.schema";
 
@@ -52,19 +53,27 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number,
   };
 }
 
-/** The semispan structural mass whose inertia relieves the air loads. */
-export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, revision, busy, voids }: { form: ZodForm<typeof LoadsFormSchema>; onSubmit: React.FormEventHandler<HTMLFormElement>; server: FieldErrors | undefined; units: UnitSystem; canEdit: boolean; status: StepStatus; revision: number; busy: boolean; voids: readonly string[] }) {
+/** A case id with its mass case, as the tables and read-outs name it: "W2-A (MTOW-full)". */
+function namer(info: LoadsPageInfo) {
+  return (id: string) => {
+    const mc = info.cases[id]?.massCase;
+    return mc ? `${id} (${mc})` : id;
+  };
+}
+
+/** The engineer's notes on the results, saved with the loads step for the checker. */
+export function NotesPanel({ form, onSubmit, server, canEdit, status, revision, busy, voids }: { form: ZodForm<typeof LoadsFormSchema>; onSubmit: React.FormEventHandler<HTMLFormElement>; server: FieldErrors | undefined; canEdit: boolean; status: StepStatus; revision: number; busy: boolean; voids: readonly string[] }) {
   return (
-    <Panel title="Inertia relief">
+    <Panel title="Notes for the checker">
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
         <fieldset disabled={!canEdit || busy}>
-          <TextField
-            label={`Semispan structural mass [${unitSymbol(units, "mass")}]`}
-            hint="Spread in proportion to chord on the reference axis and multiplied by nz·g. 0 for aerodynamic loads only."
-            inputMode="decimal"
-            {...form.register("semispanMass")}
-            errors={errorsFor(form, server, "semispanMass")}
+          <TextAreaField
+            label="Notes on these loads"
+            hint="What the checker should know about the results: critical cases, anything dispositioned, what was compared. The masses and their relief are entered in the masses step."
+            rows={5}
+            {...form.register("notes")}
+            errors={errorsFor(form, server, "notes")}
           />
         </fieldset>
         <StepSaveBar canEdit={canEdit} status={status} revision={revision} busy={busy} label="Save" voids={voids} />
@@ -73,10 +82,55 @@ export function InertiaPanel({ form, onSubmit, server, units, canEdit, status, r
   );
 }
 
+/** One case's loads split into the aerodynamic load, the inertia relief of its mass case and the net load. */
+export function BreakdownPanel({ caseId, current, result, units, info }: { caseId: string; current: ResultCase | Omit<ResultCase, "stations">; result: unknown; units: UnitSystem; info: LoadsPageInfo }) {
+  const named = namer(info);
+  const breakdown = useFetcher<CaseLoadsBreakdown | { error: string; message: string }>();
+  useEffect(() => {
+    breakdown.load(`${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`);
+  }, [caseId, current.id, result]);
+  const parts = breakdown.data && "y" in breakdown.data ? breakdown.data : null;
+  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
+  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
+  return (
+    <Panel title={`Aerodynamic load, inertia relief and net load: case ${named(current.id)}`} className="mt-5">
+      {parts && parts.caseId === current.id ? (
+        <>
+          <p className="mb-2 text-sm">
+            {parts.nz === null ? (
+              "A case given by angle of attack has no load factor: no inertia relief is applied."
+            ) : (
+              <>
+                nz = <span className="tabular">{parts.nz}</span>, mass case <strong>{parts.massCase ?? "all items at full mass"}</strong>, tail load <span className="tabular">{formatQuantity(units, "force", parts.tailLoad)}</span> (up positive), wing lift{" "}
+                <span className="tabular">{formatQuantity(units, "force", parts.wingLift)}</span> (both sides). The net load is the aerodynamic load less the relief.
+              </>
+            )}
+          </p>
+          <div className="grid gap-4 xl:grid-cols-3">
+            {(["shear", "bending", "torsion"] as const).map((q) => (
+              <Chart
+                key={q}
+                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment) as never}
+                label={`${q === "shear" ? "Shear" : q === "bending" ? "Bending moment" : "Torsion"}: aerodynamic, relief and net`}
+                fileName={`${q}-relief-${current.id}`}
+              />
+            ))}
+          </div>
+        </>
+      ) : breakdown.data && "error" in breakdown.data ? (
+        <Alert>{breakdown.data.message}</Alert>
+      ) : (
+        <p className="text-sm text-ink-muted">Computing the breakdown of case {current.id}…</p>
+      )}
+    </Panel>
+  );
+}
+
 /** Where the results stand: not ready, computing, refused, or how many cases with the root bending envelope. */
-export function ResultsStatus({ ready, caseCount, results, current, onSelect, units }: { ready: boolean; caseCount: number; results: ReturnType<typeof useCaseResults>; current: ResultCase | null; onSelect: (id: string) => void; units: UnitSystem }) {
+export function ResultsStatus({ ready, caseCount, results, current, onSelect, units, info }: { ready: boolean; caseCount: number; results: ReturnType<typeof useCaseResults>; current: ResultCase | null; onSelect: (id: string) => void; units: UnitSystem; info: LoadsPageInfo }) {
   const listed = results.result ? (results.result.cases.some((c) => c.id === current?.id) || !current ? results.result.cases : [current, ...results.result.cases]) : [];
   const { result, failure, computing, progress, loadedFor } = results;
+  const named = namer(info);
   // A sweep on the job worker shows how far it has got; a request the page waits on only that it runs.
   const fraction = progress ? sweepFraction(progress) : null;
   const env = result?.envelope ?? [];
@@ -104,15 +158,15 @@ export function ResultsStatus({ ready, caseCount, results, current, onSelect, un
         <div className="rounded border border-line bg-surface p-4 text-sm">
           <p>
             <strong>{result.caseCount}</strong> cases analysed (engine {result.engine}) from the inputs at loads revision {loadedFor}. Root bending envelope:{" "}
-            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMax)}</strong> ({env[0]?.bendingMaxCase}) /{" "}
-            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMin)}</strong> ({env[0]?.bendingMinCase}).
+            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMax)}</strong> ({named(env[0]?.bendingMaxCase ?? "")}) /{" "}
+            <strong className="tabular">{formatQuantity(units, "moment", env[0]?.bendingMin)}</strong> ({named(env[0]?.bendingMinCase ?? "")}).
           </p>
           <label className="mt-2 block">
             <span className="mr-2 font-semibold">Case shown on the plots</span>
             <select value={current.id} onChange={(e) => onSelect(e.target.value)} className="rounded border border-line-strong px-2 py-1">
               {listed.map((c) => (
                 <option key={c.id} value={c.id}>
-                  {c.id}
+                  {named(c.id)}
                 </option>
               ))}
             </select>
@@ -144,8 +198,9 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
 }
 
 /** The envelope by station with the case that gives each extreme. */
-export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envelope"]; units: UnitSystem }) {
+export function EnvelopeTable({ envelope, units, info }: { envelope: CaseResult["envelope"]; units: UnitSystem; info: LoadsPageInfo }) {
   const env = envelope;
+  const named = namer(info);
   return (
     <Panel title="Envelope and critical case at each station" className="mt-5">
       <DataTable
@@ -159,9 +214,9 @@ export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envel
             const sym = unitSymbol(units, quantity);
             return [
               { id: `${q}Max`, header: `${q} max [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Max`])), numeric: true },
-              { id: `${q}MaxCase`, header: `${q} max case`, value: (e: (typeof env)[number]) => e[`${q}MaxCase`] },
+              { id: `${q}MaxCase`, header: `${q} max case (mass case)`, value: (e: (typeof env)[number]) => named(e[`${q}MaxCase`]) },
               { id: `${q}Min`, header: `${q} min [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Min`])), numeric: true },
-              { id: `${q}MinCase`, header: `${q} min case`, value: (e: (typeof env)[number]) => e[`${q}MinCase`] },
+              { id: `${q}MinCase`, header: `${q} min case (mass case)`, value: (e: (typeof env)[number]) => named(e[`${q}MinCase`]) },
             ];
           }),
         ]}
@@ -172,9 +227,10 @@ export function EnvelopeTable({ envelope, units }: { envelope: CaseResult["envel
 
 const round = (v: number) => Number(v.toPrecision(5));
 
-export function RootLoadsTable({ cases, units }: { cases: Omit<ResultCase, "stations">[]; units: UnitSystem }) {
+export function RootLoadsTable({ cases, units, info }: { cases: Omit<ResultCase, "stations">[]; units: UnitSystem; info: LoadsPageInfo }) {
   const F = unitSymbol(units, "force");
   const M = unitSymbol(units, "moment");
+  const balance = new Map(info.balance.map((b) => [b.caseId, b]));
   return (
     <DataTable
       rows={cases}
@@ -183,10 +239,13 @@ export function RootLoadsTable({ cases, units }: { cases: Omit<ResultCase, "stat
       initialSort={[{ id: "bending", desc: true }]}
       columns={[
         { id: "id", header: "Case", value: (c) => c.id },
+        { id: "massCase", header: "Mass case", value: (c) => info.cases[c.id]?.massCase ?? "" },
         { id: "mach", header: "Mach", value: (c) => round(c.mach), numeric: true },
         { id: "altitude", header: `Altitude [${unitSymbol(units, "altitude")}]`, value: (c) => round(fromSI(units, "altitude", c.altitude)), numeric: true },
         { id: "cl", header: "CL", value: (c) => round(c.cl), numeric: true },
         { id: "alpha", header: "α [°]", value: (c) => round(c.alpha), numeric: true },
+        { id: "tail", header: `Tail load [${F}]`, value: (c) => (balance.has(c.id) ? round(fromSI(units, "force", balance.get(c.id)!.tailLoad)) : null), numeric: true },
+        { id: "tailSource", header: "Tail load from", value: (c) => balance.get(c.id)?.source ?? "" },
         { id: "regime", header: "Regime", value: (c) => c.regime, format: (c) => (c.regime === "supercritical" ? <span className="font-semibold text-danger">⚠ supercritical</span> : c.regime) },
         { id: "shear", header: `Root shear [${F}]`, value: (c) => round(fromSI(units, "force", c.root.shear)), numeric: true },
         { id: "bending", header: `Root bending [${M}]`, value: (c) => round(fromSI(units, "moment", c.root.bending)), numeric: true },
@@ -195,4 +254,3 @@ export function RootLoadsTable({ cases, units }: { cases: Omit<ResultCase, "stat
     />
   );
 }
-

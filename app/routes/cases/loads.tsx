@@ -6,17 +6,16 @@ import { ResultsCaution } from "~/components/case/caution";
 import { StepAnswer } from "~/components/case/step-answer";
 import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader, Panel } from "~/components/ui/page-header";
-import { tidy } from "~/domain/form-values";
 import { hasPermission } from "~/domain/permissions";
 import { LoadsSchema } from "~/domain/step-data";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
-import { fromSI, toSI } from "~/domain/units";
 import { analysedCases, caseInputs } from "~/services/analysis.server";
+import { loadsPageInfo } from "~/services/case-loads.server";
 import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/loads";
-import { EnvelopeTable, InertiaPanel, LoadsCharts, ResultsStatus, RootLoadsTable, useCaseResults } from "./loads.panels";
+import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RootLoadsTable, useCaseResults } from "./loads.panels";
 import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -30,7 +29,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     units,
     revision: steps.loads.revision,
     status: steps.loads.status,
-    values: { semispanMass: String(tidy(fromSI(units, "mass", inputs.loads?.semispanMass ?? 0))) },
+    values: { notes: inputs.loads?.notes ?? "" },
+    info: loadsPageInfo(c.title, inputs),
     caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
     ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
     axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
@@ -43,8 +43,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
   const parsed = await parseBody(request, LoadsFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
-  const units = caseUnits(await getCaseSteps(c.id));
-  const si = LoadsSchema.safeParse({ semispanMass: toSI(units, "mass", parsed.value.semispanMass) });
+  const inputs = caseInputs(await getCaseSteps(c.id));
+  // A case saved before the masses step kept its structural mass here: keep it until the masses step is saved.
+  const legacy = !inputs.masses && inputs.loads?.semispanMass !== undefined ? { semispanMass: inputs.loads.semispanMass } : {};
+  const si = LoadsSchema.safeParse({ notes: parsed.value.notes, ...legacy });
   if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "loads", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
@@ -67,18 +69,19 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
           {loaderData.axisConvention}
         </p>
       ) : null}
-      <StepAnswer answer={shown} inline={["semispanMass"]} />
+      <StepAnswer answer={shown} inline={["notes"]} />
       <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
-        <InertiaPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} units={units} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} voids={loaderData.voids} />
-        <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} />
+        <NotesPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} voids={loaderData.voids} />
+        <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} info={loaderData.info} />
       </div>
       {result && current ? (
         <div className={results.loading ? "opacity-50" : undefined} aria-busy={results.loading}>
           <LoadsCharts envelope={result.envelope} current={current} units={units} />
+          <BreakdownPanel caseId={loaderData.caseId} current={current} result={result} units={units} info={loaderData.info} />
           <Panel title={result.cases.length < result.caseCount ? `Root loads, the ${result.cases.length} most critical of ${result.caseCount} cases` : "Root loads, every case"} className="mt-5">
-            <RootLoadsTable cases={result.cases} units={units} />
+            <RootLoadsTable cases={result.cases} units={units} info={loaderData.info} />
           </Panel>
-          <EnvelopeTable envelope={result.envelope} units={units} />
+          <EnvelopeTable envelope={result.envelope} units={units} info={loaderData.info} />
         </div>
       ) : null}
     </>
