@@ -147,7 +147,9 @@ describe("review of each step", () => {
   });
 });
 
-describe("reports", () => {
+// Each report renders a PDF of the demo case (four mass cases at three altitudes): a generous limit, so a
+// busy machine cannot fail them (no timing in the checks).
+describe("reports", { timeout: 240_000 }, () => {
   let s3dir = "";
   let spare: S3rver | undefined;
   afterAll(async () => {
