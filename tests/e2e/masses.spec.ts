@@ -1,5 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
-import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/db/demo";
+import { DEMO_CASE_INPUTS, DEMO_USERS } from "../../app/demo/scenario";
 
 const engineer = DEMO_USERS.find((u) => u.label === "engineer")!;
 const shot = (page: Page, name: string) => page.screenshot({ path: `tests/e2e/screenshots/masses-${name}.png`, fullPage: true });

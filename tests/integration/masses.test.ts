@@ -8,7 +8,7 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { DEMO_CASE_INPUTS } from "~/db/demo";
+import { DEMO_CASE_INPUTS } from "~/demo/scenario";
 import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
 import { balanceTailLoad, dynamicPressure, solveMach, wingAerodynamicCentre, wingPitchingMoment } from "~/engine";
 import { parseCase, runCase, wingModelOf } from "~/exchange";
