@@ -162,6 +162,8 @@ test("an engineer builds a case from nothing and reads the critical root bending
 });
 
 test("a stale save from a second window is refused and nothing is lost", async ({ browser }) => {
+  // Two browsers and two saves: a busy machine needs more than the default time.
+  test.slow();
   const one = await browser.newContext();
   const two = await browser.newContext();
   const a = await one.newPage();
