@@ -8,9 +8,11 @@ import { documents } from "./pdf/documents.server";
 import { flagsAndCautions } from "./pdf/flags.server";
 import { registerFonts } from "./pdf/fonts.server";
 import { inputs } from "./pdf/inputs.server";
+import { massesAndBalance } from "./pdf/masses.server";
 import { decorate, formatters, M, Writer, type Section } from "./pdf/layout.server";
 import { methodStatement } from "./pdf/method.server";
 import { resultsDistribution } from "./pdf/results-distribution.server";
+import { resultsGust } from "./pdf/results-gust.server";
 import { resultsLoads } from "./pdf/results-loads.server";
 import { resultsVn } from "./pdf/results-vn.server";
 import { signatures } from "./pdf/signatures.server";
@@ -23,7 +25,9 @@ const SECTIONS: [pct: number, note: string, write: (section: Section) => void][]
   [15, "Basis and method", basisAndScope],
   [20, "Basis and method", methodStatement],
   [30, "Inputs", inputs],
+  [38, "Masses and balance", massesAndBalance],
   [45, "V–n diagram", resultsVn],
+  [52, "Tuned discrete gust", resultsGust],
   [60, "Distributions of the critical case", resultsDistribution],
   [75, "Shear, bending and torsion", resultsLoads],
   [80, "Rule sensitivity", ruleSensitivity],
@@ -36,7 +40,7 @@ const SECTIONS: [pct: number, note: string, write: (section: Section) => void][]
 
 /**
  * Renders the signed report of a case as an A4 PDF from its frozen snapshot: cover, basis and
- * scope, method statement, inputs with a to-scale planform, results (V–n, distributions of the
+ * scope, method statement, inputs with a to-scale planform, masses and the balance per case, results (V–n, tuned gust, distributions of the
  * critical case, shear/bending/torsion envelopes, tables), flags and dispositions, cautions and
  * signatures, with a footer naming report, version, input hash and page on every page.
  *

@@ -1,6 +1,6 @@
 import type { BasisData, DistributionData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData } from "~/domain/step-data";
 import type { DistributionSeries } from "~/charts/distribution";
-import type { CompressibilityRule, VnPoint, WingGeometry } from "~/engine";
+import type { CompressibilityRule, TunedGustResult, VnPoint, WingGeometry } from "~/engine";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
 import type { ReportComparison } from "~/domain/report-comparison";
@@ -94,6 +94,24 @@ export type DistributionFigure = Omit<DistributionSeries, "rules"> & {
   rules: (DistributionSeries["rules"][number] & { CL: number; clAlpha: number; machCritical: number | null })[];
 };
 
+/** Each mass case with what it puts on the wing and its checks against the basis, and the balance of every trimmed case. */
+export interface MassesFigure {
+  cases: { id: string; label: string; weight: number | null; cg: number | null; itemsKg: number; wingKg: number; itemsX: number | null; checks: { ok: boolean; text: string }[] }[];
+  /** Tail load and wing lift (N) of each trimmed case, and where the tail load came from. */
+  balance: { caseId: string; kind: string; massCase: string | null; weight: number; nz: number; balanceNz: number; tailLoad: number; wingLift: number; source: "typed" | "balance" | "none" }[];
+  /** Why the balance could not be computed, where it could not. */
+  problem: string | null;
+}
+
+/** The tuned discrete gust of one V–n set (design weight at an altitude), per gust speed. */
+export interface GustFigure {
+  label: string;
+  massCase?: string;
+  tuned?: { speed: string; veas: number; uRef: number; liftSlope: number; result: TunedGustResult; history: { s: number; gust: number; k: number }[] }[];
+  /** Other categories (Pratt's formula gives the gust cases): Pratt's K_g beside the rigid plunge response to the 25-chord 1-cos gust it was derived from. */
+  pratt?: { massRatio: number; prattKg: number; k: number; sAtPeak: number; history: { s: number; gust: number; k: number }[] };
+}
+
 /**
  * What the report draws beyond the snapshot's own numbers, computed from the snapshot by the
  * reports service when the PDF is rendered (so the stored snapshot stays as it was signed).
@@ -105,4 +123,8 @@ export interface ReportFigures {
   critical: DistributionFigure;
   /** The wing's derived geometry (area, span, MAC, panels). */
   geometry: WingGeometry;
+  /** The mass cases and the balance per case (null where the case has no masses). */
+  masses?: MassesFigure | null;
+  /** The tuned discrete gust of every V–n set (transport aeroplanes). */
+  gusts?: GustFigure[];
 }

@@ -5,13 +5,14 @@ import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, organisations, programmes, reports, type Report } from "~/db/schema";
 import { compareReports } from "~/domain/report-comparison";
 import { ISSUED_REPORT_STATUSES } from "~/domain/vocabulary";
-import { ENGINE_VERSION, wingGeometry, type WingStation } from "~/engine";
+import { ENGINE_VERSION, gustAlleviationFactor, gustMassRatio, isa, plungeGustResponse, wingGeometry, type WingStation } from "~/engine";
 import { exchangeDocumentText } from "~/exchange";
-import type { ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
+import type { MassesFigure, ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { and, desc, eq, inArray, lt } from "drizzle-orm";
-import { buildCaseFile, buildSectionsFile, caseInputs, resultsFor } from "./analysis.server";
+import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
-import { effectiveMasses } from "./masses.server";
+import { balanceRows, effectiveMasses, massCaseSummaries } from "./masses.server";
+import { DomainError } from "~/domain/errors";
 import { distributionView, flaggedCases } from "./distribution.server";
 import { vnSets } from "./envelope.server";
 import { liveSignatures } from "./review.server";
@@ -90,11 +91,55 @@ async function previousIssued(report: Report, database: Db | Tx): Promise<Report
 export function reportFigures(s: ReportSnapshot): ReportFigures {
   const sets = vnSets(s.inputs.basis, s.inputs.planform, s.inputs.sections, { compressibility: s.inputs.envelope.compressibility, spanwise: s.inputs.envelope.spanwise }, s.inputs.masses);
   const stations: WingStation[] = (s.exchange.wing.stations as WingStation[]).map((st) => ({ ...st }));
+  const geometry = wingGeometry(stations);
   return {
     vn: { set: sets[0]!, count: sets.length },
     critical: distributionView(s.exchange, criticalCase(s.result.cases).id),
-    geometry: wingGeometry(stations),
+    geometry,
+    masses: massesFigure(s),
+    gusts: sets.map((set) => ({
+      label: set.label,
+      ...(set.massCase ? { massCase: set.massCase } : {}),
+      ...(set.tuned ? { tuned: set.tuned } : { pratt: prattBeside(set.weightKg * G0 / s.inputs.basis.wingArea, set.altitude, geometry.meanGeometricChord, set.liftSlope) }),
+    })),
   };
+}
+
+const G0 = 9.80665;
+
+/**
+ * Pratt's alleviation factor beside the response it was derived from: the rigid aircraft in plunge
+ * through a 1-cos gust 25 mean chords long (NACA Report 1206), at the set's mass ratio with the lift
+ * slope at V_C.
+ */
+function prattBeside(wingLoading: number, altitude: number, meanChord: number, liftSlope: number) {
+  const massRatio = gustMassRatio(wingLoading, isa(altitude).density, meanChord, liftSlope, G0);
+  const r = plungeGustResponse({ massRatio, gradientSemichords: 25, history: true });
+  return { massRatio, prattKg: gustAlleviationFactor(massRatio), k: r.peak, sAtPeak: r.sAtPeak, history: r.history };
+}
+
+/** The report's mass cases and the balance of every trimmed case, from the snapshot's own case document. */
+function massesFigure(s: ReportSnapshot): MassesFigure | null {
+  const m = s.inputs.masses;
+  if (!m) return null;
+  const cases = massCaseSummaries(m, s.inputs.basis);
+  try {
+    const balance = balanceRows(parseOrThrow(s.exchange), s.inputs.envelope.cases, m).map((r) => ({
+      caseId: r.caseId,
+      kind: r.kind,
+      massCase: r.massCase,
+      weight: r.weight,
+      nz: r.nz,
+      balanceNz: r.balanceNz,
+      tailLoad: r.tailLoad,
+      wingLift: r.wingLift,
+      source: r.source,
+    }));
+    return { cases, balance, problem: null };
+  } catch (error) {
+    if (error instanceof DomainError) return { cases, balance: [], problem: error.message };
+    throw error;
+  }
 }
 
 /** The PDF of a snapshot: its figures computed, then every section rendered (pdfkit, server-side charts). */

@@ -23,7 +23,7 @@ const versionPanel = (page: Page, n: number) => page.locator("section", { has: p
 const shot = (page: Page, name: string) => page.screenshot({ path: `tests/e2e/screenshots/review-${name}.png`, fullPage: true });
 
 test("editing the approved demo planform voids the approvals downstream; resubmitted, re-approved, re-issued and released", async ({ browser }) => {
-  test.setTimeout(180_000);
+  test.setTimeout(360_000);
   const engineer = await signedIn(browser, "engineer");
   await engineer.getByRole("link", { name: "TN-WL-001" }).click();
   await expect(engineer).toHaveURL(/\/cases\/[0-9a-f-]{36}$/);

@@ -14,7 +14,9 @@ import type { ReportSnapshot } from "~/reports/snapshot";
 import { buildCaseFile, caseInputs, resultsFor } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { flaggedCases } from "~/services/distribution.server";
+import { effectiveMasses } from "~/services/masses.server";
 import { renderReport } from "~/services/report-contents.server";
+import { DEMO_CASE_INPUTS } from "~/demo/scenario";
 import { seed } from "./helpers";
 
 const run = promisify(execFile);
@@ -65,6 +67,7 @@ async function buildSnapshot(): Promise<ReportSnapshot> {
       envelope: inputs.envelope!,
       distribution: inputs.distribution!,
       loads: inputs.loads!,
+      masses: effectiveMasses(inputs),
     },
     exchange,
     result,
@@ -179,6 +182,68 @@ describe("the signed report PDF of the demo case", () => {
     expect(method).toContain(`Vortex lattice, ${m.strips} strips per semispan`);
     expect(method).toContain(`With half the strips (${m.convergence.halfResolution})`);
     expect(method).toMatch(/Critical Mach number one Cp,min per section/);
+  });
+
+  it("lists the mass cases with the wing's own masses by hand-computed sums", () => {
+    const text = pages.join("\n");
+    const m = DEMO_CASE_INPUTS.masses;
+    expect(text).toContain("Masses and balance");
+    for (const mc of m.massCases) {
+      // Both wings = 2 × (structure + Σ fill·mass of the items; items not named count fully), summed by hand.
+      const fill = mc.fill as Record<string, number>;
+      const items = m.items.reduce((sum, it) => sum + (fill[it.id] ?? 1) * it.kg, 0);
+      const row = text.split("\n").find((l) => l.trimStart().startsWith(`${mc.id} `) && l.includes(formatQuantity("SI", "mass", mc.weight).replace(/ kg$/, "")));
+      expect(row, mc.id).toBeDefined();
+      expect(row!.replace(/\s+/g, " ")).toContain(formatNumber(2 * (m.structureKg + items), 4).replace(/ /g, " "));
+    }
+  });
+
+  it("prints the balance of every trimmed case with tail load and wing lift summing to nz·W", () => {
+    const text = pages.join("\n");
+    expect(text).toContain("Balance per case");
+    // One row: case, kind, mass case, nz, weight, tail load, wing lift, where the tail load came from.
+    const num = "(-?\\d{1,3}(?: \\d{3})*(?:\\.\\d+)?)";
+    const row = new RegExp(`^(W\\d+-\\S+)\\s+(manoeuvre|gust)\\s+(\\S+)\\s+${num}\\s+${num}\\s+${num}\\s+${num}\\s+(balance at|typed|none)`);
+    const rows = text.split("\n").map((l) => row.exec(l.trim())).filter((m) => m !== null);
+    expect(rows.length).toBeGreaterThan(10);
+    const value = (t: string) => Number(t.replace(/ /g, ""));
+    for (const m of rows) {
+      // Vertical equilibrium of the aircraft (common practice, no source): wing lift + tail load = nz·W.
+      const [nz, weight, tail, wing] = [value(m[4]!), value(m[5]!), value(m[6]!), value(m[7]!)];
+      expect(Math.abs(wing + tail - nz * weight), m[0]).toBeLessThan(0.002 * Math.max(1, Math.abs(nz * weight)) + 0.01);
+    }
+    // Balanced from the masses step's inputs, not left at 0.
+    expect(rows.some((m) => m[8] === "balance at" && value(m[6]!) !== 0)).toBe(true);
+  });
+
+  it("names the mass case of each root extreme of the envelope", () => {
+    const text = pages.join("\n");
+    const start = text.indexOf("Root envelope with the case and the mass case");
+    expect(start).toBeGreaterThan(0);
+    const ids = new Set<string>(DEMO_CASE_INPUTS.masses.massCases.map((m) => m.id));
+    const root = snapshot.result.envelope[0]!;
+    const massCaseOf = new Map(snapshot.exchange.cases.map((c) => [c.id, c.massCase]));
+    const table = text.slice(start, start + 2000);
+    for (const q of ["shear", "bending", "torsion"] as const) {
+      const mc = massCaseOf.get(root[`${q}MaxCase`]);
+      expect(ids.has(mc!)).toBe(true);
+      expect(table).toContain(root[`${q}MaxCase`]);
+      expect(table).toContain(mc!);
+    }
+  });
+
+  it("sets Pratt's K_g beside the rigid plunge response to the 25-chord gust it came from", () => {
+    const text = pages.join("\n");
+    expect(text).toContain("Gust response beside Pratt's formula");
+    const rows = text.split("\n").map((l) => l.trim().split(/\s{2,}/)).filter((c) => c.length === 5 && / kg, \d+ m$/.test(c[0]!) && /^\d/.test(c[1]!));
+    expect(rows.length).toBe(DEMO_CASE_INPUTS.masses.massCases.length * DEMO_CASE_INPUTS.basis.altitudes.length);
+    for (const c of rows) {
+      const [mu, kg, k] = [Number(c[1]), Number(c[2]), Number(c[3])];
+      // K_g = 0.88μ/(5.3 + μ) (Pratt and Walker, NACA Report 1206; 14 CFR 23.341(c)), printed to four figures.
+      expect(kg).toBeCloseTo((0.88 * mu) / (5.3 + mu), 3);
+      // Report 1206 fitted K_g to this very response: they agree within a few per cent at these mass ratios (from memory).
+      expect(Math.abs(k - kg) / kg).toBeLessThan(0.05);
+    }
   });
 
   it("rasterises every page for a look", async () => {

@@ -22,5 +22,8 @@ export function basisAndScope({ w, s, q, sym }: Section) {
   w.para(
     `This report covers the wing loads of case ${s.case.reference}: the spanwise lift and pitching-moment distributions, corrected for compressibility, and the shear force, bending moment and torsion about the wing reference axis along the semispan for every load case of the manoeuvre and gust envelope listed in section 3, with their envelope. Loads are limit loads (no factor of safety applied) for the symmetric, flaps-up, clean-wing conditions given.`,
   );
-  w.para("It does not cover: the fuselage, tail or control surfaces; asymmetric, rolling, yawing or ground conditions; high-lift devices; engine, fuel and landing-gear point loads other than the distributed structural mass; aeroelastic effects, dynamic gust response, flutter, fatigue or damage tolerance; stress analysis or the strength of the structure; transonic or supercritical flow.");
+  const items = s.inputs.masses?.items.length ?? 0;
+  w.para(
+    `It does not cover: the fuselage, tail or control surfaces; asymmetric, rolling, yawing or ground conditions; high-lift devices; ${items ? "" : "engine, fuel and landing-gear point loads other than the distributed structural mass; "}aeroelastic effects, the dynamic gust response of the flexible aircraft${s.inputs.basis.category === "part25" ? " (the tuned gust is computed on the rigid aircraft in plunge)" : ""}, flutter, fatigue or damage tolerance; stress analysis or the strength of the structure; transonic or supercritical flow.`,
+  );
 }

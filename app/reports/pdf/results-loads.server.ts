@@ -19,6 +19,30 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
   }
   if (!crit.stations) w.para("Station tables were left out of the stored results (summary output): the critical case is shown by its root loads only.", { size: 8.2, color: WARN });
 
+  // The mass case of each extreme at the root: the envelope says which mass state made it.
+  const massCaseOf = new Map(s.exchange.cases.map((c) => [c.id, c.massCase ?? "all items full"]));
+  const root = env[0];
+  if (root) {
+    w.table(
+      [
+        { header: "At the root", width: 60 },
+        { header: "Maximum", width: 66, align: "right" },
+        { header: "Case", width: 70 },
+        { header: "Mass case", width: 64 },
+        { header: "Minimum", width: 66, align: "right" },
+        { header: "Case", width: 70 },
+        { header: "Mass case", width: 0 },
+      ],
+      (["shear", "bending", "torsion"] as const).map((qty) => {
+        const quantity: Quantity = qty === "shear" ? "force" : "moment";
+        const max = root[`${qty}MaxCase`];
+        const min = root[`${qty}MinCase`];
+        return [`${qty[0]!.toUpperCase()}${qty.slice(1)} [${sym(quantity)}]`, q(quantity, root[`${qty}Max`]), max, massCaseOf.get(max) ?? "—", q(quantity, root[`${qty}Min`]), min, massCaseOf.get(min) ?? "—"];
+      }),
+      { size: 7.6, caption: "Root envelope with the case and the mass case that give each extreme" },
+    );
+  }
+
   const idW = Math.max(30, ...env.flatMap((e) => [e.shearMaxCase, e.shearMinCase, e.bendingMaxCase, e.bendingMinCase, e.torsionMaxCase, e.torsionMinCase].map((c) => w.widthOf(c, { size: 6.6 })))) + 6;
   const valW = (W - 34 - 6 * idW) / 6;
   w.table(
@@ -55,19 +79,21 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
   const sorted = [...s.result.cases].sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
   w.table(
     [
-      { header: "Case", width: 64 },
-      { header: "Mach", width: 40, align: "right" },
-      { header: `Alt. [${sym("altitude")}]`, width: 44, align: "right" },
-      { header: "CL [–]", width: 42, align: "right" },
-      { header: "α [°]", width: 40, align: "right" },
-      { header: "Critical Mach", width: 48, align: "right" },
-      { header: "Regime", width: 62 },
+      { header: "Case", width: 58 },
+      { header: "Mass case", width: 52 },
+      { header: "Mach", width: 34, align: "right" },
+      { header: `Alt. [${sym("altitude")}]`, width: 38, align: "right" },
+      { header: "CL [–]", width: 34, align: "right" },
+      { header: "α [°]", width: 32, align: "right" },
+      { header: "Critical Mach", width: 40, align: "right" },
+      { header: "Regime", width: 50 },
       { header: `Root shear [${F}]`, width: 54, align: "right" },
       { header: `Root bending [${Mo}]`, width: 56, align: "right" },
       { header: `Root torsion [${Mo}]`, width: 0, align: "right" },
     ],
     sorted.map((c) => [
       c.id,
+      massCaseOf.get(c.id) ?? "—",
       formatNumber(c.mach),
       q("altitude", c.altitude, 5),
       formatNumber(c.cl),
