@@ -412,10 +412,8 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
   );
 }
 
-type Set = VnSet;
-
 /** What the gust points of one V–n set rest on: lift slopes per speed, gust velocities and their rules. */
-function VnNotes({ set, units }: { set: Set; units: UnitSystem }) {
+function VnNotes({ set, units }: { set: VnSet; units: UnitSystem }) {
   const v = (x: number) => `${fromSI(units, "speed", x).toFixed(1)} ${unitSymbol(units, "speed")}`;
   return (
     <p className="mt-2 text-xs text-ink-muted">
@@ -435,7 +433,7 @@ function VnNotes({ set, units }: { set: Set; units: UnitSystem }) {
 }
 
 /** Every point of the set, with its speed, load factor and the rule it comes from. */
-function VnPointsTable({ set, units }: { set: Set; units: UnitSystem }) {
+function VnPointsTable({ set, units }: { set: VnSet; units: UnitSystem }) {
   return (
     <div className="mt-3">
       <DataTable
@@ -454,7 +452,7 @@ function VnPointsTable({ set, units }: { set: Set; units: UnitSystem }) {
 }
 
 /** The tuned discrete gust of each speed of a Part 25 set: Δn against the gradient, and the critical one's history. */
-function TunedGustPanel({ set, units }: { set: Set; units: UnitSystem }) {
+function TunedGustPanel({ set, units }: { set: VnSet; units: UnitSystem }) {
   const [speed, setSpeed] = useState(0);
   const tuned = set.tuned ?? [];
   const t = tuned[Math.min(speed, tuned.length - 1)];
