@@ -86,9 +86,11 @@ export function NotesPanel({ form, onSubmit, server, canEdit, status, revision, 
 export function BreakdownPanel({ caseId, current, result, units, info }: { caseId: string; current: ResultCase | Omit<ResultCase, "stations">; result: unknown; units: UnitSystem; info: LoadsPageInfo }) {
   const named = namer(info);
   const breakdown = useFetcher<CaseLoadsBreakdown | { error: string; message: string }>();
+  const { load } = breakdown;
+  // Loaded again for another case and for new results of the same case.
   useEffect(() => {
-    breakdown.load(`${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`);
-  }, [caseId, current.id, result]);
+    void load(`${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`);
+  }, [load, caseId, current.id, result]);
   const parts = breakdown.data && "y" in breakdown.data ? breakdown.data : null;
   const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
   const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
