@@ -12,7 +12,7 @@ import { DEMO_CASE_INPUTS } from "~/demo/scenario";
 import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
 import { balanceTailLoad, dynamicPressure, solveMach, wingAerodynamicCentre, wingPitchingMoment } from "~/engine";
 import { parseCase, runCase, wingModelOf } from "~/exchange";
-import { loader as caseLoadsLoader } from "~/routes/api/case-loads";
+import { loader as caseLoadsLoader } from "~/routes/api/case-loads-breakdown";
 import { action as basisAction } from "~/routes/cases/basis";
 import { action as envelopeAction } from "~/routes/cases/envelope";
 import { action as massesAction, loader as massesLoader } from "~/routes/cases/masses";
