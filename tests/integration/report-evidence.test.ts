@@ -180,7 +180,9 @@ describe("spanwise methods overlaid", () => {
     expect(schrenk!.root.shear).toBeCloseTo(vlm!.root.shear, 3);
     // The vortex lattice here is the case's own method: its root loads are the case's results.
     const own = snap.result.cases.find((k) => k.id === trimmed.id);
-    if (own) expect(vlm!.root.bending).toBeCloseTo(own.root.bending, 6);
+    // The case's results may come through the Mach grid, whose stated accuracy is 1e-4 relative
+    // (docs/engine.md); the comparison solves at the case's own Mach number directly.
+    if (own) expect(Math.abs(vlm!.root.bending - own.root.bending)).toBeLessThan(1e-4 * Math.abs(own.root.bending));
   });
 
   it("leaves the lifting line and Schrenk out of a wing swept 25°, saying why", async () => {
@@ -247,11 +249,11 @@ describe("report to report", () => {
   beforeAll(async () => {
     // A heavier wing structure (invented: +15 %) changes the inertia relief, so the loads move.
     const steps = await getCaseSteps(caseId);
-    const loads = steps.loads.data as { semispanMass: number };
-    massBefore = loads.semispanMass;
+    const masses = steps.masses.data as { structureKg: number };
+    massBefore = masses.structureKg;
     massAfter = Math.round(massBefore * 1.15);
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
-    await saveStep({ caseId, step: "loads", baseRevision: steps.loads.revision, data: { ...loads, semispanMass: massAfter }, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
+    await saveStep({ caseId, step: "masses", baseRevision: steps.masses.revision, data: { ...masses, structureKg: massAfter }, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
     await approveAll();
     third = await issue();
   }, 240_000);
@@ -262,9 +264,9 @@ describe("report to report", () => {
     const c = view.comparison!;
     expect([c.from.version, c.to.version]).toEqual([first.row.version, third.row.version]);
     // Version 1 → 3 spans both edits: the sections' Cp,min tables (version 2) and the structural mass (version 3).
-    expect(c.inputs).toContainEqual({ step: "loads", field: "semispanMass", before: String(massBefore), after: String(massAfter) });
+    expect(c.inputs).toContainEqual({ step: "masses", field: "structureKg", before: String(massBefore), after: String(massAfter) });
     expect(c.inputs.some((x) => x.step === "sections" && x.field.endsWith("cpMinTable"))).toBe(true);
-    expect(new Set(c.inputs.map((x) => x.step))).toEqual(new Set(["sections", "loads"]));
+    expect(new Set(c.inputs.map((x) => x.step))).toEqual(new Set(["sections", "masses"]));
     // Every station's extremes are those of the two issued results, as stored.
     const a = (first.row.snapshot as unknown as Snapshot).result.envelope;
     const b = (third.row.snapshot as unknown as Snapshot).result.envelope;
@@ -292,9 +294,9 @@ describe("report to report", () => {
   it("prints the changes from the previous version in the next report", () => {
     const snap = third.row.snapshot as unknown as Snapshot & { comparison: { from: { version: number }; inputs: { field: string }[] } };
     expect(snap.comparison.from.version).toBe(third.row.version - 1);
-    expect(snap.comparison.inputs.map((x) => x.field)).toEqual(["semispanMass"]);
+    expect(snap.comparison.inputs.map((x) => x.field)).toEqual(["structureKg"]);
     expect(third.text).toContain("Changes from the previous version");
-    const line = third.text.split("\n").find((l) => l.includes("semispanMass"));
+    const line = third.text.split("\n").find((l) => l.includes("structureKg"));
     expect(line).toMatch(new RegExp(`${massBefore}\\s+${massAfter}`));
     expect(first.text).toContain("This is the first issued version of the report");
   });
@@ -309,7 +311,7 @@ describe("report to report", () => {
     expect(text).toContain(first.row.reportNumber);
     expect(text).toContain(third.row.reportNumber);
     expect(text).toContain("not a report, unsigned");
-    expect(text).toContain("semispanMass");
+    expect(text).toContain("structureKg");
     expect(text).toMatch(/cpMinTable/);
     const refused = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
     expect(refused.status).toBe(400);

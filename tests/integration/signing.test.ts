@@ -161,20 +161,21 @@ describe("a signature's fresh proof", () => {
   it("signs only what the person was shown: a step changed during the round trip is not signed", async () => {
     const current = await currentOf(cookies.checker!);
     const [linked] = await db.select().from(users).where(eq(users.id, current.user.id));
-    const { url } = await beginSsoSignature(current, { intent: "approve", caseId, step: "sections" });
+    const { url } = await beginSsoSignature(current, { intent: "approve", caseId, step: "planform" });
     const [req] = await db.select().from(signingRequests).where(eq(signingRequests.userId, current.user.id)).orderBy(desc(signingRequests.createdAt)).limit(1);
-    // Meanwhile the step is returned, edited and submitted again.
+    // Meanwhile the step is returned, edited and submitted again. (Planform: the next step in the
+    // order of approval, so that the only reason to refuse is the change.)
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
-    await returnStep({ caseId, step: "sections", actor: current.user, comment: "Add the tip section." });
-    const row = await stepStatus("sections");
-    const edited = structuredClone(row.data!) as { rows: { cmAc: number }[] };
-    edited.rows[0]!.cmAc -= 0.01;
-    await saveStep({ caseId, step: "sections", baseRevision: row.revision, data: edited, actor: { id: erin!.id, email: erin!.email } });
-    expect((await review(cookies.engineer!, { intent: "submit", step: "sections" })).status).toBe(200);
+    await returnStep({ caseId, step: "planform", actor: current.user, comment: "Move the reference axis." });
+    const row = await stepStatus("planform");
+    const edited = structuredClone(row.data!) as { axisRoot: number };
+    edited.axisRoot -= 0.01;
+    await saveStep({ caseId, step: "planform", baseRevision: row.revision, data: edited, actor: { id: erin!.id, email: erin!.email } });
+    expect((await review(cookies.engineer!, { intent: "submit", step: "planform" })).status).toBe(200);
     const at = Math.floor(req!.createdAt.getTime() / 1000);
     const done = await completeSsoSignature(current, { kind: "signature", state: "s", codeVerifier: "v", nonce: new URL(url).searchParams.get("nonce")!, requestId: req!.id }, { sub: linked!.ssoSubject!, email: current.user.email, authTime: at });
     expect(done.outcome).toBe("changed");
-    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.step, "sections")))).toHaveLength(0);
+    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.step, "planform")))).toHaveLength(0);
   });
 
   it("by password, cannot be guessed: wrong passwords are held back with growing delays, each one audited, and nothing is signed", async () => {
