@@ -43,10 +43,15 @@ export async function hydrated(page: Page) {
 export async function copyOfDemoCase(page: Page, reference: string, opts: { oneCase?: boolean } = {}): Promise<string> {
   const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
   const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
-  const document = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: { id: string }[] };
+  const document = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: { id: string; massCase?: string }[]; massCases?: { id: string }[] };
   // Imported cases count as added by hand: with `oneCase` a single one under an id of its own, so
   // that cases generated from the basis later do not clash with the demo's ids.
-  if (opts.oneCase) document.cases = [{ ...document.cases[0]!, id: "hand-1" }];
+  // Its mass cases are then only the one that case uses: a mass case takes its weight from the cases
+  // that name it, and one named by no case would be left without a weight to generate cases for.
+  if (opts.oneCase) {
+    document.cases = [{ ...document.cases[0]!, id: "hand-1" }];
+    if (document.massCases) document.massCases = document.massCases.filter((mc) => mc.id === document.cases[0]!.massCase);
+  }
   const created = await page.request.post("/api/v1/cases/import", {
     data: { programmeId: demo.programme.id, reference, title: `Copy of the demo case (${reference})`, case: document },
     headers: { Origin: new URL(page.url()).origin },

@@ -1,4 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
+import { DEMO_CASE_INPUTS } from "../../app/demo/scenario";
 import { copyOfDemoCase, exported, hydrated, signIn, typeDemoBasis } from "./helpers";
 
 // Exact unit definitions (international yard and pound, 1959; NIST SP 811 appendix B; REFERENCES.md §8):
@@ -15,12 +16,12 @@ test("switching the units converts what is shown; what is typed in either system
   test.setTimeout(300_000);
   await signIn(page, "engineer");
   const caseId = await copyOfDemoCase(page, "E2E-UNITS-1", { oneCase: true });
-  await typeDemoBasis(page, caseId); // SI: 6350 kg, VD 150 m/s, revision 1
+  await typeDemoBasis(page, caseId); // SI: the demo basis as typed (6350 kg, its VD in m/s), revision 1
 
   // Switching to US customary converts the numbers shown, it does not relabel them.
   await page.getByLabel("Units shown").selectOption("US");
   await expect(page.getByLabel("Max take-off [lb]")).toHaveValue(shown(6350 / LB));
-  await expect(page.getByLabel("VD [kt]")).toHaveValue(shown(150 / KT));
+  await expect(page.getByLabel("VD [kt]")).toHaveValue(shown(DEMO_CASE_INPUTS.basis.vd / KT));
   await page.getByLabel("VD [kt]").fill("300");
   await page.getByRole("button", { name: "Save basis" }).click();
   await expect(saved(page, 2)).toBeVisible({ timeout: 60_000 });
@@ -55,7 +56,9 @@ test("switching the units converts what is shown; what is typed in either system
   await expect(page.getByRole("columnheader", { name: /Altitude \[ft\]/ })).toBeVisible({ timeout: 120_000 });
   await expect(page.getByRole("columnheader", { name: /Root shear \[lbf\]/ })).toBeVisible();
   await expect(page.getByRole("columnheader", { name: /^y \[ft\]/ })).toBeVisible();
-  await expect(page.getByRole("row", { name: new RegExp(`^${first.id} `) }).getByRole("cell").nth(2)).toHaveText("5000");
+  const rootTable = page.getByRole("table", { name: "Root loads of every case" });
+  const altitudeColumn = (await rootTable.getByRole("columnheader").allTextContents()).findIndex((h) => /Altitude \[ft\]/.test(h));
+  await expect(rootTable.getByRole("row", { name: new RegExp(`^${first.id} `) }).getByRole("cell").nth(altitudeColumn)).toHaveText("5000");
 
   // Back to SI: the numbers shown convert back, and what is typed in metres is stored as typed.
   await page.goto(`/cases/${caseId}/basis`);
