@@ -155,13 +155,15 @@ describe("a report through S3 and database faults", () => {
     await locker.connect();
     await locker.query("BEGIN");
     await locker.query("SELECT id FROM cases WHERE id = $1 FOR UPDATE", [caseId]);
+    const { rows: me } = await locker.query<{ pid: number }>("SELECT pg_backend_pid() AS pid");
     const attempt = generateReport(report.id, { retryCount: 1, retryLimit: 3 }).then(
       () => null,
       (error: unknown) => error,
     );
     const deadline = Date.now() + 90_000;
     for (;;) {
-      const { rows } = await locker.query<{ n: number }>("SELECT count(*)::int AS n FROM pg_stat_activity WHERE wait_event_type = 'Lock' AND datname = current_database()");
+      // Waiting on this very lock (any other lock wait in the database would prove nothing).
+      const { rows } = await locker.query<{ n: number }>("SELECT count(*)::int AS n FROM pg_stat_activity WHERE $1 = ANY(pg_blocking_pids(pid))", [me[0]!.pid]);
       if (rows[0]!.n > 0) break;
       if (Date.now() > deadline) throw new Error("the report job never reached its recording transaction");
       await new Promise((r) => setTimeout(r, 50));
