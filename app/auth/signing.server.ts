@@ -8,7 +8,8 @@ import type { CurrentUser } from "~/domain/people";
 import type { SignatureOutcome } from "~/domain/sso";
 import type { Role, StepKey } from "~/domain/vocabulary";
 import { releaseReport, releaseTarget } from "~/services/reports.server";
-import { approveCaseForIssue, approveStep, signatureTarget } from "~/services/review.server";
+import { submissionBlockers } from "~/services/distribution.server";
+import { approveCaseForIssue, approveStep, signatureTarget, submissionTarget, submitStep } from "~/services/review.server";
 import { reconfirmPassword } from "./reconfirm.server";
 import { beginSso, ssoEnabled, type SsoFlow, type SsoIdentity } from "./sso.server";
 
@@ -33,6 +34,7 @@ import { beginSso, ssoEnabled, type SsoFlow, type SsoIdentity } from "./sso.serv
 
 /** What a person asks to sign. */
 export type SignatureRequest =
+  | { intent: "submit"; caseId: string; step: StepKey; comment?: string }
   | { intent: "approve"; caseId: string; step: StepKey; comment?: string }
   | { intent: "approve-case"; caseId: string }
   | { intent: "release"; caseId: string; reportId: string };
@@ -54,6 +56,19 @@ interface SignatureKind<I extends Intent> {
 }
 
 const KINDS: { [I in Intent]: SignatureKind<I> } = {
+  submit: {
+    role: "engineer",
+    page: "review",
+    what: (r) => `prepare and submit the ${r.step} step`,
+    // A blocked submission is refused before any round trip to the identity provider.
+    target: async (current, r) => {
+      const blockers = await submissionBlockers(current.organisation.id, r.caseId, r.step);
+      if (blockers.length) throw new DomainError(blockers.join(" "), { field: "step", kind: "conflict" });
+      return submissionTarget({ caseId: r.caseId, step: r.step });
+    },
+    sign: async (current, r, proof) =>
+      submitStep({ current, role: "engineer", caseId: r.caseId, step: r.step, comment: r.comment, blockers: await submissionBlockers(current.organisation.id, r.caseId, r.step), ...proof }),
+  },
   approve: {
     role: "checker",
     page: "review",
@@ -139,9 +154,9 @@ export async function beginSsoSignature(current: CurrentUser, request: Signature
       organisationId: current.organisation.id,
       caseId: request.caseId,
       intent: request.intent,
-      step: request.intent === "approve" ? request.step : null,
+      step: request.intent === "approve" || request.intent === "submit" ? request.step : null,
       reportId: request.intent === "release" ? request.reportId : null,
-      comment: request.intent === "approve" ? (request.comment ?? "") : "",
+      comment: request.intent === "approve" || request.intent === "submit" ? (request.comment ?? "") : "",
       targetHash,
       nonceHash: sha256Hex(nonce),
       expiresAt: new Date(Date.now() + SSO_SIGNATURE_TTL_MS),
@@ -173,8 +188,8 @@ export async function completeSsoSignature(current: CurrentUser, flow: SsoFlow &
     .returning();
   if (!req) return { page: "/checks", outcome: "expired" };
   const request: SignatureRequest =
-    req.intent === "approve"
-      ? { intent: "approve", caseId: req.caseId, step: req.step!, comment: req.comment }
+    req.intent === "approve" || req.intent === "submit"
+      ? { intent: req.intent, caseId: req.caseId, step: req.step!, comment: req.comment }
       : req.intent === "approve-case"
         ? { intent: "approve-case", caseId: req.caseId }
         : { intent: "release", caseId: req.caseId, reportId: req.reportId! };

@@ -438,7 +438,7 @@ export const signingRequests = pgTable("signing_requests", {
   sessionId: uuid("session_id").notNull().references(() => sessions.id, { onDelete: "cascade" }),
   organisationId: uuid("organisation_id").notNull().references(() => organisations.id, { onDelete: "cascade" }),
   caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
-  intent: text().$type<"approve" | "approve-case" | "release">().notNull(),
+  intent: text().$type<"submit" | "approve" | "approve-case" | "release">().notNull(),
   step: text().$type<StepKey>(),
   reportId: uuid("report_id"),
   comment: text().default("").notNull(),

@@ -106,7 +106,7 @@ async function seedDemoCaseSteps(db: Db, engineerId: string, engineerEmail: stri
 
 /**
  * Walks the demo case through review and issue as the demo people would: the engineer submits
- * each step, the checker approves each (signature "checked") and the case ("approved for issue"),
+ * each step (signature "prepared"), the checker approves each (signature "checked") and the case ("approved for issue"),
  * the report is generated and the quality user releases it. Skipped once the case has a report.
  */
 async function seedDemoReport(db: Db, userIds: Record<string, string>): Promise<number> {
@@ -130,7 +130,7 @@ async function seedDemoReport(db: Db, userIds: Record<string, string>): Promise<
   for (const s of STEPS) {
     const row = steps.find((r) => r.step === s.key);
     if (!row || row.status === "approved") continue;
-    if (row.status !== "submitted") await submitStep({ caseId: demo.id, step: s.key, actor: engineer.user, comment: "Demo submission." });
+    if (row.status !== "submitted") await submitStep({ caseId: demo.id, step: s.key, current: engineer, role: "engineer", confirmedBy: "password", comment: "Demo submission." });
     await approveStep({ caseId: demo.id, step: s.key, current: checker, role: "checker", confirmedBy: "password", comment: "Demo check: inputs traced to the KF-60 data pack." });
   }
   await approveCaseForIssue({ caseId: demo.id, current: checker, role: "checker", confirmedBy: "password" });

@@ -36,8 +36,8 @@ export const CASE_STATUS_LABELS: Record<CaseStatus, { label: string; icon: strin
   released: { label: "Released", icon: "★" },
 };
 
-/** What a signature means: a checked step, a case approved for issue, a released report. */
-export const SIGNATURE_MEANINGS = ["checked", "approved for issue", "released"] as const;
+/** What a signature means: a step prepared (signed by the engineer who submits it), a checked step, a case approved for issue, a released report. */
+export const SIGNATURE_MEANINGS = ["prepared", "checked", "approved for issue", "released"] as const;
 export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
 
 /** How a person proved who they are: at sign-in, and again when signing. */

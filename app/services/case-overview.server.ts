@@ -12,7 +12,8 @@ import { stepSignatures } from "./review.server";
 export async function caseOverview(caseId: string, database: Db | Tx = db) {
   const [steps, history, signatures] = await Promise.all([getCaseSteps(caseId, database), caseHistory(caseId, 20, database), stepSignatures(caseId, database)]);
   const approval = (key: string) => {
-    const sigs = signatures.filter((g) => g.step === key);
+    // The check only: the preparer's signature is on the review page.
+    const sigs = signatures.filter((g) => g.step === key && g.meaning === "checked");
     const live = sigs.find((g) => !g.voided);
     if (live) return { kind: "signed" as const, text: `${live.meaning} by ${live.name}, ${formatUtc(live.signedAt)}` };
     const voided = sigs.find((g) => g.voided);

@@ -2,7 +2,10 @@ import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { wingModelOf, withSections, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
-import { buildCaseFile, buildSectionsFile, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
+import type { StepKey } from "~/domain/vocabulary";
+import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
+import { getCaseSteps } from "./case-steps.server";
+import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
 
 export interface CaseFlag {
@@ -125,6 +128,17 @@ export async function distributionStep(input: { caseId: string; title: string; i
     if (error instanceof DomainError) return { problem: error.message, view: null, method: null, flags: [], open: [], dispositions };
     throw error;
   }
+}
+
+/**
+ * What keeps a step from being submitted now, in words (none for most steps): the distribution step
+ * waits until every flagged case has a disposition.
+ */
+export async function submissionBlockers(organisationId: string, caseId: string, step: StepKey): Promise<string[]> {
+  if (step !== "distribution") return [];
+  const row = await getCase(organisationId, caseId);
+  if (!row) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
+  return dispositionBlockers(caseId, row.case.title, caseInputs(await getCaseSteps(caseId)));
 }
 
 /** Flagged cases without a disposition keep the distribution step from being submitted: the reasons, or none. */

@@ -181,8 +181,8 @@ export async function releaseTarget(input: { reportId: string; caseId: string; o
 /**
  * Quality's release: a signature with meaning "released" on exactly the issued PDF bytes, of a
  * report of this case (a report of another case, even of the same organisation, is not found here).
- * Nobody signs two roles on one report: whoever wrote a revision of the case or signed it as checker
- * does not release its report. `expectedHash`, when given, is the PDF hash the signer was shown.
+ * Nobody signs two roles on one report: whoever wrote a revision of the case or signed it (as
+ * preparer or checker) does not release its report. `expectedHash`, when given, is the PDF hash the signer was shown.
  */
 export async function releaseReport(input: { reportId: string; caseId: string; organisationId: string; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; expectedHash?: string }, database: Db | Tx = db) {
   const actor = input.current.user;
@@ -190,8 +190,10 @@ export async function releaseReport(input: { reportId: string; caseId: string; o
     const r = await issuedReport(tx, input, true);
     if (input.expectedHash !== undefined && input.expectedHash !== r.sha256) throw new DomainError("The report you asked to sign has changed since: sign anew.", { field: "reportId", kind: "conflict" });
     const signed = (await liveSignatures(r.caseId, tx)).filter((s) => s.reportId === null && s.signerId === actor.id);
-    if ((await revisionAuthors(tx, r.caseId)).has(actor.id) || signed.length) {
-      throw new DomainError(`You ${signed.length ? `signed this case as ${signed[0]!.role}` : "wrote revisions of this case"}: someone else must release its report (nobody signs two roles on one report).`, { field: "reportId", kind: "forbidden" });
+    const wrote = (await revisionAuthors(tx, r.caseId)).has(actor.id);
+    if (wrote || signed.length) {
+      const why = wrote ? "wrote revisions of this case" : `signed this case as ${signed[0]!.meaning === "prepared" ? "its preparer" : signed[0]!.role}`;
+      throw new DomainError(`You ${why}: someone else must release its report (nobody signs two roles on one report).`, { field: "reportId", kind: "forbidden" });
     }
     const [sig] = await tx
       .insert(signatures)

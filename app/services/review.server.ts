@@ -92,26 +92,62 @@ export async function signatureTarget(input: { caseId: string; step?: StepKey },
   return input.step ? (await submittedRevision(database, input.caseId, input.step)).hash : approvalHash(database, input.caseId);
 }
 
-/** Submits a saved step for check: it becomes read-only for the engineer and the checkers are told. */
-export async function submitStep(input: { caseId: string; step: StepKey; actor: Actor; comment?: string; blockers?: string[] }, database: Db | Tx = db) {
+/** The draft or returned revision of a step and the hash a "prepared" signature on it carries. */
+async function submittableRevision(database: Db | Tx, caseId: string, step: StepKey) {
+  const [row] = await database.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step)));
+  if (!row || row.revision === 0) throw new DomainError("This step has not been saved yet.", { field: "step", kind: "conflict" });
+  if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, { field: "status", kind: "conflict" });
+  const [rev] = await database.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, caseId), eq(stepRevisions.step, step), eq(stepRevisions.revision, row.revision)));
+  if (!rev) throw new DomainError("The revision to submit was not found.", { field: "revision", kind: "conflict" });
+  return { row, hash: stepRevisionHash(caseId, step, row.revision, rev.data) };
+}
+
+/** What a "prepared" signature would bind if the step were submitted now (see signatureTarget). */
+export async function submissionTarget(input: { caseId: string; step: StepKey }, database: Db | Tx = db): Promise<string> {
+  return (await submittableRevision(database, input.caseId, input.step)).hash;
+}
+
+/**
+ * Submits a saved step for check, signed by the engineer who submits it (meaning "prepared", on the
+ * hash of exactly the revision submitted, the one the checker will sign): it becomes read-only for
+ * the engineer and the checkers are told. `blockers` are refusals found before (flagged cases
+ * without a disposition). `expectedHash`, when given, is the revision hash the signer was shown.
+ */
+export async function submitStep(
+  input: { caseId: string; step: StepKey; current: CurrentUser; role: Role; confirmedBy: "password" | "sso"; comment?: string; blockers?: string[]; expectedHash?: string },
+  database: Db | Tx = db,
+) {
   if (input.blockers?.length) throw new DomainError(input.blockers.join(" "), { field: "step", kind: "conflict" });
+  const actor = input.current.user;
   const result = await database.transaction(async (tx) => {
-    const row = await lockStep(tx, input.caseId, input.step);
-    if (row.status !== "draft" && row.status !== "returned") throw new DomainError(`This step is ${row.status}; only a draft or returned step can be submitted.`, { field: "status", kind: "conflict" });
+    await lockStep(tx, input.caseId, input.step);
+    const { row, hash: revisionHash } = await submittableRevision(tx, input.caseId, input.step);
+    changedSince(input.expectedHash, revisionHash);
+    const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
+    const [sig] = await tx
+      .insert(signatures)
+      .values({ organisationId: c!.organisationId, caseId: input.caseId, step: input.step, revision: row.revision, signerId: actor.id, signerName: actor.name, role: input.role, meaning: "prepared", confirmedBy: input.confirmedBy, revisionHash })
+      .returning();
     await tx.update(caseSteps).set({ status: "submitted" }).where(eq(caseSteps.id, row.id));
-    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: input.actor.id, kind: "submitted", body: input.comment?.trim() || "Submitted for check." });
-    const [c] = await tx.update(cases).set({ status: "submitted", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
-    await writeAudit(tx, { organisationId: c!.organisationId, actor: input.actor, action: `step.${input.step}.submit`, entityType: "case", entityId: input.caseId, after: { step: input.step, revision: row.revision } });
-    return { case: c!, revision: row.revision };
+    await tx.insert(stepComments).values({ caseId: input.caseId, step: input.step, revision: row.revision, authorId: actor.id, kind: "submitted", body: input.comment?.trim() || "Submitted for check." });
+    const [updated] = await tx.update(cases).set({ status: "submitted", updatedAt: new Date() }).where(eq(cases.id, input.caseId)).returning();
+    await writeAudit(tx, { organisationId: c!.organisationId, actor, action: `step.${input.step}.submit`, entityType: "case", entityId: input.caseId, after: { signatureId: sig!.id, step: input.step, revision: row.revision, revisionHash, meaning: "prepared" } });
+    return { case: updated!, revision: row.revision };
   });
   const checkers = await members(result.case.organisationId, "checker");
   await notify(
     result.case.organisationId,
     checkers.map((c) => c.email),
     `${result.case.reference}: ${input.step} submitted for check`,
-    [`${input.actor.email} submitted the ${input.step} step of ${result.case.reference} (${result.case.title}), revision ${result.revision}, for your check.`],
+    [`${actor.name} (${actor.email}) prepared and submitted the ${input.step} step of ${result.case.reference} (${result.case.title}), revision ${result.revision}, for your check.`],
     `/cases/${input.caseId}/review`,
   );
+}
+
+/** Whether the person signed any step of the case as its preparer (voided signatures count: they prepared it). */
+async function preparedCase(tx: Tx, caseId: string, userId: string): Promise<boolean> {
+  const rows = await tx.select({ id: signatures.id }).from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.meaning, "prepared"), eq(signatures.signerId, userId))).limit(1);
+  return rows.length > 0;
 }
 
 /** Returns a submitted step to the engineer with the checker's comments. */
@@ -147,6 +183,9 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
     if ((await revisionAuthors(tx, input.caseId, input.step)).has(actor.id)) {
       throw new DomainError("You wrote a revision of this step: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
     }
+    if (await preparedCase(tx, input.caseId, actor.id)) {
+      throw new DomainError("You signed this case as its preparer: another checker must approve it (separation of duties).", { field: "step", kind: "forbidden" });
+    }
     changedSince(input.expectedHash, revisionHash);
     const [c] = await tx.select().from(cases).where(eq(cases.id, input.caseId));
     const [sig] = await tx
@@ -176,10 +215,13 @@ export async function unapprovedBefore(database: Db | Tx, caseId: string, step: 
     .filter((key) => rows.find((r) => r.step === key)?.status !== "approved");
 }
 
-/** The live signatures an edit of `step` voids: the checks of it and of every step downstream, and the case's approval for issue. */
+/**
+ * The live signatures an edit of `step` voids: the preparer's and checker's signatures of it and of
+ * every step downstream (they rest on it), and the case's approval for issue.
+ */
 function voidedByEdit(live: Awaited<ReturnType<typeof liveSignatures>>, step: StepKey) {
   const affected: StepKey[] = [step, ...downstreamOf(step)];
-  return live.filter((s) => (s.step !== null && affected.includes(s.step) && s.meaning === "checked") || (s.step === null && s.reportId === null && s.meaning === "approved for issue"));
+  return live.filter((s) => (s.step !== null && affected.includes(s.step) && (s.meaning === "checked" || s.meaning === "prepared")) || (s.step === null && s.reportId === null && s.meaning === "approved for issue"));
 }
 
 /**
@@ -212,6 +254,9 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
     if ((await revisionAuthors(tx, input.caseId)).has(actor.id)) {
       throw new DomainError("You wrote revisions of this case: another checker must approve it for issue (separation of duties).", { field: "case", kind: "forbidden" });
     }
+    if (await preparedCase(tx, input.caseId, actor.id)) {
+      throw new DomainError("You signed this case as its preparer: another checker must approve it for issue (separation of duties).", { field: "case", kind: "forbidden" });
+    }
     const steps = await tx.select().from(caseSteps).where(eq(caseSteps.caseId, input.caseId)).for("update");
     if (steps.length < STEPS.length || steps.some((s) => s.status !== "approved")) throw new DomainError("Every step must be approved before the case is approved for issue.", { field: "steps", kind: "conflict" });
     const revisionHash = await approvalHash(tx, input.caseId);
@@ -236,9 +281,10 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
 }
 
 /**
- * Called inside the transaction of every step save: an edit voids the approval of that step, of
- * every step downstream of it, and of the case as a whole. The voided steps go back to draft and
- * the reason is written into each step's thread.
+ * Called inside the transaction of every step save: an edit voids the signatures of that step, of
+ * every step downstream of it, and the case's approval for issue. The voided steps go back to draft
+ * (a submitted one too: its preparer's signature no longer stands, so it is submitted again) and the
+ * reason is written into each step's thread.
  */
 export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; step: StepKey; revision: number; actor: Actor }) {
   const toVoid = voidedByEdit(await liveSignatures(input.caseId, tx), input.step);
@@ -247,9 +293,9 @@ export async function voidApprovalsAfterEdit(tx: Tx, input: { caseId: string; st
   await tx.insert(signatureVoids).values(toVoid.map((s) => ({ signatureId: s.id, reason, voidedBy: input.actor.id })));
   const voidedSteps = [...new Set(toVoid.map((s) => s.step).filter((s): s is StepKey => s !== null))];
   if (voidedSteps.length) {
-    await tx.update(caseSteps).set({ status: "draft" }).where(and(eq(caseSteps.caseId, input.caseId), inArray(caseSteps.step, voidedSteps), eq(caseSteps.status, "approved")));
+    await tx.update(caseSteps).set({ status: "draft" }).where(and(eq(caseSteps.caseId, input.caseId), inArray(caseSteps.step, voidedSteps), inArray(caseSteps.status, ["approved", "submitted"])));
     const rows = await tx.select().from(caseSteps).where(and(eq(caseSteps.caseId, input.caseId), inArray(caseSteps.step, voidedSteps)));
-    await tx.insert(stepComments).values(rows.map((r) => ({ caseId: input.caseId, step: r.step, revision: r.revision, authorId: input.actor.id, kind: "comment" as const, body: `Approval voided: ${reason}.` })));
+    await tx.insert(stepComments).values(rows.map((r) => ({ caseId: input.caseId, step: r.step, revision: r.revision, authorId: input.actor.id, kind: "comment" as const, body: `Signatures voided: ${reason}.` })));
   }
   return toVoid.map((s) => s.id);
 }

@@ -112,3 +112,13 @@ export async function holdReloads(page: Page, pageName: string) {
     stop: () => page.unroute(matches),
   };
 }
+
+/**
+ * Submits a step from the review page, signed by the engineer as its preparer with their password,
+ * and waits for the answer (a submission re-checks the step's results: allow for a busy machine).
+ */
+export async function submitForCheck(page: Page, step: string, label: DemoUser["label"] = "engineer") {
+  await page.locator(`#pw-submit-${step}`).fill(demoUser(label).password);
+  await page.getByRole("button", { name: `Submit ${step} for check` }).click();
+  await expect(page.getByRole("alert").or(page.getByRole("status")).filter({ hasText: `${step} submitted for check` })).toBeVisible({ timeout: 60_000 });
+}

@@ -4,6 +4,7 @@ import os from "node:os";
 import path from "node:path";
 import { expect, test, type Browser, type Page } from "@playwright/test";
 import { DEMO_USERS, type DemoUser } from "../../app/demo/scenario";
+import { submitForCheck } from "./helpers";
 
 const who = (label: DemoUser["label"]) => DEMO_USERS.find((u) => u.label === label)!;
 
@@ -54,10 +55,9 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
   // The engineer resubmits every step that went back to draft, and cannot approve any of them.
   await engineer.goto(`${caseUrl}/review`);
   for (const step of ["planform", "sections", "masses", "envelope", "distribution", "loads"]) {
-    await engineer.getByRole("button", { name: `Submit ${step} for check` }).click();
-    // A submission re-checks the step's results (every case of every mass case): allow for a busy machine.
-    await expect(engineer.getByRole("alert").or(engineer.getByRole("status")).filter({ hasText: `${step} submitted for check` })).toBeVisible({ timeout: 60_000 });
+    await submitForCheck(engineer, step);
   }
+  await expect(engineer.getByText(/prepared by Erin Hale/).first()).toBeVisible();
   await expect(engineer.getByRole("button", { name: /^Approve / })).toHaveCount(0);
 
   // The checker signs each with their password, then the case for issue.
@@ -100,6 +100,9 @@ test("editing the approved demo planform voids the approvals downstream; resubmi
   const text = execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
   expect(text).toContain("Wing loads, initial type certificate");
   expect(text).toContain("Marek Oduya");
+  expect(text).toMatch(/Prepared by\s+Erin Hale \(engineer\), 7 steps/);
+  expect(text).toMatch(/Checked by\s+Marek Oduya \(checker\), 7 steps/);
+  expect(text).toMatch(/Approved for issue by\s+Marek Oduya \(checker\)/);
   expect(text).toContain("KF60-TN-WL-001-R02");
   const listing = await quality.request.get(`/api/v1/cases/${caseUrl.split("/")[2]}/reports`);
   const reports = (await listing.json()) as { reports: { version: number; status: string; signatures: { name: string; meaning: string }[] }[] };

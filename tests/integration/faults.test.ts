@@ -74,7 +74,7 @@ beforeAll(async () => {
   caseId = c!.id;
   for (const s of STEPS) {
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, s.key)));
-    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key })).status).toBe(200);
+    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key, password: demoUser("engineer").password })).status).toBe(200);
     expect((await review("checker", { intent: "approve", step: s.key, password: demoUser("checker").password })).status).toBe(200);
   }
   expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);

@@ -3,10 +3,10 @@ import { createHash } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, isNull } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cases, caseSteps, reportReruns, reports, users } from "~/db/schema";
+import { cases, caseSteps, reportReruns, reports, signatureVoids, signatures, users } from "~/db/schema";
 import { ENGINE_VERSION } from "~/engine";
 import { stopBoss } from "~/jobs/boss.server";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
@@ -42,7 +42,7 @@ async function approveAll() {
   for (const s of STEPS) {
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, s.key)));
     if (row!.status === "approved") continue;
-    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key })).status).toBe(200);
+    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key, password: demoUser("engineer").password })).status).toBe(200);
     expect((await review("checker", { intent: "approve", step: s.key, password: demoUser("checker").password })).status).toBe(200);
   }
   expect((await review("checker", { intent: "approve-case", password: demoUser("checker").password })).status).toBe(200);
@@ -73,6 +73,28 @@ beforeAll(async () => {
   await approveAll();
   first = await issue();
 }, 180_000);
+
+describe("the report names who signed it", () => {
+  it("lists the preparer, the checker and the approver, each signature with its name, role, meaning, date and hash", async () => {
+    const live = (await db.select({ s: signatures }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatureVoids.id), isNull(signatures.reportId)))).map((r) => r.s);
+    const text = first.text;
+    const flat = text.replace(/\s+/g, "");
+    const erin = demoUser("engineer").name;
+    const marek = demoUser("checker").name;
+    // The sign-off: Erin prepared all seven steps, Marek checked them and approved the case for issue.
+    expect(text).toMatch(new RegExp(`Prepared by\\s+${erin} \\(engineer\\), ${STEPS.length} steps`));
+    expect(text).toMatch(new RegExp(`Checked by\\s+${marek} \\(checker\\), ${STEPS.length} steps`));
+    expect(text).toMatch(new RegExp(`Approved for issue by\\s+${marek} \\(checker\\)`));
+    const meanings = live.map((g) => g.meaning).sort();
+    expect(meanings.filter((m) => m === "prepared")).toHaveLength(STEPS.length);
+    expect(meanings.filter((m) => m === "checked")).toHaveLength(STEPS.length);
+    expect(meanings.filter((m) => m === "approved for issue")).toHaveLength(1);
+    // Every signature's row: the full hash printed (a table cell may wrap it), beside its meaning.
+    for (const g of live) expect(flat, `${g.meaning} ${g.step}`).toContain(g.revisionHash);
+    expect(text).toMatch(new RegExp(`${erin}\\s+engineer\\s+prepared\\s+\\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}:\\d{2} UTC`));
+    expect(text).toMatch(new RegExp(`${marek}\\s+checker\\s+checked\\s+\\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}:\\d{2} UTC`));
+  });
+});
 
 describe("the input snapshot travels with the report", () => {
   it("attaches the case, byte for byte as the export gives it, and prints its SHA-256", async () => {

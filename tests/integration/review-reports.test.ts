@@ -46,7 +46,7 @@ async function approveAll() {
   for (const s of STEPS) {
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, s.key)));
     if (row!.status === "approved") continue;
-    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key })).status).toBe(200);
+    if (row!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: s.key, password: demoUser("engineer").password })).status).toBe(200);
     expect((await review("checker", { intent: "approve", step: s.key, password: demoUser("checker").password })).status).toBe(200);
   }
 }
@@ -61,7 +61,7 @@ beforeAll(async () => {
 
 describe("review of each step", () => {
   it("makes a submitted step read-only and tells the checkers by e-mail", async () => {
-    expect((await review("engineer", { intent: "submit", step: "basis", comment: "Basis per the agreed G-1 issue paper." })).status).toBe(200);
+    expect((await review("engineer", { intent: "submit", step: "basis", password: demoUser("engineer").password, comment: "Basis per the agreed G-1 issue paper." })).status).toBe(200);
     const mail = await listCapturedMail(process.env.MAIL_CAPTURE_DIR!, { to: demoUser("checker").email });
     expect(mail.some((m) => m.subject.includes("basis submitted for check") && (m.html ?? "").includes(`/cases/${caseId}/review`))).toBe(true);
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
@@ -80,7 +80,7 @@ describe("review of each step", () => {
     expect(own.status).toBe(403);
     expect((own.body as { message: string }).message).toMatch(/separation of duties/);
     await setMemberRoles({ organisationId: orgId, userId: erin!.id, roles: ["engineer"], actor: { id: sam!.id, email: sam!.email } });
-    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(0);
+    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.meaning, "checked")))).toHaveLength(0);
   });
 
   it("returns a step with the checker's comment, and tells the engineer", async () => {
@@ -94,18 +94,18 @@ describe("review of each step", () => {
 
   it("approves steps in order: a later step waits, saying for which, until those before it are approved", async () => {
     const [planform] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
-    if (planform!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: "planform" })).status).toBe(200);
+    if (planform!.status !== "submitted") expect((await review("engineer", { intent: "submit", step: "planform", password: demoUser("engineer").password })).status).toBe(200);
     const early = await review("checker", { intent: "approve", step: "planform", password: demoUser("checker").password });
     expect(early.status).toBe(409);
     expect((early.body as { message: string }).message).toMatch(/planform step waits for the approval of basis/);
     const [after] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "planform")));
     expect(after!.status).toBe("submitted");
-    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(0);
+    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.meaning, "checked")))).toHaveLength(0);
   });
 
   it("records an approval as a signature on the exact revision: signer, role, meaning, UTC time and hash", async () => {
     await approveAll();
-    const sigs = await db.select().from(signatures).where(eq(signatures.caseId, caseId));
+    const sigs = await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.meaning, "checked")));
     expect(sigs).toHaveLength(STEPS.length);
     const [basis] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
     const sig = sigs.find((s) => s.step === "basis")!;
@@ -138,7 +138,10 @@ describe("review of each step", () => {
     data.stations[0]!.chord = 2.15;
     await saveStep({ caseId, step: "planform", baseRevision: planform!.revision, data, actor: { id: erin!.id, email: erin!.email } });
     const voids = await db.select({ step: signatures.step, meaning: signatures.meaning, reason: signatureVoids.reason }).from(signatureVoids).innerJoin(signatures, eq(signatures.id, signatureVoids.signatureId));
-    expect(voids.map((v) => v.step ?? v.meaning).sort()).toEqual(["approved for issue", "distribution", "envelope", "loads", "masses", "planform", "sections"].sort());
+    const downstream = ["distribution", "envelope", "loads", "masses", "planform", "sections"];
+    expect(voids.filter((v) => v.meaning !== "prepared").map((v) => v.step ?? v.meaning).sort()).toEqual(["approved for issue", ...downstream].sort());
+    // The preparer's signatures of the same steps go with them.
+    expect(voids.filter((v) => v.meaning === "prepared").map((v) => v.step).sort()).toEqual(downstream.sort());
     expect(voids[0]!.reason).toMatch(/planform changed to revision \d+/);
     const state = await run(reviewLoader, { request: request(`/cases/${caseId}/review`, { cookie: cookies.checker }), params: { caseId } });
     const steps = (state.body as { steps: { key: string; status: string }[] }).steps;
@@ -253,7 +256,8 @@ describe("reports", { timeout: 240_000 }, () => {
     // The loads step's critical root bending moment, printed with the pages' own number format.
     expect(text).toContain(formatQuantity("SI", "moment", critical.root.bending));
     const signers = new Set((issued!.snapshot as { signatures: { name: string }[] }).signatures.map((g) => g.name));
-    expect([...signers]).toEqual(["Marek Oduya"]);
+    // Erin prepared the steps, Marek checked them and approved the case for issue.
+    expect([...signers].sort()).toEqual(["Erin Hale", "Marek Oduya"]);
     for (const name of signers) expect(text).toContain(name);
   });
 

@@ -65,6 +65,9 @@ async function currentOf(cookie: string): Promise<CurrentUser> {
   return requireUser(request("/", { cookie }));
 }
 
+/** The checkers' signatures on the case (or one step of it); the engineer's "prepared" ones are made at each submission. */
+const checks = (step?: string) => db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.meaning, "checked"), ...(step ? [eq(signatures.step, step as never)] : [])));
+
 async function stepStatus(step: string) {
   const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step as never)));
   return row!;
@@ -87,7 +90,7 @@ beforeAll(async () => {
   expect(back.status).toBe(302);
   cookies.checker = cookiesOf(back.headers);
   expect(cookies.checker).toMatch(/sw_session=/);
-  for (const step of ["basis", "planform", "sections"]) expect((await review(cookies.engineer!, { intent: "submit", step })).status).toBe(200);
+  for (const step of ["basis", "planform", "sections"]) expect((await review(cookies.engineer!, { intent: "submit", step, password: demoUser("engineer").password })).status).toBe(200);
 });
 
 afterAll(async () => {
@@ -101,7 +104,7 @@ describe("a signature's fresh proof", () => {
     const res = await review(cookies.checker!, { intent: "approve", step: "basis" });
     expect(res.status).toBe(401);
     expect((res.body as { message: string }).message).toMatch(/password/);
-    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(0);
+    expect(await checks()).toHaveLength(0);
   });
 
   it("with company sign-in, is a new round trip that makes the provider ask again, and signs exactly once", async () => {
@@ -119,12 +122,12 @@ describe("a signature's fresh proof", () => {
     const done = await run(ssoCallback, { request: request(`${callback.pathname}${callback.search}`, { cookie }) });
     expect(done.status).toBe(302);
     expect(done.headers.get("Location")).toBe(`/cases/${caseId}/review?signature=signed`);
-    const sigs = await db.select().from(signatures).where(eq(signatures.caseId, caseId));
+    const sigs = await checks();
     expect(sigs).toMatchObject([{ step: "basis", meaning: "checked", confirmedBy: "sso", signerName: "Marek Oduya" }]);
     // The same answer again signs nothing more: the code and the request are used up.
     const again = await run(ssoCallback, { request: request(`${callback.pathname}${callback.search}`, { cookie }) });
     expect(again.headers.get("Location")).toMatch(/signature=expired/);
-    expect(await db.select().from(signatures).where(eq(signatures.caseId, caseId))).toHaveLength(1);
+    expect(await checks()).toHaveLength(1);
   });
 
   it("refuses an answer that is not a fresh authentication, not for this request, or not for this session, and audits it", async () => {
@@ -153,7 +156,7 @@ describe("a signature's fresh proof", () => {
     expect((await completeSsoSignature(otherSession, flowOf(elsewhere), identity(elsewhere.at))).outcome).toBe("expired");
 
     expect((await stepStatus("planform")).status).toBe("submitted");
-    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.step, "planform")))).toHaveLength(0);
+    expect(await checks("planform")).toHaveLength(0);
     const refusals = await db.select().from(auditLog).where(and(eq(auditLog.entityId, caseId), eq(auditLog.action, "auth.signature.sso-refused")));
     expect(refusals.length).toBeGreaterThanOrEqual(4);
   });
@@ -171,11 +174,11 @@ describe("a signature's fresh proof", () => {
     const edited = structuredClone(row.data!) as { axisRoot: number };
     edited.axisRoot -= 0.01;
     await saveStep({ caseId, step: "planform", baseRevision: row.revision, data: edited, actor: { id: erin!.id, email: erin!.email } });
-    expect((await review(cookies.engineer!, { intent: "submit", step: "planform" })).status).toBe(200);
+    expect((await review(cookies.engineer!, { intent: "submit", step: "planform", password: demoUser("engineer").password })).status).toBe(200);
     const at = Math.floor(req!.createdAt.getTime() / 1000);
     const done = await completeSsoSignature(current, { kind: "signature", state: "s", codeVerifier: "v", nonce: new URL(url).searchParams.get("nonce")!, requestId: req!.id }, { sub: linked!.ssoSubject!, email: current.user.email, authTime: at });
     expect(done.outcome).toBe("changed");
-    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.step, "planform")))).toHaveLength(0);
+    expect(await checks("planform")).toHaveLength(0);
   });
 
   it("by password, cannot be guessed: wrong passwords are held back with growing delays, each one audited, and nothing is signed", async () => {
@@ -192,6 +195,6 @@ describe("a signature's fresh proof", () => {
     const after = await db.select().from(auditLog).where(and(eq(auditLog.action, "auth.signature.password-refused"), eq(auditLog.actorEmail, demoUser("checker").email)));
     expect(after.length - before.length).toBe(answers.length - 1);
     expect(after.at(-1)!.after).toMatchObject({ what: "check the planform step", address: "127.0.0.1" });
-    expect(await db.select().from(signatures).where(and(eq(signatures.caseId, caseId), eq(signatures.step, "planform")))).toHaveLength(0);
+    expect(await checks("planform")).toHaveLength(0);
   });
 });

@@ -5,13 +5,38 @@ import { M, MUTED, utc, type Column, type Section } from "./layout.server";
 
 const STEP_LABEL: Record<string, string> = Object.fromEntries(STEPS.map((s) => [s.key, s.label]));
 
-/** Every live signature behind the report, by step, then the approval for issue. */
+/** Who signed the case in each capacity, by the meaning of their signatures. */
+const CAPACITIES = [
+  { label: "Prepared by", meaning: "prepared" },
+  { label: "Checked by", meaning: "checked" },
+  { label: "Approved for issue by", meaning: "approved for issue" },
+] as const;
+
+/** One capacity's signers: each person with their role, how many steps they signed and when; the approval with its hash. */
+function signOff(lines: SignatureLine[], meaning: string): string {
+  const own = lines.filter((g) => g.meaning === meaning);
+  if (own.length === 0) return "no signature recorded";
+  if (meaning === "approved for issue") return own.map((g) => `${g.name} (${g.role}), ${utc(g.signedAt)}, hash ${g.revisionHash}`).join("; ");
+  const people = [...new Set(own.map((g) => `${g.name}\u0000${g.role}`))];
+  return people
+    .map((key) => {
+      const [name, role] = key.split("\u0000");
+      const theirs = own.filter((g) => g.name === name && g.role === role).map((g) => g.signedAt).sort();
+      const when = theirs.length > 1 ? `${utc(theirs[0]!)} to ${utc(theirs.at(-1)!)}` : utc(theirs[0]!);
+      return `${name} (${role}), ${theirs.length} step${theirs.length > 1 ? "s" : ""}, ${when}`;
+    })
+    .join("; ");
+}
+
+/** The sign-off (preparer, checker, approver), then every live signature behind the report, by step, then the approval for issue. */
 export function signatures({ w, s }: Section) {
   w.heading("Signatures", { newPage: true });
   w.para(
-    "Each step was signed on the revision shown; its hash is the SHA-256 of the canonical serialisation of that revision (case, step, revision and data). The approval for issue signs the hashes of every step's signed revision. The release by quality signs the SHA-256 of this PDF's bytes, so it is recorded in Spanwright after issue and listed with the report there. Times are UTC.",
+    "The engineer who submitted each step signed it as prepared, and the checker signed it as checked, both on the revision shown; its hash is the SHA-256 of the canonical serialisation of that revision (case, step, revision and data). The approval for issue signs the hashes of every step's checked revision. The release by quality signs the SHA-256 of this PDF's bytes, so it is recorded in Spanwright after issue and listed with the report there. Times are UTC.",
     { size: 8.4, color: MUTED },
   );
+  w.subheading("Sign-off");
+  w.facts(CAPACITIES.map((c) => [c.label, signOff(s.signatures, c.meaning)]));
   const cols: Column[] = [
     { header: "Name", width: 92 },
     { header: "Role", width: 54 },

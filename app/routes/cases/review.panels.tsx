@@ -64,9 +64,14 @@ export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck
               <input type="hidden" name="intent" value="submit" />
               <input type="hidden" name="step" value={s.key} />
               <textarea name="comment" rows={2} placeholder="Note for the checker (optional)" aria-label={`Note with the submission of ${s.label}`} className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
-              <Button type="submit" disabled={busy}>
+              <label className="block text-sm font-semibold" htmlFor={`pw-submit-${s.key}`}>
+                Your password, to sign as preparer
+              </label>
+              <input id={`pw-submit-${s.key}`} name="password" type="password" autoComplete="current-password" className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
+              <Button type="submit" name="confirm" value="password" disabled={busy}>
                 Submit {s.label.toLowerCase()} for check
               </Button>
+              {canSso ? <SsoSignButton busy={busy} label={`Submit ${s.label.toLowerCase()} with company sign-in`} /> : null}
             </Form>
           ) : null}
           {canCheck && s.status === "submitted" ? (

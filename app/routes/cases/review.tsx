@@ -3,11 +3,8 @@ import { requireCase } from "~/auth/case-access.server";
 import { canSignWithSso, sign } from "~/auth/signing.server";
 import { hasPermission } from "~/domain/permissions";
 import { Alert, PageHeader } from "~/components/ui/page-header";
-import { caseInputs } from "~/services/analysis.server";
-import { getCaseSteps } from "~/services/case-steps.server";
-import { dispositionBlockers } from "~/services/distribution.server";
 import { signatureOutcomeMessage } from "~/domain/sso";
-import { addComment, caseSignatures, returnStep, reviewState, submitStep } from "~/services/review.server";
+import { addComment, caseSignatures, returnStep, reviewState } from "~/services/review.server";
 import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/review";
 import { CaseApprovalPanel, StepReviewPanel } from "./review.panels";
@@ -42,8 +39,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   return answer(async () => {
     if (v.intent === "submit") {
       need(hasPermission(current.roles, "case:edit"), "submitting needs the engineer role");
-      await submitStep({ caseId: c.id, step: v.step, actor: current.user, comment: v.comment, blockers: v.step === "distribution" ? await dispositionBlockers(c.id, c.title, caseInputs(await getCaseSteps(c.id))) : [] });
-      return accepted(`${v.step} submitted for check.`);
+      await sign(current, { intent: "submit", caseId: c.id, step: v.step, comment: v.comment }, { ...v, address: clientAddress(request) });
+      return accepted(`${v.step} submitted for check and signed as prepared.`);
     }
     if (v.intent === "approve") {
       need(hasPermission(current.roles, "step:check"), "approving needs the checker role");
@@ -70,7 +67,7 @@ export default function ReviewRoute({ loaderData, actionData }: Route.ComponentP
   const busy = useSaving();
   return (
     <>
-      <PageHeader title="Review" description="Each step is submitted by its engineer, then checked: approved with a signature, or returned with comments. Nobody approves a revision they edited." />
+      <PageHeader title="Review" description="Each step is submitted by its engineer, who signs it as prepared, then checked: approved with a signature, or returned with comments. Nobody approves a revision they edited or a case they prepared." />
       {loaderData.signature && !actionData ? <div className="mb-4"><Alert tone={loaderData.signature.ok ? "info" : "danger"}>{loaderData.signature.message}</Alert></div> : null}
       {shown?.message ? <div className="mb-4"><Alert tone={shown.ok ? "info" : "danger"}>{shown.message}</Alert></div> : null}
       {shown && !shown.ok && !shown.message ? <div className="mb-4"><Alert>{Object.values(shown.fieldErrors).flat().join(" ")}</Alert></div> : null}
