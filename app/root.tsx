@@ -3,6 +3,10 @@ import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration }
 import type { Route } from "./+types/root";
 import { useNonce } from "./utils/csp";
 import "./app.css";
+import { requestReads } from "./auth/request-context.server";
+
+// The session, the case and its steps, read once per request however many loaders ask (each still checks access).
+export const middleware: Route.MiddlewareFunction[] = [requestReads];
 
 export function Layout({ children }: { children: React.ReactNode }) {
   const nonce = useNonce();

@@ -5,7 +5,7 @@ import { db } from "~/db/client.server";
 import { apiTokens, memberships, organisations, users } from "~/db/schema";
 import { hasPermission, scopeFor, type Permission } from "~/domain/permissions";
 import type { CurrentUser } from "~/domain/people";
-import { readSession } from "./session.server";
+import { readsOf, type RequestScope } from "./request-context.server";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 import type { ApiTokenScope } from "~/domain/vocabulary";
@@ -40,8 +40,9 @@ function unauthorized(message: string, invalidToken: boolean): never {
  * Responses, never redirects: 401 without or with bad credentials, 403 when none of the person's
  * roles grants `permission`, or when the token's scope is read-only and `permission` changes records.
  */
-export async function requireApiUser(request: Request, permission: Permission): Promise<ApiUser> {
-  const current = request.headers.has("Authorization") ? await tokenUser(request.headers.get("Authorization")!) : await sessionUser(request);
+export async function requireApiUser(scope: RequestScope, permission: Permission): Promise<ApiUser> {
+  const { headers } = scope.request;
+  const current = headers.has("Authorization") ? await tokenUser(headers.get("Authorization")!) : await sessionUser(scope);
   if (!hasPermission(current.roles, permission)) {
     throw apiError(403, "forbidden", `Your role in ${current.organisation.name} does not allow this (needs ${permission}).`);
   }
@@ -51,8 +52,8 @@ export async function requireApiUser(request: Request, permission: Permission): 
   return current;
 }
 
-async function sessionUser(request: Request): Promise<ApiUser> {
-  const state = await readSession(request);
+async function sessionUser(scope: RequestScope): Promise<ApiUser> {
+  const state = await readsOf(scope).session();
   if (state.status === "valid") return { ...state.current, via: "session", tokenId: null, scope: "read-write" };
   if (state.status === "invalid") unauthorized("Your session has ended or is not valid. Sign in again, or send a personal API token.", false);
   unauthorized("Sign in, or send a personal API token as 'Authorization: Bearer sw_…' (create one at /account/tokens).", false);

@@ -6,7 +6,8 @@ import { memberships, sessions, users } from "~/db/schema";
 import { hasPermission, type Permission } from "~/domain/permissions";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "~/utils/password.server";
 import type { CurrentUser } from "~/domain/people";
-import { clearSessionCookie, createSession, deleteAllSessions, deleteSession, readSession } from "./session.server";
+import { clearSessionCookie, createSession, deleteAllSessions, deleteSession } from "./session.server";
+import { readsOf, type RequestScope } from "./request-context.server";
 import { reconfirmPassword } from "./reconfirm.server";
 import { checkThrottle, deviceTokenOf, isKnownDevice, recordAttempt, rememberDevice } from "./throttle.server";
 
@@ -14,10 +15,10 @@ import { checkThrottle, deviceTokenOf, isKnownDevice, recordAttempt, rememberDev
  * The signed-in person, or a redirect to the sign-in page (with the reason when the cookie was
  * present but not valid: expired, signed out elsewhere, or tampered with).
  */
-export async function requireUser(request: Request): Promise<CurrentUser> {
-  const state = await readSession(request);
+export async function requireUser(scope: RequestScope): Promise<CurrentUser> {
+  const state = await readsOf(scope).session();
   if (state.status === "valid") return state.current;
-  const url = new URL(request.url);
+  const url = new URL(scope.request.url);
   const params = new URLSearchParams({ redirectTo: url.pathname + url.search });
   if (state.status === "invalid") params.set("reason", "session");
   const headers = state.status === "invalid" ? { "Set-Cookie": await clearSessionCookie() } : undefined;
@@ -25,16 +26,16 @@ export async function requireUser(request: Request): Promise<CurrentUser> {
 }
 
 /** As requireUser, and refuses with 403 unless one of the person's roles grants the permission. */
-export async function requirePermission(request: Request, permission: Permission): Promise<CurrentUser> {
-  const current = await requireUser(request);
+export async function requirePermission(scope: RequestScope, permission: Permission): Promise<CurrentUser> {
+  const current = await requireUser(scope);
   if (!hasPermission(current.roles, permission)) {
     throw data({ message: `Your role in ${current.organisation.name} does not allow this (needs ${permission}).` }, { status: 403 });
   }
   return current;
 }
 
-export async function getOptionalUser(request: Request): Promise<CurrentUser | null> {
-  const state = await readSession(request);
+export async function getOptionalUser(scope: RequestScope): Promise<CurrentUser | null> {
+  const state = await readsOf(scope).session();
   return state.status === "valid" ? state.current : null;
 }
 
@@ -43,8 +44,8 @@ export async function getOptionalUser(request: Request): Promise<CurrentUser | n
  * it; returns the Set-Cookie header that clears the cookie. A request without a valid session only
  * has its cookie cleared.
  */
-export async function signOut(request: Request, opts: { everywhere: boolean }): Promise<string> {
-  const state = await readSession(request);
+export async function signOut(scope: RequestScope, opts: { everywhere: boolean }): Promise<string> {
+  const state = await readsOf(scope).session();
   if (state.status === "valid") {
     const { current } = state;
     if (opts.everywhere) await deleteAllSessions(current.user.id);

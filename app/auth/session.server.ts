@@ -7,7 +7,6 @@ import { rethrowUnavailable } from "~/utils/unavailable.server";
 import { memberships, organisations, sessions, users } from "~/db/schema";
 import type { CurrentUser } from "~/domain/people";
 import { cookiesSecure } from "~/utils/env.server";
-import { memoised } from "~/utils/request-memo.server";
 
 /** A session ends after this long without a request… */
 export const SESSION_IDLE_MS = 12 * 60 * 60 * 1000;
@@ -61,10 +60,13 @@ export async function clearSessionCookie(): Promise<string> {
   return sessionCookie().serialize("", { maxAge: 0 });
 }
 
-/** Reads and validates the session of a request once, however many loaders ask (see request-memo). */
+/**
+ * Reads and validates the session of a request. Loaders ask through `requireUser` and friends,
+ * which share one read per request (request-context.server.ts).
+ */
 export function readSession(request: Request): Promise<SessionState> {
   // Every signed-in page reads the session first, so an outage is answered here as a plain 503.
-  return memoised("session", () => loadSession(request).catch(rethrowUnavailable));
+  return loadSession(request).catch(rethrowUnavailable);
 }
 
 async function loadSession(request: Request): Promise<SessionState> {

@@ -13,13 +13,13 @@ import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/account-tokens";
 import { CreateTokenSchema, TokenActionSchema } from "./account-tokens.schema";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requireUser({ request, context });
   return { organisation: current.organisation.name, tokens: await listApiTokens(current.user.id) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requireUser({ request, context });
   const parsed = await parseBody(request, TokenActionSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;

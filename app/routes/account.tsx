@@ -12,14 +12,14 @@ import { accepted, answer, clientAddress, parseBody, refused } from "~/utils/htt
 import type { Route } from "./+types/account";
 import { ChangePasswordSchema } from "./account.schema";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requireUser({ request, context });
   return { current, sessions: await listSessions(current.user.id) };
 }
 
 /** Changes the person's own password; every other session of theirs ends. */
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requireUser({ request, context });
   const parsed = await parseBody(request, ChangePasswordSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   return answer(async () => {

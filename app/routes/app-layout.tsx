@@ -14,8 +14,8 @@ const NAV: { to: string; label: string; needs: Permission }[] = [
 ];
 
 /** Every signed-in page sits in this layout; each child loader still checks its own permission. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requireUser({ request, context });
   return {
     user: current.user,
     organisation: current.organisation,

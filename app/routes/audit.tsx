@@ -10,8 +10,8 @@ import type { Route } from "./+types/audit";
  * The organisation's audit trail, newest first, with a check of its whole chain (only this
  * organisation's entries are read) against the anchors kept outside the database.
  */
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "audit:read");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "audit:read");
   const before = Number(new URL(request.url).searchParams.get("before"));
   const [page, check] = await Promise.all([listAuditEntries(current.organisation.id, before), checkAuditTrail(current.organisation.id)]);
   return {

@@ -7,8 +7,8 @@ import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/checks";
 
 /** The checker's queue: case files an engineer has submitted for check. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "step:check");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "step:check");
   return { waiting: await listCases(current.organisation.id, { status: "submitted" }) };
 }
 

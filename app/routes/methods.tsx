@@ -4,8 +4,8 @@ import { ENGINE_VERSION } from "~/engine";
 import { METHOD_STATEMENT as METHODS } from "~/domain/method-statement";
 import type { Route } from "./+types/methods";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireUser({ request, context });
   return { engine: ENGINE_VERSION };
 }
 

@@ -11,13 +11,13 @@ import type { Route } from "./+types/reports";
 /** Largest PDF accepted for verification, bytes. */
 const MAX_VERIFY_BYTES = 50 * 1024 * 1024;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "report:read");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "report:read");
   return { reports: await listReportsWithCases(current.organisation.id) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requirePermission(request, "report:read");
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requirePermission({ request, context }, "report:read");
   const tooLarge = "The file is larger than 50 MiB.";
   if (Number(request.headers.get("Content-Length") ?? 0) > MAX_VERIFY_BYTES) return refused({ pdf: [tooLarge] }, { status: 413, message: tooLarge });
   const form = await request.formData().catch(() => null);

@@ -9,7 +9,6 @@ import { createRequestHandler, type ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 import { CSP_NONCE_HEADER } from "../utils/csp";
 import { BODY_LIMITS, formatBytes } from "../utils/limits";
-import { withRequestMemo } from "../utils/request-memo.server";
 
 /**
  * The HTTP server: static files, a same-origin check on every state-changing request (with the
@@ -79,8 +78,6 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
   // Pages, JSON, CSV and assets go out compressed (brotli at quality 4, or gzip, as the client
   // accepts); types that are compressed already (PDF, fonts) are sent as they are.
   app.use(compression({ threshold: 1024 }));
-  // Reads shared by the loaders of one page are made once per request (never in a writing request).
-  app.use((req: Request, res: Response, next: NextFunction) => (req.method === "GET" || req.method === "HEAD" ? withRequestMemo(next, (end) => res.once("close", end)) : next()));
   mount(app);
   app.use(answerErrors);
   return app;
@@ -262,6 +259,8 @@ export function reactRouterHandler(opts: { build: ServerBuild | (() => Promise<S
       const read = req.method === "GET" || req.method === "HEAD" ? undefined : bodies.get(req);
       const body = read ? new Uint8Array(read) : undefined;
       const request = new Request(origin + req.originalUrl, { method: req.method, headers, body, signal: controller.signal });
+      // No load context: with middleware on, React Router gives each request a fresh
+      // RouterContextProvider, which the root's middleware fills (auth/request-context.server.ts).
       const response = await handle(request);
       if (res.destroyed || res.writableEnded) {
         await response.body?.cancel();

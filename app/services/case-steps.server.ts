@@ -6,7 +6,6 @@ import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/sche
 import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
 import { STEP_SCHEMAS, type DistributionData, type EnvelopeData } from "~/domain/step-data";
 import { voidApprovalsAfterEdit } from "./review.server";
-import { memoised } from "~/utils/request-memo.server";
 import type { Actor } from "~/domain/people";
 import type { UnitSystem } from "~/domain/units";
 import { DomainError } from "~/domain/errors";
@@ -22,12 +21,7 @@ export interface StepState {
 }
 
 /** Every step of a case, in order; steps never saved come back as revision 0, "empty". */
-export function getCaseSteps(caseId: string, database: Db | Tx = db): Promise<Record<StepKey, StepState>> {
-  // Inside a transaction the caller may have just written: only plain reads are shared per request.
-  return database === db ? memoised(`case-steps:${caseId}`, () => readCaseSteps(caseId, db)) : readCaseSteps(caseId, database);
-}
-
-async function readCaseSteps(caseId: string, database: Db | Tx): Promise<Record<StepKey, StepState>> {
+export async function getCaseSteps(caseId: string, database: Db | Tx = db): Promise<Record<StepKey, StepState>> {
   const rows = await database
     .select({ row: caseSteps, updatedByName: users.name })
     .from(caseSteps)

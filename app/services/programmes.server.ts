@@ -2,7 +2,6 @@ import { and, asc, count, desc, eq } from "drizzle-orm";
 import { writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
-import { memoised } from "~/utils/request-memo.server";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 
@@ -74,13 +73,9 @@ export async function listCases(organisationId: string, opts: { programmeId?: st
     .orderBy(desc(cases.updatedAt));
 }
 
+/** The case with its programme, only if it belongs to the organisation; null for a malformed id. */
 export async function getCase(organisationId: string, caseId: string, database: Db | Tx = db) {
   if (!isUuid(caseId)) return null;
-  // Inside a transaction the caller may have just written: only plain reads are shared per request.
-  return database === db ? memoised(`case:${organisationId}:${caseId}`, () => readCase(organisationId, caseId, db)) : readCase(organisationId, caseId, database);
-}
-
-async function readCase(organisationId: string, caseId: string, database: Db | Tx) {
   const [row] = await database
     .select({ case: cases, programme: programmes, createdByName: users.name })
     .from(cases)

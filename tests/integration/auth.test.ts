@@ -7,7 +7,7 @@ import { db } from "~/db/client.server";
 import { sessions, signInAttempts, users } from "~/db/schema";
 import { action as logoutAction } from "~/routes/auth/logout";
 import { action as loginAction } from "~/routes/auth/login";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, scopeOf, seed } from "./helpers";
 
 beforeAll(async () => {
   await seed();
@@ -115,7 +115,7 @@ describe("sessions", () => {
     const state = await readSession(request("/cases", { cookie }));
     expect(state.status).toBe("valid");
     const tampered = cookie.slice(0, -1) + (cookie.endsWith("a") ? "b" : "a");
-    const refused = await requireUser(request("/cases", { cookie: tampered })).catch((e: unknown) => e);
+    const refused = await requireUser(await scopeOf(request("/cases", { cookie: tampered }))).catch((e: unknown) => e);
     expect(refused).toBeInstanceOf(Response);
     const res = refused as Response;
     expect(res.status).toBe(302);

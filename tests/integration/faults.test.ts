@@ -24,6 +24,7 @@ import { createReportRow, generateReport, setProgress } from "~/services/reports
 import { listKeys, resetS3Client } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
 import { freePort } from "../setup/global-setup";
+import { RouterContextProvider } from "react-router";
 import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
 
 let dir = "";
@@ -230,7 +231,10 @@ describe("sessions", () => {
     await closeDb();
     vi.resetModules();
     const fresh = await import("~/auth/auth.server");
-    const current = await fresh.requireUser(request("/cases", { cookie: cookies.checker }));
+    const { requestReads } = await import("~/auth/request-context.server");
+    const scope = { request: request("/cases", { cookie: cookies.checker }), context: new RouterContextProvider() };
+    await requestReads({ ...scope, params: {}, url: new URL(scope.request.url), pattern: "" }, async () => new Response());
+    const current = await fresh.requireUser(scope);
     expect(current.user.email).toBe(demoUser("checker").email);
     const freshDb = await import("~/db/client.server");
     await freshDb.closeDb();

@@ -1,7 +1,9 @@
 import { db } from "~/db/client.server";
 import { DEMO_USERS, type DemoUser } from "~/demo/scenario";
 import { seedDemo } from "~/demo/seed.server";
+import { RouterContextProvider } from "react-router";
 import { signInWithPassword } from "~/auth/auth.server";
+import { requestReads, type RequestScope } from "~/auth/request-context.server";
 import { CLIENT_ADDRESS_HEADER } from "~/utils/http.server";
 
 export const ORIGIN = "http://127.0.0.1:3000";
@@ -36,10 +38,17 @@ export function form(fields: Record<string, string | string[]>): FormData {
   return fd;
 }
 
+/** The request with the context the root's middleware gives it, as a loader or action receives them. */
+export async function scopeOf(req: Request): Promise<RequestScope> {
+  const context = new RouterContextProvider();
+  await requestReads({ request: req, context, params: {}, url: new URL(req.url), pattern: "" }, async () => new Response());
+  return { request: req, context };
+}
+
 /** Runs a loader or action and returns the Response it threw or returned (redirects and errors are thrown). */
 export async function run(fn: (args: never) => unknown, args: { request: Request; params?: Record<string, string> }): Promise<{ status: number; body: unknown; headers: Headers }> {
   try {
-    const out = await fn({ request: args.request, params: args.params ?? {}, context: {} } as never);
+    const out = await fn({ ...(await scopeOf(args.request)), params: args.params ?? {} } as never);
     return normalise(out);
   } catch (thrown) {
     return normalise(thrown);

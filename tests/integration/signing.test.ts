@@ -13,7 +13,7 @@ import { startOidcProvider, type RunningOidcProvider } from "~/server/dev-servic
 import { saveStep } from "~/services/case-steps.server";
 import { returnStep } from "~/services/review.server";
 import { resetEnvCache } from "~/utils/env.server";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, scopeOf, seed } from "./helpers";
 
 /*
  * Issue 9, items 1 and 7: every signature needs a fresh proof at the moment of signing. A company
@@ -62,7 +62,7 @@ const review = (cookie: string, fields: Record<string, string>) => run(reviewAct
 const checkerIdp: { cookie?: string } = {};
 
 async function currentOf(cookie: string): Promise<CurrentUser> {
-  return requireUser(request("/", { cookie }));
+  return requireUser(await scopeOf(request("/", { cookie })));
 }
 
 /** The checkers' signatures on the case (or one step of it); the engineer's "prepared" ones are made at each submission. */

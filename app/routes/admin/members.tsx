@@ -13,14 +13,14 @@ import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/members";
 import { InviteSchema, MembersActionSchema } from "./members.schema";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "org:admin");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "org:admin");
   const [members, invitations] = await Promise.all([listMembers(current.organisation.id), listOpenInvitations(current.organisation.id)]);
   return { members, invitations, selfId: current.user.id };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requirePermission(request, "org:admin");
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requirePermission({ request, context }, "org:admin");
   const parsed = await parseBody(request, MembersActionSchema, { arrays: ["roles"] });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;

@@ -1,6 +1,5 @@
 import { requireCase } from "~/auth/case-access.server";
 import { buildCaseFile, buildSectionsFile, caseInputs } from "~/services/analysis.server";
-import { getCaseSteps } from "~/services/case-steps.server";
 import { distributionViewForPage } from "~/services/distribution.server";
 import type { Route } from "./+types/case-distribution";
 import { DomainError } from "~/domain/errors";
@@ -10,11 +9,11 @@ import { apiRefusal } from "~/utils/http.server";
  * The distribution of one case of a case file, as JSON for the distribution page: choosing another
  * case re-computes the plots with a fetcher, without a full navigation.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
   const id = new URL(request.url).searchParams.get("case") ?? "";
   try {
-    const inputs = caseInputs(await getCaseSteps(c.id));
+    const inputs = caseInputs(await readSteps());
     const file = buildCaseFile(c.title, inputs, "envelope");
     if (!file.cases.some((k) => k.id === id)) return apiRefusal(new DomainError(`Case file ${c.reference} has no load case "${id}".`, { kind: "not-found" }));
     return Response.json(distributionViewForPage(file, id, buildSectionsFile(inputs)), { headers: { "Cache-Control": "no-store" } });

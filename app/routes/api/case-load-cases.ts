@@ -18,8 +18,8 @@ export type LoadCaseRows = {
  * GET /api/cases/:caseId/load-cases?offset=&limit= — a window of the envelope's load cases for the
  * grid of a large case file, which fetches the rows as they scroll into view instead of all of them.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   const query = new URL(request.url).searchParams;
   const offset = Number(query.get("offset") ?? "0");
   const limit = Number(query.get("limit") ?? "100");

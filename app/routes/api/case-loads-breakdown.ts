@@ -2,7 +2,6 @@ import { requireCase } from "~/auth/case-access.server";
 import { DomainError } from "~/domain/errors";
 import { buildCaseFile, caseInputs } from "~/services/analysis.server";
 import { caseLoadsBreakdown } from "~/services/case-loads.server";
-import { getCaseSteps } from "~/services/case-steps.server";
 import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-loads-breakdown";
 
@@ -10,11 +9,11 @@ import type { Route } from "./+types/case-loads-breakdown";
  * One load case's aerodynamic loads, inertia relief and net loads as JSON for the loads page:
  * choosing another case re-draws the breakdown with a fetcher, without a full navigation.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
   const id = new URL(request.url).searchParams.get("case") ?? "";
   try {
-    const file = buildCaseFile(c.title, caseInputs(await getCaseSteps(c.id)));
+    const file = buildCaseFile(c.title, caseInputs(await readSteps()));
     return Response.json(caseLoadsBreakdown(file, id), { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
     if (error instanceof DomainError) return apiRefusal(error);

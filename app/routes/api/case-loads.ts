@@ -11,8 +11,8 @@ import type { Route } from "./+types/case-loads";
  * with its stations; 202 with the progress while a large sweep is computed. The whole result
  * document is the public results API's.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   try {
     const view = await loadsView(c.id, c.title, current.user.id, new URL(request.url).searchParams.get("case"));
     if (view.pending) {

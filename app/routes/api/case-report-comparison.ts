@@ -5,8 +5,8 @@ import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-report-comparison";
 
 /** GET ?from=&to= (report ids): the comparison of two issued versions of the case's report as a PDF (unsigned, not a report). */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "report:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "report:read");
   const url = new URL(request.url);
   try {
     const { fileName, bytes } = await comparisonPdf({ organisationId: current.organisation.id, caseId: c.id, fromId: url.searchParams.get("from"), toId: url.searchParams.get("to") });

@@ -5,8 +5,8 @@ import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-spanwise-methods";
 
 /** One load case (`?case=`) by the vortex lattice, the lifting line and Schrenk's approximation, as JSON for the distribution page. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   try {
     const loadCase = new URL(request.url).searchParams.get("case") ?? "";
     return Response.json(await caseSpanwiseComparison({ caseId: c.id, title: c.title, loadCase }), { headers: { "Cache-Control": "no-store" } });

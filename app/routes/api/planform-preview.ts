@@ -16,8 +16,8 @@ export type PlanformPreview =
  * Derived planform geometry for the drawing that follows the person's typing (JSON in, JSON out,
  * SI units). Nothing is stored.
  */
-export async function action({ request }: Route.ActionArgs) {
-  await requirePermission(request, "case:read");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requirePermission({ request, context }, "case:read");
   const body = await request.json().catch(() => null);
   const parsed = PlanformSchema.safeParse(body);
   if (!parsed.success) return refused(fieldErrorsOf(parsed.error), { status: 422 });

@@ -17,9 +17,9 @@ const REASONS: Record<string, string> = {
   "signed-out": "You have signed out.",
 };
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   const url = new URL(request.url);
-  const current = await getOptionalUser(request);
+  const current = await getOptionalUser({ request, context });
   if (current) throw redirect(safeRedirectPath(url.searchParams.get("redirectTo"), landingPath(current.roles)));
   const reason = url.searchParams.get("reason");
   const ssoError = url.searchParams.get("sso-error");

@@ -10,12 +10,12 @@ import type { Route } from "./+types/sso-callback";
  * The identity provider's answer: a company sign-in opens a session; a signature's round trip
  * completes that one signature (signing.server.ts) and goes back to the page it was asked from.
  */
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   if (!ssoEnabled()) notFound("Company sign-in");
   const read = await readSsoCallback(request);
   const headers = new Headers({ "Set-Cookie": await clearSsoFlowCookie() });
   if (read.flow?.kind === "signature") {
-    const current = await requireUser(request);
+    const current = await requireUser({ request, context });
     const { page, outcome } = read.ok ? await completeSsoSignature(current, read.flow, read.identity) : await abandonSsoSignature(current, read.flow, read.code);
     throw redirect(`${page}?${new URLSearchParams({ signature: outcome })}`, { headers });
   }

@@ -11,7 +11,7 @@ import { toSIKeepingShown } from "~/domain/form-values";
 import { hasPermission } from "~/domain/permissions";
 import { BasisSchema } from "~/domain/step-data";
 import { basisChecks } from "~/services/basis.server";
-import { getCaseSteps, stepData } from "~/services/case-steps.server";
+import { stepData } from "~/services/case-steps.server";
 import { vbChecks } from "~/services/envelope.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
@@ -20,9 +20,9 @@ import { BasisChecksPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel,
 import { BASIS_QUANTITIES, basisFormValues, BasisFormSchema } from "./basis.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const saved = stepData(steps, "basis");
   return {
     caseId: c.id,
@@ -36,12 +36,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, BasisFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const { revision, ...typed } = parsed.value;
-  const saved = stepData(await getCaseSteps(c.id), "basis");
+  const saved = stepData(await readSteps(), "basis");
   const si = BasisSchema.safeParse(toSIKeepingShown(typed, typed.units, BASIS_QUANTITIES, saved));
   if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "basis", baseRevision: revision, data: si.data, actor: current.user });

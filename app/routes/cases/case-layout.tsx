@@ -3,13 +3,12 @@ import { requireCase } from "~/auth/case-access.server";
 import { STEPS } from "~/domain/steps";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { StatusBadge } from "~/components/ui/status-badge";
-import { getCaseSteps } from "~/services/case-steps.server";
 import type { Route } from "./+types/case-layout";
 
 /** Case header and step rail; each step route checks access again in its own loader. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c, programme } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c, programme, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   return {
     case: { id: c.id, reference: c.reference, title: c.title, status: c.status },
     programme: { id: programme.id, code: programme.code },

@@ -6,7 +6,7 @@ import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { DistributionSchema, MAX_LOAD_CASES } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
-import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
+import { caseUnits } from "~/services/case-steps.server";
 import { distributionStep } from "~/services/distribution.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
@@ -15,15 +15,15 @@ import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel, Rul
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const shown = await distributionStep({ caseId: c.id, title: c.title, inputs: caseInputs(steps), requested: new URL(request.url).searchParams.get("case"), actorId: current.user.id });
   return { caseId: c.id, units: caseUnits(steps), revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", ...shown };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, DispositionFormSchema, { maxRows: MAX_LOAD_CASES });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const chosen = Object.fromEntries(parsed.value.dispositions.filter((d) => d.action !== "none").map((d) => [d.id, { action: d.action, comment: d.comment }]));

@@ -11,7 +11,7 @@ import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { EnvelopeSchema } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
-import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
+import { caseUnits } from "~/services/case-steps.server";
 import { regeneratedCases, vnView } from "~/services/envelope.server";
 import { editLoadCases } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
@@ -21,9 +21,9 @@ import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, V
 import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues, MAX_EDITED_ROWS, WHOLE_GRID_LOAD_CASES } from "./envelope.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const vn = vnView(inputs, DEFAULT_METHOD);
@@ -46,11 +46,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, EnvelopeFormSchema, { maxRows: Math.max(WHOLE_GRID_LOAD_CASES, MAX_EDITED_ROWS) });
   if (!parsed.ok) return refused(parsed.fieldErrors);
-  const steps = await getCaseSteps(c.id);
+  const steps = await readSteps();
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const form = parsed.value;

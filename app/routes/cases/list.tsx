@@ -9,8 +9,8 @@ import { listCases, listProgrammes } from "~/services/programmes.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/list";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "case:read");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "case:read");
   const url = new URL(request.url);
   const programmes = await listProgrammes(current.organisation.id);
   const programmeId = programmes.some((p) => p.id === url.searchParams.get("programme")) ? url.searchParams.get("programme")! : undefined;

@@ -11,7 +11,7 @@ import { LoadsSchema } from "~/domain/step-data";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { analysedCases, caseInputs } from "~/services/analysis.server";
 import { loadsPageInfo } from "~/services/case-loads.server";
-import { caseUnits, getCaseSteps } from "~/services/case-steps.server";
+import { caseUnits } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/loads";
@@ -19,9 +19,9 @@ import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, 
 import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   return {
@@ -39,11 +39,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, LoadsFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
-  const inputs = caseInputs(await getCaseSteps(c.id));
+  const inputs = caseInputs(await readSteps());
   // A case saved before the masses step kept its structural mass here: keep it until the masses step is saved.
   const legacy = !inputs.masses && inputs.loads?.semispanMass !== undefined ? { semispanMass: inputs.loads.semispanMass } : {};
   const si = LoadsSchema.safeParse({ notes: parsed.value.notes, ...legacy });

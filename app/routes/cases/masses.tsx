@@ -8,7 +8,7 @@ import { Alert, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { MassesSchema } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
-import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
+import { caseUnits, stepData } from "~/services/case-steps.server";
 import { effectiveMasses, itemsOutsideWing, massesOverview } from "~/services/masses.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { answer, parseBody, refused } from "~/utils/http.server";
@@ -17,9 +17,9 @@ import { BalancePanel, ItemsPanel, MassCasesPanel, MassesDrawingPanel, MassRowEr
 import { MassesFormSchema, massesFormValues, massesToSI } from "./masses.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const units = caseUnits(steps);
   const inputs = caseInputs(steps);
   const masses = effectiveMasses(inputs);
@@ -36,12 +36,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, MassesFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   return answer(async () => {
-    const steps = await getCaseSteps(c.id);
+    const steps = await readSteps();
     const si = MassesSchema.safeParse(massesToSI(parsed.value, caseUnits(steps)));
     if (!si.success) return refused(fieldErrorsOf(si.error));
     const planform = stepData(steps, "planform");

@@ -9,14 +9,14 @@ import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/new";
 import { NewCaseSchema } from "./new.schema";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "case:create");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "case:create");
   const url = new URL(request.url);
   return { programmes: await listProgrammes(current.organisation.id), programmeId: url.searchParams.get("programme") ?? "" };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requirePermission(request, "case:create");
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requirePermission({ request, context }, "case:create");
   const parsed = await parseBody(request, NewCaseSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;

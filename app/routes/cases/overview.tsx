@@ -6,9 +6,9 @@ import { caseOverview } from "~/services/case-overview.server";
 import { formatUtc } from "~/utils/format";
 import type { Route } from "./+types/overview";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { case: c, programme, createdByName } = await requireCase(request, params.caseId, "case:read");
-  const { steps, history } = await caseOverview(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { case: c, programme, createdByName, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const { steps, history } = await caseOverview(c.id, await readSteps());
   return { case: c, programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft }, createdByName, steps, history };
 }
 

@@ -9,7 +9,7 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { MAX_PLANFORM_STATIONS, PlanformSchema } from "~/domain/step-data";
-import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
+import { caseUnits, stepData } from "~/services/case-steps.server";
 import { planformGeometry } from "~/services/planform.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
@@ -18,9 +18,9 @@ import { DrawingPanel, GeometryPanel, PanelEntryPanel, StationsPanel, useLivePre
 import { PlanformFormSchema, planformFormValues, planformToSI } from "./planform.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const units = caseUnits(steps);
   const saved = stepData(steps, "planform");
   return {
@@ -39,11 +39,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const parsed = await parseBody(request, PlanformFormSchema, { maxRows: MAX_PLANFORM_STATIONS });
   if (!parsed.ok) return refused(parsed.fieldErrors);
-  const units = caseUnits(await getCaseSteps(c.id));
+  const units = caseUnits(await readSteps());
   const si = PlanformSchema.safeParse(planformToSI(parsed.value, units));
   if (!si.success) return refused(fieldErrorsOf(si.error));
   return saveStepAnswer({ caseId: c.id, step: "planform", baseRevision: parsed.value.revision, data: si.data, actor: current.user });

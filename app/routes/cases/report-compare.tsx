@@ -7,8 +7,8 @@ import { compareReportVersions } from "~/services/report-comparison.server";
 import type { Route } from "./+types/report-compare";
 import { ComparisonTables, EnvelopeOverlays, VersionsCompared } from "./report-compare.panels";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "report:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "report:read");
   const url = new URL(request.url);
   const choice = { organisationId: current.organisation.id, caseId: c.id, fromId: url.searchParams.get("from"), toId: url.searchParams.get("to") };
   try {

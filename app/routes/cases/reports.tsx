@@ -13,8 +13,8 @@ import type { Route } from "./+types/reports";
 import { isPending, isRerunPending, ReportPanel, RequestReportForm, useReportProgress, useRerunProgress, VersionChangesPanel } from "./reports.panels";
 import { ReportsActionSchema } from "./reports.schema";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "report:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "report:read");
   const [list, diff, canSso] = await Promise.all([listReports(current.organisation.id, c.id), latestVersionChanges(c.id), canSignWithSso(current)]);
   const reruns = await latestReruns(current.organisation.id, list.map((r) => r.id));
   return {
@@ -31,8 +31,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "report:read");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "report:read");
   const parsed = await parseBody(request, ReportsActionSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors, { message: Object.values(parsed.fieldErrors).flat().join(" ") });
   const input = parsed.value;

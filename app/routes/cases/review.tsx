@@ -10,8 +10,8 @@ import type { Route } from "./+types/review";
 import { CaseApprovalPanel, StepReviewPanel } from "./review.panels";
 import { ReviewActionSchema } from "./review.schema";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   const [steps, caseSigs, canSso] = await Promise.all([reviewState(c.id), caseSignatures(c.id), canSignWithSso(current)]);
   return {
     caseId: c.id,
@@ -28,8 +28,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   const parsed = await parseBody(request, ReviewActionSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const v = parsed.value;

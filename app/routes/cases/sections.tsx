@@ -10,7 +10,7 @@ import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { MAX_SECTION_CSV_BYTES, type CsvProblem } from "~/domain/section-csv";
 import { MAX_SECTION_ROWS, SectionsSchema } from "~/domain/step-data";
-import { caseUnits, getCaseSteps, stepData } from "~/services/case-steps.server";
+import { caseUnits, stepData } from "~/services/case-steps.server";
 import { receiveSectionCsv, sectionsFromUpload, sectionsWithoutPressures } from "~/services/uploads.server";
 import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionRefusal } from "~/utils/form-data";
 import { accepted, answer, refused } from "~/utils/http.server";
@@ -19,9 +19,9 @@ import { previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadP
 import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections.schema";
 import { saveStepAnswer } from "./step-action.server";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:read");
-  const steps = await getCaseSteps(c.id);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readSteps();
   const saved = stepData(steps, "sections");
   const units = caseUnits(steps);
   return {
@@ -36,8 +36,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { current, case: c } = await requireCase(request, params.caseId, "case:edit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
   const length = Number(request.headers.get("Content-Length") ?? 0);
   if (length > MAX_SECTION_CSV_BYTES + 64 * 1024) return refused({ file: [`The file is larger than ${MAX_SECTION_CSV_BYTES / 1024} KiB.`] }, { status: 413 });
   const body = await request.formData().catch(() => null);
@@ -65,7 +65,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!checked.success) return refused(fieldErrorsOf(checked.error));
   const input = checked.data;
   return answer(async () => {
-    const steps = await getCaseSteps(c.id);
+    const steps = await readSteps();
     const saved = stepData(steps, "sections");
     const candidate =
       input.intent === "save" ? sectionsToSI(input, caseUnits(steps), saved) : input.intent === "remove-pressures" ? sectionsWithoutPressures(saved) : await sectionsFromUpload(c.id, input.uploadId, saved);

@@ -11,9 +11,9 @@ import type { Route } from "./+types/mailbox";
  * links in them can be followed without a real mail server. Only to a signed-in person, and only
  * their own mail (an administrator also sees their organisation's). Absent with a real relay.
  */
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   if (!mailboxAvailable()) notFound("Page");
-  const current = await requireUser(request);
+  const current = await requireUser({ request, context });
   const url = new URL(request.url);
   const to = url.searchParams.get("to") ?? undefined;
   try {

@@ -8,8 +8,8 @@ import { formatUtc } from "~/utils/format";
 import { notFound } from "~/utils/http.server";
 import type { Route } from "./+types/detail";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "programme:read");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "programme:read");
   const programme = await getProgramme(current.organisation.id, params.programmeId);
   if (!programme) notFound("Programme");
   const cases = await listCases(current.organisation.id, { programmeId: programme.id });

@@ -11,13 +11,13 @@ import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/list";
 import { NewProgrammeSchema } from "./list.schema";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const current = await requirePermission(request, "programme:read");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const current = await requirePermission({ request, context }, "programme:read");
   return { programmes: await listProgrammes(current.organisation.id), canManage: hasPermission(current.roles, "programme:manage") };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const current = await requirePermission(request, "programme:manage");
+export async function action({ request, context }: Route.ActionArgs) {
+  const current = await requirePermission({ request, context }, "programme:manage");
   const parsed = await parseBody(request, NewProgrammeSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const input = parsed.value;

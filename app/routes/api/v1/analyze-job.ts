@@ -11,9 +11,9 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
  * waits or runs, 200 with the `spanwright.result/1` document when done, 422 naming the field the
  * engine refused. Another person's job answers 404, as a missing one does. Kept for a day.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     const job = UUID.test(params.jobId) ? await getAnalysisJob(current.user.id, params.jobId) : null;
     if (!job) return notFoundJson("The analysis");
     if (job.status === "done" && job.result) return Response.json(job.result);

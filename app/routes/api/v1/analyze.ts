@@ -16,10 +16,10 @@ export async function loader({ request }: Route.LoaderArgs) {
  * sweep is answered 202 with a job to poll at /api/v1/analyze/jobs/{jobId}. A request beyond a limit
  * answers 413 naming it; a bad document 422 naming its fields.
  */
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   return apiHandler(async () => {
     if (request.method !== "POST") return methodNotAllowed(request, "POST");
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     const document = await readJsonBody(request);
     try {
       const answer = await analyse({ organisationId: current.organisation.id, userId: current.user.id, document });

@@ -11,9 +11,9 @@ import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
  * `?part=sections` gives its richer section data as `spanwright.sections/1` instead (the command line's
  * `--sections`; 404 when the case has none), so the pair reproduces the application's results.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     const part = new URL(request.url).searchParams.get("part") ?? "case";
     if (part !== "case" && part !== "sections") return Response.json({ error: "bad-request", message: `part must be "case" or "sections" (got "${part}").` }, { status: 400 });
     const found = await getCase(current.organisation.id, params.caseId);

@@ -36,10 +36,10 @@ export async function loader({ request }: Route.LoaderArgs) {
  * alone with `?programmeId=&reference=[&title=]`. Creates the case with its planform, sections,
  * envelope and loads steps in one transaction; 422 naming every bad field, and nothing written.
  */
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   return apiHandler(async () => {
     if (request.method !== "POST") return methodNotAllowed(request, "POST");
-    const current = await requireApiUser(request, "case:create");
+    const current = await requireApiUser({ request, context }, "case:create");
     const body = await readJsonBody(request);
     const query = new URL(request.url).searchParams;
     // A bare document is recognised by its schema field; the wrapper never has one.

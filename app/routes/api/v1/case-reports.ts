@@ -8,9 +8,9 @@ import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
  * GET /api/v1/cases/:caseId/reports — every version of the case's report with the SHA-256 of its
  * PDF bytes and the signatures behind it (also polled by the reports page for progress).
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "report:read");
+    const current = await requireApiUser({ request, context }, "report:read");
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
     const list = await listReports(current.organisation.id, found.case.id);

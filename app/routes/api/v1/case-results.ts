@@ -15,9 +15,9 @@ import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
  * input (computed once per input and engine version, then served from storage);
  * `?format=csv` gives every case's station table as CSV instead.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     const format = new URL(request.url).searchParams.get("format") ?? "json";
     if (format !== "json" && format !== "csv") {
       return apiRefusal(new DomainError(`format must be "json" or "csv" (got "${format}").`, { field: "format" }));

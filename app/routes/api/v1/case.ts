@@ -5,9 +5,9 @@ import type { Route } from "./+types/case";
 import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
 
 /** GET /api/v1/cases/:caseId — the case header with each step's status and revision. */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     // Another organisation's case answers exactly like an unknown or malformed id.
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");

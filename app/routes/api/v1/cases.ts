@@ -4,9 +4,9 @@ import type { Route } from "./+types/cases";
 import { apiHandler, methodNotAllowed } from "./respond.server";
 
 /** GET /api/v1/cases — the caller's organisation's cases, most recently changed first. */
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, context }: Route.LoaderArgs) {
   return apiHandler(async () => {
-    const current = await requireApiUser(request, "case:read");
+    const current = await requireApiUser({ request, context }, "case:read");
     const rows = await listCases(current.organisation.id);
     return Response.json({
       cases: rows.map((c) => ({
