@@ -10,7 +10,7 @@ import { startWorkers } from "~/jobs/workers.server";
 import { action as analyzeAction } from "~/routes/api/v1/analyze";
 import { loader as jobLoader } from "~/routes/api/v1/analyze-job";
 import { ANALYZE_LIMITS, MAX_LISTED_PROBLEMS, MAX_OPEN_ANALYSES } from "~/utils/limits";
-import { demoUser, request, seed } from "./helpers";
+import { demoUser, request, seed, routeArgs } from "./helpers";
 
 /**
  * The analysis API's limits (issue 9, item 2): a request beyond a documented limit is refused at
@@ -40,17 +40,14 @@ afterAll(async () => {
 });
 
 async function analyse(body: string | unknown, who = "engineer") {
-  const res = await analyzeAction({
-    request: request("/api/v1/analyze", { method: "POST", body: typeof body === "string" ? body : JSON.stringify(body), headers: { "Content-Type": "application/json", Authorization: `Bearer ${tokens[who]}` } }),
-    params: {},
-    context: {},
-  } as never);
+  const req = request("/api/v1/analyze", { method: "POST", body: typeof body === "string" ? body : JSON.stringify(body), headers: { "Content-Type": "application/json", Authorization: `Bearer ${tokens[who]}` } });
+  const res = await analyzeAction((await routeArgs(req)) as never);
   const text = await res.text();
   return { status: res.status, text, body: JSON.parse(text) as Record<string, unknown>, headers: res.headers };
 }
 
 async function poll(jobId: string, who = "engineer") {
-  const res = await jobLoader({ request: request(`/api/v1/analyze/jobs/${jobId}`, { headers: { Authorization: `Bearer ${tokens[who]}` } }), params: { jobId }, context: {} } as never);
+  const res = await jobLoader((await routeArgs(request(`/api/v1/analyze/jobs/${jobId}`, { headers: { Authorization: `Bearer ${tokens[who]}` } }), { jobId })) as never);
   return { status: res.status, body: (await res.json()) as Record<string, unknown> };
 }
 

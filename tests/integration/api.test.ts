@@ -23,7 +23,7 @@ import { loader as casesLoader } from "~/routes/api/v1/cases";
 import { loader as notFoundLoader } from "~/routes/api/v1/not-found";
 import { loader as openApiLoader } from "~/routes/api/v1/openapi";
 import { loader as apiDocsLoader } from "~/routes/api-docs";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 const EXAMPLES = ["kf60-tern-wing", "kf60-tern-lifting-line", "kf60-tern-swept-variant", "kf60-tern-masses"] as const;
 const example = (name: (typeof EXAMPLES)[number]) => JSON.parse(readFileSync(`docs/examples/${name}.json`, "utf8")) as Record<string, unknown>;
@@ -47,7 +47,7 @@ type Handler = (args: never) => Promise<Response>;
 async function call(fn: Handler, path: string, init: RequestInit & { token?: string; cookie?: string; params?: Record<string, string> } = {}) {
   const headers = new Headers(init.headers);
   if (init.token) headers.set("Authorization", `Bearer ${init.token}`);
-  const res = await fn({ request: request(path, { ...init, headers, cookie: init.cookie }), params: init.params ?? {}, context: {} } as never);
+  const res = await fn((await routeArgs(request(path, { ...init, headers, cookie: init.cookie }), init.params ?? {})) as never);
   const text = await res.text();
   const type = res.headers.get("Content-Type") ?? "";
   return { status: res.status, headers: res.headers, text, body: type.includes("json") ? (JSON.parse(text) as Record<string, unknown>) : null };

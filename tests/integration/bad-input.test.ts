@@ -18,7 +18,7 @@ import { action as reviewAction, loader as reviewLoader } from "~/routes/cases/r
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { action as programmesAction } from "~/routes/programmes/list";
 import { listKeys } from "~/services/storage.server";
-import { cookieFor, form, request } from "./helpers";
+import { cookieFor, form, request, routeArgs } from "./helpers";
 
 /**
  * The bad-input corpus: for every form and API body, wrong types, missing and extra fields,
@@ -53,7 +53,7 @@ async function snapshot() {
 async function answer(fn: Handler, req: Request, params: Record<string, string> = {}): Promise<{ status: number; text: string }> {
   let out: unknown;
   try {
-    out = await fn({ request: req, params, context: {} } as never);
+    out = await fn((await routeArgs(req, params)) as never);
   } catch (thrown) {
     out = thrown;
   }

@@ -25,7 +25,7 @@ import { listKeys, resetS3Client } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
 import { freePort } from "../setup/global-setup";
 import { RouterContextProvider } from "react-router";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 let dir = "";
 let pgPort = 0;
@@ -45,7 +45,7 @@ async function stopPostgres() {
 /** Runs a loader and returns the Response it answered or threw, whatever it was. */
 async function answer(fn: (args: never) => unknown, req: Request): Promise<Response> {
   try {
-    const out = await fn({ request: req, params: {}, context: {} } as never);
+    const out = await fn((await routeArgs(req, {})) as never);
     if (out instanceof Response) return out;
     return Response.json(out);
   } catch (thrown) {

@@ -45,10 +45,15 @@ export async function scopeOf(req: Request): Promise<RequestScope> {
   return { request: req, context };
 }
 
+/** A loader's or action's arguments as the router hands them, after the root's middleware. */
+export async function routeArgs(req: Request, params: Record<string, string> = {}) {
+  return { ...(await scopeOf(req)), params };
+}
+
 /** Runs a loader or action and returns the Response it threw or returned (redirects and errors are thrown). */
 export async function run(fn: (args: never) => unknown, args: { request: Request; params?: Record<string, string> }): Promise<{ status: number; body: unknown; headers: Headers }> {
   try {
-    const out = await fn({ ...(await scopeOf(args.request)), params: args.params ?? {} } as never);
+    const out = await fn((await routeArgs(args.request, args.params)) as never);
     return normalise(out);
   } catch (thrown) {
     return normalise(thrown);

@@ -6,7 +6,7 @@ import type { EnvelopeData } from "~/domain/step-data";
 import { loader as windowLoader } from "~/routes/api/case-load-cases";
 import { action as envelopeAction, loader as envelopeLoader } from "~/routes/cases/envelope";
 import { saveStep } from "~/services/case-steps.server";
-import { cookieFor, demoUser, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, request, run, seed, routeArgs } from "./helpers";
 
 // A case file larger than the whole-grid form: the page gets a window of rows, the grid asks for
 // the rest by range, and edits of single rows are saved on the revision they were made on.
@@ -48,7 +48,7 @@ describe("a large case file's load cases", () => {
   });
 
   it("a range of rows is answered in the case's units, with the revision and the total", async () => {
-    const res = (await windowLoader({ request: request(`/api/cases/${caseId}/load-cases?offset=2990&limit=100`, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+    const res = (await windowLoader((await routeArgs(request(`/api/cases/${caseId}/load-cases?offset=2990&limit=100`, { cookie }), { caseId })) as never)) as Response;
     const body = (await res.json()) as { revision: number; total: number; rows: { id: string; altitude: string; weight: string }[] };
     expect(body.total).toBe(TOTAL);
     expect(body.revision).toBe((await stored()).revision);
@@ -56,9 +56,9 @@ describe("a large case file's load cases", () => {
     expect(body.rows[0]!.altitude).toBe("2990");
     // Weight shown as a mass: 40 000 N / g0 (9.80665 m/s², ISO 80000-3 standard gravity) = 4078.9 kg.
     expect(Number(body.rows[0]!.weight)).toBeCloseTo(40000 / 9.80665, 6);
-    const tooMany = (await windowLoader({ request: request(`/api/cases/${caseId}/load-cases?offset=0&limit=100000`, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+    const tooMany = (await windowLoader((await routeArgs(request(`/api/cases/${caseId}/load-cases?offset=0&limit=100000`, { cookie }), { caseId })) as never)) as Response;
     expect(((await tooMany.json()) as { rows: unknown[] }).rows).toHaveLength(500);
-    const bad = (await windowLoader({ request: request(`/api/cases/${caseId}/load-cases?offset=-1`, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+    const bad = (await windowLoader((await routeArgs(request(`/api/cases/${caseId}/load-cases?offset=-1`, { cookie }), { caseId })) as never)) as Response;
     expect(bad.status).toBe(400);
   });
 

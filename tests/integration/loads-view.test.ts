@@ -8,7 +8,7 @@ import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { computeQueuedResults } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
-import { cookieFor, demoUser, request, seed } from "./helpers";
+import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
 
 // The loads page of a large case file gets the envelope, the root loads of the most critical cases
 // and the case on the plots, not the whole result document (which stays the results API's).
@@ -28,7 +28,7 @@ beforeAll(async () => {
   await computeQueuedResults(caseId);
 }, 300_000);
 
-const get = async (path: string, loader: typeof loadsLoader) => (await loader({ request: request(path, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+const get = async (path: string, loader: typeof loadsLoader) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
 
 describe("the loads page's view of a large case file", () => {
   it("sends the envelope, 500 root-load rows with every extreme case among them, and the critical case with its stations", async () => {

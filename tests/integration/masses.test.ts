@@ -19,7 +19,7 @@ import { action as massesAction, loader as massesLoader } from "~/routes/cases/m
 import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase } from "~/services/analysis.server";
-import { cookieFor, form, request, run, seed } from "./helpers";
+import { cookieFor, form, request, run, seed, routeArgs } from "./helpers";
 
 const G0 = 9.80665;
 let caseId = "";
@@ -168,7 +168,7 @@ describe("a case with masses, mass cases and a balance", () => {
   });
 
   it("breaks a case's loads into aerodynamic load and relief, for the loads page: net = aerodynamic − relief", async () => {
-    const res = (await caseLoadsLoader({ request: request(`/api/cases/${caseId}/case-loads?case=W1-A`, { cookie: checker }), params: { caseId }, context: {} } as never)) as Response;
+    const res = (await caseLoadsLoader((await routeArgs(request(`/api/cases/${caseId}/case-loads?case=W1-A`, { cookie: checker }), { caseId })) as never)) as Response;
     expect(res.status).toBe(200);
     const b = (await res.json()) as { massCase: string; nz: number; y: number[]; aero: Record<string, number[]>; relief: Record<string, number[]>; net: Record<string, number[]> };
     expect(b.massCase).toBe("MTOW-full");

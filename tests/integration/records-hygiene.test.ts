@@ -9,7 +9,7 @@ import { action as importAction } from "~/routes/api/v1/case-import";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { action as distributionAction } from "~/routes/cases/distribution";
 import { toCsv } from "~/utils/csv";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 /*
  * Issue 9, item 11: a disposition names only a load case the envelope has, and no CSV the app
@@ -65,10 +65,10 @@ describe("CSV exports", () => {
     const file = JSON.parse(readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as { cases: { id: string }[] };
     file.cases = file.cases.slice(0, IDS.length).map((c, i) => ({ ...c, id: IDS[i]! }));
     const headers = { Authorization: `Bearer ${token}`, "Content-Type": "application/json" };
-    const imported = await importAction({ request: request("/api/v1/cases/import", { method: "POST", headers, body: JSON.stringify({ programmeId: programme!.id, reference: "TN-CSV-1", case: file }) }), params: {}, context: {} } as never);
+    const imported = await importAction((await routeArgs(request("/api/v1/cases/import", { method: "POST", headers, body: JSON.stringify({ programmeId: programme!.id, reference: "TN-CSV-1", case: file }) }), {})) as never);
     expect(imported.status).toBe(201);
     const id = ((await imported.json()) as { id: string }).id;
-    const res = await resultsLoader({ request: request(`/api/v1/cases/${id}/results?format=csv`, { headers: { Authorization: `Bearer ${token}` } }), params: { caseId: id }, context: {} } as never);
+    const res = await resultsLoader((await routeArgs(request(`/api/v1/cases/${id}/results?format=csv`, { headers: { Authorization: `Bearer ${token}` } }), { caseId: id })) as never);
     expect(res.status).toBe(200);
     const rows = Papa.parse<string[]>((await res.text()).trim(), { newline: "\n" }).data.slice(1);
     const names = [...new Set(rows.map((r) => r[0]!))];

@@ -26,7 +26,7 @@ import { action as reviewAction } from "~/routes/cases/review";
 import { runRerun } from "~/services/reproduction.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 /*
  * The issued report as evidence, read from outside with poppler (pdftotext, pdfdetach): what it
@@ -54,7 +54,7 @@ async function issue() {
   const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
   await generateReport(row.id);
   const [issued] = await db.select().from(reports).where(eq(reports.id, row.id));
-  const res = (await pdfLoader({ request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id }, context: {} } as never)) as Response;
+  const res = (await pdfLoader((await routeArgs(request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), { reportId: row.id })) as never)) as Response;
   expect(res.status).toBe(200);
   const bytes = new Uint8Array(await res.arrayBuffer());
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "sw-evidence-"));
@@ -107,7 +107,7 @@ describe("the input snapshot travels with the report", () => {
     fs.mkdirSync(out);
     execFileSync("pdfdetach", ["-saveall", "-o", out, first.file]);
     const attached = fs.readFileSync(path.join(out, `${stem}.case.json`));
-    const res = (await exportLoader({ request: request(`/api/v1/cases/${caseId}/export`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+    const res = (await exportLoader((await routeArgs(request(`/api/v1/cases/${caseId}/export`, { cookie: cookies.engineer }), { caseId })) as never)) as Response;
     expect(res.status).toBe(200);
     const exportBytes = new Uint8Array(await res.arrayBuffer());
     expect(sha(attached)).toBe(sha(exportBytes));
@@ -128,7 +128,7 @@ describe("the input snapshot travels with the report", () => {
 
 type Snapshot = { exchange: CaseFileInput; result: CaseResult; sensitivity: RuleSensitivity; spanwise: SpanwiseComparison[] };
 const json = async (loader: (args: never) => unknown, path: string) => {
-  const res = (await loader({ request: request(path, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+  const res = (await loader((await routeArgs(request(path, { cookie: cookies.engineer }), { caseId })) as never)) as Response;
   expect(res.status).toBe(200);
   return res.json();
 };
@@ -246,7 +246,7 @@ describe("richer section data travel with the report too", () => {
     fs.mkdirSync(out);
     execFileSync("pdfdetach", ["-saveall", "-o", out, second.file]);
     const attached = fs.readFileSync(path.join(out, `${stem}.sections.json`));
-    const res = (await exportLoader({ request: request(`/api/v1/cases/${caseId}/export?part=sections`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response;
+    const res = (await exportLoader((await routeArgs(request(`/api/v1/cases/${caseId}/export?part=sections`, { cookie: cookies.engineer }), { caseId })) as never)) as Response;
     expect(res.status).toBe(200);
     expect(Buffer.from(attached).equals(Buffer.from(new Uint8Array(await res.arrayBuffer())))).toBe(true);
     // The command line the report prints reads them, and the result says it used them.
@@ -264,7 +264,7 @@ describe("report to report", () => {
   let massBefore = 0;
   let massAfter = 0;
   const compare = async (query: string) => {
-    const res = await compareLoader({ request: request(`/cases/${caseId}/reports/compare?${query}`, { cookie: cookies.checker }), params: { caseId }, context: {} } as never);
+    const res = await compareLoader((await routeArgs(request(`/cases/${caseId}/reports/compare?${query}`, { cookie: cookies.checker }), { caseId })) as never);
     return res as Awaited<ReturnType<typeof compareLoader>>;
   };
 
@@ -324,7 +324,7 @@ describe("report to report", () => {
   });
 
   it("gives the comparison of any two versions as a PDF that says it is not a report", async () => {
-    const res = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${third.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
+    const res = (await comparisonPdfLoader((await routeArgs(request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${third.row.id}`, { cookie: cookies.quality }), { caseId })) as never)) as Response;
     expect(res.status).toBe(200);
     expect(res.headers.get("Content-Type")).toBe("application/pdf");
     const file = path.join(third.dir, "comparison.pdf");
@@ -335,7 +335,7 @@ describe("report to report", () => {
     expect(text).toContain("not a report, unsigned");
     expect(text).toContain("structureKg");
     expect(text).toMatch(/cpMinTable/);
-    const refused = (await comparisonPdfLoader({ request: request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Response;
+    const refused = (await comparisonPdfLoader((await routeArgs(request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), { caseId })) as never)) as Response;
     expect(refused.status).toBe(400);
   });
 });
@@ -372,7 +372,7 @@ describe("reproduction: re-run this report", () => {
     expect(done.differing).toBe(0);
     expect(done.engineVersion).toBe(ENGINE_VERSION);
     // The reports page says so, with both engine versions.
-    const page = (await reportsLoader({ request: request(`/cases/${caseId}/reports`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never)) as Awaited<ReturnType<typeof reportsLoader>>;
+    const page = (await reportsLoader((await routeArgs(request(`/cases/${caseId}/reports`, { cookie: cookies.quality }), { caseId })) as never)) as Awaited<ReturnType<typeof reportsLoader>>;
     const shown = page.reruns[first.row.id]!;
     expect(shown).toMatchObject({ status: "done", identical: true, engineVersion: ENGINE_VERSION, issuedEngine: first.row.engineVersion });
     expect(page.rerunning).toBe(false);

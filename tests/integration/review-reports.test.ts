@@ -22,7 +22,7 @@ import { setMemberRoles } from "~/services/organisation.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
 import { listKeys, resetS3Client } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 let caseId = "";
 let orgId = "";
@@ -221,7 +221,7 @@ describe("reports", { timeout: 240_000 }, () => {
     const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
     const row = await createReportRow({ caseId, actor: { id: erin!.id, email: erin!.email, name: erin!.name } });
     // What the reports page polls: the stage in words beside the bar, queued until a worker takes it.
-    const polled = async () => ((await ((await caseReportsLoader({ request: request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.engineer }), params: { caseId }, context: {} } as never)) as Response).json()) as { reports: { id: string; status: ReportStatus; progressNote: string }[] }).reports.find((r) => r.id === row.id)!;
+    const polled = async () => ((await ((await caseReportsLoader((await routeArgs(request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.engineer }), { caseId })) as never)) as Response).json()) as { reports: { id: string; status: ReportStatus; progressNote: string }[] }).reports.find((r) => r.id === row.id)!;
     const queued = await polled();
     expect(reportStage(queued.status, queued.progressNote)).toBe("Queued");
     expect(queued.progressNote).toMatch(/waiting for the report worker/);
@@ -244,7 +244,7 @@ describe("reports", { timeout: 240_000 }, () => {
     const download = await run(pdfLoader, { request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id } });
     expect(download.status).toBe(200);
     expect(download.headers.get("Content-Type")).toBe("application/pdf");
-    const res = await pdfLoader({ request: request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), params: { reportId: row.id }, context: {} } as never);
+    const res = await pdfLoader((await routeArgs(request(`/api/v1/reports/${row.id}/pdf`, { cookie: cookies.quality }), { reportId: row.id })) as never);
     const bytes = new Uint8Array(await (res as Response).arrayBuffer());
     expect(sha(bytes)).toBe(issued!.sha256);
     const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "sw-pdf-")), "r.pdf");
@@ -267,7 +267,7 @@ describe("reports", { timeout: 240_000 }, () => {
     expect(byEngineer.status).toBe(403);
     const ok = await run(reportsAction, { request: request(`/cases/${caseId}/reports`, { method: "POST", cookie: cookies.quality, body: form({ intent: "release", reportId: r!.id, password: demoUser("quality").password }) }), params: { caseId } });
     expect(ok.status).toBe(200);
-    const res = await caseReportsLoader({ request: request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.quality }), params: { caseId }, context: {} } as never);
+    const res = await caseReportsLoader((await routeArgs(request(`/api/v1/cases/${caseId}/reports`, { cookie: cookies.quality }), { caseId })) as never);
     const json = (await (res as Response).json()) as { reports: { status: string; sha256: string; signatures: { name: string; meaning: string }[] }[] };
     expect(json.reports[0]).toMatchObject({ status: "released", sha256: r!.sha256 });
     expect(json.reports[0]!.signatures.map((s) => `${s.name}:${s.meaning}`)).toEqual(expect.arrayContaining(["Marek Oduya:checked", "Marek Oduya:approved for issue", "Priya Lindqvist:released"]));
@@ -275,14 +275,14 @@ describe("reports", { timeout: 240_000 }, () => {
 
   it("keeps the outsider away from the report and its PDF", async () => {
     const [r] = await db.select().from(reports).where(eq(reports.caseId, caseId));
-    const res = (await pdfLoader({ request: request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.outsider }), params: { reportId: r!.id }, context: {} } as never)) as Response;
+    const res = (await pdfLoader((await routeArgs(request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.outsider }), { reportId: r!.id })) as never)) as Response;
     expect(res.status).toBe(404);
     expect(res.headers.get("Content-Type")).not.toBe("application/pdf");
   });
 
   it("verifies an uploaded PDF against the issued ones", async () => {
     const [r] = await db.select().from(reports).where(eq(reports.caseId, caseId));
-    const res = (await pdfLoader({ request: request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.quality }), params: { reportId: r!.id }, context: {} } as never)) as Response;
+    const res = (await pdfLoader((await routeArgs(request(`/api/v1/reports/${r!.id}/pdf`, { cookie: cookies.quality }), { reportId: r!.id })) as never)) as Response;
     const bytes = new Uint8Array(await res.arrayBuffer());
     const check = async (b: Uint8Array) => {
       const body = new FormData();

@@ -9,7 +9,7 @@ import { startWorkers } from "~/jobs/workers.server";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { analysisInputHash, exportCase, sweepProgress } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
-import { cookieFor, demoUser, request, seed } from "./helpers";
+import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
 
 afterAll(async () => {
   await stopBoss();
@@ -36,7 +36,7 @@ beforeAll(async () => {
   caseId = created.id;
 });
 
-const ask = async () => (await resultsLoader({ request: request(`/api/v1/cases/${caseId}/results`, { cookie }), params: { caseId }, context: {} } as never)) as Response;
+const ask = async () => (await resultsLoader((await routeArgs(request(`/api/v1/cases/${caseId}/results`, { cookie }), { caseId })) as never)) as Response;
 
 describe("large sweeps go through the job queue", () => {
   it("answers 202 while a worker solves the sweep, then the stored result, equal to the engine's", async () => {
