@@ -1,6 +1,7 @@
 import { useEffect } from "react";
-import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { ErrorPanel } from "./components/ui/error-panel";
 import { useNonce } from "./utils/csp";
 import "./app.css";
 import { requestReads } from "./auth/request-context.server";
@@ -49,36 +50,5 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
         <a href="/">Back to the start page</a>
       </p>
     </main>
-  );
-}
-
-/** Shared by the root and the signed-in layout: status-specific words, never a stack trace. */
-export function ErrorPanel({ error }: { error: unknown }) {
-  let title = "Something went wrong";
-  let detail = "The request could not be completed. If it keeps happening, tell your administrator the time it happened.";
-  if (isRouteErrorResponse(error)) {
-    const message = typeof error.data === "object" && error.data && "message" in error.data ? String(error.data.message) : typeof error.data === "string" ? error.data : "";
-    if (error.status === 404) {
-      title = "Not found";
-      detail = message || "There is no page at this address, or you have no access to it.";
-    } else if (error.status === 403) {
-      title = "Not allowed";
-      detail = message || "Your role does not allow this.";
-    } else if (error.status === 401) {
-      title = "Sign-in needed";
-      detail = message || "Sign in to continue.";
-    } else if (error.status === 503) {
-      title = "Temporarily unavailable";
-      detail = message || detail;
-    } else {
-      title = `Error ${error.status}`;
-      detail = message || error.statusText || detail;
-    }
-  }
-  return (
-    <div role="alert" className="mt-6 rounded border border-line bg-surface p-5">
-      <h1 className="text-xl font-semibold">{title}</h1>
-      <p className="mt-2 text-ink-muted">{detail}</p>
-    </div>
   );
 }

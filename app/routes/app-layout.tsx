@@ -1,7 +1,7 @@
 import { Form, NavLink, Outlet, useRouteLoaderData } from "react-router";
 import { requireUser } from "~/auth/auth.server";
 import { hasPermission, ROLE_LABELS, type Permission } from "~/domain/permissions";
-import { ErrorPanel } from "~/root";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/app-layout";
 
 const NAV: { to: string; label: string; needs: Permission }[] = [

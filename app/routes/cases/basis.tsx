@@ -15,6 +15,7 @@ import { stepData } from "~/services/case-steps.server";
 import { vbChecks } from "~/services/envelope.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/basis";
 import { BasisChecksPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel } from "./basis.panels";
 import { BASIS_QUANTITIES, basisFormValues, BasisFormSchema } from "./basis.schema";
@@ -74,4 +75,8 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
 
 export function meta() {
   return [{ title: "Basis · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

@@ -3,6 +3,7 @@ import { requireCase } from "~/auth/case-access.server";
 import { STEPS } from "~/domain/steps";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { StatusBadge } from "~/components/ui/status-badge";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/case-layout";
 
 /** Case header and step rail; each step route checks access again in its own loader. */
@@ -72,4 +73,19 @@ export default function CaseLayout({ loaderData }: Route.ComponentProps) {
 
 function stepClass({ isActive, isPending }: { isActive: boolean; isPending: boolean }) {
   return `block whitespace-nowrap rounded border px-3 py-1.5 text-sm text-ink no-underline ${isActive ? "border-accent bg-accent-soft" : isPending ? "border-line-strong bg-canvas" : "border-transparent hover:bg-surface"}`;
+}
+
+/**
+ * The case itself could not be shown (not found, not this organisation's, no access): there is no
+ * header or step rail to draw, so the way back to the list stands in for them.
+ */
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return (
+    <div>
+      <nav aria-label="Breadcrumb" className="mb-1 text-sm text-ink-muted">
+        <Link to={href("/cases")}>Cases</Link>
+      </nav>
+      <ErrorPanel error={error} />
+    </div>
+  );
 }

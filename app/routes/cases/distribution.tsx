@@ -10,6 +10,7 @@ import { caseUnits } from "~/services/case-steps.server";
 import { distributionStep } from "~/services/distribution.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/distribution";
 import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
@@ -72,4 +73,8 @@ export default function DistributionRoute({ loaderData, actionData }: Route.Comp
 
 export function meta() {
   return [{ title: "Distribution · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

@@ -16,6 +16,7 @@ import { regeneratedCases, vnView } from "~/services/envelope.server";
 import { editLoadCases } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { accepted, answer, parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/envelope";
 import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, VnPanel } from "./envelope.panels";
 import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues, MAX_EDITED_ROWS, WHOLE_GRID_LOAD_CASES } from "./envelope.schema";
@@ -121,4 +122,8 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
 
 export function meta() {
   return [{ title: "Envelope · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

@@ -14,6 +14,7 @@ import { loadsPageInfo } from "~/services/case-loads.server";
 import { caseUnits } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/loads";
 import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RootLoadsTable, useCaseResults } from "./loads.panels";
 import { LoadsFormSchema } from "./loads.schema";
@@ -90,4 +91,8 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
 
 export function meta() {
   return [{ title: "Loads · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

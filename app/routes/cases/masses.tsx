@@ -12,6 +12,7 @@ import { caseUnits, stepData } from "~/services/case-steps.server";
 import { effectiveMasses, itemsOutsideWing, massesOverview } from "~/services/masses.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { answer, parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/masses";
 import { BalancePanel, ItemsPanel, MassCasesPanel, MassesDrawingPanel, MassRowErrors, SavedMassCasesPanel, StructurePanel } from "./masses.panels";
 import { MassesFormSchema, massesFormValues, massesToSI } from "./masses.schema";
@@ -96,4 +97,8 @@ export default function MassesRoute({ loaderData, actionData }: Route.ComponentP
 
 export function meta() {
   return [{ title: "Masses · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

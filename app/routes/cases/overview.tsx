@@ -4,6 +4,7 @@ import { PageHeader, Panel } from "~/components/ui/page-header";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { caseOverview } from "~/services/case-overview.server";
 import { formatUtc } from "~/utils/format";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
@@ -88,4 +89,8 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
 
 export function meta({ loaderData }: Route.MetaArgs) {
   return [{ title: `${loaderData?.case.reference ?? "Case"} · Spanwright` }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

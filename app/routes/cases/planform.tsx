@@ -13,6 +13,7 @@ import { caseUnits, stepData } from "~/services/case-steps.server";
 import { planformGeometry } from "~/services/planform.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/planform";
 import { DrawingPanel, GeometryPanel, PanelEntryPanel, StationsPanel, useLivePreview } from "./planform.panels";
 import { PlanformFormSchema, planformFormValues, planformToSI } from "./planform.schema";
@@ -82,4 +83,8 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
 
 export function meta() {
   return [{ title: "Planform · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

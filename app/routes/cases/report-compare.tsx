@@ -4,6 +4,7 @@ import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { DomainError } from "~/domain/errors";
 import { compareReportVersions } from "~/services/report-comparison.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/report-compare";
 import { ComparisonTables, EnvelopeOverlays, VersionsCompared } from "./report-compare.panels";
 
@@ -78,4 +79,8 @@ function VersionSelect({ name, label, versions, value }: { name: string; label: 
 
 export function meta() {
   return [{ title: "Compare report versions · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

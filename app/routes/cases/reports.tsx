@@ -9,6 +9,7 @@ import { signatureOutcomeMessage } from "~/domain/sso";
 import { latestVersionChanges, listReports, requestReport } from "~/services/reports.server";
 import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
 import { latestReruns, requestRerun } from "~/services/reproduction.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/reports";
 import { isPending, isRerunPending, ReportPanel, RequestReportForm, useReportProgress, useRerunProgress, VersionChangesPanel } from "./reports.panels";
 import { ReportsActionSchema } from "./reports.schema";
@@ -91,4 +92,8 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
 
 export function meta() {
   return [{ title: "Reports · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

@@ -6,6 +6,7 @@ import { Alert, PageHeader } from "~/components/ui/page-header";
 import { signatureOutcomeMessage } from "~/domain/sso";
 import { addComment, caseSignatures, returnStep, reviewState } from "~/services/review.server";
 import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/review";
 import { CaseApprovalPanel, StepReviewPanel } from "./review.panels";
 import { ReviewActionSchema } from "./review.schema";
@@ -83,4 +84,8 @@ export default function ReviewRoute({ loaderData, actionData }: Route.ComponentP
 
 export function meta() {
   return [{ title: "Review · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }

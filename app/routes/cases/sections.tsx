@@ -14,6 +14,7 @@ import { caseUnits, stepData } from "~/services/case-steps.server";
 import { receiveSectionCsv, sectionsFromUpload, sectionsWithoutPressures } from "~/services/uploads.server";
 import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionRefusal } from "~/utils/form-data";
 import { accepted, answer, refused } from "~/utils/http.server";
+import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/sections";
 import { previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
 import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections.schema";
@@ -111,4 +112,8 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
 
 export function meta() {
   return [{ title: "Sections · Spanwright" }];
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
 }
