@@ -11,7 +11,7 @@ export const MAX_SECTION_ROWS = 60;
 export const MAX_LOAD_CASES = 100_000;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
-const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be greater than 0` });
+const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be positive` });
 
 export const CATEGORIES = ["part25", "part23-normal", "part23-utility", "part23-acrobatic", "part23-commuter"] as const;
 export type Category = (typeof CATEGORIES)[number];

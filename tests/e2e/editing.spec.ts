@@ -99,13 +99,15 @@ test("a grid message goes once its cell holds another value, typed or pasted", a
   await page.goto(`/cases/${caseId}/planform`);
   await hydrated(page);
   const cell = (r: number, c: number) => page.locator(`#stations-${r}-${c}`);
-  // The server's message about a cell goes when the cell is changed, before the next save.
-  await cell(2, 2).fill("-0.95");
+  // The server's message about a cell goes when the cell is changed, before the next save (the
+  // order of the stations is checked on the server only).
+  const outOfOrder = "Station 3: y must be greater than the station before (y increases from root to tip)";
+  await cell(2, 0).fill("3");
   await page.getByRole("button", { name: "Save planform" }).click();
-  await expect(page.getByText("Chord must be greater than 0", { exact: true })).toBeVisible();
-  await cell(2, 2).fill("0.95");
-  await expect(page.getByText("Chord must be greater than 0", { exact: true })).toHaveCount(0);
-  await expect(cell(2, 2)).toHaveAttribute("aria-invalid", "false");
+  await expect(page.getByText(outOfOrder, { exact: true })).toBeVisible();
+  await cell(2, 0).fill("8.7");
+  await expect(page.getByText(outOfOrder, { exact: true })).toHaveCount(0);
+  await expect(cell(2, 0)).toHaveAttribute("aria-invalid", "false");
 
   // The browser's own messages about an empty row go when a row is pasted into it.
   await page.getByRole("button", { name: "Add row" }).click();
@@ -119,4 +121,21 @@ test("a grid message goes once its cell holds another value, typed or pasted", a
   await expect(cell(3, 2)).toHaveValue("0.8");
   await expect(page.getByText("Chord is required")).toHaveCount(0);
   await expect(page.getByText("Leading edge x is required")).toHaveCount(0);
+});
+
+test("a negative weight is refused as not positive, naming the field, and nothing is saved", async ({ page }) => {
+  await signIn(page, "engineer");
+  const caseId = await copyOfDemoCase(page, "E2E-EDIT-5");
+  await typeDemoBasis(page, caseId);
+  await page.reload();
+  await hydrated(page);
+  await page.getByLabel("Max take-off [kg]").fill("-3200");
+  await page.getByRole("button", { name: "Save basis" }).click();
+  const field = page.getByLabel("Max take-off [kg]");
+  await expect(page.getByText("Maximum design take-off weight must be positive", { exact: true })).toBeVisible();
+  await expect(field).toHaveAttribute("aria-invalid", "true");
+  await expect(page.getByText(/must be a number/)).toHaveCount(0);
+  await expect(rail(page, /Basis/)).toContainText("rev. 1");
+  await page.goto(`/cases/${caseId}/basis`);
+  await expect(page.getByLabel("Max take-off [kg]")).toHaveValue(String(DEMO_CASE_INPUTS.basis.mtow));
 });

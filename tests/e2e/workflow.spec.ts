@@ -77,7 +77,7 @@ test("an engineer builds a case from nothing and reads the critical root bending
   await page.getByLabel("Reference axis at root [chord fraction]").fill("0.35");
   await page.getByLabel("Reference axis at tip [chord fraction]").fill("0.35");
   await page.getByRole("button", { name: "Save planform" }).click();
-  await expect(page.getByText("Chord must be greater than 0").first()).toBeVisible();
+  await expect(page.getByText("Chord must be positive").first()).toBeVisible();
   await cell(2, 2).fill(String(rows[2]!.chord));
   await page.getByRole("button", { name: "Save planform" }).click();
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();

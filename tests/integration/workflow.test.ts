@@ -46,7 +46,7 @@ describe("bad input is refused with the field named, and nothing is written", ()
     const before = await counts();
     const res = await run(planformAction, { request: post(`/cases/${caseId}/planform`, planformFields([["0", "0", "2", "0"], ["8", "0.5", "-1", "0"]])), params: { caseId } });
     expect(res.status).toBe(400);
-    expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors["stations.1.chord"]?.[0]).toMatch(/Chord must be greater than 0/);
+    expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors["stations.1.chord"]?.[0]).toMatch(/Chord must be positive/);
     expect(await counts()).toEqual(before);
   });
 

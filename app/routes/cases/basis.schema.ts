@@ -1,28 +1,31 @@
 import { z } from "zod";
 import { convertFields, numberInput, numberListInput, optionalNumberInput, tidy } from "~/domain/form-values";
-import { CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import { BasisSchema, CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
 import type { Quantity, UnitSystem } from "~/domain/units";
 
-/** The basis form as typed, in the person's display units; the action converts it to SI. */
+// The stored basis's checks of signs and ratios hold in any unit, so the form says them too.
+const rule = BasisSchema.shape;
+
+/** The basis form as typed, in the person's display units; the action converts it to SI (and checks the SI ranges). */
 export const BasisFormSchema = z.strictObject({
   revision: numberInput("Revision"),
   units: z.enum(["SI", "US"], "Choose SI or US customary units"),
   category: z.enum(CATEGORIES, "Choose the category of the certification basis"),
   regulations: z.string().trim().min(3, "List the applicable regulation references").max(2000, "At most 2000 characters"),
-  mtow: numberInput("Maximum design take-off weight"),
-  mzfw: numberInput("Maximum zero-fuel weight"),
-  minWeight: numberInput("Minimum design weight"),
-  vs1: numberInput("VS1"),
-  va: numberInput("VA"),
-  vb: optionalNumberInput("VB"),
-  mlw: optionalNumberInput("Maximum landing weight"),
-  zmo: optionalNumberInput("Maximum operating altitude"),
-  vc: numberInput("VC"),
-  vd: numberInput("VD"),
+  mtow: numberInput("Maximum design take-off weight", rule.mtow),
+  mzfw: numberInput("Maximum zero-fuel weight", rule.mzfw),
+  minWeight: numberInput("Minimum design weight", rule.minWeight),
+  vs1: numberInput("VS1", rule.vs1),
+  va: numberInput("VA", rule.va),
+  vb: optionalNumberInput("VB", rule.vb.unwrap()),
+  mlw: optionalNumberInput("Maximum landing weight", rule.mlw.unwrap()),
+  zmo: optionalNumberInput("Maximum operating altitude", rule.zmo.unwrap()),
+  vc: numberInput("VC", rule.vc),
+  vd: numberInput("VD", rule.vd),
   altitudes: numberListInput("Altitudes"),
-  wingArea: numberInput("Wing reference area"),
-  clMax: numberInput("Aircraft CLmax"),
-  clMaxNegative: numberInput("Negative CLmax"),
+  wingArea: numberInput("Wing reference area", rule.wingArea),
+  clMax: numberInput("Aircraft CLmax", rule.clMax),
+  clMaxNegative: numberInput("Negative CLmax", rule.clMaxNegative),
 });
 
 export const BASIS_QUANTITIES = {

@@ -1,20 +1,21 @@
 import { z } from "zod";
-import { numberInput, tidy } from "~/domain/form-values";
-import { COMPRESSIBILITY_RULES, SPANWISE_METHODS, type EnvelopeData } from "~/domain/step-data";
+import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { COMPRESSIBILITY_RULES, EnvelopeSchema, LoadCaseSchema, SPANWISE_METHODS, type EnvelopeData } from "~/domain/step-data";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
 const G0 = 9.80665;
 
-const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
+// The stored envelope's checks that hold in any unit (Mach, degrees, load factor, signs, counts), said in the form too; the altitude's range is in metres, checked on the SI value.
+const rule = { ...EnvelopeSchema.shape, ...LoadCaseSchema.shape };
 const checkbox = z.preprocess((v) => v === true || v === "on" || v === "true", z.boolean());
 
 const method = {
   revision: numberInput("Revision"),
   compressibility: z.enum(COMPRESSIBILITY_RULES, "Choose a compressibility rule"),
   spanwise: z.enum(SPANWISE_METHODS, "Choose a spanwise solver"),
-  stations: numberInput("Output stations"),
+  stations: numberInput("Output stations", rule.stations),
   /** Vortex-lattice strips per semispan; empty for the engine's default (60). */
-  strips: optionalNumber("Strips"),
+  strips: optionalNumberInput("Strips", rule.strips.unwrap()),
 };
 
 /** One load case as typed into the grid, in display units (altitude, weight as a mass, tail load as a force). */
@@ -22,13 +23,13 @@ const caseRow = z.strictObject({
   id: z.string().trim(),
   kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
   rule: z.string().default(""),
-  mach: numberInput("Mach"),
+  mach: numberInput("Mach", rule.mach),
   altitude: numberInput("Altitude"),
-  alpha: optionalNumber("Angle of attack"),
-  weight: optionalNumber("Weight"),
-  nz: optionalNumber("Load factor"),
+  alpha: optionalNumberInput("Angle of attack", rule.alpha.unwrap()),
+  weight: optionalNumberInput("Weight", rule.weight.unwrap()),
+  nz: optionalNumberInput("Load factor", rule.nz.unwrap()),
   massCase: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(40).optional()),
-  tailLoad: optionalNumber("Tail load"),
+  tailLoad: optionalNumberInput("Tail load"),
   excluded: checkbox,
 });
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
-import type { MassesData } from "~/domain/step-data";
+import { BalanceSchema, MassCaseSchema, MassesSchema, MassItemSchema, type MassesData } from "~/domain/step-data";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
 /**
@@ -17,16 +17,22 @@ export function itemIdOfFillKey(key: string): string {
 
 const text = (max: number) => z.string().max(max, `At most ${max} characters`).default("");
 
+// The stored masses' checks that hold in any unit (signs, fill factors, the Cm increment), said in the form too.
+const item = MassItemSchema.shape;
+const massCase = MassCaseSchema.shape;
+// The form takes the centre of gravity in % MAC; the stored fraction's range, in those terms.
+const cgPercent = z.number().refine((v) => v >= -50 && v <= 150, { message: "The centre of gravity lies between −50 and 150 % MAC" });
+
 /** The masses form as typed, in the person's display units (CG in % MAC); the action converts it to SI. */
 export const MassesFormSchema = z.strictObject({
   revision: numberInput("Revision"),
-  structureKg: numberInput("Semispan structural mass"),
+  structureKg: numberInput("Semispan structural mass", MassesSchema.shape.structureKg),
   items: z
     .array(
       z.strictObject({
         id: text(40),
         label: text(80),
-        kg: numberInput("Mass"),
+        kg: numberInput("Mass", item.kg),
         x: numberInput("x of the centre of gravity"),
         y: optionalNumberInput("y"),
         yFrom: optionalNumberInput("y from"),
@@ -40,15 +46,15 @@ export const MassesFormSchema = z.strictObject({
       z.strictObject({
         id: text(40),
         label: text(80),
-        weight: optionalNumberInput("Weight"),
-        cg: optionalNumberInput("Centre of gravity"),
-        fill: z.record(z.string().max(80), optionalNumberInput("Fill factor")).default({}),
+        weight: optionalNumberInput("Weight", massCase.weight.unwrap()),
+        cg: optionalNumberInput("Centre of gravity", cgPercent),
+        fill: z.record(z.string().max(80), optionalNumberInput("Fill factor", massCase.fill.unwrap().valueType)).default({}),
       }),
     )
     .max(24, "At most 24 mass cases")
     .default([]),
-  cmBody: optionalNumberInput("Wing–body Cm increment"),
-  tailArm: optionalNumberInput("Tail arm"),
+  cmBody: optionalNumberInput("Wing–body Cm increment", BalanceSchema.shape.cmBody),
+  tailArm: optionalNumberInput("Tail arm", BalanceSchema.shape.tailArm),
   sourceKind: z.enum(["typed", "csv", "import"]).default("typed"),
   sourceFile: text(200),
 }).superRefine((f, ctx) => {

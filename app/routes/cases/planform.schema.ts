@@ -1,15 +1,18 @@
 import { z } from "zod";
 import { numberInput, tidy } from "~/domain/form-values";
-import type { PlanformData } from "~/domain/step-data";
+import { PlanformSchema, PlanformStationSchema, type PlanformData } from "~/domain/step-data";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+
+// The stored planform's checks that hold in any length unit (sign, degrees, chord fraction), said in the form too.
+const station = PlanformStationSchema.shape;
 
 export const PlanformFormSchema = z.strictObject({
   revision: numberInput("Revision"),
   stations: z
-    .array(z.strictObject({ y: numberInput("y"), xLe: numberInput("Leading edge x"), chord: numberInput("Chord"), twist: numberInput("Twist") }))
+    .array(z.strictObject({ y: numberInput("y"), xLe: numberInput("Leading edge x"), chord: numberInput("Chord", station.chord), twist: numberInput("Twist", station.twist) }))
     .min(2, "Give at least two stations: root and tip"),
-  axisRoot: numberInput("Reference axis at the root"),
-  axisTip: numberInput("Reference axis at the tip"),
+  axisRoot: numberInput("Reference axis at the root", PlanformSchema.shape.axisRoot),
+  axisTip: numberInput("Reference axis at the tip", PlanformSchema.shape.axisTip),
 });
 
 /** The saved planform as the form shows it, lengths in the display units (a blank wing of two stations when none is saved). */

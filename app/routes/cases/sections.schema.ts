@@ -1,10 +1,11 @@
 import { z } from "zod";
-import { numberInput, tidy } from "~/domain/form-values";
-import type { PlanformData, SectionsData } from "~/domain/step-data";
+import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { SectionRowSchema, type PlanformData, type SectionsData } from "~/domain/step-data";
 import { keepRicherData } from "~/domain/section-csv";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
-const optionalNumber = (label: string) => z.preprocess((v) => (v === "" || v === null ? undefined : v), numberInput(label).optional());
+// The stored row's checks of the section coefficients (no unit to convert), said in the form too.
+const row = SectionRowSchema.shape;
 
 export const SectionsFormSchema = z.discriminatedUnion("intent", [
   z.strictObject({
@@ -13,13 +14,13 @@ export const SectionsFormSchema = z.discriminatedUnion("intent", [
     rows: z
       .array(
         z.strictObject({
-          y: numberInput("y"),
-          a0: numberInput("a0"),
+          y: numberInput("y", row.y),
+          a0: numberInput("a0", row.a0),
           alphaL0: numberInput("αL0"),
           cmAc: numberInput("cm,ac"),
-          clMax: optionalNumber("clmax"),
-          cpMin: optionalNumber("Cp,min"),
-          cpMinCl: optionalNumber("cl of Cp,min"),
+          clMax: optionalNumberInput("clmax", row.clMax.unwrap()),
+          cpMin: optionalNumberInput("Cp,min", row.cpMin.unwrap()),
+          cpMinCl: optionalNumberInput("cl of Cp,min", row.cpMinCl.unwrap()),
         }),
       )
       .min(1, "Give section data for at least one station"),
