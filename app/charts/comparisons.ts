@@ -1,7 +1,7 @@
 import type { SpanwiseComparison } from "~/domain/comparisons";
 import type { ReportComparison } from "~/domain/report-comparison";
 import type { EnvelopeRow } from "~/engine";
-import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, roundedDataMax, baseOption, line, SERIES_STYLE } from "./theme";
 
 /** A display unit: its symbol and the conversion from SI. */
 export interface DisplayUnit {
@@ -17,7 +17,7 @@ export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit) {
   const base = baseOption(`Running lift of case ${c.caseId} by spanwise method`);
   return {
     ...base,
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
     yAxis: axis(`Running lift [${unit.symbol}]`),
     series: c.ways.flatMap((w) => (w.valid ? [line(SERIES_STYLE[w.way].label, w.y.map((y, i) => [y, unit.scale(w.lift[i]!)] as [number, number]), SERIES_STYLE[w.way])] : [])),
   };
@@ -38,7 +38,7 @@ export function envelopeVersionsOption(
   const pts = (rows: EnvelopeRow[], k: "Max" | "Min") => rows.map((r) => [r.y, unit.scale(r[`${kind}${k}`])] as [number, number]);
   return {
     ...base,
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
     yAxis: axis(`${title} [${unit.symbol}]`),
     series: [
       line(`v${c.to.version} max`, pts(c.envelopes.after, "Max"), SERIES_STYLE.envelopeMax),

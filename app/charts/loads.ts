@@ -1,5 +1,5 @@
 import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, roundedDataMax, baseOption, line, SERIES_STYLE } from "./theme";
 
 export type LoadQuantity = "shear" | "bending" | "torsion";
 
@@ -21,7 +21,7 @@ export function loadsOption(
     ...base,
     // Three legend entries wrap to two rows in the pages' third-width charts: keep the plot below them.
     grid: { ...base.grid, top: 80 },
-    xAxis: axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: "dataMax" }),
+    xAxis: axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: roundedDataMax }),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),
@@ -45,7 +45,7 @@ export function reliefOption(
   return {
     ...base,
     grid: { ...base.grid, top: 80 },
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: "dataMax" }),
+    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.aerodynamic.label, pts(data.aero), SERIES_STYLE.aerodynamic),

@@ -1,3 +1,5 @@
+import { formatNumber } from "~/domain/units";
+
 /**
  * Series styles that never change between pages and the PDF: the three compressibility rules,
  * the solver and Schrenk's approximation each keep one colour and dash style. Colours are from the
@@ -25,6 +27,20 @@ export const SERIES_STYLE = {
 
 export const CHART_FONT = "Source Sans 3, sans-serif";
 
+/**
+ * The round value at or above `v`, on a step of a fifth of v's decade (7.993832 → 8, 8.7 → 8.8,
+ * 0.93 → 0.94, 12.3 → 14), so an axis set to end at its data ends at a value a person reads at once.
+ */
+export function roundUp(v: number): number {
+  if (!Number.isFinite(v) || v === 0) return v;
+  const step = 10 ** Math.floor(Math.log10(Math.abs(v))) / 5;
+  // Rounded to the step's own digits, so 8.8 is not 8.800000000000001.
+  return Number((Math.ceil(v / step - 1e-9) * step).toPrecision(12));
+}
+
+/** An axis maximum that follows the data to the next round value (ECharts calls it with the data's extent). */
+export const roundedDataMax = (extent: { max: number }) => roundUp(extent.max);
+
 /** Axis settings shared by every chart: the name always carries quantity and unit. */
 export function axis(name: string, extra: Record<string, unknown> = {}) {
   return {
@@ -47,7 +63,7 @@ export function baseOption(title: string) {
     textStyle: { fontFamily: CHART_FONT },
     grid: { left: 64, right: 20, top: 62, bottom: 48, containLabel: false },
     legend: { top: 22, left: 0, itemWidth: 18, textStyle: { fontFamily: CHART_FONT, fontSize: 11 } },
-    tooltip: { trigger: "axis" as const, valueFormatter: (v: unknown) => (typeof v === "number" ? v.toPrecision(4) : String(v)) },
+    tooltip: { trigger: "axis" as const, valueFormatter: (v: unknown) => (typeof v === "number" ? formatNumber(v) : String(v)) },
   };
 }
 

@@ -37,9 +37,15 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
       {
         type: "scatter" as const,
         name: "Load cases",
-        data: points.filter((pt) => pt.name !== "S").map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule}` })),
+        // A gust point lies beside a corner of the manoeuvre envelope at the same speed: corners are
+        // named above (below, where nz < 0) and gust points to their right, so no name covers another.
+        data: points
+          .filter((pt) => pt.name !== "S")
+          .map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule}`, label: { position: /^(gust|tuned|flaps)/.test(pt.name) ? ("right" as const) : pt.nz < 0 ? ("bottom" as const) : ("top" as const) } })),
         itemStyle: { color: SERIES_STYLE.solver.color },
         label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "top" as const, fontSize: 10 },
+        // Names still too close (a tuned gust beside Pratt's) move apart; one that still overlaps is left to its tooltip.
+        labelLayout: { moveOverlap: "shiftY" as const, hideOverlap: true },
         tooltip: { formatter: (d: { name: string; value: number[] }) => `${d.name}<br/>V = ${d.value[0]!.toFixed(1)} ${speedUnit.symbol}, n = ${d.value[1]!.toFixed(3)}` },
       },
     ],

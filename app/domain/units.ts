@@ -57,12 +57,30 @@ export function fromSI(system: UnitSystem, q: Quantity, value: number): number {
   return value / UNITS[system][q].factor;
 }
 
-/** Rounds to a sensible number of significant figures for tables and read-outs. */
+/**
+ * Below this size a shown value is the round-off of a zero (a tip's shear summed from opposite
+ * signs, 1.37e-15): far below the smallest quantity any page shows in its own unit.
+ */
+const ROUND_OFF_OF_ZERO = 1e-9;
+
+/**
+ * A value as tables, tooltips and CSV downloads give it: 0 where it is within round-off of zero,
+ * else rounded to `sig` significant figures (a number, so tables still sort by it).
+ */
+export function roundForDisplay(value: number, sig = 5): number {
+  if (!Number.isFinite(value)) return value;
+  if (Math.abs(value) < ROUND_OFF_OF_ZERO) return 0;
+  return Number(value.toPrecision(sig));
+}
+
+/** Rounds to a sensible number of significant figures for tables and read-outs; round-off of zero is "0". */
 export function formatNumber(value: number | null | undefined, sig = 4): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  if (value === 0) return "0";
+  if (roundForDisplay(value, sig) === 0) return "0";
   const digits = Math.max(0, sig - 1 - Math.floor(Math.log10(Math.abs(value))));
-  return value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(digits, 6), minimumFractionDigits: 0 }).replace(/,/g, " ");
+  const text = value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(digits, 6), minimumFractionDigits: 0 }).replace(/,/g, " ");
+  // A small negative value rounded away is 0, not "-0".
+  return text === "-0" ? "0" : text;
 }
 
 /** A value in display units with its symbol: "12.3 kN·m". */

@@ -8,6 +8,7 @@ import {
   type SortingState,
 } from "@tanstack/react-table";
 import { useState, type KeyboardEvent } from "react";
+import { roundForDisplay } from "~/domain/units";
 import { downloadText, toCsv } from "~/utils/csv";
 
 export interface DataColumn<T> {
@@ -26,11 +27,16 @@ export interface DataColumn<T> {
 export function DataTable<T>({ rows, columns, caption, csvName, initialSort }: { rows: T[]; columns: DataColumn<T>[]; caption: string; csvName: string; initialSort?: SortingState }) {
   const [sorting, setSorting] = useState<SortingState>(initialSort ?? []);
   const [filter, setFilter] = useState("");
+  // A number is shown and exported without its round-off (1.37e-15 is 0, 0.30000000000000004 is 0.3).
+  const valueOf = (c: DataColumn<T>, row: T) => {
+    const v = c.value(row);
+    return typeof v === "number" ? roundForDisplay(v, 12) : v;
+  };
   const defs: ColumnDef<T>[] = columns.map((c) => ({
     id: c.id,
     header: c.header,
-    accessorFn: (row) => c.value(row),
-    cell: (ctx) => (c.format ? c.format(ctx.row.original) : String(c.value(ctx.row.original) ?? "—")),
+    accessorFn: (row) => valueOf(c, row),
+    cell: (ctx) => (c.format ? c.format(ctx.row.original) : String(valueOf(c, ctx.row.original) ?? "—")),
     sortingFn: c.numeric ? "basic" : "alphanumeric",
   }));
   const table = useReactTable({
@@ -61,7 +67,7 @@ export function DataTable<T>({ rows, columns, caption, csvName, initialSort }: {
         <button
           type="button"
           className="ml-auto rounded border border-line-strong bg-surface px-2 py-1 text-xs font-semibold hover:bg-canvas"
-          onClick={() => downloadText(csvName, toCsv(columns.map((c) => c.header), visible.map((r) => columns.map((c) => c.value(r.original)))))}
+          onClick={() => downloadText(csvName, toCsv(columns.map((c) => c.header), visible.map((r) => columns.map((c) => valueOf(c, r.original)))))}
         >
           Export CSV
         </button>

@@ -230,16 +230,13 @@ export class Writer {
     const title = (option.title as { text?: string } | undefined)?.text ?? "";
     this.text(`Figure ${this.figure}. ${title}`, x, this.y, { size: 8.4, weight: 600, oneLine: true });
     this.y += 12;
-    const xAxis = option.xAxis as { name?: string } | undefined;
     const grid = option.grid as { top?: number } | undefined;
-    // The caption above replaces the chart's own title, so the legend moves up into its place;
-    // span axes end at the tip rather than at the next round number.
+    // The caption above replaces the chart's own title, so the legend moves up into its place.
     const laidOut = {
       ...option,
       title: { ...(option.title as object), show: false },
       legend: { ...(option.legend as object), top: 0 },
       grid: { ...grid, top: 34 },
-      ...(xAxis?.name?.startsWith("Spanwise") ? { xAxis: { ...xAxis, max: "dataMax" } } : {}),
     };
     const chart = echarts.init(null, null, { renderer: "svg", ssr: true, width: Math.round(width * scale), height: Math.round(height * scale) });
     try {

@@ -15,7 +15,7 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, Panel } from "~/components/ui/page-header";
 import { COMPRESSIBILITY_RULES, RULE_LABELS, SPANWISE_LABELS, SPANWISE_METHODS } from "~/domain/step-data";
-import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { VnSet } from "~/services/envelope.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { EnvelopeFormSchema } from "./envelope.schema";
@@ -442,8 +442,8 @@ function VnPointsTable({ set, units }: { set: VnSet; units: UnitSystem }) {
         csvName="vn-points.csv"
         columns={[
           { id: "name", header: "Point", value: (p) => p.name },
-          { id: "veas", header: `EAS [${unitSymbol(units, "speed")}]`, value: (p) => Number(fromSI(units, "speed", p.veas).toPrecision(5)), numeric: true },
-          { id: "nz", header: "nz", value: (p) => Number(p.nz.toPrecision(5)), numeric: true },
+          { id: "veas", header: `EAS [${unitSymbol(units, "speed")}]`, value: (p) => roundForDisplay(fromSI(units, "speed", p.veas)), numeric: true },
+          { id: "nz", header: "nz", value: (p) => roundForDisplay(p.nz), numeric: true },
           { id: "rule", header: "From rule", value: (p) => p.rule },
         ]}
       />

@@ -9,7 +9,7 @@ import { DataTable } from "~/components/tables/data-table";
 import { Alert, Panel } from "~/components/ui/page-header";
 import { sweepFraction, type SweepProgressView } from "~/domain/results";
 import type { StepStatus } from "~/domain/vocabulary";
-import { formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatQuantity, fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseResult, ResultCase } from "~/exchange";
 import type { LoadsView } from "~/services/loads-view.server";
 import type { CaseLoadsBreakdown, LoadsPageInfo } from "~/services/case-loads.server";
@@ -227,7 +227,7 @@ export function EnvelopeTable({ envelope, units, info }: { envelope: CaseResult[
   );
 }
 
-const round = (v: number) => Number(v.toPrecision(5));
+const round = (v: number) => roundForDisplay(v);
 
 export function RootLoadsTable({ cases, units, info }: { cases: Omit<ResultCase, "stations">[]; units: UnitSystem; info: LoadsPageInfo }) {
   const F = unitSymbol(units, "force");

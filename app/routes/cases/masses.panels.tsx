@@ -8,7 +8,7 @@ import { Alert, Panel } from "~/components/ui/page-header";
 import { parseItemCsv } from "~/domain/mass-items-csv";
 import { describeProblem } from "~/domain/section-csv";
 import type { PlanformData } from "~/domain/step-data";
-import { formatNumber, fromSI, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatNumber, fromSI, roundForDisplay, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { massesOverview } from "~/services/masses.server";
 import type { FieldErrors } from "~/utils/form-data";
 import { fillKey, type MassesFormSchema } from "./masses.schema";
@@ -285,7 +285,7 @@ function MassCaseTable({ summaries, relief, units }: { summaries: Overview["summ
         csvName="mass-cases.csv"
         columns={[
           { id: "id", header: "Mass case", value: (r) => r.id },
-          { id: "weight", header: `Weight [${kg}]`, value: (r) => (r.weight === null ? null : Number(mass(r.weight).toPrecision(5))), numeric: true, format: (r) => (r.weight === null ? "—" : formatNumber(mass(r.weight), 5)) },
+          { id: "weight", header: `Weight [${kg}]`, value: (r) => (r.weight === null ? null : roundForDisplay(mass(r.weight))), numeric: true, format: (r) => (r.weight === null ? "—" : formatNumber(mass(r.weight), 5)) },
           { id: "cg", header: "CG [% MAC]", value: (r) => (r.cg === null ? null : r.cg * 100), numeric: true, format: (r) => (r.cg === null ? "—" : formatNumber(r.cg * 100, 4)) },
           { id: "itemsKg", header: `Items, one side [${kg}]`, value: (r) => mass(r.itemsKg), numeric: true, format: (r) => formatNumber(mass(r.itemsKg), 4) },
           { id: "wingKg", header: `Both wings [${kg}]`, value: (r) => mass(r.wingKg), numeric: true, format: (r) => formatNumber(mass(r.wingKg), 4) },
