@@ -7,7 +7,7 @@ import { axis, baseOption, line, SERIES_STYLE } from "./theme";
  * Part 25 the tuned gusts beside Pratt's for comparison), the flaps-extended points where given, and
  * every generated point labelled with its name (its rule in the tooltip).
  */
-export function vnOption(title: string, points: VnPoint[], stall: { area: number; clMax: number; clMaxNegative: number; weightN: number }, speedUnit: { symbol: string; fromSI: (v: number) => number }) {
+export function vnOption(title: string, points: VnPoint[], stall: { area: number; clMax: number; clMaxNegative: number; weightN: number; clMaxFlaps?: number }, speedUnit: { symbol: string; fromSI: (v: number) => number }) {
   const p = Object.fromEntries(points.map((pt) => [pt.name, pt]));
   const s = (v: number) => speedUnit.fromSI(v);
   const stallLine = (cl: number, toV: number): [number, number][] => {
@@ -33,7 +33,13 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
       line("Manoeuvre envelope", pts(["A", "D", "E", "F", "H"]), SERIES_STYLE.solver),
       line("Gust lines" + (p["tuned+VC"] ? " (Pratt, for comparison)" : ""), gustLines(["gust+VB", "gust-VB", "gust+VC", "gust-VC", "gust+VD", "gust-VD"]), SERIES_STYLE["karman-tsien"], { connectNulls: false }),
       ...(p["tuned+VC"] ? [line("Tuned gusts (rigid plunge)", gustLines(["tuned+VB", "tuned-VB", "tuned+VC", "tuned-VC", "tuned+VD", "tuned-VD"]), SERIES_STYLE.dynamicGust, { connectNulls: false })] : []),
-      ...(p["flaps-VF"] ? [line("Flaps extended", [...pts(["flaps-A", "flaps-VF"])], SERIES_STYLE.laitone)] : []),
+      ...(p["flaps-VF"]
+        ? [
+            // The flapped stall line up to flaps-A, then n = 2.0 to V_F, and the V_F gust lines.
+            line("Flaps extended", [...(stall.clMaxFlaps ? stallLine(stall.clMaxFlaps, p["flaps-A"]?.veas ?? 0) : []), ...pts(["flaps-A", "flaps-VF"])], SERIES_STYLE.laitone),
+            line("Flaps-extended gust lines", gustLines(["flaps-gust+VF", "flaps-gust-VF"]), SERIES_STYLE.laitone, { connectNulls: false }),
+          ]
+        : []),
       {
         type: "scatter" as const,
         name: "Load cases",

@@ -45,7 +45,7 @@ export const DEMO_PROGRAMMES = [
 ] as const;
 
 export const DEMO_CASES = [
-  { programme: "KF60", reference: "TN-WL-001", title: "Wing loads, initial type certificate", description: "Manoeuvre and gust envelope of the KF-60 Tern wing, flaps up." },
+  { programme: "KF60", reference: "TN-WL-001", title: "Wing loads, initial type certificate", description: "Manoeuvre and gust envelope of the KF-60 Tern wing, flaps up and take-off flaps." },
   { programme: "KF60", reference: "TN-WL-002", title: "Wing loads, increased MTOW study", description: "Empty case: the blank path for a new study." },
   { programme: "NA14", reference: "SK-L-07", title: "Outer wing loads", description: "Northmoor's case." },
 ] as const;
@@ -71,6 +71,9 @@ export const DEMO_CASE_INPUTS = {
     wingArea: 27.6,
     clMax: 1.45,
     clMaxNegative: -0.9,
+    // Take-off flap: VF above the 23.345(b) minimum, the greater of 1.4·VS and 1.8·VSF (VSF 41.9 m/s at MTOW with CLmax 2.1).
+    vf: 77,
+    clMaxFlaps: 2.1,
   },
   planform: {
     stations: [
@@ -89,6 +92,8 @@ export const DEMO_CASE_INPUTS = {
     ],
     source: { kind: "typed" },
     tables: [],
+    /** Single-slotted inboard flap at its take-off setting (invented), from the nacelle fairing to the aileron. */
+    flaps: { yFrom: 0.6, yTo: 5.1, dAlphaL0: -5.5, dCmAc: -0.1, clMax: 2.2 },
   },
   method: { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 },
   /**

@@ -54,6 +54,9 @@ export const BasisSchema = z
     wingArea: positive("Wing reference area"),
     clMax: positive("Aircraft CLmax"),
     clMaxNegative: finite("Negative CLmax").refine((v) => v < 0, { message: "Negative CLmax must be below 0" }),
+    /** Design flap speed (EAS) and the aircraft CLmax with the flaps extended: with both, the flaps-extended conditions (23.345 / 25.345). */
+    vf: positive("VF").optional(),
+    clMaxFlaps: positive("CLmax with flaps").optional(),
   })
   .superRefine((b, ctx) => {
     if (b.mzfw > b.mtow) ctx.addIssue({ code: "custom", path: ["mzfw"], message: "Maximum zero-fuel weight cannot exceed the take-off weight" });
@@ -63,6 +66,10 @@ export const BasisSchema = z
     if (b.vb !== undefined && !(b.vb > b.vs1 && b.vb <= b.vc)) ctx.addIssue({ code: "custom", path: ["vb"], message: "VB must lie above VS1 and not above VC" });
     if (b.mlw !== undefined && !(b.mlw <= b.mtow && b.mlw >= b.mzfw)) ctx.addIssue({ code: "custom", path: ["mlw"], message: "The maximum landing weight lies between the zero-fuel and the take-off weight" });
     if (!(b.vc < b.vd)) ctx.addIssue({ code: "custom", path: ["vd"], message: "VD must be above VC" });
+    if ((b.vf === undefined) !== (b.clMaxFlaps === undefined)) {
+      ctx.addIssue({ code: "custom", path: [b.vf === undefined ? "vf" : "clMaxFlaps"], message: "VF and the CLmax with flaps go together: give both for the flaps-extended conditions, or neither" });
+    }
+    if (b.vf !== undefined && !(b.vf > b.vs1 && b.vf < b.vd)) ctx.addIssue({ code: "custom", path: ["vf"], message: "VF must lie above VS1 and below VD" });
     b.altitudes.forEach((h, i) => {
       if (h < 0 || h > 20000) ctx.addIssue({ code: "custom", path: ["altitudes", i], message: "Altitudes must lie between 0 and 20 000 m (the standard atmosphere range of the engine)" });
     });
@@ -107,6 +114,22 @@ export const SectionRowSchema = z.object({
   pressures: z.array(z.object({ alpha: finite("Angle"), x: z.array(finite("x/c")), cpUpper: z.array(finite("Cp upper")), cpLower: z.array(finite("Cp lower")) })).optional(),
 });
 
+/**
+ * The flaps extended: the flapped span (m from the plane of symmetry) and what the flap does to the
+ * incompressible section data there — the change of the zero-lift angle (deg; Δcl0 = −a0·Δα0L), of the
+ * moment coefficient about the quarter chord, and the flapped section clmax (the exchange format's wing.flaps).
+ */
+export const FlapsSchema = z
+  .object({
+    yFrom: finite("Flaps from y").refine((v) => v >= 0, { message: "Flaps from y must be 0 or more" }),
+    yTo: finite("Flaps to y"),
+    dAlphaL0: finite("Flap Δα0L").refine((v) => Math.abs(v) <= 20, { message: "Flap Δα0L must lie within ±20°" }),
+    dCmAc: finite("Flap Δcm,ac").refine((v) => Math.abs(v) <= 0.6, { message: "Flap Δcm,ac must lie within ±0.6" }),
+    clMax: positive("Flapped clmax").optional(),
+  })
+  .refine((f) => f.yTo > f.yFrom, { path: ["yTo"], message: "Flaps to y must be greater than flaps from y" });
+export type FlapsData = z.output<typeof FlapsSchema>;
+
 export const SectionsSchema = z
   .object({
     rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(MAX_SECTION_ROWS, `At most ${MAX_SECTION_ROWS} section stations`),
@@ -114,6 +137,7 @@ export const SectionsSchema = z
     tables: z
       .array(z.object({ y: z.number(), points: z.array(z.object({ alpha: z.number(), cl: z.number(), cm: z.number() })), linearFrom: z.number(), linearTo: z.number() }))
       .default([]),
+    flaps: FlapsSchema.optional(),
   })
   .superRefine((s, ctx) => {
     s.rows.forEach((r, i) => {
@@ -236,6 +260,8 @@ export const LoadCaseSchema = z
     nz: finite("Load factor").refine((v) => Math.abs(v) <= 15, { message: "Load factor must lie within ±15" }).optional(),
     massCase: z.string().trim().max(40).optional(),
     tailLoad: finite("Tail load").optional(),
+    /** Flaps extended: the case is solved on the flapped wing (the sections step's flaps). */
+    flaps: z.boolean().optional(),
     excluded: z.boolean().default(false),
   })
   .superRefine((c, ctx) => {

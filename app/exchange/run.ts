@@ -1,4 +1,7 @@
 import { ENGINE_VERSION } from "../engine/index";
+import { EngineError } from "../engine/errors";
+import { flappedStations } from "../engine/flaps";
+import { wingPlausibility } from "../engine/plausibility";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";
 import { evaluateCase } from "../engine/load-case";
 import type { LoadCase } from "../engine/load-case";
@@ -79,12 +82,36 @@ export async function runCaseAsync(file: CaseFile, options: Omit<RunOptions, "on
   }
 }
 
-/** The run one step at a time: yields after every spanwise solve and every 1 000 cases, returns the result. */
-function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Generator<RunProgress, CaseResult> {
-  const model = withSections(wingModelOf(file), options.sections);
-  const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
-  const machs = [...new Set(file.cases.map((c) => c.mach))].sort((a, b) => a - b);
-  let solves = 0;
+/**
+ * The wing one case is solved on: the file's wing (with its richer section data), or for a case with
+ * `flaps: true` the flapped wing (`wing.flaps` applied by the engine's flappedStations). The flapped
+ * stations carry the clean sections' single cpMin but not their richer data (a Cp table or pressures
+ * measured without the flap do not describe the flapped section).
+ * @throws EngineError naming `wing.flaps.…` where the flapped sections fall outside the refusal ranges
+ */
+export function caseWingModel(file: CaseFile, flaps: boolean | undefined, sections?: SectionsFile): WingModel {
+  const model = withSections(wingModelOf(file), sections);
+  if (!flaps || !file.wing.flaps) return model;
+  const stations = flappedStations(file.wing.stations, file.wing.flaps, "wing.flaps");
+  const refusal = wingPlausibility(stations).refusals[0];
+  if (refusal) {
+    const k = /alphaL0$/.test(refusal.field) ? "dAlphaL0" : /cmAc$/.test(refusal.field) ? "dCmAc" : /clMax$/.test(refusal.field) ? "clMax" : "yTo";
+    throw new EngineError("invalid-section", `with the flaps extended ${refusal.field.replace(/^wing\./, "")} ${refusal.message}`, `wing.flaps.${k}`);
+  }
+  return { ...model, stations };
+}
+
+/** The solves of one wing (clean or flapped) for the Mach numbers of its cases. */
+interface Configuration {
+  machs: number[];
+  grid?: MachGrid;
+  solutionFor: (mach: number) => MachSolution;
+  solves: () => number;
+  check: (mach: number) => ResolutionCheck;
+}
+
+/** Prepares the solves of one wing: a Mach grid beyond DIRECT_MACH_LIMIT distinct Mach numbers (yielding its solves), else one solve per Mach number on demand. */
+function* configuration(model: WingModel, opts: SolveOptions, machs: number[], before: number): Generator<RunProgress, Configuration> {
   let grid: MachGrid | undefined;
   if (machs.length > DIRECT_MACH_LIMIT) {
     const building = machGridSteps(model, opts, machs[0], machs[machs.length - 1]);
@@ -93,7 +120,7 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
         grid = step.value;
         break;
       }
-      yield { phase: "solves", done: (solves = step.value) };
+      yield { phase: "solves", done: before + step.value };
     }
   }
   // Direct solves are kept per Mach number. Interpolated ones are cheap and, in a sweep of 100 000
@@ -112,8 +139,23 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
     }
     return sol;
   };
-  // Solves made so far: one per distinct Mach number without a grid; the grid's count (its direct solves included) with one.
-  const solvesNow = () => (grid ? grid.solves() : solutions.size);
+  return { machs, grid, solutionFor, solves: () => (grid ? grid.solves() : solutions.size), check: (m) => resolutionCheck(model, m, opts, solutionFor(m)) };
+}
+
+/** The run one step at a time: yields after every spanwise solve and every 1 000 cases, returns the result. */
+function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Generator<RunProgress, CaseResult> {
+  const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
+  const machsOf = (flapped: boolean) => [...new Set(file.cases.filter((c) => Boolean(c.flaps) === flapped).map((c) => c.mach))].sort((a, b) => a - b);
+  // The clean wing and, where cases ask for it, the flapped wing: each solved at its own cases' Mach numbers.
+  const configs = new Map<boolean, Configuration>();
+  const solvesNow = () => [...configs.values()].reduce((n, c) => n + c.solves(), 0);
+  let solves = 0;
+  for (const flapped of [false, true]) {
+    const machs = machsOf(flapped);
+    if (machs.length === 0) continue;
+    configs.set(flapped, yield* configuration(caseWingModel(file, flapped, options.sections), opts, machs, solves));
+    solves = solvesNow();
+  }
   const withStations = options.forceStations || file.method.output === "full";
   let env: ReturnType<typeof createEnvelope> | undefined;
   let geometry: MachSolution["geometry"] | undefined;
@@ -121,7 +163,7 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
   const cases: ResultCase[] = [];
   for (let i = 0; i < file.cases.length; i++) {
     const c = file.cases[i];
-    const sol = solutionFor(c.mach);
+    const sol = configs.get(Boolean(c.flaps))!.solutionFor(c.mach);
     if (solvesNow() > solves) yield { phase: "solves", done: (solves = solvesNow()) };
     geometry ??= sol.geometry;
     const massCase = c.massCase !== undefined ? massCases.get(c.massCase) : undefined;
@@ -164,8 +206,11 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
     if ((i + 1) % CASES_PER_REPORT === 0) yield { phase: "cases", done: i + 1, total: file.cases.length };
   }
   const g = geometry!;
+  // What the result states about the method is the clean wing's (the flapped wing's where every case has flaps).
+  const main = configs.get(false) ?? configs.get(true)!;
+  const { machs, grid } = main;
   // Convergence: halve the resolution at the lowest and the highest Mach number solved.
-  const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => resolutionCheck(model, m, opts, solutionFor(m)));
+  const checks: ResolutionCheck[] = [...new Set([machs[0], machs[machs.length - 1]])].map((m) => main.check(m));
   const lattice = file.method.spanwise === "vortex-lattice";
   const resolution = opts.resolution ?? (lattice ? VORTEX_LATTICE_DEFAULT_STRIPS : LIFTING_LINE_DEFAULT_TERMS);
   return {
@@ -184,8 +229,8 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
         rootBending: Math.max(...checks.map((c) => c.rootBending)),
         loading: Math.max(...checks.map((c) => c.loading)),
       },
-      sectionScaling: summarise(solutionFor(machs[machs.length - 1]).sectionScaling),
-      criticalMach: criticalMachBasis(solutionFor(machs[0]).cpMinSource),
+      sectionScaling: summarise(main.solutionFor(machs[machs.length - 1]).sectionScaling),
+      criticalMach: criticalMachBasis(main.solutionFor(machs[0]).cpMinSource),
       machGrid: grid
         ? { machs: machs.length, nodes: grid.nodes.length, solves: grid.solves(), maxError: grid.maxError, tolerance: MACH_GRID_DEFAULTS.tolerance, directRanges: grid.directRanges }
         : null,

@@ -94,11 +94,28 @@ export const MassCaseSchema = z.strictObject({
   fill: z.record(z.string(), num().min(0, { error: "must be between 0 and 1 (a fill factor)" }).max(1, { error: "must be between 0 and 1 (a fill factor)" })),
 });
 
+/**
+ * The flaps extended: their span range and the increments they give the incompressible section data
+ * there (the engine's flappedStations). Only cases with `flaps: true` are solved on the flapped wing.
+ */
+export const FlapsSchema = z.strictObject({
+  yFrom: num().min(0, { error: "must be 0 or more (m from the plane of symmetry)" }),
+  yTo: num(),
+  dAlphaL0: num()
+    .min(-PLAUSIBLE.alphaL0Deg.max, { error: `must be within ±${PLAUSIBLE.alphaL0Deg.max}° (a change of the section zero-lift angle)` })
+    .max(PLAUSIBLE.alphaL0Deg.max, { error: `must be within ±${PLAUSIBLE.alphaL0Deg.max}° (a change of the section zero-lift angle)` }),
+  dCmAc: num()
+    .min(-PLAUSIBLE.cmAc.max, { error: `must be within ±${PLAUSIBLE.cmAc.max} (a change of the section moment coefficient)` })
+    .max(PLAUSIBLE.cmAc.max, { error: `must be within ±${PLAUSIBLE.cmAc.max} (a change of the section moment coefficient)` }),
+  clMax: num().gt(0, { error: "must be greater than 0" }).optional(),
+});
+
 export const WingSchema = z
   .strictObject({
     stations: z.array(StationSchema).min(2, { error: "needs at least 2 stations (root and tip)" }),
     axis: AxisSchema.default({ rootChordFraction: 0.25, tipChordFraction: 0.25 }),
     mass: MassSchema.optional(),
+    flaps: FlapsSchema.optional(),
   })
   .superRefine((w, ctx) => {
     w.stations.forEach((s, i) => {
@@ -115,6 +132,10 @@ export const WingSchema = z
     });
     const semispan = w.stations[w.stations.length - 1]?.y ?? 0;
     const inside = `must lie inside the semispan, 0 to ${semispan} m`;
+    if (w.flaps && !(w.flaps.yFrom < semispan)) ctx.addIssue({ code: "custom", path: ["flaps", "yFrom"], message: inside });
+    if (w.flaps && !(w.flaps.yTo > w.flaps.yFrom && w.flaps.yTo <= semispan)) {
+      ctx.addIssue({ code: "custom", path: ["flaps", "yTo"], message: `must be greater than yFrom and at most the semispan ${semispan} m` });
+    }
     // Streamwise: within a few of the largest chords of the wing's leading and trailing edges.
     const cMax = Math.max(...w.stations.map((s) => s.chord));
     const xFront = Math.min(...w.stations.map((s) => s.xLe)) - PLAUSIBLE.massItemXChords.max * cMax;
@@ -190,6 +211,7 @@ export const CaseSchema = z.strictObject({
     .min(-PLAUSIBLE.tailLoad.max, { error: tailRule })
     .max(PLAUSIBLE.tailLoad.max, { error: tailRule })
     .optional(),
+  flaps: z.boolean({ error: "must be true or false" }).optional(),
 });
 
 export const CaseFileSchema = z
@@ -221,6 +243,7 @@ export const CaseFileSchema = z
     });
     const seen = new Set<string>();
     file.cases.forEach((c, i) => {
+      if (c.flaps && !file.wing.flaps) ctx.addIssue({ code: "custom", path: ["cases", i, "flaps"], message: "needs wing.flaps (the flapped span and its section increments)" });
       if (c.massCase !== undefined && !massCases.has(c.massCase)) {
         ctx.addIssue({ code: "custom", path: ["cases", i, "massCase"], message: `names no mass case of massCases ("${c.massCase}")` });
       }

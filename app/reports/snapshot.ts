@@ -80,6 +80,8 @@ export interface VnFigure {
   gustAtVc: number;
   gustAtVd: number;
   gustRule: string;
+  /** The flaps-extended conditions at V_F, where the basis gives V_F: speed, CLmax with flaps, lift slope of the flapped wing. */
+  flaps?: { vf: number; clMax: number; liftSlope: number };
 }
 
 /** The spanwise distributions of one case, solved under the case's rule and under each of the three. */

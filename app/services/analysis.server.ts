@@ -159,6 +159,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
       stations: exchangeStations(planform, sections),
       axis: { rootChordFraction: planform.axisRoot, tipChordFraction: planform.axisTip },
       ...(mass ? { mass } : {}),
+      ...(sections.flaps ? { flaps: { ...sections.flaps } } : {}),
     },
     method: {
       compressibility: envelope.compressibility,
@@ -170,7 +171,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
     ...(massCases ? { massCases } : {}),
     cases: cases.map((c) =>
       c.alpha !== undefined
-        ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha }
+        ? { id: c.id, mach: c.mach, altitude: c.altitude, alpha: c.alpha, ...(c.flaps ? { flaps: true } : {}) }
         : {
             id: c.id,
             mach: c.mach,
@@ -179,6 +180,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
             nz: c.nz!,
             ...(c.massCase ? { massCase: c.massCase } : {}),
             ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}),
+            ...(c.flaps ? { flaps: true } : {}),
           },
     ),
   };

@@ -1,6 +1,6 @@
 import type { BasisData } from "~/domain/step-data";
 import { fromSI, unitSymbol } from "~/domain/units";
-import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, stallSpeed, UNITS, type Part23Category } from "~/engine";
+import { manoeuvreLoadFactorsPart23, manoeuvreLoadFactorsPart25, minimumDesignSpeedsPart23, minimumFlapSpeed, stallSpeed, UNITS, type Part23Category } from "~/engine";
 
 /** One line of the check of a saved basis: what the rule gives, and whether the typed value meets it. */
 export interface BasisCheck {
@@ -41,6 +41,18 @@ export function basisChecks(b: BasisData): BasisCheck[] {
       { label: "Minimum VC", value: `${speed(m.vc.value * KT)} ${sym} (typed ${speed(b.vc)})`, rule: m.vc.rule, ok: b.vc >= m.vc.value * KT - 1e-9 },
       { label: "Minimum VD", value: `${speed(m.vd.value * KT)} ${sym} (typed ${speed(b.vd)})`, rule: m.vd.rule, ok: b.vd >= m.vd.value * KT - 1e-9 },
     );
+  }
+  if (b.vf !== undefined && b.clMaxFlaps !== undefined) {
+    // Part 25 takes V_S0 in the landing position at the maximum landing weight (MTOW where none is given).
+    const flapsWeightN = (part23 ? b.mtow : (b.mlw ?? b.mtow)) * G0;
+    const vsf = stallSpeed(flapsWeightN, b.wingArea, b.clMaxFlaps);
+    const min = minimumFlapSpeed(part23 ? "23" : "25", vs, vsf);
+    rows.push({
+      label: "Minimum VF",
+      value: `${speed(min.value)} ${sym} (typed ${speed(b.vf)}; flaps-extended stall speed ${speed(vsf)} ${sym})`,
+      rule: `${min.rule} [from memory]: ${part23 ? "the greater of 1.4·VS and 1.8·VSF" : "1.8·VS0"}`,
+      ok: b.vf >= min.value - 1e-9,
+    });
   }
   return rows;
 }

@@ -49,6 +49,7 @@ export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): Impo
       })),
       source: { kind: "import" },
       tables: [],
+      ...(file.wing.flaps ? { flaps: { ...file.wing.flaps } } : {}),
     },
     envelope: {
       compressibility: file.method.compressibility,
@@ -65,6 +66,7 @@ export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): Impo
         ...(c.alpha !== undefined
           ? { alpha: c.alpha }
           : { weight: c.weight, nz: c.nz, ...(c.massCase !== undefined ? { massCase: c.massCase } : {}), ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}) }),
+        ...(c.flaps ? { flaps: true } : {}),
         excluded: false,
       })),
     },
@@ -93,6 +95,7 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
       return "wing";
     case "sections":
       if (head === "rows") return formatPath(["wing", "stations", ...(index === undefined ? [] : [index]), ...rest]);
+      if (head === "flaps") return formatPath(["wing", "flaps", ...(index === undefined ? [] : [index])]);
       return "wing.stations";
     case "envelope":
       if (head === "cases") return formatPath(["cases", ...(index === undefined ? [] : [index]), ...rest]);

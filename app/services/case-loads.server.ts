@@ -1,6 +1,6 @@
 import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
-import { wingModelOf, type CaseFileInput } from "~/exchange";
+import { caseWingModel, type CaseFileInput } from "~/exchange";
 import { buildCaseFile, parseOrThrow, type CaseInputs } from "./analysis.server";
 import { balanceRows, effectiveMasses, type BalanceRow } from "./masses.server";
 
@@ -15,7 +15,7 @@ export function caseLoadsBreakdown(input: CaseFileInput, caseId: string) {
   if (i < 0) throw new DomainError(`The case file has no load case "${caseId}".`, { kind: "not-found" });
   const c = file.cases[i]!;
   const massCase = c.massCase ? file.massCases?.find((m) => m.id === c.massCase) : undefined;
-  const sol = solveMach(wingModelOf(file), c.mach, { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips });
+  const sol = solveMach(caseWingModel(file, c.flaps), c.mach, { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips });
   const r = evaluateCase(
     sol,
     c.alpha !== undefined

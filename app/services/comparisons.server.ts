@@ -25,7 +25,7 @@ import {
   type SpanwiseMethod,
   type WingModel,
 } from "~/engine";
-import { withSections, wingModelOf, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
 import { caseUnits, getCaseSteps } from "./case-steps.server";
 
@@ -37,13 +37,14 @@ import { caseUnits, getCaseSteps } from "./case-steps.server";
 
 const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laitone"];
 
-function loadCaseOf(file: CaseFile, id: string): LoadCase {
+function loadCaseOf(file: CaseFile, id: string): LoadCase & { flaps: boolean } {
   const c = file.cases.find((k) => k.id === id);
   if (!c) throw new DomainError(`No load case "${id}" in this case.`, { field: "case", kind: "not-found" });
   const massCase = c.massCase !== undefined ? file.massCases?.find((m) => m.id === c.massCase) : undefined;
+  const flaps = Boolean(c.flaps);
   return c.alpha !== undefined
-    ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha, massCase }
-    : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz!, tailLoadN: c.tailLoad, massCase };
+    ? { id: c.id, mach: c.mach, altitude: c.altitude, alphaDeg: c.alpha, massCase, flaps }
+    : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz!, tailLoadN: c.tailLoad, massCase, flaps };
 }
 
 /** Engine refusals become the product's one error, naming the field. */
@@ -64,15 +65,16 @@ function engine<T>(fn: () => T): T {
  */
 export function ruleSensitivity(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): RuleSensitivity {
   const file = parseOrThrow(input);
-  const model = withSections(wingModelOf(file), sections);
+  const models = new Map<boolean, WingModel>();
+  const modelOf = (flaps: boolean) => models.get(flaps) ?? models.set(flaps, engine(() => caseWingModel(file, flaps, sections))).get(flaps)!;
   const chosen = file.method.compressibility;
   const direct = !result.method?.machGrid;
   const solutions = new Map<string, MachSolution>();
-  const solution = (rule: CompressibilityRule, mach: number) => {
-    const key = `${rule}:${mach}`;
+  const solution = (rule: CompressibilityRule, mach: number, flaps: boolean) => {
+    const key = `${rule}:${mach}:${flaps}`;
     let sol = solutions.get(key);
     if (!sol) {
-      sol = engine(() => solveMach(model, mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips }));
+      sol = engine(() => solveMach(modelOf(flaps), mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips }));
       solutions.set(key, sol);
     }
     return sol;
@@ -82,7 +84,7 @@ export function ruleSensitivity(input: CaseFileInput, result: CaseResult, sectio
     const own = result.cases.find((c) => c.id === critical.id)!;
     const rules = RULES.map((rule) => {
       if (rule === chosen && direct) return { rule, root: { ...own.root }, machCritical: own.machCritical, regime: own.regime };
-      const r = engine(() => evaluateCase(solution(rule, lc.mach), lc));
+      const r = engine(() => evaluateCase(solution(rule, lc.mach, lc.flaps), lc));
       return { rule, root: { ...r.root }, machCritical: r.machCritical, regime: r.regime };
     });
     const stats = Object.fromEntries(ROOT_LOADS.map((q) => [q, spreadOf(rules.map((r) => r.root[q]))])) as Record<keyof RootLoads, { spread: number; relative: number }>;
@@ -119,8 +121,8 @@ function maxSweep(model: WingModel): number {
  */
 export function spanwiseComparison(input: CaseFileInput, caseId: string, sections?: SectionsFile): SpanwiseComparison {
   const file = parseOrThrow(input);
-  const model = withSections(wingModelOf(file), sections);
   const lc = loadCaseOf(file, caseId);
+  const model = engine(() => caseWingModel(file, lc.flaps, sections));
   const chosen = file.method.spanwise;
   const rule = file.method.compressibility;
   const solved = new Map<SpanwiseMethod, { sol: MachSolution; loads: ReturnType<typeof evaluateCase> }>();

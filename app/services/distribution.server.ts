@@ -1,6 +1,6 @@
 import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
-import { wingModelOf, withSections, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
 import type { StepKey } from "~/domain/vocabulary";
 import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
@@ -59,7 +59,7 @@ const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laiton
 export function distributionView(input: CaseFileInput, caseId: string, sections?: SectionsFile) {
   const file: CaseFile = parseOrThrow(input);
   const lc = file.cases.find((c) => c.id === caseId) ?? file.cases[0]!;
-  const model = withSections(wingModelOf(file), sections);
+  const model = caseWingModel(file, lc.flaps, sections);
   const loadCase = lc.alpha !== undefined ? { id: lc.id, mach: lc.mach, altitude: lc.altitude, alphaDeg: lc.alpha } : { id: lc.id, mach: lc.mach, altitude: lc.altitude, weightN: lc.weight!, nz: lc.nz! };
   const byRule = RULES.map((rule) => {
     const sol = solveMach(model, lc.mach, { spanwise: file.method.spanwise, rule, stations: file.method.stations, resolution: file.method.strips });

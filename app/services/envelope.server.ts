@@ -1,6 +1,7 @@
 import type { BasisData, EnvelopeData, LoadCase, MassesData, PlanformData, SectionsData } from "~/domain/step-data";
 import {
   designGustsPart23,
+  flapsVnPoints,
   flightProfileAlleviation,
   isa,
   machFromEas,
@@ -17,7 +18,7 @@ import {
   type TunedGustResult,
   type VnPoint,
 } from "~/engine";
-import { CASE_SCHEMA_ID, parseCase, wingModelOf } from "~/exchange";
+import { CASE_SCHEMA_ID, caseWingModel, parseCase, wingModelOf } from "~/exchange";
 import { exchangeStations, type CaseInputs } from "./analysis.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
 import { runEngine } from "./engine.server";
@@ -58,6 +59,22 @@ export interface VnSet {
   fg?: RuleValue;
   /** Part 25: the tuned discrete gust at V_B (where given), V_C and V_D. */
   tuned?: TunedGustAtSpeed[];
+  /** The flaps-extended conditions at V_F, where the basis gives V_F (23.345 / 25.345). */
+  flaps?: FlapsAtVf;
+}
+
+/** What the flaps-extended points of a V–n set rest on. */
+export interface FlapsAtVf {
+  vf: number;
+  clMax: number;
+  /** Flaps-extended 1-g stall speed at this weight, m/s EAS. */
+  vsf: number;
+  /** Lift slope of the flapped wing at the V_F Mach number, per rad. */
+  liftSlope: number;
+  massRatio: number;
+  /** Part 25: the factor of the 12.5-chord gust on the rigid aircraft in plunge; Part 23: Pratt's K_g. */
+  gustFactor: number;
+  prattKg: number;
 }
 
 function category(basis: BasisData): { part: "23" | "25"; category?: Part23Category } {
@@ -83,7 +100,9 @@ function designWeights(basis: BasisData, masses: MassesData | null | undefined):
  * to the engineer). Part 23 gusts by Pratt's formula (23.341(c)), with the V_B gust of commuters
  * (23.333(c)(1)(iii)). Part 25: the Pratt points stay on the diagram for comparison; the cases come from
  * the tuned discrete gust of 25.341(a) on the rigid aircraft in plunge, with the flight-profile
- * alleviation factor where MLW and Z_mo are given (F_g = 1 otherwise, conservative).
+ * alleviation factor where MLW and Z_mo are given (F_g = 1 otherwise, conservative). Where the basis gives
+ * V_F, the flaps-extended points of 23.345 / 25.345 at the same weights and altitudes, with the lift slope
+ * of the flapped wing at the V_F Mach number.
  */
 function vnSetsOf(
   basis: BasisData,
@@ -101,6 +120,18 @@ function vnSetsOf(
   if (!parsed.ok) throw new DomainError(problemsMessage(parsed.problems), { field: "planform", kind: "unprocessable" });
   const model = wingModelOf(parsed.value);
   const geometry = wingGeometry(model.stations);
+  const flapped = flapsConditions(basis) ? flappedWing(planform, sections) : undefined;
+  const flapSlopes = new Map<number, number>();
+  const flapSlopeAt = (altitude: number) => {
+    const mach = machFromEas(basis.vf!, altitude);
+    if (mach >= 1) throw new DomainError(`VF at ${altitude} m is Mach ${mach.toFixed(3)}: the subsonic rules do not apply.`, { field: "vf" });
+    let a = flapSlopes.get(mach);
+    if (a === undefined) {
+      a = solveMach(flapped!, mach, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
+      flapSlopes.set(mach, a);
+    }
+    return a;
+  };
   const { part, category: cat } = category(basis);
   const weights = designWeights(basis, masses);
   const slopes = new Map<number, number>();
@@ -164,6 +195,13 @@ function vnSetsOf(
           points.push({ name: `tuned+${t.speed}`, veas: t.veas, nz: 1 + c.deltaN, rule }, { name: `tuned-${t.speed}`, veas: t.veas, nz: 1 - c.deltaN, rule });
         }
       }
+      let flaps: FlapsAtVf | undefined;
+      if (flapped) {
+        const a = flapSlopeAt(altitude);
+        const f = flapsVnPoints({ part, ...common, clMaxFlaps: basis.clMaxFlaps!, vfEas: basis.vf!, liftSlope: a });
+        points.push(...f.points);
+        flaps = { vf: basis.vf!, clMax: basis.clMaxFlaps!, vsf: f.vsf, liftSlope: a, massRatio: f.massRatio, gustFactor: f.gustFactor, prattKg: f.prattKg };
+      }
       sets.push({
         label: `${w.label} ${w.kg.toFixed(0)} kg, ${altitude} m`,
         weightKg: w.kg,
@@ -178,10 +216,31 @@ function vnSetsOf(
         gustRule: [vbGust?.rule, gusts.vc.rule, gusts.vd.rule].filter(Boolean).join("; "),
         ...(fg ? { fg } : {}),
         ...(tuned ? { tuned } : {}),
+        ...(flaps ? { flaps } : {}),
       });
     }
   }
   return sets;
+}
+
+/** Whether the basis asks for the flaps-extended conditions (V_F and the CLmax with flaps given). */
+function flapsConditions(basis: BasisData): boolean {
+  return basis.vf !== undefined && basis.clMaxFlaps !== undefined;
+}
+
+/**
+ * The wing with its flaps extended, as the exchange run solves a case with flaps.
+ * @throws DomainError when the sections step gives no flaps, or the flapped sections are refused
+ */
+function flappedWing(planform: PlanformData, sections: SectionsData) {
+  if (!sections.flaps) throw new DomainError("The basis gives VF: give the flapped span and what the flap does to the section data (Flaps extended, in the sections step).", { field: "flaps", kind: "conflict" });
+  const parsed = parseCase({
+    schema: CASE_SCHEMA_ID,
+    wing: { stations: exchangeStations(planform, sections), flaps: sections.flaps },
+    cases: [{ id: "probe", mach: 0, altitude: 0, alpha: 0, flaps: true }],
+  });
+  if (!parsed.ok) throw new DomainError(`Sections, flaps extended: ${problemsMessage(parsed.problems)}`, { field: "flaps", kind: "unprocessable" });
+  return caseWingModel(parsed.value, true);
 }
 
 /**
@@ -232,7 +291,7 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
       if (mach >= 1) continue;
       out.push({
         id: `W${i + 1}-${p.name}`,
-        kind: p.name.startsWith("gust") || p.name.startsWith("tuned") ? "gust" : "manoeuvre",
+        kind: /(^|-)gust|^tuned/.test(p.name) ? "gust" : "manoeuvre",
         rule: `${p.rule} — ${set.label}, ${p.veas.toFixed(1)} m/s EAS`,
         // Four decimals keep tables readable; nz is rounded away from zero so no case is lightened.
         mach: Math.round(mach * 1e4) / 1e4,
@@ -240,6 +299,8 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
         weight: set.weightKg * G0,
         nz: Math.sign(p.nz) * Math.ceil(Math.abs(p.nz) * 1e4 - 1e-9) / 1e4,
         ...(set.massCase ? { massCase: set.massCase } : {}),
+        // The flaps-extended points are solved on the flapped wing.
+        ...(p.name.startsWith("flaps-") ? { flaps: true } : {}),
         excluded: false,
       });
     }

@@ -17,7 +17,7 @@ import {
   type MassItem,
 } from "~/engine";
 import { buildMachGrid } from "~/engine/mach-grid";
-import { DIRECT_MACH_LIMIT, wingModelOf, type CaseFile, type CaseFileInput } from "~/exchange";
+import { DIRECT_MACH_LIMIT, caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
 
 /**
  * The masses a case analyses with: the masses step where it is saved; otherwise the semispan mass
@@ -83,11 +83,11 @@ interface WingMoments {
 const moments = new LRUCache<string, WingMoments>({ max: 4096 });
 
 /**
- * The wing's aerodynamic centre and Cm there at each Mach number: one solve each, or, for more Mach numbers
- * than the exchange run solves directly, the same checked Mach grid the run uses.
+ * The wing's aerodynamic centre and Cm there at each Mach number, of the clean or the flapped wing: one solve
+ * each, or, for more Mach numbers than the exchange run solves directly, the same checked Mach grid the run uses.
  */
-function wingMomentsAt(file: CaseFile, machs: readonly number[]): Map<number, WingMoments> {
-  const key = (mach: number) => sha256Hex(canonicalJson({ stations: file.wing.stations, axis: file.wing.axis, method: file.method, mach }));
+function wingMomentsAt(file: CaseFile, machs: readonly number[], flaps: boolean): Map<number, WingMoments> {
+  const key = (mach: number) => sha256Hex(canonicalJson({ stations: file.wing.stations, axis: file.wing.axis, flaps: flaps ? (file.wing.flaps ?? null) : null, method: file.method, mach }));
   const out = new Map<number, WingMoments>();
   const missing = [...new Set(machs)].filter((m) => {
     const hit = moments.get(key(m));
@@ -95,7 +95,7 @@ function wingMomentsAt(file: CaseFile, machs: readonly number[]): Map<number, Wi
     return !hit;
   });
   if (missing.length === 0) return out;
-  const model = { ...wingModelOf(file), massKg: undefined, massItems: undefined };
+  const model = { ...caseWingModel(file, flaps), massKg: undefined, massItems: undefined };
   const opts = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
   const sorted = [...missing].sort((a, b) => a - b);
   const grid = sorted.length > DIRECT_MACH_LIMIT ? buildMachGrid(model, opts, sorted[0]!, sorted[sorted.length - 1]!) : null;
@@ -120,7 +120,9 @@ export function balanceRows(file: CaseFile, envelopeCases: readonly LoadCase[], 
   const massCases = new Map((masses?.massCases ?? []).map((mc) => [mc.id, mc]));
   const rows: BalanceRow[] = [];
   const balanced = (c: CaseFile["cases"][number]) => c.weight !== undefined && c.nz !== undefined && byId.get(c.id)?.tailLoad === undefined && c.mach > 0 && c.massCase !== undefined && massCases.get(c.massCase)?.cg !== undefined;
-  const wing = masses?.balance ? wingMomentsAt(file, file.cases.filter(balanced).map((c) => c.mach)) : new Map<number, WingMoments>();
+  // The flapped wing balances its cases with flaps: the flap's nose-down moment changes the tail load.
+  const wingOf = (flaps: boolean) => (masses?.balance ? wingMomentsAt(file, file.cases.filter((c) => balanced(c) && Boolean(c.flaps) === flaps).map((c) => c.mach), flaps) : new Map<number, WingMoments>());
+  const wing = { clean: wingOf(false), flaps: wingOf(true) };
   for (const c of file.cases) {
     if (c.weight === undefined || c.nz === undefined) continue;
     const stored = byId.get(c.id);
@@ -137,7 +139,7 @@ export function balanceRows(file: CaseFile, envelopeCases: readonly LoadCase[], 
       rows.push({ ...base, tailLoad: 0, wingLift: c.nz * c.weight, source: "none" });
       continue;
     }
-    const w = wing.get(c.mach)!;
+    const w = (c.flaps ? wing.flaps : wing.clean).get(c.mach)!;
     const b = balanceTailLoad({
       weightN: c.weight,
       nz: balanceNz,

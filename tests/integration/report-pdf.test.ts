@@ -246,6 +246,23 @@ describe("the signed report PDF of the demo case", () => {
     }
   });
 
+  it("lists the flaps-extended cases with their kind, shows their V–n points and flap data, and says in its scope what they cover", () => {
+    const text = pages.join("\n");
+    const flapped = snapshot.exchange.cases.filter((c) => c.flaps);
+    // 4 mass cases × 3 altitudes × the four points of 23.345(a) [M]: flaps-A, flaps-VF, flaps-gust±VF.
+    expect(flapped).toHaveLength(DEMO_CASE_INPUTS.masses.massCases.length * DEMO_CASE_INPUTS.basis.altitudes.length * 4);
+    for (const c of flapped) {
+      const line = text.split("\n").find((l) => l.trimStart().startsWith(`${c.id} `));
+      expect(line, c.id).toMatch(/^\s*\S+\s+(manoeuvre|gust), flaps\s/);
+    }
+    expect(text.replace(/\s+/g, " ")).toContain(`flaps extended in ${flapped.length} cases (14 CFR 23.345(a): n = 2.0 up to VF and gusts of 25 ft/s EAS at VF`);
+    const f = DEMO_CASE_INPUTS.sections.flaps;
+    expect(text.replace(/\s+/g, " ")).toContain(`Flaps extended from y = ${formatNumber(f.yFrom)} to ${formatNumber(f.yTo)} m: zero-lift angle changed by ${formatNumber(f.dAlphaL0)}°`);
+    const vn = text.slice(text.indexOf("Corner and gust points"));
+    for (const name of ["flaps-A", "flaps-VF", "flaps-gust+VF", "flaps-gust-VF"]) expect(text).toMatch(new RegExp(`\\n\\s*${escape(name)}\\s+[\\d.]+\\s+[\\d.]+\\s+14 CFR 23\\.345\\(a\\)`));
+    expect(vn.length).toBeGreaterThan(0);
+  });
+
   it("rasterises every page for a look", async () => {
     await run("pdftoppm", ["-png", "-r", "60", pdfPath, join(dir, "page")]);
     const pngs = (await readdir(dir)).filter((f) => f.endsWith(".png"));

@@ -5,6 +5,9 @@ import type { Section } from "./layout.server";
 /** The certification basis of the case and what the report covers and does not. */
 export function basisAndScope({ w, s, q, sym }: Section) {
   const b = s.inputs.basis;
+  // The flaps-extended conditions are in the report where the basis gives VF and the sections the flapped span.
+  const flaps = b.vf !== undefined && s.inputs.sections.flaps ? s.inputs.sections.flaps : null;
+  const flapCases = s.exchange.cases.filter((c) => c.flaps).length;
   w.heading("Certification basis and scope", { newPage: true });
   w.facts([
     ["Category", CATEGORY_LABELS[b.category]],
@@ -15,15 +18,18 @@ export function basisAndScope({ w, s, q, sym }: Section) {
     ["Altitudes", `${b.altitudes.map((a) => q("altitude", a, 5)).join(", ")} ${sym("altitude")} (ISA)`],
     ["Wing reference area", `${q("area", b.wingArea)} ${sym("area")}`],
     ["Aircraft CLmax", `${formatNumber(b.clMax)} positive, ${formatNumber(b.clMaxNegative)} negative (flaps up)`],
+    ...(flaps
+      ? ([["Flaps extended", `VF ${q("speed", b.vf!)} ${sym("speed")} EAS, CLmax ${formatNumber(b.clMaxFlaps!)} with flaps; flapped span ${q("length", flaps.yFrom)}–${q("length", flaps.yTo)} ${sym("length")} (sections)`]] as [string, string][])
+      : []),
     ["Method choice", `${RULE_LABELS[s.inputs.envelope.compressibility]}; ${SPANWISE_LABELS[s.inputs.envelope.spanwise]}${s.result.method?.strips ? `, ${s.result.method.strips} strips` : ""}, ${s.inputs.envelope.stations} output stations per semispan`],
     ["Semispan structural mass", `${q("mass", s.inputs.masses?.structureKg ?? s.inputs.loads.semispanMass ?? 0)} ${sym("mass")} (inertia relief), ${s.inputs.masses?.items.length ?? 0} mass items, ${s.inputs.masses?.massCases.length ?? 0} mass cases`],
   ]);
   w.subheading("Scope");
   w.para(
-    `This report covers the wing loads of case ${s.case.reference}: the spanwise lift and pitching-moment distributions, corrected for compressibility, and the shear force, bending moment and torsion about the wing reference axis along the semispan for every load case of the manoeuvre and gust envelope listed in section 3, with their envelope. Loads are limit loads (no factor of safety applied) for the symmetric, flaps-up, clean-wing conditions given.`,
+    `This report covers the wing loads of case ${s.case.reference}: the spanwise lift and pitching-moment distributions, corrected for compressibility, and the shear force, bending moment and torsion about the wing reference axis along the semispan for every load case of the manoeuvre and gust envelope listed in section 3, with their envelope. Loads are limit loads (no factor of safety applied) for the symmetric conditions given: flaps up${flapCases ? `, and flaps extended in ${flapCases} case${flapCases > 1 ? "s" : ""} (${b.category === "part25" ? "14 CFR 25.345(a)" : "14 CFR 23.345(a)"}: n = 2.0 up to VF and gusts of 25 ft/s EAS at VF, solved on the wing with the flapped sections over the flapped span)` : ""}.`,
   );
   const items = s.inputs.masses?.items.length ?? 0;
   w.para(
-    `It does not cover: the fuselage, tail or control surfaces; asymmetric, rolling, yawing or ground conditions; high-lift devices; ${items ? "" : "engine, fuel and landing-gear point loads other than the distributed structural mass; "}aeroelastic effects, the dynamic gust response of the flexible aircraft${s.inputs.basis.category === "part25" ? " (the tuned gust is computed on the rigid aircraft in plunge)" : ""}, flutter, fatigue or damage tolerance; stress analysis or the strength of the structure; transonic or supercritical flow.`,
+    `It does not cover: the fuselage, tail or control surfaces; asymmetric, rolling, yawing or ground conditions; ${flapCases ? "flap settings other than the one whose section increments are given, the flaps' own loads and the flap-track loads, slats and spoilers" : "high-lift devices (no flaps-extended case was analysed)"}; ${items ? "" : "engine, fuel and landing-gear point loads other than the distributed structural mass; "}aeroelastic effects, the dynamic gust response of the flexible aircraft${s.inputs.basis.category === "part25" ? " (the tuned gust is computed on the rigid aircraft in plunge)" : ""}, flutter, fatigue or damage tolerance; stress analysis or the strength of the structure; transonic or supercritical flow.`,
   );
 }

@@ -73,6 +73,13 @@ export function inputs(section: Section) {
     sec.rows.map((r) => [q("length", r.y), formatNumber(r.a0), formatNumber(r.alphaL0), formatNumber(r.cmAc), formatNumber(r.clMax), formatNumber(r.cpMin)]),
     { size: 8 },
   );
+  if (sec.flaps) {
+    const f = sec.flaps;
+    w.para(
+      `Flaps extended from y = ${q("length", f.yFrom)} to ${q("length", f.yTo)} ${L}: zero-lift angle changed by ${formatNumber(f.dAlphaL0)}°, cm,ac by ${formatNumber(f.dCmAc)}${f.clMax !== undefined ? `, flapped clmax ${formatNumber(f.clMax)}` : ""}; the cases marked "flaps" are solved on the wing with these sections.`,
+      { size: 8.2 },
+    );
+  }
   const src = sec.source;
   w.para(
     `Source of the section data: ${src.kind === "upload" ? `uploaded file ${src.filename ?? ""}${src.sha256 ? ` (SHA-256 ${src.sha256})` : ""}` : src.kind === "import" ? "imported exchange document" : "typed in the sections step"}. Values between section stations are interpolated linearly and held constant outside them.`,
@@ -86,18 +93,18 @@ export function inputs(section: Section) {
   w.para(`${env.cases.length} load cases in the envelope step, ${s.result.cases.length} analysed. Weight is the whole aircraft; nz the limit load factor; cases given by angle of attack show α instead.`, { size: 8.2, color: MUTED });
   w.table(
     [
-      { header: "Case", width: 50 },
-      { header: "Kind", width: 40 },
+      { header: "Case", width: 66 },
+      { header: "Kind", width: 56 },
       { header: "Mach", width: 34, align: "right" },
       { header: `Alt. [${sym("altitude")}]`, width: 36, align: "right" },
       { header: `Weight [${sym("force")}]`, width: 40, align: "right" },
       { header: "nz / α [–/°]", width: 42, align: "right" },
-      { header: "Status", width: 58 },
+      { header: "Status", width: 50 },
       { header: "Rule it comes from", width: 0 },
     ],
     env.cases.map((c) => [
       c.id,
-      c.kind,
+      c.flaps ? `${c.kind}, flaps` : c.kind,
       formatNumber(c.mach, 4),
       q("altitude", c.altitude, 5),
       c.weight !== undefined ? q("force", c.weight) : "—",

@@ -20,7 +20,7 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
   if (!crit.stations) w.para("Station tables were left out of the stored results (summary output): the critical case is shown by its root loads only.", { size: 8.2, color: WARN });
 
   // The mass case of each extreme at the root: the envelope says which mass state made it.
-  const massCaseOf = new Map(s.exchange.cases.map((c) => [c.id, c.massCase ?? "all items full"]));
+  const massCaseOf = new Map(s.exchange.cases.map((c) => [c.id, `${c.massCase ?? "all items full"}${c.flaps ? ", flaps" : ""}`]));
   const root = env[0];
   if (root) {
     w.table(

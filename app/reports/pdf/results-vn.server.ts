@@ -10,9 +10,9 @@ export function resultsVn({ w, s, figures, units, q, sym }: Section) {
   const { set, count } = figures.vn;
   // Heading, V–n caption and chart stay together.
   w.heading("Results", { keep: 320 });
-  w.chart(vnOption(`V–n diagram, ${set.label}`, set.points, { area: b.wingArea, clMax: b.clMax, clMaxNegative: b.clMaxNegative, weightN: set.weightKg * G0 }, { symbol: sym("speed"), fromSI: (v) => fromSI(units, "speed", v) }), 250);
+  w.chart(vnOption(`V–n diagram, ${set.label}`, set.points, { area: b.wingArea, clMax: b.clMax, clMaxNegative: b.clMaxNegative, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: sym("speed"), fromSI: (v) => fromSI(units, "speed", v) }), 250);
   w.para(
-    `Gust velocities ${q("speed", set.gustAtVc)} ${sym("speed")} at VC and ${q("speed", set.gustAtVd)} ${sym("speed")} at VD (${set.gustRule}); airplane lift slope ${formatNumber(set.liftSlope)} /rad from the spanwise solver at the VC Mach number (wing alone). ${count} weight and altitude combinations in all; the others are in the load-case table.`,
+    `Gust velocities ${q("speed", set.gustAtVc)} ${sym("speed")} at VC and ${q("speed", set.gustAtVd)} ${sym("speed")} at VD (${set.gustRule}); airplane lift slope ${formatNumber(set.liftSlope)} /rad from the spanwise solver at the VC Mach number (wing alone). ${set.flaps ? `Flaps extended (points flaps-…): n = 2.0 up to VF ${q("speed", set.flaps.vf)} ${sym("speed")} and gusts of 25 ft/s EAS at VF, lift slope of the flapped wing ${formatNumber(set.flaps.liftSlope)} /rad at the VF Mach number. ` : ""}${count} weight and altitude combinations in all; the others are in the load-case table.`,
     { size: 8.2, color: MUTED },
   );
   w.table(

@@ -109,6 +109,24 @@ export function BasisWingPanel(props: FieldsProps) {
   );
 }
 
+/** The flaps-extended conditions: the design flap speed and the aircraft CLmax with the flaps extended (the flapped span and its section data are in the sections step). */
+export function BasisFlapsPanel(props: FieldsProps) {
+  const { form } = props;
+  const err = fieldErrors(props);
+  const u = symbols(props.units);
+  return (
+    <Panel title="Flaps extended">
+      <div className="grid grid-cols-1 gap-x-4 sm:grid-cols-3">
+        <TextField label={`VF [${u("speed")}]`} hint="Design flap speed, EAS." inputMode="decimal" {...form.register("vf")} errors={err("vf")} />
+        <TextField label="CLmax with flaps" hint="Aircraft, flaps extended." inputMode="decimal" {...form.register("clMaxFlaps")} errors={err("clMaxFlaps")} />
+      </div>
+      <p className="text-xs text-ink-muted">
+        With both, the envelope gets the flaps-extended conditions of 14 CFR 23.345 / 25.345 (n = 2.0 up to VF, gusts of 25 ft/s EAS at VF), solved on the flapped wing of the sections step. Leave both empty for a flaps-up basis.
+      </p>
+    </Panel>
+  );
+}
+
 /** What the rules give for the saved basis, beside what was typed: a check, not a substitute. */
 export function BasisChecksPanel({ checks }: { checks: readonly BasisCheck[] }) {
   return (

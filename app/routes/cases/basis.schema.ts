@@ -26,6 +26,8 @@ export const BasisFormSchema = z.strictObject({
   wingArea: numberInput("Wing reference area", rule.wingArea),
   clMax: numberInput("Aircraft CLmax", rule.clMax),
   clMaxNegative: numberInput("Negative CLmax", rule.clMaxNegative),
+  vf: optionalNumberInput("VF", rule.vf.unwrap()),
+  clMaxFlaps: optionalNumberInput("CLmax with flaps", rule.clMaxFlaps.unwrap()),
 });
 
 export const BASIS_QUANTITIES = {
@@ -39,6 +41,7 @@ export const BASIS_QUANTITIES = {
   zmo: "altitude",
   vc: "speed",
   vd: "speed",
+  vf: "speed",
   altitudes: "altitude",
   wingArea: "area",
 } as const satisfies Record<string, Quantity>;

@@ -17,7 +17,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/basis";
-import { BasisChecksPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel } from "./basis.panels";
+import { BasisChecksPanel, BasisFlapsPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel } from "./basis.panels";
 import { BASIS_QUANTITIES, basisFormValues, BasisFormSchema } from "./basis.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -65,6 +65,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
           <BasisWeightsPanel {...fields} />
           <BasisSpeedsPanel {...fields} />
           <BasisWingPanel {...fields} />
+          <BasisFlapsPanel {...fields} />
         </fieldset>
         {loaderData.derived ? <BasisChecksPanel checks={loaderData.derived} /> : null}
         <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save basis" voids={loaderData.voids} />

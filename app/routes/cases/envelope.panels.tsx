@@ -45,7 +45,7 @@ export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; proble
             </select>
           </label>
           <Chart
-            option={vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0 }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) }) as never}
+            option={vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) }) as never}
             label="V–n diagram"
             fileName={`vn-W${setIndex + 1}`}
           />
@@ -110,6 +110,7 @@ export function CasesPanel({ form, server, units, disabled, count }: { form: Env
           { key: "alpha", label: "α [°]" },
           { key: "massCase", label: "Mass case", type: "text" },
           { key: "tailLoad", label: `Tail load [${unitSymbol(units, "force")}]` },
+          { key: "flaps", label: "Flaps", type: "checkbox" },
           { key: "excluded", label: "Excluded", type: "checkbox" },
           { key: "rule", label: "From rule", type: "text" },
         ]}
@@ -165,6 +166,7 @@ const WINDOW_COLUMNS: {
   { key: "alpha", label: () => "α [°]" },
   { key: "massCase", label: () => "Mass case", type: "text" },
   { key: "tailLoad", label: (u) => `Tail load [${unitSymbol(u, "force")}]` },
+  { key: "flaps", label: () => "Flaps", type: "checkbox" },
   { key: "excluded", label: () => "Excluded", type: "checkbox" },
   { key: "rule", label: () => "From rule", type: "text" },
 ];
@@ -386,7 +388,7 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
               type="button"
               className="rounded border border-line-strong bg-surface px-2 py-1 text-xs font-semibold hover:bg-canvas"
               onClick={() => {
-                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", excluded: false }]);
+                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", flaps: false, excluded: false }]);
                 setTimeout(() => show(total + added.length));
               }}
             >
@@ -425,6 +427,17 @@ function VnNotes({ set, units }: { set: VnSet; units: UnitSystem }) {
           Transport aeroplane: the load cases come from the tuned discrete gust of 14 CFR 25.341(a) on a rigid aircraft in plunge (below),{" "}
           {set.fg ? (set.fg.rule.startsWith("F_g = 1") ? `with ${set.fg.rule}` : `with F_g = ${set.fg.value.toFixed(3)} (${set.fg.rule})`) : ""}; the Pratt gust points are drawn for comparison only. The rigid model leaves out
           the structure's flexibility and the aircraft's pitching; the dynamic analysis the authority accepts governs.
+        </>
+      ) : null}
+      {set.flaps ? (
+        <>
+          {" "}
+          Flaps extended (points flaps-…, solved on the flapped wing of the sections step): n = 2.0 up to VF = {v(set.flaps.vf)} and gusts of 25 ft/s EAS at VF ({set.tuned ? "14 CFR 25.345(a)" : "14 CFR 23.345(a)"}, paragraph from memory);
+          flapped stall speed {v(set.flaps.vsf)} (CLmax {set.flaps.clMax}), lift slope of the flapped wing {set.flaps.liftSlope.toFixed(3)} /rad at the VF Mach number, mass ratio μ = {set.flaps.massRatio.toFixed(2)},{" "}
+          {set.tuned
+            ? `gust factor ${set.flaps.gustFactor.toFixed(4)} of the 12.5-chord one-minus-cosine gust on the rigid aircraft in plunge (Pratt's K_g ${set.flaps.prattKg.toFixed(4)})`
+            : `Pratt's K_g ${set.flaps.prattKg.toFixed(4)} (14 CFR 23.341(c))`}
+          .
         </>
       ) : null}
       {set.massCase ? ` Mass case ${set.massCase}${set.cg !== undefined ? `, CG ${(set.cg * 100).toFixed(1)} % MAC` : ""}.` : ""}

@@ -30,6 +30,7 @@ const caseRow = z.strictObject({
   nz: optionalNumberInput("Load factor", rule.nz.unwrap()),
   massCase: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(40).optional()),
   tailLoad: optionalNumberInput("Tail load"),
+  flaps: checkbox,
   excluded: checkbox,
 });
 
@@ -89,6 +90,7 @@ export function loadCaseRowValues(c: EnvelopeData["cases"][number], units: UnitS
     nz: c.nz === undefined ? "" : String(tidy(c.nz)),
     massCase: c.massCase ?? "",
     tailLoad: c.tailLoad === undefined ? "" : String(tidy(fromSI(units, "force", c.tailLoad))),
+    flaps: c.flaps ?? false,
     excluded: c.excluded,
   };
 }
@@ -100,5 +102,7 @@ export function casesToSI(cases: z.output<typeof caseRow>[], units: UnitSystem) 
     altitude: toSI(units, "altitude", k.altitude),
     weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0,
     tailLoad: k.tailLoad === undefined ? undefined : toSI(units, "force", k.tailLoad),
+    // Stored only where set, as the exchange format has it.
+    flaps: k.flaps || undefined,
   }));
 }

@@ -2,7 +2,8 @@ import { Form, useFetcher } from "react-router";
 import { useSaving } from "~/components/forms/use-saving";
 import { sectionFitOption } from "~/charts/section-fit";
 import { Chart } from "~/components/charts/chart";
-import { type ZodForm } from "~/components/forms/use-zod-form";
+import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
+import { TextField } from "~/components/forms/field";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
@@ -60,6 +61,26 @@ export function SectionGridPanel({ form, server, units, disabled }: { form: ZodF
       <p className="mt-2 text-xs text-ink-muted">
         clmax and Cp,min may be left empty: the stall and critical-Mach checks then skip that station. “at cl” is the section lift coefficient the Cp,min was taken at; left empty, a cruise-like 0.4 is assumed, and cases
         whose lift is far from it are flagged. A polar file with Cp,min per angle gives Cp,min against lift instead, read at each case's own lift.
+      </p>
+    </Panel>
+  );
+}
+
+/** The flaps extended: the flapped span and what the flap does to the section data there (the flaps-extended cases are solved with them). */
+export function FlapsPanel({ form, server, units }: { form: ZodForm<typeof SectionsFormSchema>; server: FieldErrors | undefined; units: UnitSystem }) {
+  const err = (name: "flaps.yFrom" | "flaps.yTo" | "flaps.dAlphaL0" | "flaps.dCmAc" | "flaps.clMax") => errorsFor(form, server, name);
+  return (
+    <Panel title="Flaps extended" className="mt-5">
+      <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-5">
+        <TextField label={`From y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("flaps.yFrom")} errors={err("flaps.yFrom")} />
+        <TextField label={`To y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("flaps.yTo")} errors={err("flaps.yTo")} />
+        <TextField label="Δα0L [°]" inputMode="decimal" {...form.register("flaps.dAlphaL0")} errors={err("flaps.dAlphaL0")} />
+        <TextField label="Δcm,ac [–]" inputMode="decimal" {...form.register("flaps.dCmAc")} errors={err("flaps.dCmAc")} />
+        <TextField label="clmax flapped [–]" inputMode="decimal" {...form.register("flaps.clMax")} errors={err("flaps.clMax")} />
+      </div>
+      <p className="text-xs text-ink-muted">
+        The flapped span and what the flap does to the incompressible section data there, as a flap chart or a 2-D analysis gives it at the flap setting of the design flap speed: the change of the zero-lift angle (Δcl0 = −a0·Δα0L) and of the
+        moment coefficient about the quarter chord, and the flapped section clmax (optional). The flaps-extended cases (VF in the basis) are solved on the wing with these sections; empty for a wing without flaps.
       </p>
     </Panel>
   );

@@ -24,6 +24,10 @@ export const SectionsFormSchema = z.discriminatedUnion("intent", [
         }),
       )
       .min(1, "Give section data for at least one station"),
+    /** The flapped span and its section increments; all empty for a wing without flaps. */
+    flaps: z
+      .strictObject({ yFrom: optionalNumberInput("Flaps from y"), yTo: optionalNumberInput("Flaps to y"), dAlphaL0: optionalNumberInput("Flap Δα0L"), dCmAc: optionalNumberInput("Flap Δcm,ac"), clMax: optionalNumberInput("Flapped clmax") })
+      .optional(),
   }),
   z.strictObject({ intent: z.literal("accept-upload"), revision: numberInput("Revision"), uploadId: z.uuid("Upload a file first") }),
   z.strictObject({ intent: z.literal("remove-pressures"), revision: numberInput("Revision") }),
@@ -34,8 +38,16 @@ const text = (v: number | undefined) => (v === undefined ? "" : String(tidy(v)))
 /** The saved section data as the grid shows it; before any is saved, one empty row at each planform station. */
 export function sectionsFormValues(saved: SectionsData | null, planform: PlanformData | null, units: UnitSystem) {
   const rows: { y: number; a0?: number; alphaL0?: number; cmAc?: number; clMax?: number; cpMin?: number; cpMinCl?: number }[] = saved?.rows ?? (planform?.stations ?? [{ y: 0 }]).map((s) => ({ y: s.y }));
+  const f = saved?.flaps;
   return {
     rows: rows.map((r) => ({ y: text(fromSI(units, "length", r.y)), a0: text(r.a0), alphaL0: text(r.alphaL0), cmAc: text(r.cmAc), clMax: text(r.clMax), cpMin: text(r.cpMin), cpMinCl: text(r.cpMinCl) })),
+    flaps: {
+      yFrom: text(f && fromSI(units, "length", f.yFrom)),
+      yTo: text(f && fromSI(units, "length", f.yTo)),
+      dAlphaL0: text(f?.dAlphaL0),
+      dCmAc: text(f?.dCmAc),
+      clMax: text(f?.clMax),
+    },
   };
 }
 
@@ -44,5 +56,11 @@ export function sectionsFormValues(saved: SectionsData | null, planform: Planfor
  * keeps the richer data (Cp,min table, chordwise pressures) the saved row at the same y has.
  */
 export function sectionsToSI(input: Extract<z.output<typeof SectionsFormSchema>, { intent: "save" }>, units: UnitSystem, saved: SectionsData | null) {
-  return { rows: keepRicherData(input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), saved), source: { kind: "typed" as const }, tables: [] };
+  const f = input.flaps;
+  // Any flap value typed makes a flap; the step's schema then names what is missing.
+  const flaps =
+    f && Object.values(f).some((v) => v !== undefined)
+      ? { ...f, yFrom: f.yFrom === undefined ? undefined : toSI(units, "length", f.yFrom), yTo: f.yTo === undefined ? undefined : toSI(units, "length", f.yTo) }
+      : undefined;
+  return { rows: keepRicherData(input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), saved), source: { kind: "typed" as const }, tables: [], ...(flaps ? { flaps } : {}) };
 }
