@@ -120,7 +120,8 @@ function vnSetsOf(
   if (!parsed.ok) throw new DomainError(problemsMessage(parsed.problems), { field: "planform", kind: "unprocessable" });
   const model = wingModelOf(parsed.value);
   const geometry = wingGeometry(model.stations);
-  const flapped = flapsConditions(basis) ? flappedWing(planform, sections) : undefined;
+  // VF without a flapped span in the sections leaves the flaps conditions out, as the basis check says (flapsChecks).
+  const flapped = flapsConditions(basis) && sections.flaps ? flappedWing(planform, sections.flaps, sections) : undefined;
   const flapSlopes = new Map<number, number>();
   const flapSlopeAt = (altitude: number) => {
     const mach = machFromEas(basis.vf!, altitude);
@@ -230,13 +231,12 @@ function flapsConditions(basis: BasisData): boolean {
 
 /**
  * The wing with its flaps extended, as the exchange run solves a case with flaps.
- * @throws DomainError when the sections step gives no flaps, or the flapped sections are refused
+ * @throws DomainError when the flapped sections are refused, naming the field
  */
-function flappedWing(planform: PlanformData, sections: SectionsData) {
-  if (!sections.flaps) throw new DomainError("The basis gives VF: give the flapped span and what the flap does to the section data (Flaps extended, in the sections step).", { field: "flaps", kind: "conflict" });
+function flappedWing(planform: PlanformData, flaps: NonNullable<SectionsData["flaps"]>, sections: SectionsData) {
   const parsed = parseCase({
     schema: CASE_SCHEMA_ID,
-    wing: { stations: exchangeStations(planform, sections), flaps: sections.flaps },
+    wing: { stations: exchangeStations(planform, sections), flaps },
     cases: [{ id: "probe", mach: 0, altitude: 0, alpha: 0, flaps: true }],
   });
   if (!parsed.ok) throw new DomainError(`Sections, flaps extended: ${problemsMessage(parsed.problems)}`, { field: "flaps", kind: "unprocessable" });
@@ -306,6 +306,14 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
     }
   });
   return out;
+}
+
+/** Whether the flaps-extended conditions of the basis reach the envelope: VF and CLmax with flaps given, and the flapped span in the sections. */
+export function flapsChecks(basis: BasisData, sections: SectionsData | null): RuleCheck[] {
+  const rule = basis.category === "part25" ? "14 CFR 25.345 [text from memory]" : "14 CFR 23.345 [text from memory]";
+  if (!flapsConditions(basis)) return [{ label: "Flaps extended", value: "VF not given: the flaps-extended conditions are left out of the envelope", rule }];
+  if (!sections?.flaps) return [{ label: "Flaps extended", value: "VF is given, but the sections step gives no flapped span: the flaps-extended conditions are left out of the envelope", rule, ok: false }];
+  return [{ label: "Flaps extended", value: `from y = ${sections.flaps.yFrom} to ${sections.flaps.yTo} m: n = 2.0 up to VF and gusts of 25 ft/s EAS at VF`, rule }];
 }
 
 /** One line of the basis page's check of the typed values against the rules. */

@@ -155,4 +155,18 @@ describe("the flaps-extended conditions of a commuter basis", () => {
     expect((steps.sections as { flaps: unknown }).flaps).toEqual(flaps);
     expect((steps.envelope as { cases: { flaps?: boolean }[] }).cases.filter((k) => k.flaps)).toHaveLength(36);
   });
+
+  it("leaves the flaps conditions out, and says so beside the basis, when the sections give no flapped span", async () => {
+    const fields = sectionsFields(String((await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "sections"))))[0]!.revision));
+    for (const k of Object.keys(fields)) if (k.startsWith("flaps.")) fields[k] = "";
+    expect((await run(sectionsAction, { request: post(`/cases/${caseId}/sections`, fields), params: { caseId } })).status).toBe(200);
+    const page = await run(basisLoader, { request: request(`/cases/${caseId}/basis`, { cookie: engineer }), params: { caseId } });
+    const check = (page.body as { derived: { label: string; value: string; ok?: boolean }[] }).derived.find((r) => r.label === "Flaps extended")!;
+    expect(check).toMatchObject({ ok: false, value: expect.stringMatching(/no flapped span: the flaps-extended conditions are left out/) });
+    const [env] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+    const res = await run(envelopeAction, { request: post(`/cases/${caseId}/envelope`, { intent: "generate", revision: String(env!.revision), compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: "24" }), params: { caseId } });
+    expect(res.status).toBe(200);
+    const [after] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+    expect((after!.data as { cases: { flaps?: boolean }[] }).cases.some((c) => c.flaps)).toBe(false);
+  });
 });
