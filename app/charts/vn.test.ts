@@ -18,3 +18,30 @@ describe("the V–n diagram names its points without covering one name with anot
     expect(scatter.labelLayout).toEqual({ moveOverlap: "shiftY", hideOverlap: true });
   });
 });
+
+describe("the V–n diagram shows every generated point", () => {
+  it("puts every point but the 1-g stall in the scatter, and draws the flaps-extended stall line to flaps-A, n = 2.0 to VF and the VF gust lines", () => {
+    const points = [
+      { name: "S", veas: 50, nz: 1, rule: "stall" },
+      { name: "A", veas: 89, nz: 3.1, rule: "corner" },
+      { name: "gust+VB", veas: 88, nz: 2.9, rule: "gust" },
+      { name: "gust-VD", veas: 155, nz: 0.2, rule: "gust" },
+      { name: "tuned+VD", veas: 155, nz: 1.9, rule: "tuned gust" },
+      { name: "flaps-A", veas: 59.2, nz: 2, rule: "14 CFR 23.345(a)(1)" },
+      { name: "flaps-VF", veas: 77, nz: 2, rule: "14 CFR 23.345(a)(1)" },
+      { name: "flaps-gust+VF", veas: 77, nz: 1.8, rule: "14 CFR 23.345(a)(2)" },
+      { name: "flaps-gust-VF", veas: 77, nz: 0.2, rule: "14 CFR 23.345(a)(2)" },
+    ];
+    const option = vnOption("V–n", points, { area: 27.6, clMax: 1.45, clMaxNegative: -0.9, weightN: 62272, clMaxFlaps: 2.1 }, { symbol: "m/s", fromSI: (v) => v });
+    const scatter = option.series.find((s) => s.type === "scatter") as unknown as { data: { name: string }[] };
+    expect(scatter.data.map((d) => d.name.split(":")[0])).toEqual(points.slice(1).map((p) => p.name));
+    const byName = Object.fromEntries(option.series.map((s) => [s.name, s as unknown as { data: [number, number][] }]));
+    const flaps = byName["Flaps extended"]!.data;
+    // The flapped stall line n = ½ρ0V²S·CLmax,F/W (common practice, no source) ends at flaps-A, then n = 2.0 to VF.
+    expect(flaps[0]).toEqual([0, 0]);
+    expect(flaps.at(-2)).toEqual([59.2, 2]);
+    expect(flaps.at(-1)).toEqual([77, 2]);
+    expect(flaps.at(-3)![1]).toBeCloseTo((0.5 * 1.225 * 59.2 ** 2 * 27.6 * 2.1) / 62272, 12);
+    expect(byName["Flaps-extended gust lines"]!.data.filter((p) => !Number.isNaN(p[0]))).toEqual([[0, 1], [77, 1.8], [0, 1], [77, 0.2]]);
+  });
+});
