@@ -1,8 +1,8 @@
 import { encodeBase32LowerCaseNoPadding } from "@oslojs/encoding";
-import { and, desc, eq, gt, lt } from "drizzle-orm";
+import { and, desc, eq, gt, lt, sql } from "drizzle-orm";
 import { createCookie } from "react-router";
 import { sha256Hex } from "~/db/audit.server";
-import { db } from "~/db/client.server";
+import { db, prepared } from "~/db/client.server";
 import { rethrowUnavailable } from "~/utils/unavailable.server";
 import { memberships, organisations, sessions, users } from "~/db/schema";
 import type { CurrentUser } from "~/domain/people";
@@ -69,15 +69,9 @@ export function readSession(request: Request): Promise<SessionState> {
   return loadSession(request).catch(rethrowUnavailable);
 }
 
-async function loadSession(request: Request): Promise<SessionState> {
-  const header = request.headers.get("Cookie");
-  // A cookie that is present but does not decode (altered by hand) is "invalid", not "none", so
-  // the person is told their session is not valid rather than silently treated as a stranger.
-  if (!header || !/(?:^|;\s*)sw_session=[^;]+/.test(header)) return { status: "none" };
-  const token = (await sessionCookie().parse(header).catch(() => null)) as unknown;
-  if (typeof token !== "string" || !/^[a-z2-7]{32}$/.test(token)) return { status: "invalid" };
-  const now = new Date();
-  const [row] = await db
+// Every signed-in request makes this read: built once (see `prepared`).
+const sessionByToken = prepared((database) =>
+  database
     .select({
       id: sessions.id,
       createdAt: sessions.createdAt,
@@ -91,8 +85,20 @@ async function loadSession(request: Request): Promise<SessionState> {
     .innerJoin(users, eq(users.id, sessions.userId))
     .innerJoin(organisations, eq(organisations.id, sessions.organisationId))
     .innerJoin(memberships, and(eq(memberships.userId, sessions.userId), eq(memberships.organisationId, sessions.organisationId)))
-    .where(and(eq(sessions.tokenHash, sha256Hex(token)), gt(sessions.expiresAt, now)))
-    .limit(1);
+    .where(and(eq(sessions.tokenHash, sql.placeholder("tokenHash")), gt(sessions.expiresAt, sql.placeholder("now"))))
+    .limit(1)
+    .prepare("session_by_token"),
+);
+
+async function loadSession(request: Request): Promise<SessionState> {
+  const header = request.headers.get("Cookie");
+  // A cookie that is present but does not decode (altered by hand) is "invalid", not "none", so
+  // the person is told their session is not valid rather than silently treated as a stranger.
+  if (!header || !/(?:^|;\s*)sw_session=[^;]+/.test(header)) return { status: "none" };
+  const token = (await sessionCookie().parse(header).catch(() => null)) as unknown;
+  if (typeof token !== "string" || !/^[a-z2-7]{32}$/.test(token)) return { status: "invalid" };
+  const now = new Date();
+  const [row] = await sessionByToken().execute({ tokenHash: sha256Hex(token), now });
   if (!row || row.user.disabled) return { status: "invalid" };
   if (now.getTime() - row.createdAt.getTime() > SESSION_ABSOLUTE_MS) return { status: "invalid" };
   if (now.getTime() - row.lastSeenAt.getTime() > TOUCH_AFTER_MS) {

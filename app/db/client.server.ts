@@ -33,10 +33,29 @@ export function pool(): pg.Pool {
 export const db: Db = new Proxy({} as Db, {
   // Created on first use so that importing this module never needs a database.
   get(_target, prop, receiver) {
-    globalForDb.__spanwrightDb ??= drizzle(pool(), { schema });
-    return Reflect.get(globalForDb.__spanwrightDb, prop, receiver);
+    return Reflect.get(handle(), prop, receiver);
   },
 });
+
+function handle(): Db {
+  return (globalForDb.__spanwrightDb ??= drizzle(pool(), { schema }));
+}
+
+/**
+ * A query built once and sent as a named prepared statement: the reads every page makes (the
+ * session, the case, its steps, history and checks) skip Drizzle's query building, which cost more
+ * CPU than PostgreSQL's answer, and PostgreSQL parses and plans each once per connection. Kept per
+ * database handle, so a pool closed and opened again (tests) gets its statements anew.
+ */
+export function prepared<T>(build: (database: Db) => T): () => T {
+  const built = new WeakMap<Db, T>();
+  return () => {
+    const database = handle();
+    let query = built.get(database);
+    if (query === undefined) built.set(database, (query = build(database)));
+    return query;
+  };
+}
 
 export async function closeDb(): Promise<void> {
   await globalForDb.__spanwrightPool?.end();

@@ -1,6 +1,6 @@
-import { and, asc, count, desc, eq } from "drizzle-orm";
+import { and, asc, count, desc, eq, sql } from "drizzle-orm";
 import { writeAudit } from "~/db/audit.server";
-import { db, type Db, type Tx } from "~/db/client.server";
+import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
@@ -74,14 +74,21 @@ export async function listCases(organisationId: string, opts: { programmeId?: st
 }
 
 /** The case with its programme, only if it belongs to the organisation; null for a malformed id. */
-export async function getCase(organisationId: string, caseId: string, database: Db | Tx = db) {
-  if (!isUuid(caseId)) return null;
-  const [row] = await database
+function caseQuery(database: Db | Tx) {
+  return database
     .select({ case: cases, programme: programmes, createdByName: users.name })
     .from(cases)
     .innerJoin(programmes, eq(programmes.id, cases.programmeId))
     .innerJoin(users, eq(users.id, cases.createdBy))
-    .where(and(eq(cases.id, caseId), eq(cases.organisationId, organisationId)));
+    .where(and(eq(cases.id, sql.placeholder("caseId")), eq(cases.organisationId, sql.placeholder("organisationId"))));
+}
+
+// Every page of a case makes this read: built once (see `prepared`).
+const caseById = prepared((database) => caseQuery(database).prepare("case_by_id"));
+
+export async function getCase(organisationId: string, caseId: string, database: Db | Tx = db) {
+  if (!isUuid(caseId)) return null;
+  const [row] = await (database === db ? caseById() : caseQuery(database)).execute({ caseId, organisationId });
   return row ?? null;
 }
 

@@ -1,7 +1,7 @@
-import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { STEPS, approvalWaits, downstreamOf, stepIndex } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
-import { db, type Db, type Tx } from "~/db/client.server";
+import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, memberships, signatureVoids, signatures, stepComments, stepRevisions, users } from "~/db/schema";
 import type { Role, SignatureMeaning, StepKey } from "~/domain/vocabulary";
 import { env } from "~/utils/env.server";
@@ -335,9 +335,16 @@ export async function reviewState(caseId: string, database: Db | Tx = db) {
   });
 }
 
+function stepSignaturesQuery(database: Db | Tx) {
+  return database.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, sql.placeholder("caseId")), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+}
+
+// The case overview makes this read on every view: built once (see `prepared`).
+const stepSignaturesPrepared = prepared((database) => stepSignaturesQuery(database).prepare("step_signatures"));
+
 /** Every step signature of the case (not those of reports), newest first, voided ones marked. */
 export async function stepSignatures(caseId: string, database: Db | Tx = db) {
-  const rows = await database.select({ sig: signatures, void: signatureVoids }).from(signatures).leftJoin(signatureVoids, eq(signatureVoids.signatureId, signatures.id)).where(and(eq(signatures.caseId, caseId), isNull(signatures.reportId))).orderBy(desc(signatures.signedAt));
+  const rows = await (database === db ? stepSignaturesPrepared() : stepSignaturesQuery(database)).execute({ caseId });
   return rows.map((x) => ({ step: x.sig.step, ...signatureView(x.sig, x.void) }));
 }
 
