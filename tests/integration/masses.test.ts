@@ -73,7 +73,7 @@ describe("the masses step refuses bad input with the field named, and writes not
     ["a spread mass whose end lies before its start", { "items.2.yTo": "0.1" }, "items.2.yTo", /y to must be greater than y from/],
     ["an item beyond the tip", { "items.0.y": "9.5" }, "items.0.y", /outside the wing \(semispan 8\.7 m\)/],
     ["a fill factor above 1", { "massCases.1.fill.tank-inner": "1.5" }, "massCases.1.fill.tank-inner", /between 0 and 1/],
-    ["a centre of gravity far off the MAC", { "massCases.0.cg": "400" }, "massCases.0.cg", /fraction of the MAC/],
+    ["a centre of gravity far off the MAC", { "massCases.0.cg": "400" }, "massCases.0.cg", /centre of gravity lies between −50 and 150 % MAC/],
     ["two mass cases of one id", { "massCases.1.id": "MTOW-full" }, "massCases.1.id", /used twice/],
     ["half a balance", { cmBody: "" }, "cmBody", /Give both the wing–body Cm increment and the tail arm/],
   ];
