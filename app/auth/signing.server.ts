@@ -1,5 +1,5 @@
 import { and, eq, gt, isNull } from "drizzle-orm";
-import { redirect } from "react-router";
+import { redirect, href } from "react-router";
 import { sha256Hex, writeAudit } from "~/db/audit.server";
 import { db } from "~/db/client.server";
 import { signingRequests, users } from "~/db/schema";
@@ -103,7 +103,7 @@ export const AUTH_TIME_SKEW_S = 30;
 
 /** Where the person signed from, and where they go back to afterwards. */
 export function signingPage(request: SignatureRequest): string {
-  return `/cases/${request.caseId}/${kindOf(request).page}`;
+  return href(`/cases/:caseId/${kindOf(request).page}`, { caseId: request.caseId });
 }
 
 /** Whether the person can sign with the identity provider: it is configured, this is a browser session, and their account is linked to it. */
@@ -227,5 +227,5 @@ export async function abandonSsoSignature(current: CurrentUser, flow: SsoFlow & 
     .returning();
   if (!req) return { page: "/checks", outcome: "expired" };
   await auditRefusal(current, req.caseId, { reason: `company sign-in did not complete (${reason})` });
-  return { page: `/cases/${req.caseId}/${KINDS[req.intent].page}`, outcome: "failed" };
+  return { page: href(`/cases/:caseId/${KINDS[req.intent].page}`, { caseId: req.caseId }), outcome: "failed" };
 }

@@ -1,7 +1,7 @@
 import type { SpanwiseComparison } from "~/domain/comparisons";
 import type { ReportComparison } from "~/domain/report-comparison";
 import type { EnvelopeRow } from "~/engine";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /** A display unit: its symbol and the conversion from SI. */
 export interface DisplayUnit {
@@ -13,7 +13,7 @@ export interface DisplayUnit {
  * The running lift of one case by each spanwise method that is valid for it, overlaid: the vortex
  * lattice, the lifting line and Schrenk's approximation keep their own colours and dash styles.
  */
-export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit) {
+export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit): ChartOption {
   const base = baseOption(`Running lift of case ${c.caseId} by spanwise method`);
   return {
     ...base,
@@ -32,7 +32,7 @@ export function envelopeVersionsOption(
   kind: "shear" | "bending" | "torsion",
   c: Pick<ReportComparison, "envelopes" | "from" | "to">,
   unit: DisplayUnit,
-) {
+): ChartOption {
   const title = { shear: "Shear force", bending: "Bending moment", torsion: "Torsion" }[kind];
   const base = baseOption(`${title} envelope: version ${c.from.version} and version ${c.to.version}`);
   const pts = (rows: EnvelopeRow[], k: "Max" | "Min") => rows.map((r) => [r.y, unit.scale(r[`${kind}${k}`])] as [number, number]);

@@ -1,6 +1,6 @@
 import type { CompressibilityRule } from "~/engine";
 import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 export interface DistributionSeries {
   y: number[];
@@ -22,7 +22,7 @@ const zipIn = (units: UnitSystem) => (x: number[], y: (number | null)[]): [numbe
 const spanAxis = (units: UnitSystem) => axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: roundedDataMax });
 
 /** Spanwise loading c·cl/(c̄·CL): the solver against Schrenk's approximation. */
-export function loadingOption(d: DistributionSeries, units: UnitSystem = "SI") {
+export function loadingOption(d: DistributionSeries, units: UnitSystem = "SI"): ChartOption {
   const zip = zipIn(units);
   return {
     ...baseOption("Spanwise loading"),
@@ -36,7 +36,7 @@ export function loadingOption(d: DistributionSeries, units: UnitSystem = "SI") {
 }
 
 /** Section lift coefficient with the section clmax where given. */
-export function clOption(d: DistributionSeries, units: UnitSystem = "SI") {
+export function clOption(d: DistributionSeries, units: UnitSystem = "SI"): ChartOption {
   const zip = zipIn(units);
   return {
     ...baseOption("Section lift coefficient"),
@@ -47,7 +47,7 @@ export function clOption(d: DistributionSeries, units: UnitSystem = "SI") {
 }
 
 /** The same case under each compressibility rule: cl (or cm) along the span, fixed colours per rule. */
-export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm", units: UnitSystem = "SI") {
+export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm", units: UnitSystem = "SI"): ChartOption {
   const zip = zipIn(units);
   return {
     ...baseOption(quantity === "cl" ? "Section cl by compressibility rule" : "Section cm (quarter chord) by compressibility rule"),
@@ -58,7 +58,7 @@ export function rulesOption(d: DistributionSeries, quantity: "cl" | "cm", units:
 }
 
 /** Each station's critical Mach number at this case's lift against the case Mach number, with simple sweep theory's beside it. */
-export function machCriticalOption(d: DistributionSeries, units: UnitSystem = "SI") {
+export function machCriticalOption(d: DistributionSeries, units: UnitSystem = "SI"): ChartOption {
   const zip = zipIn(units);
   return {
     ...baseOption("Critical Mach number along the span"),

@@ -1,12 +1,12 @@
 import type { TunedGustResult } from "~/engine";
-import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /**
  * The tuned discrete gust: peak incremental load factor against the gust gradient H, from the rigid
  * aircraft in plunge with lift build-up and from Pratt's formula with the same design gust velocity;
  * the critical gradient marked. `length` converts m to the display unit.
  */
-export function tunedGustOption(title: string, r: TunedGustResult, length: { symbol: string; fromSI: (m: number) => number }) {
+export function tunedGustOption(title: string, r: TunedGustResult, length: { symbol: string; fromSI: (m: number) => number }): ChartOption {
   const pts = (f: (row: TunedGustResult["rows"][number]) => number): [number, number][] => r.rows.map((row) => [length.fromSI(row.gradient), f(row)]);
   return {
     ...baseOption(title),
@@ -29,7 +29,7 @@ export function tunedGustOption(title: string, r: TunedGustResult, length: { sym
  * Time history of the plunge response at the critical gradient: the gust velocity over its peak and
  * the load factor increment over its quasi-steady sharp-edged value, against distance in chords.
  */
-export function gustHistoryOption(title: string, history: { s: number; gust: number; k: number }[]) {
+export function gustHistoryOption(title: string, history: { s: number; gust: number; k: number }[]): ChartOption {
   const chords = (s: number) => s / 2;
   return {
     ...baseOption(title),

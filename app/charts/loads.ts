@@ -1,5 +1,5 @@
 import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 export type LoadQuantity = "shear" | "bending" | "torsion";
 
@@ -14,7 +14,7 @@ export function loadsOption(
   data: { y: number[]; caseValues?: number[]; caseId?: string; max: number[]; min: number[] },
   unit: { symbol: string; scale: (si: number) => number },
   units: UnitSystem = "SI",
-) {
+): ChartOption {
   const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [fromSI(units, "length", y), unit.scale(v[i]!)]);
   const base = baseOption(TITLES[quantity]);
   return {
@@ -39,7 +39,7 @@ export function reliefOption(
   quantity: LoadQuantity,
   data: { y: number[]; aero: number[]; relief: number[]; net: number[]; caseId: string },
   unit: { symbol: string; scale: (si: number) => number },
-) {
+): ChartOption {
   const pts = (v: number[], sign = 1): [number, number][] => data.y.map((y, i) => [y, unit.scale(sign * v[i]!)]);
   const base = baseOption(`${TITLES[quantity]}, case ${data.caseId}`);
   return {

@@ -1,8 +1,8 @@
 import type { SectionsData } from "~/domain/step-data";
-import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /** cl against α of one polar table, the fitted line and the detected linear range shaded. */
-export function sectionFitOption(table: SectionsData["tables"][number], fit: { a0: number; alphaL0: number }) {
+export function sectionFitOption(table: SectionsData["tables"][number], fit: { a0: number; alphaL0: number }): ChartOption {
   const xs = table.points.map((p) => p.alpha);
   const fitted: [number, number][] = [table.linearFrom, table.linearTo].map((a) => [a, (fit.a0 * (a - fit.alphaL0) * Math.PI) / 180]);
   return {

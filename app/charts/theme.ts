@@ -1,3 +1,9 @@
+import type { LineSeriesOption, ScatterSeriesOption } from "echarts/charts";
+import type { GridComponentOption, LegendComponentOption, MarkAreaComponentOption, TitleComponentOption, TooltipComponentOption } from "echarts/components";
+import type { ComposeOption } from "echarts/core";
+
+/** An option built only of the parts the app registers (components/charts/echarts-client.tsx). */
+export type ChartOption = ComposeOption<LineSeriesOption | ScatterSeriesOption | GridComponentOption | LegendComponentOption | MarkAreaComponentOption | TitleComponentOption | TooltipComponentOption>;
 import { formatNumber } from "~/domain/units";
 
 /**

@@ -1,5 +1,5 @@
 import type { VnPoint } from "~/engine";
-import { axis, baseOption, line, SERIES_STYLE } from "./theme";
+import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /**
  * The V–n diagram of one weight and altitude: the stall lines (n = ½ρ0V²S·CLmax/W), the manoeuvre
@@ -52,8 +52,11 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
         label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "top" as const, fontSize: 10 },
         // Names still too close (a tuned gust beside Pratt's) move apart; one that still overlaps is left to its tooltip.
         labelLayout: { moveOverlap: "shiftY" as const, hideOverlap: true },
-        tooltip: { formatter: (d: { name: string; value: number[] }) => `${d.name}<br/>V = ${d.value[0]!.toFixed(1)} ${speedUnit.symbol}, n = ${d.value[1]!.toFixed(3)}` },
+        tooltip: { formatter: (d: { name: string; value?: unknown }) => {
+          const [v, n] = d.value as [number, number];
+          return `${d.name}<br/>V = ${v.toFixed(1)} ${speedUnit.symbol}, n = ${n.toFixed(3)}`;
+        } },
       },
     ],
-  };
+  } satisfies ChartOption;
 }

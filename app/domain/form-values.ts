@@ -83,7 +83,9 @@ export function tidy(value: number): number {
  * shows it: switching the units shown converts what is typed, it never relabels it. A number still
  * as shown from the stored SI value (`stored`) is converted from that value, so switching back and
  * forth never drifts; text that is not a number is left as typed, for the form's check to name.
+ * A number comes back a number, text comes back text, anything else as it was: a field keeps its type.
  */
+export function convertTyped<T>(text: T, q: Quantity, from: UnitSystem, to: UnitSystem, stored?: unknown): T;
 export function convertTyped(text: unknown, q: Quantity, from: UnitSystem, to: UnitSystem, stored?: unknown): unknown {
   if (from === to || (typeof text !== "string" && typeof text !== "number")) return text;
   const one = (s: string, si: unknown) => {

@@ -45,7 +45,7 @@ function toProblems(error: z.ZodError): CaseProblem[] {
  * Never throws for bad input: returns every problem with its path and rule.
  */
 export function parseCase(json: unknown): ParseCaseResult {
-  const r = CaseFileSchema.safeParse(json, { error: (iss) => typeMessage(iss as never) });
+  const r = CaseFileSchema.safeParse(json, { error: (iss) => typeMessage(iss) });
   if (r.success) return { ok: true, value: r.data };
   return { ok: false, problems: toProblems(r.error) };
 }

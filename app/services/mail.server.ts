@@ -1,4 +1,5 @@
 import nodemailer, { type Transporter } from "nodemailer";
+import type SMTPTransport from "nodemailer/lib/smtp-transport";
 import { env } from "~/utils/env.server";
 
 let transport: Transporter | undefined;
@@ -7,7 +8,8 @@ function transporter(): Transporter {
   const url = env().SMTP_URL;
   if (!url) throw new Error("SMTP_URL is not set: e-mail cannot be sent");
   // The local capture speaks plain SMTP on loopback; a real relay's URL carries its own TLS settings.
-  transport ??= nodemailer.createTransport(url.startsWith("smtp://127.0.0.1") ? { url, secure: false, ignoreTLS: true } as never : url);
+  const options: SMTPTransport.Options | string = url.startsWith("smtp://127.0.0.1") ? { url, secure: false, ignoreTLS: true } : url;
+  transport ??= nodemailer.createTransport(options);
   return transport;
 }
 

@@ -2,6 +2,7 @@ import { and, asc, count, desc, eq, sql } from "drizzle-orm";
 import { writeAudit } from "~/db/audit.server";
 import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { cases, programmes, users } from "~/db/schema";
+import type { CaseStatus } from "~/domain/vocabulary";
 import type { Actor } from "~/domain/people";
 import { DomainError } from "~/domain/errors";
 
@@ -49,10 +50,10 @@ export async function createProgramme(input: { organisationId: string; code: str
   });
 }
 
-export async function listCases(organisationId: string, opts: { programmeId?: string; status?: string } = {}, database: Db | Tx = db) {
+export async function listCases(organisationId: string, opts: { programmeId?: string; status?: CaseStatus } = {}, database: Db | Tx = db) {
   const filters = [eq(cases.organisationId, organisationId)];
   if (opts.programmeId) filters.push(eq(cases.programmeId, opts.programmeId));
-  if (opts.status) filters.push(eq(cases.status, opts.status as never));
+  if (opts.status) filters.push(eq(cases.status, opts.status));
   return database
     .select({
       id: cases.id,

@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
 import { chainHead, sha256Hex, writeAudit } from "~/db/audit.server";
@@ -136,7 +137,7 @@ export async function generateReport(reportId: string, attempt: { retryCount: nu
   await mailRole(report.organisationId, "quality", `${report.reportNumber} issued`, [`Report ${report.reportNumber} (version ${report.version}) has been issued and waits for release.`], `/reports`);
   const [requester] = await database.select({ email: users.email }).from(users).where(eq(users.id, report.requestedBy));
   if (requester) {
-    await sendMail({ to: requester.email, organisationId: report.organisationId, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: `${env().APP_ORIGIN}/cases/${report.caseId}/reports`, label: "Open the reports of the case" } }).catch(() => {});
+    await sendMail({ to: requester.email, organisationId: report.organisationId, subject: `${report.reportNumber} issued`, paragraphs: [`Your report ${report.reportNumber} has been generated and issued.`], link: { href: env().APP_ORIGIN + href("/cases/:caseId/reports", { caseId: report.caseId }), label: "Open the reports of the case" } }).catch(() => {});
   }
 }
 
@@ -205,8 +206,8 @@ export async function releaseReport(input: { reportId: string; caseId: string; o
     await writeAudit(tx, { organisationId: r.organisationId, actor, action: "report.release", entityType: "report", entityId: r.id, after: { signatureId: sig!.id, sha256: r.sha256 } });
     return r;
   });
-  await mailRole(released.organisationId, "engineer", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], `/cases/${released.caseId}/reports`);
-  await mailRole(released.organisationId, "checker", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], `/cases/${released.caseId}/reports`);
+  await mailRole(released.organisationId, "engineer", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], href("/cases/:caseId/reports", { caseId: released.caseId }));
+  await mailRole(released.organisationId, "checker", `${released.reportNumber} released`, [`${actor.name} released report ${released.reportNumber}.`], href("/cases/:caseId/reports", { caseId: released.caseId }));
 }
 
 export interface ReportListItem {

@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { STEPS, approvalWaits, downstreamOf, stepIndex } from "~/domain/steps";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
@@ -140,7 +141,7 @@ export async function submitStep(
     checkers.map((c) => c.email),
     `${result.case.reference}: ${input.step} submitted for check`,
     [`${actor.name} (${actor.email}) prepared and submitted the ${input.step} step of ${result.case.reference} (${result.case.title}), revision ${result.revision}, for your check.`],
-    `/cases/${input.caseId}/review`,
+    href("/cases/:caseId/review", { caseId: input.caseId }),
   );
 }
 
@@ -164,7 +165,7 @@ export async function returnStep(input: { caseId: string; step: StepKey; actor: 
     return { case: c!, revision: row.revision, author: author?.email };
   });
   if (result.author) {
-    await notify(result.case.organisationId, [result.author], `${result.case.reference}: ${input.step} returned`, [`${input.actor.email} returned the ${input.step} step of ${result.case.reference}, revision ${result.revision}, with this comment:`, input.comment.trim()], `/cases/${input.caseId}/review`);
+    await notify(result.case.organisationId, [result.author], `${result.case.reference}: ${input.step} returned`, [`${input.actor.email} returned the ${input.step} step of ${result.case.reference}, revision ${result.revision}, with this comment:`, input.comment.trim()], href("/cases/:caseId/review", { caseId: input.caseId }));
   }
 }
 
@@ -201,7 +202,7 @@ export async function approveStep(input: { caseId: string; step: StepKey; curren
     return { case: c!, revision: row.revision, author: rev.createdBy };
   });
   const [author] = await database.select({ email: users.email }).from(users).where(eq(users.id, result.author));
-  if (author) await notify(result.case.organisationId, [author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], `/cases/${input.caseId}/review`);
+  if (author) await notify(result.case.organisationId, [author.email], `${result.case.reference}: ${input.step} approved`, [`${actor.name} checked and approved the ${input.step} step of ${result.case.reference}, revision ${result.revision}.`], href("/cases/:caseId/review", { caseId: input.caseId }));
 }
 
 /**
@@ -276,7 +277,7 @@ export async function approveCaseForIssue(input: { caseId: string; current: Curr
     engineers.map((e) => e.email),
     `${approved.reference}: approved for issue`,
     [`${actor.name} signed ${approved.reference} (${approved.title}) as approved for issue. An engineer of the case can now request the report on its Reports page.`],
-    `/cases/${input.caseId}/reports`,
+    href("/cases/:caseId/reports", { caseId: input.caseId }),
   );
 }
 

@@ -1,14 +1,15 @@
 import { lazy, Suspense, useRef, useSyncExternalStore } from "react";
-import type { EChartsOption } from "echarts";
+import type ReactEChartsCore from "echarts-for-react/esm/core";
+import type { ChartOption } from "~/charts/theme";
 
 // ECharts needs a browser: the server renders a sized frame and the chart appears on hydration,
 // from a chunk of its own holding only the chart types and components the app draws.
 const ReactECharts = lazy(() => import("./echarts-client"));
 
 /** One chart with hover read-outs and PNG/SVG saving; options come from app/charts builders. */
-export function Chart({ option, height = 320, label, fileName }: { option: EChartsOption; height?: number; label: string; fileName: string }) {
+export function Chart({ option, height = 320, label, fileName }: { option: ChartOption; height?: number; label: string; fileName: string }) {
   const client = useHydrated();
-  const ref = useRef<{ getEchartsInstance(): { getDataURL(o: object): string } } | null>(null);
+  const ref = useRef<ReactEChartsCore | null>(null);
   const save = async (type: "png" | "svg") => {
     const a = document.createElement("a");
     a.download = `${fileName}.${type}`;
@@ -31,7 +32,7 @@ export function Chart({ option, height = 320, label, fileName }: { option: EChar
       <div style={{ height }}>
         {client ? (
           <Suspense fallback={null}>
-            <ReactECharts ref={ref as never} option={option} style={{ height, width: "100%" }} opts={{ renderer: "canvas" }} notMerge />
+            <ReactECharts ref={ref} option={option} style={{ height, width: "100%" }} opts={{ renderer: "canvas" }} notMerge />
           </Suspense>
         ) : null}
       </div>

@@ -25,7 +25,7 @@ const symbols = (units: UnitSystem) => (q: Quantity) => unitSymbol(units, q);
 function convertShown(form: FieldsProps["form"], to: UnitSystem, saved: BasisData | null) {
   const from: UnitSystem = to === "US" ? "SI" : "US";
   for (const [key, q] of Object.entries(BASIS_QUANTITIES) as [keyof typeof BASIS_QUANTITIES, Quantity][]) {
-    form.setValue(key, convertTyped(form.getValues(key), q, from, to, saved?.[key]) as never, { shouldDirty: true });
+    form.setValue(key, convertTyped(form.getValues(key), q, from, to, saved?.[key]), { shouldDirty: true });
   }
 }
 

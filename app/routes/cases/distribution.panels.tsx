@@ -73,11 +73,11 @@ export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultM
 export function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
   return (
     <div className="grid gap-4 xl:grid-cols-2">
-      <Chart option={loadingOption(view, units) as never} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
-      <Chart option={clOption(view, units) as never} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cl", units) as never} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cm", units) as never} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
-      <Chart option={machCriticalOption(view, units) as never} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
+      <Chart option={loadingOption(view, units)} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
+      <Chart option={clOption(view, units)} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cl", units)} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
+      <Chart option={rulesOption(view, "cm", units)} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
+      <Chart option={machCriticalOption(view, units)} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
       <Panel title="The three rules for this case">
         <table className="w-full text-sm tabular">
           <thead className="text-xs text-ink-muted">
@@ -306,7 +306,7 @@ function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseCompariso
   const lift = { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) };
   return (
     <div className="grid gap-4 xl:grid-cols-2">
-      <Chart option={spanwiseWaysOption(c, lift) as never} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
+      <Chart option={spanwiseWaysOption(c, lift)} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
       <div className="overflow-x-auto">
         <table className="w-full text-sm tabular" aria-label="Root loads by spanwise method">
           <thead className="text-xs text-ink-muted">

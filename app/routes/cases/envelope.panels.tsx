@@ -45,7 +45,7 @@ export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; proble
             </select>
           </label>
           <Chart
-            option={vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) }) as never}
+            option={vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) })}
             label="V–n diagram"
             fileName={`vn-W${setIndex + 1}`}
           />
@@ -497,8 +497,8 @@ function TunedGustPanel({ set, units }: { set: VnSet; units: UnitSystem }) {
         EAS: Δn = <strong className="tabular">{c.deltaN.toFixed(4)}</strong> (factor K = {c.k.toFixed(4)}); Pratt's formula with the same gust gives {c.prattDeltaN.toFixed(4)}.
       </p>
       <div className="grid gap-4 xl:grid-cols-2">
-        <Chart option={tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length) as never} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
-        <Chart option={gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history) as never} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
+        <Chart option={tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length)} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
+        <Chart option={gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history)} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
       </div>
       <p className="mt-2 text-xs text-ink-muted">
         {t.result.method}. U_ds = U_ref·F_g·(H/350 ft)^(1/6); gradients from 30 to 350 ft. Left out: the flexibility of the structure, the aircraft's pitching and the tail's own lift, compressibility and finite span in the lift

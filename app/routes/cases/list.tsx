@@ -29,7 +29,7 @@ export default function CasesRoute({ loaderData }: Route.ComponentProps) {
         description="Loads case files of your organisation's programmes."
         actions={
           canCreate ? (
-            <Link to="/cases/new" className="rounded border border-accent bg-accent px-3 py-1.5 text-sm font-semibold text-white no-underline hover:bg-accent-strong hover:text-white">
+            <Link to={href("/cases/new")} className="rounded border border-accent bg-accent px-3 py-1.5 text-sm font-semibold text-white no-underline hover:bg-accent-strong hover:text-white">
               New case
             </Link>
           ) : null

@@ -112,7 +112,7 @@ export function BreakdownPanel({ caseId, current, result, units, info }: { caseI
             {(["shear", "bending", "torsion"] as const).map((q) => (
               <Chart
                 key={q}
-                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment) as never}
+                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment)}
                 label={`${q === "shear" ? "Shear" : q === "bending" ? "Bending moment" : "Torsion"}: aerodynamic, relief and net`}
                 fileName={`${q}-relief-${current.id}`}
               />
@@ -192,9 +192,9 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
   });
   return (
     <div className="grid gap-4 xl:grid-cols-3">
-      <Chart option={loadsOption("shear", series("shear"), force, units) as never} label="Shear force along the span" fileName="shear" />
-      <Chart option={loadsOption("bending", series("bending"), moment, units) as never} label="Bending moment along the span" fileName="bending" />
-      <Chart option={loadsOption("torsion", series("torsion"), moment, units) as never} label="Torsion along the span" fileName="torsion" />
+      <Chart option={loadsOption("shear", series("shear"), force, units)} label="Shear force along the span" fileName="shear" />
+      <Chart option={loadsOption("bending", series("bending"), moment, units)} label="Bending moment along the span" fileName="bending" />
+      <Chart option={loadsOption("torsion", series("torsion"), moment, units)} label="Torsion along the span" fileName="torsion" />
     </div>
   );
 }

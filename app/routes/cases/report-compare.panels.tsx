@@ -161,7 +161,7 @@ export function EnvelopeOverlays({ c, units }: { c: ReportComparison; units: Uni
         return (
           <Panel key={kind}>
             <Chart
-              option={envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) }) as never}
+              option={envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) })}
               label={`${kind} envelope of versions ${c.from.version} and ${c.to.version}`}
               fileName={`envelope-${kind}-v${c.from.version}-v${c.to.version}`}
             />

@@ -125,7 +125,7 @@ export function UploadPanel({ revision, maxKiB }: { revision: number; maxKiB: nu
 export function SectionFitCharts({ saved }: { saved: SectionsData | null }) {
   return (saved?.tables ?? []).map((t) => {
     const row = saved!.rows.find((r) => r.y === t.y);
-    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 }) as never} label={`Section fit at y = ${t.y} m`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
+    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 })} label={`Section fit at y = ${t.y} m`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
   });
 }
 

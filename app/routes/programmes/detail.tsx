@@ -25,7 +25,7 @@ export default function ProgrammeRoute({ loaderData }: Route.ComponentProps) {
         description={`${programme.aircraft}${programme.description ? `. ${programme.description}` : ""}`}
         actions={
           loaderData.canCreate ? (
-            <Link to={`/cases/new?programme=${programme.id}`} className="rounded border border-accent bg-accent px-3 py-1.5 text-sm font-semibold text-white no-underline hover:text-white">
+            <Link to={`${href("/cases/new")}?programme=${programme.id}`} className="rounded border border-accent bg-accent px-3 py-1.5 text-sm font-semibold text-white no-underline hover:text-white">
               New case
             </Link>
           ) : null

@@ -1,3 +1,4 @@
+import { href } from "react-router";
 import { requireApiUser } from "~/auth/api-auth.server";
 import { exchangeDocumentText } from "~/exchange";
 import { exportCaseDocuments } from "~/services/analysis.server";
@@ -26,7 +27,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
       if (!sections) return notFoundJson("Richer section data of this case");
       return json(sections, "sections");
     }
-    return json(file, "case", sections ? { Link: `</api/v1/cases/${found.case.id}/export?part=sections>; rel="related"; type="application/json"` } : {});
+    return json(file, "case", sections ? { Link: `<${href("/api/v1/cases/:caseId/export", { caseId: found.case.id })}?part=sections>; rel="related"; type="application/json"` } : {});
   });
 }
 
