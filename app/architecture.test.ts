@@ -188,3 +188,22 @@ describe("route modules read in the same order", () => {
     expect(names).toEqual([...names].sort((a, b) => HOUSE_ORDER.indexOf(a) - HOUSE_ORDER.indexOf(b)));
   });
 });
+
+describe("one way to do each thing", () => {
+  it("casts nothing to never: types say what a value is", () => {
+    const casting = files.filter(({ abs }) => /\bas never\b/.test(readFileSync(abs, "utf8"))).map(({ file }) => file);
+    expect(casting).toEqual([]);
+  });
+
+  it("builds no case path by hand: href() checks it against app/routes.ts", () => {
+    const handBuilt = files.filter(({ abs }) => /\/cases\/\$\{/.test(readFileSync(abs, "utf8"))).map(({ file }) => file);
+    expect(handBuilt).toEqual([]);
+  });
+
+  it("gives every page of a case its own error boundary, so a refusal is said inside the case frame", () => {
+    const casePages = [...ROUTE_MODULES].filter((f) => /^routes\/cases\/.+\.tsx$/.test(f) && !["routes/cases/list.tsx", "routes/cases/new.tsx"].includes(f));
+    expect(casePages.length).toBeGreaterThan(10);
+    const without = casePages.filter((f) => !/^export function ErrorBoundary\(/m.test(readFileSync(join(APP, f), "utf8")));
+    expect(without).toEqual([]);
+  });
+});
