@@ -117,7 +117,7 @@ export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
               Errors are JSON: <code>{'{ "error": "…", "message": "…" }'}</code>. 401 means no credentials or a token that is unknown or revoked; 403 that your role
               lacks the permission named; 404 that the case does not exist in your organisation (another organisation's case answers the same way).
             </p>
-            <pre className="overflow-x-auto rounded bg-canvas p-3 text-xs">export SPANWRIGHT_TOKEN=sw_…</pre>
+            <pre tabIndex={0} className="overflow-x-auto rounded bg-canvas p-3 text-xs">export SPANWRIGHT_TOKEN=sw_…</pre>
           </div>
         </Panel>
         {loaderData.endpoints.map((e) => (
@@ -129,7 +129,10 @@ export default function ApiDocsRoute({ loaderData }: Route.ComponentProps) {
             <p className="mt-1 text-xs text-ink-muted">
               Needs {e.permission}; a token of scope {e.scope === "read" ? "read only or read and write" : "read and write"}.
             </p>
-            <pre className="mt-2 overflow-x-auto rounded bg-canvas p-3 text-xs">{e.curl}</pre>
+            {/* Focusable, so a keyboard can scroll a long command sideways (WCAG 2.1.1). */}
+            <pre tabIndex={0} className="mt-2 overflow-x-auto rounded bg-canvas p-3 text-xs">
+              {e.curl}
+            </pre>
           </Panel>
         ))}
         <Panel title="Limits">

@@ -36,12 +36,12 @@ function Shell({ data, children }: { data: Route.ComponentProps["loaderData"]; c
   return (
     <div className="flex min-h-screen flex-col">
       <header className="flex h-12 items-center gap-4 border-b border-line bg-ink px-4 text-white">
-        <a href="/" className="text-lg font-semibold tracking-tight text-white hover:text-white">
+        <a href="/" className="text-lg font-semibold tracking-tight text-white no-underline hover:text-white">
           Spanwright
         </a>
         <span className="text-sm text-white/70" data-testid="organisation">{data.organisation.name}</span>
         <div className="ml-auto flex items-center gap-3 text-sm">
-          <NavLink to="/account" className="text-white hover:text-white/80">
+          <NavLink to="/account" className="text-white no-underline hover:text-white/80 hover:underline">
             {data.user.name}
           </NavLink>
           <span className="hidden text-white/70 sm:inline" data-testid="roles">
