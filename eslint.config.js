@@ -6,7 +6,7 @@ import reactHooks from "eslint-plugin-react-hooks";
 import tseslint from "typescript-eslint";
 
 export default defineConfig([
-  globalIgnores(["build/", ".react-router/", "node_modules/", "drizzle/", "public/", "test-results/", "app/engine/wasm/dense-lu.ts"]),
+  globalIgnores(["build/", ".react-router/", "tests/bench/peer/build/", "tests/bench/peer/.react-router/", "node_modules/", "drizzle/", "public/", "test-results/", "app/engine/wasm/dense-lu.ts"]),
   tseslint.configs.recommended,
   {
     files: ["**/*.{ts,tsx}"],

@@ -179,7 +179,7 @@ function intentBody(file: string, intent: string, caller: Caller): FormData {
   const fd = new FormData();
   fd.set("intent", intent);
   const password = DEMO_USERS.find((u) => u.label === caller)?.password;
-  if (password && (intent === "approve" || intent === "approve-case" || intent === "release")) fd.set("password", password);
+  if (password && (intent === "submit" || intent === "approve" || intent === "approve-case" || intent === "release")) fd.set("password", password);
   if (file.endsWith("review.tsx")) {
     if (intent !== "approve-case") fd.set("step", "planform");
     if (intent === "return") fd.set("comment", "Please recheck the tip chord.");
