@@ -1,7 +1,8 @@
 import type { SpanwiseComparison } from "~/domain/comparisons";
 import type { ReportComparison } from "~/domain/report-comparison";
 import type { EnvelopeRow } from "~/engine";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
+import type { UnitSystem } from "~/domain/units";
+import { axis, baseOption, line, SERIES_STYLE, spanAxis, station, type ChartOption } from "./theme";
 
 /** A display unit: its symbol and the conversion from SI. */
 export interface DisplayUnit {
@@ -13,13 +14,13 @@ export interface DisplayUnit {
  * The running lift of one case by each spanwise method that is valid for it, overlaid: the vortex
  * lattice, the lifting line and Schrenk's approximation keep their own colours and dash styles.
  */
-export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit): ChartOption {
+export function spanwiseWaysOption(c: SpanwiseComparison, unit: DisplayUnit, units: UnitSystem): ChartOption {
   const base = baseOption(`Running lift of case ${c.caseId} by spanwise method`);
   return {
     ...base,
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
+    xAxis: spanAxis(units),
     yAxis: axis(`Running lift [${unit.symbol}]`),
-    series: c.ways.flatMap((w) => (w.valid ? [line(SERIES_STYLE[w.way].label, w.y.map((y, i) => [y, unit.scale(w.lift[i]!)] as [number, number]), SERIES_STYLE[w.way])] : [])),
+    series: c.ways.flatMap((w) => (w.valid ? [line(SERIES_STYLE[w.way].label, w.y.map((y, i) => [station(units, y), unit.scale(w.lift[i]!)] as [number, number]), SERIES_STYLE[w.way])] : [])),
   };
 }
 
@@ -32,13 +33,14 @@ export function envelopeVersionsOption(
   kind: "shear" | "bending" | "torsion",
   c: Pick<ReportComparison, "envelopes" | "from" | "to">,
   unit: DisplayUnit,
+  units: UnitSystem,
 ): ChartOption {
   const title = { shear: "Shear force", bending: "Bending moment", torsion: "Torsion" }[kind];
   const base = baseOption(`${title} envelope: version ${c.from.version} and version ${c.to.version}`);
-  const pts = (rows: EnvelopeRow[], k: "Max" | "Min") => rows.map((r) => [r.y, unit.scale(r[`${kind}${k}`])] as [number, number]);
+  const pts = (rows: EnvelopeRow[], k: "Max" | "Min") => rows.map((r) => [station(units, r.y), unit.scale(r[`${kind}${k}`])] as [number, number]);
   return {
     ...base,
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
+    xAxis: spanAxis(units),
     yAxis: axis(`${title} [${unit.symbol}]`),
     series: [
       line(`v${c.to.version} max`, pts(c.envelopes.after, "Max"), SERIES_STYLE.envelopeMax),

@@ -1,6 +1,6 @@
 import type { CompressibilityRule } from "~/engine";
-import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
+import type { UnitSystem } from "~/domain/units";
+import { axis, baseOption, line, SERIES_STYLE, spanAxis, station, type ChartOption } from "./theme";
 
 export interface DistributionSeries {
   y: number[];
@@ -17,9 +17,7 @@ export interface DistributionSeries {
 }
 
 // Stations (SI metres) in the length unit shown.
-const zipIn = (units: UnitSystem) => (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[fromSI(units, "length", v), y[i] as number] as [number, number]]));
-// The span axis ends at the tip rather than at a rounded value beyond it.
-const spanAxis = (units: UnitSystem) => axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: roundedDataMax });
+const zipIn = (units: UnitSystem) => (x: number[], y: (number | null)[]): [number, number][] => x.flatMap((v, i) => (y[i] === null || y[i] === undefined ? [] : [[station(units, v), y[i] as number] as [number, number]]));
 
 /** Spanwise loading c·cl/(c̄·CL): the solver against Schrenk's approximation. */
 export function loadingOption(d: DistributionSeries, units: UnitSystem = "SI"): ChartOption {

@@ -1,5 +1,5 @@
-import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import { axis, roundedDataMax, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
+import type { UnitSystem } from "~/domain/units";
+import { axis, baseOption, line, SERIES_STYLE, spanAxis, station, type ChartOption } from "./theme";
 
 export type LoadQuantity = "shear" | "bending" | "torsion";
 
@@ -15,13 +15,13 @@ export function loadsOption(
   unit: { symbol: string; scale: (si: number) => number },
   units: UnitSystem = "SI",
 ): ChartOption {
-  const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [fromSI(units, "length", y), unit.scale(v[i]!)]);
+  const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [station(units, y), unit.scale(v[i]!)]);
   const base = baseOption(TITLES[quantity]);
   return {
     ...base,
     // Three legend entries wrap to two rows in the pages' third-width charts: keep the plot below them.
     grid: { ...base.grid, top: 80 },
-    xAxis: axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: roundedDataMax }),
+    xAxis: spanAxis(units),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),
@@ -39,13 +39,14 @@ export function reliefOption(
   quantity: LoadQuantity,
   data: { y: number[]; aero: number[]; relief: number[]; net: number[]; caseId: string },
   unit: { symbol: string; scale: (si: number) => number },
+  units: UnitSystem,
 ): ChartOption {
-  const pts = (v: number[], sign = 1): [number, number][] => data.y.map((y, i) => [y, unit.scale(sign * v[i]!)]);
+  const pts = (v: number[], sign = 1): [number, number][] => data.y.map((y, i) => [station(units, y), unit.scale(sign * v[i]!)]);
   const base = baseOption(`${TITLES[quantity]}, case ${data.caseId}`);
   return {
     ...base,
     grid: { ...base.grid, top: 80 },
-    xAxis: axis("Spanwise station y [m]", { min: 0, max: roundedDataMax }),
+    xAxis: spanAxis(units),
     yAxis: axis(`${TITLES[quantity].split(" (")[0]} [${unit.symbol}]`),
     series: [
       line(SERIES_STYLE.aerodynamic.label, pts(data.aero), SERIES_STYLE.aerodynamic),

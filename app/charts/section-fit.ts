@@ -1,12 +1,13 @@
 import type { SectionsData } from "~/domain/step-data";
+import { formatQuantity, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /** cl against α of one polar table, the fitted line and the detected linear range shaded. */
-export function sectionFitOption(table: SectionsData["tables"][number], fit: { a0: number; alphaL0: number }): ChartOption {
+export function sectionFitOption(table: SectionsData["tables"][number], fit: { a0: number; alphaL0: number }, units: UnitSystem): ChartOption {
   const xs = table.points.map((p) => p.alpha);
   const fitted: [number, number][] = [table.linearFrom, table.linearTo].map((a) => [a, (fit.a0 * (a - fit.alphaL0) * Math.PI) / 180]);
   return {
-    ...baseOption(`Section at y = ${table.y.toPrecision(4)} m`),
+    ...baseOption(`Section at y = ${formatQuantity(units, "length", table.y)}`),
     xAxis: axis("Angle of attack α [°]", { min: Math.floor(Math.min(...xs)), max: Math.ceil(Math.max(...xs)) }),
     yAxis: axis("Section lift coefficient cl [–]"),
     series: [

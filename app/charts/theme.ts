@@ -4,7 +4,7 @@ import type { ComposeOption } from "echarts/core";
 
 /** An option built only of the parts the app registers (components/charts/echarts-client.tsx). */
 export type ChartOption = ComposeOption<LineSeriesOption | ScatterSeriesOption | GridComponentOption | LegendComponentOption | MarkAreaComponentOption | TitleComponentOption | TooltipComponentOption>;
-import { formatNumber } from "~/domain/units";
+import { formatNumber, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 
 /**
  * Series styles that never change between pages and the PDF: the three compressibility rules,
@@ -61,6 +61,12 @@ export function axis(name: string, extra: Record<string, unknown> = {}) {
     ...extra,
   };
 }
+
+/** The spanwise station axis in the length unit shown. */
+export const spanAxis = (units: UnitSystem) => axis(`Spanwise station y [${unitSymbol(units, "length")}]`, { min: 0, max: roundedDataMax });
+
+/** A station (SI metres) in the length unit shown. */
+export const station = (units: UnitSystem, y: number) => fromSI(units, "length", y);
 
 export function baseOption(title: string) {
   return {

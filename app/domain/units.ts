@@ -45,6 +45,17 @@ const UNITS: Record<UnitSystem, Record<Quantity, UnitDef>> = {
   },
 };
 
+/** A unit system in words with its main units, as pages and the report name the units they show. */
+export function unitSystemWords(system: UnitSystem): string {
+  const u = (q: Quantity) => UNITS[system][q].symbol;
+  return `${system === "SI" ? "SI" : "US customary"} (${u("length")}, ${u("mass")}, ${u("force")}, ${u("moment")}, ${u("speed")} EAS)`;
+}
+
+/** What units a document is in: SI always (stored and computed), and the chosen system beside it where someone chose another. */
+export function unitsStatement(system: UnitSystem): string {
+  return system === "SI" ? `${unitSystemWords("SI")}: stored, computed and shown` : `${unitSystemWords(system)} as chosen in the basis; stored and computed in ${unitSystemWords("SI")}`;
+}
+
 export function unitSymbol(system: UnitSystem, q: Quantity): string {
   return UNITS[system][q].symbol;
 }

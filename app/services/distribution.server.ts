@@ -2,6 +2,7 @@ import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
@@ -17,13 +18,13 @@ export interface CaseFlag {
  * Cases the engineer must disposition: above the critical Mach number, with stations over clMax, or whose
  * critical-Mach check rests on a single Cp,min taken far from the case's lift.
  */
-export function flaggedCases(result: CaseResult): CaseFlag[] {
+export function flaggedCases(result: CaseResult, units: UnitSystem = "SI"): CaseFlag[] {
   return result.cases
     .map((c) => ({
       id: c.id,
       reasons: [
         ...(c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : []),
-        ...summariseStall(c.warnings),
+        ...summariseStall(c.warnings, units),
         ...c.warnings.filter((w) => CRITICAL_MACH_DOUBT.test(w)).map(() => "the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"),
       ],
     }))
@@ -33,14 +34,15 @@ export function flaggedCases(result: CaseResult): CaseFlag[] {
 const CRITICAL_MACH_DOUBT = /^the critical Mach number rests on one cpMin per section/;
 const STALL = /station y = ([\d.]+) m: cl ([\d.-]+) exceeds the section clMax ([\d.-]+)/;
 
-/** One line for all of a case's stations over clmax: how many, where, and the worst ratio. */
-export function summariseStall(warnings: string[]): string[] {
+/** One line for all of a case's stations over clmax: how many, where (in the length unit shown), and the worst ratio. */
+export function summariseStall(warnings: string[], units: UnitSystem): string[] {
   const hits = warnings.map((w) => STALL.exec(w)).filter((m): m is RegExpExecArray => m !== null).map((m) => ({ y: Number(m[1]), cl: Number(m[2]), clMax: Number(m[3]) }));
   if (hits.length === 0) return [];
   const worst = hits.reduce((a, b) => (b.cl / b.clMax > a.cl / a.clMax ? b : a));
   const ys = hits.map((h) => h.y);
+  const y = (m: number) => fromSI(units, "length", m).toFixed(2);
   return [
-    `cl exceeds the section clmax at ${hits.length} station${hits.length > 1 ? "s" : ""} (y = ${Math.min(...ys).toFixed(2)}–${Math.max(...ys).toFixed(2)} m); worst cl/clmax = ${(worst.cl / worst.clMax).toFixed(3)} at y = ${worst.y.toFixed(2)} m`,
+    `cl exceeds the section clmax at ${hits.length} station${hits.length > 1 ? "s" : ""} (y = ${y(Math.min(...ys))}–${y(Math.max(...ys))} ${unitSymbol(units, "length")}); worst cl/clmax = ${(worst.cl / worst.clMax).toFixed(3)} at y = ${y(worst.y)} ${unitSymbol(units, "length")}`,
   ];
 }
 
@@ -105,9 +107,9 @@ export function distributionView(input: CaseFileInput, caseId: string, sections?
 export type DistributionView = ReturnType<typeof distributionView>;
 
 /** The view with one summary line for all stations over clmax, as the page shows it. */
-export function distributionViewForPage(input: CaseFileInput, caseId: string, sections?: SectionsFile) {
+export function distributionViewForPage(input: CaseFileInput, caseId: string, units: UnitSystem, sections?: SectionsFile) {
   const full = runEngine(() => distributionView(input, caseId, sections));
-  return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings)] };
+  return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings, units)] };
 }
 
 /**
@@ -121,9 +123,9 @@ export async function distributionStep(input: { caseId: string; title: string; i
     const file = buildCaseFile(input.title, input.inputs, "envelope");
     const sections = buildSectionsFile(input.inputs);
     const { result } = await resultsFor(input.caseId, file, input.actorId, sections);
-    const flags = flaggedCases(result);
+    const flags = flaggedCases(result, input.inputs.basis?.units);
     const shown = input.requested && file.cases.some((k) => k.id === input.requested) ? input.requested : (flags[0]?.id ?? file.cases[0]!.id);
-    return { problem: null, view: distributionViewForPage(file, shown, sections), method: result.method, flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
+    return { problem: null, view: distributionViewForPage(file, shown, input.inputs.basis?.units ?? "SI", sections), method: result.method, flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
   } catch (error) {
     if (error instanceof DomainError) return { problem: error.message, view: null, method: null, flags: [], open: [], dispositions };
     throw error;

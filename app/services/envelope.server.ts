@@ -21,6 +21,7 @@ import {
 import { CASE_SCHEMA_ID, caseWingModel, parseCase, wingModelOf } from "~/exchange";
 import { exchangeStations, type CaseInputs } from "./analysis.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
+import { formatQuantity, fromSI, unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
 import { runEngine } from "./engine.server";
 
 const G0 = 9.80665;
@@ -37,6 +38,9 @@ export interface TunedGustAtSpeed {
   /** The response at the critical gradient: s in semichords, gust and Δn as fractions of their peaks. */
   history: { s: number; gust: number; k: number }[];
 }
+
+/** A whole number in the display unit with its symbol ("3200 kg", "6001 ft"), as the V–n sets are named. */
+const whole = (units: UnitSystem, q: Quantity, si: number) => `${fromSI(units, q, si).toFixed(0)} ${unitSymbol(units, q)}`;
 
 export interface VnSet {
   label: string;
@@ -138,7 +142,7 @@ function vnSetsOf(
   const slopes = new Map<number, number>();
   const slopeAt = (veas: number, altitude: number, name: string) => {
     const mach = machFromEas(veas, altitude);
-    if (mach >= 1) throw new DomainError(`${name} at ${altitude} m is Mach ${mach.toFixed(3)}: the subsonic rules do not apply.`, { field: name.toLowerCase() });
+    if (mach >= 1) throw new DomainError(`${name} at ${formatQuantity(basis.units, "altitude", altitude)} is Mach ${mach.toFixed(3)}: the subsonic rules do not apply.`, { field: name.toLowerCase() });
     let a = slopes.get(mach);
     if (a === undefined) {
       a = solveMach(model, mach, { spanwise: method.spanwise, rule: method.compressibility, stations: 20 }).clAlphaPerRad;
@@ -192,7 +196,7 @@ function vnSetsOf(
         });
         for (const t of tuned) {
           const c = t.result.critical;
-          const rule = `14 CFR 25.341(a): tuned 1-cos gust, H = ${c.gradient.toFixed(1)} m, U_ds = ${c.uds.toFixed(2)} m/s EAS (F_g ${fg!.value.toFixed(3)}), rigid aircraft in plunge`;
+          const rule = `14 CFR 25.341(a): tuned 1-cos gust, H = ${formatQuantity(basis.units, "length", c.gradient)}, U_ds = ${formatQuantity(basis.units, "speed", c.uds)} EAS (F_g ${fg!.value.toFixed(3)}), rigid aircraft in plunge`;
           points.push({ name: `tuned+${t.speed}`, veas: t.veas, nz: 1 + c.deltaN, rule }, { name: `tuned-${t.speed}`, veas: t.veas, nz: 1 - c.deltaN, rule });
         }
       }
@@ -204,7 +208,8 @@ function vnSetsOf(
         flaps = { vf: basis.vf!, clMax: basis.clMaxFlaps!, vsf: f.vsf, liftSlope: a, massRatio: f.massRatio, gustFactor: f.gustFactor, prattKg: f.prattKg };
       }
       sets.push({
-        label: `${w.label} ${w.kg.toFixed(0)} kg, ${altitude} m`,
+        // In the units the basis chose, as the pages and the report show the set.
+        label: `${w.label} ${whole(basis.units, "mass", w.kg)}, ${whole(basis.units, "altitude", altitude)}`,
         weightKg: w.kg,
         altitude,
         ...(w.massCase ? { massCase: w.massCase, cg: w.cg } : {}),

@@ -47,7 +47,7 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
   const exchange = buildCaseFile(row!.c.title, inputs);
   const sections = buildSectionsFile(inputs);
   const { result, inputHash } = await resultsFor(report.caseId, exchange, report.requestedBy, sections, { database });
-  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy, sections, { database })).result).map((f) => ({
+  const flags = flaggedCases((await resultsFor(report.caseId, buildCaseFile(row!.c.title, inputs, "envelope"), report.requestedBy, sections, { database })).result, inputs.basis.units).map((f) => ({
     ...f,
     action: inputs.distribution?.dispositions[f.id]?.action ?? "none",
     comment: inputs.distribution?.dispositions[f.id]?.comment ?? "",

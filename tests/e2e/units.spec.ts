@@ -1,3 +1,4 @@
+import fs from "node:fs";
 import { expect, test, type Page } from "@playwright/test";
 import { DEMO_CASE_INPUTS } from "../../app/demo/scenario";
 import { copyOfDemoCase, exported, hydrated, signIn, typeDemoBasis } from "./helpers";
@@ -75,4 +76,50 @@ test("switching the units converts what is shown; what is typed in either system
   await page.getByRole("button", { name: "Save planform" }).click();
   await expect(saved(page, 3)).toBeVisible({ timeout: 60_000 });
   expect((await exported(page, caseId)).wing.stations[0]!.chord).toBe(2.2);
+});
+
+test("in US units the V–n sets, the distribution, the relief chart and the root-loads CSV follow: no metre or kilogram left", async ({ page }) => {
+  test.setTimeout(300_000);
+  await signIn(page, "engineer");
+  const caseId = await copyOfDemoCase(page, "E2E-UNITS-2", { oneCase: true });
+  await typeDemoBasis(page, caseId);
+  await page.getByLabel("Units shown").selectOption("US");
+  await page.getByRole("button", { name: "Save basis" }).click();
+  await expect(saved(page, 2)).toBeVisible({ timeout: 60_000 });
+  const exportedCase = await exported(page, caseId);
+
+  // The V–n sets are named by weight and altitude in pounds and feet (1828.8 m would read 6000 ft).
+  await page.goto(`/cases/${caseId}/envelope`);
+  const sets = page.getByLabel("Weight and altitude").locator("option");
+  await expect(sets.first()).toBeAttached({ timeout: 120_000 });
+  const names = await sets.allTextContents();
+  const firstAltitudeFt = Math.round(DEMO_CASE_INPUTS.basis.altitudes[0]! / FT);
+  expect(names.every((n) => /^W\d+: .+ \d+ lb, \d+ ft$/.test(n.trim())), names.join(" | ")).toBe(true);
+  expect(names.some((n) => n.trim().endsWith(`, ${firstAltitudeFt} ft`))).toBe(true);
+
+  // The distribution's header gives the altitude in feet, and nothing on the page in metres.
+  await page.goto(`/cases/${caseId}/distribution`);
+  const altitudeFt = exportedCase.cases[0]!.altitude / FT;
+  await expect(page.getByText(/Mach [\d.]+ · [\d ]+ ft ·/).first()).toBeVisible({ timeout: 120_000 });
+  await expect(page.getByText(/\d m[ ;)·]|\[m\]|\d kg\b/)).toHaveCount(0);
+
+  // The relief breakdown's chart draws the stations in feet (its vector copy, as saved from the page).
+  await page.goto(`/cases/${caseId}/loads`);
+  const relief = page.getByRole("figure", { name: "Shear: aerodynamic, relief and net" });
+  await expect(relief).toBeVisible({ timeout: 120_000 });
+  const svgDownload = page.waitForEvent("download");
+  await relief.getByRole("button", { name: "Save SVG" }).click();
+  const svg = fs.readFileSync((await (await svgDownload).path())!, "utf8");
+  expect(svg).toContain("Spanwise station y [ft]");
+  expect(svg).not.toContain("[m]");
+
+  // The root-loads table exports as CSV in the units shown, each header naming its unit.
+  const csvDownload = page.waitForEvent("download");
+  await page.getByRole("button", { name: "Export CSV" }).first().click();
+  const [header, ...rows] = fs.readFileSync((await (await csvDownload).path())!, "utf8").trim().split(/\r\n/).map((l) => l.split(","));
+  expect(header).toEqual(expect.arrayContaining(["Altitude [ft]", "Root shear [lbf]", "Root bending [lbf·ft]", "Root torsion [lbf·ft]"]));
+  expect(header!.join(" ")).not.toMatch(/\[(m|kg|kN|kN·m)\]/);
+  const row = rows.find((r) => r[0] === exportedCase.cases[0]!.id)!;
+  // Five significant figures, as the table shows them.
+  expect(Number(row[header!.indexOf("Altitude [ft]")])).toBe(Number(altitudeFt.toPrecision(5)));
 });

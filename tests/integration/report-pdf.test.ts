@@ -269,3 +269,27 @@ describe("the signed report PDF of the demo case", () => {
     expect(pngs.length).toBe(pages.length);
   });
 });
+
+describe("the report of a case shown in US customary units", () => {
+  // 1 ft = 0.3048 m, 1 lb = 0.45359237 kg (NIST SP 811, appendix B).
+  const FT = 0.3048;
+  let text = "";
+  beforeAll(async () => {
+    const us: ReportSnapshot = { ...snapshot, inputs: { ...snapshot.inputs, basis: { ...snapshot.inputs.basis, units: "US" } } };
+    const file = join(dir, "report-us.pdf");
+    await writeFile(file, await renderReport(us));
+    text = (await run("pdftotext", ["-layout", "-enc", "UTF-8", file, "-"], { maxBuffer: 64 * 1024 * 1024 })).stdout;
+  }, 120_000);
+
+  it("states its units: the system chosen, and SI in which everything is stored and computed", () => {
+    // A table cell may wrap anywhere ("m/ s"): compared without white space.
+    expect(text.replace(/\s+/g, "")).toContain("UScustomary(ft,lb,lbf,lbf·ft,ktEAS)aschoseninthebasis;storedandcomputedinSI(m,kg,kN,kN·m,m/sEAS)");
+  });
+
+  it("names the V–n sets by weight in pounds and altitude in feet", () => {
+    for (const h of DEMO_CASE_INPUTS.basis.altitudes) expect(text).toMatch(new RegExp(`\\d lb, ${Math.round(h / FT)} ft`));
+    const captions = text.split("\n").filter((l) => /V–n diagram, |Corner and gust points, /.test(l));
+    expect(captions.length).toBeGreaterThan(0);
+    expect(captions.filter((l) => /\bkg\b|\d m\b/.test(l))).toEqual([]);
+  });
+});

@@ -1,5 +1,5 @@
 import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
-import { formatNumber } from "~/domain/units";
+import { formatNumber, unitsStatement } from "~/domain/units";
 import type { Section } from "./layout.server";
 
 /** The certification basis of the case and what the report covers and does not. */
@@ -12,7 +12,7 @@ export function basisAndScope({ w, s, q, sym }: Section) {
   w.facts([
     ["Category", CATEGORY_LABELS[b.category]],
     ["Regulation references", b.regulations],
-    ["Units of this report", b.units === "SI" ? "SI (m, kg, N, m/s EAS); loads in kN and kN·m" : "US customary (ft, lb, lbf, kt EAS); loads in lbf and lbf·ft"],
+    ["Units of this report", unitsStatement(b.units)],
     ["Design weights", `MTOW ${q("mass", b.mtow)} ${sym("mass")} · MZFW ${q("mass", b.mzfw)} ${sym("mass")} · minimum ${q("mass", b.minWeight)} ${sym("mass")}`],
     ["Design speeds (EAS)", `VS1 ${q("speed", b.vs1)} · VA ${q("speed", b.va)} · VC ${q("speed", b.vc)} · VD ${q("speed", b.vd)} ${sym("speed")}`],
     ["Altitudes", `${b.altitudes.map((a) => q("altitude", a, 5)).join(", ")} ${sym("altitude")} (ISA)`],

@@ -68,7 +68,7 @@ export function spanwiseMethods({ w, s, crit, units, q, sym }: Section) {
   );
   const shown = all.find((c) => c.caseId === crit.id) ?? all[0]!;
   w.ensure(210);
-  w.chart(spanwiseWaysOption(shown, { symbol: sym("runningLoad"), scale: (v) => fromSI(units, "runningLoad", v) }), 185);
+  w.chart(spanwiseWaysOption(shown, { symbol: sym("runningLoad"), scale: (v) => fromSI(units, "runningLoad", v) }, units), 185);
   const absent = new Map<string, string>();
   const rows: string[][] = [];
   for (const c of all) {

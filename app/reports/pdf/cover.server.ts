@@ -1,5 +1,5 @@
 import { STEPS } from "~/domain/steps";
-import { formatQuantity } from "~/domain/units";
+import { formatQuantity, unitsStatement } from "~/domain/units";
 import { STEP_KEYS } from "~/domain/vocabulary";
 import { reportDocuments } from "./documents.server";
 import { ACCENT, BOTTOM, M, MUTED, PAGE, utc, W, type Section } from "./layout.server";
@@ -34,6 +34,7 @@ export function cover({ w, s, crit, units }: Section) {
     ["Programme", `${s.programme.code} — ${s.programme.name}`],
     ["Aircraft", s.programme.aircraft],
     ["Case", `${s.case.reference} — ${s.case.title}`],
+    ["Units", unitsStatement(units)],
     ["Design masses of this case", `MTOW ${massAndWeight(b.mtow)} · MZFW ${massAndWeight(b.mzfw)} · minimum ${massAndWeight(b.minWeight)}`],
     ["Input hash (SHA-256)", s.inputHash],
     ["Case document (attached)", `${caseFile.name}, SHA-256 ${caseFile.sha256}`],

@@ -2,7 +2,8 @@ import { envelopeVersionsOption } from "~/charts/comparisons";
 import { formatChange } from "~/domain/comparisons";
 import { ENVELOPE_EXTREMES, EXTREME_LABELS, type ReportComparison } from "~/domain/report-comparison";
 import { STEPS } from "~/domain/steps";
-import { formatNumber, fromSI, type UnitSystem } from "~/domain/units";
+import { shownChange } from "~/domain/input-fields";
+import { formatNumber, fromSI, unitSystemWords, type UnitSystem } from "~/domain/units";
 import { MUTED, utc, type Fmt, type Section, type Sym, type Writer } from "./layout.server";
 
 const quantityOf = (k: string): "force" | "moment" => (k.startsWith("shear") ? "force" : "moment");
@@ -44,7 +45,7 @@ export function writeComparison(w: Writer, c: ReportComparison, units: UnitSyste
   w.subheading("Inputs that changed");
   if (!c.inputs.length) w.para("No input changed between the two versions.", { size: 8.6 });
   else {
-    w.para("Every stored input that differs, step by step and field by field, as stored (SI units: m, kg, N, m/s EAS, degrees). Rows of load cases are matched by their id, other rows by position.", { size: 8.4, color: MUTED });
+    w.para(`Every stored input that differs, step by step and field by field, in ${unitSystemWords(units)}, converted from the stored SI values. Rows of load cases are matched by their id, other rows by position.`, { size: 8.4, color: MUTED });
     w.table(
       [
         { header: "Step", width: 64 },
@@ -52,7 +53,10 @@ export function writeComparison(w: Writer, c: ReportComparison, units: UnitSyste
         { header: "Before", width: 125 },
         { header: "After", width: 0 },
       ],
-      c.inputs.map((x) => [STEPS.find((st) => st.key === x.step)?.label ?? x.step, x.field, x.before, x.after]),
+      c.inputs.map((x) => {
+        const shown = shownChange(x, units);
+        return [STEPS.find((st) => st.key === x.step)?.label ?? x.step, shown.field, shown.before, shown.after];
+      }),
       { size: 7.2, caption: `Changed inputs (${c.inputs.length})` },
     );
   }
@@ -93,13 +97,13 @@ export function writeComparison(w: Writer, c: ReportComparison, units: UnitSyste
     { size: 8.4, color: MUTED },
   );
   w.table(
-    [{ header: "y [m]", width: 40, align: "right" }, ...ENVELOPE_EXTREMES.map((k) => ({ header: `${EXTREME_LABELS[k]} [${sym(quantityOf(k))}]`, width: k === "torsionMin" ? 0 : 76, align: "right" as const }))],
-    c.stations.map((st) => [formatNumber(st.y, 4), ...ENVELOPE_EXTREMES.map((k) => `${q(quantityOf(k), st.after[k], 5)}\n${change(k, st.before[k], st.after[k])}`)]),
+    [{ header: `y [${sym("length")}]`, width: 40, align: "right" }, ...ENVELOPE_EXTREMES.map((k) => ({ header: `${EXTREME_LABELS[k]} [${sym(quantityOf(k))}]`, width: k === "torsionMin" ? 0 : 76, align: "right" as const }))],
+    c.stations.map((st) => [formatNumber(fromSI(units, "length", st.y), 4), ...ENVELOPE_EXTREMES.map((k) => `${q(quantityOf(k), st.after[k], 5)}\n${change(k, st.before[k], st.after[k])}`)]),
     { size: 6.8, caption: "Envelope extremes per station, later version and change" },
   );
   for (const kind of ["bending", "shear"] as const) {
     const quantity = kind === "shear" ? "force" : "moment";
     w.ensure(200);
-    w.chart(envelopeVersionsOption(kind, c, { symbol: sym(quantity), scale: (v) => fromSI(units, quantity, v) }), 180);
+    w.chart(envelopeVersionsOption(kind, c, { symbol: sym(quantity), scale: (v) => fromSI(units, quantity, v) }, units), 180);
   }
 }

@@ -16,7 +16,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     const inputs = caseInputs(await readSteps());
     const file = buildCaseFile(c.title, inputs, "envelope");
     if (!file.cases.some((k) => k.id === id)) return apiRefusal(new DomainError(`Case file ${c.reference} has no load case "${id}".`, { kind: "not-found" }));
-    return Response.json(distributionViewForPage(file, id, buildSectionsFile(inputs)), { headers: { "Cache-Control": "no-store" } });
+    return Response.json(distributionViewForPage(file, id, inputs.basis?.units ?? "SI", buildSectionsFile(inputs)), { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
     if (error instanceof DomainError) return apiRefusal(error);
     throw error;

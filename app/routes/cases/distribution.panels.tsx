@@ -306,7 +306,7 @@ function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseCompariso
   const lift = { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) };
   return (
     <div className="grid gap-4 xl:grid-cols-2">
-      <Chart option={spanwiseWaysOption(c, lift)} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
+      <Chart option={spanwiseWaysOption(c, lift, units)} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
       <div className="overflow-x-auto">
         <table className="w-full text-sm tabular" aria-label="Root loads by spanwise method">
           <thead className="text-xs text-ink-muted">

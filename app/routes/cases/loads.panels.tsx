@@ -112,7 +112,7 @@ export function BreakdownPanel({ caseId, current, result, units, info }: { caseI
             {(["shear", "bending", "torsion"] as const).map((q) => (
               <Chart
                 key={q}
-                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment)}
+                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment, units)}
                 label={`${q === "shear" ? "Shear" : q === "bending" ? "Bending moment" : "Torsion"}: aerodynamic, relief and net`}
                 fileName={`${q}-relief-${current.id}`}
               />

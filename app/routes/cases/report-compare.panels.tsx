@@ -4,7 +4,8 @@ import { Panel } from "~/components/ui/page-header";
 import { formatChange } from "~/domain/comparisons";
 import { ENVELOPE_EXTREMES, EXTREME_LABELS, type EnvelopeExtreme, type ReportComparison } from "~/domain/report-comparison";
 import { STEPS } from "~/domain/steps";
-import { formatNumber, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { shownChange } from "~/domain/input-fields";
+import { formatNumber, fromSI, unitSymbol, unitSystemWords, type UnitSystem } from "~/domain/units";
 import { formatUtc } from "~/utils/format";
 
 const quantityOf = (k: EnvelopeExtreme): "force" | "moment" => (k.startsWith("shear") ? "force" : "moment");
@@ -66,20 +67,23 @@ export function ComparisonTables({ c, units }: { c: ReportComparison; units: Uni
                 </tr>
               </thead>
               <tbody>
-                {c.inputs.map((x, i) => (
-                  <tr key={i} className="border-t border-line align-top">
-                    <td className="py-1 pr-3">{STEPS.find((s) => s.key === x.step)?.label ?? x.step}</td>
-                    <td className="py-1 pr-3">{x.field}</td>
-                    <td className="max-w-80 break-words py-1 pr-3">{x.before}</td>
-                    <td className="max-w-80 break-words py-1">{x.after}</td>
-                  </tr>
-                ))}
+                {c.inputs.map((x, i) => {
+                  const shown = shownChange(x, units);
+                  return (
+                    <tr key={i} className="border-t border-line align-top">
+                      <td className="py-1 pr-3">{STEPS.find((s) => s.key === x.step)?.label ?? x.step}</td>
+                      <td className="py-1 pr-3">{shown.field}</td>
+                      <td className="max-w-80 break-words py-1 pr-3">{shown.before}</td>
+                      <td className="max-w-80 break-words py-1">{shown.after}</td>
+                    </tr>
+                  );
+                })}
               </tbody>
             </table>
           </div>
         )}
         <p className="mt-2 text-xs text-ink-muted">
-          Values as stored, in SI units (m, kg, N, m/s EAS, degrees). Load cases are matched by their id, other rows by position.
+          Values in {unitSystemWords(units)}, converted from the stored SI values. Load cases are matched by their id, other rows by position.
           {c.casesAdded.length ? ` Cases added: ${c.casesAdded.join(", ")}.` : ""}
           {c.casesRemoved.length ? ` Cases removed: ${c.casesRemoved.join(", ")}.` : ""}
         </p>
@@ -124,7 +128,7 @@ export function ComparisonTables({ c, units }: { c: ReportComparison; units: Uni
           <table className="w-full text-sm tabular" aria-label="Envelope extremes per station, later version and change">
             <thead className="text-xs text-ink-muted">
               <tr>
-                <th className="py-1 pr-3 text-right">y [m]</th>
+                <th className="py-1 pr-3 text-right">y [{unitSymbol(units, "length")}]</th>
                 {ENVELOPE_EXTREMES.map((k) => (
                   <th key={k} className="py-1 pl-3 text-right">
                     {EXTREME_LABELS[k]} [{unitSymbol(units, quantityOf(k))}]
@@ -135,7 +139,7 @@ export function ComparisonTables({ c, units }: { c: ReportComparison; units: Uni
             <tbody>
               {c.stations.map((st) => (
                 <tr key={st.y} className="border-t border-line">
-                  <td className="py-1 pr-3 text-right">{formatNumber(st.y, 4)}</td>
+                  <td className="py-1 pr-3 text-right">{formatNumber(fromSI(units, "length", st.y), 4)}</td>
                   {ENVELOPE_EXTREMES.map((k) => (
                     <td key={k} className="py-1 pl-3 text-right">
                       {show(k, st.after[k])}
@@ -161,7 +165,7 @@ export function EnvelopeOverlays({ c, units }: { c: ReportComparison; units: Uni
         return (
           <Panel key={kind}>
             <Chart
-              option={envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) })}
+              option={envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) }, units)}
               label={`${kind} envelope of versions ${c.from.version} and ${c.to.version}`}
               fileName={`envelope-${kind}-v${c.from.version}-v${c.to.version}`}
             />

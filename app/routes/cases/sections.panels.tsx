@@ -9,7 +9,7 @@ import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
 import { COEFFICIENT_COLUMNS, describeProblem, POLAR_COLUMNS, PRESSURE_COLUMNS, type CsvProblem, type SectionCsvResult } from "~/domain/section-csv";
 import type { SectionsData } from "~/domain/step-data";
-import { formatNumber, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { ActionAnswer, ActionRefusal, FieldErrors } from "~/utils/form-data";
 import type { SectionsFormSchema } from "./sections.schema";
 
@@ -87,7 +87,7 @@ export function FlapsPanel({ form, server, units }: { form: ZodForm<typeof Secti
 }
 
 /** A CSV file checked on the server (every bad row named), then previewed for the engineer to accept. */
-export function UploadPanel({ revision, maxKiB }: { revision: number; maxKiB: number }) {
+export function UploadPanel({ revision, maxKiB, units }: { revision: number; maxKiB: number; units: UnitSystem }) {
   const upload = useFetcher<UploadAnswer>();
   const result = upload.data ?? null;
   return (
@@ -116,21 +116,22 @@ export function UploadPanel({ revision, maxKiB }: { revision: number; maxKiB: nu
           </ul>
         </div>
       ) : null}
-      {result?.ok && result.preview ? <UploadPreview preview={result.preview} revision={revision} /> : null}
+      {result?.ok && result.preview ? <UploadPreview preview={result.preview} revision={revision} units={units} /> : null}
     </Panel>
   );
 }
 
 /** The fitted lift and moment curves of each polar table the saved data came from. */
-export function SectionFitCharts({ saved }: { saved: SectionsData | null }) {
+export function SectionFitCharts({ saved, units }: { saved: SectionsData | null; units: UnitSystem }) {
   return (saved?.tables ?? []).map((t) => {
     const row = saved!.rows.find((r) => r.y === t.y);
-    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 })} label={`Section fit at y = ${t.y} m`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
+    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 }, units)} label={`Section fit at y = ${formatQuantity(units, "length", t.y)}`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
   });
 }
 
 /** What richer data the saved sections carry: Cp,min against lift and chordwise pressures, by station. */
-export function RicherDataPanel({ rows, canEdit, revision }: { rows: SectionsData["rows"]; canEdit: boolean; revision: number }) {
+export function RicherDataPanel({ rows, canEdit, revision, units }: { rows: SectionsData["rows"]; canEdit: boolean; revision: number; units: UnitSystem }) {
+  const at = (y: number) => formatQuantity(units, "length", y);
   const withTable = rows.filter((r) => r.cpMinTable);
   const withPressures = rows.filter((r) => r.pressures);
   if (!withTable.length && !withPressures.length) return null;
@@ -139,14 +140,14 @@ export function RicherDataPanel({ rows, canEdit, revision }: { rows: SectionsDat
       <div className="space-y-2 text-sm" data-testid="richer-section-data">
         {withTable.length ? (
           <p>
-            Cp,min against lift at y = {withTable.map((r) => `${formatNumber(r.y)} m (cl ${formatNumber(r.cpMinTable![0]!.cl)} to ${formatNumber(r.cpMinTable![r.cpMinTable!.length - 1]!.cl)})`).join(", ")}: each case's critical Mach
+            Cp,min against lift at y = {withTable.map((r) => `${at(r.y)} (cl ${formatNumber(r.cpMinTable![0]!.cl)} to ${formatNumber(r.cpMinTable![r.cpMinTable!.length - 1]!.cl)})`).join(", ")}: each case's critical Mach
             number is taken at its own lift there.
           </p>
         ) : null}
         {withPressures.length ? (
           <>
             <p>
-              Chordwise pressures at y = {withPressures.map((r) => `${formatNumber(r.y)} m (${r.pressures!.map((p) => `${formatNumber(p.alpha)}°`).join(", ")})`).join("; ")}: the compressibility rule is applied point by point there.
+              Chordwise pressures at y = {withPressures.map((r) => `${at(r.y)} (${r.pressures!.map((p) => `${formatNumber(p.alpha)}°`).join(", ")})`).join("; ")}: the compressibility rule is applied point by point there.
             </p>
             {canEdit ? (
               <Form method="post">
@@ -164,7 +165,7 @@ export function RicherDataPanel({ rows, canEdit, revision }: { rows: SectionsDat
   );
 }
 
-function UploadPreview({ preview, revision }: { preview: Preview; revision: number }) {
+function UploadPreview({ preview, revision, units }: { preview: Preview; revision: number; units: UnitSystem }) {
   const busy = useSaving();
   if (preview.kind === "pressures") {
     return (
@@ -200,7 +201,7 @@ function UploadPreview({ preview, revision }: { preview: Preview; revision: numb
       <table className="mt-2 w-full text-xs tabular">
         <thead className="text-ink-muted">
           <tr>
-            {["y [m]", "a0 [/rad]", "αL0 [°]", "cm,ac", "clmax", "Cp,min"].map((h) => (
+            {[`y [${unitSymbol(units, "length")}]`, "a0 [/rad]", "αL0 [°]", "cm,ac", "clmax", "Cp,min"].map((h) => (
               <th key={h} className="py-1 text-right">
                 {h}
               </th>
@@ -210,7 +211,7 @@ function UploadPreview({ preview, revision }: { preview: Preview; revision: numb
         <tbody>
           {preview.rows.map((r) => (
             <tr key={r.y} className="border-t border-line">
-              {[r.y, r.a0, r.alphaL0, r.cmAc, r.clMax, r.cpMin].map((v, i) => (
+              {[fromSI(units, "length", r.y), r.a0, r.alphaL0, r.cmAc, r.clMax, r.cpMin].map((v, i) => (
                 <td key={i} className="py-1 text-right">
                   {formatNumber(v ?? null)}
                 </td>
@@ -221,7 +222,7 @@ function UploadPreview({ preview, revision }: { preview: Preview; revision: numb
       </table>
       {preview.tables.map((t) => (
         <p key={t.y} className="mt-1 text-xs text-ink-muted">
-          y = {t.y}: linear range α = {t.linearFrom}° … {t.linearTo}°
+          y = {formatQuantity(units, "length", t.y)}: linear range α = {t.linearFrom}° … {t.linearTo}°
         </p>
       ))}
       {preview.rows.some((r) => r.cpMinTable) ? (

@@ -102,9 +102,9 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
           <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" voids={loaderData.voids} />
         </Form>
         <div className="space-y-5">
-          {loaderData.canEdit ? <UploadPanel revision={loaderData.revision} maxKiB={loaderData.maxKiB} /> : null}
-          <RicherDataPanel rows={saved?.rows ?? []} canEdit={loaderData.canEdit} revision={loaderData.revision} />
-          <SectionFitCharts saved={saved} />
+          {loaderData.canEdit ? <UploadPanel revision={loaderData.revision} maxKiB={loaderData.maxKiB} units={loaderData.units} /> : null}
+          <RicherDataPanel rows={saved?.rows ?? []} canEdit={loaderData.canEdit} revision={loaderData.revision} units={loaderData.units} />
+          <SectionFitCharts saved={saved} units={loaderData.units} />
         </div>
       </div>
     </>
