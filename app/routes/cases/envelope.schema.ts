@@ -52,11 +52,21 @@ export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
     .strictObject({
       intent: z.literal("rows"),
       revision: numberInput("Revision"),
-      changed: z.array(z.strictObject({ index: z.number().int().min(0), row: caseRow })).default([]),
+      changed: z.array(z.strictObject({ index: z.number().int().min(0), row: z.unknown() })).default([]),
       removed: z.array(z.number().int().min(0)).default([]),
       added: z.array(caseRow).default([]),
     })
-    .refine((r) => r.changed.length + r.removed.length + r.added.length <= MAX_EDITED_ROWS, { message: `At most ${MAX_EDITED_ROWS} rows in one save`, path: ["changed"] }),
+    .refine((r) => r.changed.length + r.removed.length + r.added.length <= MAX_EDITED_ROWS, { message: `At most ${MAX_EDITED_ROWS} rows in one save`, path: ["changed"] })
+    // A changed row's refusal names the row as the grid shows it (cases.<index>.<field>), not its place in this post.
+    .transform((r, ctx) => {
+      const changed: { index: number; row: z.output<typeof caseRow> }[] = [];
+      for (const { index, row } of r.changed) {
+        const parsed = caseRow.safeParse(row);
+        if (parsed.success) changed.push({ index, row: parsed.data });
+        else for (const issue of parsed.error.issues) ctx.addIssue({ code: "custom", message: issue.message, path: ["cases", index, ...issue.path] });
+      }
+      return { ...r, changed };
+    }),
 ]);
 
 /** Above this many load cases the page shows a window on the stored cases and saves edited rows only. */
