@@ -527,7 +527,7 @@ describe("the API page", () => {
     const page = apiDocsLoader();
     expect(page.exchangeFormat).toContain("<h1>The exchange format");
     expect(page.exchangeFormat).toMatch(/<table>[\s\S]*<th>field<\/th>/);
-    expect(page.exchangeFormat).toContain("<pre><code");
+    expect(page.exchangeFormat).toContain(`<pre tabindex="0"><code`); // scrollable code blocks reachable by keyboard
     expect(page.exchangeFormat).not.toContain("| field |");
     const origin = process.env.APP_ORIGIN ?? "http://127.0.0.1:3000";
     expect(page.endpoints.every((e) => e.curl.includes(`${origin}/api/v1/`))).toBe(true);

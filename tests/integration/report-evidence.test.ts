@@ -318,7 +318,8 @@ describe("report to report", () => {
     expect(snap.comparison.from.version).toBe(third.row.version - 1);
     expect(snap.comparison.inputs.map((x) => x.field)).toEqual(["structureKg"]);
     expect(third.text).toContain("Changes from the previous version");
-    const line = third.text.split("\n").find((l) => l.includes("structureKg"));
+    // Fields are named in words with their unit (app/domain/input-fields.ts), values as stored.
+    const line = third.text.split("\n").find((l) => l.includes("Semispan structural mass [kg]"));
     expect(line).toMatch(new RegExp(`${massBefore}\\s+${massAfter}`));
     expect(first.text).toContain("This is the first issued version of the report");
   });
@@ -333,8 +334,8 @@ describe("report to report", () => {
     expect(text).toContain(first.row.reportNumber);
     expect(text).toContain(third.row.reportNumber);
     expect(text).toContain("not a report, unsigned");
-    expect(text).toContain("structureKg");
-    expect(text).toMatch(/cpMinTable/);
+    expect(text).toContain("Semispan structural mass [kg]");
+    expect(text).toMatch(/Cp,min against lift/);
     const refused = (await comparisonPdfLoader((await routeArgs(request(`/api/cases/${caseId}/report-comparison?from=${first.row.id}&to=${first.row.id}`, { cookie: cookies.quality }), { caseId })) as never)) as Response;
     expect(refused.status).toBe(400);
   });
