@@ -69,3 +69,14 @@ function normalise(value: unknown): { status: number; body: unknown; headers: He
   if (value instanceof Error) throw value;
   return { status: 200, body: value, headers: new Headers() };
 }
+
+/** Sorted-key JSON written here from the definition (keys sorted, no spaces), independently of the application's serialiser. */
+export function canonical(value: unknown): string {
+  if (value === null || typeof value !== "object") return JSON.stringify(value);
+  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
+  return `{${Object.keys(value as object)
+    .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
+    .sort()
+    .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
+    .join(",")}}`;
+}

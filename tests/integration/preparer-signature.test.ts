@@ -6,7 +6,7 @@ import { auditLog, caseSteps, cases, signatureVoids, signatures, stepComments, u
 import { action as reviewAction } from "~/routes/cases/review";
 import { saveStep } from "~/services/case-steps.server";
 import { setMemberRoles } from "~/services/organisation.server";
-import { cookieFor, demoUser, form, request, run, seed } from "./helpers";
+import { canonical, cookieFor, demoUser, form, request, run, seed } from "./helpers";
 
 /*
  * Issue 10, item 5: the engineer who submits a step signs it, meaning "prepared", with the same
@@ -21,17 +21,6 @@ const ids: Record<string, string> = {};
 
 const review = (who: string, fields: Record<string, string>) => run(reviewAction, { request: request(`/cases/${caseId}/review`, { method: "POST", cookie: cookies[who], body: form(fields) }), params: { caseId } });
 const roles = (who: string, r: ("engineer" | "checker")[]) => setMemberRoles({ organisationId: orgId, userId: ids[who]!, roles: r, actor: { id: ids.admin!, email: demoUser("admin").email } });
-
-/** Sorted-key JSON written here from the definition (keys sorted, no spaces), independently of the application's serialiser. */
-function canonical(value: unknown): string {
-  if (value === null || typeof value !== "object") return JSON.stringify(value);
-  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
-  return `{${Object.keys(value as object)
-    .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
-    .sort()
-    .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
-    .join(",")}}`;
-}
 
 async function stepRow(step: string) {
   const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, step as never)));

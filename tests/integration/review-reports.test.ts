@@ -22,22 +22,12 @@ import { setMemberRoles } from "~/services/organisation.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
 import { listKeys, resetS3Client } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
-import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
+import { canonical, cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
 
 let caseId = "";
 let orgId = "";
 const cookies: Record<string, string> = {};
 
-/** Sorted-key JSON written here from the definition, independently of the application's serialiser. */
-function canonical(value: unknown): string {
-  if (value === null || typeof value !== "object") return JSON.stringify(value);
-  if (Array.isArray(value)) return `[${value.map(canonical).join(",")}]`;
-  return `{${Object.keys(value as object)
-    .filter((k) => (value as Record<string, unknown>)[k] !== undefined)
-    .sort()
-    .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
-    .join(",")}}`;
-}
 const sha = (b: string | Uint8Array) => createHash("sha256").update(b).digest("hex");
 
 const review = (who: string, fields: Record<string, string>) => run(reviewAction, { request: request(`/cases/${caseId}/review`, { method: "POST", cookie: cookies[who], body: form(fields) }), params: { caseId } });
