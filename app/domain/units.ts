@@ -100,3 +100,35 @@ export function formatQuantity(system: UnitSystem, q: Quantity, si: number | nul
   const sym = unitSymbol(system, q);
   return `${formatNumber(fromSI(system, q, si), sig)}${sym ? ` ${sym}` : ""}`;
 }
+
+/** The SI units engine messages are written in, and the quantity each stands for. */
+const MESSAGE_UNITS: [symbol: string, q: Quantity][] = [
+  ["N/m²", "none"],
+  ["N·m", "moment"],
+  ["m/s", "speed"],
+  ["kg", "mass"],
+  ["N", "force"],
+  ["m", "length"],
+];
+const PSF_PER_PA = 1 / 47.880259; // 1 lbf/ft² = 4.4482216152605 N / 0.09290304 m² (NIST SP 811, B.8)
+
+/**
+ * An engine message with its SI quantities ("y = 3.250 m", "from y = 0.5–1.2 m", "W/S = 1 203 N/m²") in the
+ * chosen system. The engine speaks SI (the exchange contract's messages stay so); pages show the chosen
+ * units. Other numbers (Mach, cl, degrees) are left as written.
+ */
+export function messageInUnits(text: string, system: UnitSystem): string {
+  if (system === "SI") return text;
+  const num = String.raw`-?\d+(?:\.\d+)?(?:e[-+]?\d+)?`;
+  const units = MESSAGE_UNITS.map(([s]) => s.replace("/", "\\/")).join("|");
+  const re = new RegExp(String.raw`(${num})(?:(\s?–\s?)(${num}))?\s(${units})(?![\p{L}\d/²·])`, "gu");
+  return text.replace(re, (_all, a: string, dash: string | undefined, b: string | undefined, unit: string) => {
+    const q = MESSAGE_UNITS.find(([s]) => s === unit)![1];
+    const conv = (v: string) => (unit === "N/m²" ? Number(v) * PSF_PER_PA : fromSI(system, q, Number(v)));
+    // As many significant figures as the engine wrote (3 to 6).
+    const sig = (v: string) => Math.min(6, Math.max(3, v.replace(/^-|e.*$/g, "").replace(".", "").replace(/^0+/, "").length));
+    const show = (v: string) => formatNumber(conv(v), sig(v));
+    const symbol = unit === "N/m²" ? "psf" : unitSymbol(system, q);
+    return `${show(a)}${b !== undefined ? `${dash}${show(b)}` : ""} ${symbol}`;
+  });
+}

@@ -28,7 +28,7 @@ export function basisChecks(b: BasisData): BasisCheck[] {
   const f = part23 ? manoeuvreLoadFactorsPart23(mtowLb, b.category.replace("part23-", "") as Part23Category) : manoeuvreLoadFactorsPart25(mtowLb);
   const vs = stallSpeed(weightN, b.wingArea, b.clMax);
   const rows: BasisCheck[] = [
-    { label: "Wing loading at MTOW", value: `${(weightN / b.wingArea).toFixed(0)} N/m² (${(weightN / b.wingArea / PSF).toFixed(1)} psf)`, rule: "W/S" },
+    { label: "Wing loading at MTOW", value: b.units === "US" ? `${(weightN / b.wingArea / PSF).toFixed(1)} psf (${(weightN / b.wingArea).toFixed(0)} N/m²)` : `${(weightN / b.wingArea).toFixed(0)} N/m² (${(weightN / b.wingArea / PSF).toFixed(1)} psf)`, rule: "W/S" },
     { label: "Positive limit load factor", value: f.positive.value.toFixed(3), rule: f.positive.rule },
     { label: "Negative limit load factor at VC", value: f.negativeAtVc.value.toFixed(3), rule: f.negativeAtVc.rule },
     { label: "Negative limit load factor at VD", value: f.negativeAtVd.value.toFixed(3), rule: f.negativeAtVd.rule },

@@ -2,7 +2,7 @@ import type { DistributionData } from "~/domain/step-data";
 import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
-import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
 import { getCaseSteps } from "./case-steps.server";
@@ -109,7 +109,8 @@ export type DistributionView = ReturnType<typeof distributionView>;
 /** The view with one summary line for all stations over clmax, as the page shows it. */
 export function distributionViewForPage(input: CaseFileInput, caseId: string, units: UnitSystem, sections?: SectionsFile) {
   const full = runEngine(() => distributionView(input, caseId, sections));
-  return { ...full, warnings: [...full.warnings.filter((w) => !w.includes("exceeds the section clMax")), ...summariseStall(full.warnings, units)] };
+  const warnings = full.warnings.filter((w) => !w.includes("exceeds the section clMax")).map((w) => messageInUnits(w, units));
+  return { ...full, warnings: [...warnings, ...summariseStall(full.warnings, units)] };
 }
 
 /**

@@ -43,7 +43,10 @@ export interface TunedGustAtSpeed {
 const whole = (units: UnitSystem, q: Quantity, si: number) => `${fromSI(units, q, si).toFixed(0)} ${unitSymbol(units, q)}`;
 
 export interface VnSet {
+  /** Weight name, weight and altitude in the display units (as the V–n page names the set). */
   label: string;
+  /** The weight's name alone ("MTOW", a mass case): what a generated case's stored rule text names, free of units. */
+  weightName: string;
   weightKg: number;
   altitude: number;
   /** The mass case the set stands for, with its centre of gravity (fraction of the MAC), where mass cases are given. */
@@ -196,7 +199,9 @@ function vnSetsOf(
         });
         for (const t of tuned) {
           const c = t.result.critical;
-          const rule = `14 CFR 25.341(a): tuned 1-cos gust, H = ${formatQuantity(basis.units, "length", c.gradient)}, U_ds = ${formatQuantity(basis.units, "speed", c.uds)} EAS (F_g ${fg!.value.toFixed(3)}), rigid aircraft in plunge`;
+          // No unit-bearing numbers: this text is stored with the generated case, and the gradient and
+          // U_ds of each tuned gust are shown in the chosen units on the V–n page and in the report.
+          const rule = `14 CFR 25.341(a): tuned 1-cos gust at its critical gradient (F_g ${fg!.value.toFixed(3)}), rigid aircraft in plunge`;
           points.push({ name: `tuned+${t.speed}`, veas: t.veas, nz: 1 + c.deltaN, rule }, { name: `tuned-${t.speed}`, veas: t.veas, nz: 1 - c.deltaN, rule });
         }
       }
@@ -210,6 +215,7 @@ function vnSetsOf(
       sets.push({
         // In the units the basis chose, as the pages and the report show the set.
         label: `${w.label} ${whole(basis.units, "mass", w.kg)}, ${whole(basis.units, "altitude", altitude)}`,
+        weightName: w.label,
         weightKg: w.kg,
         altitude,
         ...(w.massCase ? { massCase: w.massCase, cg: w.cg } : {}),
@@ -297,7 +303,9 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
       out.push({
         id: `W${i + 1}-${p.name}`,
         kind: /(^|-)gust|^tuned/.test(p.name) ? "gust" : "manoeuvre",
-        rule: `${p.rule} — ${set.label}, ${p.veas.toFixed(1)} m/s EAS`,
+        // Stored text, so free of unit-bearing numbers (shown alike in SI and US customary): the weight,
+        // altitude and speed are the case's own columns (EAS in the report's case table).
+        rule: `${p.rule} — ${set.weightName}`,
         // Four decimals keep tables readable; nz is rounded away from zero so no case is lightened.
         mach: Math.round(mach * 1e4) / 1e4,
         altitude: set.altitude,

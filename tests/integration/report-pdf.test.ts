@@ -263,6 +263,18 @@ describe("the signed report PDF of the demo case", () => {
     expect(vn.length).toBeGreaterThan(0);
   });
 
+  it("gives each load case its speed (EAS) in the case table, which its rule text no longer carries", () => {
+    const text = pages.join("\n");
+    expect(text).toMatch(/EAS \[m\/s\]/);
+    // At sea level EAS = TAS = M·a0, a0 = 340.294 m/s (ISA, ICAO Doc 7488 / U.S. Standard Atmosphere 1976).
+    const seaLevel = snapshot.exchange.cases.filter((c) => c.altitude === 0 && /^W\d+-[A-Z]$/.test(c.id)).slice(0, 3);
+    expect(seaLevel.length).toBeGreaterThan(0);
+    for (const c of seaLevel) {
+      const line = text.split("\n").find((l) => l.trimStart().startsWith(`${c.id} `))!;
+      expect(line.split(/\s{2,}/).map((x) => x.trim()), c.id).toContain(formatNumber(c.mach * 340.294, 4));
+    }
+  });
+
   it("rasterises every page for a look", async () => {
     await run("pdftoppm", ["-png", "-r", "60", pdfPath, join(dir, "page")]);
     const pngs = (await readdir(dir)).filter((f) => f.endsWith(".png"));

@@ -1,4 +1,5 @@
 import { formatNumber } from "~/domain/units";
+import { easFromMach } from "~/engine";
 import { MUTED, type Column, type Section } from "./layout.server";
 import { planformDrawing } from "./planform-drawing.server";
 
@@ -97,6 +98,7 @@ export function inputs(section: Section) {
       { header: "Kind", width: 56 },
       { header: "Mach", width: 34, align: "right" },
       { header: `Alt. [${sym("altitude")}]`, width: 36, align: "right" },
+      { header: `EAS [${sym("speed")}]`, width: 32, align: "right" },
       { header: `Weight [${sym("force")}]`, width: 40, align: "right" },
       { header: "nz / α [–/°]", width: 42, align: "right" },
       { header: "Status", width: 50 },
@@ -107,6 +109,8 @@ export function inputs(section: Section) {
       c.flaps ? `${c.kind}, flaps` : c.kind,
       formatNumber(c.mach, 4),
       q("altitude", c.altitude, 5),
+      // The speed of the case, which its rule text no longer carries (stored text is free of units).
+      q("speed", easFromMach(c.mach, c.altitude), 4),
       c.weight !== undefined ? q("force", c.weight) : "—",
       c.alpha !== undefined ? `α ${formatNumber(c.alpha)}°` : formatNumber(c.nz),
       c.excluded ? "excluded" : disp[c.id]?.action === "exclude" ? "excluded (flag)" : disp[c.id] ? "justified (flag)" : analysed.has(c.id) ? "analysed" : "—",
