@@ -2,7 +2,6 @@ import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
-import { writeReadableStreamToWritable } from "@react-router/node";
 import compression from "compression";
 import express, { type Express, type NextFunction, type Request, type Response } from "express";
 import { createRequestHandler, type ServerBuild } from "react-router";
@@ -270,11 +269,66 @@ export function reactRouterHandler(opts: { build: ServerBuild | (() => Promise<S
       res.status(response.status);
       for (const [key, value] of response.headers.entries()) if (key !== "cache-control") res.append(key, value);
       res.setHeader("Cache-Control", response.headers.get("Cache-Control") ?? "no-store");
-      if (response.body) await writeReadableStreamToWritable(response.body, res);
+      if (response.body) await sendBody(response.body, res);
       else res.end();
     } catch (error) {
       if (res.destroyed || res.writableEnded) return;
       next(error);
     }
   };
+}
+
+/**
+ * Writes a web stream (a page as React renders it, a JSON or CSV answer) to Express's response,
+ * waiting whenever the response is full. The compression middleware passes `res.on("drain")` on to
+ * its compressor but not `res.off`, so a writer that adds and removes a drain listener per wait
+ * (@react-router/node's) leaves one behind on the compressor every time (Node's
+ * MaxListenersExceededWarning after ten). Here each response has one drain listener, for its whole life.
+ * The compressor is flushed only when the stream has nothing more at hand: the parts of a page that
+ * arrive later (streamed data) still go out at once, without a flush after every small chunk.
+ */
+export async function sendBody(body: ReadableStream<Uint8Array>, res: Response): Promise<void> {
+  const reader = body.getReader();
+  let wake: (() => void) | undefined;
+  const resume = () => {
+    const waiting = wake;
+    wake = undefined;
+    waiting?.();
+  };
+  let gone = false;
+  const onClose = () => {
+    gone = true;
+    resume();
+  };
+  res.on("drain", resume);
+  res.once("close", onClose);
+  const closed = new Promise<"closed">((resolve) => res.once("close", () => resolve("closed")));
+  const flush = () => (res as Response & { flush?: () => void }).flush?.();
+  try {
+    let next = reader.read();
+    for (;;) {
+      // A chunk already queued wins the race against the marker; otherwise flush what is written, then wait.
+      let step: ReadableStreamReadResult<Uint8Array> | "idle" | "closed" = await Promise.race([next, Promise.resolve("idle" as const)]);
+      if (step === "idle") {
+        flush();
+        step = await Promise.race([next, closed]);
+      }
+      if (step === "closed" || gone) break;
+      if (step.done) {
+        res.end();
+        return;
+      }
+      next = reader.read();
+      if (!res.write(step.value) && !gone) await new Promise<void>((resolve) => (wake = resolve));
+      if (gone) break;
+    }
+    // The client went away: stop producing (React Router aborts the render through the request's signal).
+    await reader.cancel().catch(() => {});
+  } catch (error) {
+    await reader.cancel(error).catch(() => {});
+    res.destroy(error instanceof Error ? error : new Error(String(error)));
+  } finally {
+    res.off("close", onClose);
+    reader.releaseLock();
+  }
 }
