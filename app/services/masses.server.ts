@@ -1,6 +1,7 @@
 import { LRUCache } from "lru-cache";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { DomainError } from "~/domain/errors";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { BasisData, LoadCase, MassesData, PlanformData } from "~/domain/step-data";
 import {
   balanceTailLoad,
@@ -189,7 +190,8 @@ export interface MassCaseSummary {
  * Each mass case with what it puts on the wing, and checks against the basis: the weight within the
  * minimum design weight and MTOW, the wing's own masses below the weight, the CG given.
  */
-export function massCaseSummaries(m: MassesData, basis: BasisData | null): MassCaseSummary[] {
+export function massCaseSummaries(m: MassesData, basis: BasisData | null, units: UnitSystem = "SI"): MassCaseSummary[] {
+  const kg = (v: number) => `${fromSI(units, "mass", v).toFixed(0)} ${unitSymbol(units, "mass")}`;
   const items = m.items.map(engineItem);
   return m.massCases.map((mc) => {
     const c: MassCase = { id: mc.id, fill: mc.fill };
@@ -201,10 +203,10 @@ export function massCaseSummaries(m: MassesData, basis: BasisData | null): MassC
       if (basis) {
         checks.push({
           ok: mc.weight <= basis.mtow + 1e-9 && mc.weight >= basis.minWeight - 1e-9,
-          text: `Weight within the basis: minimum design weight ${basis.minWeight.toFixed(0)} kg to MTOW ${basis.mtow.toFixed(0)} kg`,
+          text: `Weight within the basis: minimum design weight ${kg(basis.minWeight)} to MTOW ${kg(basis.mtow)}`,
         });
       }
-      checks.push({ ok: wingKg < mc.weight, text: `Both wings with their items (${wingKg.toFixed(0)} kg) weigh less than the aircraft` });
+      checks.push({ ok: wingKg < mc.weight, text: `Both wings with their items (${kg(wingKg)}) weigh less than the aircraft` });
     }
     if (mc.cg === undefined) checks.push({ ok: false, text: "No centre of gravity given: trimmed cases of this mass case take no balancing tail load." });
     return { id: mc.id, label: mc.label, weight: mc.weight ?? null, cg: mc.cg ?? null, itemsKg, wingKg, itemsX: itemsCentreX(items, c), checks };
@@ -253,7 +255,7 @@ export interface RootReliefPerG {
  */
 export function massesOverview(input: { planform: PlanformData | null; basis: BasisData | null; masses: MassesData | null }) {
   const { planform, basis, masses } = input;
-  const summaries = masses ? massCaseSummaries(masses, basis) : [];
+  const summaries = masses ? massCaseSummaries(masses, basis, basis?.units) : [];
   if (!planform) return { mac: null, summaries, relief: [] as RootReliefPerG[], problem: "Save the planform first: items are placed on the wing and the centre of gravity on its MAC." };
   const mac = macOf(planform);
   if (!masses) return { mac, summaries, relief: [], problem: null };

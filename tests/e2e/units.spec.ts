@@ -103,6 +103,12 @@ test("in US units the V–n sets, the distribution, the relief chart and the roo
   await expect(page.getByText(/Mach [\d.]+ · [\d ]+ ft ·/).first()).toBeVisible({ timeout: 120_000 });
   await expect(page.getByText(/\d m[ ;)·]|\[m\]|\d kg\b/)).toHaveCount(0);
 
+  // The masses step's checks of each mass case give weights in pounds, none in kilograms.
+  await page.goto(`/cases/${caseId}/masses`);
+  const lb = (kg: number) => String(Math.round(kg / LB));
+  await expect(page.locator("main").getByText(`Weight within the basis: minimum design weight ${lb(DEMO_CASE_INPUTS.basis.minWeight)} lb to MTOW ${lb(DEMO_CASE_INPUTS.basis.mtow)} lb`).first()).toBeVisible({ timeout: 120_000 });
+  await expect(page.locator("main").getByText(/\d kg\b/)).toHaveCount(0);
+
   // The relief breakdown's chart draws the stations in feet (its vector copy, as saved from the page).
   await page.goto(`/cases/${caseId}/loads`);
   const relief = page.getByRole("figure", { name: "Shear: aerodynamic, relief and net" });
