@@ -5,8 +5,9 @@ import type { Permission } from "~/domain/permissions";
 
 /**
  * The signed-in person with the permission, and the case — only if it belongs to their
- * organisation — with a reader of its steps. Every case-step loader and action calls this itself:
- * child loaders run in parallel with the layout's, so no parent may be relied on to have checked;
+ * organisation — with readers of its steps (whole, or their states only). Every case-step loader
+ * and action calls this itself: child loaders run in parallel with the layout's, so no parent may
+ * be relied on to have checked;
  * the reads themselves are shared by the loaders of one request (request-context.server.ts).
  */
 export async function requireCase(scope: RequestScope, caseId: string | undefined, permission: Permission) {
@@ -15,5 +16,5 @@ export async function requireCase(scope: RequestScope, caseId: string | undefine
   const found = caseId ? await reads.case(current.organisation.id, caseId) : null;
   if (!found) notFound("Case");
   const id = found.case.id;
-  return { current, case: found.case, programme: found.programme, createdByName: found.createdByName, readSteps: () => reads.steps(id) };
+  return { current, case: found.case, programme: found.programme, createdByName: found.createdByName, readSteps: () => reads.steps(id), readStepStates: () => reads.stepStates(id) };
 }

@@ -1,6 +1,6 @@
 import { createContext, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import type { StepKey } from "~/domain/vocabulary";
-import { getCaseSteps, type StepState } from "~/services/case-steps.server";
+import { getCaseStepStates, getCaseSteps, type StepMeta, type StepState } from "~/services/case-steps.server";
 import { getCase } from "~/services/programmes.server";
 import { readSession, type SessionState } from "./session.server";
 
@@ -17,6 +17,8 @@ interface RequestReads {
   session(): Promise<SessionState>;
   case(organisationId: string, caseId: string): Promise<CaseRecord | null>;
   steps(caseId: string): Promise<Record<StepKey, StepState>>;
+  /** The steps' states without their data (header, step rail, overview); the whole read when this request already made it. */
+  stepStates(caseId: string): Promise<Record<StepKey, StepMeta>>;
 }
 
 const readsContext = createContext<RequestReads>();
@@ -36,6 +38,7 @@ export const requestReads: MiddlewareFunction<Response> = ({ request, context },
     session: () => once("session", () => readSession(request)),
     case: (organisationId, caseId) => once(`case:${organisationId}:${caseId}`, () => getCase(organisationId, caseId)),
     steps: (caseId) => once(`steps:${caseId}`, () => getCaseSteps(caseId)),
+    stepStates: (caseId) => once.made<Record<StepKey, StepState>>(`steps:${caseId}`) ?? once(`step-states:${caseId}`, () => getCaseStepStates(caseId)),
   });
   return next();
 };
@@ -45,10 +48,16 @@ export function readsOf(scope: RequestScope): RequestReads {
   return scope.context.get(readsContext);
 }
 
-function onceFor(request: Request): <T>(key: string, read: () => Promise<T>) => Promise<T> {
-  if (request.method !== "GET" && request.method !== "HEAD") return (_key, read) => read();
+interface Once {
+  <T>(key: string, read: () => Promise<T>): Promise<T>;
+  /** The read this request has already made under the key, if any. */
+  made<T>(key: string): Promise<T> | undefined;
+}
+
+function onceFor(request: Request): Once {
+  if (request.method !== "GET" && request.method !== "HEAD") return Object.assign(<T>(_key: string, read: () => Promise<T>) => read(), { made: () => undefined });
   const reads = new Map<string, Promise<unknown>>();
-  return <T>(key: string, read: () => Promise<T>) => {
+  const once = <T>(key: string, read: () => Promise<T>) => {
     let pending = reads.get(key) as Promise<T> | undefined;
     if (!pending) {
       pending = read();
@@ -58,4 +67,5 @@ function onceFor(request: Request): <T>(key: string, read: () => Promise<T>) => 
     }
     return pending;
   };
+  return Object.assign(once, { made: <T>(key: string) => reads.get(key) as Promise<T> | undefined });
 }

@@ -2,16 +2,16 @@ import { describeCaseEvent, STEPS } from "~/domain/steps";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { formatUtc } from "~/utils/format";
 import { caseHistory } from "./audit.server";
-import type { StepState } from "./case-steps.server";
+import type { StepMeta } from "./case-steps.server";
 import type { StepKey } from "~/domain/vocabulary";
 import { stepSignatures } from "./review.server";
 
 /**
  * What the case overview shows: each step with its state, who changed it last and its check (the
  * live signature, or the reason its approval was voided), and the case's history in words. The
- * steps come from the caller, who has them from the page's shared read (the case header needs them too).
+ * step states come from the caller, who has them from the page's shared read (the case header needs them too).
  */
-export async function caseOverview(caseId: string, steps: Record<StepKey, StepState>, database: Db | Tx = db) {
+export async function caseOverview(caseId: string, steps: Record<StepKey, StepMeta>, database: Db | Tx = db) {
   const [history, signatures] = await Promise.all([caseHistory(caseId, 20, database), stepSignatures(caseId, database)]);
   const approval = (key: string) => {
     // The check only: the preparer's signature is on the review page.

@@ -1,7 +1,7 @@
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import type { z } from "zod";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
-import { db, type Db, type Tx } from "~/db/client.server";
+import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
 import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
 import { STEP_SCHEMAS, type DistributionData, type EnvelopeData } from "~/domain/step-data";
@@ -33,6 +33,33 @@ export async function getCaseSteps(caseId: string, database: Db | Tx = db): Prom
     out[key] = found
       ? { step: key, revision: found.row.revision, status: found.row.status, data: found.row.data, updatedAt: found.row.updatedAt, updatedByName: found.updatedByName }
       : { step: key, revision: 0, status: "empty", data: null, updatedAt: null, updatedByName: null };
+  }
+  return out;
+}
+
+/** A step's state without its data: what the case header, step rail and overview show. */
+export type StepMeta = Omit<StepState, "data">;
+
+// Every page of a case shows the step states (its header and rail): built once (see `prepared`).
+const stepStates = prepared((database) =>
+  database
+    .select({ step: caseSteps.step, revision: caseSteps.revision, status: caseSteps.status, updatedAt: caseSteps.updatedAt, updatedByName: users.name })
+    .from(caseSteps)
+    .leftJoin(users, eq(users.id, caseSteps.updatedBy))
+    .where(eq(caseSteps.caseId, sql.placeholder("caseId")))
+    .prepare("case_step_states"),
+);
+
+/**
+ * Every step's state without its data, in order (steps never saved: revision 0, "empty"). A step's
+ * data can be megabytes (a large envelope); a status line has no need to read, send and parse them.
+ */
+export async function getCaseStepStates(caseId: string): Promise<Record<StepKey, StepMeta>> {
+  const rows = await stepStates().execute({ caseId });
+  const out = {} as Record<StepKey, StepMeta>;
+  for (const key of STEP_KEYS) {
+    const found = rows.find((r) => r.step === key);
+    out[key] = found ? { ...found, step: key } : { step: key, revision: 0, status: "empty", updatedAt: null, updatedByName: null };
   }
   return out;
 }

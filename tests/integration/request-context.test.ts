@@ -37,6 +37,17 @@ describe("reads shared through the request's context", () => {
     expect(next.case.title).toBe("After");
   });
 
+  it("gives the steps' states without their data, from the request's whole read of the steps when a loader made it", async () => {
+    const scope = await scopeOf(request(`/cases/${caseId}/basis`, { cookie }));
+    const page = await requireCase(scope, caseId, "case:read");
+    const whole = await page.readSteps();
+    expect(await page.readStepStates()).toBe(whole);
+    const alone = await requireCase(await scopeOf(request(`/cases/${caseId}`, { cookie })), caseId, "case:read");
+    const states = await alone.readStepStates();
+    expect(states.basis).not.toHaveProperty("data");
+    expect({ status: states.basis.status, revision: states.basis.revision }).toEqual({ status: whole.basis.status, revision: whole.basis.revision });
+  });
+
   it("reads afresh each time in a writing request", async () => {
     await retitle("Before");
     const scope = await scopeOf(request(`/cases/${caseId}/basis`, { method: "POST", cookie, body: new FormData() }));

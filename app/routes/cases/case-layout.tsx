@@ -8,8 +8,8 @@ import type { Route } from "./+types/case-layout";
 
 /** Case header and step rail; each step route checks access again in its own loader. */
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { case: c, programme, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { case: c, programme, readStepStates } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readStepStates();
   return {
     case: { id: c.id, reference: c.reference, title: c.title, status: c.status },
     programme: { id: programme.id, code: programme.code },

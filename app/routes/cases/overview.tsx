@@ -8,8 +8,8 @@ import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/overview";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { case: c, programme, createdByName, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const { steps, history } = await caseOverview(c.id, await readSteps());
+  const { case: c, programme, createdByName, readStepStates } = await requireCase({ request, context }, params.caseId, "case:read");
+  const { steps, history } = await caseOverview(c.id, await readStepStates());
   return { case: { id: c.id, reference: c.reference, title: c.title, description: c.description, createdAt: c.createdAt, updatedAt: c.updatedAt }, programme: { id: programme.id, code: programme.code, name: programme.name, aircraft: programme.aircraft }, createdByName, steps, history };
 }
 
