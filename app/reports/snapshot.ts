@@ -129,4 +129,6 @@ export interface ReportFigures {
   masses?: MassesFigure | null;
   /** The tuned discrete gust of every V–n set (transport aeroplanes). */
   gusts?: GustFigure[];
+  /** Equivalent airspeed of each load case (m/s), from its Mach number and altitude in the ISA, by case id. */
+  eas?: Record<string, number>;
 }

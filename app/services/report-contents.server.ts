@@ -5,7 +5,7 @@ import { db, type Db, type Tx } from "~/db/client.server";
 import { cases, organisations, programmes, reports, type Report } from "~/db/schema";
 import { compareReports } from "~/domain/report-comparison";
 import { ISSUED_REPORT_STATUSES } from "~/domain/vocabulary";
-import { ENGINE_VERSION, gustAlleviationFactor, gustMassRatio, isa, plungeGustResponse, wingGeometry, type WingStation } from "~/engine";
+import { ENGINE_VERSION, easFromMach, gustAlleviationFactor, gustMassRatio, isa, plungeGustResponse, wingGeometry, type WingStation } from "~/engine";
 import { exchangeDocumentText } from "~/exchange";
 import type { MassesFigure, ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { and, desc, eq, inArray, lt } from "drizzle-orm";
@@ -96,6 +96,7 @@ export function reportFigures(s: ReportSnapshot): ReportFigures {
     vn: { set: sets[0]!, count: sets.length },
     critical: distributionView(s.exchange, criticalCase(s.result.cases).id),
     geometry,
+    eas: Object.fromEntries(s.inputs.envelope.cases.map((c) => [c.id, easFromMach(c.mach, c.altitude)])),
     masses: massesFigure(s),
     gusts: sets.map((set) => ({
       label: set.label,

@@ -1,5 +1,4 @@
 import { formatNumber } from "~/domain/units";
-import { easFromMach } from "~/engine";
 import { MUTED, type Column, type Section } from "./layout.server";
 import { planformDrawing } from "./planform-drawing.server";
 
@@ -110,7 +109,7 @@ export function inputs(section: Section) {
       formatNumber(c.mach, 4),
       q("altitude", c.altitude, 5),
       // The speed of the case, which its rule text no longer carries (stored text is free of units).
-      q("speed", easFromMach(c.mach, c.altitude), 4),
+      figures.eas?.[c.id] !== undefined ? q("speed", figures.eas[c.id]!, 4) : "—",
       c.weight !== undefined ? q("force", c.weight) : "—",
       c.alpha !== undefined ? `α ${formatNumber(c.alpha)}°` : formatNumber(c.nz),
       c.excluded ? "excluded" : disp[c.id]?.action === "exclude" ? "excluded (flag)" : disp[c.id] ? "justified (flag)" : analysed.has(c.id) ? "analysed" : "—",
