@@ -2,6 +2,10 @@ import type { Config } from "@react-router/dev/config";
 
 export default {
   ssr: true,
+  // The whole route manifest as one immutable, cached asset instead of the "lazy" default, which
+  // computes a partial manifest on every page render (matching each parent path against all
+  // routes) and inlines it, and then asks /__manifest as links appear on the page.
+  routeDiscovery: { mode: "initial" },
   future: {
     v8_middleware: true,
     v8_viteEnvironmentApi: true,

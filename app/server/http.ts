@@ -303,7 +303,13 @@ export async function sendBody(body: ReadableStream<Uint8Array>, res: Response):
   res.on("drain", resume);
   res.once("close", onClose);
   const closed = new Promise<"closed">((resolve) => res.once("close", () => resolve("closed")));
-  const flush = () => (res as Response & { flush?: () => void }).flush?.();
+  const uncork = () => {
+    while (res.writableCorked) res.uncork();
+  };
+  const flush = () => {
+    uncork();
+    (res as Response & { flush?: () => void }).flush?.();
+  };
   try {
     let next = reader.read();
     for (;;) {
@@ -315,11 +321,17 @@ export async function sendBody(body: ReadableStream<Uint8Array>, res: Response):
       }
       if (step === "closed" || gone) break;
       if (step.done) {
+        uncork();
         res.end();
         return;
       }
       next = reader.read();
-      if (!res.write(step.value) && !gone) await new Promise<void>((resolve) => (wake = resolve));
+      // Chunks at hand go to the socket together (one write for a page's shell, not one per chunk).
+      if (!res.writableCorked) res.cork();
+      if (!res.write(step.value) && !gone) {
+        uncork();
+        await new Promise<void>((resolve) => (wake = resolve));
+      }
       if (gone) break;
     }
     // The client went away: stop producing (React Router aborts the render through the request's signal).
