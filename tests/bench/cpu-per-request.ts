@@ -7,7 +7,7 @@
 //
 //   npx tsx tests/bench/cpu-per-request.ts --database postgres://postgres@127.0.0.1:PORT/spanwright \
 //     --sign-in http://127.0.0.1:APP_PORT [--path /cases/{case}] [--requests 1500] [--rounds 3] \
-//     [--also before=/path/to/other/checkout] [--profile] [--compressed]
+//     [--also before=/path/to/other/checkout] [--flags before=--node-option,...] [--profile] [--compressed]
 //
 // The database is a running app's (`npm start` with WEB_PROCESSES=1 and SPANWRIGHT_DATA_DIR):
 // the demo engineer signs in there, and the session cookie serves every server measured. Each
@@ -33,6 +33,8 @@ const PROFILE = process.argv.includes("--profile");
 // As the load benchmark's autocannon asks, uncompressed unless --compressed (then brotli, as browsers).
 const ENCODING: Record<string, string> = process.argv.includes("--compressed") ? { "Accept-Encoding": "br, gzip" } : {};
 if (!DATABASE_URL || !SIGN_IN) throw new Error("--database and --sign-in are required (see the comment at the top)");
+// --flags name=--a,--b: node options for the server of that name (runtime settings compared side by side).
+const flags = new Map(process.argv.flatMap((a, i) => (a === "--flags" ? [process.argv[i + 1]!] : [])).map((s) => [s.slice(0, s.indexOf("=")), s.slice(s.indexOf("=") + 1).split(",")]));
 const others = process.argv.flatMap((a, i) => (a === "--also" ? [process.argv[i + 1]!] : [])).map((s) => {
   const [name, dir] = s.split("=");
   return { name: name!, dir: path.resolve(dir!) };
@@ -54,7 +56,7 @@ interface Server {
 
 async function start(name: string, cwd: string, script: string, port: number, env: Record<string, string>): Promise<Server> {
   const origin = `http://127.0.0.1:${port}`;
-  const nodeArgs = ["--import", "tsx", ...(PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${path.resolve("profiles", name.replace(/\W+/g, "-"))}`] : [])];
+  const nodeArgs = [...(flags.get(name) ?? []), "--import", "tsx", ...(PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${path.resolve("profiles", name.replace(/\W+/g, "-"))}`] : [])];
   const child = spawn(process.execPath, [...nodeArgs, script], {
     cwd,
     env: { ...process.env, NODE_ENV: "production", PORT: String(port), APP_ORIGIN: origin, DATABASE_URL, WEB_PROCESSES: "1", ...env },
