@@ -263,6 +263,30 @@ export const resultProgress = pgTable(
   (t) => [primaryKey({ columns: [t.caseId, t.inputHash, t.engineVersion] })],
 );
 
+/**
+ * The distribution page's rule sensitivity (the critical cases' root loads under each compressibility
+ * rule), computed by the job worker (sensitivity.compute) for one input of the distribution step and
+ * engine version, with its progress while it runs; the page reads it, never solves it.
+ */
+export const ruleSensitivities = pgTable(
+  "rule_sensitivities",
+  {
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    inputHash: text("input_hash").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    /** queued: waiting for a worker; results: the case's own sweep; solving: the rules; done; failed (the engine refused it). */
+    phase: text().$type<"queued" | "results" | "solving" | "done" | "failed">().default("queued").notNull(),
+    /** Critical cases solved under each rule so far, of all (cases × rules). */
+    done: integer().default(0).notNull(),
+    total: integer().default(0).notNull(),
+    sensitivity: jsonb().$type<Record<string, unknown>>(),
+    /** Why the engine refused it, in its words (phase failed). */
+    problem: text(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.caseId, t.inputHash, t.engineVersion] })],
+);
+
 /** Files received from people (section-data CSV), stored whole in S3 with their SHA-256. */
 export const uploads = pgTable(
   "uploads",

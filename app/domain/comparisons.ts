@@ -1,4 +1,5 @@
 import type { CompressibilityRule, EnvelopeRow, SpanwiseMethod } from "~/engine";
+import { sweepProgressText, type SweepProgressView } from "./results";
 
 /*
  * What the distribution page and the report compare beside the case's own results: the critical
@@ -112,4 +113,20 @@ export function formatPercent(fraction: number): string {
   const p = Number((fraction * 100).toFixed(2));
   if (p === 0) return "0 %";
   return `${p < 0 ? "−" : ""}${Math.abs(p).toFixed(2)} %`;
+}
+
+/** How far the job worker has got with a rule sensitivity: its phase, the critical cases solved under each rule (of all), and the case's own sweep while that runs. */
+export interface SensitivityProgress {
+  phase: "queued" | "results" | "solving";
+  done: number;
+  total: number;
+  sweep: SweepProgressView | null;
+}
+
+/** The progress of a rule sensitivity in words, as the distribution page shows it while the worker runs. */
+export function sensitivityProgressText(p: SensitivityProgress): string {
+  const head = "Solving the critical cases under each rule";
+  if (p.phase === "queued") return `${head}: waiting for a background worker.`;
+  if (p.phase === "results") return `${head}: the case's own results come first.${p.sweep ? ` ${sweepProgressText(p.sweep, p.sweep.casesTotal)}` : ""}`;
+  return `${head}: ${p.done} of ${p.total} done.`;
 }

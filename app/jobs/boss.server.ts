@@ -1,7 +1,14 @@
 import PgBoss from "pg-boss";
 
 /** Queue names: every background job of the product. */
-export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute", analyze: "analysis.run", auditCheckpoint: "audit.checkpoint", rerunReport: "report.rerun" } as const;
+export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute", analyze: "analysis.run", auditCheckpoint: "audit.checkpoint", rerunReport: "report.rerun", ruleSensitivity: "sensitivity.compute" } as const;
+
+/**
+ * Queues asked again and again while their work is pending (the distribution page asks each second)
+ * hold at most one waiting job per singleton key ("short"): asking again adds none, and a job lost
+ * after its retries is sent again by the next ask.
+ */
+const QUEUE_POLICY: Partial<Record<(typeof QUEUES)[keyof typeof QUEUES], "short">> = { [QUEUES.ruleSensitivity]: "short" };
 
 /** How often the audit trail's heads are anchored outside the database (cron, UTC). */
 export const AUDIT_CHECKPOINT_CRON = "*/15 * * * *";
@@ -19,7 +26,7 @@ export function boss(): Promise<PgBoss> {
     const instance = new PgBoss({ connectionString: url, max: 4 });
     instance.on("error", (error) => console.warn(`job queue: ${error.message}`));
     await instance.start();
-    for (const name of Object.values(QUEUES)) await instance.createQueue(name);
+    for (const name of Object.values(QUEUES)) await instance.createQueue(name, { name, policy: QUEUE_POLICY[name] ?? "standard" });
     return instance;
   })().catch((error: unknown) => {
     globalForBoss.__spanwrightBoss = undefined;

@@ -3,6 +3,7 @@ import { runAnalysisJob } from "~/services/analysis-jobs.server";
 import { anchorAllChains } from "~/services/audit-trail.server";
 import { generateReport } from "~/services/reports.server";
 import { runRerun } from "~/services/reproduction.server";
+import { computeRuleSensitivity } from "~/services/rule-sensitivity.server";
 import { AUDIT_CHECKPOINT_CRON, boss, QUEUES } from "./boss.server";
 
 /**
@@ -23,6 +24,9 @@ export async function startWorkers(): Promise<void> {
   });
   await queue.work<{ rerunId: string }>(QUEUES.rerunReport, { pollingIntervalSeconds: 1 }, async ([job]) => {
     if (job) await runRerun(job.data.rerunId);
+  });
+  await queue.work<{ caseId: string; inputHash: string }>(QUEUES.ruleSensitivity, { pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (job) await computeRuleSensitivity(job.data.caseId, job.data.inputHash);
   });
   await queue.work(QUEUES.auditCheckpoint, async () => {
     await anchorAllChains();

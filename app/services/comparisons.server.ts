@@ -1,5 +1,3 @@
-import { LRUCache } from "lru-cache";
-import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import {
   rootCriticalCases,
   ROOT_LOADS,
@@ -26,7 +24,7 @@ import {
   type WingModel,
 } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
-import { buildCaseFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
+import { buildCaseFile, caseInputs, parseOrThrow } from "./analysis.server";
 import { caseUnits, getCaseSteps } from "./case-steps.server";
 
 /*
@@ -57,6 +55,12 @@ function engine<T>(fn: () => T): T {
   }
 }
 
+/** How far a rule sensitivity has got: critical cases solved under each rule, of all (cases × rules). */
+export interface SensitivityStep {
+  done: number;
+  total: number;
+}
+
 /**
  * The root shear, bending and torsion of the critical cases (those giving the envelope's six root
  * extremes) under each of the three compressibility rules, with the spread. Direct solves at each
@@ -64,6 +68,15 @@ function engine<T>(fn: () => T): T {
  * results were solved directly too, its own rule's values are those results exactly.
  */
 export function ruleSensitivity(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): RuleSensitivity {
+  const steps = ruleSensitivitySteps(input, result, sections);
+  for (;;) {
+    const next = steps.next();
+    if (next.done) return next.value;
+  }
+}
+
+/** ruleSensitivity one case under one rule at a time, saying how far it has got after each (the job worker records it). */
+export function* ruleSensitivitySteps(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): Generator<SensitivityStep, RuleSensitivity> {
   const file = parseOrThrow(input);
   const models = new Map<boolean, WingModel>();
   const modelOf = (flaps: boolean) => models.get(flaps) ?? models.set(flaps, engine(() => caseWingModel(file, flaps, sections))).get(flaps)!;
@@ -79,24 +92,31 @@ export function ruleSensitivity(input: CaseFileInput, result: CaseResult, sectio
     }
     return sol;
   };
-  const cases = rootCriticalCases(result.envelope[0]).map((critical) => {
-    const lc = loadCaseOf(file, critical.id);
-    const own = result.cases.find((c) => c.id === critical.id)!;
-    const rules = RULES.map((rule) => {
-      if (rule === chosen && direct) return { rule, root: { ...own.root }, machCritical: own.machCritical, regime: own.regime };
-      const r = engine(() => evaluateCase(solution(rule, lc.mach, lc.flaps), lc));
-      return { rule, root: { ...r.root }, machCritical: r.machCritical, regime: r.regime };
-    });
+  const critical = rootCriticalCases(result.envelope[0]);
+  const total = critical.length * RULES.length;
+  const cases: RuleSensitivity["cases"] = [];
+  for (const c of critical) {
+    const lc = loadCaseOf(file, c.id);
+    const own = result.cases.find((k) => k.id === c.id)!;
+    const rules: RuleSensitivity["cases"][number]["rules"] = [];
+    for (const rule of RULES) {
+      if (rule === chosen && direct) rules.push({ rule, root: { ...own.root }, machCritical: own.machCritical, regime: own.regime });
+      else {
+        const r = engine(() => evaluateCase(solution(rule, lc.mach, lc.flaps), lc));
+        rules.push({ rule, root: { ...r.root }, machCritical: r.machCritical, regime: r.regime });
+      }
+      yield { done: cases.length * RULES.length + rules.length, total };
+    }
     const stats = Object.fromEntries(ROOT_LOADS.map((q) => [q, spreadOf(rules.map((r) => r.root[q]))])) as Record<keyof RootLoads, { spread: number; relative: number }>;
-    return {
-      ...critical,
+    cases.push({
+      ...c,
       mach: lc.mach,
       altitude: lc.altitude,
       rules,
       spread: { shear: stats.shear.spread, bending: stats.bending.spread, torsion: stats.torsion.spread },
       relative: { shear: stats.shear.relative, bending: stats.bending.relative, torsion: stats.torsion.relative },
-    };
-  });
+    });
+  }
   const method = file.method.spanwise === "vortex-lattice" ? `the vortex lattice${file.method.strips ? ` (${file.method.strips} strips)` : ""}` : "the lifting line";
   return {
     chosen,
@@ -151,32 +171,6 @@ export function spanwiseComparison(input: CaseFileInput, caseId: string, section
         })(),
   );
   return { caseId: lc.id, mach: lc.mach, altitude: lc.altitude, chosen, ways };
-}
-
-// Rule sensitivity of an input, by the SHA-256 of the document (and its sections): a function of
-// exactly those, so an entry is never stale; the bound keeps the process's memory flat.
-const sensitivityCache = new LRUCache<string, RuleSensitivity>({ max: 64 });
-
-/** ruleSensitivity, remembered per input for the pages (the report computes its own when it is issued). */
-export function ruleSensitivityCached(input: CaseFileInput, result: CaseResult, sections?: SectionsFile): RuleSensitivity {
-  const key = sha256Hex(canonicalJson({ input, sections: sections ?? null, engine: result.engine }));
-  const hit = sensitivityCache.get(key);
-  if (hit) return hit;
-  const out = ruleSensitivity(input, result, sections);
-  sensitivityCache.set(key, out);
-  return out;
-}
-
-/**
- * The rule sensitivity the distribution page shows: of the critical cases among those the envelope
- * step includes (dispositions not yet applied, as the page examines them).
- * @throws DomainError when a step is missing or the engine refuses the case
- */
-export async function caseRuleSensitivity(input: { caseId: string; title: string; actorId: string | null }): Promise<{ units: UnitSystem; sensitivity: RuleSensitivity }> {
-  const steps = await getCaseSteps(input.caseId);
-  const file = buildCaseFile(input.title, caseInputs(steps), "envelope");
-  const { result } = await resultsFor(input.caseId, file, input.actorId);
-  return { units: caseUnits(steps), sensitivity: ruleSensitivityCached(file, result) };
 }
 
 /**

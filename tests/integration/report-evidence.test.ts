@@ -6,7 +6,7 @@ import path from "node:path";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cases, caseSteps, reportReruns, reports, signatureVoids, signatures, users } from "~/db/schema";
+import { cases, caseSteps, reportReruns, reports, ruleSensitivities, signatureVoids, signatures, users } from "~/db/schema";
 import { ENGINE_VERSION } from "~/engine";
 import { stopBoss } from "~/jobs/boss.server";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
@@ -24,6 +24,7 @@ import { loader as pdfLoader } from "~/routes/api/v1/report-pdf";
 import { action as reportsAction, loader as reportsLoader } from "~/routes/cases/reports";
 import { action as reviewAction } from "~/routes/cases/review";
 import { runRerun } from "~/services/reproduction.server";
+import { computeRuleSensitivity } from "~/services/rule-sensitivity.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { createReportRow, generateReport } from "~/services/reports.server";
 import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
@@ -155,7 +156,14 @@ function expectRootCritical(named: string[], result: CaseResult) {
 
 describe("rule sensitivity", () => {
   it("gives the critical cases' root loads under each rule with the spread, on the distribution page", async () => {
-    const body = (await json(ruleSensitivityLoader, `/api/cases/${caseId}/rule-sensitivity`)) as { units: string; sensitivity: RuleSensitivity };
+    // Solved by the job worker (tests/integration/rule-sensitivity.test.ts): its handler run here.
+    const ask = async () => (await ruleSensitivityLoader((await routeArgs(request(`/api/cases/${caseId}/rule-sensitivity`, { cookie: cookies.engineer }), { caseId })) as never)) as Response;
+    expect((await ask()).status).toBe(202);
+    const [queued] = await db.select().from(ruleSensitivities).where(eq(ruleSensitivities.caseId, caseId));
+    await computeRuleSensitivity(caseId, queued!.inputHash);
+    const answer = await ask();
+    expect(answer.status).toBe(200);
+    const body = (await answer.json()) as { units: string; sensitivity: RuleSensitivity };
     const snap = first.row.snapshot as unknown as Snapshot;
     const s = body.sensitivity;
     expectRootCritical(s.cases.map((c) => c.id), snap.result);

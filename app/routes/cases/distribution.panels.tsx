@@ -6,7 +6,7 @@ import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
 import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
-import { formatChange, formatPercent, SPANWISE_WAY_LABELS, type RuleSensitivity, type SpanwiseComparison } from "~/domain/comparisons";
+import { formatChange, formatPercent, sensitivityProgressText, SPANWISE_WAY_LABELS, type RuleSensitivity, type SensitivityProgress, type SpanwiseComparison } from "~/domain/comparisons";
 import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { CaseFlag, DistributionView } from "~/services/distribution.server";
 import { methodUsedLines } from "~/domain/method-statement";
@@ -181,25 +181,36 @@ const root = (units: UnitSystem, q: "shear" | "bending" | "torsion", si: number)
 
 /**
  * The root loads of the critical cases (those giving the six root extremes of the envelope) under
- * each compressibility rule side by side, with the spread between the rules. Loaded after the page.
+ * each compressibility rule side by side, with the spread between the rules. The job worker solves
+ * them; the panel asks for them after the page shows, and each second while the worker runs.
  */
 export function RuleSensitivityPanel({ caseId, revision }: { caseId: string; revision: number }) {
-  const data = useFetcher<{ units: UnitSystem; sensitivity: RuleSensitivity } | Refusal>();
+  const data = useFetcher<{ units: UnitSystem; sensitivity: RuleSensitivity } | { state: "pending"; progress: SensitivityProgress } | Refusal>();
   const { load } = data;
+  const url = href("/api/cases/:caseId/rule-sensitivity", { caseId });
   // Asked again for a new revision of the step: the same address answers for the new inputs.
   useEffect(() => {
-    load(href("/api/cases/:caseId/rule-sensitivity", { caseId }));
-  }, [load, caseId, revision]);
+    load(url);
+  }, [load, url, revision]);
   const failed = refusalOf(data.data);
   const loaded = data.data && "sensitivity" in data.data ? data.data : null;
+  const progress = data.data && "progress" in data.data ? data.data.progress : null;
+  useEffect(() => {
+    if (!progress) return;
+    const t = setTimeout(() => load(url), 1000);
+    return () => clearTimeout(t);
+  }, [progress, load, url]);
   return (
     <Panel title="Sensitivity to the compressibility rule" className="mt-5">
       {failed ? (
         <p className="text-sm text-danger">{failed}</p>
       ) : !loaded ? (
-        <p className="text-sm text-ink-muted" role="status">
-          Solving the critical cases under each rule…
-        </p>
+        <div className="text-sm" role="status">
+          <p className="text-ink-muted">{progress ? sensitivityProgressText(progress) : "Solving the critical cases under each rule…"}</p>
+          <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas" role="progressbar" aria-label="Critical cases solved under each rule" aria-valuemin={0} aria-valuemax={100} aria-valuenow={progress && progress.total > 0 ? Math.round((100 * progress.done) / progress.total) : 0}>
+            <div className="h-full rounded bg-accent" style={{ width: `${progress && progress.total > 0 ? ((100 * progress.done) / progress.total).toFixed(1) : 0}%` }} />
+          </div>
+        </div>
       ) : (
         <RuleSensitivityTable units={loaded.units} s={loaded.sensitivity} />
       )}
