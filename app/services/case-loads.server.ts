@@ -1,8 +1,8 @@
 import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
-import { caseWingModel, type CaseFileInput } from "~/exchange";
-import { buildCaseFile, parseOrThrow, type CaseInputs } from "./analysis.server";
-import { balanceRows, effectiveMasses, type BalanceRow } from "./masses.server";
+import { caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
+import { parseOrThrow, type CaseInputs } from "./analysis.server";
+import { balanceRows, effectiveMasses } from "./masses.server";
 
 /**
  * One case's loads split into their parts at the output stations: the aerodynamic loads, the inertia
@@ -41,25 +41,18 @@ export function caseLoadsBreakdown(input: CaseFileInput, caseId: string) {
 export type CaseLoadsBreakdown = ReturnType<typeof caseLoadsBreakdown>;
 
 /**
- * What the loads page shows beside the results: each analysed case's mass case and kind, and the
- * balance of every trimmed case (typed tail loads, those from the balance, or none).
+ * What the loads page shows beside the results of the cases it lists: each one's mass case and kind,
+ * and the balance of each trimmed one (typed tail loads, those from the balance, or none). Only the
+ * cases named in `shown`, so that a case of 100 000 load cases sends what is on the page, not all.
  */
-export function loadsPageInfo(title: string, inputs: CaseInputs) {
-  type Info = { cases: Record<string, { massCase: string | null; kind: string } | undefined>; balance: BalanceRow[]; problem: string | null };
-  if (!inputs.planform || !inputs.sections || !inputs.envelope) return { cases: {}, balance: [], problem: null } as Info;
-  try {
-    const file = parseOrThrow(buildCaseFile(title, inputs));
-    const masses = effectiveMasses(inputs);
-    const kinds = new Map(inputs.envelope.cases.map((c) => [c.id, c.kind]));
-    return {
-      cases: Object.fromEntries(file.cases.map((c) => [c.id, { massCase: c.massCase ?? null, kind: kinds.get(c.id) ?? "manual" }])) as Record<string, { massCase: string | null; kind: string } | undefined>,
-      balance: balanceRows(file, inputs.envelope.cases, masses),
-      problem: null,
-    };
-  } catch (error) {
-    if (error instanceof DomainError) return { cases: {}, balance: [], problem: error.message } as Info;
-    throw error;
-  }
+export function loadsPageInfo(file: CaseFile, inputs: CaseInputs, shown: ReadonlySet<string>) {
+  const listed: CaseFile = { ...file, cases: file.cases.filter((c) => shown.has(c.id)) };
+  const stored = (inputs.envelope?.cases ?? []).filter((c) => shown.has(c.id));
+  const kinds = new Map(stored.map((c) => [c.id, c.kind]));
+  return {
+    cases: Object.fromEntries(listed.cases.map((c) => [c.id, { massCase: c.massCase ?? null, kind: kinds.get(c.id) ?? "manual" }])) as Record<string, { massCase: string | null; kind: string } | undefined>,
+    balance: balanceRows(listed, stored, effectiveMasses(inputs)),
+  };
 }
 
 export type LoadsPageInfo = ReturnType<typeof loadsPageInfo>;

@@ -2,7 +2,9 @@ import { LRUCache } from "lru-cache";
 import { criticalCase, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { analysisInputHash, exportCaseDocuments, parseOrThrow, parseSectionsOrThrow, resultsOrQueue } from "./analysis.server";
+import { analysisInputHash, buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, parseSectionsOrThrow, resultsOrQueue } from "./analysis.server";
+import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
+import { getCaseSteps } from "./case-steps.server";
 
 /** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
 export const MAX_ROOT_ROWS = 500;
@@ -22,6 +24,8 @@ export interface LoadsView {
   cases: Omit<ResultCase, "stations">[];
   /** The case asked for (or the critical one), with its stations where the result keeps them. */
   current: ResultCase;
+  /** Mass case, kind and balance of the cases above (and those the envelope names), not of every case. */
+  info: LoadsPageInfo;
 }
 
 export type LoadsViewAnswer = { pending: true; cases: number; progress: SweepProgressView | null } | ({ pending: false } & LoadsView);
@@ -32,7 +36,9 @@ const ranked = new LRUCache<string, { result: CaseResult; order: Omit<ResultCase
 
 /** The loads page's view of a case's current results, or how far their computation has got. */
 export async function loadsView(caseId: string, title: string, actorId: string, requested: string | null): Promise<LoadsViewAnswer> {
-  const { file, sections } = await exportCaseDocuments(caseId, title);
+  const inputs = caseInputs(await getCaseSteps(caseId));
+  const file = buildCaseFile(title, inputs);
+  const sections = buildSectionsFile(inputs);
   const parsed = parseOrThrow(file);
   const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
   const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
@@ -46,7 +52,10 @@ export async function loadsView(caseId: string, title: string, actorId: string, 
   }
   const all = entry.result.cases;
   const current = (requested ? all.find((c) => c.id === requested) : undefined) ?? criticalCase(all);
-  return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope: entry.result.envelope, cases: mostCritical(entry.order, MAX_ROOT_ROWS), current };
+  const cases = mostCritical(entry.order, MAX_ROOT_ROWS);
+  const envelope = entry.result.envelope;
+  const shown = new Set([current.id, ...cases.map((c) => c.id), ...envelope.flatMap((row) => Object.entries(row).filter(([k, v]) => k.endsWith("Case") && typeof v === "string").map(([, v]) => v as string))]);
+  return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope, cases, current, info: loadsPageInfo(parsed, inputs, shown) };
 }
 
 /**

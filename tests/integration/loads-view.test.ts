@@ -6,6 +6,7 @@ import { programmes, users } from "~/db/schema";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
+import { loader as pageLoader } from "~/routes/cases/loads";
 import { computeQueuedResults } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
@@ -59,5 +60,20 @@ describe("the loads page's view of a large case file", () => {
     const view = (await res.json()) as { current: { id: string; stations: unknown[] } };
     expect(view.current.id).toBe("v7");
     expect(view.current.stations.length).toBeGreaterThan(0);
+  });
+});
+
+describe("what the loads page itself sends for a large case file", () => {
+  it("carries no per-case table in the page; mass case and balance come with the results, for the cases listed", async () => {
+    const page = (await pageLoader((await routeArgs(request(`/cases/${caseId}/loads`, { cookie }), { caseId })) as never)) as Record<string, unknown>;
+    // Before: a mass case and a balance row for each of the 1 200 cases, in the page's own data.
+    expect(JSON.stringify(page).length).toBeLessThan(10_000);
+    expect(page).not.toHaveProperty("info");
+    const view = (await (await get(`/api/cases/${caseId}/loads?case=v7`, loadsLoader)).json()) as { cases: { id: string }[]; current: { id: string }; envelope: Record<string, unknown>[]; info: { cases: Record<string, unknown>; balance: { caseId: string }[] } };
+    const named = new Set([view.current.id, ...view.cases.map((c) => c.id), ...view.envelope.flatMap((row) => Object.entries(row).filter(([k]) => k.endsWith("Case")).map(([, v]) => String(v)))]);
+    expect(new Set(Object.keys(view.info.cases))).toEqual(named);
+    // Every case of this file is trimmed (weight and nz): each listed one has its balance row, no other.
+    expect(new Set(view.info.balance.map((b) => b.caseId))).toEqual(named);
+    expect(named.size).toBeLessThan(CASES);
   });
 });

@@ -10,11 +10,11 @@ import { hasPermission } from "~/domain/permissions";
 import { LoadsSchema } from "~/domain/step-data";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { analysedCases, caseInputs } from "~/services/analysis.server";
-import { loadsPageInfo } from "~/services/case-loads.server";
 import { caseUnits } from "~/services/case-steps.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
+import type { LoadsPageInfo } from "~/services/case-loads.server";
 import type { Route } from "./+types/loads";
 import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RootLoadsTable, useCaseResults } from "./loads.panels";
 import { LoadsFormSchema } from "./loads.schema";
@@ -31,7 +31,6 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     revision: steps.loads.revision,
     status: steps.loads.status,
     values: { notes: inputs.loads?.notes ?? "" },
-    info: loadsPageInfo(c.title, inputs),
     caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
     ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
     axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
@@ -52,6 +51,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   return saveStepAnswer({ caseId: c.id, step: "loads", baseRevision: parsed.value.revision, data: si.data, actor: current.user });
 }
 
+const NO_INFO: LoadsPageInfo = { cases: {}, balance: [] };
+
 export default function LoadsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const shown = useSettledAnswer(actionData);
   const { units } = loaderData;
@@ -61,6 +62,8 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
   const results = useCaseResults(loaderData.caseId, loaderData.ready, loaderData.revision, selected);
   const { result } = results;
   const current = result?.current ?? null;
+  // Mass case, kind and balance come with the results, for the cases they list.
+  const info = result?.info ?? NO_INFO;
   return (
     <>
       <PageHeader title="Loads" description="Shear, bending moment and torsion about the reference axis along the span for every case, net of inertia relief, and their envelope." />
@@ -73,16 +76,16 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
       <StepAnswer answer={shown} inline={["notes"]} />
       <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
         <NotesPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} voids={loaderData.voids} />
-        <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} info={loaderData.info} />
+        <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} info={info} />
       </div>
       {result && current ? (
         <div className={results.loading ? "opacity-50" : undefined} aria-busy={results.loading}>
           <LoadsCharts envelope={result.envelope} current={current} units={units} />
-          <BreakdownPanel caseId={loaderData.caseId} current={current} result={result} units={units} info={loaderData.info} />
+          <BreakdownPanel caseId={loaderData.caseId} current={current} result={result} units={units} info={info} />
           <Panel title={result.cases.length < result.caseCount ? `Root loads, the ${result.cases.length} most critical of ${result.caseCount} cases` : "Root loads, every case"} className="mt-5">
-            <RootLoadsTable cases={result.cases} units={units} info={loaderData.info} />
+            <RootLoadsTable cases={result.cases} units={units} info={info} />
           </Panel>
-          <EnvelopeTable envelope={result.envelope} units={units} info={loaderData.info} />
+          <EnvelopeTable envelope={result.envelope} units={units} info={info} />
         </div>
       ) : null}
     </>
