@@ -8,7 +8,7 @@ import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
 import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { boss, QUEUES } from "~/jobs/boss.server";
-import { getCaseSteps, stepData, type StepState } from "./case-steps.server";
+import { getCaseSteps, getCaseStepsDigest, getCaseStepsDigested, stepData, type StepState } from "./case-steps.server";
 import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
 import { checkMassCaseNames, effectiveMasses, exchangeMasses, withTailLoads } from "./masses.server";
@@ -298,6 +298,41 @@ export async function exportCaseDocuments(caseId: string, title: string, databas
   return { file: buildCaseFile(title, inputs), sections: buildSectionsFile(inputs) };
 }
 
+/** A case's exchange input as its results are computed from it, checked, with the hash that names them. */
+export interface AnalysisInput {
+  file: CaseFileInput;
+  sections: SectionsFile | undefined;
+  inputHash: string;
+  /** The file as checked, and the steps it was built from. */
+  parsed: CaseFile;
+  inputs: CaseInputs;
+}
+
+// Exchange inputs by what they are derived from: the case, its title and the digest of its steps'
+// stored data. An entry is a function of its key, so it is never stale: every call reads the title
+// and the digest from the database, and a step saved since changes the digest.
+const analysisInputs = new LRUCache<string, AnalysisInput>({ max: 64 });
+
+/**
+ * The case's exchange input (with its sections document) and its hash, as `exportCaseDocuments`
+ * and `analysisInputHash` give them, derived once per content of the steps: building it balances
+ * the tail loads of every case (engine solves), validates and hashes the document — most of a
+ * results request before this. Each call reads the digest of the steps' data (not the data).
+ */
+export async function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
+  const hit = analysisInputs.get(`${caseId}\n${title}\n${await getCaseStepsDigest(caseId)}`);
+  if (hit) return hit;
+  // The data and their digest from one read, so the entry holds exactly what its key names.
+  const { steps, digest } = await getCaseStepsDigested(caseId);
+  const inputs = caseInputs(steps);
+  const file = buildCaseFile(title, inputs);
+  const sections = buildSectionsFile(inputs);
+  const parsed = parseOrThrow(file);
+  const input = { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
+  analysisInputs.set(`${caseId}\n${title}\n${digest}`, input);
+  return input;
+}
+
 /** Sweeps larger than this are solved by a worker rather than inside the web request. */
 export const SWEEP_THRESHOLD = 500;
 
@@ -327,30 +362,28 @@ export async function resultsOrQueue(
   return { pending: true, cases: file.cases.length, progress: await sweepProgress(caseId, inputHash) };
 }
 
-// Serialised result documents by case, input hash and engine version. A result is a function of
-// exactly those, so an entry can never be stale; the bound keeps the process's memory flat.
-const resultDocuments = new LRUCache<string, string>({ maxSize: 64 * 2 ** 20, sizeCalculation: (json) => json.length || 1 });
+// Result documents by case, input hash and engine version, serialised and encoded: a result is a
+// function of exactly those, so an entry can never be stale; the bound keeps the process's memory flat.
+const resultDocuments = new LRUCache<string, Uint8Array<ArrayBuffer>>({ maxSize: 64 * 2 ** 20, sizeCalculation: (bytes) => bytes.byteLength || 1 });
 
 /**
- * As resultsOrQueue, with the `spanwright.result/1` document already serialised: the API sends the
- * same bytes for the same input without reading and re-encoding the stored result every time.
+ * As resultsOrQueue, with the `spanwright.result/1` document already serialised to UTF-8: the API
+ * sends the same bytes for the same input without reading, re-encoding and re-serialising the
+ * stored result every time.
  */
 export async function resultJsonOrQueue(
   caseId: string,
-  file: CaseFileInput,
+  input: AnalysisInput,
   actorId: string | null,
-  sections?: SectionsFile,
-): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: string; inputHash: string }> {
-  const parsed = parseOrThrow(file);
-  const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
-  const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: Uint8Array<ArrayBuffer>; inputHash: string }> {
+  const key = `${caseId}:${input.inputHash}:${ENGINE_VERSION}`;
   const hit = resultDocuments.get(key);
-  if (hit) return { pending: false, json: hit, inputHash };
-  const answer = await resultsOrQueue(caseId, file, actorId, sections);
+  if (hit) return { pending: false, json: hit, inputHash: input.inputHash };
+  const answer = await resultsOrQueue(caseId, input.file, actorId, input.sections);
   if (answer.pending) return answer;
-  const json = JSON.stringify(answer.result);
+  const json = Buffer.from(JSON.stringify(answer.result));
   resultDocuments.set(key, json);
-  return { pending: false, json, inputHash };
+  return { pending: false, json, inputHash: answer.inputHash };
 }
 
 /** The job: solve and store the case's current results (idempotent: stored results are reused). */

@@ -27,6 +27,45 @@ export async function getCaseSteps(caseId: string, database: Db | Tx = db): Prom
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))
     .where(eq(caseSteps.caseId, caseId));
+  return stepsOf(rows);
+}
+
+/**
+ * The digest of what a case's steps hold: PostgreSQL's MD5 of each step's stored data (jsonb's
+ * normalised text), so equal data give an equal digest whatever wrote them. Read afresh each call;
+ * only the digests leave the database, not the data.
+ */
+export async function getCaseStepsDigest(caseId: string): Promise<string> {
+  return digestOf(await stepDigests().execute({ caseId }));
+}
+
+/** Every step of a case with the digest of their data (as getCaseStepsDigest), from one read. */
+export async function getCaseStepsDigested(caseId: string): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
+  const rows = await db
+    .select({ row: caseSteps, updatedByName: users.name, digest: dataDigest })
+    .from(caseSteps)
+    .leftJoin(users, eq(users.id, caseSteps.updatedBy))
+    .where(eq(caseSteps.caseId, caseId));
+  return { steps: stepsOf(rows), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest }))) };
+}
+
+const dataDigest = sql<string | null>`md5(${caseSteps.data}::text)`;
+const stepDigests = prepared((database) =>
+  database
+    .select({ step: caseSteps.step, digest: dataDigest })
+    .from(caseSteps)
+    .where(eq(caseSteps.caseId, sql.placeholder("caseId")))
+    .prepare("case_step_digests"),
+);
+
+function digestOf(rows: { step: string; digest: string | null }[]): string {
+  return rows
+    .map((r) => `${r.step}:${r.digest ?? "-"}`)
+    .sort()
+    .join(";");
+}
+
+function stepsOf(rows: { row: CaseStep; updatedByName: string | null }[]): Record<StepKey, StepState> {
   const out = {} as Record<StepKey, StepState>;
   for (const key of STEP_KEYS) {
     const found = rows.find((r) => r.row.step === key);

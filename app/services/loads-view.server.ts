@@ -2,9 +2,8 @@ import { LRUCache } from "lru-cache";
 import { criticalCase, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { analysisInputHash, buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, parseSectionsOrThrow, resultsOrQueue } from "./analysis.server";
+import { currentAnalysisInput, resultsOrQueue } from "./analysis.server";
 import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
-import { getCaseSteps } from "./case-steps.server";
 
 /** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
 export const MAX_ROOT_ROWS = 500;
@@ -36,11 +35,7 @@ const ranked = new LRUCache<string, { result: CaseResult; order: Omit<ResultCase
 
 /** The loads page's view of a case's current results, or how far their computation has got. */
 export async function loadsView(caseId: string, title: string, actorId: string, requested: string | null): Promise<LoadsViewAnswer> {
-  const inputs = caseInputs(await getCaseSteps(caseId));
-  const file = buildCaseFile(title, inputs);
-  const sections = buildSectionsFile(inputs);
-  const parsed = parseOrThrow(file);
-  const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
+  const { file, sections, inputHash, parsed, inputs } = await currentAnalysisInput(caseId, title);
   const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
   let entry = ranked.get(key);
   if (!entry) {

@@ -2,7 +2,7 @@ import { requireApiUser } from "~/auth/api-auth.server";
 import { sweepProgressText } from "~/domain/results";
 import { resultToCsv } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { exportCaseDocuments, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
+import { currentAnalysisInput, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import { DomainError } from "~/domain/errors";
 import { apiRefusal } from "~/utils/http.server";
@@ -24,8 +24,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const { file, sections } = await exportCaseDocuments(found.case.id, found.case.title);
-    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, file, current.user.id, sections) : await resultsOrQueue(found.case.id, file, current.user.id, sections);
+    const input = await currentAnalysisInput(found.case.id, found.case.title);
+    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, input, current.user.id) : await resultsOrQueue(found.case.id, input.file, current.user.id, input.sections);
     if (answer.pending) {
       const p = answer.progress;
       return Response.json(
