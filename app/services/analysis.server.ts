@@ -308,29 +308,40 @@ export interface AnalysisInput {
   inputs: CaseInputs;
 }
 
-// Exchange inputs by what they are derived from: the case, its title and the digest of its steps'
-// stored data. An entry is a function of its key, so it is never stale: every call reads the title
-// and the digest from the database, and a step saved since changes the digest.
-const analysisInputs = new LRUCache<string, AnalysisInput>({ max: 64 });
+// Values derived from a case's stored steps by pure functions, by what they are derived from: the
+// derivation, the case, its title and the digest of its steps' stored data. An entry is a function
+// of its key, so it is never stale: every call reads the title and the digest from the database, and
+// anything written to a step since changes the digest. Entries can be large (a big case file), so few.
+const derived = new LRUCache<string, { value: unknown }>({ max: 32 });
+
+/**
+ * `derive` of the case's steps as stored now, computed once per content of the steps. Each call
+ * reads the digest of the steps' data (not the data); a miss reads the data and their digest in one
+ * read, so an entry holds exactly what its key names. A derivation that throws is not kept.
+ */
+export async function fromCurrentSteps<T>(name: string, caseId: string, title: string, derive: (inputs: CaseInputs) => T): Promise<T> {
+  const key = (digest: string) => `${name}\n${caseId}\n${title}\n${digest}`;
+  const hit = derived.get(key(await getCaseStepsDigest(caseId)));
+  if (hit) return hit.value as T;
+  const { steps, digest } = await getCaseStepsDigested(caseId);
+  const value = derive(caseInputs(steps));
+  derived.set(key(digest), { value });
+  return value;
+}
 
 /**
  * The case's exchange input (with its sections document) and its hash, as `exportCaseDocuments`
  * and `analysisInputHash` give them, derived once per content of the steps: building it balances
  * the tail loads of every case (engine solves), validates and hashes the document — most of a
- * results request before this. Each call reads the digest of the steps' data (not the data).
+ * results request before this.
  */
-export async function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
-  const hit = analysisInputs.get(`${caseId}\n${title}\n${await getCaseStepsDigest(caseId)}`);
-  if (hit) return hit;
-  // The data and their digest from one read, so the entry holds exactly what its key names.
-  const { steps, digest } = await getCaseStepsDigested(caseId);
-  const inputs = caseInputs(steps);
-  const file = buildCaseFile(title, inputs);
-  const sections = buildSectionsFile(inputs);
-  const parsed = parseOrThrow(file);
-  const input = { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
-  analysisInputs.set(`${caseId}\n${title}\n${digest}`, input);
-  return input;
+export function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
+  return fromCurrentSteps("analysis-input", caseId, title, (inputs) => {
+    const file = buildCaseFile(title, inputs);
+    const sections = buildSectionsFile(inputs);
+    const parsed = parseOrThrow(file);
+    return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
+  });
 }
 
 /** Sweeps larger than this are solved by a worker rather than inside the web request. */

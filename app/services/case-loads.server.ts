@@ -1,7 +1,8 @@
 import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
-import { parseOrThrow, type CaseInputs } from "./analysis.server";
+import { analysedCases, fromCurrentSteps, parseOrThrow, type CaseInputs } from "./analysis.server";
+import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { balanceRows, effectiveMasses } from "./masses.server";
 
 /**
@@ -56,3 +57,18 @@ export function loadsPageInfo(file: CaseFile, inputs: CaseInputs, shown: Readonl
 }
 
 export type LoadsPageInfo = ReturnType<typeof loadsPageInfo>;
+
+/**
+ * What the loads page's document shows of the case's stored steps: units, the engineer's notes, how
+ * many cases are analysed, the axis convention. Derived once per content of the steps (no validation
+ * of every step's data per page); read afresh from the database's digest each time.
+ */
+export function loadsPageView(caseId: string, title: string) {
+  return fromCurrentSteps("loads-page", caseId, title, (inputs) => ({
+    units: inputs.basis?.units ?? "SI",
+    notes: inputs.loads?.notes ?? "",
+    caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
+    ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
+    axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
+  }));
+}

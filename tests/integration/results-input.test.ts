@@ -3,14 +3,15 @@ import pg from "pg";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, users } from "~/db/schema";
+import { loader as loadsPageLoader } from "~/routes/cases/loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { analysisInputHash, exportCaseDocuments, parseOrThrow, parseSectionsOrThrow } from "~/services/analysis.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
 import { cookieFor, demoUser, request, routeArgs, seed } from "./helpers";
 
-// The results API derives a case's exchange input once per content of its steps (and title), not
-// on every request. What it answers must still follow every change to what the results are
-// computed from: checked against the input built afresh from the stored steps.
+// The results API and the loads page derive what they show from a case's steps once per content
+// of the steps (and title), not on every request. What they answer must still follow every change
+// to what it is derived from: checked against the input built afresh from the stored steps.
 
 let caseId = "";
 let cookie = "";
@@ -34,6 +35,31 @@ async function freshHash(): Promise<string> {
   const { file, sections } = await exportCaseDocuments(caseId, c!.title);
   const parsed = parseOrThrow(file);
   return analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
+}
+
+/** The text of every query sent to PostgreSQL while `work` runs. */
+async function queriesOf(work: () => Promise<unknown>): Promise<string[]> {
+  const sent: string[] = [];
+  const query = pg.Client.prototype.query;
+  const spy = vi.spyOn(pg.Client.prototype, "query").mockImplementation(function (this: pg.Client, ...args: unknown[]) {
+    const q = args[0] as string | { text?: string };
+    sent.push(typeof q === "string" ? q : (q.text ?? ""));
+    return (query as (...a: unknown[]) => unknown).apply(this, args);
+  } as typeof query);
+  try {
+    await work();
+  } finally {
+    spy.mockRestore();
+  }
+  return sent;
+}
+
+/** Queries that read the steps' data column itself (the digest is md5("data"::text)). */
+const readsStepData = (sent: string[]) => sent.filter((text) => text.includes('"case_steps"') && /"data"(?!::text)/.test(text));
+
+async function loadsPage() {
+  const out = (await loadsPageLoader((await routeArgs(request(`/cases/${caseId}/loads`, { cookie }), { caseId })) as never)) as { values: { notes: string }; units: string; caseCount: number; revision: number };
+  return out;
 }
 
 describe("the results API's input", () => {
@@ -66,21 +92,24 @@ describe("the results API's input", () => {
 
   it("a repeated request reads the digest of the steps' data, not the data", async () => {
     await results();
-    const sent: string[] = [];
-    const query = pg.Client.prototype.query;
-    const spy = vi.spyOn(pg.Client.prototype, "query").mockImplementation(function (this: pg.Client, ...args: unknown[]) {
-      const q = args[0] as string | { text?: string };
-      sent.push(typeof q === "string" ? q : (q.text ?? ""));
-      return (query as (...a: unknown[]) => unknown).apply(this, args);
-    } as typeof query);
-    try {
-      await results();
-    } finally {
-      spy.mockRestore();
-    }
-    const stepReads = sent.filter((text) => text.includes('"case_steps"'));
-    expect(stepReads.length).toBeGreaterThan(0);
-    // The digest is md5("data"::text); the data column itself is never selected.
-    expect(stepReads.filter((text) => /"data"(?!::text)/.test(text))).toEqual([]);
+    const sent = await queriesOf(results);
+    expect(sent.filter((text) => text.includes('"case_steps"')).length).toBeGreaterThan(0);
+    expect(readsStepData(sent)).toEqual([]);
+  });
+});
+
+describe("the loads page", () => {
+  it("shows saved notes and the envelope's cases at once, and a repeated request reads no step data", async () => {
+    const before = await loadsPage();
+    const steps = await getCaseSteps(caseId);
+    expect(before.values.notes).toBe((steps.loads.data as { notes?: string } | null)?.notes ?? "");
+    expect(before.caseCount).toBeGreaterThan(0);
+    const [actor] = await db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(eq(users.email, demoUser("engineer").email));
+    await saveStep({ caseId, step: "loads", baseRevision: steps.loads.revision, data: { ...(steps.loads.data ?? {}), notes: "Root bending checked against the hand calculation." }, actor: actor! });
+    const after = await loadsPage();
+    expect(after.values.notes).toBe("Root bending checked against the hand calculation.");
+    expect(after.revision).toBe(steps.loads.revision + 1);
+    const sent = await queriesOf(loadsPage);
+    expect(readsStepData(sent)).toEqual([]);
   });
 });

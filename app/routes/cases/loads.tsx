@@ -8,9 +8,8 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { PageHeader, Panel } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { LoadsSchema } from "~/domain/step-data";
-import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
-import { analysedCases, caseInputs } from "~/services/analysis.server";
-import { caseUnits } from "~/services/case-steps.server";
+import { caseInputs } from "~/services/analysis.server";
+import { loadsPageView } from "~/services/case-loads.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
@@ -21,21 +20,19 @@ import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
-  const units = caseUnits(steps);
-  const inputs = caseInputs(steps);
+  const { current, case: c, readStepStates } = await requireCase({ request, context }, params.caseId, "case:read");
+  const [steps, view, voids] = await Promise.all([readStepStates(), loadsPageView(c.id, c.title), signaturesVoidedByEdit(c.id, "loads")]);
   return {
     caseId: c.id,
-    units,
+    units: view.units,
     revision: steps.loads.revision,
     status: steps.loads.status,
-    values: { notes: inputs.loads?.notes ?? "" },
-    caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
-    ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
-    axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
+    values: { notes: view.notes },
+    caseCount: view.caseCount,
+    ready: view.ready,
+    axisConvention: view.axisConvention,
     canEdit: hasPermission(current.roles, "case:edit") && steps.loads.status !== "submitted",
-    voids: await signaturesVoidedByEdit(c.id, "loads"),
+    voids,
   };
 }
 
