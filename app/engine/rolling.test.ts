@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { aileronCmIncrement, aileronDeflections, aileronMoments, rollingLoadFactor, sideLoads, unsymmetricalFraction } from "./rolling";
+import { aileronCmIncrement, aileronDeflections, aileronLift, aileronMoments, attributionOf, rollingLoadFactor, rollingSideLabel, rollingSides, sideLoads, unsymmetricalFraction } from "./rolling";
 import { trapezoidalWing } from "./planform";
 
 // Paragraph values are those of 14 CFR 23.349, 23.455 and 25.349 as remembered [M] (confirm against the
@@ -44,5 +44,67 @@ describe("rolling and unsymmetrical conditions", () => {
     expect(low.torsion).toEqual([-23.75, -8]); // 0.75·(−25) − 5, 0.75·(−8) − 2
     const high = sideLoads(c, 1, { shear: [0, 0], bending: [0, 0], torsion: [-100, -50] });
     expect(high.torsion).toEqual([-130, -60]);
+  });
+});
+
+// The aileron's lift increment by strip theory and the two sides, worked by hand from statics (common
+// practice, no source): a running load q·c·Δcl at the quarter chord over the aileron span.
+describe("aileron lift increment and the two sides of a rolling case", () => {
+  const rect = trapezoidalWing({ span: 10, rootChord: 2, taperRatio: 1 }); // c = 2 m, xLe = 0, semispan 5 m
+  const xRefAt = (frac: number, y: number[]) => y.map(() => frac * 2);
+
+  it("rectangular wing, aileron 3–5 m, q = 10 kPa, Δcl = 0.5: root shear q·Δcl·c·2 m = 20 kN, bending 20 kN × 4 m", () => {
+    const y = [0, 4, 5];
+    const l = aileronLift(rect, y, xRefAt(0.25, y), 10000, 0.5, { yFrom: 3, yTo: 5 }, { sin: 0, cos: 1 });
+    expect(l.shear[0]).toBeCloseTo(20000, 8);
+    expect(l.bending[0]).toBeCloseTo(80000, 7);
+    expect(l.shear[1]).toBeCloseTo(10000, 8); // 1 m of the aileron outboard of y = 4
+    expect(l.bending[1]).toBeCloseTo(5000, 8); // 10 kN at 0.5 m
+    expect(l.shear[2]).toBe(0);
+    expect(l.torsion[0]).toBeCloseTo(0, 9); // lift on the quarter-chord axis: no torsion
+    // Axis at 40 % chord (0.8 m): the lift acts at 0.5 m, 0.3 m ahead of it, nose up: 20 kN × 0.3 m.
+    const aft = aileronLift(rect, [0], xRefAt(0.4, [0]), 10000, 0.5, { yFrom: 3, yTo: 5 }, { sin: 0, cos: 1 });
+    expect(aft.torsion[0]).toBeCloseTo(6000, 8);
+    // A swept axis resolves the rolling moment: bending Mx·cos Λ, torsion Mx·sin Λ.
+    const sw = aileronLift(rect, [0], xRefAt(0.25, [0]), 10000, 0.5, { yFrom: 3, yTo: 5 }, { sin: 0.6, cos: 0.8 });
+    expect(sw.bending[0]).toBeCloseTo(64000, 7);
+    expect(sw.torsion[0]).toBeCloseTo(48000, 7);
+  });
+
+  it("tapered wing c = 2 − 0.2η: ∫₃⁵ c dη = 2.4 m², ∫₃⁵ c·η dη = 9.46667 m³ (by hand)", () => {
+    const tap = trapezoidalWing({ span: 10, rootChord: 2, taperRatio: 0.5 });
+    const y = [0];
+    const l = aileronLift(tap, y, [0], 10000, 0.5, { yFrom: 3, yTo: 5 }, { sin: 0, cos: 1 });
+    expect(l.shear[0]).toBeCloseTo(5000 * 2.4, 6);
+    expect(l.bending[0]).toBeCloseTo(5000 * 9.466667, 2);
+  });
+
+  it("sides: loaded = full airload + down-going aileron, other = fraction of it + up-going aileron, each less the same relief", () => {
+    // δ = 10°, Δcl/δ = 0.05 → Δcl = 0.5 (20 kN, 80 kN·m at the root as above); Δcm/δ = −0.01 → Δcm = −0.1, q·Δcm·c²·2 m = −8 kN·m.
+    const c = {
+      y: [0],
+      dynamicPressure: 10000,
+      shear: [100000],
+      bending: [300000],
+      torsion: [-20000],
+      relief: { shear: [10000], bending: [30000], torsion: [1000] },
+    };
+    const s = rollingSides(c, { stations: rect, xRef: [0.5], axis: { sin: 0, cos: 1 } }, { fraction: 0.75, aileronDeg: 10 }, { yFrom: 3, yTo: 5, dClPerDeg: 0.05, dCmPerDeg: -0.01 });
+    expect(s.loaded.shear[0]).toBeCloseTo(120000, 6);
+    expect(s.loaded.bending[0]).toBeCloseTo(380000, 5);
+    expect(s.loaded.torsion[0]).toBeCloseTo(-28000, 6);
+    // 0.75·(100 + 10) − 10 − 20 = 52.5 kN; 0.75·(300 + 30) − 30 − 80 = 137.5 kN·m; 0.75·(−20 + 1) − 1 + 8 = −7.25 kN·m.
+    expect(s.other.shear[0]).toBeCloseTo(52500, 6);
+    expect(s.other.bending[0]).toBeCloseTo(137500, 5);
+    expect(s.other.torsion[0]).toBeCloseTo(-7250, 6);
+    // Without a deflection only the airload differs; a deflection without an aileron is refused, naming the field.
+    expect(rollingSides(c, { stations: rect, xRef: [0.5], axis: { sin: 0, cos: 1 } }, { fraction: 0.6, aileronDeg: 0 }, undefined).other.shear[0]).toBeCloseTo(56000, 9);
+    expect(() => rollingSides(c, { stations: rect, xRef: [0.5], axis: { sin: 0, cos: 1 } }, { fraction: 1, aileronDeg: 5 }, undefined, "cases[2].roll")).toThrow(/needs the aileron/);
+  });
+
+  it("names the sides in the envelope and reads them back", () => {
+    expect(rollingSideLabel("W1-roll-VA", "other")).toBe("W1-roll-VA (other side)");
+    expect(attributionOf("W1-roll-VA (loaded side)")).toEqual({ id: "W1-roll-VA", side: "loaded" });
+    expect(attributionOf("W1-A")).toEqual({ id: "W1-A", side: null });
   });
 });

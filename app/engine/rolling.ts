@@ -7,10 +7,11 @@ import type { ReferenceAxis } from "./superposition";
 import { resolveAboutAxis } from "./superposition";
 
 // Rolling and unsymmetrical conditions: one semispan carries the symmetric condition's airload, the
-// other a fraction of it, and the aileron adds torsion over its span. The loads of each side follow from
-// a symmetric case's aerodynamic loads and inertia relief (no new spanwise solve). Rigid aircraft; the
-// roll acceleration's inertia and the aileron's lift increment are not modelled (the rules' simplified
-// method). Paragraph texts marked [M] are from memory: confirm them against the applicable regulation.
+// other a fraction of it, and the aileron adds its lift and moment increments over its span, down-going on
+// the loaded side and up-going on the other. The loads of each side follow from a symmetric case's
+// aerodynamic loads and inertia relief (no new spanwise solve). Rigid aircraft, strip theory for the
+// aileron, no roll acceleration inertia (the rules' simplified method). Paragraph texts marked [M] are from
+// memory: confirm them against the applicable regulation.
 
 /**
  * Airload on the less loaded side as a fraction of the symmetric semispan airload.
@@ -65,29 +66,65 @@ export function aileronMoments(
   span: { yFrom: number; yTo: number },
   axis: Pick<ReferenceAxis, "sin" | "cos">,
 ): StationLoads {
-  validateStations(stations);
-  const s = stations[stations.length - 1].y;
-  if (!(span.yFrom >= 0 && span.yTo > span.yFrom && span.yTo <= s)) throw new EngineError("invalid-argument", `must satisfy 0 ≤ yFrom < yTo ≤ ${s} m`, "aileron.yTo");
-  const breaks = stations.map((x) => x.y);
-  // ∫_a^b c² dy with c linear between breakpoints: Simpson's rule is exact for the quadratic c² on each piece.
-  const c2 = (a: number, b: number) => {
-    const pts = [...new Set([a, b, ...breaks.filter((v) => v > a && v < b)])].sort((u, v) => u - v);
-    let sum = 0;
-    for (let i = 0; i + 1 < pts.length; i++) {
-      const ca = sectionAt(stations, pts[i]).chord;
-      const cb = sectionAt(stations, pts[i + 1]).chord;
-      const cm = sectionAt(stations, (pts[i] + pts[i + 1]) / 2).chord;
-      sum += ((pts[i + 1] - pts[i]) * (ca * ca + 4 * cm * cm + cb * cb)) / 6;
-    }
-    return sum;
-  };
+  checkSpan(stations, span);
   const torsion = y.map((yk) => {
     const a = Math.max(yk, span.yFrom);
-    return span.yTo > a ? q * dCm * c2(a, span.yTo) : 0;
+    return span.yTo > a ? q * dCm * spanIntegral(stations, a, span.yTo, (c) => c * c) : 0;
   });
   const out = { shear: y.map(() => 0), bending: y.map(() => 0), torsion };
   resolveAboutAxis(out, axis);
   return out;
+}
+
+/**
+ * Shear (N), bending and torsion (N·m) at stations `y` from a section lift increment Δcl over the aileron span
+ * [yFrom, yTo] at dynamic pressure q, by strip theory: a running load q·c·Δcl acting at the quarter chord (where
+ * the section lift acts; the deflection's moment about it is the separate Δcm of aileronMoments). Cut at
+ * streamwise stations, torsion taken about the reference-axis point `xRef[k]` of each station (nose up positive:
+ * lift ahead of the axis), then resolved about the swept axis like every other load. Exact for the
+ * piecewise-linear chord and leading edge.
+ */
+export function aileronLift(
+  stations: readonly WingStation[],
+  y: readonly number[],
+  xRef: readonly number[],
+  q: number,
+  dCl: number,
+  span: { yFrom: number; yTo: number },
+  axis: Pick<ReferenceAxis, "sin" | "cos">,
+): StationLoads {
+  checkSpan(stations, span);
+  const out: StationLoads = { shear: [], bending: [], torsion: [] };
+  y.forEach((yk, k) => {
+    const a = Math.max(yk, span.yFrom);
+    const w = span.yTo > a ? q * dCl : 0;
+    out.shear.push(w * spanIntegral(stations, a, span.yTo, (c) => c));
+    out.bending.push(w * spanIntegral(stations, a, span.yTo, (c, eta) => c * (eta - yk)));
+    out.torsion.push(w * spanIntegral(stations, a, span.yTo, (c, eta, xLe) => c * (xRef[k] - (xLe + c / 4))));
+  });
+  resolveAboutAxis(out, axis);
+  return out;
+}
+
+function checkSpan(stations: readonly WingStation[], span: { yFrom: number; yTo: number }): void {
+  validateStations(stations);
+  const s = stations[stations.length - 1].y;
+  if (!(span.yFrom >= 0 && span.yTo > span.yFrom && span.yTo <= s)) throw new EngineError("invalid-argument", `must satisfy 0 ≤ yFrom < yTo ≤ ${s} m`, "aileron.yTo");
+}
+
+/**
+ * ∫_a^b g(c(η), η, xLe(η)) dη (b > a) with chord and leading edge linear between the wing's breakpoints:
+ * Simpson's rule on each piece, exact for an integrand of at most third degree in η there.
+ */
+function spanIntegral(stations: readonly WingStation[], a: number, b: number, g: (chord: number, eta: number, xLe: number) => number): number {
+  const pts = [...new Set([a, b, ...stations.map((x) => x.y).filter((v) => v > a && v < b)])].sort((u, v) => u - v);
+  const at = (eta: number) => {
+    const sec = sectionAt(stations, eta);
+    return g(sec.chord, eta, sec.xLe);
+  };
+  let sum = 0;
+  for (let i = 0; i + 1 < pts.length; i++) sum += ((pts[i + 1] - pts[i]) * (at(pts[i]) + 4 * at((pts[i] + pts[i + 1]) / 2) + at(pts[i + 1]))) / 6;
+  return sum;
 }
 
 /**
@@ -106,4 +143,65 @@ export function sideLoads(
     bending: side(c.bending, c.relief.bending, extra?.bending),
     torsion: side(c.torsion, c.relief.torsion, extra?.torsion),
   };
+}
+
+/** An aileron: its span and the section increments of one degree of down-going deflection. */
+export interface AileronSpan {
+  /** Inner and outer end of the aileron, m (0 ≤ yFrom < yTo ≤ semispan). */
+  yFrom: number;
+  yTo: number;
+  /** Section lift increment per degree of down-going deflection (strip theory), per deg. */
+  dClPerDeg: number;
+  /** Section moment increment about the quarter chord per degree of down-going deflection (−0.01: 14 CFR 23.349 [M]). */
+  dCmPerDeg: number;
+}
+
+/** The two sides of a rolling or unsymmetrical case. */
+export interface RollingSides {
+  /** Full airload and the down-going aileron (more lift, nose-down moment). */
+  loaded: StationLoads;
+  /** `fraction` of the airload and the up-going aileron (less lift, nose-up moment). */
+  other: StationLoads;
+}
+
+/**
+ * Net loads of both sides of a rolling case from its symmetric condition `c` (aerodynamic loads at dynamic
+ * pressure `c.dynamicPressure` and the inertia relief at its load factor): the loaded side carries the full
+ * airload plus the down-going aileron's increments (Δcl = dClPerDeg·δ, Δcm = dCmPerDeg·δ over its span), the
+ * other side `fraction` of it plus the up-going aileron's (the same increments, opposite sign). Both sides keep
+ * the same inertia relief (a rigid aircraft without roll acceleration).
+ * @throws EngineError for a deflection without an aileron, or a fraction outside (0, 1]
+ */
+export function rollingSides(
+  c: { y: readonly number[]; dynamicPressure: number; shear: readonly number[]; bending: readonly number[]; torsion: readonly number[]; relief: StationLoads },
+  wing: { stations: readonly WingStation[]; xRef: readonly number[]; axis: Pick<ReferenceAxis, "sin" | "cos"> },
+  roll: { fraction: number; aileronDeg: number },
+  aileron: AileronSpan | undefined,
+  field = "roll",
+): RollingSides {
+  if (!(roll.fraction > 0 && roll.fraction <= 1)) throw new EngineError("invalid-argument", "must be above 0 and at most 1", `${field}.fraction`);
+  if (!(roll.aileronDeg >= 0 && roll.aileronDeg <= 40)) throw new EngineError("invalid-argument", "must be between 0 and 40 (deg)", `${field}.aileron`);
+  if (roll.aileronDeg === 0) return { loaded: sideLoads(c, 1), other: sideLoads(c, roll.fraction) };
+  if (!aileron) throw new EngineError("invalid-argument", "a deflection needs the aileron (its span and increments)", `${field}.aileron`);
+  const q = c.dynamicPressure;
+  const lift = aileronLift(wing.stations, c.y, wing.xRef, q, aileron.dClPerDeg * roll.aileronDeg, aileron, wing.axis);
+  const moment = aileronMoments(wing.stations, c.y, q, aileron.dCmPerDeg * roll.aileronDeg, aileron, wing.axis);
+  const down: StationLoads = {
+    shear: lift.shear.map((v, k) => v + moment.shear[k]),
+    bending: lift.bending.map((v, k) => v + moment.bending[k]),
+    torsion: lift.torsion.map((v, k) => v + moment.torsion[k]),
+  };
+  const up: StationLoads = { shear: down.shear.map((v) => -v), bending: down.bending.map((v) => -v), torsion: down.torsion.map((v) => -v) };
+  return { loaded: sideLoads(c, 1, down), other: sideLoads(c, roll.fraction, up) };
+}
+
+/** How the envelope and the pages name a side of a rolling case: "R1 (loaded side)", "R1 (other side)". */
+export function rollingSideLabel(id: string, side: keyof RollingSides): string {
+  return `${id} (${side} side)`;
+}
+
+/** The case id and side of an envelope attribution (side null for a symmetric case). */
+export function attributionOf(label: string): { id: string; side: keyof RollingSides | null } {
+  const m = /^(.*) \((loaded|other) side\)$/.exec(label);
+  return m ? { id: m[1], side: m[2] as keyof RollingSides } : { id: label, side: null };
 }
