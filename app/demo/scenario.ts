@@ -94,6 +94,11 @@ export const DEMO_CASE_INPUTS = {
     tables: [],
     /** Single-slotted inboard flap at its take-off setting (invented), from the nacelle fairing to the aileron. */
     flaps: { yFrom: 0.6, yTo: 5.1, dAlphaL0: -5.5, dCmAc: -0.1, clMax: 2.2 },
+    /**
+     * Plain aileron outboard of the flap (invented): about a quarter of the chord, Δcl 0.048 per degree (a0·τ/57.3
+     * with τ near 0.46), the simplified Δcm of 23.349 (−0.01 per degree) and 17° down at VA.
+     */
+    aileron: { yFrom: 5.4, yTo: 8.2, dClPerDeg: 0.048, dCmPerDeg: -0.01, deltaAtVa: 17 },
   },
   method: { compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: 40 },
   /**

@@ -202,8 +202,8 @@ type Source = SectionsData["source"];
  * same y, keeping everything else. A message where a pressure file names a station the data do not have.
  */
 export function sectionsWithUpload(saved: SectionsData | null, upload: Extract<SectionCsvResult, { ok: true }>, source: Source): { data: unknown } | { problem: string } {
-  // A coefficient file replaces the rows; the flaps (their span and increments) are typed and stay.
-  if (upload.kind !== "pressures") return { data: { rows: upload.rows, tables: upload.tables, source, ...(saved?.flaps ? { flaps: saved.flaps } : {}) } };
+  // A coefficient file replaces the rows; the flaps and the aileron (their spans and increments) are typed and stay.
+  if (upload.kind !== "pressures") return { data: { rows: upload.rows, tables: upload.tables, source, ...(saved?.flaps ? { flaps: saved.flaps } : {}), ...(saved?.aileron ? { aileron: saved.aileron } : {}) } };
   if (!saved) return { problem: "Save the section coefficients first: chordwise pressures belong to stations that already have section data." };
   const missing = upload.pressures.filter((p) => !saved.rows.some((r) => r.y === p.y)).map((p) => p.y);
   if (missing.length) return { problem: `The pressure file has stations at y = ${missing.join(", ")} m, which the section data do not have (stations at ${saved.rows.map((r) => r.y).join(", ")} m).` };

@@ -130,6 +130,23 @@ export const FlapsSchema = z
   .refine((f) => f.yTo > f.yFrom, { path: ["yTo"], message: "Flaps to y must be greater than flaps from y" });
 export type FlapsData = z.output<typeof FlapsSchema>;
 
+/**
+ * The aileron of the rolling conditions (the exchange format's wing.aileron): its span (m from the plane of
+ * symmetry), the section lift increment per degree of down-going deflection (strip theory: a0·τ/57.3 for a
+ * flap-type aileron of effectiveness τ), the section moment increment per degree (−0.01: 14 CFR 23.349
+ * [from memory]) and the full deflection at VA the rolling cases are generated from.
+ */
+export const AileronSchema = z
+  .object({
+    yFrom: finite("Aileron from y").refine((v) => v >= 0, { message: "Aileron from y must be 0 or more" }),
+    yTo: finite("Aileron to y"),
+    dClPerDeg: finite("Aileron Δcl per degree").refine((v) => v >= 0 && v <= 0.2, { message: "Aileron Δcl per degree must lie between 0 and 0.2" }),
+    dCmPerDeg: finite("Aileron Δcm per degree").refine((v) => v >= -0.05 && v <= 0, { message: "Aileron Δcm per degree must lie between −0.05 and 0 (nose down for a down-going aileron)" }),
+    deltaAtVa: finite("Aileron deflection at VA").refine((v) => v > 0 && v <= 40, { message: "Aileron deflection at VA must be above 0 and at most 40°" }),
+  })
+  .refine((a) => a.yTo > a.yFrom, { path: ["yTo"], message: "Aileron to y must be greater than aileron from y" });
+export type AileronData = z.output<typeof AileronSchema>;
+
 export const SectionsSchema = z
   .object({
     rows: z.array(SectionRowSchema).min(1, "Give section data for at least one station").max(MAX_SECTION_ROWS, `At most ${MAX_SECTION_ROWS} section stations`),
@@ -138,6 +155,7 @@ export const SectionsSchema = z
       .array(z.object({ y: z.number(), points: z.array(z.object({ alpha: z.number(), cl: z.number(), cm: z.number() })), linearFrom: z.number(), linearTo: z.number() }))
       .default([]),
     flaps: FlapsSchema.optional(),
+    aileron: AileronSchema.optional(),
   })
   .superRefine((s, ctx) => {
     s.rows.forEach((r, i) => {
@@ -251,7 +269,7 @@ export type MassesData = z.output<typeof MassesSchema>;
 export const LoadCaseSchema = z
   .object({
     id: z.string().trim().min(1, "Give the case an id").max(40, "A case id has at most 40 characters").regex(/^[A-Za-z0-9._\-+]+$/, "Use letters, digits and . _ - + only"),
-    kind: z.enum(["manoeuvre", "gust", "manual"]),
+    kind: z.enum(["manoeuvre", "gust", "rolling", "manual"]),
     rule: z.string().max(200).default(""),
     mach: finite("Mach").refine((v) => v >= 0 && v < 1, { message: "Mach must be at least 0 and below 1 (subsonic rules only)" }),
     altitude: finite("Altitude").refine((v) => v >= 0 && v <= 20000, { message: "Altitude must lie between 0 and 20 000 m" }),
@@ -262,12 +280,20 @@ export const LoadCaseSchema = z
     tailLoad: finite("Tail load").optional(),
     /** Flaps extended: the case is solved on the flapped wing (the sections step's flaps). */
     flaps: z.boolean().optional(),
+    /** A rolling or unsymmetrical case: the other side's share of the airload and the aileron deflection, deg (the exchange format's cases[].roll). */
+    roll: z
+      .object({
+        fraction: finite("Other side's airload fraction").refine((v) => v > 0 && v <= 1, { message: "The other side's airload fraction must be above 0 and at most 1" }),
+        aileron: finite("Aileron deflection").refine((v) => v >= 0 && v <= 40, { message: "The aileron deflection must lie between 0 and 40°" }),
+      })
+      .optional(),
     excluded: z.boolean().default(false),
   })
   .superRefine((c, ctx) => {
     const trimmed = c.weight !== undefined && c.nz !== undefined;
     if (c.alpha !== undefined && (c.tailLoad !== undefined || c.massCase)) ctx.addIssue({ code: "custom", path: [c.tailLoad !== undefined ? "tailLoad" : "massCase"], message: `Case ${c.id}: a tail load and a mass case belong to a case given by weight and load factor` });
     if (c.alpha === undefined && !trimmed) ctx.addIssue({ code: "custom", path: [c.weight === undefined ? "weight" : "nz"], message: `Case ${c.id}: give the weight and load factor, or an angle of attack` });
+    if (c.roll && c.alpha !== undefined) ctx.addIssue({ code: "custom", path: ["roll"], message: `Case ${c.id}: a rolling case is given by weight and load factor (each side keeps the inertia relief)` });
     if (c.alpha !== undefined && (c.weight !== undefined || c.nz !== undefined)) ctx.addIssue({ code: "custom", path: ["alpha"], message: `Case ${c.id}: give an angle of attack or weight and load factor, not both` });
   });
 export type LoadCase = z.output<typeof LoadCaseSchema>;

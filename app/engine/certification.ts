@@ -268,6 +268,8 @@ export interface VnPoint {
   veas: number;
   nz: number;
   rule: string;
+  /** A rolling or unsymmetrical condition: the other side's share of the airload and the aileron deflection, deg. */
+  roll?: { fraction: number; aileron: number };
 }
 
 /** Input of the V–n diagram builder (SI; speeds m/s EAS; gusts m/s EAS). */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { aileronCmIncrement, aileronDeflections, aileronLift, aileronMoments, attributionOf, rollingLoadFactor, rollingSideLabel, rollingSides, sideLoads, unsymmetricalFraction } from "./rolling";
+import { aileronCmIncrement, aileronDeflections, aileronLift, aileronMoments, attributionOf, rollingLoadFactor, rollingSideLabel, rollingSides, rollingVnPoints, sideLoads, unsymmetricalFraction } from "./rolling";
 import { trapezoidalWing } from "./planform";
 
 // Paragraph values are those of 14 CFR 23.349, 23.455 and 25.349 as remembered [M] (confirm against the
@@ -106,5 +106,34 @@ describe("aileron lift increment and the two sides of a rolling case", () => {
     expect(rollingSideLabel("W1-roll-VA", "other")).toBe("W1-roll-VA (other side)");
     expect(attributionOf("W1-roll-VA (loaded side)")).toEqual({ id: "W1-roll-VA", side: "loaded" });
     expect(attributionOf("W1-A")).toEqual({ id: "W1-A", side: null });
+  });
+});
+
+// The generated points: 14 CFR 23.349(a), 23.455, 25.349(a) as remembered [M]; arithmetic by hand.
+describe("rolling points of a V–n diagram", () => {
+  const a = { name: "A", veas: 60, nz: 3.8, rule: "" };
+  const f = { name: "F", veas: 90, nz: -1.5, rule: "" };
+  it("Part 25: roll-VA, roll-VC, roll-VD at 2/3·n1 with δ_A, δ_A·V_A/V_C, δ_A·V_A/(3V_D), full airload on both sides (25.349(a))", () => {
+    const pts = rollingVnPoints({ part: "25", a: { ...a, nz: 2.5 }, vcEas: 120, vdEas: 150, deltaAtVa: 18 });
+    expect(pts.map((p) => p.name)).toEqual(["roll-VA", "roll-VC", "roll-VD"]);
+    for (const p of pts) expect(p.nz).toBeCloseTo(2.5 * (2 / 3), 12);
+    expect(pts.map((p) => p.veas)).toEqual([60, 120, 150]);
+    expect(pts[0].roll).toEqual({ fraction: 1, aileron: 18 });
+    expect(pts[1].roll!.aileron).toBeCloseTo(9, 12); // 18·60/120
+    expect(pts[2].roll!.aileron).toBeCloseTo(2.4, 12); // 18·60/(3·150)
+    expect(pts[0].rule).toMatch(/^14 CFR 25\.349\(a\)/);
+  });
+  it("Part 23 normal: unsym-A with 75 % on the other side at n1 (23.349(a)), then the aileron points of 23.455 at 2/3·n1", () => {
+    const pts = rollingVnPoints({ part: "23", category: "normal", a, f, vcEas: 80, vdEas: 110, deltaAtVa: 20 });
+    expect(pts.map((p) => p.name)).toEqual(["unsym-A", "roll-VA", "roll-VC", "roll-VD"]);
+    expect(pts[0]).toMatchObject({ veas: 60, nz: 3.8, roll: { fraction: 0.75, aileron: 0 } });
+    expect(pts[0].rule).toMatch(/23\.349\(a\).*75 %/);
+    expect(pts[1].nz).toBeCloseTo(3.8 * (2 / 3), 12);
+    expect(pts[2].roll!.aileron).toBeCloseTo(15, 12); // 20·60/80
+    expect(pts[3].rule).toMatch(/23\.455.*23\.349\(b\)/);
+  });
+  it("Part 23 acrobatic: 60 % in conditions A and F; without an aileron only the unsymmetrical points", () => {
+    const pts = rollingVnPoints({ part: "23", category: "acrobatic", a, f, vcEas: 80, vdEas: 110 });
+    expect(pts.map((p) => [p.name, p.nz, p.roll!.fraction])).toEqual([["unsym-A", 3.8, 0.6], ["unsym-F", -1.5, 0.6]]);
   });
 });

@@ -1,5 +1,5 @@
 import { EngineError } from "./errors";
-import type { Part23Category, RuleValue } from "./certification";
+import type { Part23Category, RuleValue, VnPoint } from "./certification";
 import type { StationLoads } from "./mass";
 import type { WingStation } from "./planform";
 import { sectionAt, validateStations } from "./planform";
@@ -204,4 +204,44 @@ export function rollingSideLabel(id: string, side: keyof RollingSides): string {
 export function attributionOf(label: string): { id: string; side: keyof RollingSides | null } {
   const m = /^(.*) \((loaded|other) side\)$/.exec(label);
   return m ? { id: m[1], side: m[2] as keyof RollingSides } : { id: label, side: null };
+}
+
+/**
+ * The rolling and unsymmetrical conditions of a V–n diagram, from its manoeuvre points A (V_A, n1) and F:
+ * Part 25 `roll-VA`, `roll-VC`, `roll-VD` at 2/3·n1 with the aileron deflections of 25.349(a) (both sides at the
+ * full airload, the aileron making the difference); Part 23 `unsym-A` (and `unsym-F` for acrobatic) at the
+ * point's own load factor with the other side's share of 23.349(a) and no deflection, and `roll-VA`, `roll-VC`,
+ * `roll-VD` at 2/3·n1 with the deflections of 23.455 (the aileron's increments; Δcm of 23.349(b)). Without
+ * `deltaAtVa` (no aileron given) only the unsymmetrical points. Paragraphs from memory [M].
+ */
+export function rollingVnPoints(p: {
+  part: "23" | "25";
+  category?: Part23Category;
+  a: VnPoint;
+  f?: VnPoint;
+  vcEas: number;
+  vdEas: number;
+  deltaAtVa?: number;
+}): VnPoint[] {
+  const out: VnPoint[] = [];
+  if (p.part === "23") {
+    const u = unsymmetricalFraction("23", p.category);
+    const pct = `${(u.value * 100).toFixed(0)} % of the semispan airload on the other side`;
+    for (const pt of [p.a, ...(u.conditions.includes("F") && p.f ? [p.f] : [])]) {
+      out.push({ name: `unsym-${pt.name}`, veas: pt.veas, nz: pt.nz, rule: `${u.rule}: condition ${pt.name}, ${pct}`, roll: { fraction: u.value, aileron: 0 } });
+    }
+  }
+  if (p.deltaAtVa === undefined) return out;
+  const n = rollingLoadFactor(p.part, p.a.nz);
+  const d = aileronDeflections({ vaEas: p.a.veas, vcEas: p.vcEas, vdEas: p.vdEas, deltaAtVa: p.deltaAtVa }, p.part);
+  for (const [speed, veas, delta] of [["VA", p.a.veas, d.va], ["VC", p.vcEas, d.vc], ["VD", p.vdEas, d.vd]] as const) {
+    out.push({
+      name: `roll-${speed}`,
+      veas,
+      nz: n.value,
+      rule: `${n.rule}: 2/3·n1 = ${n.value.toFixed(3)}; ${delta.rule}, aileron ${delta.value.toFixed(2)}°${p.part === "23" ? "; Δcm of 14 CFR 23.349(b)" : ""}`,
+      roll: { fraction: 1, aileron: delta.value },
+    });
+  }
+  return out;
 }

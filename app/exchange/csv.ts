@@ -1,3 +1,4 @@
+import { rollingSideLabel } from "../engine/rolling";
 import type { CaseResult } from "./schema";
 
 /**
@@ -17,7 +18,8 @@ function cell(v: string | number): string {
 
 /**
  * Station tables of every case as CSV (RFC 4180 quoting): case, y, chord, cl, cm, lift, shear, bending, torsion.
- * Units as in the result: m, N/m, N, N·m.
+ * Units as in the result: m, N/m, N, N·m. A rolling case's other side follows it as "<id> (other side)" with
+ * its shear, bending and torsion (cl, cm and lift left empty: the section data are the symmetric condition's).
  */
 export function resultToCsv(result: CaseResult): string {
   const lines = ["case,y,chord,cl,cm,lift,shear,bending,torsion"];
@@ -25,6 +27,9 @@ export function resultToCsv(result: CaseResult): string {
     for (const s of c.stations ?? []) {
       lines.push([c.id, s.y, s.chord, s.cl, s.cm, s.lift, s.shear, s.bending, s.torsion].map(cell).join(","));
     }
+    (c.roll?.other.stations ?? []).forEach((s, k) => {
+      lines.push([rollingSideLabel(c.id, "other"), s.y, c.stations![k].chord, "", "", "", s.shear, s.bending, s.torsion].map(cell).join(","));
+    });
   }
   return lines.join("\n") + "\n";
 }

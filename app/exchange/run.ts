@@ -1,6 +1,7 @@
 import { ENGINE_VERSION } from "../engine/index";
 import { EngineError } from "../engine/errors";
 import { flappedStations } from "../engine/flaps";
+import { rollingSideLabel, rollingSides } from "../engine/rolling";
 import { wingPlausibility } from "../engine/plausibility";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";
 import { evaluateCase } from "../engine/load-case";
@@ -173,7 +174,19 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
         : { id: c.id, mach: c.mach, altitude: c.altitude, weightN: c.weight!, nz: c.nz!, tailLoadN: c.tailLoad, massCase };
     const r = evaluateCase(sol, lc, `cases[${i}]`);
     env ??= createEnvelope(r.y);
-    addToEnvelope(env, r.id, r);
+    // A rolling case: the loaded side replaces the symmetric loads; the envelope takes both sides, each named.
+    let other: { shear: number[]; bending: number[]; torsion: number[] } | undefined;
+    if (c.roll) {
+      const axis = sol.axis;
+      const s = file.wing.stations[file.wing.stations.length - 1].y;
+      const xRef = r.y.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
+      const sides = rollingSides(r, { stations: file.wing.stations, xRef, axis }, { fraction: c.roll.fraction, aileronDeg: c.roll.aileron }, file.wing.aileron, `cases[${i}].roll`);
+      Object.assign(r, sides.loaded, { root: { shear: sides.loaded.shear[0], bending: sides.loaded.bending[0], torsion: sides.loaded.torsion[0] } });
+      other = sides.other;
+      addToEnvelope(env, rollingSideLabel(r.id, "loaded"), r);
+      addToEnvelope(env, rollingSideLabel(r.id, "other"), other);
+    } else addToEnvelope(env, r.id, r);
+    // The contract's field order: the case's figures, stations, root, then a rolling case's other side.
     const out: ResultCase = {
       id: r.id,
       mach: r.mach,
@@ -186,23 +199,34 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
       machCritical: r.machCritical,
       regime: r.regime,
       warnings: r.warnings,
+      ...(withStations
+        ? {
+            stations: r.y.map((y, k) => ({
+              y,
+              chord: r.chord[k],
+              cl: r.cl[k],
+              cm: r.cm[k],
+              lift: r.lift[k],
+              shear: r.shear[k],
+              bending: r.bending[k],
+              torsion: r.torsion[k],
+            })),
+          }
+        : {}),
       root: r.root,
     };
-    if (withStations) {
-      out.stations = r.y.map((y, k) => ({
-        y,
-        chord: r.chord[k],
-        cl: r.cl[k],
-        cm: r.cm[k],
-        lift: r.lift[k],
-        shear: r.shear[k],
-        bending: r.bending[k],
-        torsion: r.torsion[k],
-      }));
-      // Keep the contract's field order: stations before root.
-      const { root, ...rest } = out;
-      cases.push({ ...rest, root } as ResultCase);
-    } else cases.push(out);
+    if (c.roll && other) {
+      const o = other;
+      out.roll = {
+        fraction: c.roll.fraction,
+        aileron: c.roll.aileron,
+        other: {
+          ...(withStations ? { stations: r.y.map((y, k) => ({ y, shear: o.shear[k], bending: o.bending[k], torsion: o.torsion[k] })) } : {}),
+          root: { shear: o.shear[0], bending: o.bending[0], torsion: o.torsion[0] },
+        },
+      };
+    }
+    cases.push(out);
     if ((i + 1) % CASES_PER_REPORT === 0) yield { phase: "cases", done: i + 1, total: file.cases.length };
   }
   const g = geometry!;

@@ -110,12 +110,41 @@ export const FlapsSchema = z.strictObject({
   clMax: num().gt(0, { error: "must be greater than 0" }).optional(),
 });
 
+const deflectionRule = "must be between 0 and 40 (deg)";
+
+/**
+ * The aileron of the rolling conditions: its span range, the section increments of one degree of
+ * down-going deflection (lift by strip theory, moment about the quarter chord) and the full deflection
+ * at V_A the application generates the rolling cases from. Only cases with `roll` use it.
+ */
+export const AileronSchema = z.strictObject({
+  yFrom: num().min(0, { error: "must be 0 or more (m from the plane of symmetry)" }),
+  yTo: num(),
+  dClPerDeg: num()
+    .min(0, { error: "must be 0 to 0.2 per degree (a section lift slope of 2π per radian is 0.11 per degree)" })
+    .max(0.2, { error: "must be 0 to 0.2 per degree (a section lift slope of 2π per radian is 0.11 per degree)" }),
+  dCmPerDeg: num()
+    .min(-0.05, { error: "must be between −0.05 and 0 per degree (a down-going aileron pitches the section nose down)" })
+    .max(0, { error: "must be between −0.05 and 0 per degree (a down-going aileron pitches the section nose down)" })
+    .default(-0.01),
+  deltaAtVa: num().gt(0, { error: "must be above 0 and at most 40 (deg)" }).max(40, { error: "must be above 0 and at most 40 (deg)" }),
+});
+
+/** A rolling or unsymmetrical case: the airload fraction on the other side and the aileron deflection. */
+export const RollSchema = z.strictObject({
+  fraction: num().gt(0, { error: "must be above 0 and at most 1 (the other side's share of the symmetric airload)" }).max(1, {
+    error: "must be above 0 and at most 1 (the other side's share of the symmetric airload)",
+  }),
+  aileron: num().min(0, { error: deflectionRule }).max(40, { error: deflectionRule }).default(0),
+});
+
 export const WingSchema = z
   .strictObject({
     stations: z.array(StationSchema).min(2, { error: "needs at least 2 stations (root and tip)" }),
     axis: AxisSchema.default({ rootChordFraction: 0.25, tipChordFraction: 0.25 }),
     mass: MassSchema.optional(),
     flaps: FlapsSchema.optional(),
+    aileron: AileronSchema.optional(),
   })
   .superRefine((w, ctx) => {
     w.stations.forEach((s, i) => {
@@ -135,6 +164,10 @@ export const WingSchema = z
     if (w.flaps && !(w.flaps.yFrom < semispan)) ctx.addIssue({ code: "custom", path: ["flaps", "yFrom"], message: inside });
     if (w.flaps && !(w.flaps.yTo > w.flaps.yFrom && w.flaps.yTo <= semispan)) {
       ctx.addIssue({ code: "custom", path: ["flaps", "yTo"], message: `must be greater than yFrom and at most the semispan ${semispan} m` });
+    }
+    if (w.aileron && !(w.aileron.yFrom < semispan)) ctx.addIssue({ code: "custom", path: ["aileron", "yFrom"], message: inside });
+    if (w.aileron && !(w.aileron.yTo > w.aileron.yFrom && w.aileron.yTo <= semispan)) {
+      ctx.addIssue({ code: "custom", path: ["aileron", "yTo"], message: `must be greater than yFrom and at most the semispan ${semispan} m` });
     }
     // Streamwise: within a few of the largest chords of the wing's leading and trailing edges.
     const cMax = Math.max(...w.stations.map((s) => s.chord));
@@ -212,6 +245,7 @@ export const CaseSchema = z.strictObject({
     .max(PLAUSIBLE.tailLoad.max, { error: tailRule })
     .optional(),
   flaps: z.boolean({ error: "must be true or false" }).optional(),
+  roll: RollSchema.optional(),
 });
 
 export const CaseFileSchema = z
@@ -244,6 +278,12 @@ export const CaseFileSchema = z
     const seen = new Set<string>();
     file.cases.forEach((c, i) => {
       if (c.flaps && !file.wing.flaps) ctx.addIssue({ code: "custom", path: ["cases", i, "flaps"], message: "needs wing.flaps (the flapped span and its section increments)" });
+      if (c.roll && c.alpha !== undefined) {
+        ctx.addIssue({ code: "custom", path: ["cases", i, "roll"], message: "is only for a case given by weight and nz (each side keeps the inertia relief of the load factor)" });
+      }
+      if (c.roll && c.roll.aileron > 0 && !file.wing.aileron) {
+        ctx.addIssue({ code: "custom", path: ["cases", i, "roll", "aileron"], message: "needs wing.aileron (its span and increments) for a deflection above 0" });
+      }
       if (c.massCase !== undefined && !massCases.has(c.massCase)) {
         ctx.addIssue({ code: "custom", path: ["cases", i, "massCase"], message: `names no mass case of massCases ("${c.massCase}")` });
       }
@@ -313,6 +353,18 @@ export interface ResultCase {
   /** Absent when `method.output` is `summary`. */
   stations?: ResultStation[];
   root: ResultRootLoads;
+  /**
+   * A rolling case (`cases[].roll`): `stations` and `root` above are the loaded side's (full airload, down-going
+   * aileron; `cl`, `cm` and `lift` those of the symmetric condition), `other` the other side's net loads.
+   */
+  roll?: ResultRoll;
+}
+
+/** The other side of a rolling case: its airload fraction and aileron deflection, and its net loads. */
+export interface ResultRoll {
+  fraction: number;
+  aileron: number;
+  other: { stations?: { y: number; shear: number; bending: number; torsion: number }[]; root: ResultRootLoads };
 }
 
 /** One envelope station of the result: the engine's envelope rows are exactly the contract's. */
@@ -411,6 +463,16 @@ export const CaseResultSchema = z.object({
       warnings: z.array(z.string()),
       stations: z.array(z.object({ y: n(), chord: n(), cl: n(), cm: n(), lift: n(), shear: n(), bending: n(), torsion: n() })).optional(),
       root: z.object({ shear: n(), bending: n(), torsion: n() }),
+      roll: z
+        .object({
+          fraction: n(),
+          aileron: n(),
+          other: z.object({
+            stations: z.array(z.object({ y: n(), shear: n(), bending: n(), torsion: n() })).optional(),
+            root: z.object({ shear: n(), bending: n(), torsion: n() }),
+          }),
+        })
+        .optional(),
     }),
   ),
   envelope: z.array(

@@ -160,6 +160,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
       axis: { rootChordFraction: planform.axisRoot, tipChordFraction: planform.axisTip },
       ...(mass ? { mass } : {}),
       ...(sections.flaps ? { flaps: { ...sections.flaps } } : {}),
+      ...(sections.aileron ? { aileron: { ...sections.aileron } } : {}),
     },
     method: {
       compressibility: envelope.compressibility,
@@ -181,6 +182,7 @@ export function buildCaseFile(title: string, inputs: CaseInputs, scope: "envelop
             ...(c.massCase ? { massCase: c.massCase } : {}),
             ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}),
             ...(c.flaps ? { flaps: true } : {}),
+            ...(c.roll ? { roll: { ...c.roll } } : {}),
           },
     ),
   };

@@ -50,6 +50,7 @@ export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): Impo
       source: { kind: "import" },
       tables: [],
       ...(file.wing.flaps ? { flaps: { ...file.wing.flaps } } : {}),
+      ...(file.wing.aileron ? { aileron: { ...file.wing.aileron } } : {}),
     },
     envelope: {
       compressibility: file.method.compressibility,
@@ -67,6 +68,7 @@ export function stepsFromCaseFile(file: CaseFile, sections?: SectionsFile): Impo
           ? { alpha: c.alpha }
           : { weight: c.weight, nz: c.nz, ...(c.massCase !== undefined ? { massCase: c.massCase } : {}), ...(c.tailLoad !== undefined ? { tailLoad: c.tailLoad } : {}) }),
         ...(c.flaps ? { flaps: true } : {}),
+        ...(c.roll ? { roll: { ...c.roll } } : {}),
         excluded: false,
       })),
     },
@@ -96,6 +98,7 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
     case "sections":
       if (head === "rows") return formatPath(["wing", "stations", ...(index === undefined ? [] : [index]), ...rest]);
       if (head === "flaps") return formatPath(["wing", "flaps", ...(index === undefined ? [] : [index])]);
+      if (head === "aileron") return formatPath(["wing", "aileron", ...(index === undefined ? [] : [index])]);
       return "wing.stations";
     case "envelope":
       if (head === "cases") return formatPath(["cases", ...(index === undefined ? [] : [index]), ...rest]);

@@ -9,6 +9,7 @@ import {
   minimumVbPart25,
   plungeGustResponse,
   referenceGustPart25,
+  rollingVnPoints,
   solveMach,
   tunedDiscreteGust,
   vnDiagram,
@@ -205,6 +206,9 @@ function vnSetsOf(
           points.push({ name: `tuned+${t.speed}`, veas: t.veas, nz: 1 + c.deltaN, rule }, { name: `tuned-${t.speed}`, veas: t.veas, nz: 1 - c.deltaN, rule });
         }
       }
+      // Rolling and unsymmetrical conditions from the manoeuvre points (23.349, 25.349), the aileron from the sections step.
+      const a = points.find((p) => p.name === "A")!;
+      points.push(...rollingVnPoints({ part, category: cat, a, f: points.find((p) => p.name === "F"), vcEas: basis.vc, vdEas: basis.vd, deltaAtVa: sections.aileron?.deltaAtVa }));
       let flaps: FlapsAtVf | undefined;
       if (flapped) {
         const a = flapSlopeAt(altitude);
@@ -302,7 +306,7 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
       if (mach >= 1) continue;
       out.push({
         id: `W${i + 1}-${p.name}`,
-        kind: /(^|-)gust|^tuned/.test(p.name) ? "gust" : "manoeuvre",
+        kind: p.roll ? "rolling" : /(^|-)gust|^tuned/.test(p.name) ? "gust" : "manoeuvre",
         // Stored text, so free of unit-bearing numbers (shown alike in SI and US customary): the weight,
         // altitude and speed are the case's own columns (EAS in the report's case table).
         rule: `${p.rule} — ${set.weightName}`,
@@ -314,6 +318,7 @@ export function generatedCases(sets: VnSet[]): LoadCase[] {
         ...(set.massCase ? { massCase: set.massCase } : {}),
         // The flaps-extended points are solved on the flapped wing.
         ...(p.name.startsWith("flaps-") ? { flaps: true } : {}),
+        ...(p.roll ? { roll: { ...p.roll } } : {}),
         excluded: false,
       });
     }
@@ -327,6 +332,16 @@ export function flapsChecks(basis: BasisData, sections: SectionsData | null): Ru
   if (!flapsConditions(basis)) return [{ label: "Flaps extended", value: "VF not given: the flaps-extended conditions are left out of the envelope", rule }];
   if (!sections?.flaps) return [{ label: "Flaps extended", value: "VF is given, but the sections step gives no flapped span: the flaps-extended conditions are left out of the envelope", rule, ok: false }];
   return [{ label: "Flaps extended", value: `from y = ${sections.flaps.yFrom} to ${sections.flaps.yTo} m: n = 2.0 up to VF and gusts of 25 ft/s EAS at VF`, rule }];
+}
+
+/** Which rolling conditions reach the envelope: the unsymmetrical ones of Part 23 always, the aileron ones where the sections step gives the aileron. */
+export function rollingChecks(basis: BasisData, sections: SectionsData | null): RuleCheck[] {
+  const part25 = basis.category === "part25";
+  const rule = part25 ? "14 CFR 25.349(a) [text from memory]" : "14 CFR 23.349, 23.455 [text from memory]";
+  const unsym = part25 ? "" : `unsymmetrical condition A${basis.category === "part23-acrobatic" ? " and F (60 %" : " (75 %"} of the airload on the other side); `;
+  const a = sections?.aileron;
+  if (!a) return [{ label: "Rolling conditions", value: `${unsym}no aileron in the sections step: the aileron conditions at VA, VC and VD are left out of the envelope`, rule, ok: false }];
+  return [{ label: "Rolling conditions", value: `${unsym}aileron from y = ${formatQuantity(basis.units, "length", a.yFrom)} to ${formatQuantity(basis.units, "length", a.yTo)}, ${a.deltaAtVa}° at VA, at 2/3·n1 at VA, VC and VD`, rule }];
 }
 
 /** One line of the basis page's check of the typed values against the rules. */

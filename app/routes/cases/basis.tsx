@@ -12,7 +12,7 @@ import { hasPermission } from "~/domain/permissions";
 import { BasisSchema } from "~/domain/step-data";
 import { basisChecks } from "~/services/basis.server";
 import { stepData } from "~/services/case-steps.server";
-import { flapsChecks, vbChecks } from "~/services/envelope.server";
+import { flapsChecks, rollingChecks, vbChecks } from "~/services/envelope.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
@@ -31,7 +31,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     status: steps.basis.status,
     values: basisFormValues(saved),
     saved,
-    derived: saved ? [...basisChecks(saved), ...vbChecks(saved, stepData(steps, "planform"), stepData(steps, "sections"), stepData(steps, "envelope") ?? { compressibility: "prandtl-glauert", spanwise: "vortex-lattice" }), ...flapsChecks(saved, stepData(steps, "sections"))] : null,
+    derived: saved ? [...basisChecks(saved), ...vbChecks(saved, stepData(steps, "planform"), stepData(steps, "sections"), stepData(steps, "envelope") ?? { compressibility: "prandtl-glauert", spanwise: "vortex-lattice" }), ...flapsChecks(saved, stepData(steps, "sections")), ...rollingChecks(saved, stepData(steps, "sections"))] : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "basis"),
   };

@@ -111,18 +111,21 @@ export function CasesPanel({ form, server, units, disabled, count }: { form: Env
           { key: "massCase", label: "Mass case", type: "text" },
           { key: "tailLoad", label: `Tail load [${unitSymbol(units, "force")}]` },
           { key: "flaps", label: "Flaps", type: "checkbox" },
+          { key: "rollFraction", label: "Other side share" },
+          { key: "rollAileron", label: "Aileron [°]" },
           { key: "excluded", label: "Excluded", type: "checkbox" },
           { key: "rule", label: "From rule", type: "text" },
         ]}
         form={form}
         serverErrors={server}
-        emptyRow={{ id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "" }}
+        emptyRow={{ id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", rollFraction: "", rollAileron: "" }}
         disabled={disabled}
         csvName="load-cases.csv"
       />
       <p className="mt-2 text-xs text-ink-muted">
         Give each case either weight and load factor (trimmed so that the wing carries nz·W less the tail load) or an angle of attack. A trimmed case names its mass case (masses step); its tail load (up positive) is taken
-        from the balance of the masses step where left empty, or as typed.
+        from the balance of the masses step where left empty, or as typed. A rolling case gives the other side&apos;s share of the airload (0–1) and the aileron deflection: the loaded side carries the full airload and the
+        down-going aileron, the other side the share and the up-going aileron (the aileron of the sections step).
       </p>
     </Panel>
   );
@@ -167,6 +170,8 @@ const WINDOW_COLUMNS: {
   { key: "massCase", label: () => "Mass case", type: "text" },
   { key: "tailLoad", label: (u) => `Tail load [${unitSymbol(u, "force")}]` },
   { key: "flaps", label: () => "Flaps", type: "checkbox" },
+  { key: "rollFraction", label: () => "Other side share" },
+  { key: "rollAileron", label: () => "Aileron [°]" },
   { key: "excluded", label: () => "Excluded", type: "checkbox" },
   { key: "rule", label: () => "From rule", type: "text" },
 ];
@@ -388,7 +393,7 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
               type="button"
               className="rounded border border-line-strong bg-surface px-2 py-1 text-xs font-semibold hover:bg-canvas"
               onClick={() => {
-                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", flaps: false, excluded: false }]);
+                setAdded((rows) => [...rows, { id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", flaps: false, rollFraction: "", rollAileron: "", excluded: false }]);
                 setTimeout(() => show(total + added.length));
               }}
             >

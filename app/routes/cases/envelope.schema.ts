@@ -21,7 +21,7 @@ const method = {
 /** One load case as typed into the grid, in display units (altitude, weight as a mass, tail load as a force). */
 const caseRow = z.strictObject({
   id: z.string().trim(),
-  kind: z.enum(["manoeuvre", "gust", "manual"], "Kind is manoeuvre, gust or manual"),
+  kind: z.enum(["manoeuvre", "gust", "rolling", "manual"], "Kind is manoeuvre, gust, rolling or manual"),
   rule: z.string().default(""),
   mach: numberInput("Mach", rule.mach),
   altitude: numberInput("Altitude"),
@@ -31,6 +31,9 @@ const caseRow = z.strictObject({
   massCase: z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(40).optional()),
   tailLoad: optionalNumberInput("Tail load"),
   flaps: checkbox,
+  /** A rolling case: the other side's share of the symmetric airload (0–1) and the aileron deflection (deg). */
+  rollFraction: optionalNumberInput("Other side's airload fraction", rule.roll.unwrap().shape.fraction),
+  rollAileron: optionalNumberInput("Aileron deflection", rule.roll.unwrap().shape.aileron),
   excluded: checkbox,
 });
 
@@ -101,14 +104,18 @@ export function loadCaseRowValues(c: EnvelopeData["cases"][number], units: UnitS
     massCase: c.massCase ?? "",
     tailLoad: c.tailLoad === undefined ? "" : String(tidy(fromSI(units, "force", c.tailLoad))),
     flaps: c.flaps ?? false,
+    rollFraction: c.roll ? String(c.roll.fraction) : "",
+    rollAileron: c.roll ? String(c.roll.aileron) : "",
     excluded: c.excluded,
   };
 }
 
 /** Typed load cases in SI (altitude in m, weight as a force in N, tail load in N), as the envelope step stores them. */
 export function casesToSI(cases: z.output<typeof caseRow>[], units: UnitSystem) {
-  return cases.map((k) => ({
+  return cases.map(({ rollFraction, rollAileron, ...k }) => ({
     ...k,
+    // A deflection alone is a rolling case with the full airload on both sides.
+    roll: rollFraction === undefined && rollAileron === undefined ? undefined : { fraction: rollFraction ?? 1, aileron: rollAileron ?? 0 },
     altitude: toSI(units, "altitude", k.altitude),
     weight: k.weight === undefined ? undefined : toSI(units, "mass", k.weight) * G0,
     tailLoad: k.tailLoad === undefined ? undefined : toSI(units, "force", k.tailLoad),

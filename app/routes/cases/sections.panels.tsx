@@ -86,6 +86,27 @@ export function FlapsPanel({ form, server, units }: { form: ZodForm<typeof Secti
   );
 }
 
+/** The aileron of the rolling conditions: its span, what one degree of deflection does to the sections there, and its full deflection at VA. */
+export function AileronPanel({ form, server, units }: { form: ZodForm<typeof SectionsFormSchema>; server: FieldErrors | undefined; units: UnitSystem }) {
+  const err = (name: "aileron.yFrom" | "aileron.yTo" | "aileron.dClPerDeg" | "aileron.dCmPerDeg" | "aileron.deltaAtVa") => errorsFor(form, server, name);
+  return (
+    <Panel title="Aileron" className="mt-5">
+      <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-5">
+        <TextField label={`From y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yFrom")} errors={err("aileron.yFrom")} />
+        <TextField label={`To y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yTo")} errors={err("aileron.yTo")} />
+        <TextField label="Δcl per degree [/°]" inputMode="decimal" {...form.register("aileron.dClPerDeg")} errors={err("aileron.dClPerDeg")} />
+        <TextField label="Δcm per degree [/°]" inputMode="decimal" {...form.register("aileron.dCmPerDeg")} errors={err("aileron.dCmPerDeg")} />
+        <TextField label="Deflection at VA [°]" inputMode="decimal" {...form.register("aileron.deltaAtVa")} errors={err("aileron.deltaAtVa")} />
+      </div>
+      <p className="text-xs text-ink-muted">
+        The aileron span and what one degree of down-going deflection does to the incompressible sections there: the section lift increment (strip theory; a0·τ/57.3 for an aileron of flap effectiveness τ, or a measured value) and the
+        moment increment about the quarter chord (left empty, −0.01 per degree, the simplified value of 14 CFR 23.349, paragraph from memory). The rolling cases take the full deflection at VA and, at VC and VD, the deflections of the
+        rule (14 CFR 25.349(a) or 23.455). Empty for no aileron conditions.
+      </p>
+    </Panel>
+  );
+}
+
 /** A CSV file checked on the server (every bad row named), then previewed for the engineer to accept. */
 export function UploadPanel({ revision, maxKiB, units }: { revision: number; maxKiB: number; units: UnitSystem }) {
   const upload = useFetcher<UploadAnswer>();

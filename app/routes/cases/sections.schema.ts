@@ -28,6 +28,16 @@ export const SectionsFormSchema = z.discriminatedUnion("intent", [
     flaps: z
       .strictObject({ yFrom: optionalNumberInput("Flaps from y"), yTo: optionalNumberInput("Flaps to y"), dAlphaL0: optionalNumberInput("Flap Δα0L"), dCmAc: optionalNumberInput("Flap Δcm,ac"), clMax: optionalNumberInput("Flapped clmax") })
       .optional(),
+    /** The aileron of the rolling conditions; all empty for none (its moment per degree defaults to −0.01, 14 CFR 23.349). */
+    aileron: z
+      .strictObject({
+        yFrom: optionalNumberInput("Aileron from y"),
+        yTo: optionalNumberInput("Aileron to y"),
+        dClPerDeg: optionalNumberInput("Aileron Δcl per degree"),
+        dCmPerDeg: optionalNumberInput("Aileron Δcm per degree"),
+        deltaAtVa: optionalNumberInput("Aileron deflection at VA"),
+      })
+      .optional(),
   }),
   z.strictObject({ intent: z.literal("accept-upload"), revision: numberInput("Revision"), uploadId: z.uuid("Upload a file first") }),
   z.strictObject({ intent: z.literal("remove-pressures"), revision: numberInput("Revision") }),
@@ -39,6 +49,7 @@ const text = (v: number | undefined) => (v === undefined ? "" : String(tidy(v)))
 export function sectionsFormValues(saved: SectionsData | null, planform: PlanformData | null, units: UnitSystem) {
   const rows: { y: number; a0?: number; alphaL0?: number; cmAc?: number; clMax?: number; cpMin?: number; cpMinCl?: number }[] = saved?.rows ?? (planform?.stations ?? [{ y: 0 }]).map((s) => ({ y: s.y }));
   const f = saved?.flaps;
+  const a = saved?.aileron;
   return {
     rows: rows.map((r) => ({ y: text(fromSI(units, "length", r.y)), a0: text(r.a0), alphaL0: text(r.alphaL0), cmAc: text(r.cmAc), clMax: text(r.clMax), cpMin: text(r.cpMin), cpMinCl: text(r.cpMinCl) })),
     flaps: {
@@ -47,6 +58,13 @@ export function sectionsFormValues(saved: SectionsData | null, planform: Planfor
       dAlphaL0: text(f?.dAlphaL0),
       dCmAc: text(f?.dCmAc),
       clMax: text(f?.clMax),
+    },
+    aileron: {
+      yFrom: text(a && fromSI(units, "length", a.yFrom)),
+      yTo: text(a && fromSI(units, "length", a.yTo)),
+      dClPerDeg: text(a?.dClPerDeg),
+      dCmPerDeg: text(a?.dCmPerDeg),
+      deltaAtVa: text(a?.deltaAtVa),
     },
   };
 }
@@ -62,5 +80,16 @@ export function sectionsToSI(input: Extract<z.output<typeof SectionsFormSchema>,
     f && Object.values(f).some((v) => v !== undefined)
       ? { ...f, yFrom: f.yFrom === undefined ? undefined : toSI(units, "length", f.yFrom), yTo: f.yTo === undefined ? undefined : toSI(units, "length", f.yTo) }
       : undefined;
-  return { rows: keepRicherData(input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), saved), source: { kind: "typed" as const }, tables: [], ...(flaps ? { flaps } : {}) };
+  const a = input.aileron;
+  const aileron =
+    a && Object.values(a).some((v) => v !== undefined)
+      ? { ...a, yFrom: a.yFrom === undefined ? undefined : toSI(units, "length", a.yFrom), yTo: a.yTo === undefined ? undefined : toSI(units, "length", a.yTo), dCmPerDeg: a.dCmPerDeg ?? -0.01 }
+      : undefined;
+  return {
+    rows: keepRicherData(input.rows.map((r) => ({ ...r, y: toSI(units, "length", r.y) })), saved),
+    source: { kind: "typed" as const },
+    tables: [],
+    ...(flaps ? { flaps } : {}),
+    ...(aileron ? { aileron } : {}),
+  };
 }

@@ -16,7 +16,7 @@ import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionRefusal } f
 import { accepted, answer, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/sections";
-import { FlapsPanel, previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
+import { AileronPanel, FlapsPanel, previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
 import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -85,7 +85,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
     <>
       <PageHeader title="Sections" description="Incompressible 2-D section data along the span, from a wind tunnel or a 2-D analysis. Linear between stations; the compressibility rule is applied later." />
       <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
-      <StepAnswer answer={shown} inline={["rows.", "file", "flaps."]} />
+      <StepAnswer answer={shown} inline={["rows.", "file", "flaps.", "aileron."]} />
       {saved?.source.kind === "upload" ? (
         <p className="mb-3 text-sm text-ink-muted">
           Current data from the uploaded file <strong>{saved.source.filename}</strong> (SHA-256 <code className="text-xs">{saved.source.sha256?.slice(0, 16)}…</code>).
@@ -98,6 +98,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
           <fieldset disabled={!loaderData.canEdit || busy}>
             <SectionGridPanel form={form} server={shown?.fieldErrors} units={loaderData.units} disabled={!loaderData.canEdit} />
             <FlapsPanel form={form} server={shown?.fieldErrors} units={loaderData.units} />
+            <AileronPanel form={form} server={shown?.fieldErrors} units={loaderData.units} />
           </fieldset>
           <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save typed section data" voids={loaderData.voids} />
         </Form>
