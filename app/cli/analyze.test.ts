@@ -69,6 +69,24 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(bad.stderr).toContain('cases[0].massCase: names no mass case of massCases ("full")');
   });
 
+  it("carries the aileron and rolling cases: root shear of each side by equilibrium plus or minus the aileron's strip lift, the other side in the CSV", () => {
+    const rolling: Record<string, unknown> = { ...structuredClone(doc), wing: { ...doc.wing, aileron: { yFrom: 6, yTo: 8, dClPerDeg: 0.04, deltaAtVa: 20 } } };
+    rolling.cases = [{ ...doc.cases[0], id: "roll", roll: { fraction: 0.75, aileron: 10 } }];
+    const r = run(["-"], JSON.stringify(rolling));
+    expect(r.status).toBe(0);
+    const c = JSON.parse(r.stdout).cases[0];
+    // Chord 2.2 m at the root to 0.95 m at 8.7 m: ∫₆⁸ c dy = 2 m × c(7 m) = 2 × (2.2 − 1.25·7/8.7) = 2.388506 m² (by hand).
+    const dL = c.dynamicPressure * 0.04 * 10 * 2 * (2.2 - (1.25 * 7) / 8.7);
+    expect(c.root.shear).toBeCloseTo(31000 + dL, 3);
+    expect(c.roll.other.root.shear).toBeCloseTo(0.75 * 31000 - dL, 3);
+    const csv = run(["--csv", "-"], JSON.stringify(rolling)).stdout.trim().split("\n");
+    expect(csv.filter((l) => l.startsWith("roll (other side),"))).toHaveLength(8);
+    rolling.cases = [{ id: "roll", mach: 0.45, altitude: 5000, alpha: 4, roll: { fraction: 0.75 } }];
+    const bad = run(["-"], JSON.stringify(rolling));
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toContain("cases[0].roll: is only for a case given by weight and nz");
+  });
+
   it("refuses an overflowing weight (it answered null loads with exit status 0) and an impossible sweep, naming the field", () => {
     const heavy = structuredClone(doc) as typeof doc & { cases: Record<string, unknown>[] };
     heavy.cases[0].weight = 1e308;

@@ -102,12 +102,13 @@ test("an engineer builds a case from nothing and reads the critical root bending
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible();
   await shot(page, "workflow-masses");
 
-  // Envelope, generated from the basis rules for each mass case (4 × 3 altitudes × 11 points)
+  // Envelope, generated from the basis rules for each mass case (4 × 3 altitudes × 12 points: the corners, the gusts
+  // and the unsymmetrical condition A of 23.349(a); the uploaded sections give no aileron)
   await step(page, /Envelope/).click();
   await page.getByRole("button", { name: "Generate cases from the basis rules" }).click();
   // Generating solves the wing at every speed of every mass case: allow for a busy machine.
   await expect(page.getByRole("status").filter({ hasText: "Saved as revision 1" })).toBeVisible({ timeout: 60_000 });
-  await expect(page.getByText("Load cases (132)")).toBeVisible();
+  await expect(page.getByText("Load cases (144)")).toBeVisible();
   await shot(page, "workflow-envelope");
 
   // Distribution: every flagged case dispositioned

@@ -325,6 +325,28 @@ describe("POST /api/v1/analyze", () => {
     expect(await rowCounts()).toEqual(before);
   });
 
+  it("takes the aileron and rolling cases as the command line does, and names a bad one", async () => {
+    const file = example("kf60-tern-wing") as { wing: { stations: { y: number }[]; aileron?: Record<string, unknown> }; cases: Record<string, unknown>[] } & Record<string, unknown>;
+    const semispan = file.wing.stations[file.wing.stations.length - 1]!.y;
+    file.wing.aileron = { yFrom: 0.6 * semispan, yTo: 0.95 * semispan, dClPerDeg: 0.045, deltaAtVa: 18 };
+    const trimmed = file.cases.filter((c) => c.weight !== undefined);
+    trimmed[0]!.roll = { fraction: 0.75, aileron: 12 };
+    const parsed = parseCase(file);
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
+    const res = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost(file) });
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual(JSON.parse(JSON.stringify(runCase(parsed.value))));
+    expect((res.body!.cases as { roll?: unknown }[]).filter((c) => c.roll)).toHaveLength(1);
+
+    trimmed[0]!.roll = { fraction: 1.5, aileron: 12 };
+    const before = await rowCounts();
+    const bad = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, ...jsonPost(file) });
+    expect(bad.status).toBe(422);
+    const problems = bad.body!.problems as { path: string; message: string }[];
+    expect(problems.find((p) => p.path === `cases[${file.cases.indexOf(trimmed[0]!)}].roll.fraction`)!.message).toMatch(/above 0 and at most 1/);
+    expect(await rowCounts()).toEqual(before);
+  });
+
   it("refuses a body that is not JSON with 400 and one over 20 MB with 413", async () => {
     const bad = await call(analyzeAction, "/api/v1/analyze", { token: tokens.engineer, method: "POST", headers: { "Content-Type": "application/json" }, body: "{ not json" });
     expect(bad.status).toBe(400);

@@ -115,11 +115,12 @@ describe("a case with masses, mass cases and a balance", () => {
     expect(env.status).toBe(200);
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
     const generated = (row!.data as { cases: { id: string; massCase?: string; weight: number; rule: string }[] }).cases;
-    // 4 mass cases × 3 altitudes × 11 points (A, D, E, F, H and ± gusts at VB, VC, VD).
-    expect(generated).toHaveLength(4 * 3 * 11);
+    // 4 mass cases × 3 altitudes × 12 points (A, D, E, F, H, ± gusts at VB, VC, VD and the unsymmetrical
+    // condition A of 23.349(a); the sections here give no aileron, so no aileron cases).
+    expect(generated).toHaveLength(4 * 3 * 12);
     for (const mc of DEMO_CASE_INPUTS.masses.massCases) {
       const own = generated.filter((c) => c.massCase === mc.id);
-      expect(own).toHaveLength(33);
+      expect(own).toHaveLength(36);
       expect(own.every((c) => Math.abs(c.weight - mc.weight * G0) < 1e-6)).toBe(true);
     }
     expect(generated.filter((c) => c.id.endsWith("gust+VB")).every((c) => /23\.333\(c\)\(1\)\(iii\)/.test(c.rule))).toBe(true);

@@ -155,8 +155,9 @@ describe("a case worked through its steps", () => {
     expect(env.status).toBe(200);
     const [envelopeRow] = (await db.select().from(caseSteps).where(eq(caseSteps.caseId, caseId))).filter((s) => s.step === "envelope");
     const generated = (envelopeRow!.data as { cases: { rule: string; kind: string }[] }).cases;
-    // 14 CFR 23.337 and 23.341 name every generated case's origin (3 weights × 3 altitudes × 9 points).
-    expect(generated).toHaveLength(81);
+    // 14 CFR 23.337, 23.341 and 23.349 name every generated case's origin (3 weights × 3 altitudes × 10 points:
+    // the corners, the gusts and the unsymmetrical condition A; no aileron in these sections, so no aileron cases).
+    expect(generated).toHaveLength(90);
     expect(generated.every((c) => /14 CFR 23\.3\d\d/.test(c.rule))).toBe(true);
 
     const dist = await run(distributionLoader, { request: request(`/cases/${caseId}/distribution`, { cookie: engineer }), params: { caseId } });

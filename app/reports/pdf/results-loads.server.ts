@@ -1,5 +1,6 @@
 import { loadsOption, type LoadQuantity } from "~/charts/loads";
 import { formatNumber, fromSI, type Quantity } from "~/domain/units";
+import { attributionOf } from "~/exchange";
 import { W, WARN, type Section } from "./layout.server";
 
 /** Shear, bending and torsion: the envelope over every case with the critical case, by station and at the root. */
@@ -19,7 +20,7 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
   }
   if (!crit.stations) w.para("Station tables were left out of the stored results (summary output): the critical case is shown by its root loads only.", { size: 8.2, color: WARN });
 
-  // The mass case of each extreme at the root: the envelope says which mass state made it.
+  // The mass case of each extreme at the root: the envelope says which mass state (and, for a rolling case, which side) made it.
   const massCaseOf = new Map(s.exchange.cases.map((c) => [c.id, `${c.massCase ?? "all items full"}${c.flaps ? ", flaps" : ""}`]));
   const root = env[0];
   if (root) {
@@ -37,7 +38,7 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
         const quantity: Quantity = qty === "shear" ? "force" : "moment";
         const max = root[`${qty}MaxCase`];
         const min = root[`${qty}MinCase`];
-        return [`${qty[0]!.toUpperCase()}${qty.slice(1)} [${sym(quantity)}]`, q(quantity, root[`${qty}Max`]), max, massCaseOf.get(max) ?? "—", q(quantity, root[`${qty}Min`]), min, massCaseOf.get(min) ?? "—"];
+        return [`${qty[0]!.toUpperCase()}${qty.slice(1)} [${sym(quantity)}]`, q(quantity, root[`${qty}Max`]), max, massCaseOf.get(attributionOf(max).id) ?? "—", q(quantity, root[`${qty}Min`]), min, massCaseOf.get(attributionOf(min).id) ?? "—"];
       }),
       { size: 7.6, caption: "Root envelope with the case and the mass case that give each extreme" },
     );
