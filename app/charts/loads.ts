@@ -11,10 +11,12 @@ const TITLES: Record<LoadQuantity, string> = { shear: "Shear force", bending: "B
  */
 export function loadsOption(
   quantity: LoadQuantity,
-  data: { y: number[]; caseValues?: number[]; caseId?: string; max: number[]; min: number[] },
+  data: { y: number[]; caseValues?: number[]; caseId?: string; max: number[]; min: number[]; otherValues?: number[] },
   unit: { symbol: string; scale: (si: number) => number },
   units: UnitSystem = "SI",
 ): ChartOption {
+  // A rolling case shows both sides: the loaded one (its stations) and the other.
+  const side = data.otherValues ? ", loaded side" : "";
   const pts = (v: number[]): [number, number][] => data.y.map((y, i) => [station(units, y), unit.scale(v[i]!)]);
   const base = baseOption(TITLES[quantity]);
   return {
@@ -26,7 +28,8 @@ export function loadsOption(
     series: [
       line(SERIES_STYLE.envelopeMax.label, pts(data.max), SERIES_STYLE.envelopeMax, { areaStyle: undefined }),
       line(SERIES_STYLE.envelopeMin.label, pts(data.min), SERIES_STYLE.envelopeMin),
-      ...(data.caseValues ? [line(`Case ${data.caseId}`, pts(data.caseValues), { color: SERIES_STYLE.solver.color, type: "dashed" as const })] : []),
+      ...(data.caseValues ? [line(`Case ${data.caseId}${side}`, pts(data.caseValues), { color: SERIES_STYLE.solver.color, type: "dashed" as const })] : []),
+      ...(data.otherValues ? [line(`Case ${data.caseId}, other side`, pts(data.otherValues), { color: SERIES_STYLE.rolling.color, type: "dotted" as const })] : []),
     ],
   };
 }

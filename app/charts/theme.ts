@@ -28,6 +28,7 @@ export const SERIES_STYLE = {
   net: { color: "#17202b", type: "solid" as const, label: "Net load" },
   dynamicGust: { color: "#0072B2", type: "solid" as const, label: "Rigid plunge with lift build-up" },
   prattGust: { color: "#D55E00", type: "dashed" as const, label: "Pratt formula" },
+  rolling: { color: "#E69F00", type: "solid" as const, label: "Rolling conditions" },
   neutral: { color: "#7a8694", type: "solid" as const, label: "" },
 } as const;
 

@@ -20,7 +20,7 @@ describe("the V–n diagram names its points without covering one name with anot
 });
 
 describe("the V–n diagram shows every generated point", () => {
-  it("puts every point but the 1-g stall in the scatter, and draws the flaps-extended stall line to flaps-A, n = 2.0 to VF and the VF gust lines", () => {
+  it("puts every point but the 1-g stall in a scatter (the rolling ones in their own), and draws the flaps-extended stall line to flaps-A, n = 2.0 to VF and the VF gust lines", () => {
     const points = [
       { name: "S", veas: 50, nz: 1, rule: "stall" },
       { name: "A", veas: 89, nz: 3.1, rule: "corner" },
@@ -31,10 +31,18 @@ describe("the V–n diagram shows every generated point", () => {
       { name: "flaps-VF", veas: 77, nz: 2, rule: "14 CFR 23.345(a)(1)" },
       { name: "flaps-gust+VF", veas: 77, nz: 1.8, rule: "14 CFR 23.345(a)(2)" },
       { name: "flaps-gust-VF", veas: 77, nz: 0.2, rule: "14 CFR 23.345(a)(2)" },
+      { name: "unsym-A", veas: 89, nz: 3.1, rule: "14 CFR 23.349(a)", roll: { fraction: 0.75, aileron: 0 } },
+      { name: "roll-VA", veas: 89, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 17 } },
+      { name: "roll-VC", veas: 112, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 13.5 } },
+      { name: "roll-VD", veas: 155, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 3.25 } },
     ];
     const option = vnOption("V–n", points, { area: 27.6, clMax: 1.45, clMaxNegative: -0.9, weightN: 62272, clMaxFlaps: 2.1 }, { symbol: "m/s", fromSI: (v) => v });
-    const scatter = option.series.find((s) => s.type === "scatter") as unknown as { data: { name: string }[] };
-    expect(scatter.data.map((d) => d.name.split(":")[0])).toEqual(points.slice(1).map((p) => p.name));
+    const scatters = option.series.filter((s) => s.type === "scatter") as unknown as { name: string; symbol?: string; data: { name: string; value: [number, number] }[] }[];
+    expect(scatters.flatMap((s) => s.data.map((d) => d.name.split(":")[0]))).toEqual(points.slice(1).map((p) => p.name));
+    // The rolling conditions are diamonds of their own, so unsym-A on corner A is still seen and named.
+    const rolling = scatters.find((s) => s.name === "Rolling conditions")!;
+    expect(rolling.symbol).toBe("diamond");
+    expect(rolling.data.map((d) => [d.name.split(":")[0], ...d.value])).toEqual([["unsym-A", 89, 3.1], ["roll-VA", 89, 2.0667], ["roll-VC", 112, 2.0667], ["roll-VD", 155, 2.0667]]);
     const byName = Object.fromEntries(option.series.map((s) => [s.name, s as unknown as { data: [number, number][] }]));
     const flaps = byName["Flaps extended"]!.data;
     // The flapped stall line n = ½ρ0V²S·CLmax,F/W (common practice, no source) ends at flaps-A, then n = 2.0 to VF.

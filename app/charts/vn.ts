@@ -5,7 +5,8 @@ import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme"
  * The V–n diagram of one weight and altitude: the stall lines (n = ½ρ0V²S·CLmax/W), the manoeuvre
  * limits between their corner points, the gust lines from (0, 1) to the gust points (V_B, V_C, V_D; for
  * Part 25 the tuned gusts beside Pratt's for comparison), the flaps-extended points where given, and
- * every generated point labelled with its name (its rule in the tooltip).
+ * every generated point labelled with its name (its rule in the tooltip); the rolling and unsymmetrical
+ * conditions as diamonds of their own, named to their left (unsym-A lies on corner A).
  */
 export function vnOption(title: string, points: VnPoint[], stall: { area: number; clMax: number; clMaxNegative: number; weightN: number; clMaxFlaps?: number }, speedUnit: { symbol: string; fromSI: (v: number) => number }) {
   const p = Object.fromEntries(points.map((pt) => [pt.name, pt]));
@@ -46,7 +47,7 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
         // A gust point lies beside a corner of the manoeuvre envelope at the same speed: corners are
         // named above (below, where nz < 0) and gust points to their right, so no name covers another.
         data: points
-          .filter((pt) => pt.name !== "S")
+          .filter((pt) => pt.name !== "S" && !pt.roll)
           .map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule}`, label: { position: /^(gust|tuned|flaps)/.test(pt.name) ? ("right" as const) : pt.nz < 0 ? ("bottom" as const) : ("top" as const) } })),
         itemStyle: { color: SERIES_STYLE.solver.color },
         label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "top" as const, fontSize: 10 },
@@ -57,6 +58,26 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
           return `${d.name}<br/>V = ${v.toFixed(1)} ${speedUnit.symbol}, n = ${n.toFixed(3)}`;
         } },
       },
+      ...(points.some((pt) => pt.roll)
+        ? [
+            {
+              type: "scatter" as const,
+              name: SERIES_STYLE.rolling.label,
+              symbol: "diamond",
+              symbolSize: 10,
+              data: points
+                .filter((pt) => pt.roll)
+                .map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule} (other side ${(pt.roll!.fraction * 100).toFixed(0)} % of the airload, aileron ${pt.roll!.aileron.toFixed(2)}°)` })),
+              itemStyle: { color: SERIES_STYLE.rolling.color },
+              label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "left" as const, fontSize: 10 },
+              labelLayout: { moveOverlap: "shiftY" as const },
+              tooltip: { formatter: (d: { name: string; value?: unknown }) => {
+                const [v, n] = d.value as [number, number];
+                return `${d.name}<br/>V = ${v.toFixed(1)} ${speedUnit.symbol}, n = ${n.toFixed(3)}`;
+              } },
+            },
+          ]
+        : []),
     ],
   } satisfies ChartOption;
 }

@@ -41,7 +41,8 @@ export async function loadsView(caseId: string, title: string, actorId: string, 
   if (!entry) {
     const answer = await resultsOrQueue(caseId, file, actorId, sections);
     if (answer.pending) return { pending: true, cases: answer.cases, progress: answer.progress };
-    const order = answer.result.cases.map(({ stations: _stations, ...root }) => root).sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
+    // Root loads only: a rolling case's other side keeps its root, not its stations.
+    const order = answer.result.cases.map(({ stations: _stations, ...root }) => (root.roll ? { ...root, roll: { ...root.roll, other: { root: root.roll.other.root } } } : root)).sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
     entry = { result: answer.result, order };
     ranked.set(key, entry);
   }

@@ -445,6 +445,18 @@ function VnNotes({ set, units }: { set: VnSet; units: UnitSystem }) {
           .
         </>
       ) : null}
+      {set.points.some((p) => p.roll) ? (
+        <>
+          {" "}
+          Rolling conditions (diamonds, kind “rolling”):{" "}
+          {set.points
+            .filter((p) => p.roll)
+            .map((p) => `${p.name} n = ${p.nz.toFixed(3)}, other side ${(p.roll!.fraction * 100).toFixed(0)} %${p.roll!.aileron > 0 ? `, aileron ${p.roll!.aileron.toFixed(2)}°` : ""}`)
+            .join("; ")}{" "}
+          ({set.tuned ? "14 CFR 25.349(a)" : "14 CFR 23.349, 23.455"}, paragraphs from memory). Each is analysed on both sides: the loaded side with the full airload and the down-going aileron, the other with its share and the
+          up-going aileron.
+        </>
+      ) : null}
       {set.massCase ? ` Mass case ${set.massCase}${set.cg !== undefined ? `, CG ${(set.cg * 100).toFixed(1)} % MAC` : ""}.` : ""}
     </p>
   );

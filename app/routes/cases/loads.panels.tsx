@@ -10,7 +10,7 @@ import { Alert, Panel } from "~/components/ui/page-header";
 import { sweepFraction, type SweepProgressView } from "~/domain/results";
 import type { StepStatus } from "~/domain/vocabulary";
 import { formatQuantity, fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
-import type { CaseResult, ResultCase } from "~/exchange";
+import { attributionOf, type CaseResult, type ResultCase } from "~/exchange";
 import type { LoadsView } from "~/services/loads-view.server";
 import type { CaseLoadsBreakdown, LoadsPageInfo } from "~/services/case-loads.server";
 import type { FieldErrors } from "~/utils/form-data";
@@ -53,11 +53,12 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number,
   };
 }
 
-/** A case id with its mass case, as the tables and read-outs name it: "W2-A (MTOW-full)". */
+/** A case id with its mass case (and a rolling case's side, as the envelope names it), as the tables and read-outs name it: "W2-A (MTOW-full)", "W1-roll-VC (MTOW-full, other side)". */
 function namer(info: LoadsPageInfo) {
-  return (id: string) => {
-    const mc = info.cases[id]?.massCase;
-    return mc ? `${id} (${mc})` : id;
+  return (label: string) => {
+    const { id, side } = attributionOf(label);
+    const parts = [info.cases[id]?.massCase, side ? `${side} side` : undefined].filter(Boolean);
+    return parts.length ? `${id} (${parts.join(", ")})` : id;
   };
 }
 
@@ -101,6 +102,11 @@ export function BreakdownPanel({ caseId, current, result, units, info }: { caseI
           <p className="mb-2 text-sm">
             {parts.nz === null ? (
               "A case given by angle of attack has no load factor: no inertia relief is applied."
+            ) : current.roll ? (
+              <>
+                nz = <span className="tabular">{parts.nz}</span>, mass case <strong>{parts.massCase ?? "all items at full mass"}</strong>: the symmetric condition of this rolling case, from which both sides are built (below). The net
+                load is the aerodynamic load less the relief.
+              </>
             ) : (
               <>
                 nz = <span className="tabular">{parts.nz}</span>, mass case <strong>{parts.massCase ?? "all items at full mass"}</strong>, tail load <span className="tabular">{formatQuantity(units, "force", parts.tailLoad)}</span> (up positive), wing lift{" "}
@@ -189,6 +195,7 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
     min: envelope.map((e) => e[`${q}Min`]),
     caseId: current.id,
     caseValues: current.stations?.map((s) => s[q]),
+    otherValues: current.roll?.other.stations?.map((s) => s[q]),
   });
   return (
     <div className="grid gap-4 xl:grid-cols-3">
@@ -196,6 +203,39 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
       <Chart option={loadsOption("bending", series("bending"), moment, units)} label="Bending moment along the span" fileName="bending" />
       <Chart option={loadsOption("torsion", series("torsion"), moment, units)} label="Torsion along the span" fileName="torsion" />
     </div>
+  );
+}
+
+/** Both sides of a rolling case at the root: the loaded side (full airload, down-going aileron) and the other. */
+export function RollingSidesPanel({ current, units }: { current: ResultCase; units: UnitSystem }) {
+  const roll = current.roll;
+  if (!roll) return null;
+  const F = unitSymbol(units, "force");
+  const M = unitSymbol(units, "moment");
+  const rows = [
+    { side: "Loaded side", airload: "100 %", aileron: roll.aileron > 0 ? `${roll.aileron.toFixed(2)}° down` : "—", root: current.root },
+    { side: "Other side", airload: `${(roll.fraction * 100).toFixed(0)} %`, aileron: roll.aileron > 0 ? `${roll.aileron.toFixed(2)}° up` : "—", root: roll.other.root },
+  ];
+  return (
+    <Panel title={`Both sides of rolling case ${current.id}`} className="mt-5">
+      <DataTable
+        rows={rows}
+        caption="Root loads of both sides of the rolling case"
+        csvName={`sides-${current.id}.csv`}
+        columns={[
+          { id: "side", header: "Side", value: (r) => r.side },
+          { id: "airload", header: "Airload of the symmetric condition", value: (r) => r.airload },
+          { id: "aileron", header: "Aileron", value: (r) => r.aileron },
+          { id: "shear", header: `Root shear [${F}]`, value: (r) => round(fromSI(units, "force", r.root.shear)), numeric: true },
+          { id: "bending", header: `Root bending [${M}]`, value: (r) => round(fromSI(units, "moment", r.root.bending)), numeric: true },
+          { id: "torsion", header: `Root torsion [${M}]`, value: (r) => round(fromSI(units, "moment", r.root.torsion)), numeric: true },
+        ]}
+      />
+      <p className="mt-2 text-xs text-ink-muted">
+        The loaded side carries the full airload of the symmetric condition and the down-going aileron&apos;s lift and moment increments (strip theory over the aileron span); the other side its share of the airload and the up-going
+        aileron&apos;s. Both keep the same inertia relief: the roll acceleration&apos;s inertia and the wing&apos;s flexibility are left out, and the envelope takes both sides. A rational rolling analysis the authority accepts governs.
+      </p>
+    </Panel>
   );
 }
 
@@ -216,9 +256,9 @@ export function EnvelopeTable({ envelope, units, info }: { envelope: CaseResult[
             const sym = unitSymbol(units, quantity);
             return [
               { id: `${q}Max`, header: `${q} max [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Max`])), numeric: true },
-              { id: `${q}MaxCase`, header: `${q} max case (mass case)`, value: (e: (typeof env)[number]) => named(e[`${q}MaxCase`]) },
+              { id: `${q}MaxCase`, header: `${q} max case (mass case, side)`, value: (e: (typeof env)[number]) => named(e[`${q}MaxCase`]) },
               { id: `${q}Min`, header: `${q} min [${sym}]`, value: (e: (typeof env)[number]) => round(fromSI(units, quantity, e[`${q}Min`])), numeric: true },
-              { id: `${q}MinCase`, header: `${q} min case (mass case)`, value: (e: (typeof env)[number]) => named(e[`${q}MinCase`]) },
+              { id: `${q}MinCase`, header: `${q} min case (mass case, side)`, value: (e: (typeof env)[number]) => named(e[`${q}MinCase`]) },
             ];
           }),
         ]}

@@ -15,7 +15,7 @@ import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { LoadsPageInfo } from "~/services/case-loads.server";
 import type { Route } from "./+types/loads";
-import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RootLoadsTable, useCaseResults } from "./loads.panels";
+import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RollingSidesPanel, RootLoadsTable, useCaseResults } from "./loads.panels";
 import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -78,6 +78,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
       {result && current ? (
         <div className={results.loading ? "opacity-50" : undefined} aria-busy={results.loading}>
           <LoadsCharts envelope={result.envelope} current={current} units={units} />
+          <RollingSidesPanel current={current} units={units} />
           <BreakdownPanel caseId={loaderData.caseId} current={current} result={result} units={units} info={info} />
           <Panel title={result.cases.length < result.caseCount ? `Root loads, the ${result.cases.length} most critical of ${result.caseCount} cases` : "Root loads, every case"} className="mt-5">
             <RootLoadsTable cases={result.cases} units={units} info={info} />
