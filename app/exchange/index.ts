@@ -1,7 +1,7 @@
 export * from "./schema";
 export { parseCase, formatPath } from "./parse";
 export type { CaseProblem, ParseCaseResult } from "./parse";
-export { caseWingModel, DIRECT_MACH_LIMIT, massItemOf, runCase, runCaseAsync, wingModelOf } from "./run";
+export { caseSides, caseWingModel, DIRECT_MACH_LIMIT, massItemOf, runCase, runCaseAsync, wingModelOf } from "./run";
 export type { RunOptions, RunProgress } from "./run";
 export { resultToCsv } from "./csv";
 export { attributionOf, rollingSideLabel } from "../engine/rolling";

@@ -2,10 +2,11 @@ import { ENGINE_VERSION } from "../engine/index";
 import { EngineError } from "../engine/errors";
 import { flappedStations } from "../engine/flaps";
 import { rollingSideLabel, rollingSides } from "../engine/rolling";
+import type { RollingSides } from "../engine/rolling";
 import { wingPlausibility } from "../engine/plausibility";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";
 import { evaluateCase } from "../engine/load-case";
-import type { LoadCase } from "../engine/load-case";
+import type { CaseLoads, LoadCase } from "../engine/load-case";
 import { LIFTING_LINE_DEFAULT_TERMS } from "../engine/lifting-line";
 import type { MassCase, MassItem } from "../engine/mass";
 import type { MachSolution, ResolutionCheck, SolveOptions, WingModel } from "../engine/superposition";
@@ -102,6 +103,18 @@ export function caseWingModel(file: CaseFile, flaps: boolean | undefined, sectio
   return { ...model, stations };
 }
 
+/**
+ * Both sides of a rolling case (`cases[].roll`) from its symmetric loads `r` on solution `sol`: the aileron's
+ * increments over the file's stations, torsion about the solution's reference axis at each output station.
+ * @throws EngineError naming `field` for a deflection without `wing.aileron`
+ */
+export function caseSides(file: CaseFile, roll: NonNullable<CaseFile["cases"][number]["roll"]>, sol: MachSolution, r: CaseLoads, field: string): RollingSides {
+  const axis = sol.axis;
+  const s = file.wing.stations[file.wing.stations.length - 1].y;
+  const xRef = r.y.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
+  return rollingSides(r, { stations: file.wing.stations, xRef, axis }, { fraction: roll.fraction, aileronDeg: roll.aileron }, file.wing.aileron, field);
+}
+
 /** The solves of one wing (clean or flapped) for the Mach numbers of its cases. */
 interface Configuration {
   machs: number[];
@@ -177,10 +190,7 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
     // A rolling case: the loaded side replaces the symmetric loads; the envelope takes both sides, each named.
     let other: { shear: number[]; bending: number[]; torsion: number[] } | undefined;
     if (c.roll) {
-      const axis = sol.axis;
-      const s = file.wing.stations[file.wing.stations.length - 1].y;
-      const xRef = r.y.map((y) => axis.rootX + ((axis.tipX - axis.rootX) * y) / s);
-      const sides = rollingSides(r, { stations: file.wing.stations, xRef, axis }, { fraction: c.roll.fraction, aileronDeg: c.roll.aileron }, file.wing.aileron, `cases[${i}].roll`);
+      const sides = caseSides(file, c.roll, sol, r, `cases[${i}].roll`);
       Object.assign(r, sides.loaded, { root: { shear: sides.loaded.shear[0], bending: sides.loaded.bending[0], torsion: sides.loaded.torsion[0] } });
       other = sides.other;
       addToEnvelope(env, rollingSideLabel(r.id, "loaded"), r);

@@ -23,7 +23,7 @@ import {
   type SpanwiseMethod,
   type WingModel,
 } from "~/engine";
-import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { attributionOf, caseSides, caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
 import { buildCaseFile, caseInputs, parseOrThrow } from "./analysis.server";
 import { caseUnits, getCaseSteps } from "./case-steps.server";
 
@@ -96,14 +96,19 @@ export function* ruleSensitivitySteps(input: CaseFileInput, result: CaseResult, 
   const total = critical.length * RULES.length;
   const cases: RuleSensitivity["cases"] = [];
   for (const c of critical) {
-    const lc = loadCaseOf(file, c.id);
-    const own = result.cases.find((k) => k.id === c.id)!;
+    // A rolling case's extreme belongs to one of its sides: that side is compared under each rule.
+    const { id, side } = attributionOf(c.id);
+    const lc = loadCaseOf(file, id);
+    const roll = file.cases.find((k) => k.id === id)!.roll;
+    const own = result.cases.find((k) => k.id === id)!;
     const rules: RuleSensitivity["cases"][number]["rules"] = [];
     for (const rule of RULES) {
-      if (rule === chosen && direct) rules.push({ rule, root: { ...own.root }, machCritical: own.machCritical, regime: own.regime });
+      if (rule === chosen && direct) rules.push({ rule, root: { ...(side === "other" ? own.roll!.other.root : own.root) }, machCritical: own.machCritical, regime: own.regime });
       else {
-        const r = engine(() => evaluateCase(solution(rule, lc.mach, lc.flaps), lc));
-        rules.push({ rule, root: { ...r.root }, machCritical: r.machCritical, regime: r.regime });
+        const sol = solution(rule, lc.mach, lc.flaps);
+        const r = engine(() => evaluateCase(sol, lc));
+        const loads = roll ? engine(() => caseSides(file, roll, sol, r, "roll"))[side ?? "loaded"] : r;
+        rules.push({ rule, root: { shear: loads.shear[0]!, bending: loads.bending[0]!, torsion: loads.torsion[0]! }, machCritical: r.machCritical, regime: r.regime });
       }
       yield { done: cases.length * RULES.length + rules.length, total };
     }

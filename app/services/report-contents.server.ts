@@ -6,7 +6,7 @@ import { cases, organisations, programmes, reports, type Report } from "~/db/sch
 import { compareReports } from "~/domain/report-comparison";
 import { ISSUED_REPORT_STATUSES } from "~/domain/vocabulary";
 import { ENGINE_VERSION, easFromMach, gustAlleviationFactor, gustMassRatio, isa, plungeGustResponse, wingGeometry, type WingStation } from "~/engine";
-import { exchangeDocumentText } from "~/exchange";
+import { attributionOf, exchangeDocumentText } from "~/exchange";
 import type { MassesFigure, ReportFigures, ReportSnapshot, SignatureLine } from "~/reports/snapshot";
 import { and, desc, eq, inArray, lt } from "drizzle-orm";
 import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor } from "./analysis.server";
@@ -68,7 +68,8 @@ export async function buildSnapshot(report: Report, database: Db | Tx = db): Pro
     result,
     documents: { case: exchangeDocumentText(exchange), ...(sections ? { sections: exchangeDocumentText(sections) } : {}) },
     sensitivity: ruleSensitivity(exchange, result, sections),
-    spanwise: rootCriticalCases(result.envelope[0]).map((c) => spanwiseComparison(exchange, c.id, sections)),
+    // The spanwise comparison is of a case's symmetric condition: a rolling case's two sides share one.
+    spanwise: [...new Set(rootCriticalCases(result.envelope[0]).map((c) => attributionOf(c.id).id))].map((id) => spanwiseComparison(exchange, id, sections)),
     flags,
     signatures: await signatureLines(report.caseId, database),
   };

@@ -18,6 +18,7 @@ import { effectiveMasses } from "~/services/masses.server";
 import { renderReport } from "~/services/report-contents.server";
 import { DEMO_CASE_INPUTS } from "~/demo/scenario";
 import { seed } from "./helpers";
+import { attributionOf } from "~/exchange";
 
 const run = promisify(execFile);
 const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
@@ -225,9 +226,12 @@ describe("the signed report PDF of the demo case", () => {
     const massCaseOf = new Map(snapshot.exchange.cases.map((c) => [c.id, c.massCase]));
     const table = text.slice(start, start + 2000);
     for (const q of ["shear", "bending", "torsion"] as const) {
-      const mc = massCaseOf.get(root[`${q}MaxCase`]);
+      // A rolling case's side is named after its id: "W2-roll-VC (loaded side)".
+      const { id, side } = attributionOf(root[`${q}MaxCase`]);
+      const mc = massCaseOf.get(id);
       expect(ids.has(mc!)).toBe(true);
-      expect(table).toContain(root[`${q}MaxCase`]);
+      expect(table).toContain(id);
+      if (side) expect(table).toContain(`(${side} side)`);
       expect(table).toContain(mc!);
     }
   });
@@ -261,6 +265,25 @@ describe("the signed report PDF of the demo case", () => {
     const vn = text.slice(text.indexOf("Corner and gust points"));
     for (const name of ["flaps-A", "flaps-VF", "flaps-gust+VF", "flaps-gust-VF"]) expect(text).toMatch(new RegExp(`\\n\\s*${escape(name)}\\s+[\\d.]+\\s+[\\d.]+\\s+14 CFR 23\\.345\\(a\\)`));
     expect(vn.length).toBeGreaterThan(0);
+  });
+
+  it("lists the rolling cases with their share and aileron deflection, the aileron data, their V–n points and an honest scope", () => {
+    const text = pages.join("\n");
+    const flat = text.replace(/\s+/g, " ");
+    const rolling = snapshot.exchange.cases.filter((c) => c.roll);
+    // 4 mass cases × 3 altitudes × (unsym-A of 23.349(a) [M], roll-VA, roll-VC, roll-VD of 23.455 [M]).
+    expect(rolling).toHaveLength(DEMO_CASE_INPUTS.masses.massCases.length * DEMO_CASE_INPUTS.basis.altitudes.length * 4);
+    for (const c of rolling) {
+      const line = text.split("\n").find((l) => l.trimStart().startsWith(`${c.id} `));
+      expect(line, c.id).toMatch(c.id.includes("unsym-A") ? /^\s*\S+\s+rolling, 75 %\s/ : /^\s*\S+\s+rolling, 100 %, δ [\d.]+°/);
+    }
+    expect(flat).toContain(`${rolling.length} rolling and unsymmetrical cases (14 CFR 23.349 and 23.455`);
+    const a = DEMO_CASE_INPUTS.sections.aileron;
+    expect(flat).toContain(`Aileron from y = ${formatNumber(a.yFrom)} to ${formatNumber(a.yTo)} m: section lift ${formatNumber(a.dClPerDeg)} and moment about the quarter chord ${formatNumber(a.dCmPerDeg)} per degree`);
+    for (const name of ["unsym-A", "roll-VA", "roll-VC", "roll-VD"]) expect(text).toMatch(new RegExp(`\\n\\s*${escape(name)}\\s+[\\d.]+\\s+[\\d.]+\\s+14 CFR 23\\.(349|455)`));
+    // What the simplified method leaves out, said in the scope.
+    expect(flat).toContain("the inertia of the roll acceleration, the wing's flexibility");
+    expect(flat).not.toContain("asymmetric, rolling, yawing or ground conditions");
   });
 
   it("gives each load case its speed (EAS) in the case table, which its rule text no longer carries", () => {

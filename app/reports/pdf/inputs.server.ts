@@ -80,6 +80,13 @@ export function inputs(section: Section) {
       { size: 8.2 },
     );
   }
+  if (sec.aileron) {
+    const a = sec.aileron;
+    w.para(
+      `Aileron from y = ${q("length", a.yFrom)} to ${q("length", a.yTo)} ${L}: section lift ${formatNumber(a.dClPerDeg)} and moment about the quarter chord ${formatNumber(a.dCmPerDeg)} per degree of down-going deflection (strip theory, as entered at every Mach number), ${formatNumber(a.deltaAtVa)}° at VA; the rolling cases add these increments over its span, down-going on the loaded side and up-going on the other.`,
+      { size: 8.2 },
+    );
+  }
   const src = sec.source;
   w.para(
     `Source of the section data: ${src.kind === "upload" ? `uploaded file ${src.filename ?? ""}${src.sha256 ? ` (SHA-256 ${src.sha256})` : ""}` : src.kind === "import" ? "imported exchange document" : "typed in the sections step"}. Values between section stations are interpolated linearly and held constant outside them.`,
@@ -105,7 +112,7 @@ export function inputs(section: Section) {
     ],
     env.cases.map((c) => [
       c.id,
-      c.flaps ? `${c.kind}, flaps` : c.kind,
+      c.flaps ? `${c.kind}, flaps` : c.roll ? `${c.kind}, ${formatNumber(c.roll.fraction * 100)} %${c.roll.aileron > 0 ? `, δ ${formatNumber(c.roll.aileron, 3)}°` : ""}` : c.kind,
       formatNumber(c.mach, 4),
       q("altitude", c.altitude, 5),
       // The speed of the case, which its rule text no longer carries (stored text is free of units).

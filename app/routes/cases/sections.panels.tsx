@@ -92,8 +92,8 @@ export function AileronPanel({ form, server, units }: { form: ZodForm<typeof Sec
   return (
     <Panel title="Aileron" className="mt-5">
       <div className="grid grid-cols-2 gap-x-4 sm:grid-cols-5">
-        <TextField label={`From y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yFrom")} errors={err("aileron.yFrom")} />
-        <TextField label={`To y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yTo")} errors={err("aileron.yTo")} />
+        <TextField label={`Aileron inner end y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yFrom")} errors={err("aileron.yFrom")} />
+        <TextField label={`Aileron outer end y [${unitSymbol(units, "length")}]`} inputMode="decimal" {...form.register("aileron.yTo")} errors={err("aileron.yTo")} />
         <TextField label="Δcl per degree [/°]" inputMode="decimal" {...form.register("aileron.dClPerDeg")} errors={err("aileron.dClPerDeg")} />
         <TextField label="Δcm per degree [/°]" inputMode="decimal" {...form.register("aileron.dCmPerDeg")} errors={err("aileron.dCmPerDeg")} />
         <TextField label="Deflection at VA [°]" inputMode="decimal" {...form.register("aileron.deltaAtVa")} errors={err("aileron.deltaAtVa")} />
