@@ -101,7 +101,7 @@ export function inputs(section: Section) {
   w.table(
     [
       { header: "Case", width: 66 },
-      { header: "Kind", width: 56 },
+      { header: "Kind", width: 84 },
       { header: "Mach", width: 34, align: "right" },
       { header: `Alt. [${sym("altitude")}]`, width: 36, align: "right" },
       { header: `EAS [${sym("speed")}]`, width: 32, align: "right" },

@@ -26,12 +26,12 @@ export function resultsLoads({ w, s, crit, units, q, sym }: Section) {
   if (root) {
     w.table(
       [
-        { header: "At the root", width: 60 },
-        { header: "Maximum", width: 66, align: "right" },
-        { header: "Case", width: 70 },
-        { header: "Mass case", width: 64 },
-        { header: "Minimum", width: 66, align: "right" },
-        { header: "Case", width: 70 },
+        { header: "At the root", width: 56 },
+        { header: "Maximum", width: 56, align: "right" },
+        { header: "Case", width: 96 },
+        { header: "Mass case", width: 58 },
+        { header: "Minimum", width: 56, align: "right" },
+        { header: "Case", width: 96 },
         { header: "Mass case", width: 0 },
       ],
       (["shear", "bending", "torsion"] as const).map((qty) => {
