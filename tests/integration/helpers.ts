@@ -1,3 +1,5 @@
+import pg from "pg";
+import { vi } from "vitest";
 import { db } from "~/db/client.server";
 import { DEMO_USERS, type DemoUser } from "~/demo/scenario";
 import { seedDemo } from "~/demo/seed.server";
@@ -80,3 +82,23 @@ export function canonical(value: unknown): string {
     .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`)
     .join(",")}}`;
 }
+
+/** The text of every query sent to PostgreSQL while `work` runs. */
+export async function queriesOf(work: () => Promise<unknown>): Promise<string[]> {
+  const sent: string[] = [];
+  const query = pg.Client.prototype.query;
+  const spy = vi.spyOn(pg.Client.prototype, "query").mockImplementation(function (this: pg.Client, ...args: unknown[]) {
+    const q = args[0] as string | { text?: string };
+    sent.push(typeof q === "string" ? q : (q.text ?? ""));
+    return (query as (...a: unknown[]) => unknown).apply(this, args);
+  } as typeof query);
+  try {
+    await work();
+  } finally {
+    spy.mockRestore();
+  }
+  return sent;
+}
+
+/** Of those, the reads of the steps' data column itself (a digest of it is md5("data"::text)). */
+export const readsStepData = (sent: string[]) => sent.filter((text) => text.includes('"case_steps"') && /"data"(?!::text)/.test(text));

@@ -1,13 +1,12 @@
 import { and, eq, sql } from "drizzle-orm";
-import pg from "pg";
-import { beforeAll, describe, expect, it, vi } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { cases, caseSteps, users } from "~/db/schema";
 import { loader as loadsPageLoader } from "~/routes/cases/loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { analysisInputHash, exportCaseDocuments, parseOrThrow, parseSectionsOrThrow } from "~/services/analysis.server";
 import { getCaseSteps, saveStep } from "~/services/case-steps.server";
-import { cookieFor, demoUser, request, routeArgs, seed } from "./helpers";
+import { cookieFor, demoUser, queriesOf, readsStepData, request, routeArgs, seed } from "./helpers";
 
 // The results API and the loads page derive what they show from a case's steps once per content
 // of the steps (and title), not on every request. What they answer must still follow every change
@@ -36,26 +35,6 @@ async function freshHash(): Promise<string> {
   const parsed = parseOrThrow(file);
   return analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
 }
-
-/** The text of every query sent to PostgreSQL while `work` runs. */
-async function queriesOf(work: () => Promise<unknown>): Promise<string[]> {
-  const sent: string[] = [];
-  const query = pg.Client.prototype.query;
-  const spy = vi.spyOn(pg.Client.prototype, "query").mockImplementation(function (this: pg.Client, ...args: unknown[]) {
-    const q = args[0] as string | { text?: string };
-    sent.push(typeof q === "string" ? q : (q.text ?? ""));
-    return (query as (...a: unknown[]) => unknown).apply(this, args);
-  } as typeof query);
-  try {
-    await work();
-  } finally {
-    spy.mockRestore();
-  }
-  return sent;
-}
-
-/** Queries that read the steps' data column itself (the digest is md5("data"::text)). */
-const readsStepData = (sent: string[]) => sent.filter((text) => text.includes('"case_steps"') && /"data"(?!::text)/.test(text));
 
 async function loadsPage() {
   const out = (await loadsPageLoader((await routeArgs(request(`/cases/${caseId}/loads`, { cookie }), { caseId })) as never)) as { values: { notes: string }; units: string; caseCount: number; revision: number };
