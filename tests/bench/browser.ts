@@ -6,15 +6,13 @@
 // `npm run bench` runs it after the others; alone: `npx tsx tests/bench/browser.ts [--rounds 3]`.
 // BROWSER_BENCH_PORT_BASE moves its ports (default 3400) so that it can run beside other checkouts;
 // BROWSER_BENCH_ORIGIN measures an app already running there instead (its large case imported once).
-import { spawn, type ChildProcess } from "node:child_process";
-import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from "playwright-core";
 import { DEMO_USERS } from "../../app/demo/scenario";
+import { benchApp, writeDocsSection } from "./bench-app";
 
-const root = path.join(import.meta.dirname, "..", "..");
 const roundsArg = process.argv.indexOf("--rounds");
 const ROUNDS = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : 3;
 const BASE = Number(process.env.BROWSER_BENCH_PORT_BASE ?? 3400);
@@ -53,59 +51,10 @@ function say(line: string) {
 const loadAverage = () => os.loadavg().map((v) => v.toFixed(2)).join(" / ");
 
 // ---------------------------------------------------------------------------------------------
-// The app under test
+// The app under test (none started where BROWSER_BENCH_ORIGIN names a running one)
 
-const dataDir = path.join(os.tmpdir(), `spanwright-browser-${process.pid}`);
-fs.rmSync(dataDir, { recursive: true, force: true });
-// 0755, not mkdtemp's 0700: as root, the postgres user must be able to enter it.
-fs.mkdirSync(dataDir, { recursive: true, mode: 0o755 });
-
-const appEnv = {
-  ...process.env,
-  SPANWRIGHT_DATA_DIR: dataDir,
-  PORT: String(BASE),
-  APP_ORIGIN: ORIGIN,
-  PG_PORT: String(BASE + 51_069),
-  S3_PORT: String(BASE + 1_199),
-  SMTP_PORT: String(BASE - 655),
-  OIDC_PORT: String(BASE + 1_210),
-  NODE_ENV: "production",
-  // Always the stand-ins, even when the calling shell points at real services.
-  DATABASE_URL: "",
-  S3_ENDPOINT: "",
-  SMTP_URL: "",
-  OIDC_ISSUER: "",
-};
-
-let app: ChildProcess | undefined;
-const appLog: string[] = [];
-
-async function startApp(): Promise<number> {
-  if (RUNNING) return 0;
-  const t0 = performance.now();
-  app = spawn(path.join(root, "node_modules", ".bin", "tsx"), ["app/server/start.ts"], { cwd: root, env: appEnv, detached: true, stdio: ["ignore", "pipe", "pipe"] });
-  app.stdout!.on("data", (b: Buffer) => appLog.push(b.toString()));
-  app.stderr!.on("data", (b: Buffer) => appLog.push(b.toString()));
-  say(`starting the app on ${ORIGIN} (data in ${dataDir})…`);
-  const deadline = Date.now() + 300_000;
-  for (;;) {
-    if (app.exitCode !== null) throw new Error(`the app exited during start-up:\n${appLog.slice(-30).join("")}`);
-    const ok = await fetch(`${ORIGIN}/healthz`).then((r) => r.ok, () => false);
-    if (ok) return (performance.now() - t0) / 1000;
-    if (Date.now() > deadline) throw new Error(`no healthy app on ${ORIGIN} after 300 s:\n${appLog.slice(-30).join("")}`);
-    await new Promise((r) => setTimeout(r, 250));
-  }
-}
-
-async function stopApp() {
-  if (!app || app.exitCode !== null || app.signalCode !== null) return;
-  const exited = new Promise<void>((r) => app!.once("exit", () => r()));
-  // SIGINT to the whole group: start.ts stops its services, PostgreSQL does a fast shutdown.
-  process.kill(-app.pid!, "SIGINT");
-  const timer = setTimeout(() => process.kill(-app!.pid!, "SIGKILL"), 30_000);
-  await exited;
-  clearTimeout(timer);
-}
+const app = benchApp("browser", { port: BASE, pg: BASE + 51_069, s3: BASE + 1_199, smtp: BASE - 655, oidc: BASE + 1_210 }, say);
+const startApp = (): Promise<number> => (RUNNING ? Promise.resolve(0) : app.start());
 
 // ---------------------------------------------------------------------------------------------
 // The browser
@@ -367,13 +316,7 @@ function writeSection(demo: PageFigures[], large: PageFigures[], info: { startup
   out(`- Targets (issue 14: every page of the ${LARGE_CASES.toLocaleString("en")}-case case under 1 MB and interactive within 1 s; issue 10, item 8: the demo envelope and distribution pages within 0.5 s): ${missed.length ? `**missed** by ${missed.join(", ")}` : "**met**"}.`);
   out(MARK_END);
 
-  const file = path.join(root, "docs", "benchmarks.md");
-  const existing = fs.existsSync(file) ? fs.readFileSync(file, "utf8") : "";
-  const section = lines.join("\n");
-  const a = existing.indexOf(MARK_START);
-  const z = existing.indexOf(MARK_END);
-  const next = a >= 0 && z > a ? existing.slice(0, a) + section + existing.slice(z + MARK_END.length) : `${existing.trimEnd()}\n\n${section}\n`;
-  fs.writeFileSync(file, next);
+  const file = writeDocsSection(MARK_START, MARK_END, lines.join("\n"));
   say(`wrote its section of ${path.relative(process.cwd(), file)}`);
 }
 
@@ -410,12 +353,10 @@ async function main() {
 
 main()
   .then(async () => {
-    await stopApp();
-    fs.rmSync(dataDir, { recursive: true, force: true });
+    await app.stop();
   })
   .catch(async (error: unknown) => {
     console.error(`[browser] ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
-    await stopApp();
-    fs.rmSync(dataDir, { recursive: true, force: true });
+    await app.stop();
     process.exitCode = 1;
   });

@@ -10,10 +10,10 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 import autocannon from "autocannon";
 import { DEMO_USERS } from "../../app/demo/scenario";
+import { benchApp, root, writeDocsSection } from "./bench-app";
 
 const REACT_ROUTER_VERSION = (JSON.parse(fs.readFileSync(path.join(import.meta.dirname, "..", "..", "node_modules", "react-router", "package.json"), "utf8")) as { version: string }).version;
 
-const root = path.join(import.meta.dirname, "..", "..");
 const durationArg = process.argv.indexOf("--duration");
 const DURATION_S = durationArg > 0 ? Number(process.argv[durationArg + 1]) : 30;
 const CONNECTIONS = 50;
@@ -30,40 +30,7 @@ function say(line: string) {
 // ---------------------------------------------------------------------------------------------
 // The app under test
 
-const dataDir = path.join(os.tmpdir(), `spanwright-load-${process.pid}`);
-fs.rmSync(dataDir, { recursive: true, force: true });
-// 0755, not mkdtemp's 0700: as root, the postgres user must be able to enter it.
-fs.mkdirSync(dataDir, { recursive: true, mode: 0o755 });
-
-const appEnv = {
-  ...process.env,
-  SPANWRIGHT_DATA_DIR: dataDir,
-  PORT: String(PORT),
-  APP_ORIGIN: ORIGIN,
-  PG_PORT: "54359",
-  S3_PORT: "4599",
-  SMTP_PORT: "2555",
-  OIDC_PORT: "4610",
-  NODE_ENV: "production",
-  // Always the stand-ins, even when the calling shell points at real services.
-  DATABASE_URL: "",
-  S3_ENDPOINT: "",
-  SMTP_URL: "",
-  OIDC_ISSUER: "",
-};
-
-let app: ChildProcess | undefined;
-const appLog: string[] = [];
-
-async function stopApp() {
-  if (!app || app.exitCode !== null || app.signalCode !== null) return;
-  const exited = new Promise<void>((r) => app!.once("exit", () => r()));
-  // SIGINT to the whole group: start.ts stops its services, PostgreSQL does a fast shutdown.
-  process.kill(-app.pid!, "SIGINT");
-  const timer = setTimeout(() => process.kill(-app!.pid!, "SIGKILL"), 30_000);
-  await exited;
-  clearTimeout(timer);
-}
+const app = benchApp("load", { port: PORT, pg: 54359, s3: 4599, smtp: 2555, oidc: 4610 }, say);
 
 // ---------------------------------------------------------------------------------------------
 // The peer page (tests/bench/peer): the same framework and server, five plain `pg` reads, a table
@@ -97,21 +64,6 @@ async function startPeer(databaseUrl: string, processes: number) {
 
 function stopPeer() {
   if (peer && peer.exitCode === null && peer.signalCode === null) process.kill(-peer.pid!, "SIGTERM");
-}
-
-async function waitForHealth(timeoutMs: number) {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    if (app?.exitCode !== null && app?.exitCode !== undefined) throw new Error(`the app exited during start-up:\n${appLog.slice(-30).join("")}`);
-    try {
-      const res = await fetch(`${ORIGIN}/healthz`);
-      if (res.ok) return;
-    } catch {
-      // not listening yet
-    }
-    if (Date.now() > deadline) throw new Error(`no healthy app on ${ORIGIN} after ${timeoutMs / 1000} s:\n${appLog.slice(-30).join("")}`);
-    await new Promise((r) => setTimeout(r, 250));
-  }
 }
 
 function children(pid: number): number[] {
@@ -379,27 +331,15 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`- The same case with ${b.cases} load cases: solve ${ms(b.solveMs)} ms, PDF ${ms(b.renderMs)} ms (${b.pages} pages, ${(b.bytes / 1024).toFixed(0)} KiB); **${((b.solveMs + b.renderMs) / 1000).toFixed(2)} s**.`);
   out(MARK_END);
 
-  const file = path.join(root, "docs", "benchmarks.md");
-  const existing = fs.existsSync(file) ? fs.readFileSync(file, "utf8") : "";
-  const section = lines.join("\n");
-  const a = existing.indexOf(MARK_START);
-  const z = existing.indexOf(MARK_END);
-  const next = a >= 0 && z > a ? existing.slice(0, a) + section + existing.slice(z + MARK_END.length) : `${existing.trimEnd()}\n\n${section}\n`;
-  fs.writeFileSync(file, next);
+  const file = writeDocsSection(MARK_START, MARK_END, lines.join("\n"));
   say(`wrote its section of ${path.relative(process.cwd(), file)}`);
 }
 
 // ---------------------------------------------------------------------------------------------
 
 async function main() {
-  const t0 = performance.now();
-  app = spawn(path.join(root, "node_modules", ".bin", "tsx"), ["app/server/start.ts"], { cwd: root, env: appEnv, detached: true, stdio: ["ignore", "pipe", "pipe"] });
-  app.stdout!.on("data", (b: Buffer) => appLog.push(b.toString()));
-  app.stderr!.on("data", (b: Buffer) => appLog.push(b.toString()));
-  say(`starting the app on ${ORIGIN} (data in ${dataDir})…`);
-  await waitForHealth(300_000);
-  const startupS = (performance.now() - t0) / 1000;
-  const pid = serverPid(app.pid!);
+  const startupS = await app.start();
+  const pid = serverPid(app.pid()!);
   say(`healthy after ${startupS.toFixed(1)} s; server PID ${pid}, RSS ${rssMiB(pid).toFixed(0)} MiB`);
 
   const cookie = await signIn();
@@ -419,7 +359,7 @@ async function main() {
   for (const t of targets) await warm(`${ORIGIN}${t.path}`, { method: t.method ?? "GET", headers: t.headers, body: t.body });
 
   const processes = Math.min(os.availableParallelism(), 4);
-  await startPeer(`postgres://postgres@127.0.0.1:${appEnv.PG_PORT}/spanwright`, processes);
+  await startPeer(app.databaseUrl, processes);
   const peerPath = `/cases/${demo.id}`;
   const peerAnswer = await fetch(`${PEER_ORIGIN}${peerPath}`, { headers: auth });
   const peerPage = await peerAnswer.text();
@@ -442,7 +382,7 @@ async function main() {
   overall.max = Math.max(overall.start, overall.end, ...runs.map((r) => r.rss.max));
 
   say("timing report generation…");
-  const reportsTiming = await timeReports(`postgres://postgres@127.0.0.1:${appEnv.PG_PORT}/spanwright`);
+  const reportsTiming = await timeReports(app.databaseUrl);
   say(`demo report ${(reportsTiming.demo.snapshotMs + reportsTiming.demo.renderMs).toFixed(0)} ms; 500 cases ${(reportsTiming.big.solveMs + reportsTiming.big.renderMs).toFixed(0)} ms`);
   writeSection(runs, overall, reportsTiming, startupS, startLoad, { pair, processes, load: `${startLoad.split(" (")[0]} at the start, ${peerLoad} at the end` });
 }
@@ -450,13 +390,11 @@ async function main() {
 main()
   .then(async () => {
     stopPeer();
-    await stopApp();
-    fs.rmSync(dataDir, { recursive: true, force: true });
+    await app.stop();
   })
   .catch(async (error: unknown) => {
     console.error(`[load] ${error instanceof Error ? error.message : String(error)}`);
     stopPeer();
-    await stopApp();
-    fs.rmSync(dataDir, { recursive: true, force: true });
+    await app.stop();
     process.exitCode = 1;
   });

@@ -2,7 +2,7 @@
 // measured in the same run: writes its section of docs/benchmarks.md. Run with `npm run bench`;
 // `npx tsx tests/bench/run.ts --only dense,cli` runs some sections and only prints them.
 import { execFileSync, spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import { join } from "node:path";
 import { performance } from "node:perf_hooks";
@@ -17,6 +17,7 @@ import { solveMach } from "../../app/engine/superposition";
 import { parseCase } from "../../app/exchange/parse";
 import { runCase } from "../../app/exchange/run";
 import type { MachSolution, SolveOptions, WingModel } from "../../app/engine/superposition";
+import { writeDocsSection } from "./bench-app";
 import { NUMPY_MISSING, numpyPython, runPeer } from "./numpy";
 
 const root = join(import.meta.dirname, "..", "..");
@@ -429,18 +430,10 @@ if (runs("cli")) cliSection();
 out(MARK_END);
 if (only) process.exit(0);
 {
-  // Replace this script's section, keep the rest (the load benchmark's section and the notes).
-  const file = join(root, "docs", "benchmarks.md");
-  const existing = existsSync(file) ? readFileSync(file, "utf8") : "";
-  const a = existing.indexOf(MARK_START);
-  const b = existing.indexOf(MARK_END);
-  const mine = lines.join("\n");
-  let text: string;
-  if (a >= 0 && b > a) text = existing.slice(0, a) + mine + existing.slice(b + MARK_END.length);
-  else {
-    // First run with markers: this script's part was everything before the load benchmark.
+  // Replace this script's section, keep the rest (the load and browser benchmarks' sections and the notes);
+  // on a first run with markers this script's part was everything before the load benchmark.
+  writeDocsSection(MARK_START, MARK_END, lines.join("\n"), (existing) => {
     const load = existing.indexOf("<!-- load benchmark");
-    text = mine + "\n\n" + (load >= 0 ? existing.slice(load) : existing);
-  }
-  writeFileSync(file, text.replace(/\n*$/, "\n"));
+    return `${lines.join("\n")}\n\n${load >= 0 ? existing.slice(load) : existing}`.replace(/\n*$/, "\n");
+  });
 }
