@@ -9,7 +9,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { DEMO_CASE_INPUTS } from "~/demo/scenario";
-import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
+import { cases, caseSteps } from "~/db/schema";
 import { isa } from "~/engine";
 import { parseCase, runCase } from "~/exchange";
 import { action as basisAction, loader as basisLoader } from "~/routes/cases/basis";
@@ -19,7 +19,7 @@ import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase, resultsFor } from "~/services/analysis.server";
 import { stepsFromCaseFile } from "~/services/case-import.server";
 import type { VnSet } from "~/services/envelope.server";
-import { cookieFor, form, request, run, seed } from "./helpers";
+import { cookieFor, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
 
 const G0 = 9.80665;
 const FT = 0.3048;
@@ -28,18 +28,11 @@ let engineer = "";
 
 const post = (path: string, fields: Record<string, string>) => request(path, { method: "POST", cookie: engineer, body: form(fields) });
 
-async function counts() {
-  return { steps: (await db.select().from(caseSteps)).length, revisions: (await db.select().from(stepRevisions)).length, audit: (await db.select().from(auditLog)).length };
-}
-
 const d = DEMO_CASE_INPUTS;
 const flaps = d.sections.flaps;
 
 function sectionsFields(revision: string, extra: Record<string, string> = {}) {
-  const out: Record<string, string> = { intent: "save", revision };
-  d.sections.rows.forEach((r, i) => Object.assign(out, Object.fromEntries(Object.entries(r).map(([k, v]) => [`rows.${i}.${k}`, String(v)]))));
-  for (const [k, v] of Object.entries(flaps)) out[`flaps.${k}`] = String(v);
-  return { ...out, ...extra };
+  return { ...demoSectionsFields(revision, { flaps: flaps }), ...extra };
 }
 
 function basisFields(revision: string, extra: Record<string, string> = {}) {
@@ -53,8 +46,7 @@ beforeAll(async () => {
   engineer = await cookieFor("engineer");
   const [empty] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-002"));
   caseId = empty!.id;
-  const planform: Record<string, string> = { revision: "0", axisRoot: String(d.planform.axisRoot), axisTip: String(d.planform.axisTip) };
-  d.planform.stations.forEach((s, i) => Object.assign(planform, { [`stations.${i}.y`]: String(s.y), [`stations.${i}.xLe`]: String(s.xLe), [`stations.${i}.chord`]: String(s.chord), [`stations.${i}.twist`]: String(s.twist) }));
+  const planform = demoPlanformFields();
   expect((await run(planformAction, { request: post(`/cases/${caseId}/planform`, planform), params: { caseId } })).status).toBe(200);
 });
 
@@ -64,22 +56,22 @@ describe("flap inputs refused with the field named, nothing written", () => {
     ["a flap without its Δcm", { "flaps.dCmAc": "" }, "flaps.dCmAc", /Flap Δcm,ac must be a number/],
     ["a flap zero-lift change beyond ±20°", { "flaps.dAlphaL0": "-25" }, "flaps.dAlphaL0", /within ±20°/],
   ])("sections: %s", async (_label, change, field, message) => {
-    const before = await counts();
+    const before = await stepWriteCounts();
     const res = await run(sectionsAction, { request: post(`/cases/${caseId}/sections`, sectionsFields("0", change)), params: { caseId } });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors[field]?.join(" ")).toMatch(message);
-    expect(await counts()).toEqual(before);
+    expect(await stepWriteCounts()).toEqual(before);
   });
 
   it.each([
     ["VF without the CLmax with flaps", { clMaxFlaps: "" }, "clMaxFlaps", /VF and the CLmax with flaps go together/],
     ["VF above VD", { vf: "160" }, "vf", /VF must lie above VS1 and below VD/],
   ])("basis: %s", async (_label, change, field, message) => {
-    const before = await counts();
+    const before = await stepWriteCounts();
     const res = await run(basisAction, { request: post(`/cases/${caseId}/basis`, basisFields("0", change)), params: { caseId } });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors[field]?.join(" ")).toMatch(message);
-    expect(await counts()).toEqual(before);
+    expect(await stepWriteCounts()).toEqual(before);
   });
 });
 

@@ -1,7 +1,8 @@
 import pg from "pg";
 import { vi } from "vitest";
 import { db } from "~/db/client.server";
-import { DEMO_USERS, type DemoUser } from "~/demo/scenario";
+import { auditLog, caseSteps, stepRevisions } from "~/db/schema";
+import { DEMO_CASE_INPUTS, DEMO_USERS, type DemoUser } from "~/demo/scenario";
 import { seedDemo } from "~/demo/seed.server";
 import { RouterContextProvider } from "react-router";
 import { signInWithPassword } from "~/auth/auth.server";
@@ -102,3 +103,24 @@ export async function queriesOf(work: () => Promise<unknown>): Promise<string[]>
 
 /** Of those, the reads of the steps' data column itself (a digest of it is md5("data"::text)). */
 export const readsStepData = (sent: string[]) => sent.filter((text) => text.includes('"case_steps"') && /"data"(?!::text)/.test(text));
+
+/** Rows of the tables a step's save writes: equal before and after a refused post means nothing was written. */
+export async function stepWriteCounts() {
+  return { steps: (await db.select().from(caseSteps)).length, revisions: (await db.select().from(stepRevisions)).length, audit: (await db.select().from(auditLog)).length };
+}
+
+/** The demo planform as the planform page posts it. */
+export function demoPlanformFields(revision = "0"): Record<string, string> {
+  const p = DEMO_CASE_INPUTS.planform;
+  const out: Record<string, string> = { revision, axisRoot: String(p.axisRoot), axisTip: String(p.axisTip) };
+  p.stations.forEach((s, i) => Object.assign(out, { [`stations.${i}.y`]: String(s.y), [`stations.${i}.xLe`]: String(s.xLe), [`stations.${i}.chord`]: String(s.chord), [`stations.${i}.twist`]: String(s.twist) }));
+  return out;
+}
+
+/** The demo section rows as the sections page posts them, with the named panels (flaps, aileron) as dotted fields. */
+export function demoSectionsFields(revision: string, panels: Record<string, Record<string, unknown>> = {}): Record<string, string> {
+  const out: Record<string, string> = { intent: "save", revision };
+  DEMO_CASE_INPUTS.sections.rows.forEach((r, i) => Object.assign(out, Object.fromEntries(Object.entries(r).map(([k, v]) => [`rows.${i}.${k}`, String(v)]))));
+  for (const [panel, fields] of Object.entries(panels)) for (const [k, v] of Object.entries(fields)) out[`${panel}.${k}`] = String(v);
+  return out;
+}

@@ -9,7 +9,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { DEMO_CASE_INPUTS } from "~/demo/scenario";
-import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
+import { cases, caseSteps } from "~/db/schema";
 import { balanceTailLoad, dynamicPressure, solveMach, wingAerodynamicCentre, wingPitchingMoment } from "~/engine";
 import { parseCase, runCase, wingModelOf } from "~/exchange";
 import { loader as caseLoadsLoader } from "~/routes/api/case-loads-breakdown";
@@ -19,16 +19,12 @@ import { action as massesAction, loader as massesLoader } from "~/routes/cases/m
 import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase } from "~/services/analysis.server";
-import { cookieFor, form, request, run, seed, routeArgs } from "./helpers";
+import { cookieFor, demoPlanformFields, form, request, run, seed, routeArgs, stepWriteCounts } from "./helpers";
 
 const G0 = 9.80665;
 let caseId = "";
 let engineer = "";
 let checker = "";
-
-async function counts() {
-  return { steps: (await db.select().from(caseSteps)).length, revisions: (await db.select().from(stepRevisions)).length, audit: (await db.select().from(auditLog)).length };
-}
 
 const post = (path: string, fields: Record<string, string>, cookie = engineer) => request(path, { method: "POST", cookie, body: form(fields) });
 
@@ -56,8 +52,7 @@ beforeAll(async () => {
   const [empty] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-002"));
   caseId = empty!.id;
   const d = DEMO_CASE_INPUTS;
-  const planform: Record<string, string> = { revision: "0", axisRoot: String(d.planform.axisRoot), axisTip: String(d.planform.axisTip) };
-  d.planform.stations.forEach((s, i) => Object.assign(planform, { [`stations.${i}.y`]: String(s.y), [`stations.${i}.xLe`]: String(s.xLe), [`stations.${i}.chord`]: String(s.chord), [`stations.${i}.twist`]: String(s.twist) }));
+  const planform = demoPlanformFields();
   expect((await run(planformAction, { request: post(`/cases/${caseId}/planform`, planform), params: { caseId } })).status).toBe(200);
   const sections: Record<string, string> = { intent: "save", revision: "0" };
   d.sections.rows.forEach((r, i) => Object.assign(sections, Object.fromEntries(Object.entries(r).map(([k, v]) => [`rows.${i}.${k}`, String(v)]))));
@@ -78,18 +73,18 @@ describe("the masses step refuses bad input with the field named, and writes not
     ["half a balance", { cmBody: "" }, "cmBody", /Give both the wing–body Cm increment and the tail arm/],
   ];
   it.each(bad)("%s", async (_label, change, field, message) => {
-    const before = await counts();
+    const before = await stepWriteCounts();
     const res = await run(massesAction, { request: post(`/cases/${caseId}/masses`, massesFields(DEMO_CASE_INPUTS.masses, "0", change)), params: { caseId } });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors[field]?.join(" ")).toMatch(message);
-    expect(await counts()).toEqual(before);
+    expect(await stepWriteCounts()).toEqual(before);
   });
 
   it("refuses a checker", async () => {
-    const before = await counts();
+    const before = await stepWriteCounts();
     const res = await run(massesAction, { request: post(`/cases/${caseId}/masses`, massesFields(DEMO_CASE_INPUTS.masses, "0"), checker), params: { caseId } });
     expect(res.status).toBe(403);
-    expect(await counts()).toEqual(before);
+    expect(await stepWriteCounts()).toEqual(before);
   });
 });
 

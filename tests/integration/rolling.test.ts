@@ -10,7 +10,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { DEMO_CASE_INPUTS } from "~/demo/scenario";
-import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
+import { cases, caseSteps } from "~/db/schema";
 import { attributionOf, parseCase, runCase } from "~/exchange";
 import { action as basisAction, loader as basisLoader } from "~/routes/cases/basis";
 import { action as envelopeAction } from "~/routes/cases/envelope";
@@ -18,7 +18,7 @@ import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase, resultsFor } from "~/services/analysis.server";
 import { stepsFromCaseFile } from "~/services/case-import.server";
-import { cookieFor, form, request, run, seed } from "./helpers";
+import { cookieFor, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
 
 const G0 = 9.80665;
 const LB = 0.45359237;
@@ -27,18 +27,11 @@ let engineer = "";
 
 const post = (path: string, fields: Record<string, string>) => request(path, { method: "POST", cookie: engineer, body: form(fields) });
 
-async function counts() {
-  return { steps: (await db.select().from(caseSteps)).length, revisions: (await db.select().from(stepRevisions)).length, audit: (await db.select().from(auditLog)).length };
-}
-
 const d = DEMO_CASE_INPUTS;
 const aileron = d.sections.aileron;
 
 function sectionsFields(revision: string, extra: Record<string, string> = {}) {
-  const out: Record<string, string> = { intent: "save", revision };
-  d.sections.rows.forEach((r, i) => Object.assign(out, Object.fromEntries(Object.entries(r).map(([k, v]) => [`rows.${i}.${k}`, String(v)]))));
-  for (const [k, v] of Object.entries(aileron)) out[`aileron.${k}`] = String(v);
-  return { ...out, ...extra };
+  return { ...demoSectionsFields(revision, { aileron: aileron }), ...extra };
 }
 
 function basisFields(revision: string) {
@@ -57,8 +50,7 @@ beforeAll(async () => {
   engineer = await cookieFor("engineer");
   const [empty] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-002"));
   caseId = empty!.id;
-  const planform: Record<string, string> = { revision: "0", axisRoot: String(d.planform.axisRoot), axisTip: String(d.planform.axisTip) };
-  d.planform.stations.forEach((s, i) => Object.assign(planform, { [`stations.${i}.y`]: String(s.y), [`stations.${i}.xLe`]: String(s.xLe), [`stations.${i}.chord`]: String(s.chord), [`stations.${i}.twist`]: String(s.twist) }));
+  const planform = demoPlanformFields();
   expect((await run(planformAction, { request: post(`/cases/${caseId}/planform`, planform), params: { caseId } })).status).toBe(200);
 });
 
@@ -69,11 +61,11 @@ describe("aileron inputs refused with the field named, nothing written", () => {
     ["a nose-up moment for a down-going aileron", { "aileron.dCmPerDeg": "0.01" }, "aileron.dCmPerDeg", /between −0\.05 and 0/],
     ["no deflection at VA", { "aileron.deltaAtVa": "" }, "aileron.deltaAtVa", /Aileron deflection at VA/],
   ])("sections: %s", async (_label, change, field, message) => {
-    const before = await counts();
+    const before = await stepWriteCounts();
     const res = await run(sectionsAction, { request: post(`/cases/${caseId}/sections`, sectionsFields("0", change)), params: { caseId } });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors[field]?.join(" ")).toMatch(message);
-    expect(await counts()).toEqual(before);
+    expect(await stepWriteCounts()).toEqual(before);
   });
 });
 

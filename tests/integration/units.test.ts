@@ -7,7 +7,7 @@ import { action as basisAction, loader as basisLoader } from "~/routes/cases/bas
 import { action as envelopeAction } from "~/routes/cases/envelope";
 import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
-import { cookieFor, form, request, run, seed } from "./helpers";
+import { cookieFor, demoPlanformFields, demoSectionsFields, form, request, run, seed } from "./helpers";
 
 let caseId = "";
 let cookie = "";
@@ -65,12 +65,8 @@ describe("text stored with a generated case carries no unit, so it reads alike i
   it("generates the cases of a basis kept in US customary units with rule texts free of unit-bearing numbers, and the basis checks lead with psf", async () => {
     const d = DEMO_CASE_INPUTS;
     const post = (path: string, fields: Record<string, string>) => request(path, { method: "POST", cookie, body: form(fields) });
-    const planform: Record<string, string> = { revision: "0", axisRoot: String(d.planform.axisRoot), axisTip: String(d.planform.axisTip) };
-    d.planform.stations.forEach((st, i) => Object.assign(planform, { [`stations.${i}.y`]: String(st.y), [`stations.${i}.xLe`]: String(st.xLe), [`stations.${i}.chord`]: String(st.chord), [`stations.${i}.twist`]: String(st.twist) }));
-    expect((await run(planformAction, { request: post(`/cases/${caseId}/planform`, planform), params: { caseId } })).status).toBe(200);
-    const sections: Record<string, string> = { intent: "save", revision: "0" };
-    d.sections.rows.forEach((r, i) => Object.assign(sections, Object.fromEntries(Object.entries(r).map(([k, v]) => [`rows.${i}.${k}`, String(v)]))));
-    expect((await run(sectionsAction, { request: post(`/cases/${caseId}/sections`, sections), params: { caseId } })).status).toBe(200);
+    expect((await run(planformAction, { request: post(`/cases/${caseId}/planform`, demoPlanformFields()), params: { caseId } })).status).toBe(200);
+    expect((await run(sectionsAction, { request: post(`/cases/${caseId}/sections`, demoSectionsFields("0")), params: { caseId } })).status).toBe(200);
     const [basisRow] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "basis")));
     // The demo basis typed in US units (1 lb = 0.45359237 kg, 1 kt = 1852/3600 m/s, 1 ft = 0.3048 m: NIST SP 811).
     const b = d.basis;
