@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { dynamicPressure } from "../engine/atmosphere";
-import { parseCase } from "./parse";
 import { runCase } from "./run";
+import { parsed, problems } from "./test-helpers";
 
 // wing.flaps and cases[].flaps (docs/exchange-format.md): a case with flaps is solved on the wing with
 // the flap's section increments over the flapped span. Expected values come from the superposition of
@@ -23,18 +23,6 @@ const doc = () => ({
     { id: "flaps", mach: 0.2, altitude: 0, weight: 60000, nz: 2, flaps: true } as Record<string, unknown>,
   ],
 });
-
-function parsed(d: unknown) {
-  const r = parseCase(d);
-  if (!r.ok) throw new Error(JSON.stringify(r.problems));
-  return r.value;
-}
-
-function problems(d: unknown) {
-  const r = parseCase(d);
-  if (r.ok) throw new Error("expected problems");
-  return Object.fromEntries(r.problems.map((p) => [p.path, p.message]));
-}
 
 describe("flaps extended in the exchange contract", () => {
   it("a full-span flap at the same lift changes only the section moments: root torsion by q·c²·s·Δcm/β, shear and bending unchanged", () => {

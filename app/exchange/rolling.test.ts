@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { dynamicPressure } from "../engine/atmosphere";
-import { parseCase } from "./parse";
 import { runCase } from "./run";
+import { parsed, problems } from "./test-helpers";
 import { resultToCsv } from "./csv";
 
 // wing.aileron and cases[].roll (docs/exchange-format.md): a rolling case's loaded side carries the full
@@ -28,18 +28,6 @@ const doc = () => ({
     { id: "even", mach: 0.3, altitude: 0, weight: 60000, nz: 2, roll: { fraction: 1, aileron: 12 } } as Record<string, unknown>,
   ],
 });
-
-function parsed(d: unknown) {
-  const r = parseCase(d);
-  if (!r.ok) throw new Error(JSON.stringify(r.problems));
-  return r.value;
-}
-
-function problems(d: unknown) {
-  const r = parseCase(d);
-  if (r.ok) throw new Error("expected problems");
-  return Object.fromEntries(r.problems.map((p) => [p.path, p.message]));
-}
 
 describe("rolling cases in the exchange contract", () => {
   it("root loads of both sides: shear by equilibrium, torsion from the section moments, plus or minus the aileron's increments", () => {

@@ -19,7 +19,7 @@ import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase, resultsFor } from "~/services/analysis.server";
 import { stepsFromCaseFile } from "~/services/case-import.server";
 import type { VnSet } from "~/services/envelope.server";
-import { cookieFor, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
+import { cookieFor, demoBasisFields, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
 
 const G0 = 9.80665;
 const FT = 0.3048;
@@ -36,9 +36,7 @@ function sectionsFields(revision: string, extra: Record<string, string> = {}) {
 }
 
 function basisFields(revision: string, extra: Record<string, string> = {}) {
-  const b = d.basis;
-  const keys = ["mtow", "mzfw", "minWeight", "vs1", "va", "vb", "vc", "vd", "wingArea", "clMax", "clMaxNegative", "vf", "clMaxFlaps"] as const;
-  return { revision, units: "SI", category: b.category, regulations: b.regulations, altitudes: b.altitudes.join(", "), ...Object.fromEntries(keys.map((k) => [k, String(b[k])])), ...extra };
+  return { ...demoBasisFields(revision, ["vf", "clMaxFlaps"]), ...extra };
 }
 
 beforeAll(async () => {

@@ -124,3 +124,10 @@ export function demoSectionsFields(revision: string, panels: Record<string, Reco
   for (const [panel, fields] of Object.entries(panels)) for (const [k, v] of Object.entries(fields)) out[`${panel}.${k}`] = String(v);
   return out;
 }
+
+/** The demo basis as the basis page posts it, in SI, with any further fields of the basis named (VF, CLmax with flaps). */
+export function demoBasisFields(revision: string, more: readonly ("vf" | "clMaxFlaps")[] = []): Record<string, string> {
+  const b = DEMO_CASE_INPUTS.basis;
+  const keys = ["mtow", "mzfw", "minWeight", "vs1", "va", "vb", "vc", "vd", "wingArea", "clMax", "clMaxNegative", ...more] as const;
+  return { revision, units: "SI", category: b.category, regulations: b.regulations, altitudes: b.altitudes.join(", "), ...Object.fromEntries(keys.map((k) => [k, String(b[k])])) };
+}

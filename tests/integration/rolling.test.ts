@@ -18,7 +18,7 @@ import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { exportCase, resultsFor } from "~/services/analysis.server";
 import { stepsFromCaseFile } from "~/services/case-import.server";
-import { cookieFor, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
+import { cookieFor, demoBasisFields, demoPlanformFields, demoSectionsFields, form, request, run, seed, stepWriteCounts } from "./helpers";
 
 const G0 = 9.80665;
 const LB = 0.45359237;
@@ -35,9 +35,7 @@ function sectionsFields(revision: string, extra: Record<string, string> = {}) {
 }
 
 function basisFields(revision: string) {
-  const b = d.basis;
-  const keys = ["mtow", "mzfw", "minWeight", "vs1", "va", "vb", "vc", "vd", "wingArea", "clMax", "clMaxNegative"] as const;
-  return { revision, units: "SI", category: b.category, regulations: b.regulations, altitudes: b.altitudes.join(", "), ...Object.fromEntries(keys.map((k) => [k, String(b[k])])) };
+  return demoBasisFields(revision);
 }
 
 async function stepRow(step: "envelope" | "sections") {
