@@ -36,6 +36,8 @@ test("the V–n page shows the rolling points and the loads page both sides of a
   const picker = page.getByLabel("Case shown on the plots");
   await expect(picker).toBeVisible({ timeout: 180_000 });
   await picker.selectOption({ value: "W1-roll-VC" });
+  // The case first shown may itself be a rolling case (the demo's critical one is): wait for the chosen one.
+  await expect(page.getByText("Both sides of rolling case W1-roll-VC", { exact: true })).toBeVisible({ timeout: 120_000 });
   const sides = page.getByRole("table", { name: "Root loads of both sides of the rolling case" });
   await expect(sides).toBeVisible({ timeout: 120_000 });
   await expect(sides.getByRole("row").filter({ hasText: "Loaded side" })).toContainText("° down");
