@@ -4,11 +4,12 @@ import PgBoss from "pg-boss";
 export const QUEUES = { generateReport: "report.generate", computeResults: "results.compute", analyze: "analysis.run", auditCheckpoint: "audit.checkpoint", rerunReport: "report.rerun", ruleSensitivity: "sensitivity.compute" } as const;
 
 /**
- * Queues asked again and again while their work is pending (the distribution page asks each second)
- * hold at most one waiting job per singleton key ("short"): asking again adds none, and a job lost
- * after its retries is sent again by the next ask.
+ * Queues asked again and again while their work is pending (the distribution page asks each second,
+ * the loads page and the results API on every request) hold at most one waiting job per singleton
+ * key ("short"): asking again adds none, and a job lost after its retries is sent again by the next
+ * ask. pg-boss 10's "standard" policy ignores a singleton key without singletonSeconds.
  */
-const QUEUE_POLICY: Partial<Record<(typeof QUEUES)[keyof typeof QUEUES], "short">> = { [QUEUES.ruleSensitivity]: "short" };
+const QUEUE_POLICY: Partial<Record<(typeof QUEUES)[keyof typeof QUEUES], "short">> = { [QUEUES.ruleSensitivity]: "short", [QUEUES.computeResults]: "short" };
 
 /** How often the audit trail's heads are anchored outside the database (cron, UTC). */
 export const AUDIT_CHECKPOINT_CRON = "*/15 * * * *";
@@ -26,7 +27,12 @@ export function boss(): Promise<PgBoss> {
     const instance = new PgBoss({ connectionString: url, max: 4 });
     instance.on("error", (error) => console.warn(`job queue: ${error.message}`));
     await instance.start();
-    for (const name of Object.values(QUEUES)) await instance.createQueue(name, { name, policy: QUEUE_POLICY[name] ?? "standard" });
+    for (const name of Object.values(QUEUES)) {
+      const policy = QUEUE_POLICY[name] ?? "standard";
+      await instance.createQueue(name, { name, policy });
+      // createQueue leaves a queue that exists as it was: one made before its policy changed gets the new one.
+      if ((await instance.getQueue(name))?.policy !== policy) await instance.updateQueue(name, { name, policy });
+    }
     return instance;
   })().catch((error: unknown) => {
     globalForBoss.__spanwrightBoss = undefined;

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { programmes, resultProgress, users } from "~/db/schema";
 import { parseCase, runCase, type CaseFileInput } from "~/exchange";
-import { stopBoss } from "~/jobs/boss.server";
+import { boss, QUEUES, stopBoss } from "~/jobs/boss.server";
 import { startWorkers } from "~/jobs/workers.server";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { analysisInputHash, exportCase, sweepProgress } from "~/services/analysis.server";
@@ -47,6 +47,9 @@ describe("large sweeps go through the job queue", () => {
     // Before a worker takes it, the answer says so and how many cases there are.
     expect(waiting.progress).toEqual({ phase: "queued", solves: 0, casesDone: 0, casesTotal: 600 });
     expect(waiting.message).toBe("600 load cases wait for a background worker. Ask again in a moment.");
+    // Asked again and again while it waits (the page polls): one waiting job for the input, not one per ask.
+    for (let i = 0; i < 3; i++) expect((await ask()).status).toBe(202);
+    expect(await (await boss()).getQueueSize(QUEUES.computeResults)).toBe(1);
     // As a worker records its progress, every web process answers with it (set here as a worker would).
     await db.update(resultProgress).set({ phase: "cases", solves: 6, casesDone: 300 }).where(eq(resultProgress.caseId, caseId));
     const halfway = (await (await ask()).json()) as { message: string; progress: unknown };
@@ -68,4 +71,11 @@ describe("large sweeps go through the job queue", () => {
     const progress = await sweepProgress(caseId, analysisInputHash(parsed.value));
     expect(progress).toMatchObject({ phase: "done", solves: 6, casesDone: 600, casesTotal: 600 });
   }, 60_000);
+
+  it("a results queue made before its policy changed holds one waiting job per input too, once the app starts again", async () => {
+    // As an installation from before the change has it: the queue made with pg-boss's standard policy.
+    await (await boss()).updateQueue(QUEUES.computeResults, { name: QUEUES.computeResults, policy: "standard" });
+    await stopBoss();
+    expect((await (await boss()).getQueue(QUEUES.computeResults))?.policy).toBe("short");
+  });
 });
