@@ -3,6 +3,7 @@
 // with autocannon at 50 connections, samples the server's RSS every second, times report
 // generation, stops the app, and writes its section of docs/benchmarks.md. `npm run bench` runs it
 // after tests/bench/run.ts; alone: `npx tsx tests/bench/load.ts [--duration 30]`.
+// LOAD_BENCH_PORT_BASE moves its ports (default 3300) so that it can run beside other checkouts.
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -17,9 +18,11 @@ const REACT_ROUTER_VERSION = (JSON.parse(fs.readFileSync(path.join(import.meta.d
 const durationArg = process.argv.indexOf("--duration");
 const DURATION_S = durationArg > 0 ? Number(process.argv[durationArg + 1]) : 30;
 const CONNECTIONS = 50;
-const PORT = 3300;
+const PORT = Number(process.env.LOAD_BENCH_PORT_BASE ?? 3300);
 const ORIGIN = `http://127.0.0.1:${PORT}`;
 const PAGE_P95_TARGET_MS = 150;
+/** Every request asks for a compressed answer, as a browser does, of the app and the peer alike. */
+const ACCEPT_ENCODING = { "accept-encoding": "gzip, br" };
 const MARK_START = "<!-- load benchmark: written by tests/bench/load.ts -->";
 const MARK_END = "<!-- end of load benchmark -->";
 
@@ -30,7 +33,7 @@ function say(line: string) {
 // ---------------------------------------------------------------------------------------------
 // The app under test
 
-const app = benchApp("load", { port: PORT, pg: 54359, s3: 4599, smtp: 2555, oidc: 4610 }, say);
+const app = benchApp("load", { port: PORT, pg: PORT + 51_059, s3: PORT + 1_299, smtp: PORT - 745, oidc: PORT + 1_310 }, say);
 
 // ---------------------------------------------------------------------------------------------
 // The peer page (tests/bench/peer): the same framework and server, five plain `pg` reads, a table
@@ -145,10 +148,11 @@ function percentile(sorted: number[], p: number): number {
 
 async function load(name: string, kind: Run["kind"], pid: number, opts: { path: string; method?: "GET" | "POST"; headers: Record<string, string>; body?: string; origin?: string }): Promise<Run> {
   const origin = opts.origin ?? ORIGIN;
+  const headers = { ...ACCEPT_ENCODING, ...opts.headers };
   const single: number[] = [];
   for (let i = 0; i < 20; i++) {
     const t0 = performance.now();
-    await (await fetch(`${origin}${opts.path}`, { method: opts.method ?? "GET", headers: opts.headers, body: opts.body })).arrayBuffer();
+    await (await fetch(`${origin}${opts.path}`, { method: opts.method ?? "GET", headers, body: opts.body })).arrayBuffer();
     single.push(performance.now() - t0);
   }
   single.sort((a, b) => a - b);
@@ -158,7 +162,7 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
   const instance = autocannon({
     url: `${origin}${opts.path}`,
     method: opts.method ?? "GET",
-    headers: opts.headers,
+    headers,
     body: opts.body,
     connections: CONNECTIONS,
     duration: DURATION_S,
@@ -287,7 +291,8 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`\`tsx app/server/start.ts\` (with its own PostgreSQL, S3 stand-in, mail capture and sign-in stand-in, the job worker, and ${Math.min(os.availableParallelism(), 4)} web processes —`);
   out("one per core, the default of `WEB_PROCESSES`), on");
   out(`127.0.0.1, driven by autocannon from the same machine: ${CONNECTIONS} connections for ${DURATION_S} s per row, signed in as the demo`);
-  out("engineer (session cookie from `POST /login`). Latencies are of every response, from autocannon's per-response timings.");
+  out("engineer (session cookie from `POST /login`), every request asking for a compressed answer as a browser does (`Accept-Encoding: gzip, br`; the");
+  out("app and the peer answer brotli). Latencies are of every response, from autocannon's per-response timings.");
   out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
   out(`the load generator and the app share the two cores. App start-up to a healthy /healthz: ${startupS.toFixed(1)} s.`);
   out();
