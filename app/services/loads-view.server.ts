@@ -2,7 +2,7 @@ import { LRUCache } from "lru-cache";
 import { criticalCase, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { currentAnalysisInput, resultsOrQueue } from "./analysis.server";
+import { currentAnalysisInput, resultsOrQueue, type CaseInputs } from "./analysis.server";
 import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
 
 /** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
@@ -33,6 +33,12 @@ export type LoadsViewAnswer = { pending: true; cases: number; progress: SweepPro
 // so an entry is never stale); a few large results at most are kept.
 const ranked = new LRUCache<string, { result: CaseResult; order: Omit<ResultCase, "stations">[] }>({ max: 4 });
 
+// Mass case, kind and balance of the cases every view of one result lists (balancing solves the wing
+// at their Mach numbers), kept per content of the steps: `inputs` is the object fromCurrentSteps hands
+// out for exactly that content (the result, hence the listed cases, follow from it), so anything
+// written to a step gives a new one and the entry goes with the old.
+const listedInfo = new WeakMap<CaseInputs, LoadsPageInfo>();
+
 /** The loads page's view of a case's current results, or how far their computation has got. */
 export async function loadsView(caseId: string, title: string, actorId: string, requested: string | null): Promise<LoadsViewAnswer> {
   const { file, sections, inputHash, parsed, inputs } = await currentAnalysisInput(caseId, title);
@@ -50,8 +56,14 @@ export async function loadsView(caseId: string, title: string, actorId: string, 
   const current = (requested ? all.find((c) => c.id === requested) : undefined) ?? criticalCase(all);
   const cases = mostCritical(entry.order, MAX_ROOT_ROWS);
   const envelope = entry.result.envelope;
-  const shown = new Set([current.id, ...cases.map((c) => c.id), ...envelope.flatMap((row) => Object.entries(row).filter(([k, v]) => k.endsWith("Case") && typeof v === "string").map(([, v]) => v as string))]);
-  return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope, cases, current, info: loadsPageInfo(parsed, inputs, shown) };
+  const listed = new Set([...cases.map((c) => c.id), ...envelope.flatMap((row) => Object.entries(row).filter(([k, v]) => k.endsWith("Case") && typeof v === "string").map(([, v]) => v as string))]);
+  let info = listedInfo.get(inputs);
+  if (!info) listedInfo.set(inputs, (info = loadsPageInfo(parsed, inputs, listed)));
+  if (!listed.has(current.id)) {
+    const own = loadsPageInfo(parsed, inputs, new Set([current.id]));
+    info = { cases: { ...info.cases, ...own.cases }, balance: [...info.balance, ...own.balance] };
+  }
+  return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope, cases, current, info };
 }
 
 /**

@@ -1,15 +1,23 @@
 import fs from "node:fs";
 import { eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { programmes, users } from "~/db/schema";
+import { caseSteps, programmes, users } from "~/db/schema";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/loads";
 import { computeQueuedResults } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
+import * as masses from "~/services/masses.server";
 import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
+
+// Every balance of trimmed cases goes through balanceRows: the cases it is handed are counted here.
+vi.mock("~/services/masses.server", async (importOriginal) => {
+  const actual = await importOriginal<typeof masses>();
+  return { ...actual, balanceRows: vi.fn(actual.balanceRows) };
+});
+const balanced = () => vi.mocked(masses.balanceRows).mock.calls.reduce((n, [file]) => n + file.cases.length, 0);
 
 // The loads page of a large case file gets the envelope, the root loads of the most critical cases
 // and the case on the plots, not the whole result document (which stays the results API's).
@@ -75,5 +83,27 @@ describe("what the loads page itself sends for a large case file", () => {
     // Every case of this file is trimmed (weight and nz): each listed one has its balance row, no other.
     expect(new Set(view.info.balance.map((b) => b.caseId))).toEqual(named);
     expect(named.size).toBeLessThan(CASES);
+  });
+});
+
+describe("the balance of the listed cases is worked out once per content of the steps", () => {
+  it("a repeated request balances no case again, another case only itself, and a change to the steps balances afresh", async () => {
+    const view = async (query = "") => (await (await get(`/api/cases/${caseId}/loads${query}`, loadsLoader)).json()) as { cases: { id: string }[]; info: { balance: { caseId: string }[] } };
+    const first = await view();
+    const before = balanced();
+    const again = await view();
+    // Before: every listed case (500 and those the envelope names) balanced again on every request.
+    expect(balanced() - before).toBe(0);
+    expect(again.info).toEqual(first.info);
+    // A case not listed: its own row only, beside the listed ones.
+    const unlisted = Array.from({ length: CASES }, (_, i) => `v${i}`).find((id) => !first.info.balance.some((b) => b.caseId === id))!;
+    const other = await view(`?case=${unlisted}`);
+    expect(balanced() - before).toBe(1);
+    expect(new Set(other.info.balance.map((b) => b.caseId))).toEqual(new Set([...first.info.balance.map((b) => b.caseId), unlisted]));
+    // Anything written to a step (here a note of the loads step, by hand, as any other path could) is seen at once.
+    await db.insert(caseSteps).values({ caseId, step: "loads", data: { notes: "Balanced afresh." } });
+    const mid = balanced();
+    await view();
+    expect(balanced() - mid).toBeGreaterThan(0);
   });
 });
