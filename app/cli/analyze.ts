@@ -6,6 +6,7 @@ import { DIRECT_MACH_LIMIT, runCase } from "../exchange/run";
 import type { SectionsFile } from "../exchange/sections";
 import { parseSections } from "../exchange/sections";
 import type { RunProgress } from "../exchange/run";
+import { writeResultJson } from "../exchange/result-json";
 
 const USAGE = "usage: npm run -s analyze -- [--csv] [--quiet] [--sections SECTIONS.json] CASE.json   (use - to read one of them from stdin)";
 /** Sweeps from this many cases (or with a Mach grid) report their progress on stderr. */
@@ -84,9 +85,8 @@ function main(argv: string[]): void {
         : "done",
     );
   }
-  // Two writes rather than one concatenation: the document can be tens of megabytes.
-  process.stdout.write(csv ? resultToCsv(result) : JSON.stringify(result));
-  if (!csv) process.stdout.write("\n");
+  if (csv) process.stdout.write(resultToCsv(result));
+  else writeResultJson(result, (text) => process.stdout.write(text));
 }
 
 main(process.argv.slice(2));
