@@ -1,6 +1,6 @@
 import { createContext, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import type { StepKey } from "~/domain/vocabulary";
-import { getCaseStepStates, getCaseSteps, type StepMeta, type StepState } from "~/services/case-steps.server";
+import { getCaseStepStates, getCaseSteps, getCaseStepsOf, type StepMeta, type StepState } from "~/services/case-steps.server";
 import { getCase } from "~/services/programmes.server";
 import { readSession, type SessionState } from "./session.server";
 
@@ -17,6 +17,8 @@ interface RequestReads {
   session(): Promise<SessionState>;
   case(organisationId: string, caseId: string): Promise<CaseRecord | null>;
   steps(caseId: string): Promise<Record<StepKey, StepState>>;
+  /** The named steps only (the whole read when this request already made it). */
+  stepsOf<K extends StepKey>(caseId: string, keys: readonly K[]): Promise<Record<K, StepState>>;
   /** The steps' states without their data (header, step rail, overview); the whole read when this request already made it. */
   stepStates(caseId: string): Promise<Record<StepKey, StepMeta>>;
 }
@@ -38,6 +40,7 @@ export const requestReads: MiddlewareFunction<Response> = ({ request, context },
     session: () => once("session", () => readSession(request)),
     case: (organisationId, caseId) => once(`case:${organisationId}:${caseId}`, () => getCase(organisationId, caseId)),
     steps: (caseId) => once(`steps:${caseId}`, () => getCaseSteps(caseId)),
+    stepsOf: (caseId, keys) => once.made<Record<StepKey, StepState>>(`steps:${caseId}`) ?? once(`steps:${caseId}:${keys.join()}`, () => getCaseStepsOf(caseId, keys)),
     stepStates: (caseId) => once.made<Record<StepKey, StepState>>(`steps:${caseId}`) ?? once(`step-states:${caseId}`, () => getCaseStepStates(caseId)),
   });
   return next();

@@ -1,4 +1,4 @@
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import type { z } from "zod";
 import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, prepared, type Db, type Tx } from "~/db/client.server";
@@ -27,7 +27,20 @@ export async function getCaseSteps(caseId: string, database: Db | Tx = db): Prom
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))
     .where(eq(caseSteps.caseId, caseId));
-  return stepsOf(rows);
+  return stepsOf(rows, STEP_KEYS);
+}
+
+/**
+ * The named steps of a case with their data, and no other: a page reads the steps it shows, not the
+ * rest (an envelope of 100 000 load cases is megabytes of JSON to send, parse and check).
+ */
+export async function getCaseStepsOf<K extends StepKey>(caseId: string, keys: readonly K[], database: Db | Tx = db): Promise<Record<K, StepState>> {
+  const rows = await database
+    .select({ row: caseSteps, updatedByName: users.name })
+    .from(caseSteps)
+    .leftJoin(users, eq(users.id, caseSteps.updatedBy))
+    .where(and(eq(caseSteps.caseId, caseId), inArray(caseSteps.step, [...keys])));
+  return stepsOf(rows, keys);
 }
 
 /**
@@ -46,7 +59,7 @@ export async function getCaseStepsDigested(caseId: string): Promise<{ steps: Rec
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))
     .where(eq(caseSteps.caseId, caseId));
-  return { steps: stepsOf(rows), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest }))) };
+  return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest }))) };
 }
 
 const dataDigest = sql<string | null>`md5(${caseSteps.data}::text)`;
@@ -65,9 +78,9 @@ function digestOf(rows: { step: string; digest: string | null }[]): string {
     .join(";");
 }
 
-function stepsOf(rows: { row: CaseStep; updatedByName: string | null }[]): Record<StepKey, StepState> {
-  const out = {} as Record<StepKey, StepState>;
-  for (const key of STEP_KEYS) {
+function stepsOf<K extends StepKey>(rows: { row: CaseStep; updatedByName: string | null }[], keys: readonly K[]): Record<K, StepState> {
+  const out = {} as Record<K, StepState>;
+  for (const key of keys) {
     const found = rows.find((r) => r.row.step === key);
     out[key] = found
       ? { step: key, revision: found.row.revision, status: found.row.status, data: found.row.data, updatedAt: found.row.updatedAt, updatedByName: found.updatedByName }
@@ -104,7 +117,7 @@ export async function getCaseStepStates(caseId: string): Promise<Record<StepKey,
 }
 
 /** The stored data of one step, parsed with its schema, or null when the step has not been saved. */
-export function stepData<K extends StepKey>(steps: Record<StepKey, StepState>, key: K) {
+export function stepData<K extends StepKey>(steps: Readonly<Record<NoInfer<K>, StepState>>, key: K) {
   const raw = steps[key].data;
   if (!raw) return null;
   const parsed = STEP_SCHEMAS[key].safeParse(raw);
@@ -112,7 +125,7 @@ export function stepData<K extends StepKey>(steps: Record<StepKey, StepState>, k
 }
 
 /** The display units chosen in the case's basis (SI until a basis is saved). */
-export function caseUnits(steps: Record<StepKey, StepState>): UnitSystem {
+export function caseUnits(steps: Readonly<Record<"basis", StepState>>): UnitSystem {
   return stepData(steps, "basis")?.units ?? "SI";
 }
 

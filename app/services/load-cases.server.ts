@@ -2,7 +2,8 @@ import { sql } from "drizzle-orm";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { DomainError } from "~/domain/errors";
 import type { Actor } from "~/domain/people";
-import { EnvelopeSchema, LoadCaseSchema, type LoadCase } from "~/domain/step-data";
+import type { CaseStep } from "~/db/schema";
+import { EnvelopeSchema, LoadCaseSchema, type EnvelopeData, type LoadCase } from "~/domain/step-data";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
 import { getCaseSteps, saveStep, stepData } from "./case-steps.server";
 
@@ -43,6 +44,40 @@ export async function loadCaseWindow(caseId: string, offset: number, limit: numb
     offset,
     cases: (row.cases ?? []).map((c) => LoadCaseSchema.parse(c)),
   };
+}
+
+/** The stored envelope step as a page shows it without reading all its load cases. */
+export interface EnvelopeOutline {
+  revision: number;
+  status: CaseStep["status"];
+  /** Load cases in the stored envelope. */
+  total: number;
+  /**
+   * The method with the cases read (all of them, or the first rows of a larger file), checked with
+   * the step's schema; null when the step is not saved or what was read is not valid.
+   */
+  data: EnvelopeData | null;
+}
+
+/**
+ * The envelope step's method and its number of load cases, with every case when there are at most
+ * `whole` and otherwise the first `first` (at least one, so that the method is checked with the
+ * step's own schema). PostgreSQL counts and picks the rows out of the stored document: the basis
+ * and envelope pages of a case of 100 000 load cases do not read, parse and check them all.
+ */
+export async function envelopeOutline(caseId: string, rows: { first: number; whole: number }, database: Db | Tx = db): Promise<EnvelopeOutline> {
+  const first = Math.max(1, rows.first);
+  const result = await database.execute<{ revision: number; status: CaseStep["status"]; method: Record<string, unknown> | null; total: number; cases: unknown[] | null }>(sql`
+    with s as materialized (select revision, status, data - 'cases' as method, data -> 'cases' as cases from case_steps where case_id = ${caseId} and step = 'envelope'),
+      n as (select coalesce(jsonb_array_length(s.cases), 0)::int as total from s)
+    select s.revision, s.status, s.method, n.total,
+      case when n.total <= ${rows.whole}::int then s.cases
+        else (select jsonb_agg(s.cases -> i order by i) from generate_series(0, least(${first}::int, n.total) - 1) as i) end as cases
+    from s, n`);
+  const row = result.rows[0];
+  if (!row) return { revision: 0, status: "empty", total: 0, data: null };
+  const parsed = row.method ? EnvelopeSchema.safeParse({ ...row.method, cases: row.cases ?? [] }) : null;
+  return { revision: row.revision, status: row.status, total: row.total, data: parsed?.success ? parsed.data : null };
 }
 
 export interface LoadCaseEdits {

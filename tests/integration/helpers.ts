@@ -101,6 +101,23 @@ export async function queriesOf(work: () => Promise<unknown>): Promise<string[]>
   return sent;
 }
 
+/** Characters of the row values PostgreSQL sent while `work` runs (text, before pg parses them: JSON, numbers…). */
+export async function rowTextOf(work: () => Promise<unknown>): Promise<number> {
+  let received = 0;
+  const query = pg.Query.prototype as unknown as { handleDataRow(msg: { fields: (string | null)[] }): void };
+  const handle = query.handleDataRow;
+  const spy = vi.spyOn(query, "handleDataRow").mockImplementation(function (this: unknown, msg) {
+    for (const field of msg.fields) received += field?.length ?? 0;
+    return handle.call(this, msg);
+  });
+  try {
+    await work();
+  } finally {
+    spy.mockRestore();
+  }
+  return received;
+}
+
 /** Of those, the reads of the steps' data column itself (a digest of it is md5("data"::text)). */
 export const readsStepData = (sent: string[]) => sent.filter((text) => text.includes('"case_steps"') && /"data"(?!::text)/.test(text));
 

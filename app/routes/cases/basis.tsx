@@ -13,6 +13,7 @@ import { BasisSchema } from "~/domain/step-data";
 import { basisChecks } from "~/services/basis.server";
 import { stepData } from "~/services/case-steps.server";
 import { flapsChecks, rollingChecks, vbChecks } from "~/services/envelope.server";
+import { envelopeOutline } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
@@ -22,8 +23,9 @@ import { BASIS_QUANTITIES, basisFormValues, BasisFormSchema } from "./basis.sche
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  // The envelope's method only (its first row checks it), not its load cases.
+  const [steps, envelope] = await Promise.all([readStepsOf(["basis", "planform", "sections"]), envelopeOutline(c.id, { first: 1, whole: 0 })]);
   const saved = stepData(steps, "basis");
   return {
     caseId: c.id,
@@ -31,7 +33,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     status: steps.basis.status,
     values: basisFormValues(saved),
     saved,
-    derived: saved ? [...basisChecks(saved), ...vbChecks(saved, stepData(steps, "planform"), stepData(steps, "sections"), stepData(steps, "envelope") ?? { compressibility: "prandtl-glauert", spanwise: "vortex-lattice" }), ...flapsChecks(saved, stepData(steps, "sections")), ...rollingChecks(saved, stepData(steps, "sections"))] : null,
+    derived: saved ? [...basisChecks(saved), ...vbChecks(saved, stepData(steps, "planform"), stepData(steps, "sections"), envelope.data ?? { compressibility: "prandtl-glauert", spanwise: "vortex-lattice" }), ...flapsChecks(saved, stepData(steps, "sections")), ...rollingChecks(saved, stepData(steps, "sections"))] : null,
     canEdit: hasPermission(current.roles, "case:edit") && steps.basis.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "basis"),
   };

@@ -11,9 +11,9 @@ import { PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { EnvelopeSchema } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
-import { caseUnits } from "~/services/case-steps.server";
+import { caseUnits, stepData } from "~/services/case-steps.server";
 import { regeneratedCases, vnView } from "~/services/envelope.server";
-import { editLoadCases } from "~/services/load-cases.server";
+import { editLoadCases, envelopeOutline } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
 import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
@@ -23,26 +23,26 @@ import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues, MAX_
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  // A large case file is not read, nor sent, whole: the page carries the first rows, the grid fetches the rest as they scroll into view.
+  const [steps, envelope] = await Promise.all([readStepsOf(["basis", "planform", "sections", "masses"]), envelopeOutline(c.id, { first: FIRST_ROWS, whole: WHOLE_GRID_LOAD_CASES })]);
   const units = caseUnits(steps);
-  const inputs = caseInputs(steps);
+  const inputs = { basis: stepData(steps, "basis"), planform: stepData(steps, "planform"), sections: stepData(steps, "sections"), masses: stepData(steps, "masses"), envelope: envelope.data };
   const vn = vnView(inputs, DEFAULT_METHOD);
-  const values = envelopeFormValues(inputs.envelope, units);
-  const total = values.cases.length;
-  // A large case file is not sent whole: the page carries the first rows, the grid fetches the rest as they scroll into view.
+  const values = envelopeFormValues(envelope.data, units);
+  const total = envelope.data ? envelope.total : 0;
   const windowed = total > WHOLE_GRID_LOAD_CASES;
   return {
     caseId: c.id,
     units,
-    revision: steps.envelope.revision,
-    status: steps.envelope.status,
+    revision: envelope.revision,
+    status: envelope.status,
     values: windowed ? { ...values, cases: [] } : values,
     window: windowed ? { total, rows: values.cases.slice(0, FIRST_ROWS) } : null,
     sets: vn.sets,
     vnProblem: vn.problem,
     stall: inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null,
-    canEdit: hasPermission(current.roles, "case:edit") && steps.envelope.status !== "submitted",
+    canEdit: hasPermission(current.roles, "case:edit") && envelope.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "envelope"),
   };
 }

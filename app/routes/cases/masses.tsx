@@ -7,7 +7,6 @@ import { useZodForm } from "~/components/forms/use-zod-form";
 import { Alert, PageHeader } from "~/components/ui/page-header";
 import { hasPermission } from "~/domain/permissions";
 import { MassesSchema } from "~/domain/step-data";
-import { caseInputs } from "~/services/analysis.server";
 import { caseUnits, stepData } from "~/services/case-steps.server";
 import { effectiveMasses, itemsOutsideWing, massesOverview } from "~/services/masses.server";
 import { fieldErrorsOf } from "~/utils/form-data";
@@ -19,10 +18,10 @@ import { MassesFormSchema, massesFormValues, massesToSI } from "./masses.schema"
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { current, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readStepsOf(["basis", "planform", "masses", "loads"]);
   const units = caseUnits(steps);
-  const inputs = caseInputs(steps);
+  const inputs = { basis: stepData(steps, "basis"), masses: stepData(steps, "masses"), loads: stepData(steps, "loads") };
   const masses = effectiveMasses(inputs);
   const planform = stepData(steps, "planform");
   return {

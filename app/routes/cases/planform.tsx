@@ -20,8 +20,8 @@ import { PlanformFormSchema, planformFormValues, planformToSI } from "./planform
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readStepsOf(["basis", "planform"]);
   const units = caseUnits(steps);
   const saved = stepData(steps, "planform");
   return {

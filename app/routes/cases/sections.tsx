@@ -21,8 +21,8 @@ import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
+  const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  const steps = await readStepsOf(["basis", "planform", "sections"]);
   const saved = stepData(steps, "sections");
   const units = caseUnits(steps);
   return {
