@@ -1,3 +1,5 @@
+import { promisify } from "node:util";
+import zlib from "node:zlib";
 import { and, desc, eq } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
@@ -379,24 +381,51 @@ export async function resultsOrQueue(
 // function of exactly those, so an entry can never be stale; the bound keeps the process's memory flat.
 const resultDocuments = new LRUCache<string, Uint8Array<ArrayBuffer>>({ maxSize: 64 * 2 ** 20, sizeCalculation: (bytes) => bytes.byteLength || 1 });
 
+const brotli = promisify(zlib.brotliCompress);
+const gzip = promisify(zlib.gzip);
+/** Compressed once per document (on libuv's threads), so a quality above the middleware's per-answer 4 is affordable. */
+const compressors = {
+  br: (bytes: Uint8Array) => brotli(bytes, { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 6, [zlib.constants.BROTLI_PARAM_SIZE_HINT]: bytes.byteLength } }),
+  gzip: (bytes: Uint8Array) => gzip(bytes, { level: 6 }),
+};
+// Compressions under way, so that the answers asked for at the same time share one.
+const compressing = new Map<string, Promise<Uint8Array<ArrayBuffer>>>();
+
 /**
- * As resultsOrQueue, with the `spanwright.result/1` document already serialised to UTF-8: the API
- * sends the same bytes for the same input without reading, re-encoding and re-serialising the
- * stored result every time.
+ * As resultsOrQueue, with the `spanwright.result/1` document already serialised to UTF-8 and, when
+ * the client takes it, compressed: the API sends the same bytes for the same input without reading,
+ * re-encoding, re-serialising and re-compressing the stored result every time (brotli of a 1.8 MB
+ * document costs tens of milliseconds of CPU per answer).
  */
 export async function resultJsonOrQueue(
   caseId: string,
   input: AnalysisInput,
   actorId: string | null,
-): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: Uint8Array<ArrayBuffer>; inputHash: string }> {
+  encoding: keyof typeof compressors | null = null,
+): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: Uint8Array<ArrayBuffer>; encoding: keyof typeof compressors | null; inputHash: string }> {
   const key = `${caseId}:${input.inputHash}:${ENGINE_VERSION}`;
-  const hit = resultDocuments.get(key);
-  if (hit) return { pending: false, json: hit, inputHash: input.inputHash };
-  const answer = await resultsOrQueue(caseId, input.file, actorId, input.sections);
-  if (answer.pending) return answer;
-  const json = Buffer.from(JSON.stringify(answer.result));
-  resultDocuments.set(key, json);
-  return { pending: false, json, inputHash: answer.inputHash };
+  let json = resultDocuments.get(key);
+  if (!json) {
+    const answer = await resultsOrQueue(caseId, input.file, actorId, input.sections);
+    if (answer.pending) return answer;
+    json = Buffer.from(JSON.stringify(answer.result));
+    resultDocuments.set(key, json);
+  }
+  if (!encoding) return { pending: false, json, encoding, inputHash: input.inputHash };
+  const encodedKey = `${key}:${encoding}`;
+  let encoded = resultDocuments.get(encodedKey);
+  if (!encoded) {
+    let pending = compressing.get(encodedKey);
+    if (!pending) {
+      const source = json;
+      pending = compressors[encoding](source).then((out) => new Uint8Array(out.buffer, out.byteOffset, out.byteLength) as Uint8Array<ArrayBuffer>);
+      compressing.set(encodedKey, pending);
+      void pending.finally(() => compressing.delete(encodedKey)).catch(() => {});
+    }
+    encoded = await pending;
+    resultDocuments.set(encodedKey, encoded);
+  }
+  return { pending: false, json: encoded, encoding, inputHash: input.inputHash };
 }
 
 /** The job: solve and store the case's current results (idempotent: stored results are reused). */

@@ -1,3 +1,4 @@
+import Negotiator from "negotiator";
 import { data } from "react-router";
 import type { z } from "zod";
 import { DomainError, type DomainErrorKind } from "~/domain/errors";
@@ -147,4 +148,14 @@ export const CLIENT_ADDRESS_HEADER = "x-spanwright-client-address";
 
 export function clientAddress(request: Request): string {
   return request.headers.get(CLIENT_ADDRESS_HEADER) ?? "unknown";
+}
+
+// negotiator 1.x breaks ties between equal weights by a preferred order; @types/negotiator describes 0.6, without it.
+const negotiateEncoding = Negotiator.prototype.encoding as (this: Negotiator, available: readonly string[], options: { preferred: readonly string[] }) => string | undefined;
+
+/** The compression a client takes for a body the server keeps compressed (brotli first on a tie, as the compression middleware), or null. */
+export function acceptedEncoding(request: Request): "br" | "gzip" | null {
+  const negotiator = new Negotiator({ headers: { "accept-encoding": request.headers.get("accept-encoding") ?? "identity" } });
+  const chosen = negotiateEncoding.call(negotiator, ["br", "gzip", "identity"], { preferred: ["br", "gzip"] });
+  return chosen === "br" || chosen === "gzip" ? chosen : null;
 }

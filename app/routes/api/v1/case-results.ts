@@ -5,7 +5,7 @@ import { ENGINE_VERSION } from "~/engine";
 import { currentAnalysisInput, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import { DomainError } from "~/domain/errors";
-import { apiRefusal } from "~/utils/http.server";
+import { acceptedEncoding, apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-results";
 import { filenameOf } from "./case-export";
 import { apiHandler, methodNotAllowed, notFoundJson } from "./respond.server";
@@ -25,7 +25,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
     const input = await currentAnalysisInput(found.case.id, found.case.title);
-    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, input, current.user.id) : await resultsOrQueue(found.case.id, input.file, current.user.id, input.sections);
+    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, input, current.user.id, acceptedEncoding(request)) : await resultsOrQueue(found.case.id, input.file, current.user.id, input.sections);
     if (answer.pending) {
       const p = answer.progress;
       return Response.json(
@@ -40,10 +40,13 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     // The result is fixed by its input and the engine version, so they name it: a client that keeps
     // this version itself is answered 304 without the body. Browsers and proxies keep nothing
     // (no-store): results are an organisation's records.
-    const etag = `"${ENGINE_VERSION}-${answer.inputHash}-${format}"`;
-    const headers = { "X-Spanwright-Input-Sha256": answer.inputHash, ETag: etag, "Cache-Control": "no-store" };
+    // The JSON goes out compressed once and kept (Content-Encoding set here, so the middleware leaves it);
+    // each encoding is a representation of its own, with its own tag.
+    const encoding = "json" in answer ? answer.encoding : null;
+    const etag = `"${ENGINE_VERSION}-${answer.inputHash}-${format}${encoding ? `-${encoding}` : ""}"`;
+    const headers = { "X-Spanwright-Input-Sha256": answer.inputHash, ETag: etag, "Cache-Control": "no-store", ...(format === "json" ? { Vary: "Accept-Encoding" } : {}) };
     if (request.headers.get("If-None-Match")?.split(/\s*,\s*/).includes(etag)) return new Response(null, { status: 304, headers });
-    if ("json" in answer) return new Response(answer.json, { headers: { ...headers, "Content-Type": "application/json" } });
+    if ("json" in answer) return new Response(answer.json, { headers: { ...headers, "Content-Type": "application/json", ...(encoding ? { "Content-Encoding": encoding } : {}) } });
     return new Response(resultToCsv(answer.result), {
       headers: { ...headers, "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${filenameOf(found.case.reference)}-results.csv"` },
     });

@@ -1,0 +1,71 @@
+import zlib from "node:zlib";
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it, vi } from "vitest";
+import { db } from "~/db/client.server";
+import { cases } from "~/db/schema";
+import { loader as resultsLoader } from "~/routes/api/v1/case-results";
+import { cookieFor, request, routeArgs, seed } from "./helpers";
+import { startHttpApp } from "./http-harness";
+
+// The results document is large (megabytes for a large case) and the same for the same input: it is
+// compressed once and kept, not again for every answer. What goes out decompresses to the document.
+
+let caseId = "";
+let cookie = "";
+
+beforeAll(async () => {
+  await seed();
+  const [c] = await db.select({ id: cases.id }).from(cases).where(eq(cases.reference, "TN-WL-001"));
+  caseId = c!.id;
+  cookie = await cookieFor("engineer");
+});
+
+const ask = async (acceptEncoding?: string) =>
+  (await resultsLoader((await routeArgs(request(`/api/v1/cases/${caseId}/results`, { cookie, headers: acceptEncoding ? { "Accept-Encoding": acceptEncoding } : {} }), { caseId })) as never)) as Response;
+
+describe("the results document as the client takes it", () => {
+  it("is answered brotli- or gzip-compressed as asked, decompressing to the plain document, compressed once", async () => {
+    const plain = await ask();
+    expect(plain.status).toBe(200);
+    expect(plain.headers.get("Content-Encoding")).toBeNull();
+    const document = Buffer.from(await plain.arrayBuffer());
+    expect(JSON.parse(document.toString("utf8"))).toHaveProperty("cases");
+
+    const brotli = vi.spyOn(zlib, "brotliCompress");
+    const br = await ask("gzip, deflate, br");
+    expect(br.headers.get("Content-Encoding")).toBe("br");
+    expect(br.headers.get("Vary")).toBe("Accept-Encoding");
+    const brBody = Buffer.from(await br.arrayBuffer());
+    expect(brBody.length).toBeLessThan(document.length);
+    expect(zlib.brotliDecompressSync(brBody).equals(document)).toBe(true);
+    // Asked again: the same bytes, not compressed again.
+    const calls = brotli.mock.calls.length;
+    const again = await ask("br");
+    expect(Buffer.from(await again.arrayBuffer()).equals(brBody)).toBe(true);
+    expect(brotli.mock.calls.length).toBe(calls);
+    brotli.mockRestore();
+
+    const gz = await ask("gzip");
+    expect(gz.headers.get("Content-Encoding")).toBe("gzip");
+    expect(zlib.gunzipSync(Buffer.from(await gz.arrayBuffer())).equals(document)).toBe(true);
+    // Each representation has its own tag, so a client's kept copy is matched to what it holds.
+    expect(new Set([plain.headers.get("ETag"), br.headers.get("ETag"), gz.headers.get("ETag")]).size).toBe(3);
+    // Refused or unknown codings: the plain document.
+    expect((await ask("br;q=0, gzip;q=0")).headers.get("Content-Encoding")).toBeNull();
+    expect((await ask("compress")).headers.get("Content-Encoding")).toBeNull();
+  });
+
+  it("goes out over HTTP as the route compressed it, once (the compression middleware leaves it)", async () => {
+    const app = await startHttpApp();
+    try {
+      const res = await app.get(`/api/v1/cases/${caseId}/results`, { Cookie: cookie, "Accept-Encoding": "br" });
+      expect(res.status).toBe(200);
+      expect(res.headers.get("Content-Encoding")).toBe("br");
+      // fetch undoes one brotli layer: a second one, by the middleware, would leave no JSON here.
+      const plain = Buffer.from(await (await ask()).arrayBuffer());
+      expect(Buffer.from(await res.arrayBuffer()).equals(plain)).toBe(true);
+    } finally {
+      await app.close();
+    }
+  });
+});
