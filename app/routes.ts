@@ -40,6 +40,8 @@ export default [
   route("dev/mailbox", "routes/dev/mailbox.tsx"),
   route("api/planform-preview", "routes/api/planform-preview.ts"),
   route("api/cases/:caseId/distribution", "routes/api/case-distribution.ts"),
+  route("api/cases/:caseId/flagged-cases", "routes/api/case-flagged-cases.ts"),
+  route("api/cases/:caseId/load-case-search", "routes/api/case-load-case-search.ts"),
   route("api/cases/:caseId/rule-sensitivity", "routes/api/case-rule-sensitivity.ts"),
   route("api/cases/:caseId/spanwise-methods", "routes/api/case-spanwise-methods.ts"),
   route("api/cases/:caseId/load-cases", "routes/api/case-load-cases.ts"),

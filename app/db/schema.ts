@@ -253,11 +253,13 @@ export const resultProgress = pgTable(
     caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
     inputHash: text("input_hash").notNull(),
     engineVersion: text("engine_version").notNull(),
-    /** queued: waiting for a worker; solving: spanwise solves; cases: evaluating the cases; done: stored. */
-    phase: text().$type<"queued" | "solving" | "cases" | "done">().default("queued").notNull(),
+    /** queued: waiting for a worker; solving: spanwise solves; cases: evaluating the cases; done: stored; failed: the engine refused it. */
+    phase: text().$type<"queued" | "solving" | "cases" | "done" | "failed">().default("queued").notNull(),
     solves: integer().default(0).notNull(),
     casesDone: integer("cases_done").default(0).notNull(),
     casesTotal: integer("cases_total").notNull(),
+    /** Why the engine refused it, in its words (phase failed): said on the page instead of waiting for ever. */
+    problem: text(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
   },
   (t) => [primaryKey({ columns: [t.caseId, t.inputHash, t.engineVersion] })],

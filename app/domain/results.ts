@@ -11,7 +11,7 @@ export function criticalCase<C extends Pick<ResultCase, "root">>(cases: readonly
 
 /** How far a background sweep has got, as the results API answers it while the result is not stored yet. */
 export interface SweepProgressView {
-  phase: "queued" | "solving" | "cases" | "done";
+  phase: "queued" | "solving" | "cases" | "done" | "failed";
   solves: number;
   casesDone: number;
   casesTotal: number;
@@ -26,6 +26,7 @@ export function sweepProgressText(p: SweepProgressView | null, cases: number): s
   if (!p || p.phase === "queued") return `${all} wait for a background worker.`;
   if (p.phase === "solving") return `${all}: ${count(p.solves)} spanwise solve${p.solves === 1 ? "" : "s"} made so far.`;
   if (p.phase === "cases") return `${all}: spanwise solves done (${count(p.solves)}); ${count(p.casesDone)} of ${count(p.casesTotal)} cases evaluated.`;
+  if (p.phase === "failed") return `${all}: the engine refused the case file.`;
   return `${all}: solved; storing the result.`;
 }
 
@@ -34,3 +35,14 @@ export function sweepFraction(p: SweepProgressView | null): number {
   if (!p || p.casesTotal <= 0) return 0;
   return p.phase === "done" ? 1 : p.phase === "cases" ? Math.min(1, p.casesDone / p.casesTotal) : 0;
 }
+
+/** Why a case is flagged on the distribution page: the engineer dispositions each flagged case. */
+export const FLAG_REASONS = ["supercritical", "stall", "critical-mach-basis"] as const;
+export type FlagReason = (typeof FLAG_REASONS)[number];
+
+/** Each reason in a few words, for the summary by reason and its bulk disposition. */
+export const FLAG_REASON_LABELS: Record<FlagReason, string> = {
+  supercritical: "At or above the critical Mach number",
+  stall: "cl over the section clmax",
+  "critical-mach-basis": "Critical Mach number not reliable at the case's lift",
+};

@@ -16,8 +16,8 @@ export async function startWorkers(): Promise<void> {
     if (!job) return;
     await generateReport(job.data.reportId, { retryCount: job.retryCount, retryLimit: job.retryLimit });
   });
-  await queue.work<{ caseId: string }>(QUEUES.computeResults, { pollingIntervalSeconds: 1 }, async ([job]) => {
-    if (job) await computeQueuedResults(job.data.caseId);
+  await queue.work<{ caseId: string; scope?: "envelope" | "final" }>(QUEUES.computeResults, { pollingIntervalSeconds: 1 }, async ([job]) => {
+    if (job) await computeQueuedResults(job.data.caseId, undefined, job.data.scope);
   });
   await queue.work<{ jobId: string }>(QUEUES.analyze, { pollingIntervalSeconds: 1 }, async ([job]) => {
     if (job) await runAnalysisJob(job.data.jobId);

@@ -250,10 +250,12 @@ export async function resultsFor(
 
 /** How far the job worker has got with a sweep: its phase, the spanwise solves made and the cases evaluated. */
 export interface SweepProgress {
-  phase: "queued" | "solving" | "cases" | "done";
+  phase: "queued" | "solving" | "cases" | "done" | "failed";
   solves: number;
   casesDone: number;
   casesTotal: number;
+  /** Why the engine refused the input (phase failed), else null. */
+  problem: string | null;
   updatedAt: Date;
 }
 
@@ -277,7 +279,7 @@ export async function sweepProgress(caseId: string, inputHash: string): Promise<
     .select()
     .from(resultProgress)
     .where(and(eq(resultProgress.caseId, caseId), eq(resultProgress.inputHash, inputHash), eq(resultProgress.engineVersion, ENGINE_VERSION)));
-  return row ? { phase: row.phase, solves: row.solves, casesDone: row.casesDone, casesTotal: row.casesTotal, updatedAt: row.updatedAt } : null;
+  return row ? { phase: row.phase, solves: row.solves, casesDone: row.casesDone, casesTotal: row.casesTotal, problem: row.problem, updatedAt: row.updatedAt } : null;
 }
 
 /**
@@ -323,12 +325,16 @@ const derived = new LRUCache<string, { value: unknown }>({ max: 32 });
  * reads the digest of the steps' data (not the data); a miss reads the data and their digest in one
  * read, so an entry holds exactly what its key names. A derivation that throws is not kept.
  */
-export async function fromCurrentSteps<T>(name: string, caseId: string, title: string, derive: (inputs: CaseInputs) => T): Promise<T> {
+export async function fromCurrentSteps<T>(name: string, caseId: string, title: string, derive: (inputs: CaseInputs) => T, opts: { without?: readonly (keyof CaseInputs)[] } = {}): Promise<T> {
+  // Steps the derivation does not read are left out of the key (and out of what it is handed), so saving them keeps the entry.
+  const without = opts.without ?? [];
   const key = (digest: string) => `${name}\n${caseId}\n${title}\n${digest}`;
-  const hit = derived.get(key(await getCaseStepsDigest(caseId)));
+  const hit = derived.get(key(await getCaseStepsDigest(caseId, without)));
   if (hit) return hit.value as T;
-  const { steps, digest } = await getCaseStepsDigested(caseId);
-  const value = derive(caseInputs(steps));
+  const { steps, digest } = await getCaseStepsDigested(caseId, without);
+  const inputs = caseInputs(steps);
+  for (const k of without) inputs[k] = null;
+  const value = derive(inputs);
   derived.set(key(digest), { value });
   return value;
 }
@@ -346,6 +352,26 @@ export function currentAnalysisInput(caseId: string, title: string): Promise<Ana
     const parsed = parseOrThrow(file);
     return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
   });
+}
+
+/**
+ * What the distribution step examines (every case the envelope includes, dispositions aside) with its
+ * section data, checked and hashed as currentAnalysisInput, derived once per content of the steps it
+ * is built from: a saved disposition keeps it.
+ */
+export function currentDistributionInput(caseId: string, title: string): Promise<AnalysisInput> {
+  return fromCurrentSteps(
+    "distribution-input",
+    caseId,
+    title,
+    (inputs) => {
+      const file = buildCaseFile(title, inputs, "envelope");
+      const sections = buildSectionsFile(inputs);
+      const parsed = parseOrThrow(file);
+      return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
+    },
+    { without: ["distribution"] },
+  );
 }
 
 /** Sweeps larger than this are solved by a worker rather than inside the web request. */
@@ -371,10 +397,9 @@ export async function resultsOrQueue(
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .limit(1);
   if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
-  await (await boss()).send(QUEUES.computeResults, { caseId }, { singletonKey: `${caseId}:${inputHash}`, retryLimit: 2 });
-  // A first row says the sweep waits for a worker; the worker's reports then move it on.
-  await db.insert(resultProgress).values({ caseId, inputHash, engineVersion: ENGINE_VERSION, casesTotal: parsed.cases.length }).onConflictDoNothing();
-  return { pending: true, cases: file.cases.length, progress: await sweepProgress(caseId, inputHash) };
+  const progress = await queueResults(caseId, { inputHash, parsed }, "final");
+  if (progress?.phase === "failed") throw new DomainError(progress.problem ?? "The engine refused this case file.", { field: "cases", kind: "unprocessable" });
+  return { pending: true, cases: file.cases.length, progress };
 }
 
 // Result documents by case, input hash and engine version, serialised and encoded: a result is a
@@ -428,10 +453,35 @@ export async function resultJsonOrQueue(
   return { pending: false, json: encoded, encoding, inputHash: input.inputHash };
 }
 
-/** The job: solve and store the case's current results (idempotent: stored results are reused). */
-export async function computeQueuedResults(caseId: string, database: Db | Tx = db): Promise<void> {
+/**
+ * The job: solve and store the case's current results (idempotent: stored results are reused), of
+ * what the loads step uses ("final") or of every case the distribution step examines ("envelope").
+ */
+export async function computeQueuedResults(caseId: string, database: Db | Tx = db, scope: "envelope" | "final" = "final"): Promise<void> {
   const [row] = await database.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
   if (!row) return;
-  const { file, sections } = await exportCaseDocuments(caseId, row.title, database);
-  await resultsFor(caseId, file, null, sections, { recordProgress: true, database });
+  const inputs = caseInputs(await getCaseSteps(caseId, database));
+  const file = buildCaseFile(row.title, inputs, scope);
+  try {
+    await resultsFor(caseId, file, null, buildSectionsFile(inputs), { recordProgress: true, database });
+  } catch (error) {
+    // The engine's refusal is the input's, not the worker's: recorded for the pages to say, not retried.
+    if (!(error instanceof DomainError)) throw error;
+    const parsed = parseOrThrow(file);
+    await recordProgress(caseId, analysisInputHash(parsed, parseSectionsOrThrow(buildSectionsFile(inputs), parsed)), { phase: "failed", problem: error.message, casesTotal: parsed.cases.length });
+  }
+}
+
+/**
+ * Hands the sweep of a checked input to the job worker (once per input however often asked) and
+ * records that it waits; the answer is how far it has got.
+ */
+export async function queueResults(caseId: string, input: Pick<AnalysisInput, "inputHash" | "parsed">, scope: "envelope" | "final"): Promise<SweepProgress | null> {
+  const known = await sweepProgress(caseId, input.inputHash);
+  // The engine refused this input: asking again would only fail again.
+  if (known?.phase === "failed") return known;
+  await (await boss()).send(QUEUES.computeResults, { caseId, scope }, { singletonKey: `${caseId}:${input.inputHash}`, retryLimit: 2 });
+  // A first row says the sweep waits for a worker; the worker's reports then move it on.
+  await db.insert(resultProgress).values({ caseId, inputHash: input.inputHash, engineVersion: ENGINE_VERSION, casesTotal: input.parsed.cases.length }).onConflictDoNothing();
+  return sweepProgress(caseId, input.inputHash);
 }

@@ -48,18 +48,18 @@ export async function getCaseStepsOf<K extends StepKey>(caseId: string, keys: re
  * normalised text), so equal data give an equal digest whatever wrote them. Read afresh each call;
  * only the digests leave the database, not the data.
  */
-export async function getCaseStepsDigest(caseId: string): Promise<string> {
-  return digestOf(await stepDigests().execute({ caseId }));
+export async function getCaseStepsDigest(caseId: string, without: readonly StepKey[] = []): Promise<string> {
+  return digestOf(await stepDigests().execute({ caseId }), without);
 }
 
 /** Every step of a case with the digest of their data (as getCaseStepsDigest), from one read. */
-export async function getCaseStepsDigested(caseId: string): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
+export async function getCaseStepsDigested(caseId: string, without: readonly StepKey[] = []): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
   const rows = await db
     .select({ row: caseSteps, updatedByName: users.name, digest: dataDigest })
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))
     .where(eq(caseSteps.caseId, caseId));
-  return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest }))) };
+  return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest })), without) };
 }
 
 const dataDigest = sql<string | null>`md5(${caseSteps.data}::text)`;
@@ -71,8 +71,10 @@ const stepDigests = prepared((database) =>
     .prepare("case_step_digests"),
 );
 
-function digestOf(rows: { step: string; digest: string | null }[]): string {
+/** The digest of the steps' data, leaving out the steps named (a derivation that does not read them). */
+function digestOf(rows: { step: string; digest: string | null }[], without: readonly StepKey[]): string {
   return rows
+    .filter((r) => !without.includes(r.step as StepKey))
     .map((r) => `${r.step}:${r.digest ?? "-"}`)
     .sort()
     .join(";");

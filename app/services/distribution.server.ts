@@ -1,34 +1,43 @@
-import type { DistributionData } from "~/domain/step-data";
-import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
-import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
+import { and, desc, eq, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
+import { db } from "~/db/client.server";
+import { caseResults, caseSteps } from "~/db/schema";
+import { FLAG_REASON_LABELS, FLAG_REASONS, type FlagReason } from "~/domain/results";
+import { DistributionSchema, type DistributionData } from "~/domain/step-data";
+import { ENGINE_VERSION, evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
+import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type ResultCase, type ResultMethod, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
-import { buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, resultsFor, type CaseInputs } from "./analysis.server";
-import { getCaseSteps } from "./case-steps.server";
+import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
+import { currentDistributionInput, parseOrThrow, queueResults, resultsFor, SWEEP_THRESHOLD, type AnalysisInput } from "./analysis.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
 
 export interface CaseFlag {
   id: string;
   reasons: string[];
+  /** The reasons by kind, in FLAG_REASONS order: what the summary counts and a bulk disposition selects. */
+  kinds: FlagReason[];
+}
+
+/** What a case's flag is made from: the few fields of a result case that PostgreSQL hands over for a flagged case. */
+type FlagSource = Pick<ResultCase, "id" | "regime" | "mach" | "machCritical" | "warnings">;
+
+function flagOf(c: FlagSource, units: UnitSystem): CaseFlag | null {
+  const supercritical = c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : [];
+  const stall = summariseStall(c.warnings, units);
+  const doubt = c.warnings.some((w) => CRITICAL_MACH_DOUBT.test(w)) ? ["the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"] : [];
+  const kinds: FlagReason[] = [...(supercritical.length ? (["supercritical"] as const) : []), ...(stall.length ? (["stall"] as const) : []), ...(doubt.length ? (["critical-mach-basis"] as const) : [])];
+  return kinds.length ? { id: c.id, reasons: [...supercritical, ...stall, ...doubt], kinds } : null;
 }
 
 /**
  * Cases the engineer must disposition: above the critical Mach number, with stations over clMax, or whose
  * critical-Mach check rests on a single Cp,min taken far from the case's lift.
  */
-export function flaggedCases(result: CaseResult, units: UnitSystem = "SI"): CaseFlag[] {
-  return result.cases
-    .map((c) => ({
-      id: c.id,
-      reasons: [
-        ...(c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : []),
-        ...summariseStall(c.warnings, units),
-        ...c.warnings.filter((w) => CRITICAL_MACH_DOUBT.test(w)).map(() => "the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"),
-      ],
-    }))
-    .filter((f) => f.reasons.length > 0);
+export function flaggedCases(result: Pick<CaseResult, "cases">, units: UnitSystem = "SI"): CaseFlag[] {
+  return result.cases.map((c) => flagOf(c, units)).filter((f): f is CaseFlag => f !== null);
 }
 
 const CRITICAL_MACH_DOUBT = /^the critical Mach number rests on one cpMin per section/;
@@ -44,11 +53,6 @@ export function summariseStall(warnings: string[], units: UnitSystem): string[] 
   return [
     `cl exceeds the section clmax at ${hits.length} station${hits.length > 1 ? "s" : ""} (y = ${y(Math.min(...ys))}–${y(Math.max(...ys))} ${unitSymbol(units, "length")}); worst cl/clmax = ${(worst.cl / worst.clMax).toFixed(3)} at y = ${y(worst.y)} ${unitSymbol(units, "length")}`,
   ];
-}
-
-/** Flagged cases still without a disposition (exclude, or justify with a comment). */
-export function undispositioned(flags: CaseFlag[], distribution: DistributionData | null): string[] {
-  return flags.filter((f) => !distribution?.dispositions[f.id]).map((f) => f.id);
 }
 
 const RULES: CompressibilityRule[] = ["prandtl-glauert", "karman-tsien", "laitone"];
@@ -100,37 +104,205 @@ export function distributionView(input: CaseFileInput, caseId: string, sections?
     }),
     machCriticalSwept: sol.machCriticalSwept !== null && sol.machCritical !== null && loads.machCritical !== null ? (loads.machCritical * sol.machCriticalSwept) / sol.machCritical : null,
     rules: byRule.map((r) => ({ rule: r.rule, cl: r.loads.cl, cm: r.loads.cm, CL: r.loads.CL, clAlpha: r.sol.clAlphaPerRad, machCritical: r.loads.machCritical })),
-    cases: file.cases.map((c) => c.id),
   };
 }
 
 export type DistributionView = ReturnType<typeof distributionView>;
 
 /** The view with one summary line for all stations over clmax, as the page shows it. */
-export function distributionViewForPage(input: CaseFileInput, caseId: string, units: UnitSystem, sections?: SectionsFile) {
+function viewForPage(input: CaseFileInput, caseId: string, units: UnitSystem, sections?: SectionsFile) {
   const full = runEngine(() => distributionView(input, caseId, sections));
   const warnings = full.warnings.filter((w) => !w.includes("exceeds the section clMax")).map((w) => messageInUnits(w, units));
   return { ...full, warnings: [...warnings, ...summariseStall(full.warnings, units)] };
 }
 
+export type DistributionPageView = ReturnType<typeof viewForPage>;
+
 /**
- * What the distribution step shows: the flagged cases with their dispositions and the
- * distributions of one case (the one asked for, else the first flagged, else the first), or why
- * nothing can be shown yet (a step not saved, every case excluded, a case the engine refuses).
+ * The distribution of one load case of the envelope, as the page shows it. Only that case is taken
+ * out of the case's (memoised) input and checked: one case solved under each rule, not the file.
+ * @throws DomainError (not-found) for a load case the distribution step does not examine
  */
-export async function distributionStep(input: { caseId: string; title: string; inputs: CaseInputs; requested: string | null; actorId: string | null }) {
-  const dispositions = input.inputs.distribution?.dispositions ?? {};
+export async function distributionCaseView(input: { caseId: string; reference: string; title: string; loadCase: string; units: UnitSystem }): Promise<DistributionPageView> {
+  const { file, sections } = await currentDistributionInput(input.caseId, input.title);
+  const lc = file.cases.find((c) => c.id === input.loadCase);
+  if (!lc) throw new DomainError(`Case file ${input.reference} has no load case "${input.loadCase}".`, { field: "case", kind: "not-found" });
+  return viewForPage({ ...file, cases: [lc] }, lc.id, input.units, sections);
+}
+
+/** Rows of the flagged-case table the page carries; the rest come by range (flagWindow) as they scroll into view. */
+export const FIRST_FLAG_ROWS = 50;
+/** Rows one range request may ask for. */
+export const MAX_FLAG_ROWS = 500;
+/** Ids the "without a disposition" alert names; it gives the count of all. */
+export const OPEN_IDS_SHOWN = 5;
+/** Matches the case search suggests at most. */
+export const MAX_SUGGESTIONS = 20;
+
+type Disposition = DistributionData["dispositions"][string];
+
+/** A flagged case with its disposition (null while it has none), as a row of the table. */
+export interface FlagRow extends CaseFlag {
+  disposition: Disposition | null;
+}
+
+interface StoredFlags {
+  method: ResultMethod;
+  flags: CaseFlag[];
+}
+
+// Flags of a stored result by case, input hash, engine version and units: a function of exactly those,
+// so never stale; PostgreSQL reads them out of the stored result once per process.
+const flagsCache = new LRUCache<string, StoredFlags>({ max: 16 });
+
+/**
+ * The method and flagged cases of the stored result for this input, or null while none is stored.
+ * PostgreSQL hands over only the flagged cases' id, regime, Mach numbers and warnings, not the result.
+ */
+export async function storedFlags(caseId: string, inputHash: string, units: UnitSystem): Promise<StoredFlags | null> {
+  const key = `${caseId}\n${inputHash}\n${ENGINE_VERSION}\n${units}`;
+  const hit = flagsCache.get(key);
+  if (hit) return hit;
+  const [row] = await db
+    .select({ id: caseResults.id, method: sql<ResultMethod>`${caseResults.result} -> 'method'` })
+    .from(caseResults)
+    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .orderBy(desc(caseResults.computedAt))
+    .limit(1);
+  if (!row) return null;
+  const found = await db.execute<{ c: FlagSource }>(sql`
+    select jsonb_build_object('id', e -> 'id', 'regime', e -> 'regime', 'mach', e -> 'mach', 'machCritical', e -> 'machCritical', 'warnings', e -> 'warnings') as c
+    from case_results r, jsonb_array_elements(r.result -> 'cases') with ordinality as t(e, n)
+    where r.id = ${row.id} and (e ->> 'regime' = 'supercritical' or jsonb_array_length(e -> 'warnings') > 0)
+    order by n`);
+  const value = { method: row.method, flags: flaggedCases({ cases: found.rows.map((r) => r.c as ResultCase) }, units) };
+  flagsCache.set(key, value);
+  return value;
+}
+
+/** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
+async function storedDistribution(caseId: string): Promise<{ revision: number; dispositions: DistributionData["dispositions"] }> {
+  const [row] = await db.select({ revision: caseSteps.revision, data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution")));
+  const parsed = row?.data ? DistributionSchema.safeParse(row.data) : null;
+  return { revision: row?.revision ?? 0, dispositions: parsed?.success ? parsed.data.dispositions : {} };
+}
+
+const rowsOf = (flags: CaseFlag[], dispositions: DistributionData["dispositions"]): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
+
+/** How many flagged cases, and of them without a disposition, for each reason. */
+function summaryOf(flags: CaseFlag[], dispositions: DistributionData["dispositions"]) {
+  const open = flags.filter((f) => !dispositions[f.id]);
+  return {
+    flagged: flags.length,
+    open: open.length,
+    openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id),
+    byReason: FLAG_REASONS.map((reason) => ({ reason, label: FLAG_REASON_LABELS[reason], count: flags.filter((f) => f.kinds.includes(reason)).length, open: open.filter((f) => f.kinds.includes(reason)).length })).filter((r) => r.count > 0),
+  };
+}
+
+export type DistributionSummary = ReturnType<typeof summaryOf>;
+
+/**
+ * What the distribution page carries: the summary of the flagged cases (by reason, and those still
+ * without a disposition), the first rows of their table, the method and the case to show first (the
+ * one asked for, else the first flagged, else the first) — all from the stored result, without any
+ * solve. While no result is stored, the sweep is handed to the job worker and its progress answered;
+ * a step not saved or a case the engine refuses gives the reason instead.
+ */
+export async function distributionPage(input: { caseId: string; title: string; units: UnitSystem; requested: string | null }) {
   try {
-    const file = buildCaseFile(input.title, input.inputs, "envelope");
-    const sections = buildSectionsFile(input.inputs);
-    const { result } = await resultsFor(input.caseId, file, input.actorId, sections);
-    const flags = flaggedCases(result, input.inputs.basis?.units);
-    const shown = input.requested && file.cases.some((k) => k.id === input.requested) ? input.requested : (flags[0]?.id ?? file.cases[0]!.id);
-    return { problem: null, view: distributionViewForPage(file, shown, input.inputs.basis?.units ?? "SI", sections), method: result.method, flags, open: undispositioned(flags, input.inputs.distribution), dispositions };
+    const analysis = await currentDistributionInput(input.caseId, input.title);
+    const stored = await storedFlags(input.caseId, analysis.inputHash, input.units);
+    if (!stored) {
+      const progress = await queueResults(input.caseId, analysis, "envelope");
+      if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
+      return { state: "pending" as const, cases: analysis.parsed.cases.length, progress };
+    }
+    const { dispositions } = await storedDistribution(input.caseId);
+    const cases = analysis.parsed.cases;
+    const shown = input.requested && cases.some((k) => k.id === input.requested) ? input.requested : (stored.flags[0]?.id ?? cases[0]!.id);
+    return { state: "ready" as const, cases: cases.length, method: stored.method, shown, summary: summaryOf(stored.flags, dispositions), first: rowsOf(stored.flags.slice(0, FIRST_FLAG_ROWS), dispositions) };
   } catch (error) {
-    if (error instanceof DomainError) return { problem: error.message, view: null, method: null, flags: [], open: [], dispositions };
+    if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
     throw error;
   }
+}
+
+/** The flagged cases of the stored result, or a refusal that says they are still being computed. */
+async function currentFlags(caseId: string, title: string, units: UnitSystem): Promise<{ analysis: AnalysisInput; flags: CaseFlag[] }> {
+  const analysis = await currentDistributionInput(caseId, title);
+  const stored = await storedFlags(caseId, analysis.inputHash, units);
+  if (!stored) throw new DomainError("The results of this case file are still being computed: the flagged cases are known once they are stored.", { field: "results", kind: "conflict" });
+  return { analysis, flags: stored.flags };
+}
+
+/**
+ * Rows offset … offset + limit − 1 of the flagged-case table with their dispositions, the distribution
+ * revision they belong to and how many there are: the table of a large case fetches them as they scroll in.
+ */
+export async function flagWindow(input: { caseId: string; title: string; units: UnitSystem; offset: number; limit: number }) {
+  if (!Number.isInteger(input.offset) || input.offset < 0) throw new DomainError("offset must be a whole number ≥ 0", { field: "offset" });
+  if (!Number.isInteger(input.limit) || input.limit < 1 || input.limit > MAX_FLAG_ROWS) throw new DomainError(`limit must be a whole number from 1 to ${MAX_FLAG_ROWS}`, { field: "limit" });
+  const { flags } = await currentFlags(input.caseId, input.title, input.units);
+  const { revision, dispositions } = await storedDistribution(input.caseId);
+  return { revision, total: flags.length, offset: input.offset, rows: rowsOf(flags.slice(input.offset, input.offset + input.limit), dispositions) };
+}
+
+export type FlagWindow = Awaited<ReturnType<typeof flagWindow>>;
+
+/**
+ * Load cases of the distribution step whose id holds the text typed (ignoring case), those that begin
+ * with it first, at most MAX_SUGGESTIONS, each marked when flagged: the case picker of a large case.
+ */
+export async function searchLoadCases(input: { caseId: string; title: string; units: UnitSystem; text: string }) {
+  const text = input.text.trim().toLowerCase();
+  const analysis = await currentDistributionInput(input.caseId, input.title);
+  const stored = await storedFlags(input.caseId, analysis.inputHash, input.units);
+  const flagged = new Set(stored?.flags.map((f) => f.id));
+  const starts: string[] = [];
+  const contains: string[] = [];
+  for (const c of analysis.parsed.cases) {
+    const at = c.id.toLowerCase().indexOf(text);
+    // One more than is shown, to know that more match.
+    if (at === 0) starts.push(c.id);
+    else if (at > 0 && contains.length <= MAX_SUGGESTIONS) contains.push(c.id);
+    if (starts.length > MAX_SUGGESTIONS) break;
+  }
+  const all = [...starts, ...contains];
+  return { matches: all.slice(0, MAX_SUGGESTIONS).map((id) => ({ id, flagged: flagged.has(id) })), more: all.length > MAX_SUGGESTIONS };
+}
+
+/** A change of dispositions: some rows (action "none" takes a disposition away), or every case flagged for one reason. */
+export type DispositionChange =
+  | { kind: "rows"; changed: { id: string; action: "none" | "exclude" | "justify"; comment: string }[] }
+  | { kind: "bulk"; reason: FlagReason; action: "exclude" | "justify"; comment: string };
+
+/**
+ * The distribution step's dispositions with a change merged in, checked with the step's schema:
+ * messages name the field (`dispositions.<id>.comment`, or `comment` for a bulk justification).
+ * The change must be made on the stored revision; saveStep checks it again as it writes.
+ */
+export async function mergedDispositions(input: { caseId: string; title: string; units: UnitSystem; baseRevision: number; change: DispositionChange }): Promise<{ ok: true; data: DistributionData } | { ok: false; fieldErrors: FieldErrors }> {
+  const current = await storedDistribution(input.caseId);
+  if (current.revision !== input.baseRevision)
+    throw new DomainError(`Not saved: the dispositions were saved again (revision ${current.revision}) after you opened revision ${input.baseRevision}. Reload to see them; your changes were not written.`, { field: "revision", kind: "conflict" });
+  const next = { ...current.dispositions };
+  const { change } = input;
+  if (change.kind === "rows") {
+    for (const c of change.changed) {
+      if (c.action === "none") delete next[c.id];
+      else next[c.id] = { action: c.action, comment: c.comment };
+    }
+  } else {
+    const one = DistributionSchema.shape.dispositions.valueType.safeParse({ action: change.action, comment: change.comment });
+    if (!one.success) return { ok: false, fieldErrors: fieldErrorsOf(one.error) };
+    const { flags } = await currentFlags(input.caseId, input.title, input.units);
+    const chosen = flags.filter((f) => f.kinds.includes(change.reason));
+    if (chosen.length === 0) throw new DomainError(`No case is flagged for this reason (${FLAG_REASON_LABELS[change.reason]}).`, { field: "reason" });
+    for (const f of chosen) next[f.id] = one.data;
+  }
+  const parsed = DistributionSchema.safeParse({ dispositions: next });
+  return parsed.success ? { ok: true, data: parsed.data } : { ok: false, fieldErrors: fieldErrorsOf(parsed.error) };
 }
 
 /**
@@ -141,15 +313,28 @@ export async function submissionBlockers(organisationId: string, caseId: string,
   if (step !== "distribution") return [];
   const row = await getCase(organisationId, caseId);
   if (!row) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
-  return dispositionBlockers(caseId, row.case.title, caseInputs(await getCaseSteps(caseId)));
+  return dispositionBlockers(caseId, row.case.title);
 }
 
-/** Flagged cases without a disposition keep the distribution step from being submitted: the reasons, or none. */
-export async function dispositionBlockers(caseId: string, title: string, inputs: CaseInputs): Promise<string[]> {
+/**
+ * Flagged cases without a disposition keep the distribution step from being submitted: the reasons,
+ * or none. A sweep small enough to solve here is solved (and stored) if it is not yet; a larger one waits for the worker.
+ */
+export async function dispositionBlockers(caseId: string, title: string): Promise<string[]> {
   try {
-    const { result } = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs));
-    const open = undispositioned(flaggedCases(result), inputs.distribution);
-    return open.length ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open.join(", ")}.`] : [];
+    const analysis = await currentDistributionInput(caseId, title);
+    let stored = await storedFlags(caseId, analysis.inputHash, "SI");
+    if (!stored && analysis.parsed.cases.length <= SWEEP_THRESHOLD) {
+      await resultsFor(caseId, analysis.file, null, analysis.sections);
+      stored = await storedFlags(caseId, analysis.inputHash, "SI");
+    }
+    if (!stored) {
+      const progress = await queueResults(caseId, analysis, "envelope");
+      return [progress?.phase === "failed" && progress.problem ? progress.problem : "The results of this case file are still being computed: submit once the distribution page shows its flagged cases."];
+    }
+    const { dispositions } = await storedDistribution(caseId);
+    const { open, openIds } = summaryOf(stored.flags, dispositions);
+    return open ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open} without a disposition (${openIds.join(", ")}${open > openIds.length ? ", …" : ""}).`] : [];
   } catch (error) {
     if (error instanceof DomainError) return [error.message];
     throw error;

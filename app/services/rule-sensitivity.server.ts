@@ -6,8 +6,8 @@ import { DomainError } from "~/domain/errors";
 import type { UnitSystem } from "~/domain/units";
 import { ENGINE_VERSION } from "~/engine";
 import { boss, QUEUES } from "~/jobs/boss.server";
-import { analysisInputHash, buildCaseFile, buildSectionsFile, caseInputs, parseOrThrow, parseSectionsOrThrow, resultsFor, sweepProgress, type CaseInputs } from "./analysis.server";
-import { caseUnits, getCaseSteps } from "./case-steps.server";
+import { currentDistributionInput, resultsFor, sweepProgress } from "./analysis.server";
+import { getCaseUnits } from "./case-steps.server";
 import { ruleSensitivitySteps } from "./comparisons.server";
 
 /*
@@ -18,14 +18,6 @@ import { ruleSensitivitySteps } from "./comparisons.server";
 
 export type CaseSensitivityAnswer = { units: UnitSystem } & ({ state: "done"; sensitivity: RuleSensitivity } | { state: "pending"; progress: SensitivityProgress });
 
-/** What the distribution step examines (every case the envelope includes) with its section data, and its key. */
-function distributionInput(title: string, inputs: CaseInputs) {
-  const file = buildCaseFile(title, inputs, "envelope");
-  const sections = buildSectionsFile(inputs);
-  const parsed = parseOrThrow(file);
-  return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)) };
-}
-
 const keyOf = (caseId: string, inputHash: string) => and(eq(ruleSensitivities.caseId, caseId), eq(ruleSensitivities.inputHash, inputHash), eq(ruleSensitivities.engineVersion, ENGINE_VERSION));
 
 /**
@@ -35,9 +27,7 @@ const keyOf = (caseId: string, inputHash: string) => and(eq(ruleSensitivities.ca
  * @throws DomainError when a step is missing, or as the worker recorded it when the engine refused the case
  */
 export async function caseRuleSensitivity(input: { caseId: string; title: string }): Promise<CaseSensitivityAnswer> {
-  const steps = await getCaseSteps(input.caseId);
-  const units = caseUnits(steps);
-  const { inputHash } = distributionInput(input.title, caseInputs(steps));
+  const [units, { inputHash }] = await Promise.all([getCaseUnits(input.caseId), currentDistributionInput(input.caseId, input.title)]);
   await db.insert(ruleSensitivities).values({ caseId: input.caseId, inputHash, engineVersion: ENGINE_VERSION }).onConflictDoNothing();
   const [row] = await db.select().from(ruleSensitivities).where(keyOf(input.caseId, inputHash));
   if (!row) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });
@@ -64,7 +54,7 @@ export async function computeRuleSensitivity(caseId: string, inputHash: string):
   if (!row || row.phase === "done" || row.phase === "failed") return;
   const record = (values: Partial<typeof ruleSensitivities.$inferInsert>) => db.update(ruleSensitivities).set({ ...values, updatedAt: new Date() }).where(keyOf(caseId, inputHash));
   try {
-    const current = distributionInput(c.title, caseInputs(await getCaseSteps(caseId)));
+    const current = await currentDistributionInput(caseId, c.title);
     // Edited since it was asked for: the page asks for the new input itself.
     if (current.inputHash !== inputHash) return;
     await record({ phase: "results" });

@@ -89,6 +89,8 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/dev/mailbox.tsx": { loader: page(ALL) },
   "routes/api/planform-preview.ts": { action: page(ALL) },
   "routes/api/case-distribution.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
+  "routes/api/case-flagged-cases.ts": { loader: page(ALL, true) },
+  "routes/api/case-load-case-search.ts": { loader: page(ALL, true), query: "q=:loadCaseId" },
   "routes/api/case-rule-sensitivity.ts": { loader: page(ALL, true) },
   "routes/api/case-spanwise-methods.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
   "routes/api/case-load-cases.ts": { loader: page(ALL, true) },

@@ -192,7 +192,7 @@ describe("the vortex-lattice strips of the method panel", () => {
     expect(stored).toEqual(fromExport);
     const page = await run(distributionLoader, { request: request(`/cases/${caseId}/distribution`, { cookie: engineer }), params: { caseId } });
     expect(page.status).toBe(200);
-    expect((page.body as { method: CaseResult["method"] }).method).toEqual(stored.method);
+    expect((page.body as { page: { method: CaseResult["method"] } }).page.method).toEqual(stored.method);
   });
 });
 

@@ -9,7 +9,7 @@ import { action as importAction } from "~/routes/api/v1/case-import";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { action as distributionAction } from "~/routes/cases/distribution";
 import { toCsv } from "~/utils/csv";
-import { cookieFor, demoUser, form, request, run, seed, routeArgs } from "./helpers";
+import { cookieFor, demoUser, request, run, seed, routeArgs } from "./helpers";
 
 /*
  * Issue 9, item 11: a disposition names only a load case the envelope has, and no CSV the app
@@ -28,14 +28,15 @@ beforeAll(async () => {
   caseId = c!.id;
 });
 
+const postJson = (body: unknown) => request(`/cases/${caseId}/distribution`, { method: "POST", cookie: engineer, headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) });
 const distribution = async () => (await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution"))))[0]!;
 
 describe("dispositions", () => {
   it("are refused for a load case the envelope does not have, naming it, and nothing is written", async () => {
     const before = await distribution();
     const revisions = (await db.select().from(stepRevisions).where(eq(stepRevisions.caseId, caseId))).length;
-    const fields = { revision: String(before.revision), "dispositions.0.id": "no-such-case", "dispositions.0.action": "justify", "dispositions.0.comment": "Judged acceptable by the stress office." };
-    const res = await run(distributionAction, { request: request(`/cases/${caseId}/distribution`, { method: "POST", cookie: engineer, body: form(fields) }), params: { caseId } });
+    const body = { intent: "rows", revision: before.revision, changed: [{ id: "no-such-case", action: "justify", comment: "Judged acceptable by the stress office." }] };
+    const res = await run(distributionAction, { request: postJson(body), params: { caseId } });
     expect(res.status).toBe(400);
     expect((res.body as { fieldErrors: Record<string, string[]> }).fieldErrors.dispositions?.[0]).toMatch(/"no-such-case"/);
     expect((await distribution()).revision).toBe(before.revision);
@@ -46,8 +47,8 @@ describe("dispositions", () => {
     const before = await distribution();
     const envelope = (await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope"))))[0]!;
     const id = (envelope.data as { cases: { id: string }[] }).cases[0]!.id;
-    const fields = { revision: String(before.revision), "dispositions.0.id": id, "dispositions.0.action": "justify", "dispositions.0.comment": "Judged acceptable by the stress office." };
-    const res = await run(distributionAction, { request: request(`/cases/${caseId}/distribution`, { method: "POST", cookie: engineer, body: form(fields) }), params: { caseId } });
+    const body = { intent: "rows", revision: before.revision, changed: [{ id, action: "justify", comment: "Judged acceptable by the stress office." }] };
+    const res = await run(distributionAction, { request: postJson(body), params: { caseId } });
     expect(res.status).toBe(200);
     expect((await distribution()).revision).toBe(before.revision + 1);
   });

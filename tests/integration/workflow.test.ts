@@ -9,9 +9,10 @@ import { action as envelopeAction } from "~/routes/cases/envelope";
 import { action as planformAction } from "~/routes/cases/planform";
 import { action as sectionsAction } from "~/routes/cases/sections";
 import { loader as distributionLoader } from "~/routes/cases/distribution";
+import { loader as caseDistributionLoader } from "~/routes/api/case-distribution";
 import { exportCase, resultsFor } from "~/services/analysis.server";
 import { listKeys } from "~/services/storage.server";
-import { cookieFor, form, request, run, seed } from "./helpers";
+import { cookieFor, form, request, routeArgs, run, seed } from "./helpers";
 
 let caseId = "";
 let engineer = "";
@@ -154,7 +155,7 @@ describe("a case worked through its steps", () => {
     const env = await run(envelopeAction, { request: post(`/cases/${caseId}/envelope`, { intent: "generate", revision: "0", compressibility: "karman-tsien", spanwise: "vortex-lattice", stations: "30" }), params: { caseId } });
     expect(env.status).toBe(200);
     const [envelopeRow] = (await db.select().from(caseSteps).where(eq(caseSteps.caseId, caseId))).filter((s) => s.step === "envelope");
-    const generated = (envelopeRow!.data as { cases: { rule: string; kind: string }[] }).cases;
+    const generated = (envelopeRow!.data as { cases: { id: string; rule: string; kind: string }[] }).cases;
     // 14 CFR 23.337, 23.341 and 23.349 name every generated case's origin (3 weights × 3 altitudes × 10 points:
     // the corners, the gusts and the unsymmetrical condition A; no aileron in these sections, so no aileron cases).
     expect(generated).toHaveLength(90);
@@ -162,7 +163,10 @@ describe("a case worked through its steps", () => {
 
     const dist = await run(distributionLoader, { request: request(`/cases/${caseId}/distribution`, { cookie: engineer }), params: { caseId } });
     expect(dist.status).toBe(200);
-    expect((dist.body as { view: { rules: unknown[] } }).view.rules).toHaveLength(3);
+    const first = encodeURIComponent(generated[0]!.id);
+    const shown = (await caseDistributionLoader((await routeArgs(request(`/api/cases/${caseId}/distribution?case=${first}`, { cookie: engineer }), { caseId })) as never)) as Response;
+    expect(shown.status).toBe(200);
+    expect(((await shown.json()) as { rules: unknown[] }).rules).toHaveLength(3);
 
     const [row] = await db.select().from(cases).where(eq(cases.id, caseId));
     const exported = await exportCase(caseId, row!.title);

@@ -1,43 +1,105 @@
-import { useEffect } from "react";
-import { Form, href, Link, useFetcher } from "react-router";
+import { useVirtualizer } from "@tanstack/react-virtual";
+import { useEffect, useRef, useState } from "react";
+import { href, Link, useFetcher, type FetcherWithComponents } from "react-router";
 import { spanwiseWaysOption } from "~/charts/comparisons";
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
 import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
-import { Panel } from "~/components/ui/page-header";
-import { RULE_LABELS, type DistributionData } from "~/domain/step-data";
+import { UnsavedGuard } from "~/components/case/unsaved-guard";
+import { Alert, Panel } from "~/components/ui/page-header";
+import type { FlagReason } from "~/domain/results";
+import { RULE_LABELS } from "~/domain/step-data";
+import type { StepStatus } from "~/domain/vocabulary";
 import { formatChange, formatPercent, sensitivityProgressText, SPANWISE_WAY_LABELS, type RuleSensitivity, type SensitivityProgress, type SpanwiseComparison } from "~/domain/comparisons";
 import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
-import type { CaseFlag, DistributionView } from "~/services/distribution.server";
+import type { DistributionPageView, DistributionSummary, FlagWindow } from "~/services/distribution.server";
+import type { FieldErrors } from "~/utils/form-data";
 import { methodUsedLines } from "~/domain/method-statement";
 import type { ResultMethod } from "~/exchange";
 
-type View = Omit<DistributionView, "cases"> & { cases: string[] };
+type View = DistributionPageView;
 
-/** The case shown, chosen from every case of the envelope (flagged ones marked), and its condition. */
-export function CasePicker({ view, units, flags, computing, show }: { view: View; units: UnitSystem; flags: CaseFlag[]; computing: boolean; show: (id: string) => void }) {
+/** The answer of a dispositions save, as the page's fetcher holds it. */
+export type SaveAnswer = { ok: boolean; message: string | null; fieldErrors: FieldErrors };
+export type SaveFetcher = FetcherWithComponents<SaveAnswer>;
+
+type Suggestions = { matches: { id: string; flagged: boolean }[]; more: boolean };
+
+/**
+ * The case shown: found by typing part of its id (the server suggests matching cases, a few at a
+ * time, flagged ones marked), and its condition once its distribution has been computed.
+ */
+export function CasePicker({ caseId, shownId, view, units, computing, failed, show }: { caseId: string; shownId: string; view: View | null; units: UnitSystem; computing: boolean; failed: string | null; show: (id: string) => void }) {
+  const [text, setText] = useState("");
+  const search = useFetcher<Suggestions>();
+  const { load } = search;
+  useEffect(() => {
+    if (text.trim()) load(`${href("/api/cases/:caseId/load-case-search", { caseId })}?q=${encodeURIComponent(text.trim())}`);
+  }, [load, caseId, text]);
+  const matches = text.trim() && search.data && "matches" in search.data ? search.data : null;
   return (
     <>
-      <div className="mb-4 flex flex-wrap items-center gap-3 text-sm">
-        <label>
-          <span className="mr-2 font-semibold">Case</span>
-          <select value={view.caseId} onChange={(e) => show(e.target.value)} className="rounded border border-line-strong px-2 py-1" aria-label="Case shown">
-            {view.cases.map((id) => (
-              <option key={id} value={id}>
-                {id}
-                {flags.some((f) => f.id === id) ? " ⚠" : ""}
-              </option>
-            ))}
-          </select>
-        </label>
+      <div className="mb-4 flex flex-wrap items-start gap-3 text-sm">
+        <search aria-label="Find a load case" className="relative">
+          <form
+            className="flex items-center gap-2"
+            onSubmit={(e) => {
+              e.preventDefault();
+              if (text.trim()) show(text.trim());
+            }}
+          >
+            <label className="font-semibold" htmlFor="case-search">
+              Case
+            </label>
+            <input id="case-search" value={text} onChange={(e) => setText(e.target.value)} placeholder={shownId} autoComplete="off" aria-describedby="case-search-help" className="w-44 rounded border border-line-strong px-2 py-1" />
+            <Button type="submit" variant="secondary">
+              Show
+            </Button>
+          </form>
+          <p id="case-search-help" className="mt-1 text-xs text-ink-muted">
+            Type part of a case id; matching cases are suggested (⚠ flagged).
+          </p>
+          {matches ? (
+            <ul aria-label="Matching cases" className="mt-1 max-h-64 w-64 overflow-auto rounded border border-line bg-surface">
+              {matches.matches.length === 0 ? <li className="px-2 py-1 text-ink-muted">No case id holds “{text.trim()}”.</li> : null}
+              {matches.matches.map((m) => (
+                <li key={m.id}>
+                  <button
+                    type="button"
+                    className="w-full px-2 py-1 text-left hover:bg-canvas"
+                    onClick={() => {
+                      show(m.id);
+                      setText("");
+                    }}
+                  >
+                    {m.id}
+                    {m.flagged ? " ⚠" : ""}
+                  </button>
+                </li>
+              ))}
+              {matches.more ? <li className="px-2 py-1 text-xs text-ink-muted">More cases match: type more of the id.</li> : null}
+            </ul>
+          ) : null}
+        </search>
         <span className="tabular text-ink-muted">
-          Mach {formatNumber(view.mach)} · {formatQuantity(units, "altitude", view.altitude, 5)} · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
-          {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
-          {view.machCriticalSwept !== null && view.machCritical !== null && view.machCriticalSwept > view.machCritical + 1e-9 ? ` · simple sweep theory ${view.machCriticalSwept >= 1 ? "above 1" : formatNumber(view.machCriticalSwept)} (optimistic)` : ""}
+          <strong className="text-ink">Case {shownId}</strong>
+          {view ? (
+            <>
+              {" "}
+              · Mach {formatNumber(view.mach)} · {formatQuantity(units, "altitude", view.altitude, 5)} · CL {formatNumber(view.CL)} · α {formatNumber(view.alphaDeg)}° · {RULE_LABELS[view.rule]} ·{" "}
+              {view.regime === "supercritical" ? <strong className="text-danger">supercritical (critical Mach {formatNumber(view.machCritical)})</strong> : view.regime === "subcritical" ? `subcritical (critical Mach ${formatNumber(view.machCritical)})` : "critical Mach not checked (no Cp,min)"}
+              {view.machCriticalSwept !== null && view.machCritical !== null && view.machCriticalSwept > view.machCritical + 1e-9 ? ` · simple sweep theory ${view.machCriticalSwept >= 1 ? "above 1" : formatNumber(view.machCriticalSwept)} (optimistic)` : ""}
+            </>
+          ) : null}
         </span>
-        {computing ? <span className="text-xs text-ink-muted" role="status">Computing…</span> : null}
+        {computing ? (
+          <span className="text-xs text-ink-muted" role="status">
+            Computing the distribution of case {shownId}…
+          </span>
+        ) : null}
       </div>
-      {view.warnings.length ? (
+      {failed ? <p className="mb-4 text-sm text-danger">{failed}</p> : null}
+      {view?.warnings.length ? (
         <ul className="mb-4 list-disc pl-5 text-sm text-warn">
           {view.warnings.map((w) => (
             <li key={w}>{w}</li>
@@ -104,70 +166,215 @@ export function DistributionCharts({ view, units }: { view: View; units: UnitSys
   );
 }
 
-/** Each flagged case with why, and the engineer's disposition: exclude it, or keep it with a justification. */
-export function DispositionsPanel({ flags, dispositions, revision, canEdit, busy, show }: { flags: CaseFlag[]; dispositions: DistributionData["dispositions"]; revision: number; canEdit: boolean; busy: boolean; show: (id: string) => void }) {
+/**
+ * How many cases are flagged for each reason and how many of them still wait for a disposition, with
+ * one disposition for every case of a reason: at the scale of a large case file, a loads engineer
+ * excludes, or justifies with one comment, all the cases flagged for the same cause.
+ */
+export function FlagSummaryPanel({ summary, revision, canEdit, save }: { summary: DistributionSummary; revision: number; canEdit: boolean; save: SaveFetcher }) {
+  if (summary.flagged === 0) return null;
   return (
-    <Panel title={`Flagged cases (${flags.length})`} className="mt-5">
-      {flags.length === 0 ? (
+    <Panel title="Flagged cases by reason" className="mt-5">
+      <table className="w-full text-sm tabular" aria-label="Flagged cases by reason">
+        <thead className="text-xs text-ink-muted">
+          <tr>
+            <th className="py-1 pr-3 text-left">Reason</th>
+            <th className="py-1 pl-3 text-right">Cases</th>
+            <th className="py-1 pl-3 text-right">Without a disposition</th>
+            {canEdit ? <th className="py-1 pl-3 text-left">Disposition for every case of this reason</th> : null}
+          </tr>
+        </thead>
+        <tbody>
+          {summary.byReason.map((r) => (
+            <tr key={r.reason} className="border-t border-line align-top">
+              <td className="py-2 pr-3">{r.label}</td>
+              <td className="py-2 pl-3 text-right">{formatNumber(r.count, 15)}</td>
+              <td className="py-2 pl-3 text-right">{formatNumber(r.open, 15)}</td>
+              {canEdit ? (
+                <td className="py-2 pl-3">
+                  <BulkDisposition reason={r.reason} label={r.label} count={r.count} revision={revision} save={save} />
+                </td>
+              ) : null}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="mt-2 text-xs text-ink-muted">A case may be flagged for more than one reason. A disposition for every case of a reason replaces the dispositions those cases had, and is saved and recorded as any other.</p>
+    </Panel>
+  );
+}
+
+function BulkDisposition({ reason, label, count, revision, save }: { reason: FlagReason; label: string; count: number; revision: number; save: SaveFetcher }) {
+  const [action, setAction] = useState<"exclude" | "justify">("exclude");
+  const [comment, setComment] = useState("");
+  return (
+    <form
+      className="flex flex-wrap items-start gap-2"
+      onSubmit={(e) => {
+        e.preventDefault();
+        save.submit({ intent: "bulk", revision, reason, action, comment }, { method: "post", encType: "application/json" });
+      }}
+    >
+      <select value={action} onChange={(e) => setAction(e.target.value as "exclude" | "justify")} aria-label={`Disposition for every case: ${label}`} className="rounded border border-line-strong px-2 py-1">
+        <option value="exclude">Exclude from the loads</option>
+        <option value="justify">Keep, justified</option>
+      </select>
+      {action === "justify" ? <input value={comment} onChange={(e) => setComment(e.target.value)} aria-label={`Justification for every case: ${label}`} placeholder="One justification for all" className="min-w-64 flex-1 rounded border border-line-strong px-2 py-1" /> : null}
+      <Button type="submit" variant="secondary" disabled={save.state !== "idle"}>
+        Apply to all {formatNumber(count, 15)}
+      </Button>
+    </form>
+  );
+}
+
+type Row = FlagWindow["rows"][number];
+type Edit = { action: "none" | "exclude" | "justify"; comment: string };
+const FLAG_ROW_PX = 64;
+
+/**
+ * Each flagged case with why, and the engineer's disposition: exclude it, or keep it with a
+ * justification. The page carries the first rows; the others are fetched by range as they scroll into
+ * view. Changed rows are kept here until saved, in view or not, and the save sends only them, on the
+ * revision they were made on.
+ */
+export function DispositionsPanel({ caseId, total, first, revision, canEdit, status, save, show }: { caseId: string; total: number; first: Row[]; revision: number; canEdit: boolean; status: StepStatus; save: SaveFetcher; show: (id: string) => void }) {
+  const pageRows = Math.max(first.length, 1);
+  const [pages, setPages] = useState<Map<number, Row[]>>(() => new Map([[0, first]]));
+  const [edits, setEdits] = useState<Map<string, Edit>>(() => new Map());
+  const [stale, setStale] = useState(false);
+  const requested = useRef(new Set<number>([0]));
+  const scroller = useRef<HTMLDivElement>(null);
+  // New rows from the server (a save here, a bulk disposition) replace those held; a new revision also the edits made on the old one.
+  const [held, setHeld] = useState({ revision, first });
+  if (held.revision !== revision || held.first !== first) {
+    setHeld({ revision, first });
+    setPages(new Map([[0, first]]));
+    if (held.revision !== revision) setEdits(new Map());
+    setStale(false);
+    requested.current = new Set([0]);
+  }
+  const virtualizer = useVirtualizer({ count: total, getScrollElement: () => scroller.current, estimateSize: () => FLAG_ROW_PX, overscan: 8, initialRect: { width: 0, height: 512 } });
+  const items = virtualizer.getVirtualItems();
+  const firstIndex = items[0]?.index ?? 0;
+  const lastIndex = items[items.length - 1]?.index ?? 0;
+  useEffect(() => {
+    for (let p = Math.floor(firstIndex / pageRows); p <= Math.floor(Math.min(lastIndex, total - 1) / pageRows); p++) {
+      if (requested.current.has(p)) continue;
+      requested.current.add(p);
+      fetch(`${href("/api/cases/:caseId/flagged-cases", { caseId })}?offset=${p * pageRows}&limit=${pageRows}`, { headers: { Accept: "application/json" } })
+        .then((r) => (r.ok ? (r.json() as Promise<FlagWindow>) : Promise.reject(new Error(String(r.status)))))
+        .then((page) => {
+          if (page.revision !== revision) setStale(true);
+          setPages((m) => new Map(m).set(p, page.rows));
+        })
+        .catch(() => requested.current.delete(p));
+    }
+  }, [firstIndex, lastIndex, total, caseId, revision, pageRows]);
+
+  const rowAt = (i: number) => pages.get(Math.floor(i / pageRows))?.[i % pageRows];
+  const valueOf = (row: Row): Edit => edits.get(row.id) ?? { action: row.disposition?.action ?? "none", comment: row.disposition?.comment ?? "" };
+  const edit = (row: Row, change: Partial<Edit>) => setEdits((m) => new Map(m).set(row.id, { ...valueOf(row), ...change }));
+  const busy = save.state !== "idle";
+  const errors = save.state === "idle" && save.data && !save.data.ok ? save.data.fieldErrors : {};
+  const padTop = items[0]?.start ?? 0;
+  const padBottom = virtualizer.getTotalSize() - (items[items.length - 1]?.end ?? 0);
+  return (
+    <Panel title={`Flagged cases (${formatNumber(total, 15)})`} className="mt-5">
+      <UnsavedGuard dirty={edits.size > 0} />
+      {total === 0 ? (
         <p className="text-sm text-ink-muted">No case is above its critical Mach number or over a section clmax.</p>
       ) : (
-        <Form method="post">
-          <input type="hidden" name="revision" value={revision} />
-          <table className="w-full text-left text-sm">
-            <thead className="text-xs uppercase tracking-wide text-ink-muted">
-              <tr>
-                <th className="py-1.5 pr-3">Case</th>
-                <th className="py-1.5 pr-3">Why it is flagged</th>
-                <th className="py-1.5 pr-3">Disposition</th>
-                <th className="py-1.5">Justification</th>
-              </tr>
-            </thead>
-            <tbody>
-              {flags.map((f, i) => {
-                const d = dispositions[f.id];
-                return (
-                  <tr key={f.id} className="border-t border-line align-top">
-                    <td className="py-2 pr-3 font-semibold">
-                      <input type="hidden" name={`dispositions.${i}.id`} value={f.id} />
-                      <Link
-                        to={`?case=${encodeURIComponent(f.id)}`}
-                        preventScrollReset
-                        onClick={(e) => {
-                          e.preventDefault();
-                          show(f.id);
-                        }}
-                      >
-                        {f.id}
-                      </Link>
-                    </td>
-                    <td className="py-2 pr-3 text-danger">
-                      {f.reasons.map((r) => (
-                        <span key={r} className="block">
-                          ⚠ {r}
-                        </span>
-                      ))}
-                    </td>
-                    <td className="py-2 pr-3">
-                      <select name={`dispositions.${i}.action`} defaultValue={d?.action ?? "none"} disabled={!canEdit} aria-label={`Disposition of ${f.id}`} className="rounded border border-line-strong px-2 py-1">
-                        <option value="none">— not yet —</option>
-                        <option value="exclude">Exclude from the loads</option>
-                        <option value="justify">Keep, justified</option>
-                      </select>
-                    </td>
-                    <td className="py-2">
-                      <textarea name={`dispositions.${i}.comment`} defaultValue={d?.comment ?? ""} disabled={!canEdit} rows={2} aria-label={`Justification for ${f.id}`} className="w-full rounded border border-line-strong px-2 py-1 text-sm" />
-                    </td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
-          {canEdit ? (
-            <Button type="submit" className="mt-3" disabled={busy}>
-              Save dispositions
-            </Button>
+        <>
+          {stale ? (
+            <div className="mb-2">
+              <Alert tone="warn">The dispositions were saved again since this page was opened (revision {revision} shown). Reload the page before editing.</Alert>
+            </div>
           ) : null}
-        </Form>
+          <div ref={scroller} className="max-h-[32rem] overflow-auto rounded border border-line" data-testid="flagged-cases">
+            <table className="w-full text-left text-sm" aria-rowcount={total + 1}>
+              <caption className="sr-only">Flagged cases and their dispositions</caption>
+              <thead className="sticky top-0 z-10 bg-canvas text-xs uppercase tracking-wide text-ink-muted">
+                <tr>
+                  <th className="px-2 py-1.5">Case</th>
+                  <th className="px-2 py-1.5">Why it is flagged</th>
+                  <th className="px-2 py-1.5">Disposition</th>
+                  <th className="px-2 py-1.5">Justification</th>
+                </tr>
+              </thead>
+              <tbody>
+                {padTop > 0 ? <tr aria-hidden="true" style={{ height: padTop }} /> : null}
+                {items.map((item) => {
+                  const row = rowAt(item.index);
+                  if (!row)
+                    return (
+                      <tr key={item.key} data-index={item.index} ref={virtualizer.measureElement} aria-rowindex={item.index + 2} style={{ height: FLAG_ROW_PX }} className="border-t border-line">
+                        <td colSpan={4} className="px-2 text-ink-faint">
+                          …
+                        </td>
+                      </tr>
+                    );
+                  const value = valueOf(row);
+                  const comment = errors[`dispositions.${row.id}.comment`] ?? [];
+                  return (
+                    <tr key={item.key} data-index={item.index} ref={virtualizer.measureElement} aria-rowindex={item.index + 2} className={`border-t border-line align-top ${edits.has(row.id) ? "bg-accent-soft" : ""}`}>
+                      <td className="px-2 py-2 font-semibold">
+                        <Link
+                          to={`?case=${encodeURIComponent(row.id)}`}
+                          preventScrollReset
+                          onClick={(e) => {
+                            e.preventDefault();
+                            show(row.id);
+                          }}
+                        >
+                          {row.id}
+                        </Link>
+                      </td>
+                      <td className="px-2 py-2 text-danger">
+                        {row.reasons.map((r) => (
+                          <span key={r} className="block">
+                            ⚠ {r}
+                          </span>
+                        ))}
+                      </td>
+                      <td className="px-2 py-2">
+                        <select value={value.action} onChange={(e) => edit(row, { action: e.target.value as Edit["action"] })} disabled={!canEdit || busy} aria-label={`Disposition of ${row.id}`} className="rounded border border-line-strong px-2 py-1">
+                          <option value="none">— not yet —</option>
+                          <option value="exclude">Exclude from the loads</option>
+                          <option value="justify">Keep, justified</option>
+                        </select>
+                      </td>
+                      <td className="px-2 py-2">
+                        <textarea
+                          value={value.comment}
+                          onChange={(e) => edit(row, { comment: e.target.value })}
+                          disabled={!canEdit || busy}
+                          rows={2}
+                          aria-label={`Justification for ${row.id}`}
+                          aria-invalid={comment.length > 0}
+                          title={comment.join(" ")}
+                          className="w-full rounded border border-line-strong px-2 py-1 text-sm aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft"
+                        />
+                      </td>
+                    </tr>
+                  );
+                })}
+                {padBottom > 0 ? <tr aria-hidden="true" style={{ height: padBottom }} /> : null}
+              </tbody>
+            </table>
+          </div>
+          {canEdit ? (
+            <div className="mt-3 flex flex-wrap items-center gap-3">
+              <Button type="button" disabled={busy || edits.size === 0} onClick={() => save.submit({ intent: "rows", revision, changed: [...edits].map(([id, e]) => ({ id, ...e })) }, { method: "post", encType: "application/json" })}>
+                Save dispositions
+              </Button>
+              <span className="text-xs text-ink-muted">
+                {edits.size ? `${formatNumber(edits.size, 15)} changed, not saved` : "No change yet"} · revision {revision}
+              </span>
+            </div>
+          ) : (
+            <p className="mt-3 text-sm text-ink-muted">{status === "submitted" ? "Submitted for check: read-only until returned or approved." : "Read-only for your role."}</p>
+          )}
+        </>
       )}
     </Panel>
   );

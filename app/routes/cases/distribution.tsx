@@ -1,72 +1,107 @@
-import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
-import { href, useFetcher } from "react-router";
+import { useEffect, useState } from "react";
+import { href, useFetcher, useRevalidator } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
-import { hasPermission } from "~/domain/permissions";
-import { DistributionSchema, MAX_LOAD_CASES } from "~/domain/step-data";
-import { caseInputs } from "~/services/analysis.server";
-import { caseUnits } from "~/services/case-steps.server";
-import { distributionStep } from "~/services/distribution.server";
-import { fieldErrorsOf } from "~/utils/form-data";
-import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
+import { hasPermission } from "~/domain/permissions";
+import { sweepFraction, sweepProgressText } from "~/domain/results";
+import { getCaseUnits } from "~/services/case-steps.server";
+import { distributionPage, mergedDispositions, type DistributionPageView } from "~/services/distribution.server";
+import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
-import { CasePicker, DispositionsPanel, DistributionCharts, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel } from "./distribution.panels";
+import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readSteps();
-  const shown = await distributionStep({ caseId: c.id, title: c.title, inputs: caseInputs(steps), requested: new URL(request.url).searchParams.get("case"), actorId: current.user.id });
-  return { caseId: c.id, units: caseUnits(steps), revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", ...shown };
+  const { current, case: c, readStepStates } = await requireCase({ request, context }, params.caseId, "case:read");
+  const [steps, units] = await Promise.all([readStepStates(), getCaseUnits(c.id)]);
+  // From the stored result only: no solve here. The shown case's distribution is fetched after the page shows.
+  const page = await distributionPage({ caseId: c.id, title: c.title, units, requested: new URL(request.url).searchParams.get("case") });
+  return { caseId: c.id, units, revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", page };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c } = await requireCase({ request, context }, params.caseId, "case:edit");
-  const parsed = await parseBody(request, DispositionFormSchema, { maxRows: MAX_LOAD_CASES });
+  const parsed = await parseBody(request, DispositionFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
-  const chosen = Object.fromEntries(parsed.value.dispositions.filter((d) => d.action !== "none").map((d) => [d.id, { action: d.action, comment: d.comment }]));
-  const si = DistributionSchema.safeParse({ dispositions: chosen });
-  if (!si.success) return refused(fieldErrorsOf(si.error));
-  return saveStepAnswer({ caseId: c.id, step: "distribution", baseRevision: parsed.value.revision, data: si.data, actor: current.user }, "Dispositions");
+  const form = parsed.value;
+  return answer(async () => {
+    const change = form.intent === "rows" ? { kind: "rows" as const, changed: form.changed } : { kind: "bulk" as const, reason: form.reason, action: form.action, comment: form.comment };
+    const merged = await mergedDispositions({ caseId: c.id, title: c.title, units: await getCaseUnits(c.id), baseRevision: form.revision, change });
+    if (!merged.ok) return refused(merged.fieldErrors);
+    return saveStepAnswer({ caseId: c.id, step: "distribution", baseRevision: form.revision, data: merged.data, actor: current.user }, "Dispositions");
+  });
 }
 
-export default function DistributionRoute({ loaderData, actionData }: Route.ComponentProps) {
-  const shown = useSettledAnswer(actionData);
-  const busy = useSaving();
-  const picked = useFetcher<typeof loaderData.view>();
-  const { flags } = loaderData;
-  // Another case is fetched from the resource route; the page itself does not navigate.
-  const view = picked.data && "y" in picked.data ? picked.data : loaderData.view;
-  const show = (id: string) => picked.load(`${href("/api/cases/:caseId/distribution", { caseId: loaderData.caseId })}?case=${encodeURIComponent(id)}`);
-  const errors = Object.entries(shown && !shown.ok ? shown.fieldErrors : {});
+export default function DistributionRoute({ loaderData }: Route.ComponentProps) {
+  const { page, caseId, units, revision } = loaderData;
+  const save: SaveFetcher = useFetcher<typeof action>({ key: "dispositions" });
+  const picked = useFetcher<DistributionPageView | { error: string; message: string }>();
+  const revalidator = useRevalidator();
+  // The case chosen on the page, else the one the server picked (known once the results are stored).
+  const [chosen, setShownId] = useState<string | null>(null);
+  const shownId = chosen ?? (page.state === "ready" ? page.shown : null);
+  const { load } = picked;
+  useEffect(() => {
+    if (shownId !== null) load(`${href("/api/cases/:caseId/distribution", { caseId })}?case=${encodeURIComponent(shownId)}`);
+  }, [load, caseId, shownId]);
+  // While the worker sweeps the case file, ask again each second.
+  const pending = page.state === "pending";
+  const { revalidate } = revalidator;
+  useEffect(() => {
+    if (!pending) return;
+    const t = setTimeout(() => void revalidate(), 1000);
+    return () => clearTimeout(t);
+  }, [pending, revalidate, page]);
+
+  const view = picked.data && "y" in picked.data && picked.data.caseId === shownId ? picked.data : null;
+  const failed = picked.state === "idle" && picked.data && "error" in picked.data ? picked.data.message : null;
+  const answered = save.state === "idle" ? save.data : undefined;
+  const errors = Object.entries(answered && !answered.ok ? answered.fieldErrors : {});
   return (
     <>
       <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station; the case by each spanwise method, and the critical cases' root loads under each rule." />
       <ResultsCaution />
-      {loaderData.problem ? (
-        <EmptyState title="Nothing to show yet">{loaderData.problem}</EmptyState>
-      ) : view ? (
+      {page.state === "problem" ? (
+        <EmptyState title="Nothing to show yet">{page.problem}</EmptyState>
+      ) : page.state === "pending" ? (
+        <div className="text-sm" role="status">
+          <p className="text-ink-muted">Computing the results of the case file: {sweepProgressText(page.progress, page.cases)} The flagged cases show once they are stored.</p>
+          <div className="mt-2 h-1.5 w-full overflow-hidden rounded bg-canvas" role="progressbar" aria-label="Load cases evaluated" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(100 * sweepFraction(page.progress))}>
+            <div className="h-full rounded bg-accent" style={{ width: `${(100 * sweepFraction(page.progress)).toFixed(1)}%` }} />
+          </div>
+        </div>
+      ) : (
         <>
-          {loaderData.open.length ? (
+          {page.summary.open ? (
             <div className="mb-4">
               <Alert tone="warn">
-                ⚠ {loaderData.open.length} flagged case{loaderData.open.length > 1 ? "s" : ""} without a disposition: {loaderData.open.join(", ")}. Exclude each, or justify it with a comment, before this step can be submitted.
+                ⚠ {page.summary.open.toLocaleString("en-GB")} flagged case{page.summary.open > 1 ? "s" : ""} without a disposition: {page.summary.openIds.join(", ")}
+                {page.summary.open > page.summary.openIds.length ? ` and ${(page.summary.open - page.summary.openIds.length).toLocaleString("en-GB")} more` : ""}. Exclude each, or justify it with a comment, before this step can be submitted.
               </Alert>
             </div>
           ) : null}
-          {shown?.ok ? <div className="mb-3"><Alert tone="info">{shown.message}</Alert></div> : null}
-          {errors.length ? <div className="mb-3"><Alert>{errors.map(([k, m]) => `${k}: ${m?.join(" ")}`).join(" · ")}</Alert></div> : null}
-          {loaderData.method ? <MethodUsedPanel method={loaderData.method} machCriticalSwept={view.machCriticalSwept} /> : null}
-          <CasePicker view={view} units={loaderData.units} flags={flags} computing={busy || picked.state !== "idle"} show={show} />
-          <DistributionCharts view={view} units={loaderData.units} />
-          <SpanwiseMethodsPanel caseId={loaderData.caseId} loadCase={view.caseId} revision={loaderData.revision} />
-          <RuleSensitivityPanel caseId={loaderData.caseId} revision={loaderData.revision} />
-          <DispositionsPanel flags={flags} dispositions={loaderData.dispositions} revision={loaderData.revision} canEdit={loaderData.canEdit} busy={busy} show={show} />
+          {answered?.ok ? (
+            <div className="mb-3">
+              <Alert tone="info">{answered.message}</Alert>
+            </div>
+          ) : null}
+          {errors.length ? (
+            <div className="mb-3">
+              <Alert>{errors.map(([k, m]) => `${k}: ${m?.join(" ")}`).join(" · ")}</Alert>
+            </div>
+          ) : null}
+          <MethodUsedPanel method={page.method} machCriticalSwept={view?.machCriticalSwept ?? null} />
+          <CasePicker caseId={caseId} shownId={shownId ?? page.shown} view={view} units={units} computing={picked.state !== "idle"} failed={failed} show={setShownId} />
+          {view ? <DistributionCharts view={view} units={units} /> : null}
+          <SpanwiseMethodsPanel caseId={caseId} loadCase={shownId ?? page.shown} revision={revision} />
+          <RuleSensitivityPanel caseId={caseId} revision={revision} />
+          <FlagSummaryPanel summary={page.summary} revision={revision} canEdit={loaderData.canEdit} save={save} />
+          <DispositionsPanel caseId={caseId} total={page.summary.flagged} first={page.first} revision={revision} canEdit={loaderData.canEdit} status={loaderData.status} save={save} show={setShownId} />
         </>
-      ) : null}
+      )}
     </>
   );
 }

@@ -1,0 +1,1 @@
+ALTER TABLE "result_progress" ADD COLUMN "problem" text;

@@ -1,0 +1,54 @@
+import { expect, test } from "@playwright/test";
+import { copyOfDemoCase, hydrated, shot, signIn } from "./helpers";
+
+// The distribution page reads the stored results and solves nothing itself: a case file whose results
+// are not stored yet shows the worker's progress, then the flagged cases; the shown case's distribution
+// is fetched after the page shows, the picker asks the server for matching case ids, and a save sends
+// only the rows changed.
+
+test("the distribution page waits for the results, finds a case by part of its id, and a disposition saved reaches the stored revision", async ({ page }) => {
+  await signIn(page, "engineer");
+  // A copy of its own: nothing stored for its inputs yet, and no disposition.
+  const caseId = await copyOfDemoCase(page, "TN-DIST-E2E");
+  await page.goto(`/cases/${caseId}/distribution`);
+  await hydrated(page);
+
+  // The results come from the job worker; the page then shows the flagged cases and the first one's distribution.
+  const table = page.getByRole("table", { name: "Flagged cases and their dispositions" });
+  await expect(table).toBeVisible({ timeout: 120_000 });
+  await expect(page.getByRole("alert").filter({ hasText: /flagged cases? without a disposition/ })).toBeVisible();
+  await expect(page.getByRole("table", { name: "Flagged cases by reason" })).toBeVisible();
+  await expect(page.getByRole("figure", { name: "Spanwise loading" })).toBeVisible({ timeout: 60_000 });
+
+  // The picker: part of an id typed, the server's suggestions, one chosen.
+  const search = page.getByRole("search", { name: "Find a load case" });
+  await search.getByRole("textbox", { name: "Case" }).fill("gust+vc");
+  const matches = search.getByRole("list", { name: "Matching cases" });
+  await expect(matches.getByRole("button").first()).toBeVisible();
+  const suggested = (await matches.getByRole("button").allTextContents()).map((t) => t.replace(" ⚠", ""));
+  expect(suggested.length).toBeGreaterThan(0);
+  expect(suggested.every((id) => id.toLowerCase().includes("gust+vc"))).toBe(true);
+  const chosen = suggested[suggested.length - 1]!;
+  await matches.getByRole("button", { name: new RegExp(`^${chosen.replace(/[+]/g, "\\+")}( ⚠)?$`) }).click();
+  await expect(page.getByText(`Case ${chosen}`, { exact: true })).toBeVisible();
+  await expect(page.getByRole("heading", { name: `Spanwise methods compared: case ${chosen}` })).toBeVisible();
+  await expect(page.getByText(/^Computing the distribution of case/)).toHaveCount(0, { timeout: 60_000 });
+  await expect(page.getByText(new RegExp(`^Case ${chosen.replace(/[+]/g, "\\+")}$`)).locator("xpath=..")).toContainText("Mach");
+
+  // One row dispositioned and saved: only it is sent, and the stored step holds it at revision 1.
+  const select = table.getByRole("combobox", { name: /^Disposition of / }).first();
+  const id = (await select.getAttribute("aria-label"))!.replace("Disposition of ", "");
+  await select.selectOption("justify");
+  await table.getByRole("textbox", { name: `Justification for ${id}` }).fill("Inside the wind-tunnel data's range; kept in the envelope.");
+  const posted = page.waitForRequest((r) => r.method() === "POST" && r.url().includes(`/cases/${caseId}/distribution`));
+  await page.getByRole("button", { name: "Save dispositions" }).click();
+  expect(JSON.parse((await posted).postData() ?? "{}")).toEqual({ intent: "rows", revision: 0, changed: [{ id, action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." }] });
+  await expect(page.getByText("Dispositions saved as revision 1.")).toBeVisible();
+  const steps = (await (await page.request.get(`/api/v1/cases/${caseId}`)).json()) as { steps: { step: string; revision: number }[] };
+  expect(steps.steps.find((s) => s.step === "distribution")?.revision).toBe(1);
+  const rows = (await (await page.request.get(`/api/cases/${caseId}/flagged-cases?offset=0&limit=50`)).json()) as { revision: number; rows: { id: string; disposition: { action: string; comment: string } | null }[] };
+  expect(rows.revision).toBe(1);
+  expect(rows.rows.find((r) => r.id === id)?.disposition).toEqual({ action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." });
+  await expect(table.getByRole("combobox", { name: `Disposition of ${id}` })).toHaveValue("justify");
+  await shot(page, "distribution-dispositions");
+});

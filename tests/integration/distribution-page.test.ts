@@ -1,0 +1,204 @@
+import fs from "node:fs";
+import { and, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { db } from "~/db/client.server";
+import { auditLog, caseSteps, cases, programmes, stepRevisions, users } from "~/db/schema";
+import type { DistributionData } from "~/domain/step-data";
+import * as engine from "~/engine";
+import * as exchange from "~/exchange";
+import type { CaseFileInput, CaseResult } from "~/exchange";
+import { boss, QUEUES, stopBoss } from "~/jobs/boss.server";
+import { loader as viewLoader } from "~/routes/api/case-distribution";
+import { loader as flagsLoader } from "~/routes/api/case-flagged-cases";
+import { loader as searchLoader } from "~/routes/api/case-load-case-search";
+import { action as pageAction, loader as pageLoader } from "~/routes/cases/distribution";
+import { computeQueuedResults, currentDistributionInput, resultsFor } from "~/services/analysis.server";
+import { importCase } from "~/services/case-import.server";
+import { FIRST_FLAG_ROWS, flaggedCases, MAX_FLAG_ROWS, MAX_SUGGESTIONS, OPEN_IDS_SHOWN, type FlagRow, type FlagWindow } from "~/services/distribution.server";
+import { cookieFor, demoUser, request, routeArgs, run, seed } from "./helpers";
+
+// Every spanwise solve goes through the engine's solveMach, and every check of a case file through
+// the exchange's parseCase: counted here, so the test sees what the page's loader and its resource
+// routes do (issue 10 item 8, issue 14: the distribution page of a large case).
+vi.mock("~/engine", async (importOriginal) => {
+  const actual = await importOriginal<typeof engine>();
+  return { ...actual, solveMach: vi.fn(actual.solveMach) };
+});
+vi.mock("~/exchange", async (importOriginal) => {
+  const actual = await importOriginal<typeof exchange>();
+  return { ...actual, parseCase: vi.fn(actual.parseCase) };
+});
+const solves = () => vi.mocked(engine.solveMach).mock.calls.length;
+/** How many load cases each check of a case file made since `from` was called had. */
+const checked = (from: number) => vi.mocked(exchange.parseCase).mock.calls.slice(from).map(([doc]) => (doc as { cases?: unknown[] }).cases?.length ?? 0);
+const checks = () => vi.mocked(exchange.parseCase).mock.calls.length;
+
+/** The large case: enough cases that the flagged table spans several ranges (the limits are the constants imported above). */
+const CASES = 3000;
+let demoId = "";
+let largeId = "";
+let cookie = "";
+
+beforeAll(async () => {
+  await seed();
+  cookie = await cookieFor("engineer");
+  const [demo] = await db.select().from(cases).where(eq(cases.reference, "TN-WL-001"));
+  demoId = demo!.id;
+  const base = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as CaseFileInput;
+  // Load factors up to 3.4 and Mach numbers up to 0.7: many cases over clmax or above the critical Mach number.
+  const sweep: CaseFileInput = { ...base, cases: Array.from({ length: CASES }, (_, i) => ({ id: `D${i + 1}`, mach: 0.3 + 0.05 * (i % 9), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })) };
+  const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+  const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+  largeId = (await importCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "DIST-3000", title: "Distribution at scale", document: sweep, actor: { id: erin!.id, email: erin!.email } })).id;
+}, 300_000);
+
+afterAll(async () => {
+  await stopBoss();
+});
+
+type Page = { revision: number; page: { state: "ready"; shown: string; cases: number; method: unknown; summary: { flagged: number; open: number; openIds: string[]; byReason: { reason: string; count: number; open: number }[] }; first: FlagRow[] } | { state: "pending"; cases: number; progress: unknown } };
+const pageOf = async (caseId: string, query = "") => (await run(pageLoader, { request: request(`/cases/${caseId}/distribution${query}`, { cookie }), params: { caseId } })).body as Page;
+const get = async (loader: (args: never) => unknown, path: string, caseId: string) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
+const post = (caseId: string, body: unknown) => run(pageAction, { request: request(`/cases/${caseId}/distribution`, { method: "POST", cookie, headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) }), params: { caseId } });
+const distributionRow = async (caseId: string) => (await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution"))))[0];
+const revisionCount = async (caseId: string) => (await db.select().from(stepRevisions).where(and(eq(stepRevisions.caseId, caseId), eq(stepRevisions.step, "distribution")))).length;
+const audits = async (caseId: string) => (await db.select().from(auditLog).where(and(eq(auditLog.entityId, caseId), eq(auditLog.action, "step.distribution.save")))).length;
+/** The stored result of the case's distribution input, read whole (what the page must not do). */
+const storedResult = async (caseId: string, title: string) => {
+  const input = await currentDistributionInput(caseId, title);
+  return (await resultsFor(caseId, input.file, null, input.sections)).result as CaseResult;
+};
+
+describe("the distribution page's loader solves nothing", () => {
+  it("answers the demo case's summary and first rows from the stored result; the shown case comes from the resource route, that case alone checked", async () => {
+    const before = solves();
+    const body = await pageOf(demoId);
+    expect(solves()).toBe(before);
+    expect(body.page.state).toBe("ready");
+    if (body.page.state !== "ready") return;
+    expect(body.page).not.toHaveProperty("view");
+    expect(body.page.first.length).toBe(Math.min(FIRST_FLAG_ROWS, body.page.summary.flagged));
+
+    // The resource route solves the one case under each of the three compressibility rules, and checks that case alone.
+    const from = checks();
+    const res = await get(viewLoader, `/api/cases/${demoId}/distribution?case=${encodeURIComponent(body.page.shown)}`, demoId);
+    expect(res.status).toBe(200);
+    expect(((await res.json()) as { caseId: string }).caseId).toBe(body.page.shown);
+    expect(solves() - before).toBe(3);
+    expect(checked(from)).toEqual([1]);
+  });
+
+  it("hands a large case file's sweep to the job worker and answers its progress, without a solve; then the summary", async () => {
+    const before = solves();
+    const waiting = await pageOf(largeId);
+    expect(waiting.page).toMatchObject({ state: "pending", cases: CASES, progress: { phase: "queued" } });
+    expect(await (await boss()).getQueueSize(QUEUES.computeResults)).toBe(1);
+    expect(solves()).toBe(before);
+
+    // The worker's sweep (the job's own function, as the worker runs it); the page then reads what it stored.
+    await computeQueuedResults(largeId, db, "envelope");
+    const swept = solves();
+    const ready = await pageOf(largeId);
+    expect(ready.page.state).toBe("ready");
+    expect(solves()).toBe(swept);
+  }, 300_000);
+});
+
+describe("the distribution page of a large case file", () => {
+  it("carries the count by reason, the first rows and the first few ids still without a disposition; the other rows come by range", async () => {
+    const flags = flaggedCases(await storedResult(largeId, "Distribution at scale"));
+    // The sweep is wide enough to make the table span several ranges.
+    expect(flags.length).toBeGreaterThan(FIRST_FLAG_ROWS + 100);
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const { summary, first } = body.page;
+    expect(summary.flagged).toBe(flags.length);
+    expect(summary.open).toBe(flags.length);
+    expect(summary.openIds).toEqual(flags.slice(0, OPEN_IDS_SHOWN).map((f) => f.id));
+    for (const r of summary.byReason) expect(r.count).toBe(flags.filter((f) => f.kinds.includes(r.reason as never)).length);
+    expect(first.map((r) => r.id)).toEqual(flags.slice(0, FIRST_FLAG_ROWS).map((f) => f.id));
+    // The page's data hold no list of every case or every flag.
+    expect(JSON.stringify(body).length).toBeLessThan(JSON.stringify(flags).length / 5);
+
+    const next = await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=${FIRST_FLAG_ROWS}&limit=100`, largeId);
+    expect(next.status).toBe(200);
+    const window = (await next.json()) as FlagWindow;
+    expect(window).toMatchObject({ total: flags.length, offset: FIRST_FLAG_ROWS, revision: body.revision });
+    expect(window.rows.map((r) => r.id)).toEqual(flags.slice(FIRST_FLAG_ROWS, FIRST_FLAG_ROWS + 100).map((f) => f.id));
+
+    const tooMany = await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=0&limit=${MAX_FLAG_ROWS + 1}`, largeId);
+    expect(tooMany.status).toBe(400);
+    expect(((await tooMany.json()) as { message: string }).message).toBe(`limit must be a whole number from 1 to ${MAX_FLAG_ROWS}`);
+    const negative = await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=-1&limit=10`, largeId);
+    expect(negative.status).toBe(400);
+    expect(((await negative.json()) as { message: string }).message).toMatch(/^offset must be a whole number/);
+  });
+
+  it("suggests the cases whose id holds the text typed, those beginning with it first, at most a few", async () => {
+    const res = await get(searchLoader, `/api/cases/${largeId}/load-case-search?q=d12`, largeId);
+    const found = (await res.json()) as { matches: { id: string; flagged: boolean }[]; more: boolean };
+    expect(found.matches).toHaveLength(MAX_SUGGESTIONS);
+    expect(found.more).toBe(true);
+    expect(found.matches[0]!.id).toBe("D12");
+    expect(found.matches.every((m) => m.id.toLowerCase().startsWith("d12"))).toBe(true);
+    const exact = (await (await get(searchLoader, `/api/cases/${largeId}/load-case-search?q=D2999`, largeId)).json()) as typeof found;
+    expect(exact).toEqual({ matches: [{ id: "D2999", flagged: expect.any(Boolean) }], more: false });
+  });
+
+  it("saves only the rows changed, merged into the stored step; a bad comment is named and a stale revision refused, with nothing written", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const [a, b, c] = body.page.first;
+    const revision = body.revision;
+    const saved = await post(largeId, { intent: "rows", revision, changed: [{ id: a!.id, action: "exclude", comment: "" }, { id: b!.id, action: "justify", comment: "Checked against the flight-test pressure survey." }] });
+    expect(saved.status).toBe(200);
+    expect(saved.body).toMatchObject({ ok: true, message: `Dispositions saved as revision ${revision + 1}.` });
+
+    // A second save of one other row keeps the first two: merged, not replaced.
+    const more = await post(largeId, { intent: "rows", revision: revision + 1, changed: [{ id: c!.id, action: "exclude", comment: "" }, { id: a!.id, action: "none", comment: "" }] });
+    expect(more.status).toBe(200);
+    const stored = (await distributionRow(largeId))!;
+    expect(stored.revision).toBe(revision + 2);
+    expect((stored.data as DistributionData).dispositions).toEqual({ [b!.id]: { action: "justify", comment: "Checked against the flight-test pressure survey." }, [c!.id]: { action: "exclude", comment: "" } });
+
+    const revisions = await revisionCount(largeId);
+    const short = await post(largeId, { intent: "rows", revision: revision + 2, changed: [{ id: a!.id, action: "justify", comment: "ok" }] });
+    expect(short.status).toBe(400);
+    expect((short.body as { fieldErrors: Record<string, string[]> }).fieldErrors[`dispositions.${a!.id}.comment`]).toEqual(["A justification needs a comment of at least 10 characters"]);
+    const stale = await post(largeId, { intent: "rows", revision, changed: [{ id: a!.id, action: "exclude", comment: "" }] });
+    expect(stale.status).toBe(409);
+    expect((stale.body as { fieldErrors: Record<string, string[]> }).fieldErrors.revision?.[0]).toMatch(/^Not saved: .*revision \d+.*your changes were not written/);
+    const badAction = await post(largeId, { intent: "rows", revision: revision + 2, changed: [{ id: a!.id, action: "ignore", comment: "" }] });
+    expect(badAction.status).toBe(400);
+    expect((badAction.body as { fieldErrors: Record<string, string[]> }).fieldErrors["changed.0.action"]).toEqual(["Disposition must be none, exclude or justify"]);
+    expect((await distributionRow(largeId))!.revision).toBe(revision + 2);
+    expect(await revisionCount(largeId)).toBe(revisions);
+  });
+
+  it("dispositions every case flagged for a reason in one save, recorded in the audit log like any save", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const reason = body.page.summary.byReason[0]!;
+    const flags = flaggedCases(await storedResult(largeId, "Distribution at scale")).filter((f) => f.kinds.includes(reason.reason as never));
+    const before = { revision: body.revision, audits: await audits(largeId), revisions: await revisionCount(largeId) };
+
+    const short = await post(largeId, { intent: "bulk", revision: before.revision, reason: reason.reason, action: "justify", comment: "fine" });
+    expect(short.status).toBe(400);
+    expect((short.body as { fieldErrors: Record<string, string[]> }).fieldErrors.comment).toEqual(["A justification needs a comment of at least 10 characters"]);
+    const unknown = await post(largeId, { intent: "bulk", revision: before.revision, reason: "weather", action: "exclude", comment: "" });
+    expect(unknown.status).toBe(400);
+    expect((unknown.body as { fieldErrors: Record<string, string[]> }).fieldErrors.reason).toEqual(["Reason must be one of the reasons cases are flagged for"]);
+    expect(await revisionCount(largeId)).toBe(before.revisions);
+
+    const done = await post(largeId, { intent: "bulk", revision: before.revision, reason: reason.reason, action: "justify", comment: "Within the tunnel data's range; kept in the envelope." });
+    expect(done.status).toBe(200);
+    const stored = (await distributionRow(largeId))!;
+    expect(stored.revision).toBe(before.revision + 1);
+    const dispositions = (stored.data as DistributionData).dispositions;
+    expect(flags.every((f) => dispositions[f.id]?.action === "justify" && dispositions[f.id]?.comment === "Within the tunnel data's range; kept in the envelope.")).toBe(true);
+    expect(await audits(largeId)).toBe(before.audits + 1);
+    const after = await pageOf(largeId);
+    if (after.page.state !== "ready") throw new Error("results not stored");
+    expect(after.page.summary.byReason.find((r) => r.reason === reason.reason)!.open).toBe(0);
+  });
+});
