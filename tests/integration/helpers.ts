@@ -1,7 +1,8 @@
 import pg from "pg";
 import { vi } from "vitest";
 import { db } from "~/db/client.server";
-import { auditLog, caseSteps, stepRevisions } from "~/db/schema";
+import { eq } from "drizzle-orm";
+import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
 import { DEMO_CASE_INPUTS, DEMO_USERS, type DemoUser } from "~/demo/scenario";
 import { seedDemo } from "~/demo/seed.server";
 import { RouterContextProvider } from "react-router";
@@ -14,6 +15,13 @@ export const ORIGIN = "http://127.0.0.1:3000";
 /** The demo scenario without its issued report (rendering a PDF in every test file would be slow). */
 export async function seed(opts: { report?: boolean } = { report: false }) {
   return seedDemo(db, opts);
+}
+
+/** The demo scenario seeded, with its case TN-WL-001 and a demo user signed in (the engineer unless named). */
+export async function seededDemoCase(label: DemoUser["label"] = "engineer"): Promise<{ caseId: string; cookie: string }> {
+  await seed();
+  const [c] = await db.select({ id: cases.id }).from(cases).where(eq(cases.reference, "TN-WL-001"));
+  return { caseId: c!.id, cookie: await cookieFor(label) };
 }
 
 export function demoUser(label: DemoUser["label"]): DemoUser {

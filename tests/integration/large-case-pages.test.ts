@@ -1,13 +1,13 @@
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { cases, caseSteps } from "~/db/schema";
+import { caseSteps } from "~/db/schema";
 import { loader as basisLoader } from "~/routes/cases/basis";
 import { loader as envelopeLoader } from "~/routes/cases/envelope";
 import { loader as massesLoader } from "~/routes/cases/masses";
 import { loader as planformLoader } from "~/routes/cases/planform";
 import { loader as sectionsLoader } from "~/routes/cases/sections";
-import { cookieFor, request, rowTextOf, run, seed } from "./helpers";
+import { request, rowTextOf, run, seededDemoCase } from "./helpers";
 
 // A case of many load cases: the pages of its other steps, and the envelope page itself, read the
 // steps they show and the envelope's method, count and first rows — not its whole list of cases.
@@ -18,10 +18,7 @@ let cookie = "";
 let storedText = 0;
 
 beforeAll(async () => {
-  await seed();
-  cookie = await cookieFor("engineer");
-  const [c] = await db.select({ id: cases.id }).from(cases).where(eq(cases.reference, "TN-WL-001"));
-  caseId = c!.id;
+  ({ caseId, cookie } = await seededDemoCase());
   // The demo's load cases repeated, each copy with ids of its own, written straight into the step (a large import's result).
   await db.execute(sql`
     update case_steps set data = jsonb_set(data, '{cases}', (

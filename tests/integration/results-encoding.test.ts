@@ -1,10 +1,7 @@
 import zlib from "node:zlib";
-import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { db } from "~/db/client.server";
-import { cases } from "~/db/schema";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
-import { cookieFor, request, routeArgs, seed } from "./helpers";
+import { request, routeArgs, seededDemoCase } from "./helpers";
 import { startHttpApp } from "./http-harness";
 
 // The results document is large (megabytes for a large case) and the same for the same input: it is
@@ -14,10 +11,7 @@ let caseId = "";
 let cookie = "";
 
 beforeAll(async () => {
-  await seed();
-  const [c] = await db.select({ id: cases.id }).from(cases).where(eq(cases.reference, "TN-WL-001"));
-  caseId = c!.id;
-  cookie = await cookieFor("engineer");
+  ({ caseId, cookie } = await seededDemoCase());
 });
 
 const ask = async (acceptEncoding?: string) =>
