@@ -18,6 +18,8 @@ const REACT_ROUTER_VERSION = (JSON.parse(fs.readFileSync(path.join(import.meta.d
 const durationArg = process.argv.indexOf("--duration");
 const DURATION_S = durationArg > 0 ? Number(process.argv[durationArg + 1]) : 30;
 const CONNECTIONS = 50;
+/** The overview and its peer in turn, in short rounds: the machine is shared, and a busy spell of other work should meet both. */
+const PAIR_ROUNDS = 4;
 const PORT = Number(process.env.LOAD_BENCH_PORT_BASE ?? 3300);
 const ORIGIN = `http://127.0.0.1:${PORT}`;
 const PAGE_P95_TARGET_MS = 150;
@@ -101,17 +103,41 @@ function serverPid(rootPid: number): number {
   }
 }
 
-/** Resident memory of the serving process and of the web processes it forked (not of PostgreSQL). */
-function rssMiB(pid: number): number {
-  const webProcesses = children(pid).filter((c) => {
+/** The web processes the serving process forked (not PostgreSQL, not the stand-ins). */
+function webProcesses(pid: number): number[] {
+  return children(pid).filter((c) => {
     try {
       return fs.readFileSync(`/proc/${c}/cmdline`, "utf8").includes("web.ts");
     } catch {
       return false;
     }
   });
+}
+
+/** The process and every process below it. */
+function tree(pid: number): number[] {
+  return [pid, ...children(pid).flatMap(tree)];
+}
+
+const TICK_MS = 1000 / Number(execFileSync("getconf", ["CLK_TCK"], { encoding: "utf8" }).trim());
+/** CPU time (user + system, ms) the processes have used so far: less disturbed by a shared machine than latency. */
+function cpuMs(pids: number[]): number {
+  let ticks = 0;
+  for (const p of pids) {
+    try {
+      const fields = fs.readFileSync(`/proc/${p}/stat`, "utf8").split(") ")[1]!.split(" ");
+      ticks += Number(fields[11]) + Number(fields[12]);
+    } catch {
+      // ended meanwhile
+    }
+  }
+  return ticks * TICK_MS;
+}
+
+/** Resident memory of the serving process and of the web processes it forked (not of PostgreSQL). */
+function rssMiB(pid: number): number {
   let kb = 0;
-  for (const p of [pid, ...webProcesses]) {
+  for (const p of [pid, ...webProcesses(pid)]) {
     try {
       kb += Number(/VmRSS:\s+(\d+)/.exec(fs.readFileSync(`/proc/${p}/status`, "utf8"))?.[1] ?? NaN);
     } catch {
@@ -139,6 +165,8 @@ interface Run {
   errors: number;
   non2xx: number;
   rss: { start: number; end: number; max: number };
+  /** CPU time of the processes that serve (the app's web processes, the peer's whole tree) per request, ms. */
+  cpu: number;
 }
 
 function percentile(sorted: number[], p: number): number {
@@ -146,7 +174,7 @@ function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!;
 }
 
-async function load(name: string, kind: Run["kind"], pid: number, opts: { path: string; method?: "GET" | "POST"; headers: Record<string, string>; body?: string; origin?: string }): Promise<Run> {
+async function load(name: string, kind: Run["kind"], pid: number, opts: { path: string; method?: "GET" | "POST"; headers: Record<string, string>; body?: string; origin?: string; servers?: () => number[]; seconds?: number }): Promise<Run> {
   const origin = opts.origin ?? ORIGIN;
   const headers = { ...ACCEPT_ENCODING, ...opts.headers };
   const single: number[] = [];
@@ -157,6 +185,8 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
   }
   single.sort((a, b) => a - b);
   const times: number[] = [];
+  const servers = (opts.servers ?? (() => webProcesses(pid)))();
+  const cpuBefore = cpuMs(servers);
   const samples: number[] = [rssMiB(pid)];
   const sampler = setInterval(() => samples.push(rssMiB(pid)), 1000);
   const instance = autocannon({
@@ -165,13 +195,14 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
     headers,
     body: opts.body,
     connections: CONNECTIONS,
-    duration: DURATION_S,
+    duration: opts.seconds ?? DURATION_S,
     timeout: 10,
   });
   // The tracker passes the client first (the bundled types describe the client's own event).
   (instance as unknown as { on(e: "response", f: (client: unknown, status: number, bytes: number, ms: number) => void): void }).on("response", (_client, _status, _bytes, ms) => times.push(ms));
   const result = await instance;
   clearInterval(sampler);
+  const cpu = (cpuMs(servers) - cpuBefore) / Math.max(1, result.requests.total);
   samples.push(rssMiB(pid));
   times.sort((a, b) => a - b);
   const run: Run = {
@@ -187,8 +218,9 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
     errors: result.errors + result.timeouts,
     non2xx: result.non2xx,
     rss: { start: samples[0]!, end: samples[samples.length - 1]!, max: Math.max(...samples) },
+    cpu,
   };
-  say(`${name}: ${run.rps.toFixed(0)} req/s, p50 ${run.p50.toFixed(1)} ms, p95 ${run.p95.toFixed(1)} ms, p99 ${run.p99.toFixed(1)} ms, errors ${run.errors}, non-2xx ${run.non2xx}, RSS ${run.rss.start.toFixed(0)}→${run.rss.end.toFixed(0)} MiB (max ${run.rss.max.toFixed(0)})`);
+  say(`${name}: ${run.rps.toFixed(0)} req/s, p50 ${run.p50.toFixed(1)} ms, p95 ${run.p95.toFixed(1)} ms, p99 ${run.p99.toFixed(1)} ms, errors ${run.errors}, non-2xx ${run.non2xx}, CPU ${run.cpu.toFixed(2)} ms/request, RSS ${run.rss.start.toFixed(0)}→${run.rss.end.toFixed(0)} MiB (max ${run.rss.max.toFixed(0)})`);
   return run;
 }
 
@@ -296,10 +328,10 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
   out(`the load generator and the app share the two cores. App start-up to a healthy /healthz: ${startupS.toFixed(1)} s.`);
   out();
-  out("| route | one at a time (ms) | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
-  out("|---|---|---|---|---|---|---|---|---|---|");
+  out("| route | one at a time (ms) | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | CPU per request (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
+  out("|---|---|---|---|---|---|---|---|---|---|---|");
   for (const r of runs) {
-    out(`| ${r.name} | ${ms(r.alone)} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
+    out(`| ${r.name} | ${ms(r.alone)} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.cpu.toFixed(2)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
   }
   out();
   const pages = runs.filter((r) => r.kind === "page");
@@ -317,16 +349,21 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`The peer (tests/bench/peer): React Router ${REACT_ROUTER_VERSION} + Express with the same compression, ${peer.processes} processes, serving \`/cases/:id\` for the`);
   out("same signed-in session: five reads with plain `pg` (session with person and membership, case with programme, step states, signatures,");
   out("the last 20 history entries), then a table of the steps and a 20-row history. Both served from the same database, at");
-  out(`${CONNECTIONS} connections for ${DURATION_S} s each, peer and overview in turn, two rounds. Load average ${peer.load} (1/5/15 min).`);
+  out(`${CONNECTIONS} connections, peer and overview in turn, ${PAIR_ROUNDS} rounds of ${DURATION_S / 2} s each. Load average ${peer.load} (1/5/15 min).`);
+  out("CPU per request: user + system time of the serving processes (the app's web processes, the peer's) over the round ÷ its requests, from /proc.");
   out();
-  out("| page | requests/s | p50 (ms) | p97.5 (ms) | errors | non-2xx |");
-  out("|---|---|---|---|---|---|");
-  for (const r of peer.pair) out(`| ${r.name} | ${r.rps.toFixed(0)} | ${ms(r.p50)} | ${ms(r.p975)} | ${r.errors} | ${r.non2xx} |`);
-  const best = (prefix: string) => Math.min(...peer.pair.filter((r) => r.name.startsWith(prefix)).map((r) => r.p975));
+  out("| page | requests/s | p50 (ms) | p97.5 (ms) | CPU per request (ms) | errors | non-2xx |");
+  out("|---|---|---|---|---|---|---|");
+  for (const r of peer.pair) out(`| ${r.name} | ${r.rps.toFixed(0)} | ${ms(r.p50)} | ${ms(r.p975)} | ${r.cpu.toFixed(2)} | ${r.errors} | ${r.non2xx} |`);
+  const of = (prefix: string) => peer.pair.filter((r) => r.name.startsWith(prefix));
+  const best = (prefix: string) => Math.min(...of(prefix).map((r) => r.p975));
+  const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)]!;
   const ratio = best("case overview") / best("peer page");
+  const cpuRatio = median(of("case overview").map((r) => r.cpu)) / median(of("peer page").map((r) => r.cpu));
   const clean = peer.pair.every((r) => r.errors + r.non2xx === 0);
   out();
   out(`- p97.5 of the overview ÷ the peer's (the better round of each): **${ratio.toFixed(2)}×** (target ≤ 1.5×: ${ratio <= 1.5 ? "met" : "**missed**"}); zero errors: ${clean ? "met" : "**missed**"}.`);
+  out(`- CPU per request of the overview ÷ the peer's (medians of the rounds): ${cpuRatio.toFixed(2)}×.`);
   out();
   out("## Report generation (in the benchmark process, against the app's database; medians)");
   out();
@@ -374,11 +411,11 @@ async function main() {
   const startLoad = os.loadavg().map((v) => v.toFixed(2)).join(" / ") + " (1/5/15 min; other jobs share this machine)";
   const overall = { start: rssMiB(pid), end: 0, max: 0 };
   const runs: Run[] = [];
-  // The overview and its peer back to back, twice in turn, so that both meet the same machine.
+  // The overview and its peer back to back, in turn, so that both meet the same machine.
   const pair: Run[] = [];
-  for (let round = 1; round <= 2; round++) {
-    pair.push(await load(`peer page, round ${round}`, "page", peer!.pid!, { path: peerPath, headers: auth, origin: PEER_ORIGIN }));
-    pair.push(await load(`case overview, round ${round}`, "page", pid, { path: peerPath, headers: auth }));
+  for (let round = 1; round <= PAIR_ROUNDS; round++) {
+    pair.push(await load(`peer page, round ${round}`, "page", peer!.pid!, { path: peerPath, headers: auth, origin: PEER_ORIGIN, servers: () => tree(peer!.pid!), seconds: DURATION_S / 2 }));
+    pair.push(await load(`case overview, round ${round}`, "page", pid, { path: peerPath, headers: auth, seconds: DURATION_S / 2 }));
   }
   stopPeer();
   const peerLoad = os.loadavg().map((v) => v.toFixed(2)).join(" / ");
