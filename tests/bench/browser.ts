@@ -3,18 +3,30 @@
 // imports a copy of the demo case with 100 000 load cases and waits for its results, then loads each
 // page of a case — the demo case and the large one — in a fresh browser context, recording the bytes
 // transferred and the time to interactive, and writes its section of docs/benchmarks.md.
-// `npm run bench` runs it after the others; alone: `npx tsx tests/bench/browser.ts [--rounds 3]`.
+// The peer page of the load benchmark (tests/bench/peer: the same framework, a table and a 20-row
+// history) is loaded the same way, on the app's database, as the floor of this machine and browser.
+// `npm run bench` runs it after the others; alone: `npx tsx tests/bench/browser.ts [--rounds 3]`;
+// `--only demo` (or `large`) and `--pages envelope,review` measure a part and only print it.
 // BROWSER_BENCH_PORT_BASE moves its ports (default 3400) so that it can run beside other checkouts;
-// BROWSER_BENCH_ORIGIN measures an app already running there instead (its large case imported once).
+// BROWSER_BENCH_ORIGIN measures an app already running there instead (its large case imported once;
+// the peer page only where BROWSER_BENCH_DATABASE_URL names that app's database).
+import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from "playwright-core";
 import { DEMO_USERS } from "../../app/demo/scenario";
-import { benchApp, writeDocsSection } from "./bench-app";
+import { benchApp, root, writeDocsSection } from "./bench-app";
 
-const roundsArg = process.argv.indexOf("--rounds");
-const ROUNDS = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : 3;
+const arg = (name: string) => {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? process.argv[i + 1] : undefined;
+};
+const ROUNDS = Number(arg("--rounds") ?? 3);
+const ONLY = arg("--only") as "demo" | "large" | undefined;
+const PAGE_KEYS = arg("--pages")?.split(",");
+/** A part of the benchmark is printed, not written into docs/benchmarks.md. */
+const PARTIAL = ONLY !== undefined || PAGE_KEYS !== undefined;
 const BASE = Number(process.env.BROWSER_BENCH_PORT_BASE ?? 3400);
 const RUNNING = process.env.BROWSER_BENCH_ORIGIN;
 const ORIGIN = RUNNING ?? `http://127.0.0.1:${BASE}`;
@@ -31,7 +43,7 @@ const SETTLE_LIMIT_MS = 120_000;
 const MARK_START = "<!-- browser benchmark: written by tests/bench/browser.ts -->";
 const MARK_END = "<!-- end of browser benchmark -->";
 
-const PAGES = [
+const ALL_PAGES = [
   { key: "overview", path: "" },
   { key: "basis", path: "/basis" },
   { key: "planform", path: "/planform" },
@@ -43,6 +55,7 @@ const PAGES = [
   { key: "review", path: "/review" },
   { key: "reports", path: "/reports" },
 ] as const;
+const PAGES = ALL_PAGES.filter((p) => !PAGE_KEYS || PAGE_KEYS.includes(p.key));
 
 function say(line: string) {
   process.stdout.write(`[browser] ${line}\n`);
@@ -89,9 +102,37 @@ interface PageRun {
   /** Navigation start until no request has been in flight for QUIET_MS (the page's data fetched). */
   settledMs: number;
   settled: boolean;
+  /** Where the time to interactive went (milestones on the page's clock, main-thread time up to the click). */
+  parts: Parts;
 }
 
-async function measurePage(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, url: string): Promise<PageRun> {
+/** Milestones in ms since navigation start, and the renderer's main-thread time (ms) spent until the click. */
+interface Parts {
+  /** The document's first byte (server time and the request). */
+  ttfb: number;
+  /** The document's last byte. */
+  documentEnd: number;
+  /** The last script and the stylesheet fetched (responseEnd of the latest), and their bytes (decoded). */
+  scriptsEnd: number;
+  scriptKiB: number;
+  cssEnd: number;
+  /** The last font file fetched before the click (NaN: none). */
+  fontsEnd: number;
+  fonts: number;
+  firstPaint: number;
+  /** DOMContentLoaded: the module scripts have run (React Router's entry has started hydration). */
+  domContentLoaded: number;
+  /** Chrome's own counters (CDP Performance.getMetrics) at the click. */
+  scriptMs: number;
+  compileMs: number;
+  styleLayoutMs: number;
+  taskMs: number;
+}
+
+/** How the benchmark knows a page has hydrated: our root's marker, or (the peer page has none) React's props on its heading. */
+type Ready = "marker" | "react";
+
+async function measurePage(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, url: string, ready: Ready = "marker"): Promise<PageRun> {
   // A fresh context each time: an empty cache, as for a first visit; the session cookie only.
   const context = await browser.newContext({ storageState, viewport: { width: 1280, height: 800 } });
   try {
@@ -100,6 +141,7 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
     const cdp = await context.newCDPSession(page);
     await cdp.send("Network.enable");
     await cdp.send("Network.setCacheDisabled", { cacheDisabled: false });
+    await cdp.send("Performance.enable");
     const inFlight = new Set<string>();
     let bytes = 0;
     let requests = 0;
@@ -127,9 +169,9 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
       lastActivity = performance.now();
     });
     const started = performance.now();
-    const probe = await interactive(page, cdp, url).catch((error: unknown) => {
+    const probe = await interactive(page, cdp, url, ready).catch((error: unknown) => {
       // A page that is not interactive within the limit is recorded as such, with what it had transferred.
-      if (error instanceof Error && error.name === "TimeoutError") return { hydrated: Infinity, clicked: Infinity };
+      if (error instanceof Error && error.name === "TimeoutError") return { hydrated: Infinity, clicked: Infinity, parts: NO_PARTS };
       throw error;
     });
     let settled = false;
@@ -149,30 +191,67 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
       ttiMs: probe.clicked,
       settledMs: (settled ? lastActivity : performance.now()) - started,
       settled,
+      parts: probe.parts,
     };
   } finally {
     await context.close();
   }
 }
 
+const NO_PARTS: Parts = { ttfb: NaN, documentEnd: NaN, scriptsEnd: NaN, scriptKiB: NaN, cssEnd: NaN, fontsEnd: NaN, fonts: NaN, firstPaint: NaN, domContentLoaded: NaN, scriptMs: NaN, compileMs: NaN, styleLayoutMs: NaN, taskMs: NaN };
+
+/** Read in the page after the click: its navigation and resource timings (a string, so that no helper of the bundler leaks into the page). */
+const MILESTONES = `(() => {
+  const bench = window.__bench;
+  const nav = performance.getEntriesByType("navigation")[0];
+  const resources = performance.getEntriesByType("resource").filter((r) => r.responseEnd <= bench.clicked);
+  const last = (rs) => (rs.length ? Math.max(...rs.map((r) => r.responseEnd)) : NaN);
+  const scripts = resources.filter((r) => /\\.m?js(\\?|$)/.test(r.name));
+  const fonts = resources.filter((r) => /\\.woff2?(\\?|$)/.test(r.name));
+  return {
+    hydrated: bench.hydrated,
+    clicked: bench.clicked,
+    ttfb: nav.responseStart,
+    documentEnd: nav.responseEnd,
+    scriptsEnd: last(scripts),
+    scriptKiB: scripts.reduce((a, r) => a + r.decodedBodySize, 0) / 1024,
+    cssEnd: last(resources.filter((r) => /\\.css(\\?|$)/.test(r.name))),
+    fontsEnd: last(fonts),
+    fonts: fonts.length,
+    firstPaint: performance.getEntriesByName("first-contentful-paint")[0]?.startTime ?? NaN,
+    domContentLoaded: nav.domContentLoadedEventEnd,
+  };
+})()`;
+
 /** Loads the page; when it says it has hydrated, clicks it: both moments on the page's own clock. */
-async function interactive(page: Page, cdp: CDPSession, url: string): Promise<{ hydrated: number; clicked: number }> {
+async function interactive(page: Page, cdp: CDPSession, url: string, ready: Ready): Promise<{ hydrated: number; clicked: number; parts: Parts }> {
   await page.goto(url, { waitUntil: "commit", timeout: SETTLE_LIMIT_MS });
   // Where the page's heading is, once the page says it has hydrated…
-    const at = await page.waitForFunction(
-      () => {
-        const h = document.documentElement.dataset.hydrated ? document.querySelector("main h1")?.getBoundingClientRect() : undefined;
-        return h ? { x: h.x + h.width / 2, y: h.y + h.height / 2 } : null;
-      },
-      undefined,
-      { timeout: SETTLE_LIMIT_MS, polling: "raf" },
-    );
-    const { x, y } = (await at.jsonValue())!;
-    // …and a click there (it does nothing), sent as real input: the page handles it when its main thread is free.
-    await cdp.send("Input.dispatchMouseEvent", { type: "mousePressed", x, y, button: "left", clickCount: 1 });
-    await cdp.send("Input.dispatchMouseEvent", { type: "mouseReleased", x, y, button: "left", clickCount: 1 });
-    await page.waitForFunction(() => (window as unknown as { __bench: { clicked: number | null } }).__bench.clicked !== null, undefined, { timeout: SETTLE_LIMIT_MS });
-  return page.evaluate(() => (window as unknown as { __bench: { hydrated: number; clicked: number } }).__bench);
+  const at = await page.waitForFunction(
+    (mode) => {
+      const bench = (window as unknown as { __bench: { hydrated: number | null } }).__bench;
+      const heading = document.querySelector("main h1");
+      if (mode === "react" && heading && bench.hydrated === null && Object.keys(heading).some((k) => k.startsWith("__reactProps$"))) bench.hydrated = window.performance.now();
+      const h = (mode === "marker" ? document.documentElement.dataset.hydrated : bench.hydrated !== null) ? heading?.getBoundingClientRect() : undefined;
+      return h ? { x: h.x + h.width / 2, y: h.y + h.height / 2 } : null;
+    },
+    ready,
+    { timeout: SETTLE_LIMIT_MS, polling: "raf" },
+  );
+  const { x, y } = (await at.jsonValue())!;
+  // …and a click there (it does nothing), sent as real input: the page handles it when its main thread is free.
+  await cdp.send("Input.dispatchMouseEvent", { type: "mousePressed", x, y, button: "left", clickCount: 1 });
+  await cdp.send("Input.dispatchMouseEvent", { type: "mouseReleased", x, y, button: "left", clickCount: 1 });
+  await page.waitForFunction(() => (window as unknown as { __bench: { clicked: number | null } }).__bench.clicked !== null, undefined, { timeout: SETTLE_LIMIT_MS });
+  const metrics = Object.fromEntries(((await cdp.send("Performance.getMetrics")) as { metrics: { name: string; value: number }[] }).metrics.map((m) => [m.name, m.value]));
+  const seen = (await page.evaluate(MILESTONES)) as Omit<Parts, "scriptMs" | "compileMs" | "styleLayoutMs" | "taskMs"> & { hydrated: number; clicked: number };
+  const ms = (name: string) => (metrics[name] ?? NaN) * 1000;
+  const { hydrated, clicked, ...rest } = seen;
+  return {
+    hydrated,
+    clicked,
+    parts: { ...rest, scriptMs: ms("ScriptDuration"), compileMs: ms("V8CompileDuration"), styleLayoutMs: ms("RecalcStyleDuration") + ms("LayoutDuration"), taskMs: ms("TaskDuration") },
+  };
 }
 
 const median = (xs: number[]) => {
@@ -190,17 +269,23 @@ interface PageFigures {
   ttiMs: number;
   settledMs: number;
   allSettled: boolean;
+  parts: Parts;
 }
 
-async function measureCase(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, caseId: string, label: string): Promise<PageFigures[]> {
+interface Target {
+  key: string;
+  url: string;
+  ready?: Ready;
+}
+
+async function measurePages(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, targets: Target[], label: string): Promise<PageFigures[]> {
   const out: PageFigures[] = [];
-  for (const p of PAGES) {
-    const url = `${ORIGIN}/cases/${caseId}${p.path}`;
+  for (const p of targets) {
     // One load first (the server's own caches warm, as for the person who opened the case before);
     // a page not interactive within the limit even then is recorded from that load alone.
-    const warm = await measurePage(browser, storageState, url);
+    const warm = await measurePage(browser, storageState, p.url, p.ready);
     const runs: PageRun[] = Number.isFinite(warm.ttiMs) ? [] : [warm];
-    for (let i = runs.length ? ROUNDS : 0; i < ROUNDS; i++) runs.push(await measurePage(browser, storageState, url));
+    for (let i = runs.length ? ROUNDS : 0; i < ROUNDS; i++) runs.push(await measurePage(browser, storageState, p.url, p.ready));
     const f: PageFigures = {
       key: p.key,
       statuses: [...new Set(runs.map((r) => r.status))],
@@ -211,11 +296,46 @@ async function measureCase(browser: Browser, storageState: Awaited<ReturnType<Br
       ttiMs: median(runs.map((r) => r.ttiMs)),
       settledMs: median(runs.map((r) => r.settledMs)),
       allSettled: runs.every((r) => r.settled),
+      parts: Object.fromEntries(Object.keys(NO_PARTS).map((k) => [k, median(runs.map((r) => r.parts[k as keyof Parts]))])) as unknown as Parts,
     };
+    const t = f.parts;
     say(`${label} ${p.key}: HTTP ${f.statuses.join(", ")}, ${(f.bytes / 1024).toFixed(0)} KiB in ${f.requests} requests, hydrated ${f.hydratedMs.toFixed(0)} ms, interactive ${f.ttiMs.toFixed(0)} ms, settled ${f.settledMs.toFixed(0)} ms (load ${loadAverage()})`);
+    say(`  first byte ${t.ttfb.toFixed(0)}, css ${t.cssEnd.toFixed(0)}, scripts ${t.scriptsEnd.toFixed(0)} (${t.scriptKiB.toFixed(0)} KiB), paint ${t.firstPaint.toFixed(0)}, DOMContentLoaded ${t.domContentLoaded.toFixed(0)}, fonts ${t.fonts} by ${t.fontsEnd.toFixed(0)}; main thread: script ${t.scriptMs.toFixed(0)}, compile ${t.compileMs.toFixed(0)}, style+layout ${t.styleLayoutMs.toFixed(0)}, all tasks ${t.taskMs.toFixed(0)} ms`);
     out.push(f);
   }
   return out;
+}
+
+const caseTargets = (caseId: string): Target[] => PAGES.map((p) => ({ key: p.key, url: `${ORIGIN}/cases/${caseId}${p.path}` }));
+
+// ---------------------------------------------------------------------------------------------
+// The peer page: what any page of the framework costs in this browser on this machine
+
+const PEER_PORT = BASE + 10;
+let peer: ChildProcess | undefined;
+
+/** Builds and starts tests/bench/peer on the app's database (as tests/bench/load.ts does), one process per web process of the app. */
+async function startPeer(databaseUrl: string): Promise<string> {
+  const dir = path.join(root, "tests", "bench", "peer");
+  execFileSync(path.join(root, "node_modules", ".bin", "react-router"), ["build"], { cwd: dir, stdio: "ignore" });
+  peer = spawn(path.join(root, "node_modules", ".bin", "tsx"), [path.join(dir, "server.ts")], {
+    cwd: dir,
+    env: { ...process.env, NODE_ENV: "production", PORT: String(PEER_PORT), DATABASE_URL: databaseUrl, WEB_PROCESSES: String(Math.min(os.availableParallelism(), 4)) },
+    detached: true,
+    stdio: "ignore",
+  });
+  const origin = `http://127.0.0.1:${PEER_PORT}`;
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    // Any answer means it listens (the peer has no health route; an unknown path is its 404).
+    if (await fetch(`${origin}/`).then(() => true, () => false)) return origin;
+    if (Date.now() > deadline) throw new Error(`the peer page did not start on ${origin}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+}
+
+function stopPeer() {
+  if (peer && peer.exitCode === null && peer.signalCode === null) process.kill(-peer.pid!, "SIGTERM");
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -260,7 +380,7 @@ async function waitForResults(context: BrowserContext, caseId: string) {
 // ---------------------------------------------------------------------------------------------
 // Report
 
-function writeSection(demo: PageFigures[], large: PageFigures[], info: { startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
+function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], info: { startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
   const cpu = os.cpus();
   const kib = (b: number) => (b / 1024).toFixed(0);
   const ms = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : `not within ${SETTLE_LIMIT_MS / 1000} s`);
@@ -299,7 +419,27 @@ function writeSection(demo: PageFigures[], large: PageFigures[], info: { startup
   };
   out("## The demo case (TN-WL-001, 81 load cases)");
   out();
-  table(demo, (f) => (!ok(f) ? `**failed** (HTTP ${f.statuses.join(", ")})` : DEMO_TTI_PAGES.includes(f.key) ? `interactive < ${DEMO_TTI_TARGET_MS} ms: ${f.ttiMs < DEMO_TTI_TARGET_MS ? "met" : "**missed**"}` : "—"));
+  out("The first row is the floor of this machine and browser: the peer page of the load benchmark (tests/bench/peer: the same framework,");
+  out("React Router 7 with React 19, a table of the steps and a 20-row history of the same case from the same database; no styles, fonts or");
+  out("charts), loaded the same way. It has no hydration marker: it counts as hydrated when React has attached its props to the heading.");
+  out();
+  table(peerPage ? [{ ...peerPage, key: "peer page (framework floor)" }, ...demo] : demo, (f) => (!ok(f) ? `**failed** (HTTP ${f.statuses.join(", ")})` : DEMO_TTI_PAGES.includes(f.key) ? `interactive < ${DEMO_TTI_TARGET_MS} ms: ${f.ttiMs < DEMO_TTI_TARGET_MS ? "met" : "**missed**"}` : "—"));
+  out("### Where the time to interactive goes (the same loads, medians)");
+  out();
+  out("Milestones on the page's clock (ms from navigation start): the document's first byte (the server's time included), the stylesheet and the");
+  out("last script fetched, the first contentful paint, DOMContentLoaded (the module scripts have run and React Router's entry has started");
+  out("hydrating), hydrated and interactive as above. Then the renderer's main-thread time until the click (Chrome's `Performance.getMetrics`):");
+  out("running JavaScript (module evaluation, hydration, effects), compiling it, style and layout, and all its tasks together; the rest of");
+  out("the time to interactive the main thread waited (for the network, or for a processor on this shared machine).");
+  out();
+  out("| page | first byte | stylesheet | scripts (KiB) | first paint | DOMContentLoaded | hydrated | interactive | script | compile | style + layout | all tasks |");
+  out("|---|---|---|---|---|---|---|---|---|---|---|---|");
+  for (const f of peerPage ? [{ ...peerPage, key: "peer page" }, ...demo] : demo) {
+    const t = f.parts;
+    const n = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : "—");
+    out(`| ${f.key} | ${n(t.ttfb)} | ${n(t.cssEnd)} | ${n(t.scriptsEnd)} (${n(t.scriptKiB)}) | ${n(t.firstPaint)} | ${n(t.domContentLoaded)} | ${ms(f.hydratedMs)} | ${ms(f.ttiMs)} | ${n(t.scriptMs)} | ${n(t.compileMs)} | ${n(t.styleLayoutMs)} | ${n(t.taskMs)} |`);
+  }
+  out();
   out(`## A case of ${LARGE_CASES.toLocaleString("en")} load cases`);
   out();
   table(large, (f) => {
@@ -325,6 +465,8 @@ function writeSection(demo: PageFigures[], large: PageFigures[], info: { startup
 async function main() {
   const startupS = await startApp();
   say(`healthy after ${startupS.toFixed(1)} s`);
+  const databaseUrl = RUNNING ? process.env.BROWSER_BENCH_DATABASE_URL : app.databaseUrl;
+  const peerOrigin = databaseUrl && ONLY !== "large" ? await startPeer(databaseUrl) : null;
   const browser = await chromium.launch({
     executablePath: "/usr/bin/chromium",
     args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
@@ -335,17 +477,25 @@ async function main() {
     const demo = list.cases.find((c) => c.reference === "TN-WL-001");
     if (!demo) throw new Error("the demo case TN-WL-001 is not in the engineer's list");
     const loadStart = loadAverage();
-    let t0 = performance.now();
-    const largeId = list.cases.find((c) => c.reference === LARGE_REFERENCE)?.id ?? (await importLargeCase(context, demo));
-    const importS = (performance.now() - t0) / 1000;
-    t0 = performance.now();
-    await waitForResults(context, largeId);
-    const resultsS = (performance.now() - t0) / 1000;
-    say(`imported ${LARGE_CASES} cases in ${importS.toFixed(1)} s, results stored after ${resultsS.toFixed(1)} s`);
+    let largeId: string | null = null;
+    let importS = NaN;
+    let resultsS = NaN;
+    if (ONLY !== "demo") {
+      let t0 = performance.now();
+      largeId = list.cases.find((c) => c.reference === LARGE_REFERENCE)?.id ?? (await importLargeCase(context, demo));
+      importS = (performance.now() - t0) / 1000;
+      t0 = performance.now();
+      await waitForResults(context, largeId);
+      resultsS = (performance.now() - t0) / 1000;
+      say(`imported ${LARGE_CASES} cases in ${importS.toFixed(1)} s, results stored after ${resultsS.toFixed(1)} s`);
+    }
     await context.close();
-    const demoFigures = await measureCase(browser, state, demo.id, "demo");
-    const largeFigures = await measureCase(browser, state, largeId, "large");
-    writeSection(demoFigures, largeFigures, { startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
+    // The session cookie is the host's, so the peer page on its own port is signed in as the same person.
+    const peerFigures = peerOrigin ? await measurePages(browser, state, [{ key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" }], "floor") : [];
+    const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
+    const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
+    if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
+    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, { startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
   } finally {
     await browser.close();
   }
@@ -353,10 +503,12 @@ async function main() {
 
 main()
   .then(async () => {
+    stopPeer();
     await app.stop();
   })
   .catch(async (error: unknown) => {
     console.error(`[browser] ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
+    stopPeer();
     await app.stop();
     process.exitCode = 1;
   });
