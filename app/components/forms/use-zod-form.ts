@@ -42,9 +42,28 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
   }, [resetKey, reset, defaultValues]);
   const onSubmit = form.handleSubmit((_values, event) => {
     const el = (event?.target ?? null) as HTMLFormElement | null;
-    if (el) submit(el, { method: "post" });
+    if (el) submit(formBody(el, form.getValues()), { method: "post", action: el.getAttribute("action") ?? undefined, encType: el.enctype as "application/x-www-form-urlencoded" | "multipart/form-data" });
   });
   return { form, onSubmit };
+}
+
+/**
+ * What the form posts: its controls, and the rows of a windowed grid (EditableGrid) that are not on
+ * screen, from the form's state, under the names their inputs would have ("cases.120.mach"). A row
+ * with any control in the form is posted by its controls alone, as a browser posts it.
+ */
+export function formBody(el: HTMLFormElement, values: FieldValues): FormData {
+  const body = new FormData(el);
+  for (const [list, rows] of Object.entries(values)) {
+    if (!Array.isArray(rows)) continue;
+    rows.forEach((row: unknown, i) => {
+      if (row === null || typeof row !== "object" || Array.isArray(row)) return;
+      const cells = Object.entries(row as Record<string, unknown>);
+      if (cells.some(([key]) => el.elements.namedItem(`${list}.${i}.${key}`) !== null)) return;
+      for (const [key, v] of cells) if (typeof v === "string" || typeof v === "number" || typeof v === "boolean") body.append(`${list}.${i}.${key}`, String(v));
+    });
+  }
+  return body;
 }
 
 type Control = HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement;
@@ -71,7 +90,9 @@ function currentValue(el: Control): string | boolean {
 function registerKeepingTyped<T extends FieldValues, O>(form: UseFormReturn<T, unknown, O>, register: UseFormRegister<T>, hydrating: { current: boolean }): UseFormRegister<T> {
   return (name, options) => {
     const field = register(name, options);
-    const saved: unknown = get(form.control._defaultValues, name);
+    // What the form holds now: the saved value when the page is first drawn, what was typed when a
+    // windowed grid draws a row again (a checkbox drawn with a stale defaultChecked would be read back).
+    const saved: unknown = get(form.control._formValues, name);
     const initial = typeof saved === "boolean" ? { defaultChecked: saved } : typeof saved === "number" || typeof saved === "string" ? { defaultValue: String(saved) } : {};
     return {
       ...field,

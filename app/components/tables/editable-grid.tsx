@@ -1,5 +1,6 @@
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import { useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
+import { useVirtualizer } from "@tanstack/react-virtual";
+import { useRef, useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
 import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
@@ -21,12 +22,25 @@ interface Props<T extends FieldValues, O> {
   emptyRow: Record<string, string>;
   disabled?: boolean;
   csvName: string;
+  /**
+   * Lets a long grid show only the rows in view (above GRID_WINDOW_ROWS rows), and names the form
+   * field that posts its row count: a post sent before the page's scripts ran carries only the rows
+   * the server rendered, and the action refuses it instead of saving the list short.
+   */
+  countField?: string;
 }
+
+/** Above this many rows a grid with a count field shows the rows in view only; the page's scripts post the others from the form's state. */
+export const GRID_WINDOW_ROWS = 40;
+/** A row's height before it is measured (an input and its cell padding), and the window's height (h-[32rem]). */
+const ROW_PX = 33;
+const WINDOW_PX = 512;
 
 /**
  * An editable table of numbers bound to a react-hook-form field array: arrow keys and Enter move
  * between cells, a block pasted from a spreadsheet fills the grid from the focused cell (rows are
- * added as needed), and the rows can be exported as CSV.
+ * added as needed), and the rows can be exported as CSV. A long one (countField) renders the rows in
+ * view only: the form's state holds every row, and useZodForm posts the ones scrolled away.
  */
 export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
   const { form } = props;
@@ -57,10 +71,21 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
     };
   };
 
-  const focusCell = (row: number, col: number) => {
+  const scroller = useRef<HTMLDivElement>(null);
+  const windowed = props.countField !== undefined && fields.length > GRID_WINDOW_ROWS;
+  // The same first rows on the server and in the first render (initialRect), so hydration matches.
+  const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed });
+
+  const focusCell = (row: number, col: number, frames = 3) => {
     const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
-    el?.focus();
-    el?.select();
+    if (el) {
+      el.focus();
+      el.select();
+    } else if (windowed && frames > 0 && row >= 0 && row < fields.length) {
+      // A row out of the window is brought into it first, then focused once rendered.
+      virtualizer.scrollToIndex(row);
+      requestAnimationFrame(() => focusCell(row, col, frames - 1));
+    }
   };
 
   const onKeyDown = (row: number, col: number) => (e: KeyboardEvent<HTMLInputElement>) => {
@@ -155,13 +180,19 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
   ];
 
   const table = useReactTable({ data: fields as unknown as Record<string, unknown>[], columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
+  const rows = table.getRowModel().rows;
+  const items = windowed ? virtualizer.getVirtualItems() : null;
+  const shown = items ? items.flatMap((i) => (rows[i.index] ? [{ row: rows[i.index]!, index: i.index }] : [])) : rows.map((row, index) => ({ row, index }));
+  const padTop = items?.[0]?.start ?? 0;
+  const padBottom = items ? virtualizer.getTotalSize() - (items[items.length - 1]?.end ?? 0) : 0;
 
   return (
     <div>
-      <div className="overflow-x-auto rounded border border-line bg-surface">
-        <table className="w-full text-sm">
+      {props.countField ? <input type="hidden" name={props.countField} value={fields.length} /> : null}
+      <div ref={scroller} className={`${windowed ? "max-h-[32rem] overflow-auto" : "overflow-x-auto"} rounded border border-line bg-surface`} data-testid={windowed ? `${props.name}-window` : undefined}>
+        <table className="w-full text-sm" aria-rowcount={windowed ? fields.length + 1 : undefined}>
           <caption className="sr-only">{props.caption}</caption>
-          <thead className="border-b border-line bg-canvas text-xs text-ink-muted">
+          <thead className={`${windowed ? "sticky top-0 z-10 " : ""}border-b border-line bg-canvas text-xs text-ink-muted`}>
             {table.getHeaderGroups().map((g) => (
               <tr key={g.id}>
                 {g.headers.map((h) => (
@@ -173,8 +204,9 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
             ))}
           </thead>
           <tbody>
-            {table.getRowModel().rows.map((r) => (
-              <tr key={r.id} className="border-b border-line align-top last:border-0">
+            {padTop > 0 ? <tr aria-hidden="true" style={{ height: padTop }} /> : null}
+            {shown.map(({ row: r, index }) => (
+              <tr key={r.id} data-index={index} aria-rowindex={windowed ? index + 2 : undefined} ref={windowed ? virtualizer.measureElement : undefined} className="border-b border-line align-top last:border-0">
                 {r.getVisibleCells().map((cell) => (
                   <td key={cell.id} className="px-2 py-1">
                     {/* Called, not mounted: flexRender would mount each cell function as a component of a new
@@ -184,6 +216,7 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
                 ))}
               </tr>
             ))}
+            {padBottom > 0 ? <tr aria-hidden="true" style={{ height: padBottom }} /> : null}
           </tbody>
         </table>
       </div>

@@ -121,6 +121,7 @@ export function CasesPanel({ form, server, units, disabled, count }: { form: Env
         emptyRow={{ id: "", kind: "manual", rule: "added by hand", mach: "", altitude: "", weight: "", nz: "", alpha: "", massCase: "", tailLoad: "", rollFraction: "", rollAileron: "" }}
         disabled={disabled}
         csvName="load-cases.csv"
+        countField="casesCount"
       />
       <p className="mt-2 text-xs text-ink-muted">
         Give each case either weight and load factor (trimmed so that the wing carries nz·W less the tail load) or an angle of attack. A trimmed case names its mass case (masses step); its tail load (up positive) is taken

@@ -47,10 +47,18 @@ export const MAX_EDITED_ROWS = 2000;
  * and its method alone ("method": the stored cases kept).
  */
 export const EnvelopeFormSchema = z.discriminatedUnion("intent", [
-  z.strictObject({ intent: z.literal("save"), ...method, cases: z.array(caseRow).default([]) }),
+  z
+    .strictObject({ intent: z.literal("save"), ...method, cases: z.array(caseRow).default([]), casesCount: optionalNumberInput("Number of load cases") })
+    // The grid shows the rows in view only; its scripts post the others. A post sent before they ran
+    // carries only the rows the server drew: refused, so that the case file is not saved short.
+    .check((ctx) => {
+      const { cases, casesCount } = ctx.value;
+      if (casesCount !== undefined && casesCount !== cases.length)
+        ctx.issues.push({ code: "custom", input: cases, path: ["cases"], message: `The page sent ${cases.length} of its ${casesCount} load cases (it had not finished loading); nothing was saved: save again.` });
+    }),
   // Generating replaces the generated rows, so the grid's rows posted with it are not read.
-  z.strictObject({ intent: z.literal("generate"), ...method, cases: z.unknown().optional() }),
-  z.strictObject({ intent: z.literal("method"), ...method, cases: z.unknown().optional() }),
+  z.strictObject({ intent: z.literal("generate"), ...method, cases: z.unknown().optional(), casesCount: z.unknown().optional() }),
+  z.strictObject({ intent: z.literal("method"), ...method, cases: z.unknown().optional(), casesCount: z.unknown().optional() }),
   z
     .strictObject({
       intent: z.literal("rows"),

@@ -94,4 +94,13 @@ describe("the step forms say the rule a number breaks, naming the field", () => 
       "cases.1.alpha": ["Angle of attack must lie within ±30°"],
     });
   });
+
+  it("load cases: a post with fewer rows than the grid's count (sent before the page's scripts ran) is refused, naming the cases", () => {
+    const row = { id: "M1", kind: "manoeuvre", rule: "", mach: "0.3", altitude: "0", alpha: "", weight: "31380", nz: "3.8", massCase: "", tailLoad: "", excluded: "" };
+    const form = { intent: "save", revision: "0", compressibility: "prandtl-glauert", spanwise: "vortex-lattice", stations: "40", strips: "", cases: [row, { ...row, id: "M2" }] };
+    expect(messages(EnvelopeFormSchema, { ...form, casesCount: "2" })).toEqual({});
+    expect(messages(EnvelopeFormSchema, { ...form, casesCount: "228" })).toEqual({ cases: ["The page sent 2 of its 228 load cases (it had not finished loading); nothing was saved: save again."] });
+    // Generating and saving the method do not read the rows.
+    expect(messages(EnvelopeFormSchema, { ...form, intent: "method", casesCount: "228" })).toEqual({});
+  });
 });

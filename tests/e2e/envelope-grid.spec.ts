@@ -1,0 +1,70 @@
+import { expect, test, type Page } from "@playwright/test";
+import { copyOfDemoCase, exported, hydrated, shot, signIn } from "./helpers";
+
+// The envelope's load-case grid draws only the rows in view (the demo's case file has far more rows
+// than fit): what is typed into any row, drawn or scrolled away, is what is saved, and a post sent
+// before the page's scripts ran (with only the rows the server drew) saves nothing.
+
+const saved = (page: Page) => page.getByRole("status").filter({ hasText: /Saved as revision \d+\./ });
+
+test("rows scrolled into view are edited and saved with every row never shown, unchanged", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const caseId = await copyOfDemoCase(page, "E2E-GRID-1");
+  const before = await exported(page, caseId);
+  const last = before.cases.length - 1;
+  expect(last).toBeGreaterThan(100);
+
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  await expect(page.getByText(`Load cases (${before.cases.length})`)).toBeVisible();
+  // The first rows are drawn, the last one is not until it is scrolled to.
+  await expect(page.locator("#cases-0-3")).toBeVisible();
+  await expect(page.locator(`#cases-${last}-3`)).toHaveCount(0);
+  await page.locator("#cases-0-3").fill("1111");
+  await page.getByTestId("cases-window").evaluate((el) => el.scrollTo(0, el.scrollHeight));
+  await page.locator(`#cases-${last}-3`).fill("2222");
+  // Scrolled back to the top, the first row still holds what was typed into it.
+  await page.getByTestId("cases-window").evaluate((el) => el.scrollTo(0, 0));
+  await expect(page.locator("#cases-0-3")).toHaveValue("1111");
+  // The arrow key moves down out of the drawn rows: the row below is brought into view and focused.
+  await page.getByTestId("cases-window").evaluate((el) => el.scrollTo(0, el.scrollHeight));
+  await page.locator(`#cases-${last - 1}-3`).press("ArrowDown");
+  await expect(page.locator(`#cases-${last}-3`)).toBeFocused();
+  await shot(page, "envelope-grid-window");
+
+  await page.getByRole("button", { name: "Save envelope" }).click();
+  await expect(saved(page)).toBeVisible({ timeout: 60_000 });
+  const after = await exported(page, caseId);
+  expect(after.cases.map((c) => c.id)).toEqual(before.cases.map((c) => c.id));
+  expect(after.cases[0]!.altitude).toBe(1111);
+  expect(after.cases[last]!.altitude).toBe(2222);
+  // Every other row, never drawn in this browser, is stored as it was (to the rounding of the
+  // display units a whole-grid save goes through: a weight shown in kg is stored in N).
+  after.cases.slice(1, last).forEach((row, i) => sameCase(row, before.cases[i + 1]!));
+});
+
+function sameCase(stored: Record<string, unknown>, expected: Record<string, unknown>) {
+  expect(Object.keys(stored).sort()).toEqual(Object.keys(expected).sort());
+  for (const [key, value] of Object.entries(expected)) {
+    if (typeof value === "number") expect(Math.abs((stored[key] as number) - value), `${String(expected.id)}.${key}`).toBeLessThanOrEqual(1e-6 * Math.max(1, Math.abs(value)));
+    else expect(stored[key], `${String(expected.id)}.${key}`).toEqual(value);
+  }
+}
+
+test("a save posted before the page's scripts ran, with only the rows the server drew, is refused and writes nothing", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const caseId = await copyOfDemoCase(page, "E2E-GRID-2");
+  const before = await exported(page, caseId);
+  await page.route("**/assets/*.js", () => {
+    // The scripts never arrive: the form is the server's HTML alone.
+  });
+  await page.goto(`/cases/${caseId}/envelope`, { waitUntil: "domcontentloaded" });
+  await expect(page.locator("html[data-hydrated]")).toHaveCount(0);
+  await page.getByRole("button", { name: "Save envelope" }).click();
+  await expect(page.getByText(new RegExp(`The page sent \\d+ of its ${before.cases.length} load cases \\(it had not finished loading\\); nothing was saved: save again\\.`))).toBeVisible();
+  await page.unroute("**/assets/*.js");
+  const after = await exported(page, caseId);
+  expect(after.cases).toEqual(before.cases);
+});
