@@ -1,14 +1,14 @@
-import { lazy, Suspense, useRef, useSyncExternalStore } from "react";
+import { lazy, Suspense, useEffect, useRef, useState } from "react";
 import type ReactEChartsCore from "echarts-for-react/esm/core";
 import type { ChartOption } from "~/charts/theme";
 
-// ECharts needs a browser: the server renders a sized frame and the chart appears on hydration,
-// from a chunk of its own holding only the chart types and components the app draws.
+// ECharts needs a browser: the server renders a sized frame and the chart appears once the page
+// answers input, from a chunk of its own holding only the chart types and components the app draws.
 const ReactECharts = lazy(() => import("./echarts-client"));
 
 /** One chart with hover read-outs and PNG/SVG saving; options come from app/charts builders. */
 export function Chart({ option, height = 320, label, fileName }: { option: ChartOption; height?: number; label: string; fileName: string }) {
-  const client = useHydrated();
+  const client = useAfterInteractive();
   const ref = useRef<ReactEChartsCore | null>(null);
   const save = async (type: "png" | "svg") => {
     const a = document.createElement("a");
@@ -48,9 +48,21 @@ export function Chart({ option, height = 320, label, fileName }: { option: Chart
   );
 }
 
-const neverChanges = () => () => {};
-
-/** False on the server and while the page hydrates, true from then on (React's own hydration switch, no effect). */
-function useHydrated() {
-  return useSyncExternalStore(neverChanges, () => true, () => false);
+/**
+ * False on the server, while the page hydrates and until the browser is next idle; true from then on.
+ * Fetching, compiling and drawing the chart library takes the main thread for a while: a click or a
+ * key pressed as the page appears is handled first.
+ */
+function useAfterInteractive() {
+  const [ready, setReady] = useState(false);
+  useEffect(() => {
+    if (typeof window.requestIdleCallback !== "function") {
+      const timer = setTimeout(() => setReady(true), 0);
+      return () => clearTimeout(timer);
+    }
+    // At the latest after a second, on a page that is never idle.
+    const id = window.requestIdleCallback(() => setReady(true), { timeout: 1000 });
+    return () => window.cancelIdleCallback(id);
+  }, []);
+  return ready;
 }
