@@ -10,4 +10,18 @@ export default defineConfig({
   // The chart chunk (echarts/core with the parts used, ~555 kB, ~190 kB compressed) is the one
   // chunk above Vite's default 500 kB warning; it loads only where a chart is drawn.
   build: { rolldownOptions: { checks: { pluginTimings: false } }, chunkSizeWarningLimit: 600 },
+  environments: {
+    client: {
+      build: {
+        rolldownOptions: {
+          output: {
+            // The small modules every case page draws (the frame's badges, headers, error panel, step
+            // list, units, formatting; none imports anything heavy) in one chunk instead of ten of a
+            // few hundred bytes each: a page is one request over HTTP/1.1's six connections, not ten.
+            codeSplitting: { groups: [{ name: "shared", test: /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/format\.)/ }] },
+          },
+        },
+      },
+    },
+  },
 });
