@@ -73,19 +73,46 @@ const startApp = (): Promise<number> => (RUNNING ? Promise.resolve(0) : app.star
 // The browser
 
 /**
- * Runs in the page before its own scripts: notes (in ms since navigation start) when root.tsx marks
- * html[data-hydrated] and when the first click reaches the document, which happens only once the
- * main thread is free to handle it.
+ * Runs in the page before its own scripts: notes (in ms since navigation start) when the page has
+ * hydrated — root.tsx marks html[data-hydrated]; the peer page, which has no marker, when React has
+ * attached its props to the heading (looked for at each frame) — and when the first click reaches
+ * the document, which happens only once the main thread is free to handle it. `ready` resolves with
+ * the heading's centre at hydration, `clickedAt` with the click's time. The benchmark reads them
+ * through CDP alone: Playwright's own helpers (waitForFunction) would compile its injected script,
+ * some hundred kilobytes, on the page's main thread as the page hydrates.
  */
-const PAGE_PROBE = `
-  window.__bench = { hydrated: null, clicked: null };
-  new MutationObserver((_, observer) => {
-    if (document.documentElement.dataset.hydrated && window.__bench.hydrated === null) {
-      window.__bench.hydrated = performance.now();
-      observer.disconnect();
+const pageProbe = (ready: Ready) => `
+  const bench = (window.__bench = { hydrated: null, clicked: null });
+  const centre = () => {
+    const r = document.querySelector("main h1")?.getBoundingClientRect();
+    return r ? { x: r.x + r.width / 2, y: r.y + r.height / 2 } : null;
+  };
+  bench.ready = new Promise((resolve) => {
+    const done = () => {
+      bench.hydrated = performance.now();
+      resolve(centre());
+    };
+    if (${JSON.stringify(ready)} === "marker") {
+      new MutationObserver((_, observer) => {
+        if (document.documentElement.dataset.hydrated && bench.hydrated === null) {
+          observer.disconnect();
+          done();
+        }
+      }).observe(document, { attributes: true, subtree: true, attributeFilter: ["data-hydrated"] }); // <html> does not exist yet
+    } else {
+      const look = () => {
+        const h = document.querySelector("main h1");
+        if (h && Object.keys(h).some((k) => k.startsWith("__reactProps$"))) done();
+        else requestAnimationFrame(look);
+      };
+      requestAnimationFrame(look);
     }
-  }).observe(document, { attributes: true, subtree: true, attributeFilter: ["data-hydrated"] }); // <html> does not exist yet
-  document.addEventListener("click", () => { if (window.__bench.clicked === null) window.__bench.clicked = performance.now(); }, true);
+  });
+  bench.clickedAt = new Promise((resolve) => {
+    document.addEventListener("click", () => {
+      if (bench.clicked === null) resolve((bench.clicked = performance.now()));
+    }, true);
+  });
 `;
 
 interface PageRun {
@@ -137,7 +164,7 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
   const context = await browser.newContext({ storageState, viewport: { width: 1280, height: 800 } });
   try {
     const page = await context.newPage();
-    await page.addInitScript(PAGE_PROBE);
+    await page.addInitScript(pageProbe(ready));
     const cdp = await context.newCDPSession(page);
     await cdp.send("Network.enable");
     await cdp.send("Network.setCacheDisabled", { cacheDisabled: false });
@@ -169,7 +196,7 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
       lastActivity = performance.now();
     });
     const started = performance.now();
-    const probe = await interactive(page, cdp, url, ready).catch((error: unknown) => {
+    const probe = await interactive(page, cdp, url).catch((error: unknown) => {
       // A page that is not interactive within the limit is recorded as such, with what it had transferred.
       if (error instanceof Error && error.name === "TimeoutError") return { hydrated: Infinity, clicked: Infinity, parts: NO_PARTS };
       throw error;
@@ -200,7 +227,7 @@ async function measurePage(browser: Browser, storageState: Awaited<ReturnType<Br
 
 const NO_PARTS: Parts = { ttfb: NaN, documentEnd: NaN, scriptsEnd: NaN, scriptKiB: NaN, cssEnd: NaN, fontsEnd: NaN, fonts: NaN, firstPaint: NaN, domContentLoaded: NaN, scriptMs: NaN, compileMs: NaN, styleLayoutMs: NaN, taskMs: NaN };
 
-/** Read in the page after the click: its navigation and resource timings (a string, so that no helper of the bundler leaks into the page). */
+/** Read in the page after the click: its navigation and resource timings. */
 const MILESTONES = `(() => {
   const bench = window.__bench;
   const nav = performance.getEntriesByType("navigation")[0];
@@ -224,29 +251,28 @@ const MILESTONES = `(() => {
 })()`;
 
 /** Loads the page; when it says it has hydrated, clicks it: both moments on the page's own clock. */
-async function interactive(page: Page, cdp: CDPSession, url: string, ready: Ready): Promise<{ hydrated: number; clicked: number; parts: Parts }> {
+async function interactive(page: Page, cdp: CDPSession, url: string): Promise<{ hydrated: number; clicked: number; parts: Parts }> {
   await page.goto(url, { waitUntil: "commit", timeout: SETTLE_LIMIT_MS });
-  // Where the page's heading is, once the page says it has hydrated…
-  const at = await page.waitForFunction(
-    (mode) => {
-      const bench = (window as unknown as { __bench: { hydrated: number | null } }).__bench;
-      const heading = document.querySelector("main h1");
-      if (mode === "react" && heading && bench.hydrated === null && Object.keys(heading).some((k) => k.startsWith("__reactProps$"))) bench.hydrated = window.performance.now();
-      const h = (mode === "marker" ? document.documentElement.dataset.hydrated : bench.hydrated !== null) ? heading?.getBoundingClientRect() : undefined;
-      return h ? { x: h.x + h.width / 2, y: h.y + h.height / 2 } : null;
-    },
-    ready,
-    { timeout: SETTLE_LIMIT_MS, polling: "raf" },
-  );
-  const { x, y } = (await at.jsonValue())!;
+  const inPage = async <T,>(expression: string): Promise<T> => {
+    const r = (await cdp.send("Runtime.evaluate", { expression, awaitPromise: true, returnByValue: true })) as { result: { value?: T }; exceptionDetails?: { text: string } };
+    if (r.exceptionDetails) throw new Error(`in the page: ${r.exceptionDetails.text}`);
+    return r.result.value as T;
+  };
+  const within = <T,>(p: Promise<T>) =>
+    Promise.race([p, new Promise<never>((_, reject) => setTimeout(() => reject(Object.assign(new Error("not interactive in time"), { name: "TimeoutError" })), SETTLE_LIMIT_MS))]);
+  // Where the page's heading is, once the page says it has hydrated (the probe may not be there the instant the document commits)…
+  const at = await within(inPage<{ x: number; y: number } | null>("new Promise((r) => { const go = () => (window.__bench ? window.__bench.ready.then(r) : setTimeout(go, 5)); go(); })"));
+  if (!at) throw new Error(`${url}: no heading (main h1) to click`);
   // …and a click there (it does nothing), sent as real input: the page handles it when its main thread is free.
-  await cdp.send("Input.dispatchMouseEvent", { type: "mousePressed", x, y, button: "left", clickCount: 1 });
-  await cdp.send("Input.dispatchMouseEvent", { type: "mouseReleased", x, y, button: "left", clickCount: 1 });
-  await page.waitForFunction(() => (window as unknown as { __bench: { clicked: number | null } }).__bench.clicked !== null, undefined, { timeout: SETTLE_LIMIT_MS });
+  await cdp.send("Input.dispatchMouseEvent", { type: "mousePressed", x: at.x, y: at.y, button: "left", clickCount: 1 });
+  await cdp.send("Input.dispatchMouseEvent", { type: "mouseReleased", x: at.x, y: at.y, button: "left", clickCount: 1 });
+  await within(inPage<number>("window.__bench.clickedAt"));
   const metrics = Object.fromEntries(((await cdp.send("Performance.getMetrics")) as { metrics: { name: string; value: number }[] }).metrics.map((m) => [m.name, m.value]));
-  const seen = (await page.evaluate(MILESTONES)) as Omit<Parts, "scriptMs" | "compileMs" | "styleLayoutMs" | "taskMs"> & { hydrated: number; clicked: number };
+  const seen = await inPage<Omit<Parts, "scriptMs" | "compileMs" | "styleLayoutMs" | "taskMs"> & { hydrated: number; clicked: number }>(MILESTONES);
   const ms = (name: string) => (metrics[name] ?? NaN) * 1000;
-  const { hydrated, clicked, ...rest } = seen;
+  const { hydrated, clicked, ...read } = seen;
+  // A missing milestone (no stylesheet, no font) comes back through JSON as null.
+  const rest = Object.fromEntries(Object.entries(read).map(([k, v]) => [k, v ?? NaN])) as typeof read;
   return {
     hydrated,
     clicked,
