@@ -24,8 +24,8 @@ import {
   type WingModel,
 } from "~/engine";
 import { attributionOf, caseSides, caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
-import { buildCaseFile, caseInputs, parseOrThrow } from "./analysis.server";
-import { caseUnits, getCaseSteps } from "./case-steps.server";
+import { currentDistributionInput, parseOrThrow } from "./analysis.server";
+import { getCaseUnits } from "./case-steps.server";
 
 /*
  * Comparisons beyond the case's own results, for the distribution page and the report: the root
@@ -183,7 +183,9 @@ export function spanwiseComparison(input: CaseFileInput, caseId: string, section
  * @throws DomainError (not-found) for a load case the envelope step does not include
  */
 export async function caseSpanwiseComparison(input: { caseId: string; title: string; loadCase: string }): Promise<{ units: UnitSystem; comparison: SpanwiseComparison }> {
-  const steps = await getCaseSteps(input.caseId);
-  const file = buildCaseFile(input.title, caseInputs(steps), "envelope");
-  return { units: caseUnits(steps), comparison: spanwiseComparison(file, input.loadCase) };
+  const [units, { file }] = await Promise.all([getCaseUnits(input.caseId), currentDistributionInput(input.caseId, input.title)]);
+  // The one case taken out of the (memoised) input and checked alone, not a large case file whole.
+  const lc = file.cases.find((k) => k.id === input.loadCase);
+  if (!lc) throw new DomainError(`No load case "${input.loadCase}" in this case.`, { field: "case", kind: "not-found" });
+  return { units, comparison: spanwiseComparison({ ...file, cases: [lc] }, input.loadCase) };
 }

@@ -11,6 +11,7 @@ import { boss, QUEUES, stopBoss } from "~/jobs/boss.server";
 import { loader as viewLoader } from "~/routes/api/case-distribution";
 import { loader as flagsLoader } from "~/routes/api/case-flagged-cases";
 import { loader as searchLoader } from "~/routes/api/case-load-case-search";
+import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
 import { action as pageAction, loader as pageLoader } from "~/routes/cases/distribution";
 import { computeQueuedResults, currentDistributionInput, resultsFor } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
@@ -132,6 +133,20 @@ describe("the distribution page of a large case file", () => {
     const negative = await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=-1&limit=10`, largeId);
     expect(negative.status).toBe(400);
     expect(((await negative.json()) as { message: string }).message).toMatch(/^offset must be a whole number/);
+  });
+
+  it("shows one case of the file, and compares it by each spanwise method, checking that case alone", async () => {
+    await pageOf(largeId);
+    const from = checks();
+    const view = await get(viewLoader, `/api/cases/${largeId}/distribution?case=D7`, largeId);
+    expect(view.status).toBe(200);
+    const methods = await get(spanwiseLoader, `/api/cases/${largeId}/spanwise-methods?case=D7`, largeId);
+    expect(methods.status).toBe(200);
+    expect(((await methods.json()) as { comparison: { caseId: string } }).comparison.caseId).toBe("D7");
+    expect(checked(from)).toEqual([1, 1]);
+    const missing = await get(viewLoader, `/api/cases/${largeId}/distribution?case=D0`, largeId);
+    expect(missing.status).toBe(404);
+    expect(((await missing.json()) as { message: string }).message).toBe('Case file DIST-3000 has no load case "D0".');
   });
 
   it("suggests the cases whose id holds the text typed, those beginning with it first, at most a few", async () => {
