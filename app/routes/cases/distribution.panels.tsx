@@ -6,6 +6,7 @@ import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/char
 import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
+import { useRowPages } from "~/components/ui/use-row-pages";
 import { Alert, Panel } from "~/components/ui/page-header";
 import type { FlagReason } from "~/domain/results";
 import { RULE_LABELS } from "~/domain/step-data";
@@ -238,40 +239,17 @@ const FLAG_ROW_PX = 64;
  * revision they were made on.
  */
 export function DispositionsPanel({ caseId, total, first, revision, canEdit, status, save, show }: { caseId: string; total: number; first: Row[]; revision: number; canEdit: boolean; status: StepStatus; save: SaveFetcher; show: (id: string) => void }) {
-  const pageRows = Math.max(first.length, 1);
-  const [pages, setPages] = useState<Map<number, Row[]>>(() => new Map([[0, first]]));
   const [edits, setEdits] = useState<Map<string, Edit>>(() => new Map());
-  const [stale, setStale] = useState(false);
-  const requested = useRef(new Set<number>([0]));
   const scroller = useRef<HTMLDivElement>(null);
-  // New rows from the server (a save here, a bulk disposition) replace those held; a new revision also the edits made on the old one.
-  const [held, setHeld] = useState({ revision, first });
-  if (held.revision !== revision || held.first !== first) {
-    setHeld({ revision, first });
-    setPages(new Map([[0, first]]));
-    if (held.revision !== revision) setEdits(new Map());
-    setStale(false);
-    requested.current = new Set([0]);
+  // A new revision (a save here, a disposition for a whole reason) drops the edits made on the old one.
+  const [editedOn, setEditedOn] = useState(revision);
+  if (editedOn !== revision) {
+    setEditedOn(revision);
+    setEdits(new Map());
   }
   const virtualizer = useVirtualizer({ count: total, getScrollElement: () => scroller.current, estimateSize: () => FLAG_ROW_PX, overscan: 8, initialRect: { width: 0, height: 512 } });
   const items = virtualizer.getVirtualItems();
-  const firstIndex = items[0]?.index ?? 0;
-  const lastIndex = items[items.length - 1]?.index ?? 0;
-  useEffect(() => {
-    for (let p = Math.floor(firstIndex / pageRows); p <= Math.floor(Math.min(lastIndex, total - 1) / pageRows); p++) {
-      if (requested.current.has(p)) continue;
-      requested.current.add(p);
-      fetch(`${href("/api/cases/:caseId/flagged-cases", { caseId })}?offset=${p * pageRows}&limit=${pageRows}`, { headers: { Accept: "application/json" } })
-        .then((r) => (r.ok ? (r.json() as Promise<FlagWindow>) : Promise.reject(new Error(String(r.status)))))
-        .then((page) => {
-          if (page.revision !== revision) setStale(true);
-          setPages((m) => new Map(m).set(p, page.rows));
-        })
-        .catch(() => requested.current.delete(p));
-    }
-  }, [firstIndex, lastIndex, total, caseId, revision, pageRows]);
-
-  const rowAt = (i: number) => pages.get(Math.floor(i / pageRows))?.[i % pageRows];
+  const { rowAt, stale } = useRowPages({ source: href("/api/cases/:caseId/flagged-cases", { caseId }), first, total, revision, firstIndex: items[0]?.index ?? 0, lastIndex: items[items.length - 1]?.index ?? 0 });
   const valueOf = (row: Row): Edit => edits.get(row.id) ?? { action: row.disposition?.action ?? "none", comment: row.disposition?.comment ?? "" };
   const edit = (row: Row, change: Partial<Edit>) => setEdits((m) => new Map(m).set(row.id, { ...valueOf(row), ...change }));
   const busy = save.state !== "idle";
