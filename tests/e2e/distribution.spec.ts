@@ -51,4 +51,21 @@ test("the distribution page waits for the results, finds a case by part of its i
   expect(rows.rows.find((r) => r.id === id)?.disposition).toEqual({ action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." });
   await expect(table.getByRole("combobox", { name: `Disposition of ${id}` })).toHaveValue("justify");
   await shot(page, "distribution-dispositions");
+
+  // The last row, fetched by range once scrolled into view, saved alone: merged with the first.
+  const total = Number(await table.getAttribute("aria-rowcount")) - 1;
+  const scroller = page.getByTestId("flagged-cases");
+  const last = table.locator(`tr[aria-rowindex="${total + 1}"]`).getByRole("combobox", { name: /^Disposition of / });
+  await expect(async () => {
+    await scroller.evaluate((el) => el.scrollTo(0, el.scrollHeight));
+    await expect(last).toBeVisible({ timeout: 1000 });
+  }).toPass();
+  const lastId = (await last.getAttribute("aria-label"))!.replace("Disposition of ", "");
+  await last.selectOption("exclude");
+  await page.getByRole("button", { name: "Save dispositions" }).click();
+  await expect(page.getByText("Dispositions saved as revision 2.")).toBeVisible();
+  const tail = (await (await page.request.get(`/api/cases/${caseId}/flagged-cases?offset=${total - 1}&limit=1`)).json()) as typeof rows;
+  expect(tail.rows).toEqual([expect.objectContaining({ id: lastId, disposition: { action: "exclude", comment: "" } })]);
+  const head = (await (await page.request.get(`/api/cases/${caseId}/flagged-cases?offset=0&limit=50`)).json()) as typeof rows;
+  expect(head.rows.find((r) => r.id === id)?.disposition).toEqual({ action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." });
 });
