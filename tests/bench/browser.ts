@@ -406,7 +406,7 @@ async function waitForResults(context: BrowserContext, caseId: string) {
 // ---------------------------------------------------------------------------------------------
 // Report
 
-function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], info: { startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
+function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], info: { demoCases: number; startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
   const cpu = os.cpus();
   const kib = (b: number) => (b / 1024).toFixed(0);
   const ms = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : `not within ${SETTLE_LIMIT_MS / 1000} s`);
@@ -443,7 +443,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     for (const f of rows) out(`| ${f.key} | ${f.statuses.join(", ")} | ${kib(f.bytes)} | ${kib(f.documentBytes)} | ${f.requests} | ${ms(f.hydratedMs)} | ${ms(f.ttiMs)} | ${ms(f.settledMs)}${f.allSettled ? "" : " (still fetching)"} | ${targets(f)} |`);
     out();
   };
-  out("## The demo case (TN-WL-001, 81 load cases)");
+  out(`## The demo case (TN-WL-001, ${info.demoCases} load cases)`);
   out();
   out("The first row is the floor of this machine and browser: the peer page of the load benchmark (tests/bench/peer: the same framework,");
   out("React Router 7 with React 19, a table of the steps and a 20-row history of the same case from the same database; no styles, fonts or");
@@ -502,6 +502,7 @@ async function main() {
     const list = (await (await context.request.get(`${ORIGIN}/api/v1/cases`)).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
     const demo = list.cases.find((c) => c.reference === "TN-WL-001");
     if (!demo) throw new Error("the demo case TN-WL-001 is not in the engineer's list");
+    const demoCases = ((await (await context.request.get(`${ORIGIN}/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] }).cases.length;
     const loadStart = loadAverage();
     let largeId: string | null = null;
     let importS = NaN;
@@ -521,7 +522,7 @@ async function main() {
     const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
     if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
-    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, { startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
+    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
   } finally {
     await browser.close();
   }
