@@ -1,3 +1,5 @@
+import { LRUCache } from "lru-cache";
+import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import type { BasisData, EnvelopeData, LoadCase, MassesData, PlanformData, SectionsData } from "~/domain/step-data";
 import {
   designGustsPart23,
@@ -284,9 +286,21 @@ export function regeneratedCases(inputs: Pick<CaseInputs, "basis" | "planform" |
   return [...generatedCases(vnSets(inputs.basis, inputs.planform, inputs.sections, method, inputs.masses)), ...kept];
 }
 
+// The V–n diagrams are a function of exactly the inputs in the key, so an entry is never stale. Working
+// them out solves the wing at each gust and flaps Mach number: 100–280 ms that the V–n page's loader paid on
+// every request before. Callers get a copy, so none can change what another is handed.
+const vnCache = new LRUCache<string, VnSet[]>({ max: 64 });
+
 /** The V–n diagrams of the basis (as vnSetsOf above), the engine's refusals answered as refusals naming the field. */
-export function vnSets(...args: Parameters<typeof vnSetsOf>): VnSet[] {
-  return runEngine(() => vnSetsOf(...args));
+export function vnSets(basis: BasisData, planform: PlanformData, sections: SectionsData, method: Pick<EnvelopeData, "compressibility" | "spanwise">, masses?: MassesData | null): VnSet[] {
+  // Only the method's rule and spanwise solver are read: a whole envelope step may be passed as the method.
+  const key = sha256Hex(canonicalJson({ basis, planform, sections, method: { compressibility: method.compressibility, spanwise: method.spanwise }, masses: masses ?? null }));
+  let sets = vnCache.get(key);
+  if (!sets) {
+    sets = runEngine(() => vnSetsOf(basis, planform, sections, method, masses));
+    vnCache.set(key, sets);
+  }
+  return structuredClone(sets);
 }
 
 /** Whether a V–n point gives a load case: not the 1-g stall point, nor for Part 25 the Pratt gust points (shown for comparison; the tuned gusts are the cases). */
