@@ -243,6 +243,27 @@ export const caseResults = pgTable(
 );
 
 /**
+ * Which exchange input a case's steps make: the SHA-256 that names its results, against a digest of
+ * the steps it was built from (and the title, the scope and the engine version that build it), so a
+ * web process finds the stored result with one indexed read instead of building and checking the
+ * whole case file. A save to any step it reads changes the digest, so a row is never stale.
+ */
+export const resultInputs = pgTable(
+  "result_inputs",
+  {
+    caseId: uuid("case_id").notNull().references(() => cases.id, { onDelete: "cascade" }),
+    /** SHA-256 of scope, title and the steps' digest (getCaseStepsDigest). */
+    source: text().notNull(),
+    engineVersion: text("engine_version").notNull(),
+    inputHash: text("input_hash").notNull(),
+    /** Load cases in the input: what a page says while the result is computed. */
+    caseCount: integer("case_count").notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true }).defaultNow().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.caseId, t.source, t.engineVersion] })],
+);
+
+/**
  * How far the job worker has got with a large sweep (results.compute): one row per case input and engine
  * version, written as the engine reports its progress, so every web process can show it while the
  * result is not stored yet.

@@ -1,11 +1,11 @@
 import { promisify } from "node:util";
 import zlib from "node:zlib";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { caseResults, cases, resultProgress } from "~/db/schema";
+import { caseResults, cases, resultInputs, resultProgress } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
 import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
@@ -228,13 +228,8 @@ export async function resultsFor(
   const parsed = parseOrThrow(file);
   const sections = parseSectionsOrThrow(sectionsDoc, parsed);
   const inputHash = analysisInputHash(parsed, sections);
-  const [cached] = await database
-    .select()
-    .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
-    .orderBy(desc(caseResults.computedAt))
-    .limit(1);
-  if (cached) return { result: cached.result as unknown as CaseResult, inputHash, computedAt: cached.computedAt };
+  const cached = await storedResult(caseId, inputHash, database);
+  if (cached) return cached;
   // The job worker runs a sweep step by step and records how far it has got (sweepProgress reads it).
   const result = opts.recordProgress
     ? await runEngineAsync(() => runCaseAsync(parsed, { sections, onProgress: progressRecorder(caseId, inputHash, parsed.cases.length) }))
@@ -246,6 +241,38 @@ export async function resultsFor(
     .returning();
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   return { result, inputHash, computedAt: row!.computedAt };
+}
+
+/** The result stored for this input hash and the engine version, or null. */
+export async function storedResult(caseId: string, inputHash: string, database: Db | Tx = db): Promise<{ result: CaseResult; inputHash: string; computedAt: Date } | null> {
+  const [row] = await database
+    .select({ result: caseResults.result, computedAt: caseResults.computedAt })
+    .from(caseResults)
+    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .orderBy(desc(caseResults.computedAt))
+    .limit(1);
+  return row ? { result: row.result as unknown as CaseResult, inputHash, computedAt: row.computedAt } : null;
+}
+
+/**
+ * The input of the stored result for this hash with only the named load cases (in the input's order):
+ * PostgreSQL picks them out, so a page showing a few cases of a large file neither reads nor checks the
+ * rest. Null while no result is stored for it.
+ */
+export async function storedInputWith(caseId: string, inputHash: string, ids: readonly string[]): Promise<CaseFile | null> {
+  // The input is the checked case file, or { case, sections } where the case has richer section data.
+  const found = await db.execute<{ head: CaseFile; cases: CaseFile["cases"] }>(sql`
+    with r as (
+      select case when ${caseResults.input} ? 'case' then ${caseResults.input} -> 'case' else ${caseResults.input} end as f
+      from ${caseResults}
+      where ${caseResults.caseId} = ${caseId} and ${caseResults.inputHash} = ${inputHash} and ${caseResults.engineVersion} = ${ENGINE_VERSION}
+      order by ${caseResults.computedAt} desc limit 1
+    )
+    select r.f - 'cases' as head,
+      (select coalesce(jsonb_agg(e order by n), '[]'::jsonb) from jsonb_array_elements(r.f -> 'cases') with ordinality as t(e, n) where e ->> 'id' = any(${sql.param([...ids])}::text[])) as cases
+    from r`);
+  const row = found.rows[0];
+  return row ? { ...row.head, cases: row.cases } : null;
 }
 
 /** How far the job worker has got with a sweep: its phase, the spanwise solves made and the cases evaluated. */
@@ -320,12 +347,23 @@ export interface AnalysisInput {
 // anything written to a step since changes the digest. Entries can be large (a big case file), so few.
 const derived = new LRUCache<string, { value: unknown }>({ max: 32 });
 
+/** Tests only: forget every derived value, as a web process that has not built anything yet. */
+export function forgetDerivedForTests(): void {
+  derived.clear();
+}
+
 /**
  * `derive` of the case's steps as stored now, computed once per content of the steps. Each call
  * reads the digest of the steps' data (not the data); a miss reads the data and their digest in one
  * read, so an entry holds exactly what its key names. A derivation that throws is not kept.
  */
-export async function fromCurrentSteps<T>(name: string, caseId: string, title: string, derive: (inputs: CaseInputs) => T, opts: { without?: readonly (keyof CaseInputs)[] } = {}): Promise<T> {
+export async function fromCurrentSteps<T>(
+  name: string,
+  caseId: string,
+  title: string,
+  derive: (inputs: CaseInputs) => T,
+  opts: { without?: readonly (keyof CaseInputs)[]; onDerived?: (value: T, digest: string) => Promise<void> } = {},
+): Promise<T> {
   // Steps the derivation does not read are left out of the key (and out of what it is handed), so saving them keeps the entry.
   const without = opts.without ?? [];
   const key = (digest: string) => `${name}\n${caseId}\n${title}\n${digest}`;
@@ -336,42 +374,80 @@ export async function fromCurrentSteps<T>(name: string, caseId: string, title: s
   for (const k of without) inputs[k] = null;
   const value = derive(inputs);
   derived.set(key(digest), { value });
+  await opts.onDerived?.(value, digest);
   return value;
 }
 
-/**
- * The case's exchange input (with its sections document) and its hash, as `exportCaseDocuments`
- * and `analysisInputHash` give them, derived once per content of the steps: building it balances
- * the tail loads of every case (engine solves), validates and hashes the document — most of a
- * results request before this.
- */
-export function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
-  return fromCurrentSteps("analysis-input", caseId, title, (inputs) => {
-    const file = buildCaseFile(title, inputs);
-    const sections = buildSectionsFile(inputs);
-    const parsed = parseOrThrow(file);
-    return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
-  });
+/** What a case input is of: what the loads step uses ("final") or every case the distribution step examines ("envelope"). */
+export type InputScope = "envelope" | "final";
+
+// Steps an input does not read: the distribution step examines its cases whatever their dispositions,
+// so a saved disposition keeps its input.
+const UNREAD: Record<InputScope, readonly (keyof CaseInputs)[]> = { envelope: ["distribution"], final: [] };
+
+/** The case's exchange input of a scope built from its steps, checked and hashed. */
+function buildInput(title: string, inputs: CaseInputs, scope: InputScope): AnalysisInput {
+  const file = buildCaseFile(title, inputs, scope);
+  const sections = buildSectionsFile(inputs);
+  const parsed = parseOrThrow(file);
+  return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
+}
+
+/** What names an input's source in result_inputs: its scope, the case's title and the digest of the steps it reads. */
+const sourceOf = (scope: InputScope, title: string, digest: string) => sha256Hex(`${scope}\n${title}\n${digest}`);
+
+/** Records which input these steps make (once; the same steps always make the same input under one engine version). */
+async function rememberInput(caseId: string, source: string, key: InputKey, database: Db | Tx = db): Promise<void> {
+  await database.insert(resultInputs).values({ caseId, source, engineVersion: ENGINE_VERSION, ...key }).onConflictDoNothing();
+}
+
+/** An input's hash and its number of load cases: enough to find its stored result and to say how far its sweep has got. */
+export interface InputKey {
+  inputHash: string;
+  caseCount: number;
 }
 
 /**
- * What the distribution step examines (every case the envelope includes, dispositions aside) with its
- * section data, checked and hashed as currentAnalysisInput, derived once per content of the steps it
- * is built from: a saved disposition keeps it.
+ * The key of the input the case's steps make now, when any process has built it before (result_inputs):
+ * one read of the steps' digest and one indexed read, no build. Null when these steps were never built.
  */
+export async function storedInputKey(caseId: string, title: string, scope: InputScope): Promise<InputKey | null> {
+  const source = sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope]));
+  const [row] = await db
+    .select({ inputHash: resultInputs.inputHash, caseCount: resultInputs.caseCount })
+    .from(resultInputs)
+    .where(and(eq(resultInputs.caseId, caseId), eq(resultInputs.source, source), eq(resultInputs.engineVersion, ENGINE_VERSION)));
+  return row ?? null;
+}
+
+/** The key of the case's current input: as stored, else built (and recorded for every process). */
+export async function currentInputKey(caseId: string, title: string, scope: InputScope): Promise<InputKey> {
+  const known = await storedInputKey(caseId, title, scope);
+  if (known) return known;
+  const built = await currentInput(caseId, title, scope);
+  return { inputHash: built.inputHash, caseCount: built.parsed.cases.length };
+}
+
+/**
+ * The case's exchange input of a scope (with its sections document) and its hash, derived once per
+ * content of the steps it reads and recorded against their digest: building it balances the tail
+ * loads of every case (engine solves), validates and hashes the document.
+ */
+function currentInput(caseId: string, title: string, scope: InputScope): Promise<AnalysisInput> {
+  return fromCurrentSteps(`${scope}-input`, caseId, title, (inputs) => buildInput(title, inputs, scope), {
+    without: UNREAD[scope],
+    onDerived: (input, digest) => rememberInput(caseId, sourceOf(scope, title, digest), { inputHash: input.inputHash, caseCount: input.parsed.cases.length }),
+  });
+}
+
+/** The input the loads step, the export and the report use, as `exportCaseDocuments` and `analysisInputHash` give it. */
+export function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
+  return currentInput(caseId, title, "final");
+}
+
+/** What the distribution step examines (every case the envelope includes, dispositions aside) with its section data, checked and hashed. */
 export function currentDistributionInput(caseId: string, title: string): Promise<AnalysisInput> {
-  return fromCurrentSteps(
-    "distribution-input",
-    caseId,
-    title,
-    (inputs) => {
-      const file = buildCaseFile(title, inputs, "envelope");
-      const sections = buildSectionsFile(inputs);
-      const parsed = parseOrThrow(file);
-      return { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), parsed, inputs };
-    },
-    { without: ["distribution"] },
-  );
+  return currentInput(caseId, title, "envelope");
 }
 
 /** Sweeps larger than this are solved by a worker rather than inside the web request. */
@@ -397,9 +473,21 @@ export async function resultsOrQueue(
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .limit(1);
   if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
-  const progress = await queueResults(caseId, { inputHash, parsed }, "final");
+  const progress = await queueResults(caseId, { inputHash, caseCount: parsed.cases.length }, "final");
   if (progress?.phase === "failed") throw new DomainError(progress.problem ?? "The engine refused this case file.", { field: "cases", kind: "unprocessable" });
   return { pending: true, cases: file.cases.length, progress };
+}
+
+/**
+ * As resultsOrQueue for the case's current final input: a stored result is found from the steps'
+ * digest (storedInputKey) without building the case file; only steps never built are built here.
+ */
+export async function currentResultsOrQueue(caseId: string, title: string, actorId: string | null): ReturnType<typeof resultsOrQueue> {
+  const known = await storedInputKey(caseId, title, "final");
+  const stored = known && (await storedResult(caseId, known.inputHash));
+  if (stored) return { pending: false, ...stored };
+  const input = await currentAnalysisInput(caseId, title);
+  return resultsOrQueue(caseId, input.file, actorId, input.sections);
 }
 
 // Result documents by case, input hash and engine version, serialised and encoded: a result is a
@@ -424,19 +512,26 @@ const compressing = new Map<string, Promise<Uint8Array<ArrayBuffer>>>();
  */
 export async function resultJsonOrQueue(
   caseId: string,
-  input: AnalysisInput,
+  title: string,
   actorId: string | null,
   encoding: keyof typeof compressors | null = null,
 ): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: Uint8Array<ArrayBuffer>; encoding: keyof typeof compressors | null; inputHash: string }> {
-  const key = `${caseId}:${input.inputHash}:${ENGINE_VERSION}`;
-  let json = resultDocuments.get(key);
+  const known = await storedInputKey(caseId, title, "final");
+  const documentKey = (inputHash: string) => `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+  let json = known ? resultDocuments.get(documentKey(known.inputHash)) : undefined;
+  let inputHash = known?.inputHash ?? "";
   if (!json) {
-    const answer = await resultsOrQueue(caseId, input.file, actorId, input.sections);
+    const answer = await currentResultsOrQueue(caseId, title, actorId);
     if (answer.pending) return answer;
-    json = Buffer.from(JSON.stringify(answer.result));
-    resultDocuments.set(key, json);
+    inputHash = answer.inputHash;
+    json = resultDocuments.get(documentKey(inputHash));
+    if (!json) {
+      json = Buffer.from(JSON.stringify(answer.result));
+      resultDocuments.set(documentKey(inputHash), json);
+    }
   }
-  if (!encoding) return { pending: false, json, encoding, inputHash: input.inputHash };
+  const key = documentKey(inputHash);
+  if (!encoding) return { pending: false, json, encoding, inputHash };
   const encodedKey = `${key}:${encoding}`;
   let encoded = resultDocuments.get(encodedKey);
   if (!encoded) {
@@ -450,25 +545,32 @@ export async function resultJsonOrQueue(
     encoded = await pending;
     resultDocuments.set(encodedKey, encoded);
   }
-  return { pending: false, json: encoded, encoding, inputHash: input.inputHash };
+  return { pending: false, json: encoded, encoding, inputHash };
 }
 
 /**
  * The job: solve and store the case's current results (idempotent: stored results are reused), of
  * what the loads step uses ("final") or of every case the distribution step examines ("envelope").
  */
-export async function computeQueuedResults(caseId: string, database: Db | Tx = db, scope: "envelope" | "final" = "final"): Promise<void> {
+export async function computeQueuedResults(caseId: string, database: Db | Tx = db, scope: InputScope = "final"): Promise<void> {
   const [row] = await database.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
   if (!row) return;
-  const inputs = caseInputs(await getCaseSteps(caseId, database));
+  // The steps and their digest from one read, so what is recorded below names exactly what was built.
+  const { steps, digest } = await getCaseStepsDigested(caseId, UNREAD[scope], database);
+  const inputs = caseInputs(steps);
+  for (const k of UNREAD[scope]) inputs[k] = null;
   const file = buildCaseFile(row.title, inputs, scope);
+  const source = sourceOf(scope, row.title, digest);
   try {
-    await resultsFor(caseId, file, null, buildSectionsFile(inputs), { recordProgress: true, database });
+    const { inputHash } = await resultsFor(caseId, file, null, buildSectionsFile(inputs), { recordProgress: true, database });
+    await rememberInput(caseId, source, { inputHash, caseCount: file.cases.length }, database);
   } catch (error) {
     // The engine's refusal is the input's, not the worker's: recorded for the pages to say, not retried.
     if (!(error instanceof DomainError)) throw error;
     const parsed = parseOrThrow(file);
-    await recordProgress(caseId, analysisInputHash(parsed, parseSectionsOrThrow(buildSectionsFile(inputs), parsed)), { phase: "failed", problem: error.message, casesTotal: parsed.cases.length });
+    const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(buildSectionsFile(inputs), parsed));
+    await recordProgress(caseId, inputHash, { phase: "failed", problem: error.message, casesTotal: parsed.cases.length });
+    await rememberInput(caseId, source, { inputHash, caseCount: parsed.cases.length }, database);
   }
 }
 
@@ -476,12 +578,12 @@ export async function computeQueuedResults(caseId: string, database: Db | Tx = d
  * Hands the sweep of a checked input to the job worker (once per input however often asked) and
  * records that it waits; the answer is how far it has got.
  */
-export async function queueResults(caseId: string, input: Pick<AnalysisInput, "inputHash" | "parsed">, scope: "envelope" | "final"): Promise<SweepProgress | null> {
+export async function queueResults(caseId: string, input: InputKey, scope: InputScope): Promise<SweepProgress | null> {
   const known = await sweepProgress(caseId, input.inputHash);
   // The engine refused this input: asking again would only fail again.
   if (known?.phase === "failed") return known;
   await (await boss()).send(QUEUES.computeResults, { caseId, scope }, { singletonKey: `${caseId}:${input.inputHash}`, retryLimit: 2 });
   // A first row says the sweep waits for a worker; the worker's reports then move it on.
-  await db.insert(resultProgress).values({ caseId, inputHash: input.inputHash, engineVersion: ENGINE_VERSION, casesTotal: input.parsed.cases.length }).onConflictDoNothing();
+  await db.insert(resultProgress).values({ caseId, inputHash: input.inputHash, engineVersion: ENGINE_VERSION, casesTotal: input.caseCount }).onConflictDoNothing();
   return sweepProgress(caseId, input.inputHash);
 }

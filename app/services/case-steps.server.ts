@@ -53,8 +53,8 @@ export async function getCaseStepsDigest(caseId: string, without: readonly StepK
 }
 
 /** Every step of a case with the digest of their data (as getCaseStepsDigest), from one read. */
-export async function getCaseStepsDigested(caseId: string, without: readonly StepKey[] = []): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
-  const rows = await db
+export async function getCaseStepsDigested(caseId: string, without: readonly StepKey[] = [], database: Db | Tx = db): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
+  const rows = await database
     .select({ row: caseSteps, updatedByName: users.name, digest: dataDigest })
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))

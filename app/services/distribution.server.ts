@@ -10,7 +10,7 @@ import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
-import { currentDistributionInput, parseOrThrow, queueResults, resultsFor, SWEEP_THRESHOLD, type AnalysisInput } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, parseOrThrow, queueResults, resultsFor, storedInputWith, SWEEP_THRESHOLD } from "./analysis.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
 
@@ -149,6 +149,8 @@ export interface FlagRow extends CaseFlag {
 interface StoredFlags {
   method: ResultMethod;
   flags: CaseFlag[];
+  /** The id of the result's first case: the one shown when none is flagged. */
+  first: string;
 }
 
 // Flags of a stored result by case, input hash, engine version and units: a function of exactly those,
@@ -164,7 +166,7 @@ export async function storedFlags(caseId: string, inputHash: string, units: Unit
   const hit = flagsCache.get(key);
   if (hit) return hit;
   const [row] = await db
-    .select({ id: caseResults.id, method: sql<ResultMethod>`${caseResults.result} -> 'method'` })
+    .select({ id: caseResults.id, method: sql<ResultMethod>`${caseResults.result} -> 'method'`, first: sql<string>`${caseResults.result} -> 'cases' -> 0 ->> 'id'` })
     .from(caseResults)
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .orderBy(desc(caseResults.computedAt))
@@ -175,7 +177,7 @@ export async function storedFlags(caseId: string, inputHash: string, units: Unit
     from case_results r, jsonb_array_elements(r.result -> 'cases') with ordinality as t(e, n)
     where r.id = ${row.id} and (e ->> 'regime' = 'supercritical' or jsonb_array_length(e -> 'warnings') > 0)
     order by n`);
-  const value = { method: row.method, flags: flaggedCases({ cases: found.rows.map((r) => r.c as ResultCase) }, units) };
+  const value = { method: row.method, flags: flaggedCases({ cases: found.rows.map((r) => r.c as ResultCase) }, units), first: row.first };
   flagsCache.set(key, value);
   return value;
 }
@@ -211,17 +213,18 @@ export type DistributionSummary = ReturnType<typeof summaryOf>;
  */
 export async function distributionPage(input: { caseId: string; title: string; units: UnitSystem; requested: string | null }) {
   try {
-    const analysis = await currentDistributionInput(input.caseId, input.title);
-    const stored = await storedFlags(input.caseId, analysis.inputHash, input.units);
+    // The input's hash from the steps' digest: the case file is built here only when no process has built it for these steps.
+    const key = await currentInputKey(input.caseId, input.title, "envelope");
+    const stored = await storedFlags(input.caseId, key.inputHash, input.units);
     if (!stored) {
-      const progress = await queueResults(input.caseId, analysis, "envelope");
+      const progress = await queueResults(input.caseId, key, "envelope");
       if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
-      return { state: "pending" as const, cases: analysis.parsed.cases.length, progress };
+      return { state: "pending" as const, cases: key.caseCount, progress };
     }
     const { dispositions } = await storedDistribution(input.caseId);
-    const cases = analysis.parsed.cases;
-    const shown = input.requested && cases.some((k) => k.id === input.requested) ? input.requested : (stored.flags[0]?.id ?? cases[0]!.id);
-    return { state: "ready" as const, cases: cases.length, method: stored.method, shown, summary: summaryOf(stored.flags, dispositions), first: rowsOf(stored.flags.slice(0, FIRST_FLAG_ROWS), dispositions) };
+    const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.cases.length : 0;
+    const shown = input.requested && known ? input.requested : (stored.flags[0]?.id ?? stored.first);
+    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: summaryOf(stored.flags, dispositions), first: rowsOf(stored.flags.slice(0, FIRST_FLAG_ROWS), dispositions) };
   } catch (error) {
     if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
     throw error;
@@ -229,11 +232,11 @@ export async function distributionPage(input: { caseId: string; title: string; u
 }
 
 /** The flagged cases of the stored result, or a refusal that says they are still being computed. */
-async function currentFlags(caseId: string, title: string, units: UnitSystem): Promise<{ analysis: AnalysisInput; flags: CaseFlag[] }> {
-  const analysis = await currentDistributionInput(caseId, title);
-  const stored = await storedFlags(caseId, analysis.inputHash, units);
+async function currentFlags(caseId: string, title: string, units: UnitSystem): Promise<CaseFlag[]> {
+  const { inputHash } = await currentInputKey(caseId, title, "envelope");
+  const stored = await storedFlags(caseId, inputHash, units);
   if (!stored) throw new DomainError("The results of this case file are still being computed: the flagged cases are known once they are stored.", { field: "results", kind: "conflict" });
-  return { analysis, flags: stored.flags };
+  return stored.flags;
 }
 
 /**
@@ -243,7 +246,7 @@ async function currentFlags(caseId: string, title: string, units: UnitSystem): P
 export async function flagWindow(input: { caseId: string; title: string; units: UnitSystem; offset: number; limit: number }) {
   if (!Number.isInteger(input.offset) || input.offset < 0) throw new DomainError("offset must be a whole number ≥ 0", { field: "offset" });
   if (!Number.isInteger(input.limit) || input.limit < 1 || input.limit > MAX_FLAG_ROWS) throw new DomainError(`limit must be a whole number from 1 to ${MAX_FLAG_ROWS}`, { field: "limit" });
-  const { flags } = await currentFlags(input.caseId, input.title, input.units);
+  const flags = await currentFlags(input.caseId, input.title, input.units);
   const { revision, dispositions } = await storedDistribution(input.caseId);
   return { revision, total: flags.length, offset: input.offset, rows: rowsOf(flags.slice(input.offset, input.offset + input.limit), dispositions) };
 }
@@ -296,7 +299,7 @@ export async function mergedDispositions(input: { caseId: string; title: string;
   } else {
     const one = DistributionSchema.shape.dispositions.valueType.safeParse({ action: change.action, comment: change.comment });
     if (!one.success) return { ok: false, fieldErrors: fieldErrorsOf(one.error) };
-    const { flags } = await currentFlags(input.caseId, input.title, input.units);
+    const flags = await currentFlags(input.caseId, input.title, input.units);
     const chosen = flags.filter((f) => f.kinds.includes(change.reason));
     if (chosen.length === 0) throw new DomainError(`No case is flagged for this reason (${FLAG_REASON_LABELS[change.reason]}).`, { field: "reason" });
     for (const f of chosen) next[f.id] = one.data;
@@ -329,7 +332,7 @@ export async function dispositionBlockers(caseId: string, title: string): Promis
       stored = await storedFlags(caseId, analysis.inputHash, "SI");
     }
     if (!stored) {
-      const progress = await queueResults(caseId, analysis, "envelope");
+      const progress = await queueResults(caseId, { inputHash: analysis.inputHash, caseCount: analysis.parsed.cases.length }, "envelope");
       return [progress?.phase === "failed" && progress.problem ? progress.problem : "The results of this case file are still being computed: submit once the distribution page shows its flagged cases."];
     }
     const { dispositions } = await storedDistribution(caseId);

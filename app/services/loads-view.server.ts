@@ -2,7 +2,7 @@ import { LRUCache } from "lru-cache";
 import { criticalCase, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { currentAnalysisInput, resultsOrQueue, type CaseInputs } from "./analysis.server";
+import { currentResultsOrQueue, fromCurrentSteps, storedInputKey, storedInputWith, type CaseInputs } from "./analysis.server";
 import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
 
 /** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
@@ -41,27 +41,36 @@ const listedInfo = new WeakMap<CaseInputs, LoadsPageInfo>();
 
 /** The loads page's view of a case's current results, or how far their computation has got. */
 export async function loadsView(caseId: string, title: string, actorId: string, requested: string | null): Promise<LoadsViewAnswer> {
-  const { file, sections, inputHash, parsed, inputs } = await currentAnalysisInput(caseId, title);
-  const key = `${caseId}:${inputHash}:${ENGINE_VERSION}`;
-  let entry = ranked.get(key);
+  const rankedKey = (inputHash: string) => `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+  const known = await storedInputKey(caseId, title, "final");
+  let inputHash = known?.inputHash ?? "";
+  let entry = known ? ranked.get(rankedKey(known.inputHash)) : undefined;
   if (!entry) {
-    const answer = await resultsOrQueue(caseId, file, actorId, sections);
+    const answer = await currentResultsOrQueue(caseId, title, actorId);
     if (answer.pending) return { pending: true, cases: answer.cases, progress: answer.progress };
+    inputHash = answer.inputHash;
     // Root loads only: a rolling case's other side keeps its root, not its stations.
     const order = answer.result.cases.map(({ stations: _stations, ...root }) => (root.roll ? { ...root, roll: { ...root.roll, other: { root: root.roll.other.root } } } : root)).sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
     entry = { result: answer.result, order };
-    ranked.set(key, entry);
+    ranked.set(rankedKey(inputHash), entry);
   }
   const all = entry.result.cases;
   const current = (requested ? all.find((c) => c.id === requested) : undefined) ?? criticalCase(all);
   const cases = mostCritical(entry.order, MAX_ROOT_ROWS);
   const envelope = entry.result.envelope;
   const listed = new Set([...cases.map((c) => c.id), ...envelope.flatMap((row) => Object.entries(row).filter(([k, v]) => k.endsWith("Case") && typeof v === "string").map(([, v]) => v as string))]);
+  // The steps as stored (not the case file built from them) and, of the stored input, the cases shown.
+  const inputs = await fromCurrentSteps("case-inputs", caseId, title, (i) => i);
   let info = listedInfo.get(inputs);
-  if (!info) listedInfo.set(inputs, (info = loadsPageInfo(parsed, inputs, listed)));
-  if (!listed.has(current.id)) {
-    const own = loadsPageInfo(parsed, inputs, new Set([current.id]));
-    info = { cases: { ...info.cases, ...own.cases }, balance: [...info.balance, ...own.balance] };
+  if (!info || !listed.has(current.id)) {
+    const parsed = await storedInputWith(caseId, inputHash, [...listed, current.id]);
+    // Stored in the same row as the result just read.
+    if (!parsed) throw new Error(`The stored result ${inputHash} of case ${caseId} has no input.`);
+    if (!info) listedInfo.set(inputs, (info = loadsPageInfo(parsed, inputs, listed)));
+    if (!listed.has(current.id)) {
+      const own = loadsPageInfo(parsed, inputs, new Set([current.id]));
+      info = { cases: { ...info.cases, ...own.cases }, balance: [...info.balance, ...own.balance] };
+    }
   }
   return { pending: false, engine: entry.result.engine, inputHash, caseCount: all.length, envelope, cases, current, info };
 }

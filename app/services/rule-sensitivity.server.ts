@@ -6,7 +6,7 @@ import { DomainError } from "~/domain/errors";
 import type { UnitSystem } from "~/domain/units";
 import { ENGINE_VERSION } from "~/engine";
 import { boss, QUEUES } from "~/jobs/boss.server";
-import { currentDistributionInput, resultsFor, sweepProgress } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, resultsFor, sweepProgress } from "./analysis.server";
 import { getCaseUnits } from "./case-steps.server";
 import { ruleSensitivitySteps } from "./comparisons.server";
 
@@ -27,7 +27,7 @@ const keyOf = (caseId: string, inputHash: string) => and(eq(ruleSensitivities.ca
  * @throws DomainError when a step is missing, or as the worker recorded it when the engine refused the case
  */
 export async function caseRuleSensitivity(input: { caseId: string; title: string }): Promise<CaseSensitivityAnswer> {
-  const [units, { inputHash }] = await Promise.all([getCaseUnits(input.caseId), currentDistributionInput(input.caseId, input.title)]);
+  const [units, { inputHash }] = await Promise.all([getCaseUnits(input.caseId), currentInputKey(input.caseId, input.title, "envelope")]);
   await db.insert(ruleSensitivities).values({ caseId: input.caseId, inputHash, engineVersion: ENGINE_VERSION }).onConflictDoNothing();
   const [row] = await db.select().from(ruleSensitivities).where(keyOf(input.caseId, inputHash));
   if (!row) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });

@@ -2,7 +2,7 @@ import { requireApiUser } from "~/auth/api-auth.server";
 import { sweepProgressText } from "~/domain/results";
 import { resultToCsv } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { currentAnalysisInput, resultJsonOrQueue, resultsOrQueue } from "~/services/analysis.server";
+import { currentResultsOrQueue, resultJsonOrQueue } from "~/services/analysis.server";
 import { getCase } from "~/services/programmes.server";
 import { DomainError } from "~/domain/errors";
 import { acceptedEncoding, apiRefusal } from "~/utils/http.server";
@@ -24,8 +24,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     }
     const found = await getCase(current.organisation.id, params.caseId);
     if (!found) return notFoundJson("The case");
-    const input = await currentAnalysisInput(found.case.id, found.case.title);
-    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, input, current.user.id, acceptedEncoding(request)) : await resultsOrQueue(found.case.id, input.file, current.user.id, input.sections);
+    const answer = format === "json" ? await resultJsonOrQueue(found.case.id, found.case.title, current.user.id, acceptedEncoding(request)) : await currentResultsOrQueue(found.case.id, found.case.title, current.user.id);
     if (answer.pending) {
       const p = answer.progress;
       return Response.json(

@@ -1,0 +1,101 @@
+import fs from "node:fs";
+import { and, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { db } from "~/db/client.server";
+import { caseSteps, programmes, users } from "~/db/schema";
+import type { EnvelopeData } from "~/domain/step-data";
+import * as exchange from "~/exchange";
+import type { CaseFileInput, CaseResult } from "~/exchange";
+import { stopBoss } from "~/jobs/boss.server";
+import { loader as loadsLoader } from "~/routes/api/case-loads";
+import { loader as resultsLoader } from "~/routes/api/v1/case-results";
+import { loader as pageLoader } from "~/routes/cases/distribution";
+import { computeQueuedResults, currentAnalysisInput, forgetDerivedForTests } from "~/services/analysis.server";
+import { importCase } from "~/services/case-import.server";
+import { saveStep } from "~/services/case-steps.server";
+import * as masses from "~/services/masses.server";
+import { cookieFor, demoUser, request, routeArgs, run, seed } from "./helpers";
+
+// Building a case file checks its mass case names (checkMassCaseNames) and checking it runs the
+// exchange's parseCase: both counted here, so the test sees whether a reader built or checked the file
+// (issue 14, "a case at scale": the first page after a save, in each web process, built the whole file).
+vi.mock("~/exchange", async (importOriginal) => {
+  const actual = await importOriginal<typeof exchange>();
+  return { ...actual, parseCase: vi.fn(actual.parseCase) };
+});
+vi.mock("~/services/masses.server", async (importOriginal) => {
+  const actual = await importOriginal<typeof masses>();
+  return { ...actual, checkMassCaseNames: vi.fn(actual.checkMassCaseNames) };
+});
+const checks = () => vi.mocked(exchange.parseCase).mock.calls.length;
+const builds = () => vi.mocked(masses.checkMassCaseNames).mock.calls.length;
+
+const CASES = 3000;
+const TITLE = "Input at scale";
+let caseId = "";
+let cookie = "";
+let actor = { id: "", email: "" };
+
+beforeAll(async () => {
+  await seed();
+  cookie = await cookieFor("engineer");
+  const base = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as CaseFileInput;
+  const sweep: CaseFileInput = { ...base, cases: Array.from({ length: CASES }, (_, i) => ({ id: `H${i + 1}`, mach: 0.3 + 0.05 * (i % 9), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })) };
+  const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+  const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+  actor = { id: erin!.id, email: erin!.email };
+  caseId = (await importCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "HASH-3000", title: TITLE, document: sweep, actor })).id;
+  // The job worker's sweeps (its own function, as the worker runs it): what the distribution step examines and what the loads step uses.
+  await computeQueuedResults(caseId, db, "envelope");
+  await computeQueuedResults(caseId, db, "final");
+}, 300_000);
+
+afterAll(async () => {
+  await stopBoss();
+});
+
+const distributionPage = async () => (await run(pageLoader, { request: request(`/cases/${caseId}/distribution`, { cookie }), params: { caseId } })).body as { page: { state: string; cases?: number } };
+const get = async (loader: (args: never) => unknown, path: string) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
+
+describe("a web process that has built nothing finds a large case's stored results by its steps' digest", () => {
+  it("answers the distribution page, the loads view and the results API without building or checking the case file", async () => {
+    forgetDerivedForTests();
+    const [checked, built] = [checks(), builds()];
+
+    const page = await distributionPage();
+    expect(page.page).toMatchObject({ state: "ready", cases: CASES });
+
+    const loads = await get(loadsLoader, `/api/cases/${caseId}/loads`);
+    expect(loads.status).toBe(200);
+    const view = (await loads.json()) as { caseCount: number; inputHash: string; info: { cases: Record<string, unknown> } };
+    expect(view.caseCount).toBe(CASES);
+    expect(Object.keys(view.info.cases).length).toBeGreaterThan(0);
+
+    const results = await get(resultsLoader, `/api/v1/cases/${caseId}/results`);
+    expect(results.status).toBe(200);
+    expect(((await results.json()) as CaseResult).cases).toHaveLength(CASES);
+
+    // Before: each of the three built the whole file (balancing, then checking all 3 000 cases) first.
+    expect(checks() - checked).toBe(0);
+    expect(builds() - built).toBe(0);
+
+    // The stored key is the one a build gives now.
+    const input = await currentAnalysisInput(caseId, TITLE);
+    expect(results.headers.get("X-Spanwright-Input-Sha256")).toBe(input.inputHash);
+    expect(view.inputHash).toBe(input.inputHash);
+  }, 120_000);
+
+  it("never answers an old result: after a step is saved the page waits for the new input's sweep", async () => {
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+    const data = structuredClone(row!.data) as unknown as EnvelopeData;
+    data.cases[0]!.nz = 1.1;
+    await saveStep({ caseId, step: "envelope", baseRevision: row!.revision, data: data as unknown as Record<string, unknown>, actor });
+    forgetDerivedForTests();
+    const page = await distributionPage();
+    expect(page.page).toMatchObject({ state: "pending", cases: CASES });
+    const loads = await get(loadsLoader, `/api/cases/${caseId}/loads`);
+    expect(loads.status).toBe(202);
+    const results = await get(resultsLoader, `/api/v1/cases/${caseId}/results`);
+    expect(results.status).toBe(202);
+  }, 120_000);
+});
