@@ -75,7 +75,7 @@ describe("a web process that has built nothing finds a large case's stored resul
     expect(results.status).toBe(200);
     expect(((await results.json()) as CaseResult).cases).toHaveLength(CASES);
 
-    // Before: each of the three built the whole file (balancing, then checking all 3 000 cases) first.
+    // Before: the three built the whole file and checked all 3 000 cases, six checks in all.
     expect(checks() - checked).toBe(0);
     expect(builds() - built).toBe(0);
 
