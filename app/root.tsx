@@ -1,9 +1,11 @@
 import { useEffect } from "react";
+import { preload } from "react-dom";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { ErrorPanel } from "./components/ui/error-panel";
 import { useNonce } from "./utils/csp";
 import appCss from "./app.css?url";
+import sansLatin from "@fontsource-variable/source-sans-3/files/source-sans-3-latin-wght-normal.woff2?url";
 import { requestReads } from "./auth/request-context.server";
 
 // The session, the case and its steps, read once per request however many loaders ask (each still checks access).
@@ -17,6 +19,10 @@ export const links: Route.LinksFunction = () => [{ rel: "stylesheet", href: appC
 
 export function Layout({ children }: { children: React.ReactNode }) {
   const nonce = useNonce();
+  // The Latin face (every weight in one variable file) asked for with the document, ahead of the
+  // stylesheet (React writes font preloads first in <head>): it is then mostly there for the first
+  // layout, and the text is not laid out a second time when it arrives.
+  preload(sansLatin, { as: "font", type: "font/woff2", crossOrigin: "anonymous" });
   return (
     <html lang="en">
       <head>

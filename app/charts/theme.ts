@@ -32,7 +32,8 @@ export const SERIES_STYLE = {
   neutral: { color: "#7a8694", type: "solid" as const, label: "" },
 } as const;
 
-export const CHART_FONT = "Source Sans 3, sans-serif";
+// The family app.css declares (@fontsource-variable), so the charts are set in the loaded face.
+export const CHART_FONT = "Source Sans 3 Variable, sans-serif";
 
 /**
  * The round value at or above `v`, on a step of a fifth of v's decade (7.993832 → 8, 8.7 → 8.8,

@@ -26,3 +26,33 @@ test("the stylesheet is asked for before the scripts' preloads, on a case page a
   await page.goto(`/cases/${demo.id}/envelope`);
   await expect(page.locator("html")).toHaveCSS("background-color", "rgb(243, 245, 248)");
 });
+
+// The web font: one variable file for every weight, its Latin part preloaded ahead of the stylesheet,
+// and the pages are set in it once it has loaded (headings at 600, text at 400, table heads at 700).
+test("the text is set in Source Sans 3 from one preloaded variable file", async ({ page }) => {
+  const html = await (await page.request.get("/login")).text();
+  const head = html.slice(0, html.indexOf("</head>"));
+  const links = [...head.matchAll(/<link [^>]*>/g)];
+  const fontPreload = links.find((l) => /rel="preload"/.test(l[0]) && /as="font"/.test(l[0]) && /source-sans-3-latin-wght-normal-[\w-]+\.woff2/.test(l[0]))?.index ?? -1;
+  expect(fontPreload).toBeGreaterThan(0);
+  expect(fontPreload).toBeLessThan(head.search(/<link[^>]*rel="stylesheet"/));
+
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string }[] };
+  await page.goto(`/cases/${list.cases.find((c) => c.reference === "TN-WL-001")!.id}`);
+  const heading = page.getByRole("heading", { level: 1 }).first();
+  await expect(heading).toHaveCSS("font-family", /^"?Source Sans 3 Variable"?,/);
+  // Waits for the faces the page uses; then every weight the page draws comes from that one file.
+  const faces = await page.evaluate(async () => {
+    await document.fonts.ready;
+    const loaded = [...document.fonts].filter((f) => f.status === "loaded");
+    return {
+      families: [...new Set(loaded.map((f) => f.family.replace(/"/g, "")))],
+      weights: [...new Set(loaded.map((f) => f.weight))],
+      drawn: [400, 600, 700].map((w) => document.fonts.check(`${w} 16px "Source Sans 3 Variable"`, "Spanwright")),
+    };
+  });
+  expect(faces.families).toEqual(["Source Sans 3 Variable"]);
+  expect(faces.weights).toEqual(["200 900"]);
+  expect(faces.drawn).toEqual([true, true, true]);
+});
