@@ -255,24 +255,24 @@ export async function storedResult(caseId: string, inputHash: string, database: 
 }
 
 /**
- * The input of the stored result for this hash with only the named load cases (in the input's order):
- * PostgreSQL picks them out, so a page showing a few cases of a large file neither reads nor checks the
- * rest. Null while no result is stored for it.
+ * The input of the stored result for this hash (as checked) with only the named load cases, in the
+ * input's order, and its sections document: PostgreSQL picks the cases out, so a page showing a few
+ * cases of a large file neither reads nor checks the rest. Null while no result is stored for it.
  */
-export async function storedInputWith(caseId: string, inputHash: string, ids: readonly string[]): Promise<CaseFile | null> {
+export async function storedInputWith(caseId: string, inputHash: string, ids: readonly string[]): Promise<{ file: CaseFile; sections: SectionsFile | undefined } | null> {
   // The input is the checked case file, or { case, sections } where the case has richer section data.
-  const found = await db.execute<{ head: CaseFile; cases: CaseFile["cases"] }>(sql`
+  const found = await db.execute<{ head: CaseFile; cases: CaseFile["cases"]; sections: SectionsFile | null }>(sql`
     with r as (
-      select case when ${caseResults.input} ? 'case' then ${caseResults.input} -> 'case' else ${caseResults.input} end as f
+      select case when ${caseResults.input} ? 'case' then ${caseResults.input} -> 'case' else ${caseResults.input} end as f, ${caseResults.input} -> 'sections' as sections
       from ${caseResults}
       where ${caseResults.caseId} = ${caseId} and ${caseResults.inputHash} = ${inputHash} and ${caseResults.engineVersion} = ${ENGINE_VERSION}
       order by ${caseResults.computedAt} desc limit 1
     )
-    select r.f - 'cases' as head,
+    select r.f - 'cases' as head, r.sections,
       (select coalesce(jsonb_agg(e order by n), '[]'::jsonb) from jsonb_array_elements(r.f -> 'cases') with ordinality as t(e, n) where e ->> 'id' = any(${sql.param([...ids])}::text[])) as cases
     from r`);
   const row = found.rows[0];
-  return row ? { ...row.head, cases: row.cases } : null;
+  return row ? { file: { ...row.head, cases: row.cases }, sections: row.sections ?? undefined } : null;
 }
 
 /** How far the job worker has got with a sweep: its phase, the spanwise solves made and the cases evaluated. */

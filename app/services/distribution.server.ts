@@ -120,11 +120,13 @@ export type DistributionPageView = ReturnType<typeof viewForPage>;
 
 /**
  * The distribution of one load case of the envelope, as the page shows it. Only that case is taken
- * out of the case's (memoised) input and checked: one case solved under each rule, not the file.
+ * out of the case's input (as stored with its result, else as built) and checked: one case solved
+ * under each rule, not the file.
  * @throws DomainError (not-found) for a load case the distribution step does not examine
  */
 export async function distributionCaseView(input: { caseId: string; reference: string; title: string; loadCase: string; units: UnitSystem }): Promise<DistributionPageView> {
-  const { file, sections } = await currentDistributionInput(input.caseId, input.title);
+  const { inputHash } = await currentInputKey(input.caseId, input.title, "envelope");
+  const { file, sections } = (await storedInputWith(input.caseId, inputHash, [input.loadCase])) ?? (await currentDistributionInput(input.caseId, input.title));
   const lc = file.cases.find((c) => c.id === input.loadCase);
   if (!lc) throw new DomainError(`Case file ${input.reference} has no load case "${input.loadCase}".`, { field: "case", kind: "not-found" });
   return viewForPage({ ...file, cases: [lc] }, lc.id, input.units, sections);
@@ -222,7 +224,7 @@ export async function distributionPage(input: { caseId: string; title: string; u
       return { state: "pending" as const, cases: key.caseCount, progress };
     }
     const { dispositions } = await storedDistribution(input.caseId);
-    const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.cases.length : 0;
+    const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.file.cases.length : 0;
     const shown = input.requested && known ? input.requested : (stored.flags[0]?.id ?? stored.first);
     return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: summaryOf(stored.flags, dispositions), first: rowsOf(stored.flags.slice(0, FIRST_FLAG_ROWS), dispositions) };
   } catch (error) {

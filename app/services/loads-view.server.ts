@@ -63,7 +63,7 @@ export async function loadsView(caseId: string, title: string, actorId: string, 
   const inputs = await fromCurrentSteps("case-inputs", caseId, title, (i) => i);
   let info = listedInfo.get(inputs);
   if (!info || !listed.has(current.id)) {
-    const parsed = await storedInputWith(caseId, inputHash, [...listed, current.id]);
+    const parsed = (await storedInputWith(caseId, inputHash, [...listed, current.id]))?.file;
     // Stored in the same row as the result just read.
     if (!parsed) throw new Error(`The stored result ${inputHash} of case ${caseId} has no input.`);
     if (!info) listedInfo.set(inputs, (info = loadsPageInfo(parsed, inputs, listed)));

@@ -7,6 +7,7 @@ import type { EnvelopeData } from "~/domain/step-data";
 import * as exchange from "~/exchange";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import { stopBoss } from "~/jobs/boss.server";
+import { loader as viewLoader } from "~/routes/api/case-distribution";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/distribution";
@@ -28,6 +29,8 @@ vi.mock("~/services/masses.server", async (importOriginal) => {
   return { ...actual, checkMassCaseNames: vi.fn(actual.checkMassCaseNames) };
 });
 const checks = () => vi.mocked(exchange.parseCase).mock.calls.length;
+/** How many load cases each check of a case file made since `from` was called had. */
+const checked = (from: number) => vi.mocked(exchange.parseCase).mock.calls.slice(from).map(([doc]) => (doc as { cases?: unknown[] }).cases?.length ?? 0);
 const builds = () => vi.mocked(masses.checkMassCaseNames).mock.calls.length;
 
 const CASES = 3000;
@@ -60,7 +63,7 @@ const get = async (loader: (args: never) => unknown, path: string) => (await loa
 describe("a web process that has built nothing finds a large case's stored results by its steps' digest", () => {
   it("answers the distribution page, the loads view and the results API without building or checking the case file", async () => {
     forgetDerivedForTests();
-    const [checked, built] = [checks(), builds()];
+    const [checksBefore, built] = [checks(), builds()];
 
     const page = await distributionPage();
     expect(page.page).toMatchObject({ state: "ready", cases: CASES });
@@ -76,7 +79,15 @@ describe("a web process that has built nothing finds a large case's stored resul
     expect(((await results.json()) as CaseResult).cases).toHaveLength(CASES);
 
     // Before: the three built the whole file and checked all 3 000 cases, six checks in all.
-    expect(checks() - checked).toBe(0);
+    expect(checks() - checksBefore).toBe(0);
+    expect(builds() - built).toBe(0);
+
+    // The shown case's distribution takes that case out of the stored input and checks it alone.
+    const from = checks();
+    const one = await get(viewLoader, `/api/cases/${caseId}/distribution?case=H7`);
+    expect(one.status).toBe(200);
+    expect(((await one.json()) as { caseId: string }).caseId).toBe("H7");
+    expect(checked(from)).toEqual([1]);
     expect(builds() - built).toBe(0);
 
     // The stored key is the one a build gives now.
