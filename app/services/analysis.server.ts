@@ -440,6 +440,18 @@ function currentInput(caseId: string, title: string, scope: InputScope): Promise
   });
 }
 
+/**
+ * The case's current input of a scope with only the named load cases, and its sections document: out
+ * of the stored result's input when there is one (nothing built or checked), else out of the built input.
+ */
+export async function currentInputWith(caseId: string, title: string, scope: InputScope, ids: readonly string[]): Promise<{ file: CaseFileInput; sections: SectionsFile | undefined }> {
+  const { inputHash } = await currentInputKey(caseId, title, scope);
+  const stored = await storedInputWith(caseId, inputHash, ids);
+  if (stored) return stored;
+  const built = await currentInput(caseId, title, scope);
+  return { file: { ...built.file, cases: built.file.cases.filter((c) => ids.includes(c.id)) }, sections: built.sections };
+}
+
 /** The input the loads step, the export and the report use, as `exportCaseDocuments` and `analysisInputHash` give it. */
 export function currentAnalysisInput(caseId: string, title: string): Promise<AnalysisInput> {
   return currentInput(caseId, title, "final");

@@ -24,7 +24,7 @@ import {
   type WingModel,
 } from "~/engine";
 import { attributionOf, caseSides, caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
-import { currentDistributionInput, parseOrThrow } from "./analysis.server";
+import { currentInputWith, parseOrThrow } from "./analysis.server";
 import { getCaseUnits } from "./case-steps.server";
 
 /*
@@ -183,8 +183,8 @@ export function spanwiseComparison(input: CaseFileInput, caseId: string, section
  * @throws DomainError (not-found) for a load case the envelope step does not include
  */
 export async function caseSpanwiseComparison(input: { caseId: string; title: string; loadCase: string }): Promise<{ units: UnitSystem; comparison: SpanwiseComparison }> {
-  const [units, { file }] = await Promise.all([getCaseUnits(input.caseId), currentDistributionInput(input.caseId, input.title)]);
-  // The one case taken out of the (memoised) input and checked alone, not a large case file whole.
+  const [units, { file }] = await Promise.all([getCaseUnits(input.caseId), currentInputWith(input.caseId, input.title, "envelope", [input.loadCase])]);
+  // The one case taken out of the input (as stored with its result, else as built) and checked alone, not a large case file whole.
   const lc = file.cases.find((k) => k.id === input.loadCase);
   if (!lc) throw new DomainError(`No load case "${input.loadCase}" in this case.`, { field: "case", kind: "not-found" });
   return { units, comparison: spanwiseComparison({ ...file, cases: [lc] }, input.loadCase) };

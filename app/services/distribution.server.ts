@@ -10,7 +10,7 @@ import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
-import { currentDistributionInput, currentInputKey, parseOrThrow, queueResults, resultsFor, storedInputWith, SWEEP_THRESHOLD } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, currentInputWith, parseOrThrow, queueResults, resultsFor, storedInputWith, SWEEP_THRESHOLD } from "./analysis.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
 
@@ -125,8 +125,7 @@ export type DistributionPageView = ReturnType<typeof viewForPage>;
  * @throws DomainError (not-found) for a load case the distribution step does not examine
  */
 export async function distributionCaseView(input: { caseId: string; reference: string; title: string; loadCase: string; units: UnitSystem }): Promise<DistributionPageView> {
-  const { inputHash } = await currentInputKey(input.caseId, input.title, "envelope");
-  const { file, sections } = (await storedInputWith(input.caseId, inputHash, [input.loadCase])) ?? (await currentDistributionInput(input.caseId, input.title));
+  const { file, sections } = await currentInputWith(input.caseId, input.title, "envelope", [input.loadCase]);
   const lc = file.cases.find((c) => c.id === input.loadCase);
   if (!lc) throw new DomainError(`Case file ${input.reference} has no load case "${input.loadCase}".`, { field: "case", kind: "not-found" });
   return viewForPage({ ...file, cases: [lc] }, lc.id, input.units, sections);

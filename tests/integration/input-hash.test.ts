@@ -9,6 +9,7 @@ import type { CaseFileInput, CaseResult } from "~/exchange";
 import { stopBoss } from "~/jobs/boss.server";
 import { loader as viewLoader } from "~/routes/api/case-distribution";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
+import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/distribution";
 import { computeQueuedResults, currentAnalysisInput, forgetDerivedForTests } from "~/services/analysis.server";
@@ -82,12 +83,15 @@ describe("a web process that has built nothing finds a large case's stored resul
     expect(checks() - checksBefore).toBe(0);
     expect(builds() - built).toBe(0);
 
-    // The shown case's distribution takes that case out of the stored input and checks it alone.
+    // The shown case's distribution and its spanwise methods take that case out of the stored input and check it alone.
     const from = checks();
     const one = await get(viewLoader, `/api/cases/${caseId}/distribution?case=H7`);
     expect(one.status).toBe(200);
     expect(((await one.json()) as { caseId: string }).caseId).toBe("H7");
-    expect(checked(from)).toEqual([1]);
+    const methods = await get(spanwiseLoader, `/api/cases/${caseId}/spanwise-methods?case=H7`);
+    expect(methods.status).toBe(200);
+    expect(((await methods.json()) as { comparison: { caseId: string } }).comparison.caseId).toBe("H7");
+    expect(checked(from)).toEqual([1, 1]);
     expect(builds() - built).toBe(0);
 
     // The stored key is the one a build gives now.
