@@ -9,6 +9,12 @@ import { z } from "zod";
 export const MAX_PLANFORM_STATIONS = 60;
 export const MAX_SECTION_ROWS = 60;
 export const MAX_LOAD_CASES = 100_000;
+/**
+ * Station rows (load cases × output stations) a stored result may hold with `output: "full"`: about 226
+ * bytes of JSON a row, so some 110 MB at most. A whole 100 000-case sweep in full would be 0.9 GB at 40
+ * stations, past what one PostgreSQL jsonb value or one JavaScript string can hold; it is stored as a summary.
+ */
+export const MAX_STORED_STATION_ROWS = 500_000;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be positive` });
@@ -311,6 +317,14 @@ export const EnvelopeSchema = z
   })
   .superRefine((e, ctx) => {
     if (e.strips !== undefined && e.spanwise === "lifting-line") ctx.addIssue({ code: "custom", path: ["strips"], message: "Strips apply to the vortex lattice only" });
+    const rows = e.cases.length * e.stations;
+    if (e.output === "full" && rows > MAX_STORED_STATION_ROWS) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["output"],
+        message: `Full output of ${e.cases.length} load cases at ${e.stations} stations is ${rows} station rows, more than the ${MAX_STORED_STATION_ROWS} a stored result holds: choose summary output (root loads of every case and the envelope at every station), fewer stations or fewer cases`,
+      });
+    }
     const seen = new Set<string>();
     e.cases.forEach((c, i) => {
       if (seen.has(c.id)) ctx.addIssue({ code: "custom", path: ["cases", i, "id"], message: `Case id ${c.id} is used twice` });

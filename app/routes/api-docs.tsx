@@ -1,5 +1,6 @@
 import { Link } from "react-router";
 import { PageHeader, Panel } from "~/components/ui/page-header";
+import { MAX_LOAD_CASES, MAX_STORED_STATION_ROWS } from "~/domain/step-data";
 import { env } from "~/utils/env.server";
 import { ANALYZE_LIMITS, BODY_LIMITS, formatBytes, MAX_LISTED_PROBLEMS, MAX_OPEN_ANALYSES, MAX_OUTPUT_ROWS } from "~/utils/limits";
 import { exchangeFormatHtml } from "./api-docs.server";
@@ -88,6 +89,8 @@ const LIMITS = [
   ["Load cases per request (the rest through the job queue)", String(ANALYZE_LIMITS.queuedCases)],
   ["Values of section data beside the case (sections)", String(ANALYZE_LIMITS.sectionValues)],
   ['Station rows with method.output "full" (cases × output stations)', String(MAX_OUTPUT_ROWS)],
+  ["Load cases of an imported case (cases/import)", String(MAX_LOAD_CASES)],
+  ['Station rows of an imported case with method.output "full" (stored with its results)', String(MAX_STORED_STATION_ROWS)],
   ["Analyses of yours waiting at once", String(MAX_OPEN_ANALYSES)],
   ["Problems listed in a 422 answer", String(MAX_LISTED_PROBLEMS)],
 ] as const;

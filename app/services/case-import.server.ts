@@ -104,7 +104,7 @@ function documentPath(step: keyof ImportedSteps, path: readonly PropertyKey[]): 
       if (head === "cases") return formatPath(["cases", ...(index === undefined ? [] : [index]), ...rest]);
       if (head === "stations") return "method.stations";
       if (head === "strips") return "method.strips";
-      if (head === "compressibility" || head === "spanwise") return `method.${head}`;
+      if (head === "compressibility" || head === "spanwise" || head === "output") return `method.${head}`;
       return "method";
     case "masses":
       if (head === "structureKg") return "wing.mass.kg";

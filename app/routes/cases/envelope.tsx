@@ -68,7 +68,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
       return edited.ok ? accepted(`Saved as revision ${edited.revision}.`, { revision: edited.revision }) : refused(edited.fieldErrors);
     });
   }
-  const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations, ...(form.strips !== undefined ? { strips: form.strips } : {}) };
+  // The page does not offer the output kind: a saved file keeps its own (an imported sweep stored as a summary stays one).
+  const output = inputs.envelope?.output ?? "full";
+  const method = { compressibility: form.compressibility, spanwise: form.spanwise, stations: form.stations, output, ...(form.strips !== undefined ? { strips: form.strips } : {}) };
   return answer(async () => {
     const cases = form.intent === "generate" ? regeneratedCases(inputs, method) : form.intent === "method" ? (inputs.envelope?.cases ?? []) : casesToSI(form.cases, units);
     const si = EnvelopeSchema.safeParse({ ...method, cases });
