@@ -2,11 +2,11 @@ import { readFileSync } from "node:fs";
 import { isEngineError } from "../engine/errors";
 import { parseCase } from "../exchange/parse";
 import { resultToCsv } from "../exchange/csv";
-import { DIRECT_MACH_LIMIT, runCase } from "../exchange/run";
+import { DIRECT_MACH_LIMIT, runCase, runCaseEach } from "../exchange/run";
 import type { SectionsFile } from "../exchange/sections";
 import { parseSections } from "../exchange/sections";
-import type { RunProgress } from "../exchange/run";
-import { writeResultJson } from "../exchange/result-json";
+import type { ResultRest, RunProgress } from "../exchange/run";
+import { ResultJson } from "../exchange/result-json";
 
 const USAGE = "usage: npm run -s analyze -- [--csv] [--quiet] [--sections SECTIONS.json] CASE.json   (use - to read one of them from stdin)";
 /** Sweeps from this many cases (or with a Mach grid) report their progress on stderr. */
@@ -70,23 +70,34 @@ function main(argv: string[]): void {
     if (p.phase === "solves" && p.done % 10 === 0) say(`${p.done} spanwise solves`);
     if (p.phase === "cases" && p.done % step === 0) say(`${p.done} of ${p.total} cases`);
   };
-  let result;
+  const options = { onProgress: long ? onProgress : undefined, sections };
+  let method: ResultRest["method"];
+  let writeOut: () => void;
   try {
-    result = runCase(file, { forceStations: csv, onProgress: long ? onProgress : undefined, sections });
+    if (csv) {
+      const result = runCase(file, { ...options, forceStations: true });
+      method = result.method;
+      writeOut = () => process.stdout.write(resultToCsv(result));
+    } else {
+      // Each case goes into the JSON as it is evaluated; nothing is written before the run has succeeded.
+      const json = new ResultJson();
+      const rest = runCaseEach(file, options, (c) => json.addCase(c));
+      method = rest.method;
+      writeOut = () => json.writeTo(rest, (bytes) => process.stdout.write(bytes));
+    }
   } catch (e) {
     if (isEngineError(e)) fail(2, [e.field ? `${e.field}: ${e.message.replace(`${e.field}: `, "")}` : e.message]);
     throw e;
   }
   if (long) {
-    const g = result.method.machGrid;
+    const g = method.machGrid;
     say(
       g
         ? `done: ${g.solves} solves for ${g.machs} Mach numbers on a grid of ${g.nodes}; interpolation error ${g.maxError.toExponential(1)} of the loads at CL = 1 (held under ${g.tolerance.toExponential(0)})`
         : "done",
     );
   }
-  if (csv) process.stdout.write(resultToCsv(result));
-  else writeResultJson(result, (text) => process.stdout.write(text));
+  writeOut();
 }
 
 main(process.argv.slice(2));

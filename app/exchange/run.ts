@@ -61,7 +61,22 @@ const CASES_PER_REPORT = 1000;
  * @throws EngineError for a domain failure the schema cannot see (naming the field).
  */
 export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
-  const steps = runSteps(file, options);
+  const cases: ResultCase[] = [];
+  const steps = runSteps(file, options, (c) => cases.push(c));
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return resultWithCases(step.value, cases);
+    options.onProgress?.(step.value);
+  }
+}
+
+/**
+ * runCase that hands every case to `onCase` as soon as it is evaluated, in the file's order, and keeps
+ * none: for a writer that serialises a sweep of 100 000 cases without holding them all as objects.
+ * Returns the rest of the result (every member but `cases`, in the result's order).
+ */
+export function runCaseEach(file: CaseFile, options: RunOptions, onCase: (c: ResultCase) => void): ResultRest {
+  const steps = runSteps(file, options, onCase);
   for (;;) {
     const step = steps.next();
     if (step.done) return step.value;
@@ -75,13 +90,22 @@ export function runCase(file: CaseFile, options: RunOptions = {}): CaseResult {
  * The result is the same as runCase's.
  */
 export async function runCaseAsync(file: CaseFile, options: Omit<RunOptions, "onProgress"> & { onProgress?: (p: RunProgress) => void | Promise<void> } = {}): Promise<CaseResult> {
-  const steps = runSteps(file, options);
+  const cases: ResultCase[] = [];
+  const steps = runSteps(file, options, (c) => cases.push(c));
   for (;;) {
     const step = steps.next();
-    if (step.done) return step.value;
+    if (step.done) return resultWithCases(step.value, cases);
     await options.onProgress?.(step.value);
     await new Promise<void>((resolve) => setTimeout(resolve, 0));
   }
+}
+
+/** Every member of the result but `cases`. */
+export type ResultRest = Omit<CaseResult, "cases">;
+
+/** The result with its cases in the contract's member order (cases between wing and envelope). */
+export function resultWithCases({ schema, engine, method, wing, envelope }: ResultRest, cases: ResultCase[]): CaseResult {
+  return { schema, engine, method, wing, cases, envelope };
 }
 
 /**
@@ -156,8 +180,8 @@ function* configuration(model: WingModel, opts: SolveOptions, machs: number[], b
   return { machs, grid, solutionFor, solves: () => (grid ? grid.solves() : solutions.size), check: (m) => resolutionCheck(model, m, opts, solutionFor(m)) };
 }
 
-/** The run one step at a time: yields after every spanwise solve and every 1 000 cases, returns the result. */
-function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Generator<RunProgress, CaseResult> {
+/** The run one step at a time: hands each case to `emit`, yields after every spanwise solve and every 1 000 cases, returns the rest of the result. */
+function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">, emit: (c: ResultCase) => void): Generator<RunProgress, ResultRest> {
   const opts: SolveOptions = { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips };
   const machsOf = (flapped: boolean) => [...new Set(file.cases.filter((c) => Boolean(c.flaps) === flapped).map((c) => c.mach))].sort((a, b) => a - b);
   // The clean wing and, where cases ask for it, the flapped wing: each solved at its own cases' Mach numbers.
@@ -174,7 +198,6 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
   let env: ReturnType<typeof createEnvelope> | undefined;
   let geometry: MachSolution["geometry"] | undefined;
   const massCases = new Map<string, MassCase>((file.massCases ?? []).map((mc) => [mc.id, mc]));
-  const cases: ResultCase[] = [];
   for (let i = 0; i < file.cases.length; i++) {
     const c = file.cases[i];
     const sol = configs.get(Boolean(c.flaps))!.solutionFor(c.mach);
@@ -236,7 +259,7 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
         },
       };
     }
-    cases.push(out);
+    emit(out);
     if ((i + 1) % CASES_PER_REPORT === 0) yield { phase: "cases", done: i + 1, total: file.cases.length };
   }
   const g = geometry!;
@@ -278,7 +301,6 @@ function* runSteps(file: CaseFile, options: Omit<RunOptions, "onProgress">): Gen
       yMac: g.yMac,
       xLeMac: g.xLeMac,
     },
-    cases,
     envelope: env ? envelopeRows(env) : [],
   };
 }
