@@ -195,6 +195,9 @@ export const auditLog = pgTable(
  * optimistic-concurrency token: a save names the revision it started from and is refused if another
  * save came first.
  */
+/** Load cases kept in case_steps.head (the `[0 to 99]` of its expression). */
+export const STEP_HEAD_CASES = 100;
+
 export const caseSteps = pgTable(
   "case_steps",
   {
@@ -206,6 +209,17 @@ export const caseSteps = pgTable(
     data: jsonb().$type<Record<string, unknown>>(),
     updatedBy: uuid("updated_by").references(() => users.id),
     updatedAt: timestamp("updated_at", { withTimezone: true }).defaultNow().notNull(),
+    // Kept by PostgreSQL whenever data is written (by any writer), so that reading them never reads
+    // the data: an envelope of 100 000 load cases is 13 MB of JSON, and hashing or counting it costs
+    // hundreds of milliseconds per request.
+    /** MD5 of the data's normalised jsonb text: equal data, equal digest (getCaseStepsDigest). */
+    dataDigest: text("data_digest").generatedAlwaysAs(sql`md5(data::text)`),
+    /** How many load cases the data hold (the envelope's `cases`), else null. */
+    caseCount: integer("case_count").generatedAlwaysAs(sql`case when jsonb_typeof(data -> 'cases') = 'array' then jsonb_array_length(data -> 'cases') end`),
+    /** The data with only their first STEP_HEAD_CASES load cases (the envelope's first rows), else null. */
+    head: jsonb()
+      .$type<Record<string, unknown>>()
+      .generatedAlwaysAs(sql`case when jsonb_typeof(data -> 'cases') = 'array' then jsonb_set(data, '{cases}', jsonb_path_query_array(data, '$.cases[0 to 99]')) end`),
   },
   (t) => [uniqueIndex("case_steps_case_step_key").on(t.caseId, t.step)],
 );

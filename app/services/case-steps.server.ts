@@ -45,8 +45,8 @@ export async function getCaseStepsOf<K extends StepKey>(caseId: string, keys: re
 
 /**
  * The digest of what a case's steps hold: PostgreSQL's MD5 of each step's stored data (jsonb's
- * normalised text), so equal data give an equal digest whatever wrote them. Read afresh each call;
- * only the digests leave the database, not the data.
+ * normalised text), so equal data give an equal digest whatever wrote them. Read afresh each call
+ * from the column PostgreSQL keeps as the data are written: neither the data nor their hashing.
  */
 export async function getCaseStepsDigest(caseId: string, without: readonly StepKey[] = []): Promise<string> {
   return digestOf(await stepDigests().execute({ caseId }), without);
@@ -55,17 +55,16 @@ export async function getCaseStepsDigest(caseId: string, without: readonly StepK
 /** Every step of a case with the digest of their data (as getCaseStepsDigest), from one read. */
 export async function getCaseStepsDigested(caseId: string, without: readonly StepKey[] = [], database: Db | Tx = db): Promise<{ steps: Record<StepKey, StepState>; digest: string }> {
   const rows = await database
-    .select({ row: caseSteps, updatedByName: users.name, digest: dataDigest })
+    .select({ row: caseSteps, updatedByName: users.name, digest: caseSteps.dataDigest })
     .from(caseSteps)
     .leftJoin(users, eq(users.id, caseSteps.updatedBy))
     .where(eq(caseSteps.caseId, caseId));
   return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest })), without) };
 }
 
-const dataDigest = sql<string | null>`md5(${caseSteps.data}::text)`;
 const stepDigests = prepared((database) =>
   database
-    .select({ step: caseSteps.step, digest: dataDigest })
+    .select({ step: caseSteps.step, digest: caseSteps.dataDigest })
     .from(caseSteps)
     .where(eq(caseSteps.caseId, sql.placeholder("caseId")))
     .prepare("case_step_digests"),

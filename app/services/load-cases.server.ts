@@ -1,8 +1,8 @@
-import { sql } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { db, type Db, type Tx } from "~/db/client.server";
 import { DomainError } from "~/domain/errors";
 import type { Actor } from "~/domain/people";
-import type { CaseStep } from "~/db/schema";
+import { caseSteps, STEP_HEAD_CASES, type CaseStep } from "~/db/schema";
 import { EnvelopeSchema, LoadCaseSchema, type EnvelopeData, type LoadCase } from "~/domain/step-data";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
 import { getCaseSteps, saveStep, stepData } from "./case-steps.server";
@@ -67,17 +67,29 @@ export interface EnvelopeOutline {
  */
 export async function envelopeOutline(caseId: string, rows: { first: number; whole: number }, database: Db | Tx = db): Promise<EnvelopeOutline> {
   const first = Math.max(1, rows.first);
-  const result = await database.execute<{ revision: number; status: CaseStep["status"]; method: Record<string, unknown> | null; total: number; cases: unknown[] | null }>(sql`
-    with s as materialized (select revision, status, data - 'cases' as method, data -> 'cases' as cases from case_steps where case_id = ${caseId} and step = 'envelope'),
-      n as (select coalesce(jsonb_array_length(s.cases), 0)::int as total from s)
-    select s.revision, s.status, s.method, n.total,
-      case when n.total <= ${rows.whole}::int then s.cases
-        else (select jsonb_agg(s.cases -> i order by i) from generate_series(0, least(${first}::int, n.total) - 1) as i) end as cases
-    from s, n`);
-  const row = result.rows[0];
+  // The count and the first rows are columns PostgreSQL keeps as the data are written (case_steps.head):
+  // the data themselves are read only where every case is wanted or more rows than the head holds.
+  const [row] = await database
+    .select({ revision: caseSteps.revision, status: caseSteps.status, total: sql<number>`coalesce(${caseSteps.caseCount}, 0)`, head: caseSteps.head })
+    .from(caseSteps)
+    .where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
   if (!row) return { revision: 0, status: "empty", total: 0, data: null };
-  const parsed = row.method ? EnvelopeSchema.safeParse({ ...row.method, cases: row.cases ?? [] }) : null;
-  return { revision: row.revision, status: row.status, total: row.total, data: parsed?.success ? parsed.data : null };
+  const all = row.total <= rows.whole;
+  const source = all || first > STEP_HEAD_CASES || !row.head ? await envelopeRows(caseId, all ? null : first, database) : row.head;
+  if (!source) return { revision: row.revision, status: row.status, total: row.total, data: null };
+  const cases = Array.isArray(source.cases) ? (all ? source.cases : source.cases.slice(0, first)) : [];
+  const parsed = EnvelopeSchema.safeParse({ ...source, cases });
+  return { revision: row.revision, status: row.status, total: row.total, data: parsed.success ? parsed.data : null };
+}
+
+/** The stored envelope with all its cases (first null) or the first ones, picked out by PostgreSQL. */
+async function envelopeRows(caseId: string, first: number | null, database: Db | Tx): Promise<Record<string, unknown> | null> {
+  const cases = first === null ? sql`${caseSteps.data} -> 'cases'` : sql`jsonb_path_query_array(${caseSteps.data}, '$.cases[0 to $last]', jsonb_build_object('last', ${first - 1}::int))`;
+  const [row] = await database
+    .select({ data: sql<Record<string, unknown> | null>`${caseSteps.data} - 'cases' || jsonb_build_object('cases', ${cases})` })
+    .from(caseSteps)
+    .where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+  return row?.data ?? null;
 }
 
 export interface LoadCaseEdits {

@@ -7,7 +7,8 @@ import { loader as envelopeLoader } from "~/routes/cases/envelope";
 import { loader as massesLoader } from "~/routes/cases/masses";
 import { loader as planformLoader } from "~/routes/cases/planform";
 import { loader as sectionsLoader } from "~/routes/cases/sections";
-import { request, rowTextOf, run, seededDemoCase } from "./helpers";
+import { getCaseStepsDigest } from "~/services/case-steps.server";
+import { queriesOf, request, rowTextOf, run, seededDemoCase } from "./helpers";
 
 // A case of many load cases: the pages of its other steps, and the envelope page itself, read the
 // steps they show and the envelope's method, count and first rows — not its whole list of cases.
@@ -34,6 +35,9 @@ beforeAll(async () => {
   storedText = row!.size;
 });
 
+/** Queries that read or compute from the envelope step's stored data (its count, its rows, a hash of its text), as sent. */
+const envelopeDataQueries = (sent: string[]) => sent.filter((text) => text.includes("case_steps") && text.includes("'envelope'") && /"data"|\bdata\b/.test(text));
+
 const pages = { basis: basisLoader, planform: planformLoader, sections: sectionsLoader, masses: massesLoader, envelope: envelopeLoader } as const;
 
 describe("the pages of a case with a large envelope", () => {
@@ -59,5 +63,33 @@ describe("the pages of a case with a large envelope", () => {
     expect(body.window!.total).toBe(CASES);
     expect(body.window!.rows.map((r) => r.id)).toEqual(data.cases.slice(0, body.window!.rows.length).map((c) => c.id));
     expect(body.window!.rows.length).toBeGreaterThan(0);
+  });
+
+  for (const name of ["basis", "envelope"] as const) {
+    it(`the ${name} page takes the envelope's count and first rows without PostgreSQL reading its data`, async () => {
+      const sent = await queriesOf(() => run(pages[name] as never, { request: request(`/cases/${caseId}/${name}`, { cookie }), params: { caseId } }));
+      // Before: count and rows were taken out of the 20 000 stored cases on every request (jsonb_array_length(data -> 'cases'), …).
+      expect(envelopeDataQueries(sent)).toEqual([]);
+    });
+  }
+});
+
+describe("the digest of a case's steps", () => {
+  it("is read without PostgreSQL hashing the steps' data, and follows every write of them", async () => {
+    const md5s = async () => (await db.execute<{ step: string; digest: string }>(sql`select step, md5(data::text) as digest from case_steps where case_id = ${caseId}`)).rows;
+    const expected = (rows: { step: string; digest: string }[]) => rows.map((r) => `${r.step}:${r.digest}`).sort().join(";");
+    let digest = "";
+    const sent = await queriesOf(async () => {
+      digest = await getCaseStepsDigest(caseId);
+    });
+    // Before: md5("case_steps"."data"::text) of every step on every call (hundreds of ms for a large envelope).
+    expect(sent.filter((text) => /md5\(/.test(text))).toEqual([]);
+    // PostgreSQL's MD5 of each step's jsonb text, as documented in getCaseStepsDigest.
+    expect(digest).toBe(expected(await md5s()));
+    // A write that bypasses the services (as this file's set-up does) moves it too.
+    await db.execute(sql`update case_steps set data = jsonb_set(data, '{cases,0,nz}', '2.5') where case_id = ${caseId} and step = 'envelope'`);
+    const after = await getCaseStepsDigest(caseId);
+    expect(after).not.toBe(digest);
+    expect(after).toBe(expected(await md5s()));
   });
 });

@@ -1,0 +1,3 @@
+ALTER TABLE "case_steps" ADD COLUMN "data_digest" text GENERATED ALWAYS AS (md5(data::text)) STORED;--> statement-breakpoint
+ALTER TABLE "case_steps" ADD COLUMN "case_count" integer GENERATED ALWAYS AS (case when jsonb_typeof(data -> 'cases') = 'array' then jsonb_array_length(data -> 'cases') end) STORED;--> statement-breakpoint
+ALTER TABLE "case_steps" ADD COLUMN "head" jsonb GENERATED ALWAYS AS (case when jsonb_typeof(data -> 'cases') = 'array' then jsonb_set(data, '{cases}', jsonb_path_query_array(data, '$.cases[0 to 99]')) end) STORED;
