@@ -17,6 +17,8 @@ export type DomainErrorKind =
   | "too-large"
   /** Too many attempts or requests for now: wait and try again (429). */
   | "too-many"
+  /** The server is working at its stated capacity for this kind of request: send again shortly (503). */
+  | "busy"
   /** The case cannot be computed as given: the engine or the exchange contract refuses it (422). */
   | "unprocessable";
 

@@ -66,7 +66,7 @@ function endpoints(origin: string): Endpoint[] {
       path: "/api/v1/analyze",
       permission: "case:read",
       scope: "read",
-      what: `Analyses a spanwright.case/1 document and answers spanwright.result/1. Up to ${ANALYZE_LIMITS.syncCases} load cases are answered at once and nothing is stored; a larger sweep, up to ${ANALYZE_LIMITS.queuedCases} cases, is answered 202 with a job to poll (below). A bad document answers 422 with its first ${MAX_LISTED_PROBLEMS} problems and their count.`,
+      what: `Analyses a spanwright.case/1 document and answers spanwright.result/1. Up to ${ANALYZE_LIMITS.syncCases} load cases are answered at once and nothing is stored; a larger sweep, up to ${ANALYZE_LIMITS.queuedCases} cases, is answered 202 with a job to poll (below). A bad document answers 422 with its first ${MAX_LISTED_PROBLEMS} problems and their count. A web process holds ${ANALYZE_LIMITS.inFlightPerProcess} analyses at once; beyond that a request is answered 503 (error "busy") with Retry-After at once, nothing computed: send it again.`,
       curl: `curl ${AUTH} -H "Content-Type: application/json" --data-binary @case.json ${origin}/api/v1/analyze`,
     },
     {

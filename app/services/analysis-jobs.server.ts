@@ -86,6 +86,44 @@ function checkOutputSize(file: CaseFile): void {
   }
 }
 
+let placesTaken = 0;
+let lastInLine: Promise<void> = Promise.resolve();
+
+/** Analyses this process holds now, the one running included (tests: to see places taken). */
+export function analysesInFlight(): number {
+  return placesTaken;
+}
+
+/**
+ * Runs the work of one analysis request (its body already read) after those before it in this
+ * process, or refuses it at once when ANALYZE_LIMITS.inFlightPerProcess are already held. Solving
+ * takes the process's thread, so requests beyond a few would only wait until their clients give up;
+ * under a burst they hear "busy, ask again in a second" instead. Places are taken after the body is
+ * read, so a client that sends slowly holds none.
+ * @throws DomainError (busy) when every place is taken
+ */
+export async function withAnalysisPlace<T>(work: () => Promise<T>): Promise<T> {
+  if (placesTaken >= ANALYZE_LIMITS.inFlightPerProcess) {
+    throw new DomainError(
+      `The server is working on ${placesTaken} analyses already, the most it holds at once (${ANALYZE_LIMITS.inFlightPerProcess} per web process); nothing was computed. Send the request again in a second.`,
+      { kind: "busy" },
+    );
+  }
+  placesTaken++;
+  const before = lastInLine;
+  let leave!: () => void;
+  lastInLine = new Promise((resolve) => (leave = resolve));
+  try {
+    await before;
+    // Let the requests that arrived meanwhile take a place or hear "busy" before this one holds the thread.
+    await new Promise((resolve) => setImmediate(resolve));
+    return await work();
+  } finally {
+    placesTaken--;
+    leave();
+  }
+}
+
 export type AnalysisAnswer =
   | { kind: "result"; result: CaseResult }
   | { kind: "invalid"; problems: CaseProblem[] }

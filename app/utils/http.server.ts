@@ -16,6 +16,7 @@ const STATUS: Record<DomainErrorKind, number> = {
   conflict: 409,
   "too-large": 413,
   "too-many": 429,
+  busy: 503,
   unprocessable: 422,
 };
 
@@ -28,6 +29,7 @@ const API_CODE: Record<DomainErrorKind, string> = {
   conflict: "conflict",
   "too-large": "too-large",
   "too-many": "too-many-requests",
+  busy: "busy",
   unprocessable: "invalid-case",
 };
 
@@ -47,7 +49,9 @@ export function apiError(status: number, error: string, message: string, headers
  */
 export function apiRefusal(error: DomainError): Response {
   const problems = error.problems ? { problemCount: error.problems.length, problems: error.problems.slice(0, MAX_LISTED_PROBLEMS), ...(error.problems.length > MAX_LISTED_PROBLEMS ? { omitted: error.problems.length - MAX_LISTED_PROBLEMS } : {}) } : {};
-  return Response.json({ error: API_CODE[error.kind], message: error.message, ...problems }, { status: statusOf(error) });
+  // A refusal for now (busy, too many) says when to ask again, as HTTP has it say.
+  const headers: HeadersInit = error.kind === "busy" ? { "Retry-After": "1" } : {};
+  return Response.json({ error: API_CODE[error.kind], message: error.message, ...problems }, { status: statusOf(error), headers });
 }
 
 // ---------------------------------------------------------------- page actions

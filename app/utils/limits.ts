@@ -43,6 +43,12 @@ export const ANALYZE_LIMITS = {
   queuedCases: 20_000,
   /** Numbers and strings in the richer section data beside the case (`sections`). */
   sectionValues: 500_000,
+  /**
+   * Analysis requests one web process holds at once (reading, validating, solving or queueing).
+   * Solving takes the process's whole thread, so more would only wait behind each other until the
+   * client gives up; the next one is answered 503 with Retry-After at once instead.
+   */
+  inFlightPerProcess: 4,
 } as const;
 
 /** Output station rows (cases × output stations) a request may ask for with method.output "full". */

@@ -9,6 +9,7 @@ import { stopBoss } from "~/jobs/boss.server";
 import { startWorkers } from "~/jobs/workers.server";
 import { action as analyzeAction } from "~/routes/api/v1/analyze";
 import { loader as jobLoader } from "~/routes/api/v1/analyze-job";
+import { analysesInFlight, withAnalysisPlace } from "~/services/analysis-jobs.server";
 import { ANALYZE_LIMITS, MAX_LISTED_PROBLEMS, MAX_OPEN_ANALYSES } from "~/utils/limits";
 import { demoUser, request, seed, routeArgs } from "./helpers";
 
@@ -123,4 +124,25 @@ describe("a sweep beyond the request's own limit goes to the job queue", () => {
     expect(refused.status).toBe(429);
     expect(refused.body.message).toContain(`at most ${MAX_OPEN_ANALYSES}`);
   }, 60_000);
+});
+
+describe("a burst of analyses beyond what a web process holds is told to come back, not left to time out", () => {
+  it(`answers 503 with Retry-After at once while ${ANALYZE_LIMITS.inFlightPerProcess} analyses are held, and solves again once they are done`, async () => {
+    // The places are filled by work that waits on a gate the test opens: no timing involved.
+    let open!: () => void;
+    const gate = new Promise<void>((resolve) => (open = resolve));
+    const held = Array.from({ length: ANALYZE_LIMITS.inFlightPerProcess }, () => withAnalysisPlace(() => gate));
+    expect(analysesInFlight()).toBe(ANALYZE_LIMITS.inFlightPerProcess);
+    const busy = await analyse(base());
+    expect(busy.status).toBe(503);
+    expect(busy.headers.get("Retry-After")).toBe("1");
+    expect(busy.body).toMatchObject({ error: "busy" });
+    expect(busy.body.message).toContain("Send the request again");
+    open();
+    await Promise.all(held);
+    expect(analysesInFlight()).toBe(0);
+    const solved = await analyse(base());
+    expect(solved.status).toBe(200);
+    expect(solved.body).toMatchObject({ schema: "spanwright.result/1" });
+  });
 });
