@@ -95,6 +95,20 @@ export function analysesInFlight(): number {
 }
 
 /**
+ * Refuses an analysis request at once while every place is taken: called again before the request
+ * is even authenticated or read, so a burst is answered without waiting behind the solves.
+ * @throws DomainError (busy) when every place is taken
+ */
+export function refuseWhenNoPlace(): void {
+  if (placesTaken >= ANALYZE_LIMITS.inFlightPerProcess) {
+    throw new DomainError(
+      `The server is working on ${placesTaken} analyses already, the most it holds at once (${ANALYZE_LIMITS.inFlightPerProcess} per web process); nothing was computed. Send the request again in a second.`,
+      { kind: "busy" },
+    );
+  }
+}
+
+/**
  * Runs the work of one analysis request (its body already read) after those before it in this
  * process, or refuses it at once when ANALYZE_LIMITS.inFlightPerProcess are already held. Solving
  * takes the process's thread, so requests beyond a few would only wait until their clients give up;
@@ -103,12 +117,7 @@ export function analysesInFlight(): number {
  * @throws DomainError (busy) when every place is taken
  */
 export async function withAnalysisPlace<T>(work: () => Promise<T>): Promise<T> {
-  if (placesTaken >= ANALYZE_LIMITS.inFlightPerProcess) {
-    throw new DomainError(
-      `The server is working on ${placesTaken} analyses already, the most it holds at once (${ANALYZE_LIMITS.inFlightPerProcess} per web process); nothing was computed. Send the request again in a second.`,
-      { kind: "busy" },
-    );
-  }
+  refuseWhenNoPlace();
   placesTaken++;
   const before = lastInLine;
   let leave!: () => void;

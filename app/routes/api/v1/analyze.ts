@@ -1,6 +1,6 @@
 import { href } from "react-router";
 import { requireApiUser } from "~/auth/api-auth.server";
-import { analyse, AnalysisLimitError, withAnalysisPlace } from "~/services/analysis-jobs.server";
+import { analyse, AnalysisLimitError, refuseWhenNoPlace, withAnalysisPlace } from "~/services/analysis-jobs.server";
 import { statusOf } from "~/utils/http.server";
 import type { Route } from "./+types/analyze";
 import { apiHandler, invalidCase, methodNotAllowed, readJsonBody } from "./respond.server";
@@ -20,6 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request, context }: Route.ActionArgs) {
   return apiHandler(async () => {
     if (request.method !== "POST") return methodNotAllowed(request, "POST");
+    refuseWhenNoPlace();
     const current = await requireApiUser({ request, context }, "case:read");
     const document = await readJsonBody(request);
     return withAnalysisPlace(async () => {
