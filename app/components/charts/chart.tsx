@@ -29,7 +29,8 @@ export function Chart({ option, height = 320, label, fileName }: { option: Chart
   };
   return (
     <figure aria-label={label} className="rounded border border-line bg-surface p-2">
-      <div style={{ height }}>
+      {/* The canvas is drawn at the width of this box: contained, a chart never widens the column it sits in. */}
+      <div style={{ height }} className="contain-inline-size">
         {client ? (
           <Suspense fallback={null}>
             <ReactECharts ref={ref} option={option} style={{ height, width: "100%" }} opts={{ renderer: "canvas" }} notMerge />

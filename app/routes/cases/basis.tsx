@@ -62,7 +62,7 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
       <StepAnswer answer={shown} inline={Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision")} />
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
-        <fieldset disabled={!loaderData.canEdit || busy} className="grid gap-5 xl:grid-cols-2">
+        <fieldset disabled={!loaderData.canEdit || busy} className="grid grid-cols-1 gap-5 xl:grid-cols-2">
           <BasisRulesPanel {...fields} />
           <BasisWeightsPanel {...fields} />
           <BasisSpeedsPanel {...fields} />

@@ -135,7 +135,7 @@ export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultM
 /** The solver's loading beside Schrenk's, cl, cl and cm under each rule, critical Mach by station. */
 export function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
   return (
-    <div className="grid gap-4 xl:grid-cols-2">
+    <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
       <Chart option={loadingOption(view, units)} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
       <Chart option={clOption(view, units)} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
       <Chart option={rulesOption(view, "cl", units)} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
@@ -501,7 +501,7 @@ function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseCompariso
   const m = unitSymbol(units, "moment");
   const lift = { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) };
   return (
-    <div className="grid gap-4 xl:grid-cols-2">
+    <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
       <Chart option={spanwiseWaysOption(c, lift, units)} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
       <div className="overflow-x-auto">
         <table className="w-full text-sm tabular" aria-label="Root loads by spanwise method">

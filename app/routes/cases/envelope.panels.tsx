@@ -514,7 +514,7 @@ function TunedGustPanel({ set, units }: { set: VnSet; units: UnitSystem }) {
         </span>{" "}
         EAS: Δn = <strong className="tabular">{c.deltaN.toFixed(4)}</strong> (factor K = {c.k.toFixed(4)}); Pratt's formula with the same gust gives {c.prattDeltaN.toFixed(4)}.
       </p>
-      <div className="grid gap-4 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
         <Chart option={tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length)} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
         <Chart option={gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history)} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
       </div>

@@ -103,7 +103,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
       <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
       <StepAnswer answer={shown} inline={["compressibility", "spanwise", "stations", "strips", "cases."]} />
       <CaseRowErrors server={server} />
-      <div className="grid gap-5 2xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-5 2xl:grid-cols-2">
         <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} />
         <div>
           <Form method="post" onSubmit={onSubmit} onKeyDown={saveOnEnter} noValidate>

@@ -114,7 +114,7 @@ export function BreakdownPanel({ caseId, current, result, units, info }: { caseI
               </>
             )}
           </p>
-          <div className="grid gap-4 xl:grid-cols-3">
+          <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
             {(["shear", "bending", "torsion"] as const).map((q) => (
               <Chart
                 key={q}
@@ -198,7 +198,7 @@ export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult
     otherValues: current.roll?.other.stations?.map((s) => s[q]),
   });
   return (
-    <div className="grid gap-4 xl:grid-cols-3">
+    <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
       <Chart option={loadsOption("shear", series("shear"), force, units)} label="Shear force along the span" fileName="shear" />
       <Chart option={loadsOption("bending", series("bending"), moment, units)} label="Bending moment along the span" fileName="bending" />
       <Chart option={loadsOption("torsion", series("torsion"), moment, units)} label="Torsion along the span" fileName="torsion" />

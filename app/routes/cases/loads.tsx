@@ -71,7 +71,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
         </p>
       ) : null}
       <StepAnswer answer={shown} inline={["notes"]} />
-      <div className="mb-5 grid gap-5 xl:grid-cols-[22rem_1fr]">
+      <div className="mb-5 grid grid-cols-1 gap-5 xl:grid-cols-[22rem_minmax(0,1fr)]">
         <NotesPanel form={form} onSubmit={onSubmit} server={shown?.fieldErrors} canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} voids={loaderData.voids} />
         <ResultsStatus ready={loaderData.ready} caseCount={loaderData.caseCount} results={results} current={current} onSelect={setSelected} units={units} info={info} />
       </div>

@@ -72,12 +72,12 @@ export default function MassesRoute({ loaderData, actionData }: Route.ComponentP
           <Alert tone="warn">This case was saved before the masses step existed: its semispan structural mass is shown from the loads step. Save this step to keep it here.</Alert>
         </div>
       ) : null}
-      <div className="grid gap-5 2xl:grid-cols-[minmax(0,1.2fr)_minmax(0,1fr)]">
+      <div className="grid grid-cols-1 gap-5 2xl:grid-cols-[minmax(0,1.2fr)_minmax(0,1fr)]">
         <Form method="post" onSubmit={onSubmit} noValidate>
           <input type="hidden" {...form.register("revision")} />
           <input type="hidden" {...form.register("sourceKind")} />
           <input type="hidden" {...form.register("sourceFile")} />
-          <fieldset disabled={disabled} className="min-w-0 space-y-5">
+          <fieldset disabled={disabled} className="space-y-5">
             <StructurePanel {...fields} />
             <ItemsPanel {...fields} />
             <MassCasesPanel {...fields} />

@@ -53,7 +53,7 @@ export default function CaseOverviewRoute({ loaderData }: Route.ComponentProps) 
           </tbody>
         </table>
       </Panel>
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-2">
         <Panel title="Case file">
           <dl className="grid grid-cols-[10rem_1fr] gap-y-1.5 text-sm">
             <dt className="text-ink-muted">Programme</dt>

@@ -63,7 +63,7 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
       <PageHeader title="Planform" description="The wing from root to tip: stations where chord, leading edge or twist change; straight lines between them." />
       <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
       <StepAnswer answer={shown} inline={["stations.", "axisRoot", "axisTip"]} />
-      <div className="grid gap-5 2xl:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+      <div className="grid grid-cols-1 gap-5 2xl:grid-cols-2">
         <Form method="post" onSubmit={onSubmit} noValidate>
           <input type="hidden" {...form.register("revision")} />
           <fieldset disabled={disabled || busy}>

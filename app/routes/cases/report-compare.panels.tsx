@@ -159,7 +159,7 @@ export function ComparisonTables({ c, units }: { c: ReportComparison; units: Uni
 /** Shear, bending and torsion envelopes of both versions overlaid. */
 export function EnvelopeOverlays({ c, units }: { c: ReportComparison; units: UnitSystem }) {
   return (
-    <div className="grid gap-4 xl:grid-cols-3">
+    <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
       {(["shear", "bending", "torsion"] as const).map((kind) => {
         const quantity = kind === "shear" ? "force" : "moment";
         return (

@@ -19,7 +19,7 @@ export function StepReviewPanel({ step: s, index: i, selfId, canSubmit, canCheck
   const ownRevision = s.revisionAuthorId === selfId;
   return (
     <Panel title={`${i + 1}. ${s.label}`}>
-      <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,1fr)_20rem]">
         <div>
           <p className="mb-2 text-sm">
             <strong>

@@ -91,7 +91,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
           Current data from the uploaded file <strong>{saved.source.filename}</strong> (SHA-256 <code className="text-xs">{saved.source.sha256?.slice(0, 16)}…</code>).
         </p>
       ) : null}
-      <div className="grid gap-5 2xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-5 2xl:grid-cols-2">
         <Form method="post" onSubmit={onSubmit} noValidate>
           <input type="hidden" {...form.register("intent")} />
           <input type="hidden" {...form.register("revision")} />
