@@ -1,6 +1,6 @@
 import type { z } from "zod";
-import { CaseFileSchema } from "./schema";
-import type { CaseFile } from "./schema";
+import { CaseFileHeadSchema, CaseFileSchema, caseFileIssues, plainCase } from "./schema";
+import type { CaseFile, LoadCaseInput } from "./schema";
 
 /** One problem with an input document: where (contract path) and which rule it breaks. */
 export interface CaseProblem {
@@ -45,7 +45,31 @@ function toProblems(error: z.ZodError): CaseProblem[] {
  * Never throws for bad input: returns every problem with its path and rule.
  */
 export function parseCase(json: unknown): ParseCaseResult {
+  const value = validQuickly(json);
+  if (value) return { ok: true, value };
   const r = CaseFileSchema.safeParse(json, { error: (iss) => typeMessage(iss) });
   if (r.success) return { ok: true, value: r.data };
   return { ok: false, problems: toProblems(r.error) };
+}
+
+/**
+ * The document as CaseFileSchema parses it, for the common valid document whose cases are plain
+ * (plainCase): the members but the cases through zod, the cases without it, then the rules between
+ * them. Undefined at the first doubt, and CaseFileSchema judges the whole document and names every problem.
+ */
+function validQuickly(json: unknown): CaseFile | undefined {
+  if (typeof json !== "object" || json === null || Object.getPrototypeOf(json) !== Object.prototype) return undefined;
+  const { cases: input, ...head } = json as Record<string, unknown>;
+  if (!Array.isArray(input) || input.length === 0) return undefined;
+  const cases = new Array<LoadCaseInput>(input.length);
+  for (let i = 0; i < input.length; i++) {
+    const c = plainCase(input[i]);
+    if (!c) return undefined;
+    cases[i] = c;
+  }
+  const h = CaseFileHeadSchema.safeParse(head);
+  if (!h.success) return undefined;
+  // The schema's member order: cases come last.
+  const file = { ...h.data, cases };
+  return caseFileIssues(file).length ? undefined : file;
 }
