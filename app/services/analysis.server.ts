@@ -14,6 +14,7 @@ import { getCaseSteps, getCaseStepsDigest, getCaseStepsDigested, stepData, type 
 import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
 import { checkMassCaseNames, effectiveMasses, exchangeMasses, withTailLoads } from "./masses.server";
+import { envelopeCaseCount, queueCaseResults, SWEEP_THRESHOLD, type InputScope } from "./results-queue.server";
 
 export interface CaseInputs {
   basis: BasisData | null;
@@ -254,6 +255,16 @@ export async function storedResult(caseId: string, inputHash: string, database: 
   return row ? { result: row.result as unknown as CaseResult, inputHash, computedAt: row.computedAt } : null;
 }
 
+/** Whether a result is stored for this input hash and the engine version (without reading it). */
+async function hasStoredResult(caseId: string, inputHash: string, database: Db | Tx = db): Promise<boolean> {
+  const [row] = await database
+    .select({ id: caseResults.id })
+    .from(caseResults)
+    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .limit(1);
+  return Boolean(row);
+}
+
 /**
  * The input of the stored result for this hash (as checked) with only the named load cases, in the
  * input's order, and its sections document: PostgreSQL picks the cases out, so a page showing a few
@@ -273,6 +284,25 @@ export async function storedInputWith(caseId: string, inputHash: string, ids: re
     from r`);
   const row = found.rows[0];
   return row ? { file: { ...row.head, cases: row.cases }, sections: row.sections ?? undefined } : null;
+}
+
+// The load-case ids of a stored result's input, by case, input hash and engine version: a function of
+// exactly those, so never stale; a large input's ids are read out of it once per process.
+const inputIds = new LRUCache<string, string[]>({ max: 4 });
+
+/** The load-case ids of the stored result's input for this hash, in order (PostgreSQL picks them out), or null while none is stored. */
+export async function storedInputIds(caseId: string, inputHash: string): Promise<string[] | null> {
+  const key = `${caseId}\n${inputHash}\n${ENGINE_VERSION}`;
+  const hit = inputIds.get(key);
+  if (hit) return hit;
+  const found = await db.execute<{ ids: string[] | null }>(sql`
+    select (select coalesce(jsonb_agg(e -> 'id' order by n), '[]'::jsonb) from jsonb_array_elements(case when ${caseResults.input} ? 'case' then ${caseResults.input} -> 'case' else ${caseResults.input} end -> 'cases') with ordinality as t(e, n)) as ids
+    from ${caseResults}
+    where ${caseResults.caseId} = ${caseId} and ${caseResults.inputHash} = ${inputHash} and ${caseResults.engineVersion} = ${ENGINE_VERSION}
+    order by ${caseResults.computedAt} desc limit 1`);
+  const ids = found.rows[0]?.ids ?? null;
+  if (ids) inputIds.set(key, ids);
+  return ids;
 }
 
 /** How far the job worker has got with a sweep: its phase, the spanwise solves made and the cases evaluated. */
@@ -378,9 +408,6 @@ export async function fromCurrentSteps<T>(
   return value;
 }
 
-/** What a case input is of: what the loads step uses ("final") or every case the distribution step examines ("envelope"). */
-export type InputScope = "envelope" | "final";
-
 // Steps an input does not read: the distribution step examines its cases whatever their dispositions,
 // so a saved disposition keeps its input.
 const UNREAD: Record<InputScope, readonly (keyof CaseInputs)[]> = { envelope: ["distribution"], final: [] };
@@ -412,20 +439,44 @@ export interface InputKey {
  * one read of the steps' digest and one indexed read, no build. Null when these steps were never built.
  */
 export async function storedInputKey(caseId: string, title: string, scope: InputScope): Promise<InputKey | null> {
-  const source = sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope]));
-  const [row] = await db
+  return inputKeyOf(caseId, sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope])));
+}
+
+async function inputKeyOf(caseId: string, source: string, database: Db | Tx = db): Promise<InputKey | null> {
+  const [row] = await database
     .select({ inputHash: resultInputs.inputHash, caseCount: resultInputs.caseCount })
     .from(resultInputs)
     .where(and(eq(resultInputs.caseId, caseId), eq(resultInputs.source, source), eq(resultInputs.engineVersion, ENGINE_VERSION)));
   return row ?? null;
 }
 
-/** The key of the case's current input: as stored, else built (and recorded for every process). */
-export async function currentInputKey(caseId: string, title: string, scope: InputScope): Promise<InputKey> {
+/** A large case's input the job worker has not built yet: its hash is not known, its envelope's load cases are counted. */
+export interface InputInPreparation {
+  inputHash: null;
+  /** Load cases of the stored envelope (the input may leave out excluded ones). */
+  caseCount: number;
+}
+
+/**
+ * The key of the case's current input: as stored, else built here (and recorded for every process)
+ * when the case is small; a large case's input is built by the job worker alone (queued again here,
+ * in case its save was not followed by a job), and meanwhile has no key.
+ */
+export async function currentInputKey(caseId: string, title: string, scope: InputScope): Promise<InputKey | InputInPreparation> {
   const known = await storedInputKey(caseId, title, scope);
   if (known) return known;
+  const count = await envelopeCaseCount(caseId);
+  if (count > SWEEP_THRESHOLD) {
+    await queueCaseResults(caseId, [scope]);
+    return { inputHash: null, caseCount: count };
+  }
   const built = await currentInput(caseId, title, scope);
   return { inputHash: built.inputHash, caseCount: built.parsed.cases.length };
+}
+
+/** A refusal for a reader that needs an input the job worker is still building. */
+export function inputInPreparation(): DomainError {
+  return new DomainError("The results of this case file are still being computed by a background worker: try again once the page shows them.", { field: "results", kind: "conflict" });
 }
 
 /**
@@ -446,6 +497,7 @@ function currentInput(caseId: string, title: string, scope: InputScope): Promise
  */
 export async function currentInputWith(caseId: string, title: string, scope: InputScope, ids: readonly string[]): Promise<{ file: CaseFileInput; sections: SectionsFile | undefined }> {
   const { inputHash } = await currentInputKey(caseId, title, scope);
+  if (inputHash === null) throw inputInPreparation();
   const stored = await storedInputWith(caseId, inputHash, ids);
   if (stored) return stored;
   const built = await currentInput(caseId, title, scope);
@@ -462,9 +514,6 @@ export function currentDistributionInput(caseId: string, title: string): Promise
   return currentInput(caseId, title, "envelope");
 }
 
-/** Sweeps larger than this are solved by a worker rather than inside the web request. */
-export const SWEEP_THRESHOLD = 500;
-
 /**
  * The stored result when there is one; otherwise small cases are solved at once and large sweeps
  * are handed to the job queue (the caller answers "computing" and asks again).
@@ -479,12 +528,7 @@ export async function resultsOrQueue(
   if (file.cases.length <= SWEEP_THRESHOLD) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
   const parsed = parseOrThrow(file);
   const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed));
-  const [cached] = await database
-    .select({ id: caseResults.id })
-    .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
-    .limit(1);
-  if (cached) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
+  if (await hasStoredResult(caseId, inputHash, database)) return { pending: false, ...(await resultsFor(caseId, file, actorId, sections, { database })) };
   const progress = await queueResults(caseId, { inputHash, caseCount: parsed.cases.length }, "final");
   if (progress?.phase === "failed") throw new DomainError(progress.problem ?? "The engine refused this case file.", { field: "cases", kind: "unprocessable" });
   return { pending: true, cases: file.cases.length, progress };
@@ -498,6 +542,16 @@ export async function currentResultsOrQueue(caseId: string, title: string, actor
   const known = await storedInputKey(caseId, title, "final");
   const stored = known && (await storedResult(caseId, known.inputHash));
   if (stored) return { pending: false, ...stored };
+  if (known) {
+    if (known.caseCount > SWEEP_THRESHOLD) return { pending: true, cases: known.caseCount, progress: await queueResults(caseId, known, "final") };
+  } else {
+    const count = await envelopeCaseCount(caseId);
+    // Not built yet: a large case's input is the worker's to build (see currentInputKey).
+    if (count > SWEEP_THRESHOLD) {
+      await queueCaseResults(caseId, ["final"]);
+      return { pending: true, cases: count, progress: null };
+    }
+  }
   const input = await currentAnalysisInput(caseId, title);
   return resultsOrQueue(caseId, input.file, actorId, input.sections);
 }
@@ -569,20 +623,36 @@ export async function computeQueuedResults(caseId: string, database: Db | Tx = d
   if (!row) return;
   // The steps and their digest from one read, so what is recorded below names exactly what was built.
   const { steps, digest } = await getCaseStepsDigested(caseId, UNREAD[scope], database);
+  const source = sourceOf(scope, row.title, digest);
+  // Jobs are queued at every save and may arrive twice: these steps' result (or refusal) may be there already.
+  const known = await inputKeyOf(caseId, source, database);
+  if (known && ((await hasStoredResult(caseId, known.inputHash, database)) || (await sweepProgress(caseId, known.inputHash))?.phase === "failed")) return;
   const inputs = caseInputs(steps);
   for (const k of UNREAD[scope]) inputs[k] = null;
-  const file = buildCaseFile(row.title, inputs, scope);
-  const source = sourceOf(scope, row.title, digest);
+  let checked: { file: CaseFileInput; sections: SectionsFile | undefined; inputHash: string; caseCount: number };
   try {
-    const { inputHash } = await resultsFor(caseId, file, null, buildSectionsFile(inputs), { recordProgress: true, database });
-    await rememberInput(caseId, source, { inputHash, caseCount: file.cases.length }, database);
+    const file = buildCaseFile(row.title, inputs, scope);
+    const sections = buildSectionsFile(inputs);
+    const parsed = parseOrThrow(file);
+    checked = { file, sections, inputHash: analysisInputHash(parsed, parseSectionsOrThrow(sections, parsed)), caseCount: parsed.cases.length };
+  } catch (error) {
+    if (!(error instanceof DomainError)) throw error;
+    // Steps missing, or a file its checks refuse: recorded under a key of these steps, so that the pages say why instead of waiting.
+    const refused = { inputHash: sha256Hex(`refused\n${source}`), caseCount: await envelopeCaseCount(caseId, database) };
+    await recordProgress(caseId, refused.inputHash, { phase: "failed", problem: error.message, casesTotal: refused.caseCount });
+    await rememberInput(caseId, source, refused, database);
+    return;
+  }
+  const { file, sections, inputHash, caseCount } = checked;
+  // Known from now on: pages find the input and show how far its sweep has got.
+  await db.insert(resultProgress).values({ caseId, inputHash, engineVersion: ENGINE_VERSION, casesTotal: caseCount }).onConflictDoNothing();
+  await rememberInput(caseId, source, { inputHash, caseCount }, database);
+  try {
+    await resultsFor(caseId, file, null, sections, { recordProgress: true, database });
   } catch (error) {
     // The engine's refusal is the input's, not the worker's: recorded for the pages to say, not retried.
     if (!(error instanceof DomainError)) throw error;
-    const parsed = parseOrThrow(file);
-    const inputHash = analysisInputHash(parsed, parseSectionsOrThrow(buildSectionsFile(inputs), parsed));
-    await recordProgress(caseId, inputHash, { phase: "failed", problem: error.message, casesTotal: parsed.cases.length });
-    await rememberInput(caseId, source, { inputHash, caseCount: parsed.cases.length }, database);
+    await recordProgress(caseId, inputHash, { phase: "failed", problem: error.message, casesTotal: caseCount });
   }
 }
 

@@ -10,6 +10,7 @@ import type { Actor } from "~/domain/people";
 import { DomainError, problemsMessage } from "~/domain/errors";
 import { runEngine } from "./engine.server";
 import { lineProblem } from "~/utils/text";
+import { queueCaseResults } from "./results-queue.server";
 
 
 /** Refusal of an import: every problem found, each with its path in the exchange document. */
@@ -152,7 +153,7 @@ export async function importCase(input: { organisationId: string; programmeId: s
   const title = (input.title ?? checked.file.title ?? input.reference).trim();
   const titleProblem = lineProblem(title);
   if (titleProblem) throw importRefused([{ path: input.title === undefined ? "case.title" : "title", message: titleProblem }]);
-  return database.transaction(async (tx) => {
+  const imported = await database.transaction(async (tx) => {
     const [programme] = await tx
       .select()
       .from(programmes)
@@ -185,4 +186,7 @@ export async function importCase(input: { organisationId: string; programmeId: s
     }
     return row!;
   });
+  // As after a save: a large case's results are built and solved by the worker from the start.
+  if (database === db) await queueCaseResults(imported.id);
+  return imported;
 }

@@ -5,6 +5,7 @@ import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
 import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
 import { STEP_SCHEMAS, type DistributionData, type EnvelopeData } from "~/domain/step-data";
+import { queueCaseResults } from "./results-queue.server";
 import { voidApprovalsAfterEdit } from "./review.server";
 import type { Actor } from "~/domain/people";
 import type { UnitSystem } from "~/domain/units";
@@ -162,7 +163,7 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
   const parsed = STEP_SCHEMAS[input.step].safeParse(input.data);
   if (!parsed.success) throw new DomainError(parsed.error.issues[0]?.message ?? "The step's data are not valid", { field: parsed.error.issues[0]?.path.join(".") });
   const data = parsed.data as Record<string, unknown>;
-  return database.transaction(async (tx) => {
+  const saved = await database.transaction(async (tx) => {
     await tx.insert(caseSteps).values({ caseId: input.caseId, step: input.step }).onConflictDoNothing();
     const [current] = await tx
       .select({ row: caseSteps, updatedByName: users.name })
@@ -200,6 +201,10 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
     });
     return { revision, hash, unchanged: false as const };
   });
+  // Committed: the worker builds and solves a large case's new results now, not the first page that shows them.
+  // A caller's own transaction has not committed yet: it queues them itself.
+  if (!saved.unchanged && database === db) await queueCaseResults(input.caseId);
+  return saved;
 }
 
 /**

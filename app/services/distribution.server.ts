@@ -10,7 +10,8 @@ import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
-import { currentDistributionInput, currentInputKey, currentInputWith, parseOrThrow, queueResults, resultsFor, storedInputWith, SWEEP_THRESHOLD } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, currentInputWith, inputInPreparation, parseOrThrow, queueResults, resultsFor, storedInputIds, storedInputWith } from "./analysis.server";
+import { SWEEP_THRESHOLD } from "./results-queue.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
 
@@ -216,9 +217,11 @@ export async function distributionPage(input: { caseId: string; title: string; u
   try {
     // The input's hash from the steps' digest: the case file is built here only when no process has built it for these steps.
     const key = await currentInputKey(input.caseId, input.title, "envelope");
+    // A large case's input is being built by the job worker: nothing to read yet.
+    if (key.inputHash === null) return { state: "pending" as const, cases: key.caseCount, progress: null };
     const stored = await storedFlags(input.caseId, key.inputHash, input.units);
     if (!stored) {
-      const progress = await queueResults(input.caseId, key, "envelope");
+      const progress = await queueResults(input.caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
       return { state: "pending" as const, cases: key.caseCount, progress };
     }
@@ -235,7 +238,7 @@ export async function distributionPage(input: { caseId: string; title: string; u
 /** The flagged cases of the stored result, or a refusal that says they are still being computed. */
 async function currentFlags(caseId: string, title: string, units: UnitSystem): Promise<CaseFlag[]> {
   const { inputHash } = await currentInputKey(caseId, title, "envelope");
-  const stored = await storedFlags(caseId, inputHash, units);
+  const stored = inputHash === null ? null : await storedFlags(caseId, inputHash, units);
   if (!stored) throw new DomainError("The results of this case file are still being computed: the flagged cases are known once they are stored.", { field: "results", kind: "conflict" });
   return stored.flags;
 }
@@ -260,16 +263,19 @@ export type FlagWindow = Awaited<ReturnType<typeof flagWindow>>;
  */
 export async function searchLoadCases(input: { caseId: string; title: string; units: UnitSystem; text: string }) {
   const text = input.text.trim().toLowerCase();
-  const analysis = await currentDistributionInput(input.caseId, input.title);
-  const stored = await storedFlags(input.caseId, analysis.inputHash, input.units);
+  const { inputHash } = await currentInputKey(input.caseId, input.title, "envelope");
+  if (inputHash === null) throw inputInPreparation();
+  // The ids of the stored result's input (read once per input); a small case not yet solved builds its input.
+  const ids = (await storedInputIds(input.caseId, inputHash)) ?? (await currentDistributionInput(input.caseId, input.title)).parsed.cases.map((c) => c.id);
+  const stored = await storedFlags(input.caseId, inputHash, input.units);
   const flagged = new Set(stored?.flags.map((f) => f.id));
   const starts: string[] = [];
   const contains: string[] = [];
-  for (const c of analysis.parsed.cases) {
-    const at = c.id.toLowerCase().indexOf(text);
+  for (const id of ids) {
+    const at = id.toLowerCase().indexOf(text);
     // One more than is shown, to know that more match.
-    if (at === 0) starts.push(c.id);
-    else if (at > 0 && contains.length <= MAX_SUGGESTIONS) contains.push(c.id);
+    if (at === 0) starts.push(id);
+    else if (at > 0 && contains.length <= MAX_SUGGESTIONS) contains.push(id);
     if (starts.length > MAX_SUGGESTIONS) break;
   }
   const all = [...starts, ...contains];
@@ -320,21 +326,26 @@ export async function submissionBlockers(organisationId: string, caseId: string,
   return dispositionBlockers(caseId, row.case.title);
 }
 
+const STILL_COMPUTING = "The results of this case file are still being computed: submit once the distribution page shows its flagged cases.";
+
 /**
  * Flagged cases without a disposition keep the distribution step from being submitted: the reasons,
  * or none. A sweep small enough to solve here is solved (and stored) if it is not yet; a larger one waits for the worker.
  */
 export async function dispositionBlockers(caseId: string, title: string): Promise<string[]> {
   try {
-    const analysis = await currentDistributionInput(caseId, title);
-    let stored = await storedFlags(caseId, analysis.inputHash, "SI");
-    if (!stored && analysis.parsed.cases.length <= SWEEP_THRESHOLD) {
+    // The input's key from the steps' digest: a large case's file is neither built nor checked here.
+    const key = await currentInputKey(caseId, title, "envelope");
+    if (key.inputHash === null) return [STILL_COMPUTING];
+    let stored = await storedFlags(caseId, key.inputHash, "SI");
+    if (!stored && key.caseCount <= SWEEP_THRESHOLD) {
+      const analysis = await currentDistributionInput(caseId, title);
       await resultsFor(caseId, analysis.file, null, analysis.sections);
-      stored = await storedFlags(caseId, analysis.inputHash, "SI");
+      stored = await storedFlags(caseId, key.inputHash, "SI");
     }
     if (!stored) {
-      const progress = await queueResults(caseId, { inputHash: analysis.inputHash, caseCount: analysis.parsed.cases.length }, "envelope");
-      return [progress?.phase === "failed" && progress.problem ? progress.problem : "The results of this case file are still being computed: submit once the distribution page shows its flagged cases."];
+      const progress = await queueResults(caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
+      return [progress?.phase === "failed" && progress.problem ? progress.problem : STILL_COMPUTING];
     }
     const { dispositions } = await storedDistribution(caseId);
     const { open, openIds } = summaryOf(stored.flags, dispositions);

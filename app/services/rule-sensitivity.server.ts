@@ -28,6 +28,8 @@ const keyOf = (caseId: string, inputHash: string) => and(eq(ruleSensitivities.ca
  */
 export async function caseRuleSensitivity(input: { caseId: string; title: string }): Promise<CaseSensitivityAnswer> {
   const [units, { inputHash }] = await Promise.all([getCaseUnits(input.caseId), currentInputKey(input.caseId, input.title, "envelope")]);
+  // A large case's input is still being built by the worker: its results come first, as below.
+  if (inputHash === null) return { units, state: "pending", progress: { phase: "results", done: 0, total: 0, sweep: null } };
   await db.insert(ruleSensitivities).values({ caseId: input.caseId, inputHash, engineVersion: ENGINE_VERSION }).onConflictDoNothing();
   const [row] = await db.select().from(ruleSensitivities).where(keyOf(input.caseId, inputHash));
   if (!row) throw new DomainError("Case not found.", { field: "caseId", kind: "not-found" });

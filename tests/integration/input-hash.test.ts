@@ -1,13 +1,14 @@
 import fs from "node:fs";
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { caseSteps, programmes, users } from "~/db/schema";
 import type { EnvelopeData } from "~/domain/step-data";
 import * as exchange from "~/exchange";
 import type { CaseFileInput, CaseResult } from "~/exchange";
-import { stopBoss } from "~/jobs/boss.server";
+import { QUEUES, stopBoss } from "~/jobs/boss.server";
 import { loader as viewLoader } from "~/routes/api/case-distribution";
+import { loader as searchLoader } from "~/routes/api/case-load-case-search";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
@@ -15,6 +16,7 @@ import { loader as pageLoader } from "~/routes/cases/distribution";
 import { computeQueuedResults, currentAnalysisInput, forgetDerivedForTests } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { saveStep } from "~/services/case-steps.server";
+import { dispositionBlockers } from "~/services/distribution.server";
 import * as masses from "~/services/masses.server";
 import { cookieFor, demoUser, request, routeArgs, run, seed } from "./helpers";
 
@@ -100,6 +102,20 @@ describe("a web process that has built nothing finds a large case's stored resul
     expect(view.inputHash).toBe(input.inputHash);
   }, 120_000);
 
+  it("answers the load-case search and the distribution step's submission check without building or checking the case file", async () => {
+    forgetDerivedForTests();
+    const [checksBefore, built] = [checks(), builds()];
+    const search = await get(searchLoader, `/api/cases/${caseId}/load-case-search?q=H29`);
+    expect(search.status).toBe(200);
+    // Ids beginning with the text, in the file's order: H29, then H290…H299, H2900…
+    expect(((await search.json()) as { matches: { id: string }[] }).matches.slice(0, 2).map((m) => m.id)).toEqual(["H29", "H290"]);
+    const blockers = await dispositionBlockers(caseId, TITLE);
+    expect(blockers.every((b) => !b.includes("still being computed"))).toBe(true);
+    // Before: the search built the whole file and checked its 3 000 cases, and the check took it from the search (checks [3000]).
+    expect(checked(checksBefore)).toEqual([]);
+    expect(builds() - built).toBe(0);
+  }, 120_000);
+
   it("never answers an old result: after a step is saved the page waits for the new input's sweep", async () => {
     const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
     const data = structuredClone(row!.data) as unknown as EnvelopeData;
@@ -113,4 +129,53 @@ describe("a web process that has built nothing finds a large case's stored resul
     const results = await get(resultsLoader, `/api/v1/cases/${caseId}/results`);
     expect(results.status).toBe(202);
   }, 120_000);
+
+  it("queues the worker at import and at every save: until it has built the input no reader builds or checks the file, then each reads what it stored", async () => {
+    const base = JSON.parse(fs.readFileSync("docs/examples/kf60-tern-wing.json", "utf8")) as CaseFileInput;
+    const n = 800;
+    const sweep: CaseFileInput = { ...base, cases: Array.from({ length: n }, (_, i) => ({ id: `Q${i + 1}`, mach: 0.3 + 0.05 * (i % 9), altitude: 1000 * (i % 5), weight: 60000, nz: -1 + (i % 45) / 10 })) };
+    const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+    const title = "Queued at save";
+    const id = (await importCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "QUEUED-800", title, document: sweep, actor })).id;
+    const waiting = async () =>
+      (await db.execute<{ scope: string }>(sql`select data ->> 'scope' as scope from pgboss.job where name = ${QUEUES.computeResults} and data ->> 'caseId' = ${id} and state = 'created' order by 1`)).rows.map((r) => r.scope);
+    // Before: nothing was queued until a page asked, and that page built and checked the whole file first.
+    expect(await waiting()).toEqual(["envelope", "final"]);
+
+    forgetDerivedForTests();
+    const [checksBefore, built] = [checks(), builds()];
+    const page = (await run(pageLoader, { request: request(`/cases/${id}/distribution`, { cookie }), params: { caseId: id } })).body as { page: { state: string; cases?: number; progress?: unknown } };
+    expect(page.page).toEqual({ state: "pending", cases: n, progress: null });
+    const of = async (loader: (args: never) => unknown, path: string) => (await loader((await routeArgs(request(path, { cookie }), { caseId: id })) as never)) as Response;
+    expect((await of(loadsLoader, `/api/cases/${id}/loads`)).status).toBe(202);
+    expect((await of(resultsLoader, `/api/v1/cases/${id}/results`)).status).toBe(202);
+    expect((await of(searchLoader, `/api/cases/${id}/load-case-search?q=Q12`)).status).toBe(409);
+    expect(await dispositionBlockers(id, title)).toEqual([expect.stringContaining("still being computed")]);
+    expect(checks() - checksBefore).toBe(0);
+    expect(builds() - built).toBe(0);
+
+    // The worker's jobs, as it runs them; then a fresh process reads what they stored.
+    await computeQueuedResults(id, db, "envelope");
+    await computeQueuedResults(id, db, "final");
+    await db.execute(sql`delete from pgboss.job where data ->> 'caseId' = ${id}`);
+    forgetDerivedForTests();
+    const [checksAfter, builtAfter] = [checks(), builds()];
+    const ready = (await run(pageLoader, { request: request(`/cases/${id}/distribution`, { cookie }), params: { caseId: id } })).body as { page: { state: string; cases?: number } };
+    expect(ready.page).toMatchObject({ state: "ready", cases: n });
+    const search = await of(searchLoader, `/api/cases/${id}/load-case-search?q=Q12`);
+    expect(search.status).toBe(200);
+    const found = ((await search.json()) as { matches: { id: string }[] }).matches.map((m) => m.id);
+    // Ids beginning with the text first, in the file's order (Q12, Q120…Q129), then those holding it elsewhere (none here).
+    expect(found.slice(0, 3)).toEqual(["Q12", "Q120", "Q121"]);
+    expect((await dispositionBlockers(id, title)).every((b) => !b.includes("still being computed"))).toBe(true);
+    expect(checks() - checksAfter).toBe(0);
+    expect(builds() - builtAfter).toBe(0);
+
+    // A save queues the new steps' results again.
+    const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, id), eq(caseSteps.step, "envelope")));
+    const data = structuredClone(row!.data) as unknown as EnvelopeData;
+    data.cases[1]!.nz = 1.3;
+    await saveStep({ caseId: id, step: "envelope", baseRevision: row!.revision, data: data as unknown as Record<string, unknown>, actor });
+    expect(await waiting()).toEqual(["envelope", "final"]);
+  }, 300_000);
 });

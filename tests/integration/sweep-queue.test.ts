@@ -7,7 +7,7 @@ import { parseCase, runCase, type CaseFileInput } from "~/exchange";
 import { boss, QUEUES, stopBoss } from "~/jobs/boss.server";
 import { startWorkers } from "~/jobs/workers.server";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
-import { analysisInputHash, exportCase, sweepProgress } from "~/services/analysis.server";
+import { analysisInputHash, currentAnalysisInput, exportCase, sweepProgress } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
 
@@ -44,12 +44,15 @@ describe("large sweeps go through the job queue", () => {
     expect(first.status).toBe(202);
     const waiting = (await first.json()) as { status: string; message: string; progress: { phase: string; casesTotal: number } };
     expect(waiting.status).toBe("computing");
-    // Before a worker takes it, the answer says so and how many cases there are.
-    expect(waiting.progress).toEqual({ phase: "queued", solves: 0, casesDone: 0, casesTotal: 600 });
+    // Queued at import (one job for each of the two inputs), before a worker has built the case file: the answer says so and how many cases there are.
+    expect(waiting.progress).toBeNull();
     expect(waiting.message).toBe("600 load cases wait for a background worker. Ask again in a moment.");
-    // Asked again and again while it waits (the page polls): one waiting job for the input, not one per ask.
+    // Asked again and again while it waits (the page polls): no job more.
     for (let i = 0; i < 3; i++) expect((await ask()).status).toBe(202);
-    expect(await (await boss()).getQueueSize(QUEUES.computeResults)).toBe(1);
+    expect(await (await boss()).getQueueSize(QUEUES.computeResults)).toBe(2);
+    // Once a process has built the input (as the worker does first), the answer names its sweep's progress.
+    await currentAnalysisInput(caseId, "Sweep");
+    expect(((await (await ask()).json()) as { progress: unknown }).progress).toEqual({ phase: "queued", solves: 0, casesDone: 0, casesTotal: 600 });
     // As a worker records its progress, every web process answers with it (set here as a worker would).
     await db.update(resultProgress).set({ phase: "cases", solves: 6, casesDone: 300 }).where(eq(resultProgress.caseId, caseId));
     const halfway = (await (await ask()).json()) as { message: string; progress: unknown };
