@@ -1,6 +1,6 @@
 import { promisify } from "node:util";
 import zlib from "node:zlib";
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, notInArray, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
@@ -424,8 +424,27 @@ function buildInput(title: string, inputs: CaseInputs, scope: InputScope): Analy
 const sourceOf = (scope: InputScope, title: string, digest: string) => sha256Hex(`${scope}\n${title}\n${digest}`);
 
 /** Records which input these steps make (once; the same steps always make the same input under one engine version). */
-async function rememberInput(caseId: string, source: string, key: InputKey, database: Db | Tx = db): Promise<void> {
-  await database.insert(resultInputs).values({ caseId, source, engineVersion: ENGINE_VERSION, ...key }).onConflictDoNothing();
+async function rememberInput(caseId: string, title: string, source: string, key: InputKey, database: Db | Tx = db): Promise<void> {
+  const [added] = await database.insert(resultInputs).values({ caseId, source, engineVersion: ENGINE_VERSION, ...key }).onConflictDoNothing().returning({ source: resultInputs.source });
+  if (added) await pruneInputs(caseId, title, database);
+}
+
+/**
+ * Drops the case's records of inputs nothing can ask for again: those of steps the case no longer
+ * holds (of either scope) whose result is not stored. A record of a stored result is kept (steps
+ * put back as they were, as a report's revision, find it again without a build); so are the
+ * current steps' records, whether solved, being solved or refused.
+ */
+async function pruneInputs(caseId: string, title: string, database: Db | Tx = db): Promise<void> {
+  const scopes: InputScope[] = ["envelope", "final"];
+  const current = await Promise.all(scopes.map(async (scope) => sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope]))));
+  await database.delete(resultInputs).where(
+    and(
+      eq(resultInputs.caseId, caseId),
+      notInArray(resultInputs.source, current),
+      sql`not exists (select 1 from ${caseResults} where ${caseResults.caseId} = ${resultInputs.caseId} and ${caseResults.inputHash} = ${resultInputs.inputHash} and ${caseResults.engineVersion} = ${resultInputs.engineVersion})`,
+    ),
+  );
 }
 
 /** An input's hash and its number of load cases: enough to find its stored result and to say how far its sweep has got. */
@@ -487,7 +506,7 @@ export function inputInPreparation(): DomainError {
 function currentInput(caseId: string, title: string, scope: InputScope): Promise<AnalysisInput> {
   return fromCurrentSteps(`${scope}-input`, caseId, title, (inputs) => buildInput(title, inputs, scope), {
     without: UNREAD[scope],
-    onDerived: (input, digest) => rememberInput(caseId, sourceOf(scope, title, digest), { inputHash: input.inputHash, caseCount: input.parsed.cases.length }),
+    onDerived: (input, digest) => rememberInput(caseId, title, sourceOf(scope, title, digest), { inputHash: input.inputHash, caseCount: input.parsed.cases.length }),
   });
 }
 
@@ -640,13 +659,13 @@ export async function computeQueuedResults(caseId: string, database: Db | Tx = d
     // Steps missing, or a file its checks refuse: recorded under a key of these steps, so that the pages say why instead of waiting.
     const refused = { inputHash: sha256Hex(`refused\n${source}`), caseCount: await envelopeCaseCount(caseId, database) };
     await recordProgress(caseId, refused.inputHash, { phase: "failed", problem: error.message, casesTotal: refused.caseCount });
-    await rememberInput(caseId, source, refused, database);
+    await rememberInput(caseId, row.title, source, refused, database);
     return;
   }
   const { file, sections, inputHash, caseCount } = checked;
   // Known from now on: pages find the input and show how far its sweep has got.
   await db.insert(resultProgress).values({ caseId, inputHash, engineVersion: ENGINE_VERSION, casesTotal: caseCount }).onConflictDoNothing();
-  await rememberInput(caseId, source, { inputHash, caseCount }, database);
+  await rememberInput(caseId, row.title, source, { inputHash, caseCount }, database);
   try {
     await resultsFor(caseId, file, null, sections, { recordProgress: true, database });
   } catch (error) {

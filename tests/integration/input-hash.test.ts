@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { caseSteps, programmes, users } from "~/db/schema";
+import { cases, caseSteps, programmes, resultInputs, users } from "~/db/schema";
 import type { EnvelopeData } from "~/domain/step-data";
 import * as exchange from "~/exchange";
 import type { CaseFileInput, CaseResult } from "~/exchange";
@@ -13,7 +13,7 @@ import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/distribution";
-import { computeQueuedResults, currentAnalysisInput, forgetDerivedForTests } from "~/services/analysis.server";
+import { computeQueuedResults, currentAnalysisInput, currentResultsOrQueue, forgetDerivedForTests } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { saveStep } from "~/services/case-steps.server";
 import { dispositionBlockers } from "~/services/distribution.server";
@@ -178,4 +178,27 @@ describe("a web process that has built nothing finds a large case's stored resul
     await saveStep({ caseId: id, step: "envelope", baseRevision: row!.revision, data: data as unknown as Record<string, unknown>, actor });
     expect(await waiting()).toEqual(["envelope", "final"]);
   }, 300_000);
+
+  it("keeps the record of an input while the case's steps make it or its result is stored, and drops the others", async () => {
+    const [demo] = await db.select({ id: cases.id, title: cases.title }).from(cases).where(eq(cases.reference, "TN-WL-001"));
+    const recorded = async () => (await db.select({ inputHash: resultInputs.inputHash }).from(resultInputs).where(eq(resultInputs.caseId, demo!.id))).map((r) => r.inputHash).sort();
+    // A change of one load case's altitude: a new input.
+    const saveAltitude = async (altitude: number) => {
+      const [row] = await db.select().from(caseSteps).where(and(eq(caseSteps.caseId, demo!.id), eq(caseSteps.step, "envelope")));
+      const data = structuredClone(row!.data) as unknown as EnvelopeData;
+      data.cases[0]!.altitude = altitude;
+      await saveStep({ caseId: demo!.id, step: "envelope", baseRevision: row!.revision, data: data as unknown as Record<string, unknown>, actor });
+    };
+    // Solved and stored (the demo's 228 cases are solved within the request).
+    const solved = await currentResultsOrQueue(demo!.id, demo!.title, null);
+    if (solved.pending) throw new Error("the demo case was handed to the worker");
+    // Built (as a page or the export builds it), never solved, then the steps move on twice.
+    await saveAltitude(1234);
+    const unsolved = (await currentAnalysisInput(demo!.id, demo!.title)).inputHash;
+    await saveAltitude(2345);
+    const now = (await currentAnalysisInput(demo!.id, demo!.title)).inputHash;
+    expect(new Set([solved.inputHash, unsolved, now]).size).toBe(3);
+    // Before: every input ever built stayed recorded ([solved, unsolved, now]).
+    expect(await recorded()).toEqual([solved.inputHash, now].sort());
+  }, 120_000);
 });
