@@ -183,9 +183,10 @@ export function spanwiseComparison(input: CaseFileInput, caseId: string, section
  * @throws DomainError (not-found) for a load case the envelope step does not include
  */
 export async function caseSpanwiseComparison(input: { caseId: string; title: string; loadCase: string }): Promise<{ units: UnitSystem; comparison: SpanwiseComparison }> {
-  const [units, { file }] = await Promise.all([getCaseUnits(input.caseId), currentInputWith(input.caseId, input.title, "envelope", [input.loadCase])]);
+  const [units, { file, sections }] = await Promise.all([getCaseUnits(input.caseId), currentInputWith(input.caseId, input.title, "envelope", [input.loadCase])]);
   // The one case taken out of the input (as stored with its result, else as built) and checked alone, not a large case file whole.
   const lc = file.cases.find((k) => k.id === input.loadCase);
   if (!lc) throw new DomainError(`No load case "${input.loadCase}" in this case.`, { field: "case", kind: "not-found" });
-  return { units, comparison: spanwiseComparison({ ...file, cases: [lc] }, input.loadCase) };
+  // With the case's richer section data, as its own results are solved.
+  return { units, comparison: spanwiseComparison({ ...file, cases: [lc] }, input.loadCase, sections) };
 }
