@@ -125,6 +125,16 @@ describe("analyze CLI", { timeout: 120_000 }, () => {
     expect(run(["--quiet", "-"], JSON.stringify(sweep)).stderr).toBe("");
   });
 
+  it("reads and writes text beyond ASCII as UTF-8, from a file and from stdin", () => {
+    const named = { ...structuredClone(doc), title: "Flügel — ±", cases: [{ ...doc.cases[0], id: "Vₐ böe \u2028" }] };
+    const file = join(dir, "named.json");
+    writeFileSync(file, JSON.stringify(named));
+    for (const r of [run([file]), run(["-"], JSON.stringify(named))]) {
+      expect(r.status).toBe(0);
+      expect(JSON.parse(r.stdout).cases[0].id).toBe("Vₐ böe \u2028");
+    }
+  });
+
   it("fails clearly for a missing file and for invalid JSON", () => {
     const m = run([join(dir, "nope.json")]);
     expect(m.status).not.toBe(0);

@@ -1,3 +1,4 @@
+import { isAscii } from "node:buffer";
 import { readFileSync } from "node:fs";
 import { isEngineError } from "../engine/errors";
 import { parseCase } from "../exchange/parse";
@@ -21,7 +22,9 @@ function fail(status: number, lines: string[]): never {
 function readJson(src: string): unknown {
   let text: string;
   try {
-    text = readFileSync(src === "-" ? 0 : src, "utf8");
+    const bytes = readFileSync(src === "-" ? 0 : src);
+    // ASCII (every sweep we have seen) reads as Latin-1 byte for byte, without decoding UTF-8: the same text.
+    text = bytes.toString(isAscii(bytes) ? "latin1" : "utf8");
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
     fail(66, [code === "ENOENT" ? `cannot read ${src}: no such file` : `cannot read ${src}: ${(e as Error).message}`]);
