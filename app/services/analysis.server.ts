@@ -136,6 +136,20 @@ export function buildSectionsFile(inputs: Pick<CaseInputs, "planform" | "section
   return out.length ? { schema: SECTIONS_SCHEMA_ID, sections: out } : undefined;
 }
 
+/**
+ * How many cases go into the analysis (as analysedCases), counted by PostgreSQL in the stored steps;
+ * null when the envelope holds no cases.
+ */
+export async function analysedCaseCount(caseId: string): Promise<number | null> {
+  const found = await db.execute<{ n: number }>(sql`
+    select (select count(*)::int from jsonb_array_elements(e.data -> 'cases') as c(v)
+        where coalesce((c.v ->> 'excluded')::boolean, false) = false
+          and coalesce(d.data -> 'dispositions' -> (c.v ->> 'id') ->> 'action', '') <> 'exclude') as n
+    from case_steps e left join case_steps d on d.case_id = e.case_id and d.step = 'distribution'
+    where e.case_id = ${caseId} and e.step = 'envelope' and jsonb_typeof(e.data -> 'cases') = 'array'`);
+  return found.rows[0]?.n ?? null;
+}
+
 /** Which cases go into the analysis: those not excluded in the envelope, nor by a disposition. */
 export function analysedCases(envelope: EnvelopeData, distribution: DistributionData | null) {
   return envelope.cases.filter((c) => !c.excluded && distribution?.dispositions[c.id]?.action !== "exclude");

@@ -1,7 +1,7 @@
 import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
-import { analysedCases, fromCurrentSteps, parseOrThrow, type CaseInputs } from "./analysis.server";
+import { analysedCaseCount, fromCurrentSteps, parseOrThrow, storedInputKey, type CaseInputs } from "./analysis.server";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { balanceRows, effectiveMasses } from "./masses.server";
 
@@ -60,15 +60,26 @@ export type LoadsPageInfo = ReturnType<typeof loadsPageInfo>;
 
 /**
  * What the loads page's document shows of the case's stored steps: units, the engineer's notes, how
- * many cases are analysed, the axis convention. Derived once per content of the steps (no validation
- * of every step's data per page); read afresh from the database's digest each time.
+ * many cases are analysed, the axis convention. The small steps are derived once per content (no
+ * validation per page); the count of analysed cases comes from the recorded input of the current
+ * steps (else PostgreSQL counts them): the envelope's load cases are neither sent nor checked.
  */
-export function loadsPageView(caseId: string, title: string) {
-  return fromCurrentSteps("loads-page", caseId, title, (inputs) => ({
-    units: inputs.basis?.units ?? "SI",
-    notes: inputs.loads?.notes ?? "",
-    caseCount: inputs.envelope ? analysedCases(inputs.envelope, inputs.distribution).length : 0,
-    ready: Boolean(inputs.planform && inputs.sections && inputs.envelope),
-    axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
-  }));
+export async function loadsPageView(caseId: string, title: string) {
+  const [shown, known] = await Promise.all([
+    fromCurrentSteps(
+      "loads-page",
+      caseId,
+      title,
+      (inputs) => ({
+        units: inputs.basis?.units ?? "SI",
+        notes: inputs.loads?.notes ?? "",
+        wing: Boolean(inputs.planform && inputs.sections),
+        axisConvention: inputs.planform ? axisConvention(referenceAxisOf(inputs.planform)) : null,
+      }),
+      { without: ["masses", "envelope", "distribution"] },
+    ),
+    storedInputKey(caseId, title, "final"),
+  ]);
+  const caseCount = known?.caseCount ?? (await analysedCaseCount(caseId));
+  return { units: shown.units, notes: shown.notes, caseCount: caseCount ?? 0, ready: shown.wing && caseCount !== null, axisConvention: shown.axisConvention };
 }

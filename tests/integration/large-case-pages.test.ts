@@ -4,6 +4,7 @@ import { db } from "~/db/client.server";
 import { caseSteps } from "~/db/schema";
 import { loader as basisLoader } from "~/routes/cases/basis";
 import { loader as envelopeLoader } from "~/routes/cases/envelope";
+import { loader as loadsLoader } from "~/routes/cases/loads";
 import { loader as massesLoader } from "~/routes/cases/masses";
 import { loader as planformLoader } from "~/routes/cases/planform";
 import { loader as sectionsLoader } from "~/routes/cases/sections";
@@ -38,7 +39,7 @@ beforeAll(async () => {
 /** Queries that read or compute from the envelope step's stored data (its count, its rows, a hash of its text), as sent. */
 const envelopeDataQueries = (sent: string[]) => sent.filter((text) => text.includes("case_steps") && text.includes("'envelope'") && /"data"|\bdata\b/.test(text));
 
-const pages = { basis: basisLoader, planform: planformLoader, sections: sectionsLoader, masses: massesLoader, envelope: envelopeLoader } as const;
+const pages = { basis: basisLoader, planform: planformLoader, sections: sectionsLoader, masses: massesLoader, envelope: envelopeLoader, loads: loadsLoader } as const;
 
 describe("the pages of a case with a large envelope", () => {
   for (const [name, loader] of Object.entries(pages)) {
@@ -63,6 +64,17 @@ describe("the pages of a case with a large envelope", () => {
     expect(body.window!.total).toBe(CASES);
     expect(body.window!.rows.map((r) => r.id)).toEqual(data.cases.slice(0, body.window!.rows.length).map((c) => c.id));
     expect(body.window!.rows.length).toBeGreaterThan(0);
+  });
+
+  it("the loads page counts the analysed cases as stored, without reading them", async () => {
+    const page = await run(loadsLoader as never, { request: request(`/cases/${caseId}/loads`, { cookie }), params: { caseId } });
+    const [stored] = await db.select({ data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+    const [distribution] = await db.select({ data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution")));
+    const dispositions = ((distribution?.data as { dispositions?: Record<string, { action: string }> } | undefined)?.dispositions ?? {}) as Record<string, { action: string }>;
+    // Analysed: not excluded in the envelope, nor by a disposition "exclude".
+    const analysed = (stored!.data as { cases: { id: string; excluded?: boolean }[] }).cases.filter((c) => !c.excluded && dispositions[c.id]?.action !== "exclude").length;
+    expect((page.body as { caseCount: number; ready: boolean }).caseCount).toBe(analysed);
+    expect((page.body as { ready: boolean }).ready).toBe(true);
   });
 
   for (const name of ["basis", "envelope"] as const) {
