@@ -164,6 +164,8 @@ interface Run {
   p975: number;
   errors: number;
   non2xx: number;
+  /** Of non2xx, the 503 "busy" answers the analysis route gives by design beyond its places (ANALYZE_LIMITS.inFlightPerProcess). */
+  busy: number;
   rss: { start: number; end: number; max: number };
   /** CPU time of the processes that serve (the app's web processes, the peer's whole tree) per request, ms. */
   cpu: number;
@@ -217,10 +219,11 @@ async function load(name: string, kind: Run["kind"], pid: number, opts: { path: 
     p975: percentile(times, 97.5),
     errors: result.errors + result.timeouts,
     non2xx: result.non2xx,
+    busy: (result.statusCodeStats as Record<string, { count: number }> | undefined)?.["503"]?.count ?? 0,
     rss: { start: samples[0]!, end: samples[samples.length - 1]!, max: Math.max(...samples) },
     cpu,
   };
-  say(`${name}: ${run.rps.toFixed(0)} req/s, p50 ${run.p50.toFixed(1)} ms, p95 ${run.p95.toFixed(1)} ms, p99 ${run.p99.toFixed(1)} ms, errors ${run.errors}, non-2xx ${run.non2xx}, CPU ${run.cpu.toFixed(2)} ms/request, RSS ${run.rss.start.toFixed(0)}→${run.rss.end.toFixed(0)} MiB (max ${run.rss.max.toFixed(0)})`);
+  say(`${name}: ${run.rps.toFixed(0)} req/s, p50 ${run.p50.toFixed(1)} ms, p95 ${run.p95.toFixed(1)} ms, p99 ${run.p99.toFixed(1)} ms, errors ${run.errors}, non-2xx ${run.non2xx} (503 busy ${run.busy}), CPU ${run.cpu.toFixed(2)} ms/request, RSS ${run.rss.start.toFixed(0)}→${run.rss.end.toFixed(0)} MiB (max ${run.rss.max.toFixed(0)})`);
   return run;
 }
 
@@ -328,17 +331,18 @@ function writeSection(runs: Run[], overall: { start: number; end: number; max: n
   out(`Machine: ${cpu[0]?.model ?? "unknown"} × ${cpu.length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version};`);
   out(`the load generator and the app share the two cores. App start-up to a healthy /healthz: ${startupS.toFixed(1)} s.`);
   out();
-  out("| route | one at a time (ms) | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | CPU per request (ms) | errors | non-2xx | server RSS start → end (max), MiB |");
+  out("| route | one at a time (ms) | requests/s | requests | p50 (ms) | p95 (ms) | p99 (ms) | CPU per request (ms) | errors | non-2xx (of them 503 busy) | server RSS start → end (max), MiB |");
   out("|---|---|---|---|---|---|---|---|---|---|---|");
   for (const r of runs) {
-    out(`| ${r.name} | ${ms(r.alone)} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.cpu.toFixed(2)} | ${r.errors} | ${r.non2xx} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
+    out(`| ${r.name} | ${ms(r.alone)} | ${r.rps.toFixed(0)} | ${r.total} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.cpu.toFixed(2)} | ${r.errors} | ${r.non2xx}${r.busy ? ` (${r.busy})` : ""} | ${r.rss.start.toFixed(0)} → ${r.rss.end.toFixed(0)} (${r.rss.max.toFixed(0)}) |`);
   }
   out();
   const pages = runs.filter((r) => r.kind === "page");
   const slow = pages.filter((r) => r.p95 >= PAGE_P95_TARGET_MS);
-  const failing = runs.filter((r) => r.errors + r.non2xx > 0);
+  // A 503 "busy" with Retry-After is the analysis route's designed answer beyond its places, not a failure.
+  const failing = runs.filter((r) => r.errors + r.non2xx - (r.kind === "api" ? r.busy : 0) > 0);
   out(`- Pages p95 < ${PAGE_P95_TARGET_MS} ms: ${slow.length ? `**missed** by ${slow.map((r) => `${r.name} (${ms(r.p95)} ms)`).join(", ")}` : "**met**"}.`);
-  out(`- Zero errors: ${failing.length ? `**missed** (${failing.map((r) => `${r.name}: ${r.errors} errors, ${r.non2xx} non-2xx`).join("; ")})` : "**met** (no connection errors, time-outs or non-2xx answers)"}.`);
+  out(`- Zero errors: ${failing.length ? `**missed** (${failing.map((r) => `${r.name}: ${r.errors} errors, ${r.non2xx} non-2xx`).join("; ")})` : "**met** (no connection errors, time-outs or non-2xx answers)"}${runs.some((r) => r.busy) ? `; answered 503 "busy" with Retry-After at once, by design (ANALYZE_LIMITS.inFlightPerProcess places per web process): ${runs.filter((r) => r.busy).map((r) => `${r.name} ${r.busy} of ${r.total}`).join("; ")}` : ""}.`);
   // With every connection busy, a request waits for the ones ahead of it: latency ≈ connections / throughput.
   out(`- Queueing: with ${CONNECTIONS} connections always busy, p50 ≈ ${CONNECTIONS} / (requests/s) (${runs.map((r) => `${r.name}: ${(1000 * CONNECTIONS / r.rps).toFixed(0)} ms`).join("; ")}); a p95 under ${PAGE_P95_TARGET_MS} ms at this concurrency needs about ${Math.round((1000 * CONNECTIONS) / PAGE_P95_TARGET_MS)} requests/s, i.e. under ${(1000 / ((1000 * CONNECTIONS) / PAGE_P95_TARGET_MS) * os.cpus().length).toFixed(1)} ms of CPU per request over ${os.cpus().length} cores shared with the load generator.`);
   out(`- Load average when the load run started: ${startLoad}.`);
