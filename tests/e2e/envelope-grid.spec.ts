@@ -68,3 +68,25 @@ test("a save posted before the page's scripts ran, with only the rows the server
   const after = await exported(page, caseId);
   expect(after.cases).toEqual(before.cases);
 });
+
+// The rows of the long grid are drawn once the page answers input, not by the server nor while the
+// page hydrates (some 400 inputs that held back its first answer); then the window scrolls through every row.
+test("the long grid's rows are drawn once the page answers input, in a window of the height of every row", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string }[] };
+  const caseId = list.cases.find((c) => c.reference === "TN-WL-001")!.id;
+  const html = await (await page.request.get(`/cases/${caseId}/envelope`)).text();
+  expect(html).toContain('data-testid="cases-window"');
+  expect(html).not.toContain('id="cases-0-3"');
+
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  const cell = page.getByLabel("Altitude [m], row 1", { exact: true });
+  await expect(cell).toBeVisible();
+  await expect(page.getByTestId("cases-window")).not.toHaveAttribute("aria-busy", "true");
+  // Every row of the file has its height in the window (rows of at least 30 px).
+  const rows = (await exported(page, caseId)).cases.length;
+  expect(rows).toBeGreaterThan(100);
+  expect(await page.getByTestId("cases-window").evaluate((el) => el.scrollHeight)).toBeGreaterThan(rows * 30);
+});

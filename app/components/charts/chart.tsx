@@ -1,6 +1,7 @@
-import { lazy, Suspense, useEffect, useRef, useState } from "react";
+import { lazy, Suspense, useRef } from "react";
 import type ReactEChartsCore from "echarts-for-react/esm/core";
 import type { ChartOption } from "~/charts/theme";
+import { useAfterInteractive } from "~/components/ui/use-after-interactive";
 
 // ECharts needs a browser: the server renders a sized frame and the chart appears once the page
 // answers input, from a chunk of its own holding only the chart types and components the app draws.
@@ -47,23 +48,4 @@ export function Chart({ option, height = 320, label, fileName }: { option: Chart
       </figcaption>
     </figure>
   );
-}
-
-/**
- * False on the server, while the page hydrates and until the browser is next idle; true from then on.
- * Fetching, compiling and drawing the chart library takes the main thread for a while: a click or a
- * key pressed as the page appears is handled first.
- */
-function useAfterInteractive() {
-  const [ready, setReady] = useState(false);
-  useEffect(() => {
-    if (typeof window.requestIdleCallback !== "function") {
-      const timer = setTimeout(() => setReady(true), 0);
-      return () => clearTimeout(timer);
-    }
-    // At the latest after a second, on a page that is never idle.
-    const id = window.requestIdleCallback(() => setReady(true), { timeout: 1000 });
-    return () => window.cancelIdleCallback(id);
-  }, []);
-  return ready;
 }

@@ -2,6 +2,7 @@ import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "
 import { useVirtualizer } from "@tanstack/react-virtual";
 import { useRef, useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
 import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
+import { useAfterInteractive } from "~/components/ui/use-after-interactive";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
 export interface GridColumn {
@@ -32,7 +33,7 @@ interface Props<T extends FieldValues, O> {
 
 /** Above this many rows a grid with a count field shows the rows in view only; the page's scripts post the others from the form's state. */
 export const GRID_WINDOW_ROWS = 40;
-/** A row's height before it is measured (an input and its cell padding), and the window's height (h-[32rem]). */
+/** A row's height before it is measured (an input and its cell padding), and the window's height (h-[32rem]: more than 40 rows always fill it). */
 const ROW_PX = 33;
 const WINDOW_PX = 512;
 
@@ -73,8 +74,11 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
 
   const scroller = useRef<HTMLDivElement>(null);
   const windowed = props.countField !== undefined && fields.length > GRID_WINDOW_ROWS;
-  // The same first rows on the server and in the first render (initialRect), so hydration matches.
   const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed });
+  // A long grid's rows (some 400 inputs on the demo envelope) are drawn once the page answers input:
+  // the server and the hydrating page draw the window (its height and header) without rows, so no
+  // input a person could type into before then. A post sent before that carries no rows, and is refused.
+  const rowsDrawn = useAfterInteractive();
 
   const focusCell = (row: number, col: number, frames = 3) => {
     const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
@@ -181,15 +185,15 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
 
   const table = useReactTable({ data: fields as unknown as Record<string, unknown>[], columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
   const rows = table.getRowModel().rows;
-  const items = windowed ? virtualizer.getVirtualItems() : null;
+  const items = windowed ? (rowsDrawn ? virtualizer.getVirtualItems() : []) : null;
   const shown = items ? items.flatMap((i) => (rows[i.index] ? [{ row: rows[i.index]!, index: i.index }] : [])) : rows.map((row, index) => ({ row, index }));
   const padTop = items?.[0]?.start ?? 0;
-  const padBottom = items ? virtualizer.getTotalSize() - (items[items.length - 1]?.end ?? 0) : 0;
+  const padBottom = items?.length ? virtualizer.getTotalSize() - items[items.length - 1]!.end : 0;
 
   return (
     <div>
       {props.countField ? <input type="hidden" name={props.countField} value={fields.length} /> : null}
-      <div ref={scroller} className={`${windowed ? "max-h-[32rem] overflow-auto" : "overflow-x-auto"} rounded border border-line bg-surface`} data-testid={windowed ? `${props.name}-window` : undefined}>
+      <div ref={scroller} className={`${windowed ? "h-[32rem] overflow-auto" : "overflow-x-auto"} rounded border border-line bg-surface`} data-testid={windowed ? `${props.name}-window` : undefined} aria-busy={windowed && !rowsDrawn ? true : undefined}>
         <table className="w-full text-sm" aria-rowcount={windowed ? fields.length + 1 : undefined}>
           <caption className="sr-only">{props.caption}</caption>
           <thead className={`${windowed ? "sticky top-0 z-10 " : ""}border-b border-line bg-canvas text-xs text-ink-muted`}>
