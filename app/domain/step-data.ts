@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "./vocabulary";
 
 /**
  * What each step of a case stores, in SI units (m, kg, N, m/s EAS, degrees). These schemas are the
@@ -170,17 +171,6 @@ export const SectionsSchema = z
   });
 export type SectionsData = z.output<typeof SectionsSchema>;
 
-export const COMPRESSIBILITY_RULES = ["prandtl-glauert", "karman-tsien", "laitone"] as const;
-export const SPANWISE_METHODS = ["vortex-lattice", "lifting-line"] as const;
-export const RULE_LABELS: Record<(typeof COMPRESSIBILITY_RULES)[number], string> = {
-  "prandtl-glauert": "Prandtl–Glauert (Göthert for the wing)",
-  "karman-tsien": "Kármán–Tsien",
-  laitone: "Laitone",
-};
-export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> = {
-  "vortex-lattice": "Vortex lattice",
-  "lifting-line": "Lifting line (quarter-chord sweep up to 15°)",
-};
 
 const idText = (what: string) =>
   z

@@ -84,12 +84,17 @@ export function roundForDisplay(value: number, sig = 5): number {
   return Number(value.toPrecision(sig));
 }
 
+// One formatter per number of decimals (0–6), made once: toLocaleString with options builds a new
+// Intl.NumberFormat on every call, and a results page formats thousands of numbers as it renders.
+const DECIMALS_FORMATS: Intl.NumberFormat[] = [];
+const decimalsFormat = (digits: number) => (DECIMALS_FORMATS[digits] ??= new Intl.NumberFormat("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: 0 }));
+
 /** Rounds to a sensible number of significant figures for tables and read-outs; round-off of zero is "0". */
 export function formatNumber(value: number | null | undefined, sig = 4): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   if (roundForDisplay(value, sig) === 0) return "0";
-  const digits = Math.max(0, sig - 1 - Math.floor(Math.log10(Math.abs(value))));
-  const text = value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(digits, 6), minimumFractionDigits: 0 }).replace(/,/g, " ");
+  const digits = Math.min(Math.max(0, sig - 1 - Math.floor(Math.log10(Math.abs(value)))), 6);
+  const text = decimalsFormat(digits).format(value).replace(/,/g, " ");
   // A small negative value rounded away is 0, not "-0".
   return text === "-0" ? "0" : text;
 }

@@ -78,3 +78,19 @@ export type ApiTokenScope = (typeof API_TOKEN_SCOPES)[number];
 /** A queued analysis of the API: waiting, being solved, answered, or refused by the engine. */
 export const ANALYSIS_JOB_STATUSES = ["queued", "running", "done", "failed"] as const;
 export type AnalysisJobStatus = (typeof ANALYSIS_JOB_STATUSES)[number];
+
+/**
+ * The compressibility rules and spanwise solvers a case file may use, and their names on pages and in
+ * the report. Here, not beside the step schemas: a page that only names them does not load zod.
+ */
+export const COMPRESSIBILITY_RULES = ["prandtl-glauert", "karman-tsien", "laitone"] as const;
+export const SPANWISE_METHODS = ["vortex-lattice", "lifting-line"] as const;
+export const RULE_LABELS: Record<(typeof COMPRESSIBILITY_RULES)[number], string> = {
+  "prandtl-glauert": "Prandtl–Glauert (Göthert for the wing)",
+  "karman-tsien": "Kármán–Tsien",
+  laitone: "Laitone",
+};
+export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> = {
+  "vortex-lattice": "Vortex lattice",
+  "lifting-line": "Lifting line (quarter-chord sweep up to 15°)",
+};

@@ -8,7 +8,7 @@ import {
   type SpanwiseWayResult,
 } from "~/domain/comparisons";
 import { DomainError } from "~/domain/errors";
-import { RULE_LABELS } from "~/domain/step-data";
+import { RULE_LABELS } from "~/domain/vocabulary";
 import type { UnitSystem } from "~/domain/units";
 import {
   evaluateCase,

@@ -1,5 +1,5 @@
 import { expect, test } from "@playwright/test";
-import { RULE_LABELS } from "../../app/domain/step-data";
+import { RULE_LABELS } from "../../app/domain/vocabulary";
 import { copyOfDemoCase, hydrated, signIn } from "./helpers";
 
 // The distribution page's rule sensitivity is solved by the job worker: the page shows how far it

@@ -11,7 +11,7 @@ import { ENGINE_VERSION } from "~/engine";
 import { stopBoss } from "~/jobs/boss.server";
 import type { RuleSensitivity, SpanwiseComparison } from "~/domain/comparisons";
 import { STEPS } from "~/domain/steps";
-import { RULE_LABELS } from "~/domain/step-data";
+import { RULE_LABELS } from "~/domain/vocabulary";
 import { formatNumber, fromSI } from "~/domain/units";
 import { attributionOf, parseCase, parseSections, rollingSideLabel, type CaseFileInput, type CaseResult } from "~/exchange";
 import { spanwiseComparison } from "~/services/comparisons.server";

@@ -1,4 +1,5 @@
-import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
+import { CATEGORY_LABELS } from "~/domain/step-data";
+import { RULE_LABELS, SPANWISE_LABELS } from "~/domain/vocabulary";
 import { formatNumber, unitsStatement } from "~/domain/units";
 import type { Section } from "./layout.server";
 

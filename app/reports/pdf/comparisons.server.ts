@@ -1,6 +1,6 @@
 import { spanwiseWaysOption } from "~/charts/comparisons";
 import { formatChange, formatPercent, ROOT_LOADS, SPANWISE_WAY_LABELS, type RootLoads } from "~/domain/comparisons";
-import { RULE_LABELS } from "~/domain/step-data";
+import { RULE_LABELS } from "~/domain/vocabulary";
 import { formatNumber, fromSI } from "~/domain/units";
 import { MUTED, WARN, type Section } from "./layout.server";
 

@@ -1,6 +1,6 @@
 import { METHOD_STATEMENT as METHODS, methodUsedLines } from "~/domain/method-statement";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
-import { RULE_LABELS, SPANWISE_LABELS } from "~/domain/step-data";
+import { RULE_LABELS, SPANWISE_LABELS } from "~/domain/vocabulary";
 import type { Section } from "./layout.server";
 
 const VALIDITY: [string, string, string][] = [

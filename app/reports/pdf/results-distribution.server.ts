@@ -1,5 +1,5 @@
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
-import { RULE_LABELS } from "~/domain/step-data";
+import { RULE_LABELS } from "~/domain/vocabulary";
 import { formatNumber } from "~/domain/units";
 import type { Section } from "./layout.server";
 

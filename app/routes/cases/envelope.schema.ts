@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
-import { COMPRESSIBILITY_RULES, EnvelopeSchema, LoadCaseSchema, SPANWISE_METHODS, type EnvelopeData } from "~/domain/step-data";
+import { EnvelopeSchema, LoadCaseSchema, type EnvelopeData } from "~/domain/step-data";
+import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/domain/vocabulary";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
 
 const G0 = 9.80665;
