@@ -250,6 +250,8 @@ export const caseResults = pgTable(
     engineVersion: text("engine_version").notNull(),
     input: jsonb().$type<Record<string, unknown>>().notNull(),
     result: jsonb().$type<Record<string, unknown>>().notNull(),
+    /** What pages read of the result without reading it (method, first case, flagged cases' facts); null for results stored before it was kept. */
+    summary: jsonb().$type<Record<string, unknown>>(),
     computedBy: uuid("computed_by").references(() => users.id),
     computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
   },

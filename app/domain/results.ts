@@ -1,4 +1,4 @@
-import type { ResultCase } from "~/exchange";
+import type { CaseResult, ResultCase, ResultMethod } from "~/exchange";
 import { formatNumber } from "./units";
 
 /**
@@ -46,3 +46,53 @@ export const FLAG_REASON_LABELS: Record<FlagReason, string> = {
   stall: "cl over the section clmax",
   "critical-mach-basis": "Critical Mach number not reliable at the case's lift",
 };
+
+/** A station of a case whose section lift exceeds the section clmax (from the engine's warning). */
+export interface StallHit {
+  /** Spanwise station [m]. */
+  y: number;
+  cl: number;
+  clMax: number;
+}
+
+/**
+ * What a case's flag rests on, reduced from its result: above the critical Mach number, the stations
+ * over clmax, a critical Mach number resting on one Cp,min taken at another lift. What a stored
+ * result keeps of each flagged case (its warnings are kilobytes of words; these are numbers).
+ */
+export interface FlagFacts {
+  id: string;
+  mach: number;
+  machCritical: number | null;
+  supercritical: boolean;
+  stall: StallHit[];
+  doubt: boolean;
+}
+
+const CRITICAL_MACH_DOUBT = /^the critical Mach number rests on one cpMin per section/;
+const STALL = /station y = ([\d.]+) m: cl ([\d.-]+) exceeds the section clMax ([\d.-]+)/;
+
+/** The stations over clmax that a case's warnings name. */
+export function stallHits(warnings: readonly string[]): StallHit[] {
+  return warnings.map((w) => STALL.exec(w)).filter((m): m is RegExpExecArray => m !== null).map((m) => ({ y: Number(m[1]), cl: Number(m[2]), clMax: Number(m[3]) }));
+}
+
+/** A case's flag facts, or null when there is nothing to flag. */
+export function flagFacts(c: Pick<ResultCase, "id" | "regime" | "mach" | "machCritical" | "warnings">): FlagFacts | null {
+  const supercritical = c.regime === "supercritical";
+  const stall = stallHits(c.warnings);
+  const doubt = c.warnings.some((w) => CRITICAL_MACH_DOUBT.test(w));
+  return supercritical || stall.length || doubt ? { id: c.id, mach: c.mach, machCritical: c.machCritical ?? null, supercritical, stall, doubt } : null;
+}
+
+/** What the distribution page reads of a stored result: its method, its first case and the facts of its flagged cases, in order. */
+export interface ResultSummary {
+  method: ResultMethod;
+  first: string;
+  flagged: FlagFacts[];
+}
+
+/** The summary of a result, kept beside it as it is stored. */
+export function resultSummary(result: Pick<CaseResult, "method" | "cases">): ResultSummary {
+  return { method: result.method, first: result.cases[0]?.id ?? "", flagged: result.cases.map(flagFacts).filter((f): f is FlagFacts => f !== null) };
+}

@@ -2,7 +2,7 @@ import { and, desc, eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import { db } from "~/db/client.server";
 import { caseResults, caseSteps } from "~/db/schema";
-import { FLAG_REASON_LABELS, FLAG_REASONS, type FlagReason } from "~/domain/results";
+import { FLAG_REASON_LABELS, FLAG_REASONS, flagFacts, stallHits, type FlagFacts, type FlagReason, type ResultSummary, type StallHit } from "~/domain/results";
 import { DistributionSchema, type DistributionData } from "~/domain/step-data";
 import { ENGINE_VERSION, evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type ResultCase, type ResultMethod, type SectionsFile } from "~/exchange";
@@ -22,15 +22,13 @@ export interface CaseFlag {
   kinds: FlagReason[];
 }
 
-/** What a case's flag is made from: the few fields of a result case that PostgreSQL hands over for a flagged case. */
-type FlagSource = Pick<ResultCase, "id" | "regime" | "mach" | "machCritical" | "warnings">;
-
-function flagOf(c: FlagSource, units: UnitSystem): CaseFlag | null {
-  const supercritical = c.regime === "supercritical" ? [`Mach ${c.mach.toFixed(3)} is at or above the critical Mach number ${c.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : [];
-  const stall = summariseStall(c.warnings, units);
-  const doubt = c.warnings.some((w) => CRITICAL_MACH_DOUBT.test(w)) ? ["the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"] : [];
+/** A flagged case's reasons in words, in the units shown. */
+function flagOf(f: FlagFacts, units: UnitSystem): CaseFlag {
+  const supercritical = f.supercritical ? [`Mach ${f.mach.toFixed(3)} is at or above the critical Mach number ${f.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : [];
+  const stall = summariseHits(f.stall, units);
+  const doubt = f.doubt ? ["the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"] : [];
   const kinds: FlagReason[] = [...(supercritical.length ? (["supercritical"] as const) : []), ...(stall.length ? (["stall"] as const) : []), ...(doubt.length ? (["critical-mach-basis"] as const) : [])];
-  return kinds.length ? { id: c.id, reasons: [...supercritical, ...stall, ...doubt], kinds } : null;
+  return { id: f.id, reasons: [...supercritical, ...stall, ...doubt], kinds };
 }
 
 /**
@@ -38,15 +36,15 @@ function flagOf(c: FlagSource, units: UnitSystem): CaseFlag | null {
  * critical-Mach check rests on a single Cp,min taken far from the case's lift.
  */
 export function flaggedCases(result: Pick<CaseResult, "cases">, units: UnitSystem = "SI"): CaseFlag[] {
-  return result.cases.map((c) => flagOf(c, units)).filter((f): f is CaseFlag => f !== null);
+  return result.cases.map(flagFacts).filter((f): f is FlagFacts => f !== null).map((f) => flagOf(f, units));
 }
-
-const CRITICAL_MACH_DOUBT = /^the critical Mach number rests on one cpMin per section/;
-const STALL = /station y = ([\d.]+) m: cl ([\d.-]+) exceeds the section clMax ([\d.-]+)/;
 
 /** One line for all of a case's stations over clmax: how many, where (in the length unit shown), and the worst ratio. */
 export function summariseStall(warnings: string[], units: UnitSystem): string[] {
-  const hits = warnings.map((w) => STALL.exec(w)).filter((m): m is RegExpExecArray => m !== null).map((m) => ({ y: Number(m[1]), cl: Number(m[2]), clMax: Number(m[3]) }));
+  return summariseHits(stallHits(warnings), units);
+}
+
+function summariseHits(hits: StallHit[], units: UnitSystem): string[] {
   if (hits.length === 0) return [];
   const worst = hits.reduce((a, b) => (b.cl / b.clMax > a.cl / a.clMax ? b : a));
   const ys = hits.map((h) => h.y);
@@ -167,21 +165,36 @@ export async function storedFlags(caseId: string, inputHash: string, units: Unit
   const key = `${caseId}\n${inputHash}\n${ENGINE_VERSION}\n${units}`;
   const hit = flagsCache.get(key);
   if (hit) return hit;
+  const summary = await storedSummary(caseId, inputHash);
+  if (!summary) return null;
+  const value = { method: summary.method, flags: summary.flagged.map((f) => flagOf(f, units)), first: summary.first };
+  flagsCache.set(key, value);
+  return value;
+}
+
+/**
+ * The summary kept beside the stored result (resultSummary), not the result. A result stored before
+ * summaries were kept has it made once here: PostgreSQL hands over the method, the first id and the
+ * flagged cases' few fields, and the summary is kept for every later read.
+ */
+async function storedSummary(caseId: string, inputHash: string): Promise<ResultSummary | null> {
   const [row] = await db
-    .select({ id: caseResults.id, method: sql<ResultMethod>`${caseResults.result} -> 'method'`, first: sql<string>`${caseResults.result} -> 'cases' -> 0 ->> 'id'` })
+    .select({ id: caseResults.id, summary: caseResults.summary })
     .from(caseResults)
     .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   if (!row) return null;
-  const found = await db.execute<{ c: FlagSource }>(sql`
+  if (row.summary) return row.summary as unknown as ResultSummary;
+  const [head] = await db.select({ method: sql<ResultMethod>`${caseResults.result} -> 'method'`, first: sql<string>`${caseResults.result} -> 'cases' -> 0 ->> 'id'` }).from(caseResults).where(eq(caseResults.id, row.id));
+  const found = await db.execute<{ c: Pick<ResultCase, "id" | "regime" | "mach" | "machCritical" | "warnings"> }>(sql`
     select jsonb_build_object('id', e -> 'id', 'regime', e -> 'regime', 'mach', e -> 'mach', 'machCritical', e -> 'machCritical', 'warnings', e -> 'warnings') as c
     from case_results r, jsonb_array_elements(r.result -> 'cases') with ordinality as t(e, n)
     where r.id = ${row.id} and (e ->> 'regime' = 'supercritical' or jsonb_array_length(e -> 'warnings') > 0)
     order by n`);
-  const value = { method: row.method, flags: flaggedCases({ cases: found.rows.map((r) => r.c as ResultCase) }, units), first: row.first };
-  flagsCache.set(key, value);
-  return value;
+  const summary: ResultSummary = { method: head!.method, first: head!.first, flagged: found.rows.map((r) => flagFacts(r.c)).filter((f): f is FlagFacts => f !== null) };
+  await db.update(caseResults).set({ summary: summary as unknown as Record<string, unknown> }).where(eq(caseResults.id, row.id));
+  return summary;
 }
 
 /** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
