@@ -4,6 +4,7 @@ import {
   bigserial,
   boolean,
   check,
+  customType,
   index,
   integer,
   jsonb,
@@ -240,6 +241,9 @@ export const stepRevisions = pgTable(
   (t) => [uniqueIndex("step_revisions_case_step_rev_key").on(t.caseId, t.step, t.revision)],
 );
 
+/** Bytes as PostgreSQL's bytea (the pg client gives and takes Buffers). */
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => "bytea" });
+
 /** Engine results of a case, keyed by the hash of the exchange-format input they were computed from. */
 export const caseResults = pgTable(
   "case_results",
@@ -252,6 +256,12 @@ export const caseResults = pgTable(
     result: jsonb().$type<Record<string, unknown>>().notNull(),
     /** What pages read of the result without reading it (method, first case, flagged cases' facts); null for results stored before it was kept. */
     summary: jsonb().$type<Record<string, unknown>>(),
+    /**
+     * The result document as the API sends it (`spanwright.result/1`, UTF-8 JSON), brotli-compressed
+     * once when the result is stored, so no web process serialises and compresses it again. Null for
+     * results stored before it was kept.
+     */
+    documentBr: bytea("document_br"),
     computedBy: uuid("computed_by").references(() => users.id),
     computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
   },

@@ -251,9 +251,10 @@ export async function resultsFor(
     ? await runEngineAsync(() => runCaseAsync(parsed, { sections, onProgress: progressRecorder(caseId, inputHash, parsed.cases.length) }))
     : runEngine(() => runCase(parsed, { sections }));
   const input = (sections ? { case: parsed, sections } : parsed) as unknown as Record<string, unknown>;
+  const documentBr = Buffer.from(await compressors.br(Buffer.from(JSON.stringify(result))));
   const [row] = await database
     .insert(caseResults)
-    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, computedBy: actorId })
+    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, documentBr, computedBy: actorId })
     .returning();
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   return { result, inputHash, computedAt: row!.computedAt };
@@ -268,6 +269,18 @@ export async function storedResult(caseId: string, inputHash: string, database: 
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   return row ? { result: row.result as unknown as CaseResult, inputHash, computedAt: row.computedAt } : null;
+}
+
+/** The brotli-compressed result document kept with the stored result for this input hash, or null (none stored, or stored before it was kept). */
+async function storedResultDocument(caseId: string, inputHash: string): Promise<Uint8Array<ArrayBuffer> | null> {
+  const [row] = await db
+    .select({ documentBr: caseResults.documentBr })
+    .from(caseResults)
+    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .orderBy(desc(caseResults.computedAt))
+    .limit(1);
+  const bytes = row?.documentBr;
+  return bytes ? (new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) as Uint8Array<ArrayBuffer>) : null;
 }
 
 /** Whether a result is stored for this input hash and the engine version (without reading it). */
@@ -395,6 +408,7 @@ const derived = new LRUCache<string, { value: unknown }>({ max: 32 });
 /** Tests only: forget every derived value, as a web process that has not built anything yet. */
 export function forgetDerivedForTests(): void {
   derived.clear();
+  resultDocuments.clear();
 }
 
 /**
@@ -595,6 +609,8 @@ export async function currentResultsOrQueue(caseId: string, title: string, actor
 const resultDocuments = new LRUCache<string, Uint8Array<ArrayBuffer>>({ maxSize: 64 * 2 ** 20, sizeCalculation: (bytes) => bytes.byteLength || 1 });
 
 const brotli = promisify(zlib.brotliCompress);
+const brotliDecompress = promisify(zlib.brotliDecompress);
+const toBytes = (out: Buffer) => new Uint8Array(out.buffer, out.byteOffset, out.byteLength) as Uint8Array<ArrayBuffer>;
 const gzip = promisify(zlib.gzip);
 /** Compressed once per document (on libuv's threads), so a quality above the middleware's per-answer 4 is affordable. */
 const compressors = {
@@ -617,28 +633,42 @@ export async function resultJsonOrQueue(
   encoding: keyof typeof compressors | null = null,
 ): Promise<{ pending: true; cases: number; progress: SweepProgress | null } | { pending: false; json: Uint8Array<ArrayBuffer>; encoding: keyof typeof compressors | null; inputHash: string }> {
   const known = await storedInputKey(caseId, title, "final");
-  const documentKey = (inputHash: string) => `${caseId}:${inputHash}:${ENGINE_VERSION}`;
-  let json = known ? resultDocuments.get(documentKey(known.inputHash)) : undefined;
   let inputHash = known?.inputHash ?? "";
-  if (!json) {
+  let result: CaseResult | null = null;
+  const resolve = async () => {
     const answer = await currentResultsOrQueue(caseId, title, actorId);
+    if (!answer.pending) ({ inputHash, result } = answer);
+    return answer;
+  };
+  if (!known) {
+    const answer = await resolve();
     if (answer.pending) return answer;
-    inputHash = answer.inputHash;
-    json = resultDocuments.get(documentKey(inputHash));
-    if (!json) {
-      json = Buffer.from(JSON.stringify(answer.result));
-      resultDocuments.set(documentKey(inputHash), json);
-    }
   }
-  const key = documentKey(inputHash);
+  const key = () => `${caseId}:${inputHash}:${ENGINE_VERSION}`;
+  const kept = resultDocuments.get(encoding ? `${key()}:${encoding}` : key());
+  if (kept) return { pending: false, json: kept, encoding, inputHash };
+  // The brotli form stored with the result: any web process answers from it without serialising or
+  // compressing the result, and every representation is made from the same bytes.
+  const br = resultDocuments.get(`${key()}:br`) ?? (await storedResultDocument(caseId, inputHash));
+  if (br) resultDocuments.set(`${key()}:br`, br);
+  if (br && encoding === "br") return { pending: false, json: br, encoding, inputHash };
+  let json = resultDocuments.get(key()) ?? (br ? toBytes(await brotliDecompress(br)) : undefined);
+  if (!json) {
+    // A result stored before its document was kept (or none stored yet: then solved or queued now).
+    if (!result) {
+      const answer = await resolve();
+      if (answer.pending) return answer;
+    }
+    json = Buffer.from(JSON.stringify(result)) as Uint8Array<ArrayBuffer>;
+  }
+  resultDocuments.set(key(), json);
   if (!encoding) return { pending: false, json, encoding, inputHash };
-  const encodedKey = `${key}:${encoding}`;
+  const encodedKey = `${key()}:${encoding}`;
   let encoded = resultDocuments.get(encodedKey);
   if (!encoded) {
     let pending = compressing.get(encodedKey);
     if (!pending) {
-      const source = json;
-      pending = compressors[encoding](source).then((out) => new Uint8Array(out.buffer, out.byteOffset, out.byteLength) as Uint8Array<ArrayBuffer>);
+      pending = compressors[encoding](json).then(toBytes);
       compressing.set(encodedKey, pending);
       void pending.finally(() => compressing.delete(encodedKey)).catch(() => {});
     }

@@ -1,5 +1,9 @@
 import zlib from "node:zlib";
+import { desc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
+import { db } from "~/db/client.server";
+import { caseResults } from "~/db/schema";
+import { forgetDerivedForTests } from "~/services/analysis.server";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { request, routeArgs, seededDemoCase } from "./helpers";
 import { startHttpApp } from "./http-harness";
@@ -61,5 +65,23 @@ describe("the results document as the client takes it", () => {
     } finally {
       await app.close();
     }
+  });
+});
+
+describe("the results document kept with the stored result", () => {
+  it("is stored brotli-compressed once, and a web process that has built nothing answers it from there", async () => {
+    const plain = Buffer.from(await (await ask()).arrayBuffer());
+    const [row] = await db.select({ documentBr: caseResults.documentBr }).from(caseResults).where(eq(caseResults.caseId, caseId)).orderBy(desc(caseResults.computedAt)).limit(1);
+    expect(row?.documentBr).toBeInstanceOf(Buffer);
+    expect(zlib.brotliDecompressSync(row!.documentBr!).equals(plain)).toBe(true);
+    // As a process just started: nothing kept in memory. The answer is the stored bytes themselves.
+    forgetDerivedForTests();
+    const stringify = vi.spyOn(JSON, "stringify");
+    const br = await ask("br");
+    expect(br.headers.get("Content-Encoding")).toBe("br");
+    expect(Buffer.from(await br.arrayBuffer()).equals(row!.documentBr!)).toBe(true);
+    // Nothing of the result was serialised again (a document is megabytes for a large case).
+    expect(stringify.mock.calls.filter(([v]) => typeof v === "object" && v !== null && "cases" in v)).toHaveLength(0);
+    stringify.mockRestore();
   });
 });
