@@ -1,19 +1,21 @@
-import { useEffect, useState } from "react";
+import { startTransition, useEffect, useState } from "react";
 
 /**
  * False on the server, while the page hydrates and until the browser is next idle; true from then on.
  * What is drawn only from then on (charts, the rows of a long grid) does not hold back the page's
- * first answer to a click or a key: hydration has that much less to build and attach.
+ * first answer to a click or a key: hydration has that much less to build and attach. It is then
+ * drawn as a transition, which React interrupts for a click or a key that arrives meanwhile.
  */
 export function useAfterInteractive() {
   const [ready, setReady] = useState(false);
   useEffect(() => {
+    const draw = () => startTransition(() => setReady(true));
     if (typeof window.requestIdleCallback !== "function") {
-      const timer = setTimeout(() => setReady(true), 0);
+      const timer = setTimeout(draw, 0);
       return () => clearTimeout(timer);
     }
     // At the latest after a second, on a page that is never idle.
-    const id = window.requestIdleCallback(() => setReady(true), { timeout: 1000 });
+    const id = window.requestIdleCallback(draw, { timeout: 1000 });
     return () => window.cancelIdleCallback(id);
   }, []);
   return ready;
