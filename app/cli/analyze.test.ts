@@ -1,5 +1,5 @@
-import { spawnSync } from "node:child_process";
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { spawn, spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
@@ -26,6 +26,22 @@ writeFileSync(good, JSON.stringify(doc));
 
 // Each check starts node + tsx (seconds on a busy machine): a generous limit, so the tests never depend on timing.
 describe("analyze CLI", { timeout: 120_000 }, () => {
+  it("stops quietly when the reader of its output stops reading (as `| head` does)", async () => {
+    // Output well beyond a pipe's buffer, and a reader that closes the pipe at the first bytes: the
+    // command line must not die with a stack trace.
+    const example = JSON.parse(readFileSync(join(root, "docs/examples/kf60-tern-wing.json"), "utf8")) as { cases: { id: string }[] };
+    const sweep = { ...example, cases: Array.from({ length: 40 }, (_, k) => example.cases.map((c) => ({ ...c, id: `${c.id}-${k}` }))).flat() };
+    const file = join(mkdtempSync(join(tmpdir(), "sw-pipe-")), "sweep.json");
+    writeFileSync(file, JSON.stringify(sweep));
+    const child = spawn(tsx, [cli, file], { cwd: root, stdio: ["ignore", "pipe", "pipe"] });
+    let stderr = "";
+    child.stderr.on("data", (d: Buffer) => (stderr += d.toString()));
+    child.stdout.once("data", () => child.stdout.destroy());
+    const code = await new Promise<number | null>((resolve) => child.on("close", (c) => resolve(c)));
+    expect(stderr).toBe("");
+    expect(code).toBe(0);
+  });
+
   it("prints the result JSON for a file", () => {
     const r = run([good]);
     expect(r.status).toBe(0);

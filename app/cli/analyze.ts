@@ -100,6 +100,11 @@ function main(argv: string[]): void {
         : "done",
     );
   }
+  // A reader that stops reading (`| head`) ends the run quietly, as other command-line tools do.
+  process.stdout.on("error", (error: NodeJS.ErrnoException) => {
+    if (error.code === "EPIPE") process.exit(0);
+    throw error;
+  });
   writeOut();
 }
 
