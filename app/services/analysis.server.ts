@@ -260,12 +260,17 @@ export async function resultsFor(
   return { result, inputHash, computedAt: row!.computedAt };
 }
 
+/** The rows of case_results that hold the case's result for this input hash by the running engine. */
+export function storedResultOf(caseId: string, inputHash: string) {
+  return and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION));
+}
+
 /** The result stored for this input hash and the engine version, or null. */
 export async function storedResult(caseId: string, inputHash: string, database: Db | Tx = db): Promise<{ result: CaseResult; inputHash: string; computedAt: Date } | null> {
   const [row] = await database
     .select({ result: caseResults.result, computedAt: caseResults.computedAt })
     .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .where(storedResultOf(caseId, inputHash))
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   return row ? { result: row.result as unknown as CaseResult, inputHash, computedAt: row.computedAt } : null;
@@ -276,7 +281,7 @@ async function storedResultDocument(caseId: string, inputHash: string): Promise<
   const [row] = await db
     .select({ documentBr: caseResults.documentBr })
     .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .where(storedResultOf(caseId, inputHash))
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   const bytes = row?.documentBr;
@@ -288,7 +293,7 @@ async function hasStoredResult(caseId: string, inputHash: string, database: Db |
   const [row] = await database
     .select({ id: caseResults.id })
     .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .where(storedResultOf(caseId, inputHash))
     .limit(1);
   return Boolean(row);
 }

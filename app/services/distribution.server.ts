@@ -10,7 +10,7 @@ import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
-import { currentDistributionInput, currentInputKey, currentInputWith, inputInPreparation, parseOrThrow, queueResults, resultsFor, storedInputIds, storedInputWith } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, currentInputWith, inputInPreparation, parseOrThrow, queueResults, resultsFor, storedInputIds, storedInputWith, storedResultOf } from "./analysis.server";
 import { SWEEP_THRESHOLD } from "./results-queue.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
@@ -181,7 +181,7 @@ async function storedSummary(caseId: string, inputHash: string): Promise<ResultS
   const [row] = await db
     .select({ id: caseResults.id, summary: caseResults.summary })
     .from(caseResults)
-    .where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, inputHash), eq(caseResults.engineVersion, ENGINE_VERSION)))
+    .where(storedResultOf(caseId, inputHash))
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   if (!row) return null;
