@@ -1,6 +1,7 @@
 import { and, eq, inArray, lt } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { analysisJobs } from "~/db/schema";
+import { boss, QUEUES } from "~/jobs/boss.server";
 import { DomainError } from "~/domain/errors";
 import type { AnalysisJobStatus } from "~/domain/vocabulary";
 import { analyzeDocument, parseCase, type CaseFile, type CaseProblem, type CaseResult } from "~/exchange";
@@ -173,7 +174,6 @@ export async function analyse(input: { organisationId: string; userId: string; d
     // The document as sent: the worker validates it again, exactly as the command line would.
     .values({ organisationId: input.organisationId, userId: input.userId, cases: file.cases.length, input: input.document as Record<string, unknown> })
     .returning();
-  const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.analyze, { jobId: job!.id }, { singletonKey: job!.id, retryLimit: 2, expireInSeconds: 30 * 60 });
   return { kind: "queued", job: view(job!) };
 }

@@ -7,6 +7,7 @@ import { DomainError } from "~/domain/errors";
 import { compareValues } from "~/domain/reproduction";
 import { ISSUED_REPORT_STATUSES } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
+import { boss, QUEUES } from "~/jobs/boss.server";
 import { DIRECT_MACH_LIMIT, exchangeDocumentText, runCaseAsync, type CaseFileInput, type SectionsFile } from "~/exchange";
 import type { ReportSnapshot } from "~/reports/snapshot";
 import { parseOrThrow, parseSectionsOrThrow } from "./analysis.server";
@@ -60,7 +61,6 @@ export async function requestRerun(input: { organisationId: string; caseId: stri
     await writeAudit(tx, { organisationId: input.organisationId, actor: input.actor, action: "report.rerun", entityType: "report", entityId: r.id, after: { rerunId: run!.id, engine: ENGINE_VERSION } });
     return run!;
   });
-  const { boss, QUEUES } = await import("~/jobs/boss.server");
   await (await boss()).send(QUEUES.rerunReport, { rerunId: row.id }, { singletonKey: row.id, retryLimit: 1, expireInSeconds: 30 * 60 });
   return row;
 }
