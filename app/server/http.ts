@@ -4,6 +4,7 @@ import { pathToFileURL } from "node:url";
 import type { Server } from "node:http";
 import compression from "compression";
 import express, { type Express, type NextFunction, type Request, type Response } from "express";
+import expressStaticGzip from "express-static-gzip";
 import { createRequestHandler, type ServerBuild } from "react-router";
 import { CLIENT_ADDRESS_HEADER } from "../utils/http.server";
 import { CSP_NONCE_HEADER } from "../utils/csp";
@@ -26,9 +27,7 @@ export async function startHttpServer(opts: { host: string; port: number; origin
     const buildDir = path.resolve("build");
     const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
     mount = (app) => {
-      // Static files carry their own caching instead of the no-store every other answer gets.
-      const assets = express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" });
-      app.use("/assets", (req: Request, res: Response, next: NextFunction) => (res.removeHeader("Cache-Control"), assets(req, res, next)));
+      app.use("/assets", clientAssets(path.join(buildDir, "client/assets")));
       // Files in public/ all have an extension; pages never do, so they skip the file-system lookup.
       const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
       app.use((req: Request, res: Response, next: NextFunction) => (path.extname(req.path) ? (res.removeHeader("Cache-Control"), publicFiles(req, res, next)) : next()));
@@ -40,6 +39,20 @@ export async function startHttpServer(opts: { host: string; port: number; origin
     const server = app.listen(opts.port, opts.host, () => resolve(server));
     server.once("error", reject);
   });
+}
+
+/**
+ * The build's hashed client assets (scripts, the stylesheet, fonts): cached for a year as immutable
+ * instead of the no-store every other answer gets. The build stores a brotli and a gzip copy beside
+ * each compressible file (app/server/precompress.ts); the copy the client accepts is sent as it is
+ * stored, with its Content-Encoding, the original's Content-Type and Vary: Accept-Encoding — brotli
+ * where both are accepted — so no asset is compressed again per request on the cores the browser
+ * shares (the compression middleware leaves an answer that has a Content-Encoding alone). A client
+ * that accepts neither gets the plain file.
+ */
+export function clientAssets(dir: string) {
+  const assets = expressStaticGzip(dir, { enableBrotli: true, orderPreference: ["br", "gzip"], serveStatic: { immutable: true, maxAge: "1y", index: false } });
+  return (req: Request, res: Response, next: NextFunction) => (res.removeHeader("Cache-Control"), assets(req, res, next));
 }
 
 /**
@@ -74,8 +87,9 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
   });
   app.use(sameOriginForWrites(opts.origin));
   app.use(boundedBody);
-  // Pages, JSON, CSV and assets go out compressed (brotli at quality 4, or gzip, as the client
-  // accepts); types that are compressed already (PDF, fonts) are sent as they are.
+  // Pages, JSON and CSV go out compressed (brotli at quality 4, or gzip, as the client accepts);
+  // types that are compressed already (PDF, fonts) are sent as they are, and so are the client
+  // assets' stored copies (clientAssets), whose Content-Encoding tells this middleware to leave them.
   app.use(compression({ threshold: 1024 }));
   mount(app);
   app.use(answerErrors);
