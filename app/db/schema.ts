@@ -262,6 +262,8 @@ export const caseResults = pgTable(
      * results stored before it was kept.
      */
     documentBr: bytea("document_br"),
+    /** The loads page's ranked root loads, envelope and critical case (rankedRootLoads), kept as the result is stored; null for results stored before it was kept. */
+    rootLoads: jsonb("root_loads").$type<Record<string, unknown>>(),
     computedBy: uuid("computed_by").references(() => users.id),
     computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
   },

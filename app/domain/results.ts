@@ -96,3 +96,50 @@ export interface ResultSummary {
 export function resultSummary(result: Pick<CaseResult, "method" | "cases">): ResultSummary {
   return { method: result.method, first: result.cases[0]?.id ?? "", flagged: result.cases.map(flagFacts).filter((f): f is FlagFacts => f !== null) };
 }
+
+/** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */
+export const MAX_ROOT_ROWS = 500;
+
+/** A case's root loads without its stations: a rolling case's other side keeps its root, not its stations. */
+export type RootLoadsRow = Omit<ResultCase, "stations">;
+
+/**
+ * What the loads page lists of a result, kept beside it as it is stored (case_results.root_loads), so
+ * that no page reads the whole result (tens of MB for 100 000 cases) to rank its root loads.
+ */
+export interface RankedRootLoads {
+  engine: string;
+  caseCount: number;
+  envelope: CaseResult["envelope"];
+  /** At most MAX_ROOT_ROWS cases, root loads only: see rankedRootLoads. */
+  cases: RootLoadsRow[];
+  /** The critical case (criticalCase), whole: with its stations where the result keeps them. */
+  critical: ResultCase;
+}
+
+/**
+ * The root loads of a result ranked for the loads page: every case when there are at most `limit`,
+ * else every case giving an extreme of root shear, bending or torsion and then the rest by |root
+ * bending|; listed by |root bending|, largest first (ties in the result's order).
+ */
+export function rankedRootLoads(result: Pick<CaseResult, "engine" | "envelope" | "cases">, limit = MAX_ROOT_ROWS): RankedRootLoads {
+  const order: RootLoadsRow[] = result.cases
+    .map(({ stations: _stations, ...root }) => (root.roll ? { ...root, roll: { ...root.roll, other: { root: root.roll.other.root } } } : root))
+    .sort((a, b) => Math.abs(b.root.bending) - Math.abs(a.root.bending));
+  return { engine: result.engine, caseCount: result.cases.length, envelope: result.envelope, cases: mostCritical(order, limit), critical: criticalCase(result.cases) };
+}
+
+function mostCritical(order: RootLoadsRow[], limit: number): RootLoadsRow[] {
+  if (order.length <= limit) return order;
+  const extremes = new Set<RootLoadsRow>();
+  for (const q of ["shear", "bending", "torsion"] as const) {
+    extremes.add(order.reduce((a, b) => (b.root[q] > a.root[q] ? b : a)));
+    extremes.add(order.reduce((a, b) => (b.root[q] < a.root[q] ? b : a)));
+  }
+  const picked = new Set(extremes);
+  for (const c of order) {
+    if (picked.size >= limit) break;
+    picked.add(c);
+  }
+  return order.filter((c) => picked.has(c));
+}

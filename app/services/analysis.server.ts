@@ -13,7 +13,7 @@ import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, getCaseStepsDigest, getCaseStepsDigested, stepData, type StepState } from "./case-steps.server";
 import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
-import { resultSummary } from "~/domain/results";
+import { rankedRootLoads, resultSummary } from "~/domain/results";
 import { checkMassCaseNames, effectiveMasses, exchangeMasses, withTailLoads } from "./masses.server";
 import { envelopeCaseCount, queueCaseResults, SWEEP_THRESHOLD, type InputScope } from "./results-queue.server";
 
@@ -254,7 +254,7 @@ export async function resultsFor(
   const documentBr = Buffer.from(await compressors.br(Buffer.from(JSON.stringify(result))));
   const [row] = await database
     .insert(caseResults)
-    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, documentBr, computedBy: actorId })
+    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, documentBr, computedBy: actorId })
     .returning();
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   return { result, inputHash, computedAt: row!.computedAt };

@@ -1,16 +1,17 @@
 import fs from "node:fs";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
-import { caseSteps, programmes, users } from "~/db/schema";
+import { caseResults, caseSteps, programmes, users } from "~/db/schema";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/loads";
-import { computeQueuedResults } from "~/services/analysis.server";
+import { computeQueuedResults, forgetDerivedForTests } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
+import { forgetRankedForTests } from "~/services/loads-view.server";
 import * as masses from "~/services/masses.server";
-import { cookieFor, demoUser, request, seed, routeArgs } from "./helpers";
+import { cookieFor, demoUser, request, rowTextOf, seed, routeArgs } from "./helpers";
 
 // Every balance of trimmed cases goes through balanceRows: the cases it is handed are counted here.
 vi.mock("~/services/masses.server", async (importOriginal) => {
@@ -38,6 +39,47 @@ beforeAll(async () => {
 }, 300_000);
 
 const get = async (path: string, loader: typeof loadsLoader) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
+
+/** A web process that has read nothing yet: no derived value, no ranked root loads. */
+function freshProcess() {
+  forgetDerivedForTests();
+  forgetRankedForTests();
+}
+
+/** Characters of the stored result's JSON text. */
+const storedResultText = async () => (await db.execute<{ n: number }>(sql`select length(result::text) as n from case_results where case_id = ${caseId}`)).rows[0]!.n;
+
+describe("the loads view answers from the ranked root loads kept with the result", () => {
+  it("a fresh process reads neither the result document nor more than a small part of its text, for the critical case or another", async () => {
+    const whole = await storedResultText();
+    for (const query of ["", "?case=v7"]) {
+      freshProcess();
+      let res: Response | undefined;
+      const received = await rowTextOf(async () => {
+        res = await get(`/api/cases/${caseId}/loads${query}`, loadsLoader);
+      });
+      expect(res!.status).toBe(200);
+      // Before: the whole stored result (1 200 cases here, tens of MB for 100 000) sent by PostgreSQL to rank its root loads.
+      expect(received, query).toBeLessThan(whole / 10);
+    }
+  });
+
+  it("a result stored before the ranked root loads were kept has them made once, the same as kept at store time", async () => {
+    const [row] = await db.select({ id: caseResults.id, rootLoads: caseResults.rootLoads }).from(caseResults).where(eq(caseResults.caseId, caseId));
+    expect(row!.rootLoads).not.toBeNull();
+    freshProcess();
+    const kept = await (await get(`/api/cases/${caseId}/loads`, loadsLoader)).json();
+    await db.update(caseResults).set({ rootLoads: null }).where(eq(caseResults.id, row!.id));
+    freshProcess();
+    const made = await (await get(`/api/cases/${caseId}/loads`, loadsLoader)).json();
+    expect(made).toEqual(kept);
+    const [after] = await db.select({ rootLoads: caseResults.rootLoads }).from(caseResults).where(eq(caseResults.id, row!.id));
+    expect(after!.rootLoads).toEqual(row!.rootLoads);
+    freshProcess();
+    const received = await rowTextOf(() => get(`/api/cases/${caseId}/loads`, loadsLoader));
+    expect(received).toBeLessThan((await storedResultText()) / 10);
+  });
+});
 
 describe("the loads page's view of a large case file", () => {
   it("sends the envelope, 500 root-load rows with every extreme case among them, and the critical case with its stations", async () => {

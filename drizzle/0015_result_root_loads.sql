@@ -1,0 +1,1 @@
+ALTER TABLE "case_results" ADD COLUMN "root_loads" jsonb;
