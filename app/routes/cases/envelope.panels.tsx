@@ -14,7 +14,7 @@ import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, Panel } from "~/components/ui/page-header";
 import { COMPRESSIBILITY_RULES, RULE_LABELS, SPANWISE_LABELS, SPANWISE_METHODS, type StepStatus } from "~/domain/vocabulary";
-import { fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatCount, fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { VnSet } from "~/services/envelope.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { EnvelopeFormSchema } from "./envelope.schema";
@@ -253,7 +253,7 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
   const padBottom = virtualizer.getTotalSize() - (items[items.length - 1]?.end ?? 0);
 
   return (
-    <Panel title={`Load cases (${total.toLocaleString("en-GB")})`} className="mt-5">
+    <Panel title={`Load cases (${formatCount(total)})`} className="mt-5">
       <UnsavedGuard dirty={edits > 0} />
       <div className="p-3">
         <p className="mb-2 text-xs text-ink-muted">
