@@ -1,8 +1,9 @@
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useEffect, useRef } from "react";
-import { get, useForm, type DefaultValues, type FieldValues, type Path, type PathValue, type UseFormRegister, type UseFormReturn } from "react-hook-form";
+import { useEffect, useRef, useState } from "react";
+import { get, useForm, type DefaultValues, type FieldValues, type Path, type PathValue, type Resolver, type UseFormRegister, type UseFormReturn } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
+import { whenIdle } from "~/components/ui/use-after-interactive";
 
 /** The react-hook-form state of a form checked by a zod schema: what is typed in, and what the schema makes of it. */
 export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormReturn<z.input<S>, unknown, z.output<S>>;
@@ -11,10 +12,16 @@ export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormRetu
  * react-hook-form with the route's zod schema. The form still posts as an ordinary HTML form (so it
  * works before JavaScript loads); with JavaScript the same schema checks it first and the post goes
  * through React Router's submit, and the action re-validates with that schema.
+ *
+ * The schema may be given as a function that imports it: the page then answers its first click
+ * without zod and the step schemas (some 100 KB of script to evaluate), which load once the browser
+ * is idle after hydration, or at the form's first check if that comes sooner.
  */
-export function useZodForm<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input>, defaultValues?: DefaultValues<Input>, resetKey?: unknown) {
+export function useZodForm<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input> | (() => Promise<z.ZodType<Output, Input>>), defaultValues?: DefaultValues<Input>, resetKey?: unknown) {
   const submit = useSubmit();
-  const form = useForm<Input, unknown, Output>({ resolver: zodResolver(schema), defaultValues, mode: "onTouched" });
+  const [{ resolver, preload }] = useState(() => resolverOf(schema));
+  const form = useForm<Input, unknown, Output>({ resolver, defaultValues, mode: "onTouched" });
+  useEffect(() => (preload ? whenIdle(preload) : undefined), [preload]);
   // True until the first commit: the ref callbacks of that commit meet the server-rendered inputs.
   const hydrating = useRef(true);
   useEffect(() => {
@@ -45,6 +52,14 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
     if (el) submit(formBody(el, form.getValues()), { method: "post", action: el.getAttribute("action") ?? undefined, encType: el.enctype as "application/x-www-form-urlencoded" | "multipart/form-data" });
   });
   return { form, onSubmit };
+}
+
+/** The resolver of a schema given as it is, or as a function that imports it (then loaded once, on first use or `preload`). */
+function resolverOf<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input> | (() => Promise<z.ZodType<Output, Input>>)): { resolver: Resolver<Input, unknown, Output>; preload?: () => void } {
+  if (typeof schema !== "function") return { resolver: zodResolver(schema) };
+  let loaded: Promise<Resolver<Input, unknown, Output>> | undefined;
+  const load = () => (loaded ??= schema().then((s) => zodResolver(s)));
+  return { resolver: async (values, context, options) => (await load())(values, context, options), preload: () => void load() };
 }
 
 /**

@@ -8,15 +8,16 @@ import { startTransition, useEffect, useState } from "react";
  */
 export function useAfterInteractive() {
   const [ready, setReady] = useState(false);
-  useEffect(() => {
-    const draw = () => startTransition(() => setReady(true));
-    if (typeof window.requestIdleCallback !== "function") {
-      const timer = setTimeout(draw, 0);
-      return () => clearTimeout(timer);
-    }
-    // At the latest after a second, on a page that is never idle.
-    const id = window.requestIdleCallback(draw, { timeout: 1000 });
-    return () => window.cancelIdleCallback(id);
-  }, []);
+  useEffect(() => whenIdle(() => startTransition(() => setReady(true))), []);
   return ready;
+}
+
+/** Calls `run` when the browser is next idle (at the latest after a second, on a page that is never idle); returns the cancel. */
+export function whenIdle(run: () => void): () => void {
+  if (typeof window.requestIdleCallback !== "function") {
+    const timer = setTimeout(run, 0);
+    return () => clearTimeout(timer);
+  }
+  const id = window.requestIdleCallback(run, { timeout: 1000 });
+  return () => window.cancelIdleCallback(id);
 }

@@ -3,7 +3,7 @@ import { DomainError } from "~/domain/errors";
 import { getCaseUnits } from "~/services/case-steps.server";
 import { loadCaseWindow, MAX_WINDOW_ROWS } from "~/services/load-cases.server";
 import { apiRefusal } from "~/utils/http.server";
-import { loadCaseRowValues } from "../cases/envelope.schema";
+import type { loadCaseRowValues } from "../cases/envelope.schema";
 import type { Route } from "./+types/case-load-cases";
 
 /** The answer: rows `offset…` of the stored load cases in the case's display units, with the revision they belong to. */
@@ -24,6 +24,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const offset = Number(query.get("offset") ?? "0");
   const limit = Number(query.get("limit") ?? "100");
   try {
+    // Imported as the envelope page imports it (on demand), so that the page's dynamic import stays a chunk boundary.
+    const { loadCaseRowValues } = await import("../cases/envelope.schema");
     const units = await getCaseUnits(c.id);
     const window = await loadCaseWindow(c.id, offset, Math.min(limit, MAX_WINDOW_ROWS));
     const body: LoadCaseRows = {

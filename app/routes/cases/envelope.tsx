@@ -19,11 +19,16 @@ import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/envelope";
 import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, VnPanel } from "./envelope.panels";
-import { casesToSI, DEFAULT_METHOD, EnvelopeFormSchema, envelopeFormValues, MAX_EDITED_ROWS, WHOLE_GRID_LOAD_CASES } from "./envelope.schema";
 import { saveStepAnswer } from "./step-action.server";
+
+// The form's schema and conversions (zod and the step schemas) are imported on demand, here as in the
+// browser: the page answers its first click without them (useZodForm loads the schema once idle).
+// One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
+const envelopeForm = () => import("./envelope.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
+  const { DEFAULT_METHOD, envelopeFormValues, WHOLE_GRID_LOAD_CASES } = await envelopeForm();
   // A large case file is not read, nor sent, whole: the page carries the first rows, the grid fetches the rest as they scroll into view.
   const [steps, envelope] = await Promise.all([readStepsOf(["basis", "planform", "sections", "masses"]), envelopeOutline(c.id, { first: FIRST_ROWS, whole: WHOLE_GRID_LOAD_CASES })]);
   const units = caseUnits(steps);
@@ -49,6 +54,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
+  const { casesToSI, EnvelopeFormSchema, MAX_EDITED_ROWS, WHOLE_GRID_LOAD_CASES } = await envelopeForm();
   const parsed = await parseBody(request, EnvelopeFormSchema, { maxRows: Math.max(WHOLE_GRID_LOAD_CASES, MAX_EDITED_ROWS) });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const steps = await readSteps();
@@ -84,7 +90,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
   const { units } = loaderData;
   const windowed = loaderData.window !== null;
   const saveIntent = windowed ? "method" : "save";
-  const { form, onSubmit } = useZodForm(EnvelopeFormSchema, { intent: saveIntent, revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => envelopeForm().then((m) => m.EnvelopeFormSchema), { intent: saveIntent, revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
   const busy = useSaving();
   const server = shown?.fieldErrors;
   const disabled = !loaderData.canEdit;

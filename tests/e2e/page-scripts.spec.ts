@@ -1,0 +1,39 @@
+import { expect, test, type Page } from "@playwright/test";
+import { copyOfDemoCase, hydrated, signIn } from "./helpers";
+
+// What a case page's scripts must hold before the page can answer its first click: the modules the
+// document preloads are all evaluated before React hydrates it. zod and the step schemas (some
+// 100 KB) are not among them on the pages that only need them to check a form: they are loaded once
+// the page is idle, or at the form's first check, and the form checks as before.
+
+/** zod 4's core names its base class so; no other module of the app carries the string. */
+const ZOD_MARK = "$ZodType";
+
+/** The scripts the server's document preloads (every static import of the page's route modules). */
+async function preloadedScripts(page: Page, path: string): Promise<{ href: string; text: string }[]> {
+  const html = await (await page.request.get(path)).text();
+  const hrefs = [...html.matchAll(/<link rel="modulepreload" href="([^"]+)"/g)].map((m) => m[1]!);
+  return Promise.all(hrefs.map(async (href) => ({ href, text: await (await page.request.get(href)).text() })));
+}
+
+// Each page with a field whose check needs the schema: a value it refuses, and what it says.
+const PAGES = [
+  { step: "envelope", field: "Output stations per semispan", typed: "3", says: "At least 8 stations" },
+] as const;
+
+for (const { step, field, typed, says } of PAGES) {
+  test(`the ${step} page preloads no zod${field ? ", and its form still checks a field once touched" : ""}`, async ({ page }) => {
+    await signIn(page, "engineer");
+    const path = `/cases/${await copyOfDemoCase(page, `E2E-SCRIPTS-${step}`)}/${step}`;
+    const scripts = await preloadedScripts(page, path);
+    expect(scripts.some((s) => new RegExp(`/${step}-[\\w-]+\\.js$`).test(s.href)), "the page's own module is preloaded").toBe(true);
+    expect(scripts.filter((s) => s.text.includes(ZOD_MARK)).map((s) => s.href)).toEqual([]);
+    if (!field) return;
+    await page.goto(path);
+    await hydrated(page);
+    const input = page.getByLabel(field);
+    await input.fill(typed);
+    await input.blur();
+    await expect(page.getByText(says)).toBeVisible();
+  });
+}
