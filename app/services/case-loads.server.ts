@@ -1,9 +1,10 @@
 import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
-import { analysedCaseCount, fromCurrentSteps, parseOrThrow, storedInputKey, type CaseInputs } from "./analysis.server";
+import type { LoadCase, MassesData } from "~/domain/step-data";
+import { analysedCaseCount, fromCurrentSteps, parseOrThrow, storedInputKey } from "./analysis.server";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
-import { balanceRows, effectiveMasses } from "./masses.server";
+import { balanceRows } from "./masses.server";
 
 /**
  * One case's loads split into their parts at the output stations: the aerodynamic loads, the inertia
@@ -46,13 +47,13 @@ export type CaseLoadsBreakdown = ReturnType<typeof caseLoadsBreakdown>;
  * and the balance of each trimmed one (typed tail loads, those from the balance, or none). Only the
  * cases named in `shown`, so that a case of 100 000 load cases sends what is on the page, not all.
  */
-export function loadsPageInfo(file: CaseFile, inputs: CaseInputs, shown: ReadonlySet<string>) {
+export function loadsPageInfo(file: CaseFile, envelopeCases: readonly LoadCase[], masses: MassesData | null, shown: ReadonlySet<string>) {
   const listed: CaseFile = { ...file, cases: file.cases.filter((c) => shown.has(c.id)) };
-  const stored = (inputs.envelope?.cases ?? []).filter((c) => shown.has(c.id));
+  const stored = envelopeCases.filter((c) => shown.has(c.id));
   const kinds = new Map(stored.map((c) => [c.id, c.kind]));
   return {
     cases: Object.fromEntries(listed.cases.map((c) => [c.id, { massCase: c.massCase ?? null, kind: kinds.get(c.id) ?? "manual" }])) as Record<string, { massCase: string | null; kind: string } | undefined>,
-    balance: balanceRows(listed, stored, effectiveMasses(inputs)),
+    balance: balanceRows(listed, stored, masses),
   };
 }
 

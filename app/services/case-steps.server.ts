@@ -4,7 +4,7 @@ import { canonicalJson, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, prepared, type Db, type Tx } from "~/db/client.server";
 import { caseSteps, cases, stepRevisions, users, type CaseStep } from "~/db/schema";
 import { STEP_KEYS, type StepKey } from "~/domain/vocabulary";
-import { STEP_SCHEMAS, type DistributionData, type EnvelopeData } from "~/domain/step-data";
+import { LoadCaseSchema, STEP_SCHEMAS, type DistributionData, type EnvelopeData, type LoadCase } from "~/domain/step-data";
 import { queueCaseResults } from "./results-queue.server";
 import { voidApprovalsAfterEdit } from "./review.server";
 import type { Actor } from "~/domain/people";
@@ -62,6 +62,23 @@ export async function getCaseStepsDigested(caseId: string, without: readonly Ste
     // The steps left out are not read at all (they come back empty): a large envelope is megabytes.
     .where(and(eq(caseSteps.caseId, caseId), without.length ? notInArray(caseSteps.step, [...without]) : undefined));
   return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest })), without) };
+}
+
+/**
+ * The envelope's load cases of these ids, in the envelope's order, with the envelope's digest (as
+ * getCaseStepsDigest gives it, the envelope alone) from the same read: PostgreSQL picks the cases out,
+ * so a page showing a few cases of a large envelope neither receives nor checks the rest. Cases that do
+ * not pass the load-case rules are left out.
+ */
+export async function envelopeCasesWith(caseId: string, ids: readonly string[]): Promise<{ digest: string; cases: LoadCase[] }> {
+  const found = await db.execute<{ digest: string | null; cases: unknown[] }>(sql`
+    select ${caseSteps.dataDigest} as digest,
+      (select coalesce(jsonb_agg(e order by n), '[]'::jsonb) from jsonb_array_elements(case when jsonb_typeof(${caseSteps.data} -> 'cases') = 'array' then ${caseSteps.data} -> 'cases' else '[]'::jsonb end) with ordinality as t(e, n)
+        where e ->> 'id' = any(${sql.param([...ids])}::text[])) as cases
+    from ${caseSteps} where ${caseSteps.caseId} = ${caseId} and ${caseSteps.step} = 'envelope'`);
+  const row = found.rows[0];
+  if (!row) return { digest: "", cases: [] };
+  return { digest: digestOf([{ step: "envelope", digest: row.digest }], []), cases: row.cases.flatMap((c) => { const parsed = LoadCaseSchema.safeParse(c); return parsed.success ? [parsed.data] : []; }) };
 }
 
 const stepDigests = prepared((database) =>

@@ -5,7 +5,10 @@ import { caseResults } from "~/db/schema";
 import { rankedRootLoads, type RankedRootLoads, type RootLoadsRow, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
-import { currentResultsOrQueue, fromCurrentSteps, storedInputKey, storedInputWith, storedResult, storedResultOf, type CaseInputs } from "./analysis.server";
+import { STEP_KEYS } from "~/domain/vocabulary";
+import { currentResultsOrQueue, storedInputKey, storedInputWith, storedResult, storedResultOf } from "./analysis.server";
+import { envelopeCasesWith, getCaseStepsDigest, getCaseStepsDigested, stepData } from "./case-steps.server";
+import { effectiveMasses } from "./masses.server";
 import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
 
 export { MAX_ROOT_ROWS } from "~/domain/results";
@@ -35,16 +38,41 @@ export type LoadsViewAnswer = { pending: true; cases: number; progress: SweepPro
 // is fixed by them, so an entry is never stale); a few hundred kB each at most.
 const ranked = new LRUCache<string, RankedRootLoads>({ max: 16 });
 
-/** Tests only: forget the ranked root loads read, as a web process that has read none yet. */
-export function forgetRankedForTests(): void {
-  ranked.clear();
-}
 
 // Mass case, kind and balance of the cases every view of one result lists (balancing solves the wing
-// at their Mach numbers), kept per content of the steps: `inputs` is the object fromCurrentSteps hands
-// out for exactly that content (the result, hence the listed cases, follow from it), so anything
-// written to a step gives a new one and the entry goes with the old.
-const listedInfo = new WeakMap<CaseInputs, LoadsPageInfo>();
+// at their Mach numbers), by case, result (input hash: the cases listed and their stored input) and
+// the digests of the steps they read besides (masses and loads; the envelope's rows of those cases),
+// so anything written to those steps gives a new key.
+const listedInfo = new LRUCache<string, LoadsPageInfo>({ max: 64 });
+const NOT_MASSES = STEP_KEYS.filter((k) => k !== "masses" && k !== "loads");
+const NOT_ENVELOPE = STEP_KEYS.filter((k) => k !== "envelope");
+
+/** Tests only: forget the ranked root loads and the listed cases' facts, as a web process that has read none yet. */
+export function forgetLoadsViewForTests(): void {
+  ranked.clear();
+  listedInfo.clear();
+}
+
+/**
+ * Mass case, kind and balance of the listed cases and of the current one: the masses in effect, the
+ * envelope's rows of only those cases and their stored input (both picked out by PostgreSQL), so a
+ * large envelope is neither received nor checked.
+ */
+async function listedCasesInfo(caseId: string, inputHash: string, listed: ReadonlySet<string>, current: string): Promise<LoadsPageInfo> {
+  const key = (masses: string, envelope: string) => `${caseId}\n${inputHash}\n${masses}\n${envelope}`;
+  const [massesDigest, envelopeDigest] = await Promise.all([getCaseStepsDigest(caseId, NOT_MASSES), getCaseStepsDigest(caseId, NOT_ENVELOPE)]);
+  let info = listedInfo.get(key(massesDigest, envelopeDigest));
+  if (info && listed.has(current)) return info;
+  const ids = info ? [current] : [...listed, current];
+  const [{ steps, digest }, envelope, stored] = await Promise.all([getCaseStepsDigested(caseId, NOT_MASSES), envelopeCasesWith(caseId, ids), storedInputWith(caseId, inputHash, ids)]);
+  // Stored in the same row as the ranked root loads just read.
+  if (!stored) throw new Error(`The stored result ${inputHash} of case ${caseId} has no input.`);
+  const masses = effectiveMasses({ masses: stepData(steps, "masses"), loads: stepData(steps, "loads") });
+  if (!info) listedInfo.set(key(digest, envelope.digest), (info = loadsPageInfo(stored.file, envelope.cases, masses, listed)));
+  if (listed.has(current)) return info;
+  const own = loadsPageInfo(stored.file, envelope.cases, masses, new Set([current]));
+  return { cases: { ...info.cases, ...own.cases }, balance: [...info.balance, ...own.balance] };
+}
 
 /**
  * The ranked root loads kept with the stored result for this input hash (rankedRootLoads), not the
@@ -90,22 +118,12 @@ export async function loadsView(caseId: string, title: string, actorId: string, 
     inputHash = answer.inputHash;
     loads = (await storedRootLoads(caseId, inputHash)) ?? rankedRootLoads(answer.result);
   }
-  // The critical case is kept whole with the ranked rows; another is picked out of the stored result.
-  const current = (requested && requested !== loads.critical.id ? await storedResultCase(caseId, inputHash, requested) : null) ?? loads.critical;
-  const { cases, envelope } = loads;
+  const { cases, envelope, critical } = loads;
   const listed = new Set([...cases.map((c) => c.id), ...envelope.flatMap((row) => Object.entries(row).filter(([k, v]) => k.endsWith("Case") && typeof v === "string").map(([, v]) => v as string))]);
-  // The steps as stored (not the case file built from them) and, of the stored input, the cases shown.
-  const inputs = await fromCurrentSteps("case-inputs", caseId, title, (i) => i);
-  let info = listedInfo.get(inputs);
-  if (!info || !listed.has(current.id)) {
-    const parsed = (await storedInputWith(caseId, inputHash, [...listed, current.id]))?.file;
-    // Stored in the same row as the ranked root loads just read.
-    if (!parsed) throw new Error(`The stored result ${inputHash} of case ${caseId} has no input.`);
-    if (!info) listedInfo.set(inputs, (info = loadsPageInfo(parsed, inputs, listed)));
-    if (!listed.has(current.id)) {
-      const own = loadsPageInfo(parsed, inputs, new Set([current.id]));
-      info = { cases: { ...info.cases, ...own.cases }, balance: [...info.balance, ...own.balance] };
-    }
-  }
+  // The critical case is kept whole with the ranked rows; another is picked out of the stored result
+  // while its facts are read (an id the result does not have gets none, and the critical case instead).
+  const wanted = requested || critical.id;
+  const [found, info] = await Promise.all([wanted === critical.id ? critical : storedResultCase(caseId, inputHash, wanted), listedCasesInfo(caseId, inputHash, listed, wanted)]);
+  const current = found ?? critical;
   return { pending: false, engine: loads.engine, inputHash, caseCount: loads.caseCount, envelope, cases, current, info };
 }

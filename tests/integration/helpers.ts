@@ -109,6 +109,23 @@ export async function queriesOf(work: () => Promise<unknown>): Promise<string[]>
   return sent;
 }
 
+/** The row values PostgreSQL sent while `work` runs, as text (before pg parses them: JSON, numbers…). */
+export async function rowFieldsOf(work: () => Promise<unknown>): Promise<string[]> {
+  const fields: string[] = [];
+  const query = pg.Query.prototype as unknown as { handleDataRow(msg: { fields: (string | null)[] }): void };
+  const handle = query.handleDataRow;
+  const spy = vi.spyOn(query, "handleDataRow").mockImplementation(function (this: unknown, msg) {
+    for (const field of msg.fields) if (field !== null) fields.push(field);
+    return handle.call(this, msg);
+  });
+  try {
+    await work();
+  } finally {
+    spy.mockRestore();
+  }
+  return fields;
+}
+
 /** Characters of the row values PostgreSQL sent while `work` runs (text, before pg parses them: JSON, numbers…). */
 export async function rowTextOf(work: () => Promise<unknown>): Promise<number> {
   let received = 0;

@@ -9,9 +9,9 @@ import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/loads";
 import { computeQueuedResults, forgetDerivedForTests } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
-import { forgetRankedForTests } from "~/services/loads-view.server";
+import { forgetLoadsViewForTests } from "~/services/loads-view.server";
 import * as masses from "~/services/masses.server";
-import { cookieFor, demoUser, request, rowTextOf, seed, routeArgs } from "./helpers";
+import { cookieFor, demoUser, request, rowFieldsOf, rowTextOf, seed, routeArgs } from "./helpers";
 
 // Every balance of trimmed cases goes through balanceRows: the cases it is handed are counted here.
 vi.mock("~/services/masses.server", async (importOriginal) => {
@@ -40,10 +40,10 @@ beforeAll(async () => {
 
 const get = async (path: string, loader: typeof loadsLoader) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
 
-/** A web process that has read nothing yet: no derived value, no ranked root loads. */
+/** A web process that has read nothing yet: no derived value, no ranked root loads, no facts of listed cases. */
 function freshProcess() {
   forgetDerivedForTests();
-  forgetRankedForTests();
+  forgetLoadsViewForTests();
 }
 
 /** Characters of the stored result's JSON text. */
@@ -62,6 +62,22 @@ describe("the loads view answers from the ranked root loads kept with the result
       // Before: the whole stored result (1 200 cases here, tens of MB for 100 000) sent by PostgreSQL to rank its root loads.
       expect(received, query).toBeLessThan(whole / 10);
     }
+  });
+
+  it("a fresh process receives the envelope's rows of the cases it lists, not the whole envelope", async () => {
+    freshProcess();
+    let view: { cases: { id: string }[]; info: { cases: Record<string, unknown> } } | undefined;
+    const fields = await rowFieldsOf(async () => {
+      view = await (await get(`/api/cases/${caseId}/loads`, loadsLoader)).json();
+    });
+    // Each envelope row carries its kind (the exchange input and the result do not): count the rows received.
+    const rows = fields.reduce((n, text) => n + (text.match(/"kind": ?"/g)?.length ?? 0), 0);
+    const named = Object.keys(view!.info.cases).length;
+    expect(named).toBeLessThan(CASES);
+    // Before: every step read whole for them (1 200 envelope rows here, 100 000 and 13 MB for the large case).
+    // (A few other values received may name a kind too.)
+    expect(rows).toBeGreaterThanOrEqual(named);
+    expect(rows).toBeLessThan(named + 5);
   });
 
   it("a result stored before the ranked root loads were kept has them made once, the same as kept at store time", async () => {
