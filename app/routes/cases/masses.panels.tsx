@@ -11,7 +11,8 @@ import type { PlanformData } from "~/domain/step-data";
 import { formatNumber, fromSI, roundForDisplay, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { massesOverview } from "~/services/masses.server";
 import type { FieldErrors } from "~/utils/form-data";
-import { fillKey, type MassesFormSchema } from "./masses.schema";
+import { fillKey } from "./masses.fill-key";
+import type { MassesFormSchema } from "./masses.schema";
 
 type MassesForm = ZodForm<typeof MassesFormSchema>;
 type Overview = ReturnType<typeof massesOverview>;

@@ -2,18 +2,8 @@ import { z } from "zod";
 import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
 import { BalanceSchema, MassCaseSchema, MassesSchema, MassItemSchema, type MassesData } from "~/domain/step-data";
 import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+import { fillKey, itemIdOfFillKey } from "./masses.fill-key";
 
-/**
- * Fill factors travel in the form keyed by item id; a form field name splits on ".", so the id's "."
- * and "+" (allowed in ids) are written "~d" and "~p" ("~" is not allowed in an id, so this is reversible).
- */
-export function fillKey(itemId: string): string {
-  return itemId.replace(/\./g, "~d").replace(/\+/g, "~p");
-}
-
-export function itemIdOfFillKey(key: string): string {
-  return key.replace(/~d/g, ".").replace(/~p/g, "+");
-}
 
 const text = (max: number) => z.string().max(max, `At most ${max} characters`).default("");
 

@@ -14,12 +14,16 @@ import { answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/masses";
 import { BalancePanel, ItemsPanel, MassCasesPanel, MassesDrawingPanel, MassRowErrors, SavedMassCasesPanel, StructurePanel } from "./masses.panels";
-import { MassesFormSchema, massesFormValues, massesToSI } from "./masses.schema";
 import { saveStepAnswer } from "./step-action.server";
+
+// The form's schema and conversions (zod and the step schemas) are imported on demand, here as in the
+// browser: the page answers its first click without them (useZodForm loads the schema once idle).
+// One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
+const massesForm = () => import("./masses.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readStepsOf(["basis", "planform", "masses", "loads"]);
+  const [steps, { massesFormValues }] = await Promise.all([readStepsOf(["basis", "planform", "masses", "loads"]), massesForm()]);
   const units = caseUnits(steps);
   const inputs = { basis: stepData(steps, "basis"), masses: stepData(steps, "masses"), loads: stepData(steps, "loads") };
   const masses = effectiveMasses(inputs);
@@ -38,6 +42,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
+  const { MassesFormSchema, massesToSI } = await massesForm();
   const parsed = await parseBody(request, MassesFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   return answer(async () => {
@@ -53,7 +58,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function MassesRoute({ loaderData, actionData }: Route.ComponentProps) {
   const { units, overview, planform } = loaderData;
-  const { form, onSubmit } = useZodForm(MassesFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => massesForm().then((m) => m.MassesFormSchema), { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useNavigation().state === "submitting";
   const server = actionData?.fieldErrors;
   const disabled = !loaderData.canEdit;

@@ -17,12 +17,16 @@ import { accepted, answer, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/sections";
 import { AileronPanel, FlapsPanel, previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
-import { SectionsFormSchema, sectionsFormValues, sectionsToSI } from "./sections.schema";
 import { saveStepAnswer } from "./step-action.server";
+
+// The form's schema and conversions (zod and the step schemas) are imported on demand, here as in the
+// browser: the page answers its first click without them (useZodForm loads the schema once idle).
+// One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
+const sectionsForm = () => import("./sections.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readStepsOf(["basis", "planform", "sections"]);
+  const [steps, { sectionsFormValues }] = await Promise.all([readStepsOf(["basis", "planform", "sections"]), sectionsForm()]);
   const saved = stepData(steps, "sections");
   const units = caseUnits(steps);
   return {
@@ -62,6 +66,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     if (error instanceof FormFieldError) return refused({ [error.field]: [error.message] });
     throw error;
   }
+  const { SectionsFormSchema, sectionsToSI } = await sectionsForm();
   const checked = SectionsFormSchema.safeParse(fields);
   if (!checked.success) return refused(fieldErrorsOf(checked.error));
   const input = checked.data;
@@ -78,7 +83,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function SectionsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const shown = useSettledAnswer(actionData);
-  const { form, onSubmit } = useZodForm(SectionsFormSchema, { intent: "save", revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => sectionsForm().then((m) => m.SectionsFormSchema), { intent: "save", revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
   const busy = useSaving();
   const saved = loaderData.saved;
   return (
