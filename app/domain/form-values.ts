@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { fromSI, toSI, type Quantity, type UnitSystem } from "./units";
+import { fromSI, tidy, toSI, type Quantity, type UnitSystem } from "./units";
 
 /** Text typed into a number field as a number: empty is "not given" (undefined), commas are decimal separators, text that is not a number stays text. */
 function typedNumber(v: unknown): unknown {
@@ -71,11 +71,6 @@ export function toSIKeepingShown<T extends Record<string, unknown>>(typed: T, un
     else if (Array.isArray(v) && Array.isArray(stored) && v.length === stored.length) out[key] = v.map((x, i) => (same(x, stored[i], q) ? stored[i] : (out[key] as unknown[])[i]));
   }
   return out as T;
-}
-
-/** Rounds a converted value for display in an input, so 1 ft shows as 0.3048, not 0.30480000000000002. */
-export function tidy(value: number): number {
-  return Number.parseFloat(value.toPrecision(10));
 }
 
 /**

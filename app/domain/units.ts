@@ -112,6 +112,11 @@ export function formatDecimal(value: number, max: number, min = 0, group = " "):
   return `${value < 0 || Object.is(value, -0) ? "-" : ""}${grouped}${fraction ? `.${fraction}` : ""}`;
 }
 
+/** Rounds a converted value for display in an input, so 1 ft shows as 0.3048, not 0.30480000000000002. */
+export function tidy(value: number): number {
+  return Number.parseFloat(value.toPrecision(10));
+}
+
 /** A count as en-GB writes it: "100,000". */
 export const formatCount = (n: number): string => formatDecimal(n, 0, 0, ",");
 

@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { convertFields, numberInput, numberListInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { convertFields, numberInput, numberListInput, optionalNumberInput } from "~/domain/form-values";
 import { BasisSchema, CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
-import type { Quantity, UnitSystem } from "~/domain/units";
+import { tidy, type Quantity, type UnitSystem } from "~/domain/units";
 
 // The stored basis's checks of signs and ratios hold in any unit, so the form says them too.
 const rule = BasisSchema.shape;

@@ -1,8 +1,8 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-values";
 import { EnvelopeSchema, LoadCaseSchema, type EnvelopeData } from "~/domain/step-data";
 import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/domain/vocabulary";
-import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 
 const G0 = 9.80665;
 

@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-values";
 import { BalanceSchema, MassCaseSchema, MassesSchema, MassItemSchema, type MassesData } from "~/domain/step-data";
-import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 import { fillKey, itemIdOfFillKey } from "./masses.fill-key";
 
 

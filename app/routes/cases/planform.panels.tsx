@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useRef } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { href, useFetcher } from "react-router";
 import { PlanformDrawing } from "~/components/case/planform-drawing";
 import { TextField } from "~/components/forms/field";
@@ -6,12 +6,19 @@ import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
-import { tidy } from "~/domain/form-values";
+import { whenIdle } from "~/components/ui/use-after-interactive";
 import { panelsToStations } from "~/domain/planform-panels";
-import { formatNumber, fromSI, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import { formatNumber, fromSI, tidy, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { FieldErrors } from "~/utils/form-data";
 import type { PlanformPreview } from "../api/planform-preview";
-import { PlanformFormSchema, planformToSI } from "./planform.schema";
+import type { PlanformFormSchema } from "./planform.schema";
+
+/**
+ * The form's schema and conversions (zod and the step schemas), imported on demand by the page, its
+ * live preview and the route alike: the page answers its first click without them. One way of
+ * importing the module everywhere keeps the dynamic import a real chunk boundary.
+ */
+export const planformForm = () => import("./planform.schema");
 
 type PlanformGeometry = Extract<PlanformPreview, { ok: true }>["geometry"];
 
@@ -68,11 +75,22 @@ export function useLivePreview(values: unknown, units: UnitSystem) {
   const fetcher = useFetcher<PlanformPreview>();
   const key = JSON.stringify(values);
   const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
+  // The preview waits for the schema, loaded when the browser is next idle after hydration.
+  const [schema, setSchema] = useState<Awaited<ReturnType<typeof planformForm>> | null>(null);
+  useEffect(() => {
+    let live = true;
+    const cancel = whenIdle(() => void planformForm().then((m) => live && setSchema(m)));
+    return () => {
+      live = false;
+      cancel();
+    };
+  }, []);
   // Keyed on the form's contents, not on the values object react-hook-form renews at every render.
   const body = useMemo(() => {
-    const parsed = PlanformFormSchema.safeParse(JSON.parse(key));
-    return parsed.success ? planformToSI(parsed.data, units) : null;
-  }, [key, units]);
+    if (!schema) return null;
+    const parsed = schema.PlanformFormSchema.safeParse(JSON.parse(key));
+    return parsed.success ? schema.planformToSI(parsed.data, units) : null;
+  }, [schema, key, units]);
   const { submit } = fetcher;
   useEffect(() => {
     if (!body) return;

@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { numberInput, tidy } from "~/domain/form-values";
+import { numberInput } from "~/domain/form-values";
 import { PlanformSchema, PlanformStationSchema, type PlanformData } from "~/domain/step-data";
-import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 
 // The stored planform's checks that hold in any length unit (sign, degrees, chord fraction), said in the form too.
 const station = PlanformStationSchema.shape;

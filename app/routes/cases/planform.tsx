@@ -15,13 +15,12 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/planform";
-import { DrawingPanel, GeometryPanel, PanelEntryPanel, StationsPanel, useLivePreview } from "./planform.panels";
-import { PlanformFormSchema, planformFormValues, planformToSI } from "./planform.schema";
+import { DrawingPanel, GeometryPanel, PanelEntryPanel, planformForm, StationsPanel, useLivePreview } from "./planform.panels";
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
-  const steps = await readStepsOf(["basis", "planform"]);
+  const [steps, { planformFormValues }] = await Promise.all([readStepsOf(["basis", "planform"]), planformForm()]);
   const units = caseUnits(steps);
   const saved = stepData(steps, "planform");
   return {
@@ -42,6 +41,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
+  const { PlanformFormSchema, planformToSI } = await planformForm();
   const parsed = await parseBody(request, PlanformFormSchema, { maxRows: MAX_PLANFORM_STATIONS });
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const units = caseUnits(await readSteps());
@@ -53,7 +53,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 export default function PlanformRoute({ loaderData, actionData }: Route.ComponentProps) {
   const shown = useSettledAnswer(actionData);
   const { units, saved } = loaderData;
-  const { form, onSubmit } = useZodForm(PlanformFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => planformForm().then((m) => m.PlanformFormSchema), { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useSaving();
   const server = shown?.fieldErrors;
   const preview = useLivePreview(form.watch(), units);

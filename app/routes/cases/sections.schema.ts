@@ -1,8 +1,8 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput, tidy } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-values";
 import { SectionRowSchema, type PlanformData, type SectionsData } from "~/domain/step-data";
 import { keepRicherData } from "~/domain/section-csv";
-import { fromSI, toSI, type UnitSystem } from "~/domain/units";
+import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 
 // The stored row's checks of the section coefficients (no unit to convert), said in the form too.
 const row = SectionRowSchema.shape;
