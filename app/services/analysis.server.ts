@@ -257,7 +257,38 @@ export async function resultsFor(
     .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, documentBr, computedBy: actorId })
     .returning();
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
+  await pruneResults(caseId, row!.id, database);
   return { result, inputHash, computedAt: row!.computedAt };
+}
+
+/**
+ * Drops the case's stored results that nothing asks for any more, as a new one is stored: a result
+ * of a large case is megabytes, and every saved step used to leave one behind. Kept: the result just
+ * stored, those of the inputs its steps make now (as recorded against their digest, either scope),
+ * and those stored since its steps were last written (inputs of the current steps built without being
+ * recorded, as a report's snapshot builds them), by the running engine; of these, one row per input.
+ * An issued report keeps its own evidence (input, result and documents in its snapshot, from which it
+ * is re-run), so its input's row is not kept for it. The records of inputs whose result goes and that
+ * the steps no longer make go with them (pruneInputs).
+ */
+async function pruneResults(caseId: string, stored: string, database: Db | Tx = db): Promise<void> {
+  const [row] = await database.select({ title: cases.title }).from(cases).where(eq(cases.id, caseId));
+  if (!row) return;
+  const current = await currentSources(caseId, row.title);
+  await database.execute(sql`
+    delete from ${caseResults} r
+    where r.case_id = ${caseId} and r.id <> ${stored}
+      and (
+        not (
+          r.engine_version = ${ENGINE_VERSION}
+          and (
+            r.input_hash in (select i.input_hash from ${resultInputs} i where i.case_id = r.case_id and i.engine_version = r.engine_version and i.source = any(${sql.param(current)}::text[]))
+            or r.computed_at >= coalesce((select max(s.updated_at) from case_steps s where s.case_id = r.case_id), '-infinity')
+          )
+        )
+        or exists (select 1 from ${caseResults} n where n.case_id = r.case_id and n.input_hash = r.input_hash and n.engine_version = r.engine_version and (n.id = ${stored} or (n.computed_at, n.id) > (r.computed_at, r.id)))
+      )`);
+  await pruneInputs(caseId, row.title, database);
 }
 
 /** The rows of case_results that hold the case's result for this input hash by the running engine. */
@@ -457,6 +488,12 @@ function buildInput(title: string, inputs: CaseInputs, scope: InputScope): Analy
 /** What names an input's source in result_inputs: its scope, the case's title and the digest of the steps it reads. */
 const sourceOf = (scope: InputScope, title: string, digest: string) => sha256Hex(`${scope}\n${title}\n${digest}`);
 
+/** What names the inputs the case's steps make now, of both scopes (sourceOf). */
+function currentSources(caseId: string, title: string): Promise<string[]> {
+  const scopes: InputScope[] = ["envelope", "final"];
+  return Promise.all(scopes.map(async (scope) => sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope]))));
+}
+
 /** Records which input these steps make (once; the same steps always make the same input under one engine version). */
 async function rememberInput(caseId: string, title: string, source: string, key: InputKey, database: Db | Tx = db): Promise<void> {
   const [added] = await database.insert(resultInputs).values({ caseId, source, engineVersion: ENGINE_VERSION, ...key }).onConflictDoNothing().returning({ source: resultInputs.source });
@@ -470,8 +507,7 @@ async function rememberInput(caseId: string, title: string, source: string, key:
  * current steps' records, whether solved, being solved or refused.
  */
 async function pruneInputs(caseId: string, title: string, database: Db | Tx = db): Promise<void> {
-  const scopes: InputScope[] = ["envelope", "final"];
-  const current = await Promise.all(scopes.map(async (scope) => sourceOf(scope, title, await getCaseStepsDigest(caseId, UNREAD[scope]))));
+  const current = await currentSources(caseId, title);
   await database.delete(resultInputs).where(
     and(
       eq(resultInputs.caseId, caseId),
