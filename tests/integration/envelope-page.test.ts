@@ -1,0 +1,51 @@
+import { and, eq, sql } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { caseSteps } from "~/db/schema";
+import { stopBoss } from "~/jobs/boss.server";
+import { loader as envelopeLoader } from "~/routes/cases/envelope";
+import { request, rowTextOf, run, seededDemoCase } from "./helpers";
+
+// The envelope page of the demo case (228 load cases, every one on the page): its cases are read and
+// checked once per content of the step, not on every request, and a write of the step is seen at once.
+
+let caseId = "";
+let cookie = "";
+
+beforeAll(async () => {
+  ({ caseId, cookie } = await seededDemoCase());
+}, 120_000);
+
+afterAll(async () => {
+  await stopBoss();
+});
+
+type Page = { revision: number; values: { cases: { id: string; altitude: string }[] } };
+const page = async () => {
+  let body: Page | undefined;
+  const received = await rowTextOf(async () => {
+    const res = await run(envelopeLoader as never, { request: request(`/cases/${caseId}/envelope`, { cookie }), params: { caseId } });
+    expect(res.status).toBe(200);
+    body = res.body as Page;
+  });
+  return { body: body!, received };
+};
+const storedText = async () => (await db.execute<{ n: number }>(sql`select length(data::text) as n from case_steps where case_id = ${caseId} and step = 'envelope'`)).rows[0]!.n;
+
+describe("the envelope page's load cases", () => {
+  it("are read once per content of the step: a second request receives none of them, and a write is seen at once", async () => {
+    const first = await page();
+    expect(first.body.values.cases.length).toBe(228);
+    const second = await page();
+    expect(second.body).toEqual(first.body);
+    // Before: every request received the step's 228 cases (and checked them with the step's schema).
+    expect(second.received).toBeLessThan((await storedText()) / 10);
+    // A write by any path (here straight into the table) changes the digest: the next request reads it.
+    await db.execute(sql`update case_steps set data = jsonb_set(data, '{cases,0,altitude}', '4321') where case_id = ${caseId} and step = 'envelope'`);
+    const third = await page();
+    const [stored] = await db.select({ data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "envelope")));
+    expect((stored!.data as { cases: { altitude: number }[] }).cases[0]!.altitude).toBe(4321);
+    expect(third.body.values.cases[0]!.altitude).not.toBe(first.body.values.cases[0]!.altitude);
+    expect(third.received).toBeGreaterThan((await storedText()) / 2);
+  });
+});
