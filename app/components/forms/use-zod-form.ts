@@ -54,12 +54,34 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
   return { form, onSubmit };
 }
 
-/** The resolver of a schema given as it is, or as a function that imports it (then loaded once, on first use or `preload`). */
+/**
+ * The resolver of a schema given as it is, or as a function that imports it (then loaded once, on
+ * first use or `preload`; a failed load is tried again at the next check). A schema that cannot be
+ * loaded (the connection dropped, a newer version of the app deployed) checks nothing in the
+ * browser: the form posts what was typed, and the action checks it with the same schema.
+ */
 function resolverOf<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input> | (() => Promise<z.ZodType<Output, Input>>)): { resolver: Resolver<Input, unknown, Output>; preload?: () => void } {
   if (typeof schema !== "function") return { resolver: zodResolver(schema) };
   let loaded: Promise<Resolver<Input, unknown, Output>> | undefined;
-  const load = () => (loaded ??= schema().then((s) => zodResolver(s)));
-  return { resolver: async (values, context, options) => (await load())(values, context, options), preload: () => void load() };
+  const load = () =>
+    (loaded ??= schema().then(
+      (s) => zodResolver(s),
+      (error: unknown) => {
+        loaded = undefined;
+        throw error;
+      },
+    ));
+  const resolver: Resolver<Input, unknown, Output> = async (values, context, options) => {
+    let check: Resolver<Input, unknown, Output>;
+    try {
+      check = await load();
+    } catch {
+      // The form's posted body is built from its controls (formBody), not from these values.
+      return { values: values as unknown as Output, errors: {} };
+    }
+    return check(values, context, options);
+  };
+  return { resolver, preload: () => void load().catch(() => undefined) };
 }
 
 /**
