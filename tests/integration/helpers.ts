@@ -128,19 +128,7 @@ export async function rowFieldsOf(work: () => Promise<unknown>): Promise<string[
 
 /** Characters of the row values PostgreSQL sent while `work` runs (text, before pg parses them: JSON, numbers…). */
 export async function rowTextOf(work: () => Promise<unknown>): Promise<number> {
-  let received = 0;
-  const query = pg.Query.prototype as unknown as { handleDataRow(msg: { fields: (string | null)[] }): void };
-  const handle = query.handleDataRow;
-  const spy = vi.spyOn(query, "handleDataRow").mockImplementation(function (this: unknown, msg) {
-    for (const field of msg.fields) received += field?.length ?? 0;
-    return handle.call(this, msg);
-  });
-  try {
-    await work();
-  } finally {
-    spy.mockRestore();
-  }
-  return received;
+  return (await rowFieldsOf(work)).reduce((sum, field) => sum + field.length, 0);
 }
 
 /** Of those, the reads of the steps' data column itself (a digest of it is md5("data"::text)). */
