@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "./vocabulary";
+import { CATEGORIES, COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "./vocabulary";
 
 /**
  * What each step of a case stores, in SI units (m, kg, N, m/s EAS, degrees). These schemas are the
@@ -19,26 +19,6 @@ export const MAX_STORED_STATION_ROWS = 500_000;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be positive` });
-
-export const CATEGORIES = ["part25", "part23-normal", "part23-utility", "part23-acrobatic", "part23-commuter"] as const;
-export type Category = (typeof CATEGORIES)[number];
-
-export const CATEGORY_LABELS: Record<Category, string> = {
-  part25: "Transport category aeroplane (14 CFR Part 25 / CS-25)",
-  "part23-normal": "Normal category small aeroplane (14 CFR Part 23 before amendment 23-64 / CS-23)",
-  "part23-utility": "Utility category small aeroplane (14 CFR Part 23 / CS-23)",
-  "part23-acrobatic": "Acrobatic category small aeroplane (14 CFR Part 23 / CS-23)",
-  "part23-commuter": "Commuter category aeroplane (14 CFR Part 23 / CS-23)",
-};
-
-/** The regulation references a basis starts with; the engineer edits them to the agreed basis. */
-export const DEFAULT_REGULATIONS: Record<Category, string> = {
-  part25: "14 CFR 25.301, 25.303, 25.321, 25.333, 25.335, 25.337, 25.341(a)",
-  "part23-normal": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
-  "part23-utility": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
-  "part23-acrobatic": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
-  "part23-commuter": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
-};
 
 export const BasisSchema = z
   .object({

@@ -94,3 +94,24 @@ export const SPANWISE_LABELS: Record<(typeof SPANWISE_METHODS)[number], string> 
   "vortex-lattice": "Vortex lattice",
   "lifting-line": "Lifting line (quarter-chord sweep up to 15°)",
 };
+
+/** The certification categories a basis may name (the zod schemas of the steps take them from here). */
+export const CATEGORIES = ["part25", "part23-normal", "part23-utility", "part23-acrobatic", "part23-commuter"] as const;
+export type Category = (typeof CATEGORIES)[number];
+
+export const CATEGORY_LABELS: Record<Category, string> = {
+  part25: "Transport category aeroplane (14 CFR Part 25 / CS-25)",
+  "part23-normal": "Normal category small aeroplane (14 CFR Part 23 before amendment 23-64 / CS-23)",
+  "part23-utility": "Utility category small aeroplane (14 CFR Part 23 / CS-23)",
+  "part23-acrobatic": "Acrobatic category small aeroplane (14 CFR Part 23 / CS-23)",
+  "part23-commuter": "Commuter category aeroplane (14 CFR Part 23 / CS-23)",
+};
+
+/** The regulation references a basis starts with; the engineer edits them to the agreed basis. */
+export const DEFAULT_REGULATIONS: Record<Category, string> = {
+  part25: "14 CFR 25.301, 25.303, 25.321, 25.333, 25.335, 25.337, 25.341(a)",
+  "part23-normal": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-utility": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-acrobatic": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+  "part23-commuter": "14 CFR 23.301, 23.303, 23.321, 23.333, 23.335, 23.337, 23.341",
+};

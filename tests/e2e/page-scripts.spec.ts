@@ -18,6 +18,7 @@ async function preloadedScripts(page: Page, path: string): Promise<{ href: strin
 
 // Each page with a field whose check needs the schema: a value it refuses, and what it says.
 const PAGES = [
+  { step: "basis", field: "Max take-off", typed: "heavy", says: "Maximum design take-off weight must be a number" },
   { step: "envelope", field: "Output stations per semispan", typed: "3", says: "At least 8 stations" },
   { step: "planform", field: "Reference axis at root [chord fraction]", typed: "abc", says: "Reference axis at the root must be a number" },
   { step: "sections", field: null, typed: "", says: "" },

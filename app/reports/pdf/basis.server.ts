@@ -1,5 +1,4 @@
-import { CATEGORY_LABELS } from "~/domain/step-data";
-import { RULE_LABELS, SPANWISE_LABELS } from "~/domain/vocabulary";
+import { CATEGORY_LABELS, RULE_LABELS, SPANWISE_LABELS } from "~/domain/vocabulary";
 import { formatNumber, unitsStatement } from "~/domain/units";
 import type { Section } from "./layout.server";
 

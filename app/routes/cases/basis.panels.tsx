@@ -2,10 +2,12 @@ import type { z } from "zod";
 import { SelectField, TextAreaField, TextField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { Panel } from "~/components/ui/page-header";
-import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
+import type { BasisData } from "~/domain/step-data";
+import { CATEGORIES, CATEGORY_LABELS, DEFAULT_REGULATIONS } from "~/domain/vocabulary";
 import { convertTyped } from "~/domain/form-values";
 import { unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
-import { BASIS_QUANTITIES, type BasisFormSchema } from "./basis.schema";
+import { BASIS_QUANTITIES } from "./basis.quantities";
+import type { BasisFormSchema } from "./basis.schema";
 import type { BasisCheck } from "~/services/basis.server";
 import type { FieldErrors } from "~/utils/form-data";
 

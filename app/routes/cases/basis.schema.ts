@@ -1,7 +1,10 @@
 import { z } from "zod";
-import { convertFields, numberInput, numberListInput, optionalNumberInput } from "~/domain/form-values";
-import { BasisSchema, CATEGORIES, DEFAULT_REGULATIONS, type BasisData } from "~/domain/step-data";
-import { tidy, type Quantity, type UnitSystem } from "~/domain/units";
+import { numberInput, numberListInput, optionalNumberInput } from "~/domain/form-inputs";
+import { convertFields } from "~/domain/form-values";
+import { BasisSchema, type BasisData } from "~/domain/step-data";
+import { CATEGORIES, DEFAULT_REGULATIONS } from "~/domain/vocabulary";
+import { tidy, type UnitSystem } from "~/domain/units";
+import { BASIS_QUANTITIES } from "./basis.quantities";
 
 // The stored basis's checks of signs and ratios hold in any unit, so the form says them too.
 const rule = BasisSchema.shape;
@@ -30,21 +33,6 @@ export const BasisFormSchema = z.strictObject({
   clMaxFlaps: optionalNumberInput("CLmax with flaps", rule.clMaxFlaps.unwrap()),
 });
 
-export const BASIS_QUANTITIES = {
-  mtow: "mass",
-  mzfw: "mass",
-  minWeight: "mass",
-  vs1: "speed",
-  va: "speed",
-  vb: "speed",
-  mlw: "mass",
-  zmo: "altitude",
-  vc: "speed",
-  vd: "speed",
-  vf: "speed",
-  altitudes: "altitude",
-  wingArea: "area",
-} as const satisfies Record<string, Quantity>;
 
 /** The saved basis as the form shows it, in its display units; a blank basis starts from the transport category's references and no numbers. */
 export function basisFormValues(saved: BasisData | null) {

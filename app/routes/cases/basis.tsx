@@ -19,14 +19,20 @@ import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/basis";
 import { BasisChecksPanel, BasisFlapsPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel } from "./basis.panels";
-import { BASIS_QUANTITIES, basisFormValues, BasisFormSchema } from "./basis.schema";
+import { BASIS_FIELDS, BASIS_QUANTITIES } from "./basis.quantities";
 import { saveStepAnswer } from "./step-action.server";
+
+// The form's schema (zod and the step schemas) is imported on demand, here as in the browser: the
+// page answers its first click without it (useZodForm loads the schema once idle). One way of
+// importing the module on both sides keeps the dynamic import a real chunk boundary.
+const basisForm = () => import("./basis.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c, readStepsOf } = await requireCase({ request, context }, params.caseId, "case:read");
   // The envelope's method only (its first row checks it), not its load cases.
   const [steps, envelope] = await Promise.all([readStepsOf(["basis", "planform", "sections"]), envelopeOutline(c.id, { first: 1, whole: 0 })]);
   const saved = stepData(steps, "basis");
+  const { basisFormValues } = await basisForm();
   return {
     caseId: c.id,
     revision: steps.basis.revision,
@@ -41,6 +47,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
+  const { BasisFormSchema } = await basisForm();
   const parsed = await parseBody(request, BasisFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const { revision, ...typed } = parsed.value;
@@ -52,14 +59,14 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function BasisRoute({ loaderData, actionData }: Route.ComponentProps) {
   const shown = useSettledAnswer(actionData);
-  const { form, onSubmit } = useZodForm(BasisFormSchema, { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => basisForm().then((m) => m.BasisFormSchema), { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useSaving();
   const fields = { form, server: shown?.fieldErrors, units: form.watch("units") ?? "SI", saved: loaderData.saved };
   return (
     <>
       <PageHeader title="Basis" description="The certification basis of the case: the rules that apply, weights, design speeds (equivalent airspeed) and altitudes." />
       <UnsavedGuard dirty={form.formState.isDirty && !shown?.ok} />
-      <StepAnswer answer={shown} inline={Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision")} />
+      <StepAnswer answer={shown} inline={BASIS_FIELDS} />
       <Form method="post" onSubmit={onSubmit} noValidate>
         <input type="hidden" {...form.register("revision")} />
         <fieldset disabled={!loaderData.canEdit || busy} className="grid grid-cols-1 gap-5 xl:grid-cols-2">

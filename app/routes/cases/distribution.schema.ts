@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput } from "~/domain/form-values";
+import { numberInput } from "~/domain/form-inputs";
 import { FLAG_REASONS } from "~/domain/results";
 import { MAX_LOAD_CASES } from "~/domain/step-data";
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-inputs";
 import { EnvelopeSchema, LoadCaseSchema, type EnvelopeData } from "~/domain/step-data";
 import { COMPRESSIBILITY_RULES, SPANWISE_METHODS } from "~/domain/vocabulary";
 import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";

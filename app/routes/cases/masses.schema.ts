@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-inputs";
 import { BalanceSchema, MassCaseSchema, MassesSchema, MassItemSchema, type MassesData } from "~/domain/step-data";
 import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 import { fillKey, itemIdOfFillKey } from "./masses.fill-key";

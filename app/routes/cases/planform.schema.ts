@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput } from "~/domain/form-values";
+import { numberInput } from "~/domain/form-inputs";
 import { PlanformSchema, PlanformStationSchema, type PlanformData } from "~/domain/step-data";
 import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { numberInput, optionalNumberInput } from "~/domain/form-values";
+import { numberInput, optionalNumberInput } from "~/domain/form-inputs";
 import { SectionRowSchema, type PlanformData, type SectionsData } from "~/domain/step-data";
 import { keepRicherData } from "~/domain/section-csv";
 import { fromSI, tidy, toSI, type UnitSystem } from "~/domain/units";

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { z } from "zod";
+import { BASIS_FIELDS, BASIS_QUANTITIES } from "./basis.quantities";
 import { BasisFormSchema } from "./basis.schema";
 import { EnvelopeFormSchema } from "./envelope.schema";
 import { MassesFormSchema } from "./masses.schema";
@@ -102,5 +103,12 @@ describe("the step forms say the rule a number breaks, naming the field", () => 
     expect(messages(EnvelopeFormSchema, { ...form, casesCount: "228" })).toEqual({ cases: ["The page sent 2 of its 228 load cases (it had not finished loading); nothing was saved: save again."] });
     // Generating and saving the method do not read the rows.
     expect(messages(EnvelopeFormSchema, { ...form, intent: "method", casesCount: "228" })).toEqual({});
+  });
+});
+
+describe("the basis page's field lists, kept apart from its schema so the page answers a click without zod", () => {
+  it("name exactly the schema's fields (revision aside), and only those carry units", () => {
+    expect([...BASIS_FIELDS].sort()).toEqual(Object.keys(BasisFormSchema.shape).filter((k) => k !== "revision").sort());
+    for (const key of Object.keys(BASIS_QUANTITIES)) expect(BASIS_FIELDS).toContain(key);
   });
 });
