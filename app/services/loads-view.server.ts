@@ -11,8 +11,6 @@ import { envelopeCasesWith, getCaseStepsDigest, getCaseStepsDigested, stepData }
 import { effectiveMasses } from "./masses.server";
 import { loadsPageInfo, type LoadsPageInfo } from "./case-loads.server";
 
-export { MAX_ROOT_ROWS } from "~/domain/results";
-
 /**
  * What the loads page shows of a case's results, whatever the number of cases: the envelope by
  * station, the root loads of the cases (all of them up to MAX_ROOT_ROWS, else the most critical by
@@ -37,7 +35,6 @@ export type LoadsViewAnswer = { pending: true; cases: number; progress: SweepPro
 // The ranked root loads kept with each stored result, by case, input hash and engine version (a result
 // is fixed by them, so an entry is never stale); a few hundred kB each at most.
 const ranked = new LRUCache<string, RankedRootLoads>({ max: 16 });
-
 
 // Mass case, kind and balance of the cases every view of one result lists (balancing solves the wing
 // at their Mach numbers), by case, result (input hash: the cases listed and their stored input) and

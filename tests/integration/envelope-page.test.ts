@@ -1,10 +1,9 @@
 import { and, eq, sql } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { caseSteps } from "~/db/schema";
-import { stopBoss } from "~/jobs/boss.server";
 import { loader as envelopeLoader } from "~/routes/cases/envelope";
-import { request, rowTextOf, run, seededDemoCase } from "./helpers";
+import { request, rowTextOf, run, withSeededDemoCase } from "./helpers";
 
 // The envelope page of the demo case (228 load cases, every one on the page): its cases are read and
 // checked once per content of the step, not on every request, and a write of the step is seen at once.
@@ -12,13 +11,7 @@ import { request, rowTextOf, run, seededDemoCase } from "./helpers";
 let caseId = "";
 let cookie = "";
 
-beforeAll(async () => {
-  ({ caseId, cookie } = await seededDemoCase());
-}, 120_000);
-
-afterAll(async () => {
-  await stopBoss();
-});
+withSeededDemoCase((demo) => ({ caseId, cookie } = demo));
 
 type Page = { revision: number; values: { cases: { id: string; altitude: string }[] } };
 const page = async () => {

@@ -1,10 +1,11 @@
 import pg from "pg";
-import { vi } from "vitest";
+import { afterAll, beforeAll, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { eq } from "drizzle-orm";
 import { auditLog, cases, caseSteps, stepRevisions } from "~/db/schema";
 import { DEMO_CASE_INPUTS, DEMO_USERS, type DemoUser } from "~/demo/scenario";
 import { seedDemo } from "~/demo/seed.server";
+import { stopBoss } from "~/jobs/boss.server";
 import { RouterContextProvider } from "react-router";
 import { signInWithPassword } from "~/auth/auth.server";
 import { requestReads, type RequestScope } from "~/auth/request-context.server";
@@ -22,6 +23,12 @@ export async function seededDemoCase(label: DemoUser["label"] = "engineer"): Pro
   await seed();
   const [c] = await db.select({ id: cases.id }).from(cases).where(eq(cases.reference, "TN-WL-001"));
   return { caseId: c!.id, cookie: await cookieFor(label) };
+}
+
+/** For a whole test file: the seeded demo case and a signed-in cookie handed to `set` before the tests, the job queue stopped after them. */
+export function withSeededDemoCase(set: (demo: { caseId: string; cookie: string }) => void, label: DemoUser["label"] = "engineer"): void {
+  beforeAll(async () => set(await seededDemoCase(label)), 120_000);
+  afterAll(stopBoss);
 }
 
 export function demoUser(label: DemoUser["label"]): DemoUser {

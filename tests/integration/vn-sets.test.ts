@@ -1,11 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { describe, expect, it, vi } from "vitest";
 import * as engine from "~/engine";
-import { stopBoss } from "~/jobs/boss.server";
 import { loader as envelopeLoader } from "~/routes/cases/envelope";
 import { caseInputs } from "~/services/analysis.server";
 import { getCaseSteps } from "~/services/case-steps.server";
 import { vnSets } from "~/services/envelope.server";
-import { request, run, seededDemoCase } from "./helpers";
+import { request, run, withSeededDemoCase } from "./helpers";
 
 // Every spanwise solve goes through the engine's solveMach: counted here, so the test sees what the
 // V–n page's loader does on each request (issue 10 item 8: the envelope page answers fast).
@@ -18,13 +17,7 @@ const solves = () => vi.mocked(engine.solveMach).mock.calls.length;
 let caseId = "";
 let cookie = "";
 
-beforeAll(async () => {
-  ({ caseId, cookie } = await seededDemoCase());
-}, 120_000);
-
-afterAll(async () => {
-  await stopBoss();
-});
+withSeededDemoCase((demo) => ({ caseId, cookie } = demo));
 
 describe("the V–n diagrams are worked out once per content of their inputs", () => {
   it("a second request of the V–n page solves nothing and shows the same diagrams", async () => {
