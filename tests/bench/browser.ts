@@ -335,6 +335,141 @@ async function measurePages(browser: Browser, storageState: Awaited<ReturnType<B
 const caseTargets = (caseId: string): Target[] => PAGES.map((p) => ({ key: p.key, url: `${ORIGIN}/cases/${caseId}${p.path}` }));
 
 // ---------------------------------------------------------------------------------------------
+// The visits a person makes once the app is known to the browser: a return visit (the page loaded
+// again with the browser's cache and compiled code from earlier visits) and a step opened from the
+// case's rail (React Router fetches the page's data and code and renders it in the same document)
+
+interface VisitRun {
+  /** Navigation start (return) or the link's mousedown (link) until a click on the new page's heading is handled. */
+  ttiMs: number;
+  /** Bytes on the wire from that moment until the click. */
+  bytes: number;
+  requests: number;
+}
+
+/** In the page, before the link is pressed: resolves with the new heading's centre once the new route shows. */
+const linkProbe = (pathname: string) => `(() => {
+  const old = document.querySelector("main h1");
+  const bench = (window.__visit = { pressed: null, shown: null, clicked: null });
+  document.addEventListener("mousedown", () => { if (bench.pressed === null) bench.pressed = performance.now(); }, { capture: true, once: true });
+  bench.ready = new Promise((resolve) => {
+    const look = () => {
+      const h = document.querySelector("main h1");
+      if (location.pathname === ${JSON.stringify(pathname)} && h && h !== old) {
+        bench.shown = performance.now();
+        const r = h.getBoundingClientRect();
+        resolve({ x: r.x + r.width / 2, y: r.y + r.height / 2 });
+      } else requestAnimationFrame(look);
+    };
+    requestAnimationFrame(look);
+  });
+  bench.clickedAt = bench.ready.then(() => new Promise((resolve) => {
+    document.addEventListener("click", () => resolve((bench.clicked = performance.now())), { capture: true, once: true });
+  }));
+  const a = document.querySelector('a[href=' + JSON.stringify(${JSON.stringify(pathname)}) + ']');
+  if (!a) return null;
+  a.scrollIntoView({ block: "center" });
+  const r = a.getBoundingClientRect();
+  return { x: r.x + r.width / 2, y: r.y + r.height / 2 };
+})()`;
+
+async function clickAt(cdp: CDPSession, at: { x: number; y: number }) {
+  await cdp.send("Input.dispatchMouseEvent", { type: "mousePressed", x: at.x, y: at.y, button: "left", clickCount: 1 });
+  await cdp.send("Input.dispatchMouseEvent", { type: "mouseReleased", x: at.x, y: at.y, button: "left", clickCount: 1 });
+}
+
+async function evaluate<T>(cdp: CDPSession, expression: string): Promise<T> {
+  const r = (await cdp.send("Runtime.evaluate", { expression, awaitPromise: true, returnByValue: true })) as { result: { value?: T }; exceptionDetails?: { text: string } };
+  if (r.exceptionDetails) throw new Error(`in the page: ${r.exceptionDetails.text}`);
+  return r.result.value as T;
+}
+
+/** Loads a page until it has hydrated (not measured). */
+async function loadHydrated(page: Page, url: string) {
+  await page.goto(url, { timeout: SETTLE_LIMIT_MS });
+  await page.waitForSelector("html[data-hydrated]", { state: "attached", timeout: SETTLE_LIMIT_MS });
+}
+
+/** Counts the bytes and requests of a CDP session from now on. */
+function countTraffic(cdp: CDPSession) {
+  const t = { bytes: 0, requests: 0 };
+  cdp.on("Network.requestWillBeSent", () => void t.requests++);
+  cdp.on("Network.loadingFinished", (e) => void (t.bytes += e.encodedDataLength));
+  return t;
+}
+
+async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, target: Target, visit: "return" | "link", fromUrl: string): Promise<VisitRun> {
+  const context = await browser.newContext({ storageState, viewport: { width: 1280, height: 800 } });
+  try {
+    if (visit === "return") {
+      // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code.
+      const before = await context.newPage();
+      await loadHydrated(before, fromUrl);
+      await loadHydrated(before, target.url);
+      await loadHydrated(before, target.url);
+      await before.close();
+      const page = await context.newPage();
+      await page.addInitScript(pageProbe("marker"));
+      const cdp = await context.newCDPSession(page);
+      await cdp.send("Network.enable");
+      const traffic = countTraffic(cdp);
+      const probe = await interactive(page, cdp, target.url);
+      return { ttiMs: probe.clicked, ...traffic };
+    }
+    // From the case overview (or, for the overview itself, the basis page), its code and data loaded and settled.
+    const page = await context.newPage();
+    await loadHydrated(page, fromUrl);
+    await page.waitForLoadState("networkidle", { timeout: SETTLE_LIMIT_MS });
+    const cdp = await context.newCDPSession(page);
+    await cdp.send("Network.enable");
+    const traffic = countTraffic(cdp);
+    const link = await evaluate<{ x: number; y: number } | null>(cdp, linkProbe(new URL(target.url).pathname));
+    if (!link) throw new Error(`${fromUrl}: no link to ${target.url}`);
+    await clickAt(cdp, link);
+    const heading = await evaluate<{ x: number; y: number }>(cdp, "window.__visit.ready");
+    await clickAt(cdp, heading);
+    const seen = await evaluate<{ pressed: number; clicked: number }>(cdp, "window.__visit.clickedAt.then(() => ({ pressed: window.__visit.pressed, clicked: window.__visit.clicked }))");
+    return { ttiMs: seen.clicked - seen.pressed, ...traffic };
+  } finally {
+    await context.close();
+  }
+}
+
+interface VisitFigures {
+  key: string;
+  returnMs: number;
+  returnKiB: number;
+  linkMs: number;
+  linkKiB: number;
+  linkRequests: number;
+}
+
+async function measureVisits(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, targets: Target[], label: string): Promise<VisitFigures[]> {
+  const out: VisitFigures[] = [];
+  const overview = targets.find((t) => t.key === "overview")?.url ?? targets[0]!.url.replace(/\/[a-z]+$/, "");
+  for (const t of targets) {
+    const from = t.key === "overview" ? `${overview}/basis` : overview;
+    const returns: VisitRun[] = [];
+    const links: VisitRun[] = [];
+    for (let i = 0; i < ROUNDS; i++) {
+      returns.push(await measureVisit(browser, storageState, t, "return", from));
+      links.push(await measureVisit(browser, storageState, t, "link", from));
+    }
+    const f: VisitFigures = {
+      key: t.key,
+      returnMs: median(returns.map((r) => r.ttiMs)),
+      returnKiB: median(returns.map((r) => r.bytes)) / 1024,
+      linkMs: median(links.map((r) => r.ttiMs)),
+      linkKiB: median(links.map((r) => r.bytes)) / 1024,
+      linkRequests: median(links.map((r) => r.requests)),
+    };
+    say(`${label} ${t.key}: return visit interactive ${f.returnMs.toFixed(0)} ms (${f.returnKiB.toFixed(0)} KiB); from the rail ${f.linkMs.toFixed(0)} ms (${f.linkKiB.toFixed(0)} KiB in ${f.linkRequests} requests) (load ${loadAverage()})`);
+    out.push(f);
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
 // The peer page: what any page of the framework costs in this browser on this machine
 
 const PEER_PORT = BASE + 10;
@@ -406,7 +541,7 @@ async function waitForResults(context: BrowserContext, caseId: string) {
 // ---------------------------------------------------------------------------------------------
 // Report
 
-function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], info: { demoCases: number; startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
+function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], demoVisits: VisitFigures[], largeVisits: VisitFigures[], info: { demoCases: number; startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
   const cpu = os.cpus();
   const kib = (b: number) => (b / 1024).toFixed(0);
   const ms = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : `not within ${SETTLE_LIMIT_MS / 1000} s`);
@@ -437,6 +572,30 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
   out(`  results computed by the job worker before the pages are loaded (import ${info.importS.toFixed(1)} s, results ${info.resultsS.toFixed(1)} s). App start-up ${info.startupS.toFixed(1)} s.`);
   out();
   const ok = (f: PageFigures) => f.statuses.every((st) => st === 200);
+  const visitMisses = (v: VisitFigures, limit: number, label: string) => [
+    ...(v.returnMs >= limit ? [`${label} ${v.key} on a return visit (${withUnit(v.returnMs)})`] : []),
+    ...(v.linkMs >= limit ? [`${label} ${v.key} from the rail (${withUnit(v.linkMs)})`] : []),
+  ];
+  const visitTable = (first: PageFigures[], visits: VisitFigures[], limit: number, targeted: string[]) => {
+    if (!visits.length) return;
+    out("### A return visit, and a step opened from the case's rail (medians)");
+    out();
+    out("A person who works on a case has the app in the browser already. **Return visit**: the page loaded again in a context that");
+    out("has visited the case overview and the page twice before (the browser's cache and the scripts' compiled code kept, as after");
+    out("earlier days' work); interactive as above. **From the rail**: the case overview open and settled, the page's link in the step");
+    out("rail pressed; the time runs from that mousedown until a click on the new page's heading is handled (React Router fetches the");
+    out("page's data and any code not yet loaded, and renders it in the same document); the bytes are those fetched meanwhile.");
+    out(`The first-visit figure is the table's above. Target: interactive < ${limit} ms.`);
+    out();
+    out("| page | first visit (ms) | return visit (ms) | return visit (KiB) | from the rail (ms) | from the rail (KiB) | requests | target |");
+    out("|---|---|---|---|---|---|---|---|");
+    for (const v of visits) {
+      const f = first.find((x) => x.key === v.key);
+      const verdict = targeted.includes(v.key) ? (v.returnMs < limit && v.linkMs < limit ? "met" : "**missed**") : "—";
+      out(`| ${v.key} | ${f ? ms(f.ttiMs) : "—"} | ${ms(v.returnMs)} | ${v.returnKiB.toFixed(0)} | ${ms(v.linkMs)} | ${v.linkKiB.toFixed(0)} | ${v.linkRequests} | ${verdict} |`);
+    }
+    out();
+  };
   const table = (rows: PageFigures[], targets: (f: PageFigures) => string) => {
     out("| page | HTTP | bytes (KiB) | of which the document (KiB) | requests | hydrated (ms) | interactive (ms) | settled (ms) | target |");
     out("|---|---|---|---|---|---|---|---|---|");
@@ -466,6 +625,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     out(`| ${f.key} | ${n(t.ttfb)} | ${n(t.cssEnd)} | ${n(t.scriptsEnd)} (${n(t.scriptKiB)}) | ${n(t.firstPaint)} | ${n(t.domContentLoaded)} | ${ms(f.hydratedMs)} | ${ms(f.ttiMs)} | ${n(t.scriptMs)} | ${n(t.compileMs)} | ${n(t.styleLayoutMs)} | ${n(t.taskMs)} |`);
   }
   out();
+  visitTable(demo, demoVisits, DEMO_TTI_TARGET_MS, DEMO_TTI_PAGES);
   out(`## A case of ${LARGE_CASES.toLocaleString("en")} load cases`);
   out();
   table(large, (f) => {
@@ -474,12 +634,18 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     const t = f.ttiMs < LARGE_TTI_TARGET_MS;
     return `< 1 MB: ${b ? "met" : "**missed**"}; interactive < 1 s: ${t ? "met" : "**missed**"}`;
   });
+  visitTable(large, largeVisits, LARGE_TTI_TARGET_MS, ALL_PAGES.map((p) => p.key));
+  const missedVisits = [
+    ...demoVisits.filter((v) => DEMO_TTI_PAGES.includes(v.key)).flatMap((v) => visitMisses(v, DEMO_TTI_TARGET_MS, "demo")),
+    ...largeVisits.flatMap((v) => visitMisses(v, LARGE_TTI_TARGET_MS, "large")),
+  ];
   const missed = [
     ...demo.filter((f) => DEMO_TTI_PAGES.includes(f.key) && f.ttiMs >= DEMO_TTI_TARGET_MS).map((f) => `demo ${f.key} (${withUnit(f.ttiMs)})`),
     ...demo.filter((f) => !ok(f)).map((f) => `demo ${f.key} (HTTP ${f.statuses.join(", ")})`),
     ...large.filter((f) => !ok(f) || f.bytes >= LARGE_BYTES_TARGET || f.ttiMs >= LARGE_TTI_TARGET_MS).map((f) => `large ${f.key} (${kib(f.bytes)} KiB, ${withUnit(f.ttiMs)})`),
   ];
   out(`- Targets (issue 14: every page of the ${LARGE_CASES.toLocaleString("en")}-case case under 1 MB and interactive within 1 s; issue 10, item 8: the demo envelope and distribution pages within 0.5 s): ${missed.length ? `**missed** by ${missed.join(", ")}` : "**met**"}.`);
+  out(`- The same targets on a return visit and for a step opened from the case's rail: ${missedVisits.length ? `**missed** by ${missedVisits.join(", ")}` : "**met**"}.`);
   out(MARK_END);
 
   const file = writeDocsSection(MARK_START, MARK_END, lines.join("\n"));
@@ -521,8 +687,10 @@ async function main() {
     const peerFigures = peerOrigin ? await measurePages(browser, state, [{ key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" }], "floor") : [];
     const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
+    const demoVisits = ONLY === "large" ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");
+    const largeVisits = largeId ? await measureVisits(browser, state, caseTargets(largeId), "large") : [];
     if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
-    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
+    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, demoVisits, largeVisits, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
   } finally {
     await browser.close();
   }
