@@ -2,7 +2,7 @@ import { DomainError } from "~/domain/errors";
 import { evaluateCase, solveMach } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput } from "~/exchange";
 import type { LoadCase, MassesData } from "~/domain/step-data";
-import { analysedCaseCount, fromCurrentSteps, parseOrThrow, storedInputKey } from "./analysis.server";
+import { analysedCaseCount, currentInputWith, fromCurrentSteps, parseOrThrow, storedInputKey } from "./analysis.server";
 import { axisConvention, referenceAxisOf } from "~/domain/planform-panels";
 import { balanceRows } from "./masses.server";
 
@@ -12,9 +12,10 @@ import { balanceRows } from "./masses.server";
  * case, tail load and wing lift. Net = aerodynamic − relief, as the exchange result has it.
  */
 export function caseLoadsBreakdown(input: CaseFileInput, caseId: string) {
+  // Looked for before the check: a file handed over with only the asked-for case has none when it is not there.
+  if (!input.cases.some((c) => c.id === caseId)) throw new DomainError(`The case file has no load case "${caseId}".`, { kind: "not-found" });
   const file = parseOrThrow(input);
   const i = file.cases.findIndex((c) => c.id === caseId);
-  if (i < 0) throw new DomainError(`The case file has no load case "${caseId}".`, { kind: "not-found" });
   const c = file.cases[i]!;
   const massCase = c.massCase ? file.massCases?.find((m) => m.id === c.massCase) : undefined;
   const sol = solveMach(caseWingModel(file, c.flaps), c.mach, { spanwise: file.method.spanwise, rule: file.method.compressibility, stations: file.method.stations, resolution: file.method.strips });
@@ -41,6 +42,17 @@ export function caseLoadsBreakdown(input: CaseFileInput, caseId: string) {
 }
 
 export type CaseLoadsBreakdown = ReturnType<typeof caseLoadsBreakdown>;
+
+/**
+ * The breakdown of one load case of the case's current input (the loads step's: dispositioned
+ * exclusions left out, balanced tail loads in): only that case is taken out of the stored result's
+ * input (or of the input built from the steps, for a small case not solved yet), so a case of
+ * 100 000 load cases has neither its envelope read nor its case file built and checked per request.
+ */
+export async function currentCaseLoadsBreakdown(caseId: string, title: string, loadCase: string): Promise<CaseLoadsBreakdown> {
+  const { file } = await currentInputWith(caseId, title, "final", [loadCase]);
+  return caseLoadsBreakdown(file, loadCase);
+}
 
 /**
  * What the loads page shows beside the results of the cases it lists: each one's mass case and kind,

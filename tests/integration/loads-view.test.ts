@@ -5,6 +5,7 @@ import { db } from "~/db/client.server";
 import { caseResults, caseSteps, programmes, users } from "~/db/schema";
 import type { CaseFileInput, CaseResult } from "~/exchange";
 import { loader as loadsLoader } from "~/routes/api/case-loads";
+import { loader as breakdownLoader } from "~/routes/api/case-loads-breakdown";
 import { loader as resultsLoader } from "~/routes/api/v1/case-results";
 import { loader as pageLoader } from "~/routes/cases/loads";
 import { computeQueuedResults, forgetDerivedForTests } from "~/services/analysis.server";
@@ -141,6 +142,32 @@ describe("what the loads page itself sends for a large case file", () => {
     // Every case of this file is trimmed (weight and nz): each listed one has its balance row, no other.
     expect(new Set(view.info.balance.map((b) => b.caseId))).toEqual(named);
     expect(named.size).toBeLessThan(CASES);
+  });
+});
+
+describe("the breakdown of one case (GET /api/cases/:caseId/case-loads)", () => {
+  it("takes the case out of the stored input: a fresh process receives a small part of the envelope, and the net loads are the stored result's", async () => {
+    const envelopeText = (await db.execute<{ n: number }>(sql`select length(data::text) as n from case_steps where case_id = ${caseId} and step = 'envelope'`)).rows[0]!.n;
+    freshProcess();
+    let res: Response | undefined;
+    const before = balanced();
+    const received = await rowTextOf(async () => {
+      res = await get(`/api/cases/${caseId}/case-loads?case=v7`, breakdownLoader as never);
+    });
+    expect(res!.status).toBe(200);
+    // Before: every step read whole (here the envelope's 1 200 cases; 13 MB of it for 100 000) and the case file built and checked on every request.
+    expect(received).toBeLessThan(envelopeText / 10);
+    expect(balanced() - before).toBe(0);
+    const b = (await res!.json()) as { caseId: string; y: number[]; net: { shear: number[]; bending: number[]; torsion: number[] } };
+    expect(b.caseId).toBe("v7");
+    // The same case as the stored result's (solved in the sweep): its root loads, to the sweep's tolerance.
+    const [stored] = (await db.execute<{ c: CaseResult["cases"][number] }>(sql`select jsonb_path_query_first(result, '$.cases[*] ? (@.id == "v7")') as c from case_results where case_id = ${caseId}`)).rows;
+    const root = stored!.c.root;
+    expect(Math.abs(b.net.bending[0]! - root.bending)).toBeLessThan(1e-4 * Math.abs(root.bending));
+    expect(Math.abs(b.net.shear[0]! - root.shear)).toBeLessThan(1e-4 * Math.abs(root.shear));
+    // A case the input does not have is still refused by name.
+    const missing = await get(`/api/cases/${caseId}/case-loads?case=nope`, breakdownLoader as never);
+    expect(missing.status).toBe(404);
   });
 });
 

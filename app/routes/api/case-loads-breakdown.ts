@@ -1,7 +1,6 @@
 import { requireCase } from "~/auth/case-access.server";
 import { DomainError } from "~/domain/errors";
-import { buildCaseFile, caseInputs } from "~/services/analysis.server";
-import { caseLoadsBreakdown } from "~/services/case-loads.server";
+import { currentCaseLoadsBreakdown } from "~/services/case-loads.server";
 import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-loads-breakdown";
 
@@ -10,11 +9,10 @@ import type { Route } from "./+types/case-loads-breakdown";
  * choosing another case re-draws the breakdown with a fetcher, without a full navigation.
  */
 export async function loader({ request, params, context }: Route.LoaderArgs) {
-  const { case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:read");
+  const { case: c } = await requireCase({ request, context }, params.caseId, "case:read");
   const id = new URL(request.url).searchParams.get("case") ?? "";
   try {
-    const file = buildCaseFile(c.title, caseInputs(await readSteps()));
-    return Response.json(caseLoadsBreakdown(file, id), { headers: { "Cache-Control": "no-store" } });
+    return Response.json(await currentCaseLoadsBreakdown(c.id, c.title, id), { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
     if (error instanceof DomainError) return apiRefusal(error);
     throw error;
