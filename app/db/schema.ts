@@ -264,10 +264,34 @@ export const caseResults = pgTable(
     documentBr: bytea("document_br"),
     /** The loads page's ranked root loads, envelope and critical case (rankedRootLoads), kept as the result is stored; null for results stored before it was kept. */
     rootLoads: jsonb("root_loads").$type<Record<string, unknown>>(),
+    /**
+     * The input without its load cases (`head`) and its sections document (`sections`, or null), kept
+     * as the result is stored: with the rows of result_cases, a page's few cases without the input.
+     * Null for results stored before it was kept (they have no rows in result_cases either).
+     */
+    inputHead: jsonb("input_head").$type<Record<string, unknown>>(),
     computedBy: uuid("computed_by").references(() => users.id),
     computedAt: timestamp("computed_at", { withTimezone: true }).defaultNow().notNull(),
   },
   (t) => [index("case_results_case_idx").on(t.caseId, t.computedAt)],
+);
+
+/**
+ * Each load case of a stored result: its entry in the input (with its place there) and in the result,
+ * copied by PostgreSQL out of the stored row as the result is stored. A page that shows one case of
+ * 100 000 reads it by key instead of PostgreSQL taking the stored input and result (megabytes each)
+ * apart on every request. Goes with its result.
+ */
+export const resultCases = pgTable(
+  "result_cases",
+  {
+    resultId: uuid("result_id").notNull().references(() => caseResults.id, { onDelete: "cascade" }),
+    loadCase: text("load_case").notNull(),
+    ordinal: integer().notNull(),
+    input: jsonb().$type<Record<string, unknown>>().notNull(),
+    result: jsonb().$type<Record<string, unknown>>().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.resultId, t.loadCase] })],
 );
 
 /**

@@ -5,7 +5,7 @@ import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { caseResults, cases, resultInputs, resultProgress } from "~/db/schema";
+import { caseResults, cases, resultCases, resultInputs, resultProgress } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
 import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
@@ -252,13 +252,33 @@ export async function resultsFor(
     : runEngine(() => runCase(parsed, { sections }));
   const input = (sections ? { case: parsed, sections } : parsed) as unknown as Record<string, unknown>;
   const documentBr = Buffer.from(await compressors.br(Buffer.from(JSON.stringify(result))));
+  const { cases: _cases, ...head } = parsed;
+  const inputHead = { head, sections: sections ?? null };
   const [row] = await database
     .insert(caseResults)
-    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, documentBr, computedBy: actorId })
-    .returning();
+    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, inputHead, documentBr, computedBy: actorId })
+    .returning({ id: caseResults.id, computedAt: caseResults.computedAt });
+  await storeResultCases(row!.id, database);
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   await pruneResults(caseId, row!.id, database);
   return { result, inputHash, computedAt: row!.computedAt };
+}
+
+/**
+ * Each load case of the stored result `resultId` as a row of result_cases (its input entry, place and
+ * result entry), copied by PostgreSQL out of the stored row: the input and the result are taken
+ * apart once here, not on every request for one case.
+ */
+async function storeResultCases(resultId: string, database: Db | Tx = db): Promise<void> {
+  await database.execute(sql`
+    with r as (
+      select ${caseResults.id} as id, case when ${caseResults.input} ? 'case' then ${caseResults.input} -> 'case' else ${caseResults.input} end -> 'cases' as inputs, ${caseResults.result} -> 'cases' as results
+      from ${caseResults} where ${caseResults.id} = ${resultId}
+    ),
+    i as (select e ->> 'id' as id, e, n from r, jsonb_array_elements(r.inputs) with ordinality as t(e, n)),
+    o as (select e ->> 'id' as id, e from r, jsonb_array_elements(r.results) as t(e))
+    insert into ${resultCases} (result_id, load_case, ordinal, input, result)
+    select ${resultId}, i.id, i.n, i.e, o.e from i join o on o.id = i.id`);
 }
 
 /**
@@ -335,6 +355,22 @@ async function hasStoredResult(caseId: string, inputHash: string, database: Db |
  * cases of a large file neither reads nor checks the rest. Null while no result is stored for it.
  */
 export async function storedInputWith(caseId: string, inputHash: string, ids: readonly string[]): Promise<{ file: CaseFile; sections: SectionsFile | undefined } | null> {
+  // Kept as the result was stored: its head and the named cases' rows, by key.
+  const [kept] = await db
+    .select({
+      inputHead: caseResults.inputHead,
+      cases: sql<CaseFile["cases"]>`(select coalesce(jsonb_agg(${resultCases.input} order by ${resultCases.ordinal}), '[]'::jsonb) from ${resultCases} where ${resultCases.resultId} = ${caseResults.id} and ${resultCases.loadCase} = any(${sql.param([...ids])}::text[]))`,
+    })
+    .from(caseResults)
+    .where(storedResultOf(caseId, inputHash))
+    .orderBy(desc(caseResults.computedAt))
+    .limit(1);
+  if (!kept) return null;
+  if (kept.inputHead) {
+    const { head, sections } = kept.inputHead as { head: Omit<CaseFile, "cases">; sections: SectionsFile | null };
+    return { file: { ...head, cases: kept.cases }, sections: sections ?? undefined };
+  }
+  // A result stored before: PostgreSQL picks the cases out of its input.
   // The input is the checked case file, or { case, sections } where the case has richer section data.
   const found = await db.execute<{ head: CaseFile; cases: CaseFile["cases"]; sections: SectionsFile | null }>(sql`
     with r as (

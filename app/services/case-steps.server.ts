@@ -64,6 +64,9 @@ export async function getCaseStepsDigested(caseId: string, without: readonly Ste
   return { steps: stepsOf(rows, STEP_KEYS), digest: digestOf(rows.map((r) => ({ step: r.row.step, digest: r.digest })), without) };
 }
 
+/** Up to this many ids, envelopeCasesWith filters by JSON path. */
+const FEW_IDS = 4;
+
 /**
  * The envelope's load cases of these ids, in the envelope's order, with the envelope's digest (as
  * getCaseStepsDigest gives it, the envelope alone) from the same read: PostgreSQL picks the cases out,
@@ -71,10 +74,15 @@ export async function getCaseStepsDigested(caseId: string, without: readonly Ste
  * not pass the load-case rules are left out.
  */
 export async function envelopeCasesWith(caseId: string, ids: readonly string[]): Promise<{ digest: string; cases: LoadCase[] }> {
+  // A few ids: a JSON path filter walks the stored cases without making a row of each (100 000 cases: 0.1–0.2 s
+  // against 0.55–0.65 s in psql); it compares every case with every id, so many ids (a page's list) go the other way.
+  const cases =
+    ids.length <= FEW_IDS
+      ? sql`case when jsonb_typeof(${caseSteps.data} -> 'cases') = 'array' then jsonb_path_query_array(${caseSteps.data}, 'strict $.cases[*] ? (@.id == $ids[*])', jsonb_build_object('ids', ${JSON.stringify(ids)}::jsonb)) else '[]'::jsonb end`
+      : sql`(select coalesce(jsonb_agg(e order by n), '[]'::jsonb) from jsonb_array_elements(case when jsonb_typeof(${caseSteps.data} -> 'cases') = 'array' then ${caseSteps.data} -> 'cases' else '[]'::jsonb end) with ordinality as t(e, n)
+        where e ->> 'id' = any(${sql.param([...ids])}::text[]))`;
   const found = await db.execute<{ digest: string | null; cases: unknown[] }>(sql`
-    select ${caseSteps.dataDigest} as digest,
-      (select coalesce(jsonb_agg(e order by n), '[]'::jsonb) from jsonb_array_elements(case when jsonb_typeof(${caseSteps.data} -> 'cases') = 'array' then ${caseSteps.data} -> 'cases' else '[]'::jsonb end) with ordinality as t(e, n)
-        where e ->> 'id' = any(${sql.param([...ids])}::text[])) as cases
+    select ${caseSteps.dataDigest} as digest, ${cases} as cases
     from ${caseSteps} where ${caseSteps.caseId} = ${caseId} and ${caseSteps.step} = 'envelope'`);
   const row = found.rows[0];
   if (!row) return { digest: "", cases: [] };

@@ -1,7 +1,7 @@
-import { desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import { db } from "~/db/client.server";
-import { caseResults } from "~/db/schema";
+import { caseResults, resultCases } from "~/db/schema";
 import { rankedRootLoads, type RankedRootLoads, type RootLoadsRow, type SweepProgressView } from "~/domain/results";
 import type { CaseResult, ResultCase } from "~/exchange";
 import { ENGINE_VERSION } from "~/engine";
@@ -95,6 +95,16 @@ async function storedRootLoads(caseId: string, inputHash: string): Promise<Ranke
 
 /** One case of the stored result for this input hash, whole (PostgreSQL picks it out), or null when it has none of that id. */
 async function storedResultCase(caseId: string, inputHash: string, id: string): Promise<ResultCase | null> {
+  // Kept by key as the result was stored (result_cases); a result stored before has PostgreSQL look through it.
+  const [kept] = await db
+    .select({ kept: sql<boolean>`${caseResults.inputHead} is not null`, c: resultCases.result })
+    .from(caseResults)
+    .leftJoin(resultCases, and(eq(resultCases.resultId, caseResults.id), eq(resultCases.loadCase, id)))
+    .where(storedResultOf(caseId, inputHash))
+    .orderBy(desc(caseResults.computedAt))
+    .limit(1);
+  if (!kept) return null;
+  if (kept.kept) return (kept.c as ResultCase | null) ?? null;
   const [row] = await db
     .select({ c: sql<ResultCase | null>`jsonb_path_query_first(${caseResults.result}, '$.cases[*] ? (@.id == $id)', jsonb_build_object('id', ${id}::text))` })
     .from(caseResults)
