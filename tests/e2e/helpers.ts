@@ -122,3 +122,67 @@ export async function submitForCheck(page: Page, step: string, label: DemoUser["
   await page.getByRole("button", { name: `Submit ${step} for check` }).click();
   await expect(page.getByRole("alert").or(page.getByRole("status")).filter({ hasText: `${step} submitted for check` })).toBeVisible({ timeout: 60_000 });
 }
+
+/**
+ * Counts React's renders by part of a page. Installed before the page's scripts run, it stands in for
+ * React's developer-tools hook, which react-dom calls at every commit (production builds too), and for
+ * each commit finds the components that rendered in it — a fiber not in the previous commit's tree
+ * that did work — and the elements each draws itself (not those of the components it renders).
+ * `regions` names parts of the page by a CSS selector; `rendersIn(page, name)` is the number of
+ * commits in which a component drawing an element of that part rendered. The fiber's fields read here
+ * are React's internals: fine for a test, nothing else.
+ */
+export async function countRenders(page: Page, regions: Record<string, string>) {
+  await page.addInitScript((regions: Record<string, string>) => {
+    const counts: Record<string, number> = Object.fromEntries(Object.keys(regions).map((k) => [k, 0]));
+    (window as unknown as { __renders: Record<string, number> }).__renders = counts;
+    type Fiber = { tag: number; flags: number; child: Fiber | null; sibling: Fiber | null; stateNode: unknown };
+    const COMPONENT_TAGS = new Set([0, 1, 11, 14, 15]); // function, class, forwardRef, memo, simple memo
+    const HOST = 5;
+    const PERFORMED_WORK = 1;
+    /** The elements a component draws itself: its host descendants short of the next component. */
+    const ownElements = (fiber: Fiber): Element[] => {
+      const out: Element[] = [];
+      const stack = fiber.child ? [fiber.child] : [];
+      while (stack.length) {
+        const f = stack.pop()!;
+        if (f.sibling) stack.push(f.sibling);
+        if (COMPONENT_TAGS.has(f.tag)) continue;
+        if (f.tag === HOST && f.stateNode instanceof Element) out.push(f.stateNode);
+        if (f.child) stack.push(f.child);
+      }
+      return out;
+    };
+    let previous = new Set<Fiber>();
+    (window as unknown as { __REACT_DEVTOOLS_GLOBAL_HOOK__: unknown }).__REACT_DEVTOOLS_GLOBAL_HOOK__ = {
+      supportsFiber: true,
+      isDisabled: false,
+      renderers: new Map(),
+      inject: () => 1,
+      onCommitFiberRoot: (_id: number, root: { current: Fiber }) => {
+        const seen = new Set<Fiber>();
+        const drawn: Element[] = [];
+        const stack: Fiber[] = [root.current];
+        while (stack.length) {
+          const f = stack.pop()!;
+          seen.add(f);
+          if (COMPONENT_TAGS.has(f.tag) && !previous.has(f) && (f.flags & PERFORMED_WORK) !== 0) drawn.push(...ownElements(f));
+          if (f.sibling) stack.push(f.sibling);
+          if (f.child) stack.push(f.child);
+        }
+        previous = seen;
+        for (const [name, selector] of Object.entries(regions)) if (drawn.some((el) => el.closest(selector))) counts[name]!++;
+      },
+      onCommitFiberUnmount: () => {},
+      onPostCommitFiberRoot: () => {},
+    };
+  }, regions);
+}
+
+export const rendersIn = (page: Page, region: string) => page.evaluate((region) => (window as unknown as { __renders: Record<string, number> }).__renders[region], region);
+
+/** The demo case TN-WL-001's id (seeded; read it, do not change it). */
+export async function demoCaseId(page: Page): Promise<string> {
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string }[] };
+  return list.cases.find((c) => c.reference === "TN-WL-001")!.id;
+}

@@ -1,4 +1,4 @@
-import { startTransition, useEffect, useState } from "react";
+import { startTransition, useEffect, useRef, useState } from "react";
 
 /**
  * False on the server, while the page hydrates and until the browser is next idle; true from then on.
@@ -20,4 +20,25 @@ export function whenIdle(run: () => void): () => void {
   }
   const id = window.requestIdleCallback(run, { timeout: 1000 });
   return () => window.cancelIdleCallback(id);
+}
+
+/**
+ * Loads `url` into a fetcher (useFetcher's `load`) whenever `url` or `again` changes, as an effect
+ * would — except the first load, which waits until the browser is idle. Started in the effects of the
+ * commit that draws the page, a fetcher's load matches the routes, imports the resource route's
+ * module and re-renders the router's subscribers before the page can answer its first click.
+ */
+export function useLoadAfterInteractive(load: (url: string) => Promise<void>, url: string | null, again?: unknown) {
+  const waited = useRef(false);
+  useEffect(() => {
+    if (url === null) return;
+    if (waited.current) {
+      void load(url);
+      return;
+    }
+    return whenIdle(() => {
+      waited.current = true;
+      void load(url);
+    });
+  }, [load, url, again]);
 }

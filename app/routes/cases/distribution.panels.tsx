@@ -1,12 +1,14 @@
 import { useVirtualizer } from "@tanstack/react-virtual";
-import { useEffect, useRef, useState } from "react";
-import { href, Link, useFetcher, type FetcherWithComponents } from "react-router";
+import { memo, useEffect, useRef, useState } from "react";
+import { href, useFetcher, type FetcherWithComponents } from "react-router";
 import { spanwiseWaysOption } from "~/charts/comparisons";
 import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
 import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
+import { useLoadAfterInteractive } from "~/components/ui/use-after-interactive";
 import { useRowPages } from "~/components/ui/use-row-pages";
+import { measureWhenLaidOut } from "~/components/ui/virtual-rows";
 import { Alert, Panel } from "~/components/ui/page-header";
 import type { FlagReason } from "~/domain/results";
 import { RULE_LABELS, type StepStatus } from "~/domain/vocabulary";
@@ -110,8 +112,12 @@ export function CasePicker({ caseId, shownId, view, units, computing, failed, sh
   );
 }
 
+// The panels are memoised: the route renders again at each step of its fetchers (the shown case's
+// distribution, the methods compared, the rule sensitivity), and a panel whose props did not change
+// need not (the flagged-cases table with its rows least of all).
+
 /** What the solve used, and how far its resolution can be trusted: strips, convergence, section scaling, critical-Mach basis. */
-export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultMethod; machCriticalSwept: number | null }) {
+export const MethodUsedPanel = memo(function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultMethod; machCriticalSwept: number | null }) {
   return (
     <Panel title="Method used for this case file" className="mb-4">
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[max-content_1fr]" data-testid="method-used">
@@ -129,10 +135,10 @@ export function MethodUsedPanel({ method, machCriticalSwept }: { method: ResultM
       </dl>
     </Panel>
   );
-}
+});
 
 /** The solver's loading beside Schrenk's, cl, cl and cm under each rule, critical Mach by station. */
-export function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
+export const DistributionCharts = memo(function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
   return (
     <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
       <Chart option={loadingOption(view, units)} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
@@ -164,14 +170,14 @@ export function DistributionCharts({ view, units }: { view: View; units: UnitSys
       </Panel>
     </div>
   );
-}
+});
 
 /**
  * How many cases are flagged for each reason and how many of them still wait for a disposition, with
  * one disposition for every case of a reason: at the scale of a large case file, a loads engineer
  * excludes, or justifies with one comment, all the cases flagged for the same cause.
  */
-export function FlagSummaryPanel({ summary, revision, canEdit, save }: { summary: DistributionSummary; revision: number; canEdit: boolean; save: SaveFetcher }) {
+export const FlagSummaryPanel = memo(function FlagSummaryPanel({ summary, revision, canEdit, save }: { summary: DistributionSummary; revision: number; canEdit: boolean; save: SaveFetcher }) {
   if (summary.flagged === 0) return null;
   return (
     <Panel title="Flagged cases by reason" className="mt-5">
@@ -202,7 +208,7 @@ export function FlagSummaryPanel({ summary, revision, canEdit, save }: { summary
       <p className="mt-2 text-xs text-ink-muted">A case may be flagged for more than one reason. A disposition for every case of a reason replaces the dispositions those cases had, and is saved and recorded as any other.</p>
     </Panel>
   );
-}
+});
 
 function BulkDisposition({ reason, label, count, revision, save }: { reason: FlagReason; label: string; count: number; revision: number; save: SaveFetcher }) {
   const [action, setAction] = useState<"exclude" | "justify">("exclude");
@@ -229,7 +235,9 @@ function BulkDisposition({ reason, label, count, revision, save }: { reason: Fla
 
 type Row = FlagWindow["rows"][number];
 type Edit = { action: "none" | "exclude" | "justify"; comment: string };
-const FLAG_ROW_PX = 64;
+/** A flagged row's height with one reason (the two-line justification box sets it), and what each further reason adds. */
+const FLAG_ROW_PX = 69;
+const REASON_LINE_PX = 22;
 
 /**
  * Each flagged case with why, and the engineer's disposition: exclude it, or keep it with a
@@ -237,7 +245,7 @@ const FLAG_ROW_PX = 64;
  * view. Changed rows are kept here until saved, in view or not, and the save sends only them, on the
  * revision they were made on.
  */
-export function DispositionsPanel({ caseId, total, first, revision, canEdit, status, save, show }: { caseId: string; total: number; first: Row[]; revision: number; canEdit: boolean; status: StepStatus; save: SaveFetcher; show: (id: string) => void }) {
+export const DispositionsPanel = memo(function DispositionsPanel({ caseId, total, first, revision, canEdit, status, save, show }: { caseId: string; total: number; first: Row[]; revision: number; canEdit: boolean; status: StepStatus; save: SaveFetcher; show: (id: string) => void }) {
   const [edits, setEdits] = useState<Map<string, Edit>>(() => new Map());
   const scroller = useRef<HTMLDivElement>(null);
   // A new revision (a save here, a disposition for a whole reason) drops the edits made on the old one.
@@ -246,7 +254,9 @@ export function DispositionsPanel({ caseId, total, first, revision, canEdit, sta
     setEditedOn(revision);
     setEdits(new Map());
   }
-  const virtualizer = useVirtualizer({ count: total, getScrollElement: () => scroller.current, estimateSize: () => FLAG_ROW_PX, overscan: 8, initialRect: { width: 0, height: 512 } });
+  // The first rows (those the page carries) estimated at the height they will have: measured, they are not drawn again.
+  const estimate = (i: number) => FLAG_ROW_PX + Math.max(0, (first[i]?.reasons.length ?? 1) - 1) * REASON_LINE_PX;
+  const virtualizer = useVirtualizer({ count: total, getScrollElement: () => scroller.current, estimateSize: estimate, measureElement: measureWhenLaidOut, overscan: 8, initialRect: { width: 0, height: 512 } });
   const items = virtualizer.getVirtualItems();
   const { rowAt, stale } = useRowPages({ source: href("/api/cases/:caseId/flagged-cases", { caseId }), first, total, revision, firstIndex: items[0]?.index ?? 0, lastIndex: items[items.length - 1]?.index ?? 0 });
   const valueOf = (row: Row): Edit => edits.get(row.id) ?? { action: row.disposition?.action ?? "none", comment: row.disposition?.comment ?? "" };
@@ -295,16 +305,17 @@ export function DispositionsPanel({ caseId, total, first, revision, canEdit, sta
                   return (
                     <tr key={item.key} data-index={item.index} ref={virtualizer.measureElement} aria-rowindex={item.index + 2} className={`border-t border-line align-top ${edits.has(row.id) ? "bg-accent-soft" : ""}`}>
                       <td className="px-2 py-2 font-semibold">
-                        <Link
-                          to={`?case=${encodeURIComponent(row.id)}`}
-                          preventScrollReset
+                        {/* A plain link, not the router's: a router Link renders again at each change of the router's
+                            state (every fetch of this page), and each row has one. Before the scripts run it opens the case. */}
+                        <a
+                          href={`?case=${encodeURIComponent(row.id)}`}
                           onClick={(e) => {
                             e.preventDefault();
                             show(row.id);
                           }}
                         >
                           {row.id}
-                        </Link>
+                        </a>
                       </td>
                       <td className="px-2 py-2 text-danger">
                         {row.reasons.map((r) => (
@@ -355,7 +366,7 @@ export function DispositionsPanel({ caseId, total, first, revision, canEdit, sta
       )}
     </Panel>
   );
-}
+});
 
 type Refusal = { error: string; message: string };
 const refusalOf = (d: unknown): string | null => (d && typeof d === "object" && "error" in d ? (d as Refusal).message : null);
@@ -368,14 +379,12 @@ const root = (units: UnitSystem, q: "shear" | "bending" | "torsion", si: number)
  * each compressibility rule side by side, with the spread between the rules. The job worker solves
  * them; the panel asks for them after the page shows, and each second while the worker runs.
  */
-export function RuleSensitivityPanel({ caseId, revision }: { caseId: string; revision: number }) {
+export const RuleSensitivityPanel = memo(function RuleSensitivityPanel({ caseId, revision }: { caseId: string; revision: number }) {
   const data = useFetcher<{ units: UnitSystem; sensitivity: RuleSensitivity } | { state: "pending"; progress: SensitivityProgress } | Refusal>();
   const { load } = data;
   const url = href("/api/cases/:caseId/rule-sensitivity", { caseId });
   // Asked again for a new revision of the step: the same address answers for the new inputs.
-  useEffect(() => {
-    load(url);
-  }, [load, url, revision]);
+  useLoadAfterInteractive(load, url, revision);
   const failed = refusalOf(data.data);
   const loaded = data.data && "sensitivity" in data.data ? data.data : null;
   const progress = data.data && "progress" in data.data ? data.data.progress : null;
@@ -400,7 +409,7 @@ export function RuleSensitivityPanel({ caseId, revision }: { caseId: string; rev
       )}
     </Panel>
   );
-}
+});
 
 function RuleSensitivityTable({ units, s }: { units: UnitSystem; s: RuleSensitivity }) {
   const f = unitSymbol(units, "force");
@@ -464,12 +473,9 @@ function RuleSensitivityTable({ units, s }: { units: UnitSystem; s: RuleSensitiv
  * valid: running lift overlaid, root loads with their difference from the case's own method, and
  * why a method is absent.
  */
-export function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: string; loadCase: string; revision: number }) {
+export const SpanwiseMethodsPanel = memo(function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: string; loadCase: string; revision: number }) {
   const data = useFetcher<{ units: UnitSystem; comparison: SpanwiseComparison } | Refusal>();
-  const { load } = data;
-  useEffect(() => {
-    load(`${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`);
-  }, [load, caseId, loadCase, revision]);
+  useLoadAfterInteractive(data.load, `${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`, revision);
   const failed = refusalOf(data.data);
   const loaded = data.data && "comparison" in data.data && data.data.comparison.caseId === loadCase ? data.data : null;
   return (
@@ -485,7 +491,7 @@ export function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: s
       )}
     </Panel>
   );
-}
+});
 
 function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseComparison }) {
   const base = c.ways.find((w) => w.way === c.chosen);

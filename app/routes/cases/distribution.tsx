@@ -1,4 +1,5 @@
 import { useEffect, useState } from "react";
+import { useLoadAfterInteractive } from "~/components/ui/use-after-interactive";
 import { href, useFetcher, useRevalidator } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
@@ -44,10 +45,7 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
   // The case chosen on the page, else the one the server picked (known once the results are stored).
   const [chosen, setShownId] = useState<string | null>(null);
   const shownId = chosen ?? (page.state === "ready" ? page.shown : null);
-  const { load } = picked;
-  useEffect(() => {
-    if (shownId !== null) load(`${href("/api/cases/:caseId/distribution", { caseId })}?case=${encodeURIComponent(shownId)}`);
-  }, [load, caseId, shownId]);
+  useLoadAfterInteractive(picked.load, shownId === null ? null : `${href("/api/cases/:caseId/distribution", { caseId })}?case=${encodeURIComponent(shownId)}`);
   // While the worker sweeps the case file, ask again each second.
   const pending = page.state === "pending";
   const { revalidate } = revalidator;

@@ -6,6 +6,7 @@ import { Chart } from "~/components/charts/chart";
 import { TextAreaField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { DataTable } from "~/components/tables/data-table";
+import { useLoadAfterInteractive } from "~/components/ui/use-after-interactive";
 import { Alert, Panel } from "~/components/ui/page-header";
 import { sweepFraction, type SweepProgressView } from "~/domain/results";
 import type { StepStatus } from "~/domain/vocabulary";
@@ -32,9 +33,7 @@ export function useCaseResults(caseId: string, ready: boolean, revision: number,
   // The revision asked for, recorded while rendering (React's pattern for state that follows a prop).
   const [loadedFor, setLoadedFor] = useState<number | null>(null);
   if (ready && loadedFor !== revision) setLoadedFor(revision);
-  useEffect(() => {
-    if (ready) load(url);
-  }, [load, url, ready, revision]);
+  useLoadAfterInteractive(load, ready ? url : null, revision);
   const data = results.data;
   const computing = data && "status" in data ? data.message : null;
   const progress = data && "status" in data ? data.progress : null;
@@ -87,11 +86,8 @@ export function NotesPanel({ form, onSubmit, server, canEdit, status, revision, 
 export function BreakdownPanel({ caseId, current, result, units, info }: { caseId: string; current: ResultCase | Omit<ResultCase, "stations">; result: unknown; units: UnitSystem; info: LoadsPageInfo }) {
   const named = namer(info);
   const breakdown = useFetcher<CaseLoadsBreakdown | { error: string; message: string }>();
-  const { load } = breakdown;
   // Loaded again for another case and for new results of the same case.
-  useEffect(() => {
-    void load(`${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`);
-  }, [load, caseId, current.id, result]);
+  useLoadAfterInteractive(breakdown.load, `${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`, result);
   const parts = breakdown.data && "y" in breakdown.data ? breakdown.data : null;
   const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
   const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
