@@ -6,6 +6,17 @@ import { countRenders, demoCaseId, hydrated, rendersIn, signIn } from "./helpers
 // click), and the data a page fetches after it shows is asked for once it answers input, not from
 // the commit that hydrates it. Properties, not times: no test here waits for or measures a duration.
 
+test("the envelope page draws the V–n points table once: the form's second render as it hydrates leaves it alone", async ({ page }) => {
+  await countRenders(page, { vnTable: '[data-table="vn-points.csv"]' });
+  await signIn(page, "engineer");
+  await page.goto(`/cases/${await demoCaseId(page)}/envelope`);
+  await hydrated(page);
+  // Everything drawn after the page answers input is there: the grid's rows and the diagram.
+  await expect(page.getByLabel("Case, row 1", { exact: true })).toBeVisible();
+  await expect(page.getByRole("figure", { name: "V–n diagram" }).locator("canvas")).toHaveCount(1, { timeout: 60_000 });
+  expect(await rendersIn(page, "vnTable")).toBe(1);
+});
+
 test("the distribution page's flagged-cases table is not drawn again by the page's fetches or the measuring of its rows", async ({ page }) => {
   await countRenders(page, { flagged: '[data-testid="flagged-cases"]' });
   await signIn(page, "engineer");

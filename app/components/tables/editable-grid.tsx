@@ -3,6 +3,7 @@ import { useVirtualizer } from "@tanstack/react-virtual";
 import { useRef, useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
 import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
 import { useAfterInteractive } from "~/components/ui/use-after-interactive";
+import { measureWhenLaidOut } from "~/components/ui/virtual-rows";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
 export interface GridColumn {
@@ -36,6 +37,7 @@ export const GRID_WINDOW_ROWS = 40;
 /** A row's height before it is measured (an input and its cell padding), and the window's height (h-[32rem]: more than 40 rows always fill it). */
 const ROW_PX = 33;
 const WINDOW_PX = 512;
+const NO_ROWS: Record<string, unknown>[] = [];
 
 /**
  * An editable table of numbers bound to a react-hook-form field array: arrow keys and Enter move
@@ -74,11 +76,14 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
 
   const scroller = useRef<HTMLDivElement>(null);
   const windowed = props.countField !== undefined && fields.length > GRID_WINDOW_ROWS;
-  const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed });
   // A long grid's rows (some 400 inputs on the demo envelope) are drawn once the page answers input:
   // the server and the hydrating page draw the window (its height and header) without rows, so no
   // input a person could type into before then. A post sent before that carries no rows, and is refused.
   const rowsDrawn = useAfterInteractive();
+  // Until then neither the virtualiser (which reads the window's size) nor the table's row model (a
+  // row object per field) has anything to do: the form above renders twice as it hydrates
+  // (react-hook-form marks itself ready in a layout effect), and the grid with it.
+  const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, measureElement: measureWhenLaidOut, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed && rowsDrawn });
 
   const focusCell = (row: number, col: number, frames = 3) => {
     const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
@@ -183,7 +188,7 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
     }),
   ];
 
-  const table = useReactTable({ data: fields as unknown as Record<string, unknown>[], columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
+  const table = useReactTable({ data: windowed && !rowsDrawn ? NO_ROWS : (fields as unknown as Record<string, unknown>[]), columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
   const rows = table.getRowModel().rows;
   const items = windowed ? (rowsDrawn ? virtualizer.getVirtualItems() : []) : null;
   const shown = items ? items.flatMap((i) => (rows[i.index] ? [{ row: rows[i.index]!, index: i.index }] : [])) : rows.map((row, index) => ({ row, index }));

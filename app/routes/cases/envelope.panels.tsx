@@ -1,5 +1,5 @@
 import { useVirtualizer } from "@tanstack/react-virtual";
-import { useEffect, useRef, useState } from "react";
+import { memo, useEffect, useRef, useState } from "react";
 import { href, useFetcher } from "react-router";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import type { LoadCaseRows } from "../api/case-load-cases";
@@ -23,8 +23,10 @@ const G0 = 9.80665;
 
 type EnvelopeForm = ZodForm<typeof EnvelopeFormSchema>;
 
+// Memoised: the form beside it renders twice as the page hydrates (react-hook-form marks itself ready
+// in a layout effect), and the diagram, its table and its charts do not depend on the form.
 /** The V–n diagram of each design weight and altitude, one shown at a time, with its gust data. */
-export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; problem: string | null; stall: { area: number; clMax: number; clMaxNegative: number } | null; units: UnitSystem }) {
+export const VnPanel = memo(function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; problem: string | null; stall: { area: number; clMax: number; clMaxNegative: number } | null; units: UnitSystem }) {
   const [setIndex, setSetIndex] = useState(0);
   const set = sets[setIndex];
   return (
@@ -55,7 +57,7 @@ export function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; proble
       {set?.tuned && !problem ? <TunedGustPanel key={setIndex} set={set} units={units} /> : null}
     </Panel>
   );
-}
+});
 
 /** The compressibility rule, the spanwise solver, its strips and the output stations of every case of this file. */
 export function MethodPanel({ form, server, disabled, busy, noDiagram }: { form: EnvelopeForm; server: FieldErrors | undefined; disabled: boolean; busy: boolean; noDiagram: boolean }) {
