@@ -1,5 +1,5 @@
 import { href } from "react-router";
-import { and, asc, desc, eq, inArray, max } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, max, sql } from "drizzle-orm";
 import { STEPS } from "~/domain/steps";
 import { chainHead, sha256Hex, writeAudit } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
@@ -238,8 +238,24 @@ export async function listReportsWithCases(organisationId: string, database: Db 
 
 /** Reports of one case (or of the organisation), with every signature that stands behind each. */
 export async function listReports(organisationId: string, caseId?: string, database: Db | Tx = db): Promise<ReportListItem[]> {
-  const rows = await db
-    .select()
+  // Of the snapshot (a version's input and result, megabytes for a large case) only its signatures.
+  const rows = await database
+    .select({
+      id: reports.id,
+      caseId: reports.caseId,
+      version: reports.version,
+      reportNumber: reports.reportNumber,
+      status: reports.status,
+      progress: reports.progress,
+      progressNote: reports.progressNote,
+      failure: reports.failure,
+      sha256: reports.sha256,
+      size: reports.size,
+      requestedAt: reports.requestedAt,
+      issuedAt: reports.issuedAt,
+      releasedAt: reports.releasedAt,
+      frozenSignatures: sql<ReportSnapshot["signatures"] | null>`${reports.snapshot} -> 'signatures'`,
+    })
     .from(reports)
     .where(caseId ? and(eq(reports.organisationId, organisationId), eq(reports.caseId, caseId)) : eq(reports.organisationId, organisationId))
     .orderBy(desc(reports.requestedAt));
@@ -249,7 +265,7 @@ export async function listReports(organisationId: string, caseId?: string, datab
     : [];
   return rows.map((r) => {
     // A report carries the case signatures frozen into its snapshot, plus its own release.
-    const frozen = ((r.snapshot as unknown as ReportSnapshot | null)?.signatures ?? []).map((s) => ({ name: s.name, role: s.role, meaning: s.meaning, signedAt: new Date(s.signedAt), revisionHash: s.revisionHash }));
+    const frozen = (r.frozenSignatures ?? []).map((s) => ({ name: s.name, role: s.role, meaning: s.meaning, signedAt: new Date(s.signedAt), revisionHash: s.revisionHash }));
     const own = sigs.filter((x) => x.s.reportId === r.id && !x.v).map((x) => ({ name: x.s.signerName, role: x.s.role, meaning: x.s.meaning, signedAt: x.s.signedAt, revisionHash: x.s.revisionHash }));
     return { id: r.id, caseId: r.caseId, version: r.version, reportNumber: r.reportNumber, status: r.status, progress: r.progress, progressNote: r.progressNote, failure: r.failure, sha256: r.sha256, size: r.size, createdAt: r.requestedAt, issuedAt: r.issuedAt, releasedAt: r.releasedAt, signatures: [...frozen, ...own] };
   });
@@ -291,12 +307,19 @@ export async function verifyPdf(organisationId: string, bytes: Uint8Array, datab
 
 /** The two newest issued versions of a case's report, and what changed between them; null before a second version. */
 export async function latestVersionChanges(caseId: string, database: Db | Tx = db) {
+  // The snapshots (input and result of each version, megabytes for a large case) of the two newest only, and only when there are two.
+  const newest = await database
+    .select({ id: reports.id })
+    .from(reports)
+    .where(and(eq(reports.caseId, caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES])))
+    .orderBy(desc(reports.version))
+    .limit(2);
+  if (newest.length < 2) return null;
   const issued = await database
     .select({ version: reports.version, snapshot: reports.snapshot })
     .from(reports)
-    .where(and(eq(reports.caseId, caseId), inArray(reports.status, [...ISSUED_REPORT_STATUSES])))
+    .where(inArray(reports.id, newest.map((r) => r.id)))
     .orderBy(asc(reports.version));
-  if (issued.length < 2) return null;
-  const [older, newer] = issued.slice(-2) as [(typeof issued)[number], (typeof issued)[number]];
+  const [older, newer] = issued as [(typeof issued)[number], (typeof issued)[number]];
   return { from: older.version, to: newer.version, rows: versionChanges(older.snapshot as unknown as ReportSnapshot, newer.snapshot as unknown as ReportSnapshot) };
 }
