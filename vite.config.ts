@@ -29,6 +29,34 @@ function precompressClientAssets(): Plugin {
   };
 }
 
+/** Module ids of packages, matched whatever the path separator. */
+const pkg = (names: string) => new RegExp(`[\\\\/]node_modules[\\\\/](${names})[\\\\/]`);
+
+/**
+ * The client's chunks beside the route modules (tests/e2e/page-scripts.spec.ts counts what the pages preload):
+ * - shared: what every page runs — React, react-dom, React Router, Vite's preload helper, and our
+ *   small modules every case page draws (the frame's badges, headers, error panel, step list, units,
+ *   formatting, the chart frame that loads ECharts on demand; none imports anything heavy);
+ * - forms: react-hook-form with our field, form hook and save bar (the step pages and sign-in);
+ * - tables: TanStack Table, Papa Parse and our table and CSV modules (the step pages and the loads page);
+ * - virtual: TanStack Virtual (the grids, and the distribution page's list of cases, which has no table).
+ * The editable grid, which needs all three, stays a chunk of its own: in tables, it would bring the
+ * form and list chunks to the loads page. The bundler's runtime (under 1 KB) cannot be put in a group.
+ */
+const CHUNK_GROUPS = [
+  {
+    name: "shared",
+    priority: 3,
+    test: (id: string) =>
+      pkg("react|react-dom|scheduler|react-router").test(id) ||
+      /^\0vite\/preload-helper\.js$/.test(id) ||
+      /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|components\/charts\/chart\.|charts\/theme\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/format\.)/.test(id),
+  },
+  { name: "forms", priority: 2, test: (id: string) => pkg("react-hook-form|@hookform").test(id) || /\/app\/components\/(forms\/(field|use-zod-form)|case\/step-(save-bar|answer))\./.test(id) },
+  { name: "virtual", priority: 2, test: pkg("@tanstack[\\\\/](react-)?virtual(-core)?") },
+  { name: "tables", priority: 1, test: (id: string) => pkg("@tanstack[\\\\/](react-)?table(-core)?|papaparse").test(id) || /\/app\/(components\/tables\/data-table|utils\/csv)\./.test(id) },
+];
+
 export default defineConfig({
   plugins: [tailwindcss(), reactRouter(), precompressClientAssets()],
   resolve: { tsconfigPaths: true },
@@ -42,10 +70,10 @@ export default defineConfig({
       build: {
         rolldownOptions: {
           output: {
-            // The small modules every case page draws (the frame's badges, headers, error panel, step
-            // list, units, formatting; none imports anything heavy) in one chunk instead of ten of a
-            // few hundred bytes each: a page is one request over HTTP/1.1's six connections, not ten.
-            codeSplitting: { groups: [{ name: "shared", test: /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/format\.)/ }] },
+            // Each chunk a page preloads is a request before it can hydrate, and over HTTP/1.1's six
+            // connections per origin they go out six at a time: fewer, larger chunks on that path. The
+            // route modules stay chunks of their own, and what only some pages draw stays out of the rest.
+            codeSplitting: { groups: CHUNK_GROUPS },
           },
         },
       },

@@ -55,3 +55,31 @@ test("when the form's schema cannot be loaded, a save posts what was typed and t
   await expect(page.getByText("At least 8 stations")).toBeVisible();
   expect(await exported(page, caseId)).toEqual(before);
 });
+
+// Each script the document preloads is a request before the page can hydrate, and over HTTP/1.1's
+// six connections per origin they go out six at a time. React, react-dom and React Router come in one
+// chunk with our small modules every page draws; react-hook-form, TanStack Table and TanStack Virtual
+// in one chunk each with our modules that use them (vite.config.ts); a page asks only for what it draws.
+// The counts include React Router's route manifest; the demo pages asked for 10, 19 and 16 scripts
+// before, with the framework and our grid, form and table modules in chunks of a few hundred bytes each.
+/** A string each library's built code keeps (an option name), found in no other module of the app. */
+const LIBRARY_MARKS = { "react-hook-form": "shouldUnregister", "TanStack Table": "debugTable", "TanStack Virtual": "scrollMargin" } as const;
+const SCRIPT_BUDGETS = [
+  { page: "overview", path: "", most: 8, libraries: [] },
+  { page: "envelope", path: "/envelope", most: 13, libraries: ["react-hook-form", "TanStack Table", "TanStack Virtual"] },
+  { page: "distribution", path: "/distribution", most: 12, libraries: ["TanStack Virtual"] },
+] as const;
+
+test("the demo case's overview, envelope and distribution pages preload at most 8, 13 and 12 scripts, each library in one of them and only where it is drawn", async ({ page }) => {
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  for (const { page: name, path, most, libraries } of SCRIPT_BUDGETS) {
+    const scripts = await preloadedScripts(page, `/cases/${demo.id}${path}`);
+    expect(scripts.length, `${name}: ${scripts.map((s) => s.href).join(", ")}`).toBeLessThanOrEqual(most);
+    for (const [library, mark] of Object.entries(LIBRARY_MARKS)) {
+      const holding = scripts.filter((s) => s.text.includes(mark)).length;
+      expect(holding, `${name}: scripts holding ${library}`).toBe((libraries as readonly string[]).includes(library) ? 1 : 0);
+    }
+  }
+});
