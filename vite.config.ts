@@ -50,7 +50,7 @@ const CHUNK_GROUPS = [
     test: (id: string) =>
       pkg("react|react-dom|scheduler|react-router").test(id) ||
       /^\0vite\/preload-helper\.js$/.test(id) ||
-      /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|components\/charts\/chart\.|charts\/theme\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/format\.)/.test(id),
+      /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|components\/charts\/chart\.|charts\/theme\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/(format|page-fonts)\.)/.test(id),
   },
   { name: "forms", priority: 2, test: (id: string) => pkg("react-hook-form|@hookform").test(id) || /\/app\/components\/(forms\/(field|use-zod-form)|case\/step-(save-bar|answer))\./.test(id) },
   { name: "virtual", priority: 2, test: pkg("@tanstack[\\\\/](react-)?virtual(-core)?") },

@@ -1,11 +1,13 @@
 import { useEffect } from "react";
 import { preload } from "react-dom";
-import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Links, Meta, Outlet, Scripts, ScrollRestoration, useMatches } from "react-router";
 import type { Route } from "./+types/root";
 import { ErrorPanel } from "./components/ui/error-panel";
 import { useNonce } from "./utils/csp";
 import appCss from "./app.css?url";
 import sansLatin from "@fontsource-variable/source-sans-3/files/source-sans-3-latin-wght-normal.woff2?url";
+import sansGreek from "@fontsource-variable/source-sans-3/files/source-sans-3-greek-wght-normal.woff2?url";
+import { hasGreekText } from "./utils/page-fonts";
 import { requestReads } from "./auth/request-context.server";
 
 // The session, the case and its steps, read once per request however many loaders ask (each still checks access).
@@ -23,6 +25,9 @@ export function Layout({ children }: { children: React.ReactNode }) {
   // stylesheet (React writes font preloads first in <head>): it is then mostly there for the first
   // layout, and the text is not laid out a second time when it arrives.
   preload(sansLatin, { as: "font", type: "font/woff2", crossOrigin: "anonymous" });
+  // The Greek face too where the page says its text has Greek letters (its route's handle): found at
+  // the first layout instead, it arrived after the page's scripts and the page was laid out again.
+  if (useMatches().some((m) => hasGreekText(m.handle))) preload(sansGreek, { as: "font", type: "font/woff2", crossOrigin: "anonymous" });
   return (
     <html lang="en">
       <head>

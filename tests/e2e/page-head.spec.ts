@@ -1,5 +1,5 @@
 import { expect, test } from "@playwright/test";
-import { signIn } from "./helpers";
+import { hydrated, signIn } from "./helpers";
 
 // What a page's <head> asks for first. Over HTTP/1.1 a browser opens six connections per origin: the
 // stylesheet, which holds back the first paint and every script after it, is asked for before the
@@ -55,4 +55,40 @@ test("the text is set in Source Sans 3 from one preloaded variable file", async 
   expect(faces.families).toEqual(["Source Sans 3 Variable"]);
   expect(faces.weights).toEqual(["200 900"]);
   expect(faces.drawn).toEqual([true, true, true]);
+});
+
+// A page whose text has Greek letters (α, Δ, η) is set partly from the Greek face, a second file. Found
+// only at the first layout, it came after the page's scripts, and the page was laid out again when it
+// arrived: the pages whose route says so (handle, utils/page-fonts.ts) preload it with the Latin one.
+test("every font file a case page loads is preloaded ahead of the stylesheet, and one the stylesheet uses", async ({ page }) => {
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  const preloadedFonts: Record<string, string[]> = {};
+  for (const step of ["", "/basis", "/planform", "/sections", "/masses", "/envelope", "/distribution", "/loads", "/review", "/reports"]) {
+    const path = `/cases/${demo.id}${step}`;
+    const html = await (await page.request.get(path)).text();
+    const head = html.slice(0, html.indexOf("</head>"));
+    const stylesheet = /<link[^>]*rel="stylesheet"[^>]*href="([^"]+)"/.exec(head);
+    expect(stylesheet, path).not.toBeNull();
+    const css = await (await page.request.get(stylesheet![1]!)).text();
+    const fonts = [...head.matchAll(/<link [^>]*>/g)].filter((l) => /rel="preload"/.test(l[0]) && /as="font"/.test(l[0]));
+    for (const l of fonts) {
+      expect(l.index, `${path}: font preload before the stylesheet`).toBeLessThan(stylesheet!.index);
+      expect(css, `${path}: the stylesheet uses the preloaded file`).toContain(/href="([^"]+)"/.exec(l[0])![1]!);
+    }
+    preloadedFonts[step || "/"] = fonts.map((l) => /href="([^"]+)"/.exec(l[0])![1]!);
+
+    await page.goto(path);
+    await hydrated(page);
+    const loaded = await page.evaluate(async () => {
+      await document.fonts.ready;
+      return performance.getEntriesByType("resource").filter((r) => /\.woff2$/.test(r.name)).map((r) => new URL(r.name).pathname);
+    });
+    expect(loaded.length, `${path}: a font file loaded`).toBeGreaterThan(0);
+    expect(loaded.filter((f) => !preloadedFonts[step || "/"]!.includes(f)), `${path}: font files loaded without a preload`).toEqual([]);
+  }
+  // Only what a page draws: the overview, without Greek letters, preloads the Latin file alone.
+  expect(preloadedFonts["/"]).toHaveLength(1);
+  expect(preloadedFonts["/"]![0]).toMatch(/\/source-sans-3-latin-wght-normal-[\w-]+\.woff2$/);
 });

@@ -18,6 +18,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/basis";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { BasisChecksPanel, BasisFlapsPanel, BasisRulesPanel, BasisSpeedsPanel, BasisWeightsPanel, BasisWingPanel } from "./basis.panels";
 import { BASIS_FIELDS, BASIS_QUANTITIES } from "./basis.quantities";
 import { saveStepAnswer } from "./step-action.server";
@@ -82,6 +83,9 @@ export default function BasisRoute({ loaderData, actionData }: Route.ComponentPr
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Basis · Spanwright" }];

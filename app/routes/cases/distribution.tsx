@@ -12,6 +12,7 @@ import { getCaseUnits } from "~/services/case-steps.server";
 import { distributionPage, mergedDispositions, type DistributionPageView } from "~/services/distribution.server";
 import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
@@ -104,6 +105,9 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Distribution · Spanwright" }];

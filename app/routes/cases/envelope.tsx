@@ -18,6 +18,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/envelope";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, VnPanel } from "./envelope.panels";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -127,6 +128,9 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Envelope · Spanwright" }];

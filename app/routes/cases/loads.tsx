@@ -15,6 +15,7 @@ import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { LoadsPageInfo } from "~/services/case-loads.server";
 import type { Route } from "./+types/loads";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RollingSidesPanel, RootLoadsTable, useCaseResults } from "./loads.panels";
 import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
@@ -89,6 +90,9 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Loads · Spanwright" }];

@@ -13,6 +13,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/masses";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { BalancePanel, ItemsPanel, MassCasesPanel, MassesDrawingPanel, MassRowErrors, SavedMassCasesPanel, StructurePanel } from "./masses.panels";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -98,6 +99,9 @@ export default function MassesRoute({ loaderData, actionData }: Route.ComponentP
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Masses · Spanwright" }];

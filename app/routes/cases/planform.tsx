@@ -15,6 +15,7 @@ import { fieldErrorsOf } from "~/utils/form-data";
 import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/planform";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { DrawingPanel, GeometryPanel, PanelEntryPanel, planformForm, StationsPanel, useLivePreview } from "./planform.panels";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -80,6 +81,9 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Planform · Spanwright" }];

@@ -11,6 +11,7 @@ import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "
 import { latestReruns, requestRerun } from "~/services/reproduction.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/reports";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { isPending, isRerunPending, ReportPanel, RequestReportForm, useReportProgress, useRerunProgress, VersionChangesPanel } from "./reports.panels";
 import { ReportsActionSchema } from "./reports.schema";
 
@@ -89,6 +90,9 @@ export default function ReportsRoute({ loaderData, actionData }: Route.Component
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Reports · Spanwright" }];

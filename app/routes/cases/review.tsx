@@ -8,6 +8,7 @@ import { addComment, caseSignatures, returnStep, reviewState } from "~/services/
 import { accepted, answer, clientAddress, forbidden, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/review";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { CaseApprovalPanel, StepReviewPanel } from "./review.panels";
 import { ReviewActionSchema } from "./review.schema";
 
@@ -81,6 +82,9 @@ export default function ReviewRoute({ loaderData, actionData }: Route.ComponentP
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Review · Spanwright" }];

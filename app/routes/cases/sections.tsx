@@ -16,6 +16,7 @@ import { fieldErrorsOf, FormFieldError, formDataToObject, type ActionRefusal } f
 import { accepted, answer, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/sections";
+import { GREEK_TEXT } from "~/utils/page-fonts";
 import { AileronPanel, FlapsPanel, previewOf, RicherDataPanel, SectionFitCharts, SectionGridPanel, UploadPanel } from "./sections.panels";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -116,6 +117,9 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
     </>
   );
 }
+
+// Its text has Greek letters: root.tsx preloads the Greek face with the document.
+export const handle = GREEK_TEXT;
 
 export function meta() {
   return [{ title: "Sections · Spanwright" }];
