@@ -39,7 +39,8 @@ const pkg = (names: string) => new RegExp(`[\\\\/]node_modules[\\\\/](${names})[
  *   formatting, the chart frame that loads ECharts on demand; none imports anything heavy);
  * - forms: react-hook-form with our field, form hook and save bar (the step pages and sign-in);
  * - tables: TanStack Table, Papa Parse and our table and CSV modules (the step pages and the loads page);
- * - virtual: TanStack Virtual (the grids, and the distribution page's list of cases, which has no table).
+ * - virtual: TanStack Virtual and our row measure for it (the grids, and the distribution page's list of
+ *   cases, which has no table).
  * The editable grid, which needs all three, stays a chunk of its own: in tables, it would bring the
  * form and list chunks to the loads page. The bundler's runtime (under 1 KB) cannot be put in a group.
  */
@@ -50,10 +51,10 @@ const CHUNK_GROUPS = [
     test: (id: string) =>
       pkg("react|react-dom|scheduler|react-router").test(id) ||
       /^\0vite\/preload-helper\.js$/.test(id) ||
-      /\/app\/(components\/ui\/|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|components\/charts\/chart\.|charts\/theme\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/(format|page-fonts)\.)/.test(id),
+      /\/app\/(components\/ui\/(?!virtual-rows\.)|components\/case\/(caution|unsaved-guard)\.|components\/forms\/use-saving\.|components\/charts\/chart\.|charts\/theme\.|domain\/(permissions|vocabulary|steps|units)\.|utils\/(format|page-fonts)\.)/.test(id),
   },
   { name: "forms", priority: 2, test: (id: string) => pkg("react-hook-form|@hookform").test(id) || /\/app\/components\/(forms\/(field|use-zod-form)|case\/step-(save-bar|answer))\./.test(id) },
-  { name: "virtual", priority: 2, test: pkg("@tanstack[\\\\/](react-)?virtual(-core)?") },
+  { name: "virtual", priority: 2, test: (id: string) => pkg("@tanstack[\\\\/](react-)?virtual(-core)?").test(id) || /\/app\/components\/ui\/virtual-rows\./.test(id) },
   { name: "tables", priority: 1, test: (id: string) => pkg("@tanstack[\\\\/](react-)?table(-core)?|papaparse").test(id) || /\/app\/(components\/tables\/data-table|utils\/csv)\./.test(id) },
 ];
 
