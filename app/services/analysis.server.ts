@@ -254,11 +254,16 @@ export async function resultsFor(
   const documentBr = Buffer.from(await compressors.br(Buffer.from(JSON.stringify(result))));
   const { cases: _cases, ...head } = parsed;
   const inputHead = { head, sections: sections ?? null };
-  const [row] = await database
-    .insert(caseResults)
-    .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, inputHead, documentBr, computedBy: actorId })
-    .returning({ id: caseResults.id, computedAt: caseResults.computedAt });
-  await storeResultCases(row!.id, database);
+  // The row and its rows by load case together or not at all: a row marked as kept by case (input_head)
+  // without them would answer "no such load case" for the cases it holds.
+  const row = await database.transaction(async (tx) => {
+    const [stored] = await tx
+      .insert(caseResults)
+      .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, inputHead, documentBr, computedBy: actorId })
+      .returning({ id: caseResults.id, computedAt: caseResults.computedAt });
+    await storeResultCases(stored!.id, tx);
+    return stored;
+  });
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
   await pruneResults(caseId, row!.id, database);
   return { result, inputHash, computedAt: row!.computedAt };

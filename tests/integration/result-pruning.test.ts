@@ -1,4 +1,4 @@
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { caseResults, cases, caseSteps, resultInputs, users } from "~/db/schema";
@@ -78,5 +78,23 @@ describe("stored results of a case", () => {
     expect(final.inputHash).not.toBe(envelope.inputHash);
     // The pages' results of the previous steps went as these came.
     expect(await stored()).toEqual(distinct(final.inputHash, envelope.inputHash));
+  }, 120_000);
+
+  it("stores a result together with its rows by load case, or not at all", async () => {
+    // Common practice, no source: a stored result whose per-case rows are missing would answer "no such
+    // load case" for a case it holds. PostgreSQL is made to refuse the rows (a trigger), as a crash or a
+    // lost connection between the two writes would leave them.
+    await saveAltitude(4567);
+    const inputs = caseInputs(await getCaseSteps(caseId));
+    const before = await stored();
+    await db.execute(sql.raw(`create function refuse_result_cases() returns trigger language plpgsql as $$ begin raise exception 'refused by the test'; end $$;
+      create trigger refuse_result_cases before insert on result_cases for each statement execute function refuse_result_cases();`));
+    try {
+      await expect(resultsFor(caseId, buildCaseFile(title, inputs), null, buildSectionsFile(inputs))).rejects.toThrow();
+    } finally {
+      await db.execute(sql.raw("drop trigger refuse_result_cases on result_cases; drop function refuse_result_cases();"));
+    }
+    // Before: the result row stayed, marked as kept by load case, with none of its cases.
+    expect(await stored()).toEqual(before);
   }, 120_000);
 });
