@@ -1,5 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
-import { copyOfDemoCase, exported, hydrated, shot, signIn } from "./helpers";
+import { copyOfDemoCase, demoCaseId, exported, hydrated, shot, signIn } from "./helpers";
 
 // The envelope's load-case grid draws only the rows in view (the demo's case file has far more rows
 // than fit): what is typed into any row, drawn or scrolled away, is what is saved, and a post sent
@@ -89,4 +89,28 @@ test("the long grid's rows are drawn once the page answers input, in a window of
   const rows = (await exported(page, caseId)).cases.length;
   expect(rows).toBeGreaterThan(100);
   expect(await page.getByTestId("cases-window").evaluate((el) => el.scrollHeight)).toBeGreaterThan(rows * 30);
+});
+
+// One commit drawing every row in view (some 1 100 elements, their fields registered, the page laid out
+// again) kept a click that came meanwhile waiting for all of it: the rows come a few at a time instead.
+test("the long grid fills its window a few rows at a time, never more than 8 rows in one task", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const caseId = await demoCaseId(page);
+  await page.addInitScript(() => {
+    const w = window as unknown as { __gridRows: number[] };
+    w.__gridRows = [];
+    // Every batch of mutations a task made, as the rows of the grid it added.
+    new MutationObserver((records) => {
+      const rows = records.flatMap((r) => [...r.addedNodes]).filter((n) => n instanceof HTMLTableRowElement && n.hasAttribute("data-index") && n.closest('[data-testid="cases-window"]')).length;
+      if (rows) w.__gridRows.push(rows);
+    }).observe(document, { childList: true, subtree: true });
+  });
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  await expect(page.getByTestId("cases-window")).not.toHaveAttribute("aria-busy", "true");
+  await expect(page.getByLabel("Altitude [m], row 16", { exact: true })).toBeAttached();
+  const added = await page.evaluate(() => (window as unknown as { __gridRows: number[] }).__gridRows);
+  expect(added.reduce((a, b) => a + b, 0)).toBeGreaterThanOrEqual(16);
+  expect(Math.max(...added), `rows added per task: ${added.join(", ")}`).toBeLessThanOrEqual(8);
 });

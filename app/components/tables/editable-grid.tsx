@@ -1,8 +1,7 @@
-import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
 import { useVirtualizer } from "@tanstack/react-virtual";
-import { useRef, useState, type ClipboardEvent, type KeyboardEvent, type ReactNode } from "react";
+import { useRef, useState, type ClipboardEvent, type KeyboardEvent } from "react";
 import { get, useFieldArray, type ArrayPath, type FieldArray, type FieldValues, type Path, type PathValue, type UseFormReturn } from "react-hook-form";
-import { useAfterInteractive } from "~/components/ui/use-after-interactive";
+import { useDrawnInSteps } from "~/components/ui/use-after-interactive";
 import { measureWhenLaidOut } from "~/components/ui/virtual-rows";
 import { downloadText, parsePastedCells, toCsv } from "~/utils/csv";
 
@@ -37,7 +36,8 @@ export const GRID_WINDOW_ROWS = 40;
 /** A row's height before it is measured (an input and its cell padding), and the window's height (h-[32rem]: more than 40 rows always fill it). */
 const ROW_PX = 33;
 const WINDOW_PX = 512;
-const NO_ROWS: Record<string, unknown>[] = [];
+/** Rows a long grid adds in one commit while it first fills its window (some 200 elements each time). */
+export const GRID_ROWS_PER_STEP = 8;
 
 /**
  * An editable table of numbers bound to a react-hook-form field array: arrow keys and Enter move
@@ -52,7 +52,6 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
   const cell = (row: number, key: string) => `${props.name}.${row}.${key}` as Path<T>;
   // A new row holds text, as the inputs do; the form's schema reads the numbers from it.
   const emptyRow = props.emptyRow as FieldArray<T, ArrayPath<T>>;
-  const helper = createColumnHelper<Record<string, unknown>>();
   const cellId = (row: number, col: number) => `${props.name}-${row}-${col}`;
   // The server spoke about the values it was sent: a cell changed since then loses its message.
   const [changed, setChanged] = useState<{ for: unknown; cells: ReadonlySet<string> }>({ for: props.serverErrors, cells: new Set() });
@@ -79,11 +78,16 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
   // A long grid's rows (some 400 inputs on the demo envelope) are drawn once the page answers input:
   // the server and the hydrating page draw the window (its height and header) without rows, so no
   // input a person could type into before then. A post sent before that carries no rows, and is refused.
-  const rowsDrawn = useAfterInteractive();
-  // Until then neither the virtualiser (which reads the window's size) nor the table's row model (a
-  // row object per field) has anything to do: the form above renders twice as it hydrates
-  // (react-hook-form marks itself ready in a layout effect), and the grid with it.
-  const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, measureElement: measureWhenLaidOut, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed && rowsDrawn });
+  // They then come a few at a time, each step at the browser's next idle moment: one commit of every
+  // row in view (some 1 100 elements, their fields registered, the page laid out again) kept a click
+  // that came meanwhile waiting for all of it.
+  // Until the first step the virtualiser (which reads the window's size) has nothing to do: the form
+  // above renders twice as it hydrates (react-hook-form marks itself ready in a layout effect), and the grid with it.
+  const [inView, setInView] = useState<number | null>(null);
+  const drawn = useDrawnInSteps(windowed ? inView : 0, GRID_ROWS_PER_STEP);
+  const virtualizer = useVirtualizer({ count: fields.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, measureElement: measureWhenLaidOut, overscan: 8, initialRect: { width: 0, height: WINDOW_PX }, enabled: windowed && drawn > 0 });
+  const items = windowed ? (drawn > 0 ? virtualizer.getVirtualItems() : []) : null;
+  if (windowed && drawn > 0 && drawn !== Infinity && inView !== items!.length) setInView(items!.length);
 
   const focusCell = (row: number, col: number, frames = 3) => {
     const el = document.getElementById(cellId(row, col)) as HTMLInputElement | null;
@@ -134,95 +138,87 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
     if (form.formState.isSubmitted) void form.trigger(pasted);
   };
 
-  const columns = [
-    helper.display({ id: "index", header: "#", cell: (c) => <span className="text-ink-faint">{c.row.index + 1}</span> }),
-    ...props.columns.map((col, j) =>
-      helper.display({
-        id: col.key,
-        header: col.label,
-        cell: (c) => {
-          const name = cell(c.row.index, col.key);
-          const messages = serverMessages(name);
-          const clientError = (get(form.formState.errors, name) as { message?: string } | undefined)?.message;
-          const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
-          if (col.type === "checkbox") {
-            return <input id={cellId(c.row.index, j)} type="checkbox" aria-label={`${col.label}, row ${c.row.index + 1}`} className="mx-auto block" {...registered(name)} />;
-          }
-          return (
-            <div>
-              <input
-                id={cellId(c.row.index, j)}
-                aria-label={`${col.label}, row ${c.row.index + 1}`}
-                aria-invalid={all.length > 0}
-                title={all.join(" ")}
-                inputMode={col.type === "text" ? "text" : "decimal"}
-                className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${col.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
-                {...registered(name)}
-                onKeyDown={onKeyDown(c.row.index, j)}
-                onPaste={onPaste(c.row.index, j)}
-              />
-              {all.map((m) => (
-                <p key={m} className="mt-0.5 max-w-48 text-xs font-semibold text-danger">
-                  {m}
-                </p>
-              ))}
-            </div>
-          );
-        },
-      }),
-    ),
-    helper.display({
-      id: "actions",
-      header: () => <span className="sr-only">Row actions</span>,
-      cell: (c) =>
-        props.disabled ? null : (
-          <span className="flex gap-1 whitespace-nowrap">
-            <button type="button" className="rounded px-1 text-xs text-accent hover:bg-accent-soft" aria-label={`Insert a row after row ${c.row.index + 1}`} onClick={() => insert(c.row.index + 1, emptyRow)}>
-              + row
-            </button>
-            <button type="button" className="rounded px-1 text-xs text-danger hover:bg-danger-soft" aria-label={`Delete row ${c.row.index + 1}`} onClick={() => remove(c.row.index)}>
-              delete
-            </button>
-          </span>
-        ),
-    }),
-  ];
+  /** One editable cell: its input (or checkbox) and the messages about it. */
+  const renderCell = (row: number, col: GridColumn, j: number) => {
+    const name = cell(row, col.key);
+    const label = `${col.label}, row ${row + 1}`;
+    if (col.type === "checkbox") return <input id={cellId(row, j)} type="checkbox" aria-label={label} className="mx-auto block" {...registered(name)} />;
+    const messages = serverMessages(name);
+    const clientError = (get(form.formState.errors, name) as { message?: string } | undefined)?.message;
+    const all = [...new Set([clientError, ...messages].filter(Boolean) as string[])];
+    return (
+      <div>
+        <input
+          id={cellId(row, j)}
+          aria-label={label}
+          aria-invalid={all.length > 0}
+          title={all.join(" ")}
+          inputMode={col.type === "text" ? "text" : "decimal"}
+          className={`w-full min-w-16 rounded border border-line px-1.5 py-0.5 tabular ${col.type === "text" ? "text-left" : "text-right"} aria-[invalid=true]:border-danger aria-[invalid=true]:bg-danger-soft`}
+          {...registered(name)}
+          onKeyDown={onKeyDown(row, j)}
+          onPaste={onPaste(row, j)}
+        />
+        {all.map((m) => (
+          <p key={m} className="mt-0.5 max-w-48 text-xs font-semibold text-danger">
+            {m}
+          </p>
+        ))}
+      </div>
+    );
+  };
 
-  const table = useReactTable({ data: windowed && !rowsDrawn ? NO_ROWS : (fields as unknown as Record<string, unknown>[]), columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => String((r as { id: string }).id) });
-  const rows = table.getRowModel().rows;
-  const items = windowed ? (rowsDrawn ? virtualizer.getVirtualItems() : []) : null;
-  const shown = items ? items.flatMap((i) => (rows[i.index] ? [{ row: rows[i.index]!, index: i.index }] : [])) : rows.map((row, index) => ({ row, index }));
+  // The rows drawn: every row of a short grid; of a long one, those in view (as many as drawn so far).
+  const shown = items ? items.slice(0, drawn).map((i) => ({ field: fields[i.index]!, index: i.index })) : fields.map((field, index) => ({ field, index }));
+  const last = items?.[Math.min(drawn, items.length) - 1];
   const padTop = items?.[0]?.start ?? 0;
-  const padBottom = items?.length ? virtualizer.getTotalSize() - items[items.length - 1]!.end : 0;
+  const padBottom = last ? virtualizer.getTotalSize() - last.end : 0;
 
   return (
     <div>
       {props.countField ? <input type="hidden" name={props.countField} value={fields.length} /> : null}
-      <div ref={scroller} className={`${windowed ? "h-[32rem] overflow-auto" : "overflow-x-auto"} rounded border border-line bg-surface`} data-testid={windowed ? `${props.name}-window` : undefined} aria-busy={windowed && !rowsDrawn ? true : undefined}>
+      <div ref={scroller} className={`${windowed ? "h-[32rem] overflow-auto" : "overflow-x-auto"} rounded border border-line bg-surface`} data-testid={windowed ? `${props.name}-window` : undefined} aria-busy={windowed && drawn !== Infinity ? true : undefined}>
         <table className="w-full text-sm" aria-rowcount={windowed ? fields.length + 1 : undefined}>
           <caption className="sr-only">{props.caption}</caption>
           <thead className={`${windowed ? "sticky top-0 z-10 " : ""}border-b border-line bg-canvas text-xs text-ink-muted`}>
-            {table.getHeaderGroups().map((g) => (
-              <tr key={g.id}>
-                {g.headers.map((h) => (
-                  <th key={h.id} scope="col" className="px-2 py-1.5 text-right font-semibold first:text-left">
-                    {flexRender(h.column.columnDef.header, h.getContext())}
-                  </th>
-                ))}
-              </tr>
-            ))}
+            <tr>
+              <th scope="col" className="px-2 py-1.5 text-left font-semibold">
+                #
+              </th>
+              {props.columns.map((col) => (
+                <th key={col.key} scope="col" className="px-2 py-1.5 text-right font-semibold">
+                  {col.label}
+                </th>
+              ))}
+              <th scope="col" className="px-2 py-1.5 text-right font-semibold">
+                <span className="sr-only">Row actions</span>
+              </th>
+            </tr>
           </thead>
           <tbody>
             {padTop > 0 ? <tr aria-hidden="true" style={{ height: padTop }} /> : null}
-            {shown.map(({ row: r, index }) => (
-              <tr key={r.id} data-index={index} aria-rowindex={windowed ? index + 2 : undefined} ref={windowed ? virtualizer.measureElement : undefined} className="border-b border-line align-top last:border-0">
-                {r.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="px-2 py-1">
-                    {/* Called, not mounted: flexRender would mount each cell function as a component of a new
-                        type on every render, and a remounted input loses what is being typed into it. */}
-                    {renderCell(cell.column.columnDef.cell, cell.getContext())}
+            {shown.map(({ field, index }) => (
+              <tr key={field.id} data-index={index} aria-rowindex={windowed ? index + 2 : undefined} ref={windowed ? virtualizer.measureElement : undefined} className="border-b border-line align-top last:border-0">
+                <td className="px-2 py-1">
+                  <span className="text-ink-faint">{index + 1}</span>
+                </td>
+                {props.columns.map((col, j) => (
+                  <td key={col.key} className="px-2 py-1">
+                    {renderCell(index, col, j)}
                   </td>
                 ))}
+                <td className="px-2 py-1">
+                  {props.disabled ? null : (
+                    <span className="flex gap-1 whitespace-nowrap">
+                      <button type="button" className="rounded px-1 text-xs text-accent hover:bg-accent-soft" aria-label={`Insert a row after row ${index + 1}`} onClick={() => insert(index + 1, emptyRow)}>
+                        + row
+                      </button>
+                      <button type="button" className="rounded px-1 text-xs text-danger hover:bg-danger-soft" aria-label={`Delete row ${index + 1}`} onClick={() => remove(index)}>
+                        delete
+                      </button>
+                    </span>
+                  )}
+                </td>
               </tr>
             ))}
             {padBottom > 0 ? <tr aria-hidden="true" style={{ height: padBottom }} /> : null}
@@ -249,8 +245,4 @@ export function EditableGrid<T extends FieldValues, O>(props: Props<T, O>) {
       </div>
     </div>
   );
-}
-
-function renderCell<C>(def: ((context: C) => ReactNode) | ReactNode | undefined, context: C): ReactNode {
-  return typeof def === "function" ? def(context) : def;
 }

@@ -12,6 +12,22 @@ export function useAfterInteractive() {
   return ready;
 }
 
+/**
+ * How many items of a list to draw: none on the server, while the page hydrates and until the browser
+ * is next idle; then `step` more at each idle moment (each a transition) until `total` are drawn, and
+ * Infinity from then on. Each commit adds `step` items at most, so a click or a key that arrives
+ * meanwhile waits for one small commit, not for every item at once. `total` is null while unknown (the
+ * first step is then drawn without it).
+ */
+export function useDrawnInSteps(total: number | null, step: number): number {
+  const [drawn, setDrawn] = useState(0);
+  useEffect(() => {
+    if (drawn === Infinity) return;
+    return whenIdle(() => startTransition(() => setDrawn((d) => (total !== null && d + step >= total ? Infinity : d + step))));
+  }, [drawn, total, step]);
+  return drawn;
+}
+
 /** Calls `run` when the browser is next idle (at the latest after a second, on a page that is never idle); returns the cancel. */
 export function whenIdle(run: () => void): () => void {
   if (typeof window.requestIdleCallback !== "function") {
