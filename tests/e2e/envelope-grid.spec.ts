@@ -114,3 +114,34 @@ test("the long grid fills its window a few rows at a time, never more than 8 row
   expect(added.reduce((a, b) => a + b, 0)).toBeGreaterThanOrEqual(16);
   expect(Math.max(...added), `rows added per task: ${added.join(", ")}`).toBeLessThanOrEqual(8);
 });
+
+// A case file above the whole-grid limit (500 cases) is shown as a window on the stored rows. Its rows
+// in view were drawn as the page hydrated, in one commit; they now come once the page answers input,
+// a few at a time, as the long grid's do.
+test("the window on a large case file fills a few rows at a time once the page answers input, never more than 8 rows in one task", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  const doc = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] };
+  doc.cases = Array.from({ length: 600 }, (_, i) => ({ id: `W${i + 1}`, mach: 0.3, altitude: 1000 * (i % 5), weight: 30000, nz: 1 + (i % 7) * 0.25 }));
+  const imported = await page.request.post("/api/v1/cases/import", { data: { programmeId: demo.programme.id, reference: "E2E-GRID-WINDOW", case: doc }, headers: { Origin: new URL(page.url()).origin } });
+  expect(imported.status(), await imported.text()).toBe(201);
+  const caseId = ((await imported.json()) as { id: string }).id;
+  await page.addInitScript(() => {
+    const w = window as unknown as { __windowRows: number[] };
+    w.__windowRows = [];
+    new MutationObserver((records) => {
+      const rows = records.flatMap((r) => [...r.addedNodes]).filter((n) => n instanceof HTMLTableRowElement && n.hasAttribute("aria-rowindex") && n.closest('[data-testid="load-case-window"]')).length;
+      if (rows) w.__windowRows.push(rows);
+    }).observe(document, { childList: true, subtree: true });
+  });
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  const grid = page.getByTestId("load-case-window");
+  await expect(grid).not.toHaveAttribute("aria-busy", "true");
+  await expect(grid.getByLabel("Case, row 16", { exact: true })).toHaveValue("W16");
+  const added = await page.evaluate(() => (window as unknown as { __windowRows: number[] }).__windowRows);
+  expect(added.reduce((a, b) => a + b, 0)).toBeGreaterThanOrEqual(16);
+  expect(Math.max(...added), `rows added per task: ${added.join(", ")}`).toBeLessThanOrEqual(8);
+});

@@ -13,6 +13,7 @@ import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Alert, Panel } from "~/components/ui/page-header";
+import { useDrawnInSteps } from "~/components/ui/use-after-interactive";
 import { COMPRESSIBILITY_RULES, RULE_LABELS, SPANWISE_LABELS, SPANWISE_METHODS, type StepStatus } from "~/domain/vocabulary";
 import { formatCount, fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { VnSet } from "~/services/envelope.server";
@@ -154,6 +155,9 @@ export function CaseRowErrors({ server }: { server: FieldErrors | undefined }) {
 export const FIRST_ROWS = 100;
 const PAGE_ROWS = FIRST_ROWS;
 const ROW_PX = 34;
+/** The window's height (h-[32rem]), and the rows it adds in one commit while it first fills. */
+const WINDOW_PX = 512;
+const WINDOW_ROWS_PER_STEP = 8;
 
 type CaseRow = LoadCaseRows["rows"][number];
 
@@ -206,8 +210,15 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
     setStale(false);
     requested.current = new Set([0]);
   }
-  const virtualizer = useVirtualizer({ count: total + added.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 12 });
-  const items = virtualizer.getVirtualItems();
+  // The rows in view (some 27, 500 elements) are drawn once the page answers input, 8 per commit at
+  // each idle moment of the browser: drawn as the page hydrated, they held back its first answer to a
+  // click. The server, which has no window to measure, draws none either.
+  const [inView, setInView] = useState<number | null>(null);
+  const drawn = useDrawnInSteps(inView, WINDOW_ROWS_PER_STEP);
+  const virtualizer = useVirtualizer({ count: total + added.length, getScrollElement: () => scroller.current, estimateSize: () => ROW_PX, overscan: 12, initialRect: { width: 0, height: WINDOW_PX }, enabled: drawn > 0 });
+  const all = drawn > 0 ? virtualizer.getVirtualItems() : [];
+  if (drawn > 0 && drawn !== Infinity && inView !== all.length) setInView(all.length);
+  const items = all.slice(0, drawn);
   const firstIndex = items[0]?.index ?? 0;
   const lastIndex = items[items.length - 1]?.index ?? 0;
 
@@ -302,7 +313,7 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
             Show
           </Button>
         </form>
-        <div ref={scroller} className="h-[32rem] overflow-auto rounded border border-line bg-surface" data-testid="load-case-window">
+        <div ref={scroller} className="h-[32rem] overflow-auto rounded border border-line bg-surface" data-testid="load-case-window" aria-busy={drawn !== Infinity ? true : undefined}>
           <table className="w-full text-sm" aria-rowcount={total + added.length + 1}>
             <caption className="sr-only">Load cases</caption>
             <thead className="sticky top-0 z-10 border-b border-line bg-canvas text-xs text-ink-muted">
