@@ -1,3 +1,4 @@
+import { useMemo } from "react";
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
@@ -19,6 +20,7 @@ import { accepted, answer, parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/envelope";
 import { GREEK_TEXT } from "~/utils/page-fonts";
+import { caseCells, caseRows } from "./envelope.cells";
 import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, VnPanel } from "./envelope.panels";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -35,7 +37,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const units = caseUnits(steps);
   const inputs = { basis: stepData(steps, "basis"), planform: stepData(steps, "planform"), sections: stepData(steps, "sections"), masses: stepData(steps, "masses"), envelope: envelope.data };
   const vn = vnView(inputs, DEFAULT_METHOD);
-  const values = envelopeFormValues(envelope.data, units);
+  const { cases, ...values } = envelopeFormValues(envelope.data, units);
   const total = envelope.data ? envelope.total : 0;
   const windowed = total > WHOLE_GRID_LOAD_CASES;
   return {
@@ -43,8 +45,10 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     units,
     revision: envelope.revision,
     status: envelope.status,
-    values: windowed ? { ...values, cases: [] } : values,
-    window: windowed ? { total, rows: values.cases.slice(0, FIRST_ROWS) } : null,
+    /** The method fields of the form, and its rows (envelope.cells: each an array of its cells). */
+    values,
+    cases: windowed ? [] : caseCells(cases),
+    window: windowed ? { total, rows: caseCells(cases.slice(0, FIRST_ROWS)) } : null,
     sets: vn.sets,
     vnProblem: vn.problem,
     stall: inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null,
@@ -90,8 +94,12 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
   const shown = useSettledAnswer(actionData);
   const { units } = loaderData;
   const windowed = loaderData.window !== null;
-  const saveIntent = windowed ? "method" : "save";
-  const { form, onSubmit } = useZodForm(() => envelopeForm().then((m) => m.EnvelopeFormSchema), { intent: saveIntent, revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
+  const saveIntent: "method" | "save" = windowed ? "method" : "save";
+  // Built once per page data: the form's values are read at its start and again only when a new revision resets it.
+  const { values, cases, revision, window: firstRows } = loaderData;
+  const defaults = useMemo(() => ({ intent: saveIntent, revision, ...values, cases: caseRows(cases) }), [saveIntent, revision, values, cases]);
+  const first = useMemo(() => (firstRows ? { total: firstRows.total, rows: caseRows(firstRows.rows) } : null), [firstRows]);
+  const { form, onSubmit } = useZodForm(() => envelopeForm().then((m) => m.EnvelopeFormSchema), defaults, loaderData.revision);
   const busy = useSaving();
   const server = shown?.fieldErrors;
   const disabled = !loaderData.canEdit;
@@ -118,11 +126,11 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
             <input type="hidden" {...form.register("intent")} />
             <fieldset disabled={disabled || busy}>
               <MethodPanel form={form} server={server} disabled={disabled} busy={busy} noDiagram={Boolean(loaderData.vnProblem)} />
-              {windowed ? null : <CasesPanel form={form} server={server} units={units} disabled={disabled} count={loaderData.values.cases.length} />}
+              {windowed ? null : <CasesPanel form={form} server={server} units={units} disabled={disabled} count={cases.length} />}
             </fieldset>
             <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label={windowed ? "Save method" : "Save envelope"} onSave={() => form.setValue("intent", saveIntent)} voids={loaderData.voids} />
           </Form>
-          {loaderData.window ? <CasesWindowPanel caseId={loaderData.caseId} first={loaderData.window} revision={loaderData.revision} units={units} canEdit={loaderData.canEdit} status={loaderData.status} /> : null}
+          {first ? <CasesWindowPanel caseId={loaderData.caseId} first={first} revision={loaderData.revision} units={units} canEdit={loaderData.canEdit} status={loaderData.status} /> : null}
         </div>
       </div>
     </>
