@@ -16,7 +16,7 @@ export function StepSaveBar({ canEdit, status, revision, busy, label, onSave, vo
           <strong>⚠ Saving a change voids {voids.length} signature{voids.length > 1 ? "s" : ""}:</strong> {voids.join("; ")}. The steps go back to draft and need checking again; reports already issued stay as they are.
         </p>
       ) : null}
-    <div className="mt-4 flex items-center gap-3">
+    <div className="mt-4 flex items-center gap-3" data-testid="step-save-bar">
       <Button type="submit" disabled={busy} onClick={onSave}>
         {busy ? "Saving…" : label}
       </Button>

@@ -1,6 +1,6 @@
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useEffect, useRef, useState } from "react";
-import { get, useForm, type DefaultValues, type FieldValues, type Path, type PathValue, type Resolver, type UseFormRegister, type UseFormReturn } from "react-hook-form";
+import { useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
+import { createFormControl, get, type DefaultValues, type FieldValues, type FormState, type Path, type PathValue, type Resolver, type UseFormProps, type UseFormRegister, type UseFormReturn } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
 import { whenIdle } from "~/components/ui/use-after-interactive";
@@ -20,7 +20,7 @@ export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormRetu
 export function useZodForm<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input> | (() => Promise<z.ZodType<Output, Input>>), defaultValues?: DefaultValues<Input>, resetKey?: unknown) {
   const submit = useSubmit();
   const [{ resolver, preload }] = useState(() => resolverOf(schema));
-  const form = useForm<Input, unknown, Output>({ resolver, defaultValues, mode: "onTouched" });
+  const form = useFormRenderedOnce<Input, Output>({ resolver, defaultValues, mode: "onTouched" });
   useEffect(() => (preload ? whenIdle(preload) : undefined), [preload]);
   // True until the first commit: the ref callbacks of that commit meet the server-rendered inputs.
   const hydrating = useRef(true);
@@ -52,6 +52,74 @@ export function useZodForm<Output extends FieldValues, Input extends FieldValues
     if (el) submit(formBody(el, form.getValues()), { method: "post", action: el.getAttribute("action") ?? undefined, encType: el.enctype as "application/x-www-form-urlencoded" | "multipart/form-data" });
   });
   return { form, onSubmit };
+}
+
+/**
+ * react-hook-form's useForm, less the second render it makes of the whole form as the page hydrates.
+ * useForm (7.92) marks the form ready with a state update in a layout effect: every page with a form
+ * rendered it, its panels and grids twice in the hydrating task, before the page could answer a click.
+ * This is the same form control (createFormControl), subscribed to its form state as useForm
+ * subscribes (a state change that the rendering has read, or a watched value, renders the form
+ * again), with useForm's effects for the options used here (resolver, default values, mode), and the
+ * ready flag set without a render: nothing rendered reads it.
+ */
+/* eslint-disable react-hooks/immutability -- the form control is react-hook-form's store, kept once per
+   form and changed by its own methods, which useForm's effects set as these do. */
+function useFormRenderedOnce<Input extends FieldValues, Output>(props: UseFormProps<Input, unknown, Output>): UseFormReturn<Input, unknown, Output> {
+  const [methods] = useState(() => {
+    const { formControl: _, ...rest } = createFormControl<Input, unknown, Output>(props);
+    return rest as UseFormReturn<Input, unknown, Output>;
+  });
+  const { control } = methods;
+  const [formState, setFormState] = useState(() => formStateOf(control));
+  useLayoutEffect(() => {
+    const unsubscribe = control._subscribe({ formState: control._proxyFormState, callback: () => setFormState(formStateOf(control)), reRenderRoot: true });
+    control._formState.isReady = true;
+    control._subjects.state.next({ isReady: true });
+    return unsubscribe;
+  }, [control]);
+  // As useForm: a form made dirty before the subscription above (what was typed before the scripts
+  // ran, given back in the first commit's ref callbacks) says so once subscribed.
+  useEffect(() => {
+    if (!control._proxyFormState.isDirty) return;
+    const isDirty = control._getDirty();
+    if (isDirty !== formState.isDirty) control._subjects.state.next({ isDirty });
+  }, [control, formState.isDirty]);
+  // As useForm, after every commit: the form counts as mounted (values read from what is typed, not
+  // the defaults), a watched field registered meanwhile is announced, removed fields are let go.
+  useEffect(() => {
+    if (!control._state.mount) {
+      control._setValid();
+      control._state.mount = true;
+    }
+    if (control._state.watch) {
+      control._state.watch = false;
+      control._subjects.state.next({ ...control._formState });
+    }
+    control._removeUnmounted();
+  });
+  // The form state handed to rendering notes what it reads, so only those changes render again.
+  methods.formState = useMemo(() => trackedFormState(formState, control._proxyFormState), [control, formState]);
+  return methods;
+}
+/* eslint-enable react-hooks/immutability */
+
+function formStateOf<T extends FieldValues>(control: UseFormReturn<T, unknown, unknown>["control"]): FormState<T> {
+  return { ...control._formState, defaultValues: control._defaultValues as FormState<T>["defaultValues"] };
+}
+
+/** useForm's form state as the form renders it: reading a property subscribes the form to its changes. */
+function trackedFormState<T extends FieldValues>(formState: FormState<T>, read: Record<string, unknown>): FormState<T> {
+  const result = {} as FormState<T>;
+  for (const key of Object.keys(formState) as (keyof FormState<T> & string)[]) {
+    Object.defineProperty(result, key, {
+      get: () => {
+        if (read[key] !== "all") read[key] = "all";
+        return formState[key];
+      },
+    });
+  }
+  return result;
 }
 
 /**

@@ -1,4 +1,5 @@
 import { useState, type ChangeEvent } from "react";
+import { useWatch } from "react-hook-form";
 import { PlanformDrawing } from "~/components/case/planform-drawing";
 import { TextField } from "~/components/forms/field";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
@@ -132,8 +133,9 @@ export function ItemsPanel({ form, server, units, disabled }: FormProps) {
 /** The aircraft's mass states with their weight and CG, and each item's fill factor in each. */
 export function MassCasesPanel({ form, server, units, disabled }: FormProps) {
   const kg = unitSymbol(units, "mass");
-  const items = (form.watch("items") ?? []).map((it) => String(it.id ?? "")).filter(Boolean);
-  const cases = (form.watch("massCases") ?? []).map((mc) => String(mc.id ?? ""));
+  // Watched here, not by the page: a change to the rows renders this panel again, not the whole form.
+  const items = (useWatch({ control: form.control, name: "items" }) ?? []).map((it) => String(it.id ?? "")).filter(Boolean);
+  const cases = (useWatch({ control: form.control, name: "massCases" }) ?? []).map((mc) => String(mc.id ?? ""));
   return (
     <Panel title="Mass cases">
       <p className="mb-2 text-xs text-ink-muted">Each mass state of the aircraft — full fuel, zero fuel, reserve… — with its whole-aircraft weight and centre of gravity in % of the MAC. The envelope is generated for each mass case.</p>
@@ -232,10 +234,10 @@ export function MassesDrawingPanel({ form, planform, overview, units }: { form: 
     const n = num(v);
     return n === undefined ? undefined : toSI(units, "length", n);
   };
-  const drawn = (form.watch("items") ?? [])
+  const drawn = (useWatch({ control: form.control, name: "items" }) ?? [])
     .filter((it) => it.id)
     .map((it) => ({ id: String(it.id), kg: num(it.kg) ?? 0, x: length(it.x) ?? Number.NaN, y: length(it.y), yFrom: length(it.yFrom), yTo: length(it.yTo) }));
-  const cgs = (form.watch("massCases") ?? []).flatMap((mc) => {
+  const cgs = (useWatch({ control: form.control, name: "massCases" }) ?? []).flatMap((mc) => {
     const cg = num(mc.cg);
     return mc.id && cg !== undefined ? [{ label: String(mc.id), fraction: cg / 100 }] : [];
   });

@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useRef, useState } from "react";
+import { useWatch } from "react-hook-form";
 import { href, useFetcher } from "react-router";
 import { PlanformDrawing } from "~/components/case/planform-drawing";
 import { TextField } from "~/components/forms/field";
@@ -6,7 +7,6 @@ import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { EditableGrid } from "~/components/tables/editable-grid";
 import { Button } from "~/components/ui/button";
 import { Panel } from "~/components/ui/page-header";
-import { whenIdle } from "~/components/ui/use-after-interactive";
 import { panelsToStations } from "~/domain/planform-panels";
 import { formatNumber, fromSI, tidy, toSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { FieldErrors } from "~/utils/form-data";
@@ -70,27 +70,49 @@ export function GeometryPanel({ geometry, units }: { geometry: PlanformGeometry 
   );
 }
 
-/** Posts the typed form (its stations converted to SI) to the preview route, 300 ms after typing stops. */
-export function useLivePreview(values: unknown, units: UnitSystem) {
+type Saved = Parameters<typeof DrawingPanel>[0]["saved"];
+
+/**
+ * The drawing and the derived geometry of the planform as typed (checked by the preview route) or as
+ * saved. The typed values are watched here, not by the page: typing renders these panels again, not
+ * the whole form.
+ */
+export function PreviewPanels({ form, saved, units }: { form: ZodForm<typeof PlanformFormSchema>; saved: Saved; units: UnitSystem }) {
+  const preview = useLivePreview(useWatch({ control: form.control }), units);
+  return (
+    <>
+      <DrawingPanel preview={preview} saved={saved} units={units} />
+      <GeometryPanel geometry={preview?.ok ? preview.geometry : saved.geometry} units={units} />
+    </>
+  );
+}
+
+/**
+ * Posts the typed form (its stations converted to SI) to the preview route, 300 ms after typing
+ * stops. Nothing is posted while the form holds what the page was drawn with (the saved planform,
+ * drawn from the page's data): the schema that reads the typed values, and the post, wait for a change.
+ */
+function useLivePreview(values: unknown, units: UnitSystem) {
   const fetcher = useFetcher<PlanformPreview>();
   const key = JSON.stringify(values);
+  const [shownKey] = useState(key);
+  const changed = key !== shownKey;
   const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
-  // The preview waits for the schema, loaded when the browser is next idle after hydration.
   const [schema, setSchema] = useState<Awaited<ReturnType<typeof planformForm>> | null>(null);
   useEffect(() => {
+    if (!changed || schema) return;
     let live = true;
-    const cancel = whenIdle(() => void planformForm().then((m) => live && setSchema(m)));
+    void planformForm().then((m) => live && setSchema(m));
     return () => {
       live = false;
-      cancel();
     };
-  }, []);
-  // Keyed on the form's contents, not on the values object react-hook-form renews at every render.
+  }, [changed, schema]);
+  // Keyed on the form's contents, not on the values object react-hook-form renews at every change.
   const body = useMemo(() => {
-    if (!schema) return null;
+    if (!schema || !changed) return null;
     const parsed = schema.PlanformFormSchema.safeParse(JSON.parse(key));
     return parsed.success ? schema.planformToSI(parsed.data, units) : null;
-  }, [schema, key, units]);
+  }, [schema, changed, key, units]);
   const { submit } = fetcher;
   useEffect(() => {
     if (!body) return;
@@ -98,7 +120,8 @@ export function useLivePreview(values: unknown, units: UnitSystem) {
     timer.current = setTimeout(() => submit(body, { method: "post", action: href("/api/planform-preview"), encType: "application/json" }), 300);
     return () => clearTimeout(timer.current);
   }, [body, submit]);
-  return fetcher.data;
+  // Typed back to what the page was drawn with: the saved drawing again, not the last preview.
+  return changed ? fetcher.data : undefined;
 }
 
 function GeometryTable({ geometry, units }: { geometry: PlanformGeometry; units: UnitSystem }) {

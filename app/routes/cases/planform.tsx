@@ -16,7 +16,7 @@ import { parseBody, refused } from "~/utils/http.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/planform";
 import { GREEK_TEXT } from "~/utils/page-fonts";
-import { DrawingPanel, GeometryPanel, PanelEntryPanel, planformForm, StationsPanel, useLivePreview } from "./planform.panels";
+import { PanelEntryPanel, planformForm, PreviewPanels, StationsPanel } from "./planform.panels";
 import { saveStepAnswer } from "./step-action.server";
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
@@ -57,7 +57,6 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
   const { form, onSubmit } = useZodForm(() => planformForm().then((m) => m.PlanformFormSchema), { ...loaderData.values, revision: loaderData.revision }, loaderData.revision);
   const busy = useSaving();
   const server = shown?.fieldErrors;
-  const preview = useLivePreview(form.watch(), units);
   const disabled = !loaderData.canEdit;
   return (
     <>
@@ -74,8 +73,7 @@ export default function PlanformRoute({ loaderData, actionData }: Route.Componen
           <StepSaveBar canEdit={loaderData.canEdit} status={loaderData.status} revision={loaderData.revision} busy={busy} label="Save planform" voids={loaderData.voids} />
         </Form>
         <div className="space-y-5">
-          <DrawingPanel preview={preview} saved={saved} units={units} />
-          <GeometryPanel geometry={preview?.ok ? preview.geometry : saved.geometry} units={units} />
+          <PreviewPanels form={form} saved={saved} units={units} />
         </div>
       </div>
     </>
