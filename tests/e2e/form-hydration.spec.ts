@@ -27,6 +27,37 @@ async function afterIdle(page: Page) {
   await page.waitForLoadState("networkidle");
 }
 
+/** The form schemas' modules (a route's `*.schema` chunk, and the shared zod and step-schema chunk). */
+const isSchemaModule = (url: string) => /\/assets\/([\w-]+\.schema|schemas)-[\w-]+\.js$/.test(url);
+
+// Each step with a field its schema checks: a value refused, and what the form says.
+const CHECKS = [
+  { step: "basis", field: "Max take-off [kg]", typed: "heavy", says: "Maximum design take-off weight must be a number" },
+  { step: "planform", field: "Reference axis at root [chord fraction]", typed: "abc", says: "Reference axis at the root must be a number" },
+  { step: "sections", field: "Δα0L [°]", typed: "abc", says: null },
+  { step: "masses", field: "Wing–body Cm increment at zero lift", typed: "abc", says: "Wing–body Cm increment must be a number" },
+] as const;
+
+for (const { step, field, typed, says } of CHECKS) {
+  test(`the ${step} page loads its form's schema once a field takes the focus, not as it loads`, async ({ page }) => {
+    await signIn(page, "engineer"); // the sign-in page checks its form with zod as it loads
+    const path = `/cases/${await demoCaseId(page)}/${step}`;
+    const schemaRequests: string[] = [];
+    page.on("request", (r) => void (isSchemaModule(r.url()) && schemaRequests.push(r.url())));
+    await page.goto(path);
+    await hydrated(page);
+    await afterIdle(page);
+    expect(schemaRequests).toEqual([]);
+    const input = page.getByLabel(field, { exact: true });
+    await input.focus();
+    await expect.poll(() => schemaRequests.length).toBeGreaterThan(0);
+    if (!says) return;
+    await input.fill(typed);
+    await input.blur();
+    await expect(page.getByText(says)).toBeVisible();
+  });
+}
+
 test("the planform page posts no preview of the planform it was drawn with, and draws a changed chord", async ({ page }) => {
   await signIn(page, "engineer");
   const path = `/cases/${await copyOfDemoCase(page, "E2E-PLANFORM-PREVIEW")}/planform`;

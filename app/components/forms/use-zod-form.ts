@@ -3,7 +3,6 @@ import { useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import { createFormControl, get, type DefaultValues, type FieldValues, type FormState, type Path, type PathValue, type Resolver, type UseFormProps, type UseFormRegister, type UseFormReturn } from "react-hook-form";
 import { useSubmit } from "react-router";
 import type { z } from "zod";
-import { whenIdle } from "~/components/ui/use-after-interactive";
 
 /** The react-hook-form state of a form checked by a zod schema: what is typed in, and what the schema makes of it. */
 export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormReturn<z.input<S>, unknown, z.output<S>>;
@@ -14,14 +13,16 @@ export type ZodForm<S extends z.ZodType<FieldValues, FieldValues>> = UseFormRetu
  * through React Router's submit, and the action re-validates with that schema.
  *
  * The schema may be given as a function that imports it: the page then answers its first click
- * without zod and the step schemas (some 100 KB of script to evaluate), which load once the browser
- * is idle after hydration, or at the form's first check if that comes sooner.
+ * without zod and the step schemas (some 100 KB of script to evaluate), which load once something on
+ * the page takes the focus (a field about to be typed into and checked on blur, a button about to
+ * submit), or at the form's first check if that comes sooner. Not when the browser is first idle: a
+ * click sent then waited for the schemas' evaluation, and a page only read never needs them.
  */
 export function useZodForm<Output extends FieldValues, Input extends FieldValues>(schema: z.ZodType<Output, Input> | (() => Promise<z.ZodType<Output, Input>>), defaultValues?: DefaultValues<Input>, resetKey?: unknown) {
   const submit = useSubmit();
   const [{ resolver, preload }] = useState(() => resolverOf(schema));
   const form = useFormRenderedOnce<Input, Output>({ resolver, defaultValues, mode: "onTouched" });
-  useEffect(() => (preload ? whenIdle(preload) : undefined), [preload]);
+  useEffect(() => (preload ? whenFocused(preload) : undefined), [preload]);
   // True until the first commit: the ref callbacks of that commit meet the server-rendered inputs.
   const hydrating = useRef(true);
   useEffect(() => {
@@ -120,6 +121,16 @@ function trackedFormState<T extends FieldValues>(formState: FormState<T>, read: 
     });
   }
   return result;
+}
+
+/** Calls `run` once, when something on the page first takes the focus; returns the cancel. */
+function whenFocused(run: () => void): () => void {
+  const once = () => {
+    document.removeEventListener("focusin", once);
+    run();
+  };
+  document.addEventListener("focusin", once);
+  return () => document.removeEventListener("focusin", once);
 }
 
 /**

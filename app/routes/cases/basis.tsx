@@ -24,8 +24,8 @@ import { BASIS_FIELDS, BASIS_QUANTITIES } from "./basis.quantities";
 import { saveStepAnswer } from "./step-action.server";
 
 // The form's schema (zod and the step schemas) is imported on demand, here as in the browser: the
-// page answers its first click without it (useZodForm loads the schema once idle). One way of
-// importing the module on both sides keeps the dynamic import a real chunk boundary.
+// page answers its first click without it (useZodForm loads it once the page first takes the focus).
+// One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
 const basisForm = () => import("./basis.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {

@@ -21,7 +21,7 @@ import { AileronPanel, FlapsPanel, previewOf, RicherDataPanel, SectionFitCharts,
 import { saveStepAnswer } from "./step-action.server";
 
 // The form's schema and conversions (zod and the step schemas) are imported on demand, here as in the
-// browser: the page answers its first click without them (useZodForm loads the schema once idle).
+// browser: the page answers its first click without them (useZodForm loads the schema at first focus).
 // One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
 const sectionsForm = () => import("./sections.schema");
 
