@@ -32,8 +32,10 @@ export const SERIES_STYLE = {
   neutral: { color: "#7a8694", type: "solid" as const, label: "" },
 } as const;
 
-// The family app.css declares (@fontsource-variable), so the charts are set in the loaded face.
-export const CHART_FONT = "Source Sans 3 Variable, sans-serif";
+// The family app.css declares (@fontsource-variable), so the charts are set in the loaded face. Quoted:
+// a name with a word that is a number ("3") is not a valid unquoted CSS family, and a canvas or an SVG
+// style given an invalid family list ignores it (the canvas then draws every label in 10px sans-serif).
+export const CHART_FONT = "'Source Sans 3 Variable', sans-serif";
 
 /**
  * The round value at or above `v`, on a step of a fifth of v's decade (7.993832 → 8, 8.7 → 8.8,
