@@ -1,7 +1,7 @@
 import type { SpanwiseComparison } from "~/domain/comparisons";
 import type { ReportComparison } from "~/domain/report-comparison";
 import type { EnvelopeRow } from "~/engine";
-import type { UnitSystem } from "~/domain/units";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE, spanAxis, station, type ChartOption } from "./theme";
 
 /** A display unit: its symbol and the conversion from SI. */
@@ -49,4 +49,18 @@ export function envelopeVersionsOption(
       line(`v${c.from.version} min`, pts(c.envelopes.before, "Min"), { ...SERIES_STYLE.earlier, type: "dotted" }),
     ],
   };
+}
+
+/** The distribution page's running lift of one case by each spanwise method, in the unit shown. The page and the server draw this option. */
+export function spanwiseWaysChartOption(c: SpanwiseComparison, units: UnitSystem): ChartOption {
+  return spanwiseWaysOption(c, { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) }, units);
+}
+
+/** The report comparison page's three envelope overlays, in the units shown. The page and the server draw these options. */
+export function envelopeVersionsChartOptions(c: Pick<ReportComparison, "envelopes" | "from" | "to">, units: UnitSystem): Record<"shear" | "bending" | "torsion", ChartOption> {
+  const one = (kind: "shear" | "bending" | "torsion") => {
+    const quantity = kind === "shear" ? "force" : "moment";
+    return envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) }, units);
+  };
+  return { shear: one("shear"), bending: one("bending"), torsion: one("torsion") };
 }

@@ -69,3 +69,8 @@ export function machCriticalOption(d: DistributionSeries, units: UnitSystem = "S
     ],
   };
 }
+
+/** The distribution page's charts of the case shown. The page and the server draw these options. */
+export function distributionChartOptions(d: DistributionSeries, units: UnitSystem) {
+  return { loading: loadingOption(d, units), cl: clOption(d, units), rulesCl: rulesOption(d, "cl", units), rulesCm: rulesOption(d, "cm", units), machCritical: machCriticalOption(d, units) };
+}

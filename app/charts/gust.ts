@@ -1,4 +1,5 @@
 import type { TunedGustResult } from "~/engine";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /**
@@ -40,4 +41,10 @@ export function gustHistoryOption(title: string, history: { s: number; gust: num
       line("Δn / Δn sharp-edged", history.map((h) => [chords(h.s), h.k] as [number, number]), SERIES_STYLE.dynamicGust),
     ],
   };
+}
+
+/** The two charts of one speed's tuned gust on the envelope page, in the length unit shown: the page and the server draw these options. */
+export function tunedGustOptions(t: { speed: string; result: TunedGustResult; history: { s: number; gust: number; k: number }[] }, units: UnitSystem): { peak: ChartOption; history: ChartOption } {
+  const length = { symbol: unitSymbol(units, "length"), fromSI: (m: number) => fromSI(units, "length", m) };
+  return { peak: tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length), history: gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history) };
 }

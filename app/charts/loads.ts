@@ -1,4 +1,4 @@
-import type { UnitSystem } from "~/domain/units";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE, spanAxis, station, type ChartOption } from "./theme";
 
 export type LoadQuantity = "shear" | "bending" | "torsion";
@@ -57,4 +57,30 @@ export function reliefOption(
       line(SERIES_STYLE.net.label, pts(data.net), SERIES_STYLE.net),
     ],
   };
+}
+
+type Envelope = { y: number; shearMax: number; shearMin: number; bendingMax: number; bendingMin: number; torsionMax: number; torsionMin: number }[];
+type StationLoads = { shear: number; bending: number; torsion: number }[];
+
+/** The loads page's three charts: each load's envelope with the case shown (both sides of a rolling case). The page and the server draw these options. */
+export function loadsChartOptions(envelope: Envelope, current: { id: string; stations?: StationLoads; roll?: { other: { stations?: StationLoads } } }, units: UnitSystem): Record<LoadQuantity, ChartOption> {
+  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
+  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
+  const series = (q: LoadQuantity) => ({
+    y: envelope.map((e) => e.y),
+    max: envelope.map((e) => e[`${q}Max`]),
+    min: envelope.map((e) => e[`${q}Min`]),
+    caseId: current.id,
+    caseValues: current.stations?.map((s) => s[q]),
+    otherValues: current.roll?.other.stations?.map((s) => s[q]),
+  });
+  return { shear: loadsOption("shear", series("shear"), force, units), bending: loadsOption("bending", series("bending"), moment, units), torsion: loadsOption("torsion", series("torsion"), moment, units) };
+}
+
+/** The loads page's breakdown of one case: aerodynamic load, relief and net load of each quantity. The page and the server draw these options. */
+export function reliefChartOptions(parts: { y: number[]; aero: Record<LoadQuantity, number[]>; relief: Record<LoadQuantity, number[]>; net: Record<LoadQuantity, number[]> }, caseId: string, units: UnitSystem): Record<LoadQuantity, ChartOption> {
+  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
+  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
+  const one = (q: LoadQuantity) => reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId }, q === "shear" ? force : moment, units);
+  return { shear: one("shear"), bending: one("bending"), torsion: one("torsion") };
 }

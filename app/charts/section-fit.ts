@@ -22,3 +22,11 @@ export function sectionFitOption(table: SectionsData["tables"][number], fit: { a
     ],
   };
 }
+
+/** The sections page's fit chart of each polar table of the saved data with a row at its station, by station. The page and the server draw these options. */
+export function sectionFitOptions(saved: Pick<SectionsData, "tables" | "rows"> | null, units: UnitSystem): { y: number; option: ChartOption }[] {
+  return (saved?.tables ?? []).flatMap((t) => {
+    const row = saved!.rows.find((r) => r.y === t.y);
+    return row ? [{ y: t.y, option: sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 }, units) }] : [];
+  });
+}

@@ -1,4 +1,5 @@
 import type { VnPoint } from "~/engine";
+import { fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 import { axis, baseOption, line, SERIES_STYLE, type ChartOption } from "./theme";
 
 /**
@@ -80,4 +81,11 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
         : []),
     ],
   } satisfies ChartOption;
+}
+
+const G0 = 9.80665;
+
+/** The V–n diagram of one set of the envelope page (its weight and altitude), in the speed unit shown: the page and the server draw this one option. */
+export function vnSetOption(set: { label: string; points: VnPoint[]; weightKg: number; flaps?: { clMax: number } }, stall: { area: number; clMax: number; clMaxNegative: number }, units: UnitSystem) {
+  return vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) });
 }

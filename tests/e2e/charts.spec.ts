@@ -3,7 +3,7 @@ import { expect, test } from "@playwright/test";
 import { copyOfDemoCase, hydrated, signIn, typeDemoBasis } from "./helpers";
 
 // What a chart prints: axes end at round values. The chart is read through its own "Save SVG",
-// which renders the page's ECharts option as vectors, so its labels are text.
+// which hands over the server's drawing of the page's ECharts option, so its labels are text.
 
 /** The text of every label in an SVG file. */
 const svgTexts = (svg: string) => [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]!.trim()).filter(Boolean);
@@ -21,7 +21,7 @@ test("the span axis of a loads chart ends at a round value, in feet as in metres
   await page.goto(`/cases/${caseId}/loads`);
   await hydrated(page);
   const figure = page.getByRole("figure", { name: "Shear force along the span" });
-  await expect(figure.locator("canvas")).toHaveCount(1, { timeout: 120_000 });
+  await expect(figure.getByRole("img", { name: "Shear force along the span" })).toBeVisible({ timeout: 120_000 });
   const download = page.waitForEvent("download");
   await figure.getByRole("button", { name: "Save SVG" }).click();
   const svg = fs.readFileSync((await (await download).path())!, "utf8");

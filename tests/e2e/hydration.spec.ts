@@ -13,7 +13,7 @@ test("the envelope page draws the V–n points table once: the form's second ren
   await hydrated(page);
   // Everything drawn after the page answers input is there: the grid's rows and the diagram.
   await expect(page.getByLabel("Case, row 1", { exact: true })).toBeVisible();
-  await expect(page.getByRole("figure", { name: "V–n diagram" }).locator("canvas")).toHaveCount(1, { timeout: 60_000 });
+  await expect(page.getByRole("figure", { name: "V–n diagram" }).getByRole("img", { name: "V–n diagram" })).toBeVisible({ timeout: 60_000 });
   expect(await rendersIn(page, "vnTable")).toBe(1);
 });
 
@@ -24,7 +24,7 @@ test("the distribution page's flagged-cases table is not drawn again by the page
   await hydrated(page);
   await expect(page.getByRole("table", { name: "Flagged cases and their dispositions" }).getByRole("row")).not.toHaveCount(0);
   // The shown case's distribution, the methods compared and the rule sensitivity have all arrived.
-  await expect(page.getByRole("figure", { name: "Spanwise loading" }).locator("canvas")).toHaveCount(1, { timeout: 60_000 });
+  await expect(page.getByRole("figure", { name: "Spanwise loading" }).getByRole("img", { name: "Spanwise loading" })).toBeVisible({ timeout: 60_000 });
   await expect(page.getByRole("table", { name: "Root loads by spanwise method" })).toBeVisible({ timeout: 60_000 });
   await expect(page.getByRole("table", { name: "Root loads of the critical cases under each compressibility rule" })).toBeVisible({ timeout: 120_000 });
   // Drawn as the page hydrates, and once more when the virtualiser first takes note of the window it

@@ -16,9 +16,9 @@ test("no page of the demo case scrolls sideways in a window 1 400 px wide", asyn
   for (const path of CASE_PAGES) {
     await page.goto(`/cases/${demo.id}${path}`);
     await hydrated(page);
-    // Charts are drawn after hydration, at the width their box had then: wait until every chart has drawn.
+    // Charts are shown as the server's drawing (or drawn live after hydration, at the width their box had then): wait until every chart shows.
     await expect
-      .poll(() => page.evaluate(() => [...document.querySelectorAll("figure")].filter((f) => f.querySelector("figcaption button")).every((f) => f.querySelector("canvas"))), { timeout: 60_000 })
+      .poll(() => page.evaluate(() => [...document.querySelectorAll("figure")].filter((f) => f.querySelector("figcaption button")).every((f) => f.querySelector("canvas, svg[role=img]"))), { timeout: 60_000 })
       .toBe(true);
     widths[path || "/"] = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
   }

@@ -44,7 +44,7 @@ test("the V–n page shows the rolling points and the loads page both sides of a
   await expect(sides.getByRole("row").filter({ hasText: "Other side" })).toContainText("° up");
   // The charts draw both sides: read the shear chart's legend through its own "Save SVG".
   const figure = page.getByRole("figure", { name: "Shear force along the span" });
-  await expect(figure.locator("canvas")).toHaveCount(1);
+  await expect(figure.getByRole("img", { name: "Shear force along the span" })).toBeVisible();
   const download = page.waitForEvent("download");
   await figure.getByRole("button", { name: "Save SVG" }).click();
   const labels = svgTexts(fs.readFileSync((await (await download).path())!, "utf8"));

@@ -1,16 +1,13 @@
 import * as echarts from "echarts/core";
-import { LineChart, ScatterChart } from "echarts/charts";
-import { GridComponent, LegendComponent, MarkAreaComponent, TitleComponent, TooltipComponent } from "echarts/components";
-import { LabelLayout } from "echarts/features";
 import { CanvasRenderer } from "echarts/renderers";
 import ReactEChartsCore from "echarts-for-react/esm/core";
 import type { EChartsReactProps } from "echarts-for-react";
+import { CHART_PARTS } from "./echarts-parts";
 import { forwardRef } from "react";
 
-// Only what app/charts builds: line and scatter series, titles, grids, legends, tooltips, the
-// shaded linear range (markArea) and labels moved apart (labelLayout), drawn on canvas; the SVG renderer comes with "Save SVG"
-// (echarts-svg.ts). The whole library is twice the size and came with every page with a chart.
-echarts.use([LineChart, ScatterChart, GridComponent, LegendComponent, MarkAreaComponent, TitleComponent, TooltipComponent, LabelLayout, CanvasRenderer]);
+// Only the parts app/charts builds (echarts-parts.ts), drawn on canvas; the SVG renderer comes with "Save SVG"
+// of a chart the server did not draw (echarts-svg.ts). The whole library is twice the size and came with every page with a chart.
+echarts.use([...CHART_PARTS, CanvasRenderer]);
 
 export { echarts };
 

@@ -1,6 +1,8 @@
 import { requireCase } from "~/auth/case-access.server";
 import { DomainError } from "~/domain/errors";
 import { sweepProgressText } from "~/domain/results";
+import { getCaseUnits } from "~/services/case-steps.server";
+import { loadsDrawings } from "~/charts/drawings.server";
 import { loadsView } from "~/services/loads-view.server";
 import { apiRefusal } from "~/utils/http.server";
 import type { Route } from "./+types/case-loads";
@@ -8,7 +10,8 @@ import type { Route } from "./+types/case-loads";
 /**
  * GET /api/cases/:caseId/loads[?case=id] — what the loads page shows of the case's results: the
  * envelope, the root loads of at most 500 cases (the most critical of a larger file) and one case
- * with its stations; 202 with the progress while a large sweep is computed. The whole result
+ * with its stations, and the server's drawings of the page's charts; 202 with the progress while a
+ * large sweep is computed. The whole result
  * document is the public results API's.
  */
 export async function loader({ request, params, context }: Route.LoaderArgs) {
@@ -23,7 +26,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
       );
     }
     const { pending: _pending, ...body } = view;
-    return Response.json(body, { headers: { "Cache-Control": "no-store" } });
+    return Response.json({ ...body, drawings: loadsDrawings(body, await getCaseUnits(c.id)) }, { headers: { "Cache-Control": "no-store" } });
   } catch (error) {
     if (error instanceof DomainError) return apiRefusal(error);
     throw error;

@@ -1,8 +1,8 @@
 import { useVirtualizer } from "@tanstack/react-virtual";
 import { memo, useEffect, useRef, useState } from "react";
 import { href, useFetcher, type FetcherWithComponents } from "react-router";
-import { spanwiseWaysOption } from "~/charts/comparisons";
-import { clOption, loadingOption, machCriticalOption, rulesOption } from "~/charts/distribution";
+import { spanwiseWaysChartOption } from "~/charts/comparisons";
+import { distributionChartOptions } from "~/charts/distribution";
 import { Chart } from "~/components/charts/chart";
 import { Button } from "~/components/ui/button";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
@@ -14,6 +14,7 @@ import type { FlagReason } from "~/domain/results";
 import { RULE_LABELS, type StepStatus } from "~/domain/vocabulary";
 import { formatChange, formatPercent, sensitivityProgressText, SPANWISE_WAY_LABELS, type RuleSensitivity, type SensitivityProgress, type SpanwiseComparison } from "~/domain/comparisons";
 import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
+import type { DistributionDrawings } from "~/charts/drawings.server";
 import type { DistributionPageView, DistributionSummary, FlagWindow } from "~/services/distribution.server";
 import type { FieldErrors } from "~/utils/form-data";
 import { methodUsedLines } from "~/domain/method-statement";
@@ -138,14 +139,16 @@ export const MethodUsedPanel = memo(function MethodUsedPanel({ method, machCriti
 });
 
 /** The solver's loading beside Schrenk's, cl, cl and cm under each rule, critical Mach by station. */
-export const DistributionCharts = memo(function DistributionCharts({ view, units }: { view: View; units: UnitSystem }) {
+export const DistributionCharts = memo(function DistributionCharts({ view, units }: { view: View & { drawings: DistributionDrawings }; units: UnitSystem }) {
+  const options = distributionChartOptions(view, units);
+  const svg = view.drawings;
   return (
     <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
-      <Chart option={loadingOption(view, units)} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
-      <Chart option={clOption(view, units)} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cl", units)} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
-      <Chart option={rulesOption(view, "cm", units)} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
-      <Chart option={machCriticalOption(view, units)} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
+      <Chart option={options.loading} svg={svg.loading} label="Spanwise loading" fileName={`loading-${view.caseId}`} />
+      <Chart option={options.cl} svg={svg.cl} label="Section lift coefficient" fileName={`cl-${view.caseId}`} />
+      <Chart option={options.rulesCl} svg={svg.rulesCl} label="cl by compressibility rule" fileName={`rules-cl-${view.caseId}`} />
+      <Chart option={options.rulesCm} svg={svg.rulesCm} label="cm by compressibility rule" fileName={`rules-cm-${view.caseId}`} />
+      <Chart option={options.machCritical} svg={svg.machCritical} label="Critical Mach number" fileName={`mcrit-${view.caseId}`} />
       <Panel title="The three rules for this case">
         <table className="w-full text-sm tabular">
           <thead className="text-xs text-ink-muted">
@@ -474,7 +477,7 @@ function RuleSensitivityTable({ units, s }: { units: UnitSystem; s: RuleSensitiv
  * why a method is absent.
  */
 export const SpanwiseMethodsPanel = memo(function SpanwiseMethodsPanel({ caseId, loadCase, revision }: { caseId: string; loadCase: string; revision: number }) {
-  const data = useFetcher<{ units: UnitSystem; comparison: SpanwiseComparison } | Refusal>();
+  const data = useFetcher<{ units: UnitSystem; comparison: SpanwiseComparison; drawing: string } | Refusal>();
   useLoadAfterInteractive(data.load, `${href("/api/cases/:caseId/spanwise-methods", { caseId })}?case=${encodeURIComponent(loadCase)}`, revision);
   const failed = refusalOf(data.data);
   const loaded = data.data && "comparison" in data.data && data.data.comparison.caseId === loadCase ? data.data : null;
@@ -487,13 +490,13 @@ export const SpanwiseMethodsPanel = memo(function SpanwiseMethodsPanel({ caseId,
           Solving case {loadCase} by each spanwise method…
         </p>
       ) : (
-        <SpanwiseMethods units={loaded.units} c={loaded.comparison} />
+        <SpanwiseMethods units={loaded.units} c={loaded.comparison} drawing={loaded.drawing} />
       )}
     </Panel>
   );
 });
 
-function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseComparison }) {
+function SpanwiseMethods({ units, c, drawing }: { units: UnitSystem; c: SpanwiseComparison; drawing: string }) {
   const base = c.ways.find((w) => w.way === c.chosen);
   const delta = (q: "shear" | "bending" | "torsion", v: number) => {
     if (!base?.valid) return "—";
@@ -504,10 +507,9 @@ function SpanwiseMethods({ units, c }: { units: UnitSystem; c: SpanwiseCompariso
   };
   const f = unitSymbol(units, "force");
   const m = unitSymbol(units, "moment");
-  const lift = { symbol: unitSymbol(units, "runningLoad"), scale: (si: number) => fromSI(units, "runningLoad", si) };
   return (
     <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
-      <Chart option={spanwiseWaysOption(c, lift, units)} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
+      <Chart option={spanwiseWaysChartOption(c, units)} svg={drawing} label={`Running lift of case ${c.caseId} by spanwise method`} fileName={`methods-${c.caseId}`} />
       <div className="overflow-x-auto">
         <table className="w-full text-sm tabular" aria-label="Root loads by spanwise method">
           <thead className="text-xs text-ink-muted">

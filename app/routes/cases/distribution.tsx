@@ -9,6 +9,7 @@ import { hasPermission } from "~/domain/permissions";
 import { sweepFraction, sweepProgressText } from "~/domain/results";
 import { formatCount } from "~/domain/units";
 import { getCaseUnits } from "~/services/case-steps.server";
+import type { DistributionDrawings } from "~/charts/drawings.server";
 import { distributionPage, mergedDispositions, type DistributionPageView } from "~/services/distribution.server";
 import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
@@ -41,7 +42,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 export default function DistributionRoute({ loaderData }: Route.ComponentProps) {
   const { page, caseId, units, revision } = loaderData;
   const save: SaveFetcher = useFetcher<typeof action>({ key: "dispositions" });
-  const picked = useFetcher<DistributionPageView | { error: string; message: string }>();
+  const picked = useFetcher<(DistributionPageView & { drawings: DistributionDrawings }) | { error: string; message: string }>();
   const revalidator = useRevalidator();
   // The case chosen on the page, else the one the server picked (known once the results are stored).
   const [chosen, setShownId] = useState<string | null>(null);

@@ -4,8 +4,8 @@ import { href, useFetcher } from "react-router";
 import { UnsavedGuard } from "~/components/case/unsaved-guard";
 import type { LoadCaseRows } from "../api/case-load-cases";
 import { VORTEX_LATTICE_DEFAULT_STRIPS } from "~/engine";
-import { gustHistoryOption, tunedGustOption } from "~/charts/gust";
-import { vnOption } from "~/charts/vn";
+import { tunedGustOptions } from "~/charts/gust";
+import { vnSetOption } from "~/charts/vn";
 import { DataTable } from "~/components/tables/data-table";
 import { Chart } from "~/components/charts/chart";
 import { SelectField, TextField } from "~/components/forms/field";
@@ -17,17 +17,17 @@ import { useDrawnInSteps } from "~/components/ui/use-after-interactive";
 import { COMPRESSIBILITY_RULES, RULE_LABELS, SPANWISE_LABELS, SPANWISE_METHODS, type StepStatus } from "~/domain/vocabulary";
 import { formatCount, fromSI, roundForDisplay, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { VnSet } from "~/services/envelope.server";
+import type { EnvelopeDrawings } from "~/charts/drawings.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { EnvelopeFormSchema } from "./envelope.schema";
 
-const G0 = 9.80665;
 
 type EnvelopeForm = ZodForm<typeof EnvelopeFormSchema>;
 
 // Memoised: the form beside it renders twice as the page hydrates (react-hook-form marks itself ready
 // in a layout effect), and the diagram, its table and its charts do not depend on the form.
 /** The V–n diagram of each design weight and altitude, one shown at a time, with its gust data. */
-export const VnPanel = memo(function VnPanel({ sets, problem, stall, units }: { sets: VnSet[]; problem: string | null; stall: { area: number; clMax: number; clMaxNegative: number } | null; units: UnitSystem }) {
+export const VnPanel = memo(function VnPanel({ sets, problem, stall, units, drawings }: { sets: VnSet[]; problem: string | null; stall: { area: number; clMax: number; clMaxNegative: number } | null; units: UnitSystem; drawings?: EnvelopeDrawings | null }) {
   const [setIndex, setSetIndex] = useState(0);
   const set = sets[setIndex];
   return (
@@ -47,7 +47,8 @@ export const VnPanel = memo(function VnPanel({ sets, problem, stall, units }: { 
             </select>
           </label>
           <Chart
-            option={vnOption(`V–n diagram, ${set.label}`, set.points, { ...stall, weightN: set.weightKg * G0, clMaxFlaps: set.flaps?.clMax }, { symbol: unitSymbol(units, "speed"), fromSI: (v) => fromSI(units, "speed", v) })}
+            option={vnSetOption(set, stall, units)}
+            svg={setIndex === 0 ? drawings?.vn : null}
             label="V–n diagram"
             fileName={`vn-W${setIndex + 1}`}
           />
@@ -55,7 +56,7 @@ export const VnPanel = memo(function VnPanel({ sets, problem, stall, units }: { 
           <VnPointsTable set={set} units={units} />
         </>
       ) : null}
-      {set?.tuned && !problem ? <TunedGustPanel key={setIndex} set={set} units={units} /> : null}
+      {set?.tuned && !problem ? <TunedGustPanel key={setIndex} set={set} units={units} drawings={setIndex === 0 ? drawings?.tuned : null} /> : null}
     </Panel>
   );
 });
@@ -495,13 +496,16 @@ function VnPointsTable({ set, units }: { set: VnSet; units: UnitSystem }) {
 }
 
 /** The tuned discrete gust of each speed of a Part 25 set: Δn against the gradient, and the critical one's history. */
-function TunedGustPanel({ set, units }: { set: VnSet; units: UnitSystem }) {
+function TunedGustPanel({ set, units, drawings }: { set: VnSet; units: UnitSystem; drawings?: EnvelopeDrawings["tuned"] }) {
   const [speed, setSpeed] = useState(0);
   const tuned = set.tuned ?? [];
   const t = tuned[Math.min(speed, tuned.length - 1)];
   if (!t) return null;
   const length = { symbol: unitSymbol(units, "length"), fromSI: (m: number) => fromSI(units, "length", m) };
   const c = t.result.critical;
+  const options = tunedGustOptions(t, units);
+  // The server drew the first speed's charts (the one shown first).
+  const shown = Math.min(speed, tuned.length - 1) === 0 ? drawings : null;
   return (
     <div className="mt-5 border-t border-line pt-4">
       <h3 className="mb-2 text-sm font-semibold">Tuned discrete gust (14 CFR 25.341(a)), rigid aircraft in plunge</h3>
@@ -527,8 +531,8 @@ function TunedGustPanel({ set, units }: { set: VnSet; units: UnitSystem }) {
         EAS: Δn = <strong className="tabular">{c.deltaN.toFixed(4)}</strong> (factor K = {c.k.toFixed(4)}); Pratt's formula with the same gust gives {c.prattDeltaN.toFixed(4)}.
       </p>
       <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
-        <Chart option={tunedGustOption(`Peak Δn against gust gradient, ${t.speed}`, t.result, length)} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
-        <Chart option={gustHistoryOption(`Response at the critical gradient, ${t.speed}`, t.history)} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
+        <Chart option={options.peak} svg={shown?.peak} label="Tuned gust: load factor increment against gust gradient" fileName={`tuned-gust-${t.speed}`} />
+        <Chart option={options.history} svg={shown?.history} label="Tuned gust: response at the critical gradient" fileName={`gust-history-${t.speed}`} />
       </div>
       <p className="mt-2 text-xs text-ink-muted">
         {t.result.method}. U_ds = U_ref·F_g·(H/350 ft)^(1/6); gradients from 30 to 350 ft. Left out: the flexibility of the structure, the aircraft's pitching and the tail's own lift, compressibility and finite span in the lift

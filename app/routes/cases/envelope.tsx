@@ -13,6 +13,7 @@ import { hasPermission } from "~/domain/permissions";
 import { EnvelopeSchema } from "~/domain/step-data";
 import { caseInputs } from "~/services/analysis.server";
 import { caseUnits, stepData } from "~/services/case-steps.server";
+import { envelopeDrawings } from "~/charts/drawings.server";
 import { regeneratedCases, vnView } from "~/services/envelope.server";
 import { editLoadCases, envelopeOutline } from "~/services/load-cases.server";
 import { fieldErrorsOf } from "~/utils/form-data";
@@ -37,6 +38,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const units = caseUnits(steps);
   const inputs = { basis: stepData(steps, "basis"), planform: stepData(steps, "planform"), sections: stepData(steps, "sections"), masses: stepData(steps, "masses"), envelope: envelope.data };
   const vn = vnView(inputs, DEFAULT_METHOD);
+  const stall = inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null;
   const { cases, ...values } = envelopeFormValues(envelope.data, units);
   const total = envelope.data ? envelope.total : 0;
   const windowed = total > WHOLE_GRID_LOAD_CASES;
@@ -51,7 +53,9 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     window: windowed ? { total, rows: caseCells(cases.slice(0, FIRST_ROWS)) } : null,
     sets: vn.sets,
     vnProblem: vn.problem,
-    stall: inputs.basis ? { area: inputs.basis.wingArea, clMax: inputs.basis.clMax, clMaxNegative: inputs.basis.clMaxNegative } : null,
+    stall,
+    // The charts shown first, drawn here: the page shows them without the chart library.
+    drawings: vn.problem ? null : envelopeDrawings(vn.sets, stall, units),
     canEdit: hasPermission(current.roles, "case:edit") && envelope.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "envelope"),
   };
@@ -119,7 +123,7 @@ export default function EnvelopeRoute({ loaderData, actionData }: Route.Componen
       <StepAnswer answer={shown} inline={["compressibility", "spanwise", "stations", "strips", "cases."]} />
       <CaseRowErrors server={server} />
       <div className="grid grid-cols-1 gap-5 2xl:grid-cols-2">
-        <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} />
+        <VnPanel sets={loaderData.sets} problem={loaderData.vnProblem} stall={loaderData.stall} units={units} drawings={loaderData.drawings} />
         <div>
           <Form method="post" onSubmit={onSubmit} onKeyDown={saveOnEnter} noValidate>
             <input type="hidden" {...form.register("revision")} />

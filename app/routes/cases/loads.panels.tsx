@@ -1,6 +1,6 @@
 import { useEffect, useState } from "react";
 import { Form, href, useFetcher } from "react-router";
-import { loadsOption, reliefOption, type LoadQuantity } from "~/charts/loads";
+import { loadsChartOptions, reliefChartOptions } from "~/charts/loads";
 import { StepSaveBar } from "~/components/case/step-save-bar";
 import { Chart } from "~/components/charts/chart";
 import { TextAreaField } from "~/components/forms/field";
@@ -14,10 +14,11 @@ import { formatQuantity, fromSI, roundForDisplay, unitSymbol, type UnitSystem } 
 import { attributionOf, type CaseResult, type ResultCase } from "~/exchange";
 import type { LoadsView } from "~/services/loads-view.server";
 import type { CaseLoadsBreakdown, LoadsPageInfo } from "~/services/case-loads.server";
+import type { LoadsDrawings, ReliefDrawings } from "~/charts/drawings.server";
 import type { FieldErrors } from "~/utils/form-data";
 import type { LoadsFormSchema } from "./loads.schema";
 
-type ResultsResponse = LoadsView | { error: string; message: string } | { status: "computing"; message: string; progress: SweepProgressView | null };
+type ResultsResponse = (LoadsView & { drawings: LoadsDrawings }) | { error: string; message: string } | { status: "computing"; message: string; progress: SweepProgressView | null };
 
 /**
  * What the page shows of the case's results (the envelope, the root loads of at most 500 cases and
@@ -85,15 +86,14 @@ export function NotesPanel({ form, onSubmit, server, canEdit, status, revision, 
 /** One case's loads split into the aerodynamic load, the inertia relief of its mass case and the net load. */
 export function BreakdownPanel({ caseId, current, result, units, info }: { caseId: string; current: ResultCase | Omit<ResultCase, "stations">; result: unknown; units: UnitSystem; info: LoadsPageInfo }) {
   const named = namer(info);
-  const breakdown = useFetcher<CaseLoadsBreakdown | { error: string; message: string }>();
+  const breakdown = useFetcher<(CaseLoadsBreakdown & { drawings: ReliefDrawings }) | { error: string; message: string }>();
   // Loaded again for another case and for new results of the same case.
   useLoadAfterInteractive(breakdown.load, `${href("/api/cases/:caseId/case-loads", { caseId })}?case=${encodeURIComponent(current.id)}`, result);
   const parts = breakdown.data && "y" in breakdown.data ? breakdown.data : null;
-  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
-  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
+  const options = parts ? reliefChartOptions(parts, current.id, units) : null;
   return (
     <Panel title={`Aerodynamic load, inertia relief and net load: case ${named(current.id)}`} className="mt-5">
-      {parts && parts.caseId === current.id ? (
+      {parts && options && parts.caseId === current.id ? (
         <>
           <p className="mb-2 text-sm">
             {parts.nz === null ? (
@@ -114,7 +114,8 @@ export function BreakdownPanel({ caseId, current, result, units, info }: { caseI
             {(["shear", "bending", "torsion"] as const).map((q) => (
               <Chart
                 key={q}
-                option={reliefOption(q, { y: parts.y, aero: parts.aero[q], relief: parts.relief[q], net: parts.net[q], caseId: current.id }, q === "shear" ? force : moment, units)}
+                option={options[q]}
+                svg={parts.drawings[q]}
                 label={`${q === "shear" ? "Shear" : q === "bending" ? "Bending moment" : "Torsion"}: aerodynamic, relief and net`}
                 fileName={`${q}-relief-${current.id}`}
               />
@@ -182,22 +183,13 @@ export function ResultsStatus({ ready, caseCount, results, current, onSelect, un
 }
 
 /** Shear, bending and torsion along the span: the envelope with the case shown. */
-export function LoadsCharts({ envelope, current, units }: { envelope: CaseResult["envelope"]; current: ResultCase; units: UnitSystem }) {
-  const force = { symbol: unitSymbol(units, "force"), scale: (v: number) => fromSI(units, "force", v) };
-  const moment = { symbol: unitSymbol(units, "moment"), scale: (v: number) => fromSI(units, "moment", v) };
-  const series = (q: LoadQuantity) => ({
-    y: envelope.map((e) => e.y),
-    max: envelope.map((e) => e[`${q}Max`]),
-    min: envelope.map((e) => e[`${q}Min`]),
-    caseId: current.id,
-    caseValues: current.stations?.map((s) => s[q]),
-    otherValues: current.roll?.other.stations?.map((s) => s[q]),
-  });
+export function LoadsCharts({ envelope, current, units, drawings }: { envelope: CaseResult["envelope"]; current: ResultCase; units: UnitSystem; drawings: LoadsDrawings | null }) {
+  const options = loadsChartOptions(envelope, current, units);
   return (
     <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
-      <Chart option={loadsOption("shear", series("shear"), force, units)} label="Shear force along the span" fileName="shear" />
-      <Chart option={loadsOption("bending", series("bending"), moment, units)} label="Bending moment along the span" fileName="bending" />
-      <Chart option={loadsOption("torsion", series("torsion"), moment, units)} label="Torsion along the span" fileName="torsion" />
+      <Chart option={options.shear} svg={drawings?.shear} label="Shear force along the span" fileName="shear" />
+      <Chart option={options.bending} svg={drawings?.bending} label="Bending moment along the span" fileName="bending" />
+      <Chart option={options.torsion} svg={drawings?.torsion} label="Torsion along the span" fileName="torsion" />
     </div>
   );
 }

@@ -78,7 +78,7 @@ export default function LoadsRoute({ loaderData, actionData }: Route.ComponentPr
       </div>
       {result && current ? (
         <div className={results.loading ? "opacity-50" : undefined} aria-busy={results.loading}>
-          <LoadsCharts envelope={result.envelope} current={current} units={units} />
+          <LoadsCharts envelope={result.envelope} current={current} units={units} drawings={result.drawings} />
           <RollingSidesPanel current={current} units={units} />
           <BreakdownPanel caseId={loaderData.caseId} current={current} result={result} units={units} info={info} />
           <Panel title={result.cases.length < result.caseCount ? `Root loads, the ${result.cases.length} most critical of ${result.caseCount} cases` : "Root loads, every case"} className="mt-5">

@@ -1,4 +1,4 @@
-import { envelopeVersionsOption } from "~/charts/comparisons";
+import { envelopeVersionsChartOptions } from "~/charts/comparisons";
 import { Chart } from "~/components/charts/chart";
 import { Panel } from "~/components/ui/page-header";
 import { formatChange } from "~/domain/comparisons";
@@ -157,15 +157,16 @@ export function ComparisonTables({ c, units }: { c: ReportComparison; units: Uni
 }
 
 /** Shear, bending and torsion envelopes of both versions overlaid. */
-export function EnvelopeOverlays({ c, units }: { c: ReportComparison; units: UnitSystem }) {
+export function EnvelopeOverlays({ c, units, drawings }: { c: ReportComparison; units: UnitSystem; drawings: Record<"shear" | "bending" | "torsion", string> | null }) {
+  const options = envelopeVersionsChartOptions(c, units);
   return (
     <div className="grid grid-cols-1 gap-4 xl:grid-cols-3">
       {(["shear", "bending", "torsion"] as const).map((kind) => {
-        const quantity = kind === "shear" ? "force" : "moment";
         return (
           <Panel key={kind}>
             <Chart
-              option={envelopeVersionsOption(kind, c, { symbol: unitSymbol(units, quantity), scale: (v) => fromSI(units, quantity, v) }, units)}
+              option={options[kind]}
+              svg={drawings?.[kind]}
               label={`${kind} envelope of versions ${c.from.version} and ${c.to.version}`}
               fileName={`envelope-${kind}-v${c.from.version}-v${c.to.version}`}
             />

@@ -3,6 +3,7 @@ import { requireCase } from "~/auth/case-access.server";
 import { ResultsCaution } from "~/components/case/caution";
 import { Alert, EmptyState, PageHeader } from "~/components/ui/page-header";
 import { DomainError } from "~/domain/errors";
+import { reportCompareDrawings } from "~/charts/drawings.server";
 import { compareReportVersions } from "~/services/report-comparison.server";
 import { ErrorPanel } from "~/components/ui/error-panel";
 import type { Route } from "./+types/report-compare";
@@ -12,17 +13,19 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c } = await requireCase({ request, context }, params.caseId, "report:read");
   const url = new URL(request.url);
   const choice = { organisationId: current.organisation.id, caseId: c.id, fromId: url.searchParams.get("from"), toId: url.searchParams.get("to") };
+  // With the server's drawings of the envelope overlays: the page shows them without the chart library.
+  const drawn = (v: Awaited<ReturnType<typeof compareReportVersions>>) => ({ ...v, drawings: v.comparison ? reportCompareDrawings(v.comparison, v.units) : null });
   try {
-    return { caseId: c.id, problem: null, ...(await compareReportVersions(choice)) };
+    return { caseId: c.id, problem: null, ...drawn(await compareReportVersions(choice)) };
   } catch (error) {
     if (!(error instanceof DomainError)) throw error;
     // A bad choice is said beside the picker; the two newest versions are shown meanwhile.
-    return { caseId: c.id, problem: error.message, ...(await compareReportVersions({ ...choice, fromId: null, toId: null })) };
+    return { caseId: c.id, problem: error.message, ...drawn(await compareReportVersions({ ...choice, fromId: null, toId: null })) };
   }
 }
 
 export default function ReportCompareRoute({ loaderData }: Route.ComponentProps) {
-  const { caseId, versions, fromId, toId, comparison, units, problem } = loaderData;
+  const { caseId, versions, fromId, toId, comparison, units, problem, drawings } = loaderData;
   const pdf = comparison && fromId && toId ? `${href("/api/cases/:caseId/report-comparison", { caseId })}?${new URLSearchParams({ from: fromId, to: toId })}` : null;
   return (
     <>
@@ -53,7 +56,7 @@ export default function ReportCompareRoute({ loaderData }: Route.ComponentProps)
             <>
               <VersionsCompared c={comparison} />
               <ComparisonTables c={comparison} units={units} />
-              <EnvelopeOverlays c={comparison} units={units} />
+              <EnvelopeOverlays c={comparison} units={units} drawings={drawings} />
             </>
           ) : null}
         </>

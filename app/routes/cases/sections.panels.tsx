@@ -1,6 +1,6 @@
 import { Form, useFetcher } from "react-router";
 import { useSaving } from "~/components/forms/use-saving";
-import { sectionFitOption } from "~/charts/section-fit";
+import { sectionFitOptions } from "~/charts/section-fit";
 import { Chart } from "~/components/charts/chart";
 import { errorsFor, type ZodForm } from "~/components/forms/use-zod-form";
 import { TextField } from "~/components/forms/field";
@@ -143,11 +143,10 @@ export function UploadPanel({ revision, maxKiB, units }: { revision: number; max
 }
 
 /** The fitted lift and moment curves of each polar table the saved data came from. */
-export function SectionFitCharts({ saved, units }: { saved: SectionsData | null; units: UnitSystem }) {
-  return (saved?.tables ?? []).map((t) => {
-    const row = saved!.rows.find((r) => r.y === t.y);
-    return row ? <Chart key={t.y} option={sectionFitOption(t, { a0: row.a0, alphaL0: row.alphaL0 }, units)} label={`Section fit at y = ${formatQuantity(units, "length", t.y)}`} fileName={`section-fit-y${t.y}`} height={260} /> : null;
-  });
+export function SectionFitCharts({ saved, units, drawings }: { saved: SectionsData | null; units: UnitSystem; drawings: Record<string, string> }) {
+  return sectionFitOptions(saved, units).map(({ y, option }) => (
+    <Chart key={y} option={option} svg={drawings[String(y)]} label={`Section fit at y = ${formatQuantity(units, "length", y)}`} fileName={`section-fit-y${y}`} height={260} />
+  ));
 }
 
 /** What richer data the saved sections carry: Cp,min against lift and chordwise pressures, by station. */

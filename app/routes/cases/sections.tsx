@@ -1,6 +1,7 @@
 import { useSaving, useSettledAnswer } from "~/components/forms/use-saving";
 import { data, Form } from "react-router";
 import { requireCase } from "~/auth/case-access.server";
+import { sectionFitDrawings } from "~/charts/drawings.server";
 import { signaturesVoidedByEdit } from "~/services/review.server";
 import { StepAnswer } from "~/components/case/step-answer";
 import { StepSaveBar } from "~/components/case/step-save-bar";
@@ -35,6 +36,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     revision: steps.sections.revision,
     status: steps.sections.status,
     saved,
+    // The fit charts, drawn here: the page shows them without the chart library.
+    drawings: sectionFitDrawings(saved, units),
     values: sectionsFormValues(saved, stepData(steps, "planform"), units),
     canEdit: hasPermission(current.roles, "case:edit") && steps.sections.status !== "submitted",
     voids: await signaturesVoidedByEdit(c.id, "sections"),
@@ -111,7 +114,7 @@ export default function SectionsRoute({ loaderData, actionData }: Route.Componen
         <div className="space-y-5">
           {loaderData.canEdit ? <UploadPanel revision={loaderData.revision} maxKiB={loaderData.maxKiB} units={loaderData.units} /> : null}
           <RicherDataPanel rows={saved?.rows ?? []} canEdit={loaderData.canEdit} revision={loaderData.revision} units={loaderData.units} />
-          <SectionFitCharts saved={saved} units={loaderData.units} />
+          <SectionFitCharts saved={saved} units={loaderData.units} drawings={loaderData.drawings} />
         </div>
       </div>
     </>
