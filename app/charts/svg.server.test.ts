@@ -38,4 +38,13 @@ describe("a chart drawn on the server", () => {
     const other = chartSvg(option(3000), { width: 258, height: 320 });
     expect(texts(other)).not.toEqual(texts(small));
   });
+
+  it("writes text a user typed (a load case's id in the legend) as text, never as markup the page would run", () => {
+    const y = [0, 4, 8.7];
+    const id = `W1"><script>alert(1)</script><img src=x onerror=alert(2)>`;
+    const svg = chartSvg(loadsOption("shear", { y, max: [3, 2, 0], min: [-1, -0.5, 0], caseId: id, caseValues: [2, 1, 0] }, { symbol: "kN", scale: (si) => si / 1000 }, "SI"), { width: 404, height: 320 });
+    // Every "<" of the id is written as "&lt;": no element of it reaches the page, only its text.
+    expect(svg).not.toMatch(/<script|<img/i);
+    expect(svg).toContain("Case W1&quot;&gt;&lt;script&gt;alert(1)&lt;/script&gt;&lt;img src=x onerror=alert(2)&gt;</text>");
+  });
 });

@@ -3,8 +3,8 @@ import { copyOfDemoCase, exported, hydrated, signIn } from "./helpers";
 
 // What a case page's scripts must hold before the page can answer its first click: the modules the
 // document preloads are all evaluated before React hydrates it. zod and the step schemas (some
-// 100 KB) are not among them on the pages that only need them to check a form: they are loaded once
-// the page is idle, or at the form's first check, and the form checks as before.
+// 100 KB) are not among them on the pages that only need them to check a form: they are loaded when
+// something on the page first takes the focus, or at the form's first check, and the form checks as before.
 
 /** zod 4's core names its base class so; no other module of the app carries the string. */
 const ZOD_MARK = "$ZodType";

@@ -26,7 +26,7 @@ import { CaseRowErrors, CasesPanel, CasesWindowPanel, FIRST_ROWS, MethodPanel, V
 import { saveStepAnswer } from "./step-action.server";
 
 // The form's schema and conversions (zod and the step schemas) are imported on demand, here as in the
-// browser: the page answers its first click without them (useZodForm loads the schema once idle).
+// browser: the page answers its first click without them (useZodForm loads the schema at the first focus or check).
 // One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
 const envelopeForm = () => import("./envelope.schema");
 
