@@ -2,6 +2,7 @@ import { createHash } from "node:crypto";
 import * as echarts from "echarts/core";
 import { SVGRenderer } from "echarts/renderers";
 import { CHART_PARTS } from "~/components/charts/echarts-parts";
+import { withLegendRoom } from "./legend-room";
 import type { ChartOption } from "./theme";
 
 /*
@@ -58,7 +59,7 @@ export function chartSvg(option: ChartOption, size: ChartSize): ChartSvg {
   const chart = echarts.init(null, null, { renderer: "svg", ssr: true, width: size.width, height: size.height });
   let svg: string;
   try {
-    chart.setOption({ ...option, animation: false });
+    chart.setOption({ ...withLegendRoom(option, size.width), animation: false });
     svg = chart.renderToSVGString();
   } finally {
     chart.dispose();

@@ -75,7 +75,8 @@ export const station = (units: UnitSystem, y: number) => fromSI(units, "length",
 export function baseOption(title: string) {
   return {
     animation: false,
-    title: { text: title, left: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 13, fontWeight: 600, color: "#17202b" } },
+    // Top-left, above the legend's row (22 px down): ECharts 6 otherwise sets a title 15 px down, on it.
+    title: { text: title, left: 0, top: 0, textStyle: { fontFamily: CHART_FONT, fontSize: 13, fontWeight: 600, color: "#17202b" } },
     textStyle: { fontFamily: CHART_FONT },
     grid: { left: 64, right: 20, top: 62, bottom: 48, containLabel: false },
     legend: { top: 22, left: 0, itemWidth: 18, textStyle: { fontFamily: CHART_FONT, fontSize: 11 } },

@@ -71,7 +71,8 @@ export function vnOption(title: string, points: VnPoint[], stall: { area: number
                 .map((pt) => ({ value: [s(pt.veas), pt.nz], name: `${pt.name}: ${pt.rule} (other side ${(pt.roll!.fraction * 100).toFixed(0)} % of the airload, aileron ${pt.roll!.aileron.toFixed(2)}°)` })),
               itemStyle: { color: SERIES_STYLE.rolling.color },
               label: { show: true, formatter: (d: { name: string }) => d.name.split(":")[0], position: "left" as const, fontSize: 10 },
-              labelLayout: { moveOverlap: "shiftY" as const },
+              // Weighed against the other points' names too: a name that would cover one is not drawn (the tooltip and the page's table still give it).
+              labelLayout: { moveOverlap: "shiftY" as const, hideOverlap: true },
               tooltip: { formatter: (d: { name: string; value?: unknown }) => {
                 const [v, n] = d.value as [number, number];
                 return `${d.name}<br/>V = ${v.toFixed(1)} ${speedUnit.symbol}, n = ${n.toFixed(3)}`;

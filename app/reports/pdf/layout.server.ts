@@ -1,6 +1,8 @@
 import * as echarts from "echarts";
 import type PDFDocument from "pdfkit";
 import SVGtoPDF from "svg-to-pdfkit";
+import { withLegendRoom } from "~/charts/legend-room";
+import type { ChartOption } from "~/charts/theme";
 import { formatNumber, fromSI, unitSymbol, type Quantity, type UnitSystem } from "~/domain/units";
 import type { ResultCase } from "~/exchange";
 import type { ReportFigures, ReportSnapshot } from "../snapshot";
@@ -240,7 +242,7 @@ export class Writer {
     };
     const chart = echarts.init(null, null, { renderer: "svg", ssr: true, width: Math.round(width * scale), height: Math.round(height * scale) });
     try {
-      chart.setOption({ ...laidOut, animation: false });
+      chart.setOption({ ...withLegendRoom(laidOut as ChartOption, Math.round(width * scale)), animation: false });
       const svg = splitSvgText(chart.renderToSVGString());
       SVGtoPDF(this.doc as unknown as typeof PDFDocument, svg, x, this.y, {
         width,
