@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { aileronCmIncrement, aileronDeflections, aileronLift, aileronMoments, attributionOf, rollingLoadFactor, rollingSideLabel, rollingSides, rollingVnPoints, sideLoads, unsymmetricalFraction } from "./rolling";
+import { aileronCmIncrement, aileronDeflections, aileronLift, aileronMoments, rollingLoadFactor, rollingSides, rollingVnPoints, sideLoads, unsymmetricalFraction } from "./rolling";
 import { trapezoidalWing } from "./planform";
 
 // Paragraph values are those of 14 CFR 23.349, 23.455 and 25.349 as remembered [M] (confirm against the
@@ -100,12 +100,6 @@ describe("aileron lift increment and the two sides of a rolling case", () => {
     // Without a deflection only the airload differs; a deflection without an aileron is refused, naming the field.
     expect(rollingSides(c, { stations: rect, xRef: [0.5], axis: { sin: 0, cos: 1 } }, { fraction: 0.6, aileronDeg: 0 }, undefined).other.shear[0]).toBeCloseTo(56000, 9);
     expect(() => rollingSides(c, { stations: rect, xRef: [0.5], axis: { sin: 0, cos: 1 } }, { fraction: 1, aileronDeg: 5 }, undefined, "cases[2].roll")).toThrow(/needs the aileron/);
-  });
-
-  it("names the sides in the envelope and reads them back", () => {
-    expect(rollingSideLabel("W1-roll-VA", "other")).toBe("W1-roll-VA (other side)");
-    expect(attributionOf("W1-roll-VA (loaded side)")).toEqual({ id: "W1-roll-VA", side: "loaded" });
-    expect(attributionOf("W1-A")).toEqual({ id: "W1-A", side: null });
   });
 });
 

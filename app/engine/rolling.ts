@@ -195,17 +195,6 @@ export function rollingSides(
   return { loaded: sideLoads(c, 1, down), other: sideLoads(c, roll.fraction, up) };
 }
 
-/** How the envelope and the pages name a side of a rolling case: "R1 (loaded side)", "R1 (other side)". */
-export function rollingSideLabel(id: string, side: keyof RollingSides): string {
-  return `${id} (${side} side)`;
-}
-
-/** The case id and side of an envelope attribution (side null for a symmetric case). */
-export function attributionOf(label: string): { id: string; side: keyof RollingSides | null } {
-  const m = /^(.*) \((loaded|other) side\)$/.exec(label);
-  return m ? { id: m[1], side: m[2] as keyof RollingSides } : { id: label, side: null };
-}
-
 /**
  * The rolling and unsymmetrical conditions of a V–n diagram, from its manoeuvre points A (V_A, n1) and F:
  * Part 25 `roll-VA`, `roll-VC`, `roll-VD` at 2/3·n1 with the aileron deflections of 25.349(a) (both sides at the

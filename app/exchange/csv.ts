@@ -1,4 +1,4 @@
-import { rollingSideLabel } from "../engine/rolling";
+import { rollingSideLabel } from "./rolling-labels";
 import type { CaseResult } from "./schema";
 
 /**

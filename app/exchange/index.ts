@@ -4,7 +4,7 @@ export type { CaseProblem, ParseCaseResult } from "./parse";
 export { caseSides, caseWingModel, DIRECT_MACH_LIMIT, massItemOf, runCase, runCaseAsync, wingModelOf } from "./run";
 export type { RunOptions, RunProgress } from "./run";
 export { resultToCsv } from "./csv";
-export { attributionOf, rollingSideLabel } from "../engine/rolling";
+export { attributionOf, rollingSideLabel } from "./rolling-labels";
 export { parseSections, SECTIONS_SCHEMA_ID, SectionsFileSchema, withSections } from "./sections";
 export type { SectionsFile } from "./sections";
 export { analyzeDocument } from "./analyze";

@@ -3,6 +3,7 @@ import { dynamicPressure } from "../engine/atmosphere";
 import { runCase } from "./run";
 import { parsed, problems } from "./test-helpers";
 import { resultToCsv } from "./csv";
+import { attributionOf, rollingSideLabel } from "./rolling-labels";
 
 // wing.aileron and cases[].roll (docs/exchange-format.md): a rolling case's loaded side carries the full
 // airload and the down-going aileron, the other side the fraction and the up-going aileron, both less the same
@@ -93,5 +94,13 @@ describe("rolling cases in the exchange contract", () => {
     const g = doc();
     g.cases[1] = { id: "roll", mach: 0.3, altitude: 0, alpha: 4, roll: { fraction: 0.75 } };
     expect(problems(g)["cases[1].roll"]).toMatch(/only for a case given by weight and nz/);
+  });
+});
+
+describe("a rolling case's sides by name", () => {
+  it("names the sides in the envelope and reads them back", () => {
+    expect(rollingSideLabel("W1-roll-VA", "other")).toBe("W1-roll-VA (other side)");
+    expect(attributionOf("W1-roll-VA (loaded side)")).toEqual({ id: "W1-roll-VA", side: "loaded" });
+    expect(attributionOf("W1-A")).toEqual({ id: "W1-A", side: null });
   });
 });

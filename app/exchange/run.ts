@@ -1,7 +1,8 @@
 import { ENGINE_VERSION } from "../engine/index";
 import { EngineError } from "../engine/errors";
 import { flappedStations } from "../engine/flaps";
-import { rollingSideLabel, rollingSides } from "../engine/rolling";
+import { rollingSides } from "../engine/rolling";
+import { rollingSideLabel } from "./rolling-labels";
 import type { RollingSides } from "../engine/rolling";
 import { wingPlausibility } from "../engine/plausibility";
 import { addToEnvelope, createEnvelope, envelopeRows } from "../engine/envelope";

@@ -23,6 +23,7 @@ const PAGES = [
   { step: "planform", field: "Reference axis at root [chord fraction]", typed: "abc", says: "Reference axis at the root must be a number" },
   { step: "sections", field: null, typed: "", says: "" },
   { step: "masses", field: "Wing–body Cm increment at zero lift", typed: "abc", says: "Wing–body Cm increment must be a number" },
+  { step: "loads", field: "Notes on these loads", typed: "x".repeat(4001), says: "At most 4000 characters" },
 ] as const;
 
 for (const { step, field, typed, says } of PAGES) {

@@ -17,8 +17,12 @@ import type { LoadsPageInfo } from "~/services/case-loads.server";
 import type { Route } from "./+types/loads";
 import { GREEK_TEXT } from "~/utils/page-fonts";
 import { BreakdownPanel, EnvelopeTable, LoadsCharts, NotesPanel, ResultsStatus, RollingSidesPanel, RootLoadsTable, useCaseResults } from "./loads.panels";
-import { LoadsFormSchema } from "./loads.schema";
 import { saveStepAnswer } from "./step-action.server";
+
+// The form's schema (zod) is imported on demand, here as in the browser: the page answers its first
+// click without it (useZodForm loads it once the page first takes the focus, or at the form's first check).
+// One way of importing the module on both sides keeps the dynamic import a real chunk boundary.
+const loadsForm = () => import("./loads.schema");
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const { current, case: c, readStepStates } = await requireCase({ request, context }, params.caseId, "case:read");
@@ -39,6 +43,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const { current, case: c, readSteps } = await requireCase({ request, context }, params.caseId, "case:edit");
+  const { LoadsFormSchema } = await loadsForm();
   const parsed = await parseBody(request, LoadsFormSchema);
   if (!parsed.ok) return refused(parsed.fieldErrors);
   const inputs = caseInputs(await readSteps());
@@ -54,7 +59,7 @@ const NO_INFO: LoadsPageInfo = { cases: {}, balance: [] };
 export default function LoadsRoute({ loaderData, actionData }: Route.ComponentProps) {
   const shown = useSettledAnswer(actionData);
   const { units } = loaderData;
-  const { form, onSubmit } = useZodForm(LoadsFormSchema, { revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
+  const { form, onSubmit } = useZodForm(() => loadsForm().then((m) => m.LoadsFormSchema), { revision: loaderData.revision, ...loaderData.values }, loaderData.revision);
   const busy = useSaving();
   const [selected, setSelected] = useState<string | null>(null);
   const results = useCaseResults(loaderData.caseId, loaderData.ready, loaderData.revision, selected);
