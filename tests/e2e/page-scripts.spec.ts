@@ -1,5 +1,5 @@
 import { expect, test, type Page } from "@playwright/test";
-import { copyOfDemoCase, exported, hydrated, signIn } from "./helpers";
+import { caseStep, copyOfDemoCase, demoCaseId, exported, hydrated, signIn } from "./helpers";
 
 // What a case page's scripts must hold before the page can answer its first click: the modules the
 // document preloads are all evaluated before React hydrates it. zod and the step schemas (some
@@ -83,4 +83,32 @@ test("the demo case's overview, envelope and distribution pages preload at most 
       expect(holding, `${name}: scripts holding ${library}`).toBe((libraries as readonly string[]).includes(library) ? 1 : 0);
     }
   }
+});
+
+// A step opened from the case's rail used to wait for its code as well as its data: the browser
+// fetched the route's module, and only once it had read it, the chunks that module imports.
+test("a case page fetches its rail's steps' code once idle, never their data; a step opened from the rail then fetches its data and no script", async ({ page }) => {
+  await signIn(page, "engineer");
+  const caseId = await demoCaseId(page);
+  const requested: string[] = [];
+  page.on("request", (r) => void requested.push(new URL(r.url()).pathname));
+  await page.goto(`/cases/${caseId}`);
+  await hydrated(page);
+  // The page's idle time (its own idle callbacks, queued first, have run), then its requests done.
+  await page.evaluate(() => new Promise<void>((done) => requestIdleCallback(() => done(), { timeout: 5000 })));
+  await page.waitForLoadState("networkidle");
+  const envelopeCode = await page.evaluate(() => {
+    const route = (window as unknown as { __reactRouterManifest: { routes: Record<string, { module: string; imports: string[] }> } }).__reactRouterManifest.routes["routes/cases/envelope"]!;
+    return [route.module, ...route.imports];
+  });
+  const fetchedOrInPage = new Set([...requested, ...(await page.evaluate(() => [...document.querySelectorAll("link[rel=modulepreload]")].map((l) => new URL((l as HTMLLinkElement).href).pathname)))]);
+  expect(envelopeCode.filter((href) => !fetchedOrInPage.has(href))).toEqual([]);
+  expect(requested.filter((p) => p.endsWith(".data"))).toEqual([]);
+
+  requested.length = 0;
+  await caseStep(page, /Envelope/).click();
+  await expect(page.getByRole("heading", { level: 1, name: "Envelope" })).toBeVisible();
+  await hydrated(page);
+  expect(requested.filter((p) => p.endsWith(".js"))).toEqual([]);
+  expect(requested).toContain(`/cases/${caseId}/envelope.data`);
 });

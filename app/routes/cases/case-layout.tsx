@@ -4,6 +4,7 @@ import { STEPS } from "~/domain/steps";
 import { STEP_STATUS_LABELS } from "~/domain/vocabulary";
 import { StatusBadge } from "~/components/ui/status-badge";
 import { ErrorPanel } from "~/components/ui/error-panel";
+import { usePreloadChildRouteModules } from "~/components/ui/preload-route-modules";
 import type { Route } from "./+types/case-layout";
 
 /** Case header and step rail; each step route checks access again in its own loader. */
@@ -19,6 +20,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export default function CaseLayout({ loaderData }: Route.ComponentProps) {
   const { case: c, programme, steps } = loaderData;
+  // The code of the case's pages (this layout's routes, id "case" in app/routes.ts), fetched once idle.
+  usePreloadChildRouteModules("case");
   return (
     <div>
       <nav aria-label="Breadcrumb" className="mb-1 text-sm text-ink-muted">
