@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { format } from "echarts/core";
+import { tunedGustOption } from "./gust";
 import { loadsOption } from "./loads";
 import { chartSvg } from "./svg.server";
 import { CHART_FONT } from "./theme";
@@ -113,6 +114,17 @@ describe("the V–n diagram drawn on the server", () => {
     expect(boxes.map((b) => b.name)).toEqual(expect.arrayContaining(["A", "D", "flaps-VF"]));
     const covered = boxes.flatMap((a, i) => boxes.slice(i + 1).filter((b) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom).map((b) => `${a.name} / ${b.name}`));
     expect(covered).toEqual([]);
+  });
+});
+
+describe("the tuned gust's chart drawn on the server", () => {
+  it("marks the critical gradient, as the report's figure does", () => {
+    // A row per gradient: only what the chart draws (gradient, Δn, Pratt's Δn) matters here.
+    const row = (gradient: number, deltaN: number) => ({ gradient, gradientChords: gradient / 1.6, uds: 15, k: 0.8, deltaN, prattDeltaN: deltaN * 0.95 });
+    const rows = [row(9.1, 0.8), row(30, 1.1), row(60, 1.25), row(107, 1.05)];
+    const option = tunedGustOption("Tuned gust", { massRatio: 20, prattKg: 0.7, rows, critical: rows[2]!, rule: "14 CFR 25.341(a)", method: "plunge" } as Parameters<typeof tunedGustOption>[1], { symbol: "m", fromSI: (m) => m });
+    const svg = chartSvg(option, { width: 388, height: 320 });
+    expect(svg).toMatch(/>critical<\/text>/);
   });
 });
 

@@ -1,9 +1,9 @@
 import type { LineSeriesOption, ScatterSeriesOption } from "echarts/charts";
-import type { GridComponentOption, LegendComponentOption, MarkAreaComponentOption, TitleComponentOption, TooltipComponentOption } from "echarts/components";
+import type { GridComponentOption, LegendComponentOption, MarkAreaComponentOption, MarkPointComponentOption, TitleComponentOption, TooltipComponentOption } from "echarts/components";
 import type { ComposeOption } from "echarts/core";
 
 /** An option built only of the parts the app registers (components/charts/echarts-client.tsx). */
-export type ChartOption = ComposeOption<LineSeriesOption | ScatterSeriesOption | GridComponentOption | LegendComponentOption | MarkAreaComponentOption | TitleComponentOption | TooltipComponentOption>;
+export type ChartOption = ComposeOption<LineSeriesOption | ScatterSeriesOption | GridComponentOption | LegendComponentOption | MarkAreaComponentOption | MarkPointComponentOption | TitleComponentOption | TooltipComponentOption>;
 import { formatNumber, fromSI, unitSymbol, type UnitSystem } from "~/domain/units";
 
 /**
