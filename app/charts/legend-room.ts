@@ -30,6 +30,12 @@ interface LegendSettings {
   textStyle?: { fontSize?: number; fontFamily?: string };
 }
 
+/** The chart's (first) legend, if it shows. */
+function legendOf(option: ChartOption): LegendSettings | null {
+  const legend = (Array.isArray(option.legend) ? option.legend[0] : option.legend) as LegendSettings | undefined;
+  return legend && legend.show !== false ? legend : null;
+}
+
 /** The names the legend shows: its own list, or each named series once, in order. */
 function legendNames(option: ChartOption, legend: LegendSettings): string[] {
   if (legend.data) return legend.data.map((d) => (typeof d === "string" ? d : d.name));
@@ -37,12 +43,9 @@ function legendNames(option: ChartOption, legend: LegendSettings): string[] {
   return [...new Set(series.map((s) => s.name).filter((n): n is string => typeof n === "string" && n !== ""))];
 }
 
-/** The rows the legend of `option` takes in a chart `width` px wide (0 if it has none). */
-export function legendRows(option: ChartOption, width: number): number {
-  const legend = (Array.isArray(option.legend) ? option.legend[0] : option.legend) as LegendSettings | undefined;
-  if (!legend || legend.show === false) return 0;
+/** The rows `legend` takes in a chart `width` px wide. */
+function legendRows(option: ChartOption, legend: LegendSettings, width: number): number {
   const names = legendNames(option, legend);
-  if (names.length === 0) return 0;
   const gap = legend.itemGap ?? ITEM_GAP;
   const font = `${legend.textStyle?.fontSize ?? FONT_SIZE}px ${legend.textStyle?.fontFamily ?? CHART_FONT}`;
   const left = typeof legend.left === "number" ? legend.left : 0;
@@ -62,10 +65,11 @@ export function legendRows(option: ChartOption, width: number): number {
 
 /** `option` with its plot moved down by the legend's rows beyond the first, at a chart `width` px wide. */
 export function withLegendRoom(option: ChartOption, width: number): ChartOption {
-  const rows = legendRows(option, width);
+  const legend = legendOf(option);
   const grid = option.grid;
-  if (rows <= 1 || !grid || Array.isArray(grid)) return option;
-  const legend = (Array.isArray(option.legend) ? option.legend[0] : option.legend) as LegendSettings;
+  if (!legend || !grid || Array.isArray(grid)) return option;
+  const rows = legendRows(option, legend, width);
+  if (rows <= 1) return option;
   const pitch = Math.max(legend.itemHeight ?? ITEM_HEIGHT, (legend.textStyle?.fontSize ?? FONT_SIZE) * 1.2) + (legend.itemGap ?? ITEM_GAP);
   const top = typeof grid.top === "number" ? grid.top : 60;
   return { ...option, grid: { ...grid, top: top + (rows - 1) * pitch } };

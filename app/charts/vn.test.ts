@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { vnOption } from "./vn";
+import { DEMO_VN_POINTS, demoVnOption } from "./vn.fixture";
 
 describe("the V–n diagram names its points without covering one name with another", () => {
   it("names a corner above (below where nz < 0) and the gust point beside it at the same speed to its right", () => {
@@ -21,22 +22,8 @@ describe("the V–n diagram names its points without covering one name with anot
 
 describe("the V–n diagram shows every generated point", () => {
   it("puts every point but the 1-g stall in a scatter (the rolling ones in their own), and draws the flaps-extended stall line to flaps-A, n = 2.0 to VF and the VF gust lines", () => {
-    const points = [
-      { name: "S", veas: 50, nz: 1, rule: "stall" },
-      { name: "A", veas: 89, nz: 3.1, rule: "corner" },
-      { name: "gust+VB", veas: 88, nz: 2.9, rule: "gust" },
-      { name: "gust-VD", veas: 155, nz: 0.2, rule: "gust" },
-      { name: "tuned+VD", veas: 155, nz: 1.9, rule: "tuned gust" },
-      { name: "flaps-A", veas: 59.2, nz: 2, rule: "14 CFR 23.345(a)(1)" },
-      { name: "flaps-VF", veas: 77, nz: 2, rule: "14 CFR 23.345(a)(1)" },
-      { name: "flaps-gust+VF", veas: 77, nz: 1.8, rule: "14 CFR 23.345(a)(2)" },
-      { name: "flaps-gust-VF", veas: 77, nz: 0.2, rule: "14 CFR 23.345(a)(2)" },
-      { name: "unsym-A", veas: 89, nz: 3.1, rule: "14 CFR 23.349(a)", roll: { fraction: 0.75, aileron: 0 } },
-      { name: "roll-VA", veas: 89, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 17 } },
-      { name: "roll-VC", veas: 112, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 13.5 } },
-      { name: "roll-VD", veas: 155, nz: 2.0667, rule: "14 CFR 23.349(b)", roll: { fraction: 1, aileron: 3.25 } },
-    ];
-    const option = vnOption("V–n", points, { area: 27.6, clMax: 1.45, clMaxNegative: -0.9, weightN: 62272, clMaxFlaps: 2.1 }, { symbol: "m/s", fromSI: (v) => v });
+    const points = DEMO_VN_POINTS;
+    const option = demoVnOption();
     const scatters = option.series.filter((s) => s.type === "scatter") as unknown as { name: string; symbol?: string; data: { name: string; value: [number, number] }[] }[];
     expect(scatters.flatMap((s) => s.data.map((d) => d.name.split(":")[0]))).toEqual(points.slice(1).map((p) => p.name));
     // The rolling conditions are diamonds of their own, so unsym-A on corner A is still seen and named.
