@@ -2,6 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { defineConfig, devices } from "@playwright/test";
+import { CHROMIUM_ARGS, CHROMIUM_PATH } from "./tests/chromium";
 
 // E2E_PORT_BASE moves every port of the run (app, PostgreSQL, S3, SMTP, OIDC) so that two
 // checkouts can run their browser tests side by side; the default is 3100.
@@ -64,17 +65,8 @@ export default defineConfig({
     screenshot: "only-on-failure",
     trace: "off",
     launchOptions: {
-      // Debian's Chromium: Playwright's own browser downloads are not available here.
-      executablePath: "/usr/bin/chromium",
-      args: [
-        "--no-sandbox",
-        "--disable-gpu",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-        "--no-first-run",
-        "--disable-quic",
-      ],
+      executablePath: CHROMIUM_PATH,
+      args: CHROMIUM_ARGS,
     },
   },
   webServer: {

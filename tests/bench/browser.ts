@@ -16,6 +16,7 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { chromium, type Browser, type BrowserContext, type CDPSession, type Page } from "playwright-core";
 import { DEMO_USERS } from "../../app/demo/scenario";
+import { CHROMIUM_ARGS, CHROMIUM_PATH } from "../chromium";
 import { benchApp, root, writeDocsSection } from "./bench-app";
 
 const arg = (name: string) => {
@@ -385,9 +386,10 @@ async function evaluate<T>(cdp: CDPSession, expression: string): Promise<T> {
 }
 
 /** Loads a page until it has hydrated (not measured). */
-async function loadHydrated(page: Page, url: string) {
+async function loadHydrated(page: Page, url: string, ready: Ready = "marker") {
   await page.goto(url, { timeout: SETTLE_LIMIT_MS });
-  await page.waitForSelector("html[data-hydrated]", { state: "attached", timeout: SETTLE_LIMIT_MS });
+  if (ready === "marker") await page.waitForSelector("html[data-hydrated]", { state: "attached", timeout: SETTLE_LIMIT_MS });
+  else await page.waitForFunction(() => Object.keys(document.querySelector("main h1") ?? {}).some((k) => k.startsWith("__reactProps$")), null, { timeout: SETTLE_LIMIT_MS });
 }
 
 /** Counts the bytes and requests of a CDP session from now on. */
@@ -404,12 +406,12 @@ async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<B
     if (visit === "return") {
       // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code.
       const before = await context.newPage();
-      await loadHydrated(before, fromUrl);
-      await loadHydrated(before, target.url);
-      await loadHydrated(before, target.url);
+      await loadHydrated(before, fromUrl, target.ready);
+      await loadHydrated(before, target.url, target.ready);
+      await loadHydrated(before, target.url, target.ready);
       await before.close();
       const page = await context.newPage();
-      await page.addInitScript(pageProbe("marker"));
+      await page.addInitScript(pageProbe(target.ready ?? "marker"));
       const cdp = await context.newCDPSession(page);
       await cdp.send("Network.enable");
       const traffic = countTraffic(cdp);
@@ -433,6 +435,14 @@ async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<B
   } finally {
     await context.close();
   }
+}
+
+async function measurePeerReturn(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, peer: Target): Promise<number> {
+  const runs: number[] = [];
+  for (let i = 0; i < ROUNDS; i++) runs.push((await measureVisit(browser, storageState, peer, "return", peer.url)).ttiMs);
+  const ms = median(runs);
+  say(`floor peer page: return visit interactive ${ms.toFixed(0)} ms (load ${loadAverage()})`);
+  return ms;
 }
 
 interface VisitFigures {
@@ -541,7 +551,7 @@ async function waitForResults(context: BrowserContext, caseId: string) {
 // ---------------------------------------------------------------------------------------------
 // Report
 
-function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], demoVisits: VisitFigures[], largeVisits: VisitFigures[], info: { demoCases: number; startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string }) {
+function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: PageFigures[], demoVisits: VisitFigures[], largeVisits: VisitFigures[], info: { demoCases: number; startupS: number; importS: number; resultsS: number; loadStart: string; loadEnd: string; chromium: string; peerReturnMs: number }) {
   const cpu = os.cpus();
   const kib = (b: number) => (b / 1024).toFixed(0);
   const ms = (v: number) => (Number.isFinite(v) ? v.toFixed(0) : `not within ${SETTLE_LIMIT_MS / 1000} s`);
@@ -559,6 +569,9 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
   out();
   out("How each page is measured: signed in as the demo engineer, each page is loaded in a fresh browser context (an empty cache, as");
   out(`on a first visit; the session cookie only), once to warm the server and then ${ROUNDS} times; the figures are medians of those.`);
+  out("Chromium is started as the browser tests start it (tests/chromium.ts): among its flags, the address bar's suggestion popup is");
+  out("turned off. Chromium builds that popup as a web page of its own in every new window, and each fresh context is a new window: traced,");
+  out("it took 1.8–2.2 s of a renderer's main thread beside every page measured, on two cores. A person's browser builds it once, not per page.");
   out();
   out("- **Bytes**: everything transferred from navigation until the page has settled — the document, styles, scripts, fonts and the");
   out("  data the page fetches after it shows — as the bytes on the wire (compressed bodies and headers; Chrome's `encodedDataLength`).");
@@ -576,7 +589,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     ...(v.returnMs >= limit ? [`${label} ${v.key} on a return visit (${withUnit(v.returnMs)})`] : []),
     ...(v.linkMs >= limit ? [`${label} ${v.key} from the rail (${withUnit(v.linkMs)})`] : []),
   ];
-  const visitTable = (first: PageFigures[], visits: VisitFigures[], limit: number, targeted: string[]) => {
+  const visitTable = (first: PageFigures[], visits: VisitFigures[], limit: number, targeted: string[], floor?: { firstMs: number; returnMs: number }) => {
     if (!visits.length) return;
     out("### A return visit, and a step opened from the case's rail (medians)");
     out();
@@ -589,6 +602,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     out();
     out("| page | first visit (ms) | return visit (ms) | return visit (KiB) | from the rail (ms) | from the rail (KiB) | requests | target |");
     out("|---|---|---|---|---|---|---|---|");
+    if (floor && Number.isFinite(floor.returnMs)) out(`| peer page (framework floor) | ${ms(floor.firstMs)} | ${ms(floor.returnMs)} | — | — | — | — | — |`);
     for (const v of visits) {
       const f = first.find((x) => x.key === v.key);
       const verdict = targeted.includes(v.key) ? (v.returnMs < limit && v.linkMs < limit ? "met" : "**missed**") : "—";
@@ -625,7 +639,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     out(`| ${f.key} | ${n(t.ttfb)} | ${n(t.cssEnd)} | ${n(t.scriptsEnd)} (${n(t.scriptKiB)}) | ${n(t.firstPaint)} | ${n(t.domContentLoaded)} | ${ms(f.hydratedMs)} | ${ms(f.ttiMs)} | ${n(t.scriptMs)} | ${n(t.compileMs)} | ${n(t.styleLayoutMs)} | ${n(t.taskMs)} |`);
   }
   out();
-  visitTable(demo, demoVisits, DEMO_TTI_TARGET_MS, DEMO_TTI_PAGES);
+  visitTable(demo, demoVisits, DEMO_TTI_TARGET_MS, DEMO_TTI_PAGES, peerPage ? { firstMs: peerPage.ttiMs, returnMs: info.peerReturnMs } : undefined);
   out(`## A case of ${LARGE_CASES.toLocaleString("en")} load cases`);
   out();
   table(large, (f) => {
@@ -660,8 +674,8 @@ async function main() {
   const databaseUrl = RUNNING ? process.env.BROWSER_BENCH_DATABASE_URL : app.databaseUrl;
   const peerOrigin = databaseUrl && ONLY !== "large" ? await startPeer(databaseUrl) : null;
   const browser = await chromium.launch({
-    executablePath: "/usr/bin/chromium",
-    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
+    executablePath: CHROMIUM_PATH,
+    args: CHROMIUM_ARGS,
   });
   try {
     const { context, state } = await signIn(browser);
@@ -684,13 +698,16 @@ async function main() {
     }
     await context.close();
     // The session cookie is the host's, so the peer page on its own port is signed in as the same person.
-    const peerFigures = peerOrigin ? await measurePages(browser, state, [{ key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" }], "floor") : [];
+    const peerTarget: Target = { key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" };
+    const peerFigures = peerOrigin ? await measurePages(browser, state, [peerTarget], "floor") : [];
+    // The floor of a return visit too (the peer has no rail: a return visit only).
+    const peerReturnMs = peerOrigin ? await measurePeerReturn(browser, state, peerTarget) : NaN;
     const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
     const demoVisits = ONLY === "large" ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");
     const largeVisits = largeId ? await measureVisits(browser, state, caseTargets(largeId), "large") : [];
     if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
-    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, demoVisits, largeVisits, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}` });
+    else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, demoVisits, largeVisits, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}`, peerReturnMs });
   } finally {
     await browser.close();
   }
