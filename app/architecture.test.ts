@@ -19,7 +19,7 @@ function layerOf(file: string): Layer {
   // The local stand-in services (PostgreSQL, S3, mail capture, sign-in) run before the app and import none of it.
   if (file.startsWith("server/dev-services/")) return "stand-ins";
   if (/^(server|cli)\//.test(file) || file === "jobs/workers.server.ts" || file === "demo/seed.server.ts" || file === "entry.server.tsx" || file === "routes.ts") return "entry";
-  if (file.startsWith("routes/") || file === "root.tsx") return "routes";
+  if (file.startsWith("routes/") || file === "root.tsx" || file === "entry.client.tsx") return "routes";
   if (file.startsWith("auth/")) return "auth";
   if (file.startsWith("services/")) return "services";
   if (file.startsWith("reports/")) return "reports";
