@@ -403,28 +403,19 @@ function countTraffic(cdp: CDPSession) {
 async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, target: Target, visit: "return" | "again" | "link", fromUrl: string): Promise<VisitRun> {
   const context = await browser.newContext({ storageState, viewport: { width: 1280, height: 800 } });
   try {
-    if (visit === "again") {
-      // The same visits, then the page loaded again in the same tab: no renderer torn down or started meanwhile.
-      const page = await context.newPage();
+    if (visit !== "link") {
+      // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code. A return visit
+      // is then a new tab, opened just after theirs closed; "again" loads the page once more in their tab (no renderer torn
+      // down or started meanwhile).
+      let page = await context.newPage();
       await loadHydrated(page, fromUrl, target.ready);
       await loadHydrated(page, target.url, target.ready);
       await loadHydrated(page, target.url, target.ready);
-      await page.goto("about:blank");
-      await page.addInitScript(pageProbe(target.ready ?? "marker"));
-      const cdp = await context.newCDPSession(page);
-      await cdp.send("Network.enable");
-      const traffic = countTraffic(cdp);
-      const probe = await interactive(page, cdp, target.url);
-      return { ttiMs: probe.clicked, ...traffic };
-    }
-    if (visit === "return") {
-      // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code.
-      const before = await context.newPage();
-      await loadHydrated(before, fromUrl, target.ready);
-      await loadHydrated(before, target.url, target.ready);
-      await loadHydrated(before, target.url, target.ready);
-      await before.close();
-      const page = await context.newPage();
+      if (visit === "again") await page.goto("about:blank");
+      else {
+        await page.close();
+        page = await context.newPage();
+      }
       await page.addInitScript(pageProbe(target.ready ?? "marker"));
       const cdp = await context.newCDPSession(page);
       await cdp.send("Network.enable");
