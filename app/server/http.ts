@@ -97,6 +97,12 @@ export function createApp(opts: { origin: string; dev: boolean; signInOrigin?: s
 }
 
 /**
+ * No other site's window keeps a handle on ours, and no other site embeds our answers. The benchmark's
+ * peer page (tests/bench/peer) sends them too: they decide when the browser starts a renderer.
+ */
+export const ISOLATION_HEADERS = { "Cross-Origin-Opener-Policy": "same-origin", "Cross-Origin-Resource-Policy": "same-origin" } as const;
+
+/**
  * Headers on every answer. The Content-Security-Policy allows scripts only from this origin and
  * inline ones carrying this request's nonce (entry.server.tsx gives it to React Router's inline
  * scripts); no framing by any site; no referrer to other sites. Styles keep 'unsafe-inline' because
@@ -130,8 +136,7 @@ function securityHeaders(opts: { dev: boolean; origin: string; signInOrigin?: st
     res.setHeader("X-Content-Type-Options", "nosniff");
     res.setHeader("Referrer-Policy", "same-origin");
     res.setHeader("X-Frame-Options", "DENY");
-    res.setHeader("Cross-Origin-Opener-Policy", "same-origin");
-    res.setHeader("Cross-Origin-Resource-Policy", "same-origin");
+    for (const [name, value] of Object.entries(ISOLATION_HEADERS)) res.setHeader(name, value);
     res.setHeader("Permissions-Policy", "camera=(), microphone=(), geolocation=(), payment=(), usb=()");
     // Nothing is kept by a browser or proxy unless the answer says otherwise: pages, API answers and
     // downloads carry people's records. Static files replace this with their own caching.

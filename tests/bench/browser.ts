@@ -405,13 +405,14 @@ async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<B
   try {
     if (visit !== "link") {
       // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code. A return visit
-      // is then a new tab, opened just after theirs closed; "again" loads the page once more in their tab (no renderer torn
-      // down or started meanwhile).
+      // is then a new tab, opened just after theirs closed; "again" loads the page once more from itself, settled, as a person
+      // reloads it. Not by way of a blank page: leaving a page for one without the app's Cross-Origin-Opener-Policy and coming
+      // back starts a renderer each time (the peer carries the same header since it was found; before, only the app paid it).
       let page = await context.newPage();
       await loadHydrated(page, fromUrl, target.ready);
       await loadHydrated(page, target.url, target.ready);
       await loadHydrated(page, target.url, target.ready);
-      if (visit === "again") await page.goto("about:blank");
+      if (visit === "again") await page.waitForLoadState("networkidle", { timeout: SETTLE_LIMIT_MS });
       else {
         await page.close();
         page = await context.newPage();
@@ -450,7 +451,7 @@ async function measurePeerReturn(browser: Browser, storageState: Awaited<ReturnT
     agains.push((await measureVisit(browser, storageState, peer, "again", peer.url)).ttiMs);
   }
   const f = { returnMs: median(returns), againMs: median(agains) };
-  say(`floor peer page: return visit interactive ${f.returnMs.toFixed(0)} ms, in the same tab ${f.againMs.toFixed(0)} ms (load ${loadAverage()})`);
+  say(`floor peer page: return visit interactive ${f.returnMs.toFixed(0)} ms, reloaded ${f.againMs.toFixed(0)} ms (load ${loadAverage()})`);
   return f;
 }
 
@@ -458,7 +459,7 @@ interface VisitFigures {
   key: string;
   returnMs: number;
   returnKiB: number;
-  /** The page loaded again in the same tab. */
+  /** The page, open and settled, loaded again from itself (a reload). */
   againMs: number;
   linkMs: number;
   linkKiB: number;
@@ -487,7 +488,7 @@ async function measureVisits(browser: Browser, storageState: Awaited<ReturnType<
       linkKiB: median(links.map((r) => r.bytes)) / 1024,
       linkRequests: median(links.map((r) => r.requests)),
     };
-    say(`${label} ${t.key}: return visit interactive ${f.returnMs.toFixed(0)} ms (${f.returnKiB.toFixed(0)} KiB), in the same tab ${f.againMs.toFixed(0)} ms; from the rail ${f.linkMs.toFixed(0)} ms (${f.linkKiB.toFixed(0)} KiB in ${f.linkRequests} requests) (load ${loadAverage()})`);
+    say(`${label} ${t.key}: return visit interactive ${f.returnMs.toFixed(0)} ms (${f.returnKiB.toFixed(0)} KiB), reloaded ${f.againMs.toFixed(0)} ms; from the rail ${f.linkMs.toFixed(0)} ms (${f.linkKiB.toFixed(0)} KiB in ${f.linkRequests} requests) (load ${loadAverage()})`);
     out.push(f);
   }
   return out;
@@ -601,6 +602,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
   const ok = (f: PageFigures) => f.statuses.every((st) => st === 200);
   const visitMisses = (v: VisitFigures, limit: number, label: string) => [
     ...(v.returnMs >= limit ? [`${label} ${v.key} on a return visit (${withUnit(v.returnMs)})`] : []),
+    ...(v.againMs >= limit ? [`${label} ${v.key} reloaded (${withUnit(v.againMs)})`] : []),
     ...(v.linkMs >= limit ? [`${label} ${v.key} from the rail (${withUnit(v.linkMs)})`] : []),
   ];
   const visitTable = (first: PageFigures[], visits: VisitFigures[], limit: number, targeted: string[], floor?: { firstMs: number; returnMs: number; againMs: number }) => {
@@ -609,18 +611,19 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     out();
     out("A person who works on a case has the app in the browser already. **Return visit**: the page loaded again in a context that");
     out("has visited the case overview and the page twice before (the browser's cache and the scripts' compiled code kept, as after");
-    out("earlier days' work); interactive as above. It is a new tab, opened just after the earlier visits' tab closed: **in the same tab** is");
-    out("the page loaded again in the tab of the earlier visits (no renderer torn down or started meanwhile). **From the rail**: the case overview open and settled, the page's link in the step");
+    out("earlier days' work); interactive as above. It is a new tab, opened just after the earlier visits' tab closed, so it starts a");
+    out("renderer of its own (the app's Cross-Origin-Opener-Policy, which the peer carries too). **Reloaded**: the page, open and settled");
+    out("in the tab of the earlier visits, loaded again from itself, as a person reloads it. **From the rail**: the case overview open and settled, the page's link in the step");
     out("rail pressed; the time runs from that mousedown until a click on the new page's heading is handled (React Router fetches the");
     out("page's data and any code not yet loaded, and renders it in the same document); the bytes are those fetched meanwhile.");
     out(`The first-visit figure is the table's above. Target: interactive < ${limit} ms.`);
     out();
-    out("| page | first visit (ms) | return visit (ms) | return visit (KiB) | in the same tab (ms) | from the rail (ms) | from the rail (KiB) | requests | target |");
+    out("| page | first visit (ms) | return visit (ms) | return visit (KiB) | reloaded (ms) | from the rail (ms) | from the rail (KiB) | requests | target |");
     out("|---|---|---|---|---|---|---|---|---|");
     if (floor && Number.isFinite(floor.returnMs)) out(`| peer page (framework floor) | ${ms(floor.firstMs)} | ${ms(floor.returnMs)} | — | ${ms(floor.againMs)} | — | — | — | — |`);
     for (const v of visits) {
       const f = first.find((x) => x.key === v.key);
-      const verdict = targeted.includes(v.key) ? (v.returnMs < limit && v.linkMs < limit ? "met" : "**missed**") : "—";
+      const verdict = targeted.includes(v.key) ? (v.returnMs < limit && v.againMs < limit && v.linkMs < limit ? "met" : "**missed**") : "—";
       out(`| ${v.key} | ${f ? ms(f.ttiMs) : "—"} | ${ms(v.returnMs)} | ${v.returnKiB.toFixed(0)} | ${ms(v.againMs)} | ${ms(v.linkMs)} | ${v.linkKiB.toFixed(0)} | ${v.linkRequests} | ${verdict} |`);
     }
     out();
@@ -636,6 +639,8 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
   out("The first row is the floor of this machine and browser: the peer page of the load benchmark (tests/bench/peer: the same framework,");
   out("React Router 7 with React 19, a table of the steps and a 20-row history of the same case from the same database; no styles, fonts or");
   out("charts), loaded the same way. It has no hydration marker: it counts as hydrated when React has attached its props to the heading.");
+  out("It carries the app's isolation headers (Cross-Origin-Opener-Policy and Cross-Origin-Resource-Policy): reached from a new tab's blank");
+  out("page, a page with that opener policy is loaded in a renderer of its own, which the browser starts then.");
   out();
   table(peerPage ? [{ ...peerPage, key: "peer page (framework floor)" }, ...demo] : demo, (f) => (!ok(f) ? `**failed** (HTTP ${f.statuses.join(", ")})` : DEMO_TTI_PAGES.includes(f.key) ? `interactive < ${DEMO_TTI_TARGET_MS} ms: ${f.ttiMs < DEMO_TTI_TARGET_MS ? "met" : "**missed**"}` : "—"));
   out("### Where the time to interactive goes (the same loads, medians)");
@@ -674,7 +679,7 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
     ...large.filter((f) => !ok(f) || f.bytes >= LARGE_BYTES_TARGET || f.ttiMs >= LARGE_TTI_TARGET_MS).map((f) => `large ${f.key} (${kib(f.bytes)} KiB, ${withUnit(f.ttiMs)})`),
   ];
   out(`- Targets (issue 14: every page of the ${LARGE_CASES.toLocaleString("en")}-case case under 1 MB and interactive within 1 s; issue 10, item 8: the demo envelope and distribution pages within 0.5 s): ${missed.length ? `**missed** by ${missed.join(", ")}` : "**met**"}.`);
-  out(`- The same targets on a return visit and for a step opened from the case's rail: ${missedVisits.length ? `**missed** by ${missedVisits.join(", ")}` : "**met**"}.`);
+  out(`- The same targets on a return visit, reloaded, and for a step opened from the case's rail: ${missedVisits.length ? `**missed** by ${missedVisits.join(", ")}` : "**met**"}.`);
   out(MARK_END);
 
   const file = writeDocsSection(MARK_START, MARK_END, lines.join("\n"));

@@ -10,6 +10,7 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
 import type { ServerBuild } from "react-router";
+import { ISOLATION_HEADERS } from "../../../app/server/http";
 
 const processes = Number(process.env.WEB_PROCESSES ?? 2);
 if (cluster.isPrimary && processes > 1) {
@@ -23,6 +24,14 @@ if (cluster.isPrimary && processes > 1) {
   const app = express();
   app.disable("x-powered-by");
   app.use(compression({ threshold: 1024 }));
+  // The app's isolation headers (app/server/http.ts), which change what the browser does: a page with
+  // Cross-Origin-Opener-Policy: same-origin is loaded in a browsing context group, and so a renderer
+  // process, of its own when it is reached from one without it (a new tab's blank page). Without them
+  // the peer's first visit reuses the new tab's renderer while the app's starts another.
+  app.use((_req, res, next) => {
+    for (const [name, value] of Object.entries(ISOLATION_HEADERS)) res.setHeader(name, value);
+    next();
+  });
   app.use("/assets", express.static(path.join(import.meta.dirname, "build/client/assets"), { immutable: true, maxAge: "1y" }));
   app.all("/{*splat}", createRequestHandler({ build }));
   app.listen(Number(process.env.PORT), "127.0.0.1");
