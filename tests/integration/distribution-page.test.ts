@@ -118,7 +118,9 @@ describe("the distribution page of a large case file", () => {
     expect(summary.open).toBe(flags.length);
     expect(summary.openIds).toEqual(flags.slice(0, OPEN_IDS_SHOWN).map((f) => f.id));
     for (const r of summary.byReason) expect(r.count).toBe(flags.filter((f) => f.kinds.includes(r.reason as never)).length);
-    expect(first.map((r) => r.id)).toEqual(flags.slice(0, FIRST_FLAG_ROWS).map((f) => f.id));
+    // Each row as the whole result flags it (its reasons in words and its kinds), with no disposition yet.
+    const asFlag = ({ disposition, ...f }: FlagRow) => (expect(disposition).toBeNull(), f);
+    expect(first.map(asFlag)).toEqual(flags.slice(0, FIRST_FLAG_ROWS));
     // The page's data hold no list of every case or every flag.
     expect(JSON.stringify(body).length).toBeLessThan(JSON.stringify(flags).length / 5);
 
@@ -126,7 +128,12 @@ describe("the distribution page of a large case file", () => {
     expect(next.status).toBe(200);
     const window = (await next.json()) as FlagWindow;
     expect(window).toMatchObject({ total: flags.length, offset: FIRST_FLAG_ROWS, revision: body.revision });
-    expect(window.rows.map((r) => r.id)).toEqual(flags.slice(FIRST_FLAG_ROWS, FIRST_FLAG_ROWS + 100).map((f) => f.id));
+    expect(window.rows.map(asFlag)).toEqual(flags.slice(FIRST_FLAG_ROWS, FIRST_FLAG_ROWS + 100));
+    // A range past the last flagged case holds the rows there are, and one beyond them none.
+    const tail = (await (await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=${flags.length - 3}&limit=10`, largeId)).json()) as FlagWindow;
+    expect(tail.rows.map(asFlag)).toEqual(flags.slice(-3));
+    const beyond = (await (await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=${flags.length}&limit=10`, largeId)).json()) as FlagWindow;
+    expect(beyond).toMatchObject({ total: flags.length, offset: flags.length, rows: [] });
 
     const tooMany = await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=0&limit=${MAX_FLAG_ROWS + 1}`, largeId);
     expect(tooMany.status).toBe(400);
