@@ -407,7 +407,7 @@ async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<B
       // Two earlier visits: the first fills the cache, the second lets Chromium keep the scripts' compiled code. A return visit
       // is then a new tab, opened just after theirs closed; "again" loads the page once more from itself, settled, as a person
       // reloads it. Not by way of a blank page: leaving a page for one without the app's Cross-Origin-Opener-Policy and coming
-      // back starts a renderer each time (the peer carries the same header since it was found; before, only the app paid it).
+      // back starts a renderer each time (tests/bench/peer sends the same header, so both would pay it).
       let page = await context.newPage();
       await loadHydrated(page, fromUrl, target.ready);
       await loadHydrated(page, target.url, target.ready);
