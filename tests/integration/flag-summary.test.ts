@@ -47,6 +47,8 @@ describe("the flagged cases of a stored result", () => {
     vi.resetModules();
     const fresh = await import("~/services/distribution.server");
     const read = await fresh.storedFlags(caseId, inputHash, "SI");
+    // That instance opened its own connections.
+    await (await import("~/db/client.server")).closeDb();
     expect(read?.flags).toEqual(expected);
     expect(read?.first).toBeTruthy();
     expect(read?.method).toMatchObject({ compressibility: expect.any(String) });
