@@ -443,7 +443,7 @@ async function measureVisit(browser: Browser, storageState: Awaited<ReturnType<B
   }
 }
 
-async function measurePeerReturn(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, peer: Target): Promise<{ returnMs: number; againMs: number }> {
+async function measurePeerVisits(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, peer: Target): Promise<{ returnMs: number; againMs: number }> {
   const returns: number[] = [];
   const agains: number[] = [];
   for (let i = 0; i < ROUNDS; i++) {
@@ -720,8 +720,8 @@ async function main() {
     // The session cookie is the host's, so the peer page on its own port is signed in as the same person.
     const peerTarget: Target = { key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" };
     const peerFigures = peerOrigin ? await measurePages(browser, state, [peerTarget], "floor") : [];
-    // The floor of a return visit too (the peer has no rail: a return visit only).
-    const peerReturn = peerOrigin ? await measurePeerReturn(browser, state, peerTarget) : { returnMs: NaN, againMs: NaN };
+    // The floor of a return visit and a reload too (the peer has no rail).
+    const peerReturn = peerOrigin ? await measurePeerVisits(browser, state, peerTarget) : { returnMs: NaN, againMs: NaN };
     const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
     const demoVisits = ONLY === "large" ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");

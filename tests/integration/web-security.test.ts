@@ -102,7 +102,7 @@ describe("cross-site request forgery", () => {
     expect(res.headers.get("Referrer-Policy")).toBe("same-origin");
     expect(res.headers.get("X-Frame-Options")).toBe("DENY");
     expect(res.headers.get("X-Content-Type-Options")).toBe("nosniff");
-    // Isolation from other sites' windows and embedding (OWASP Secure Headers Project's recommended values).
+    // Isolation from other sites' windows and embedding: the OWASP Secure Headers Project's recommended values (from memory).
     expect(res.headers.get("Cross-Origin-Opener-Policy")).toBe("same-origin");
     expect(res.headers.get("Cross-Origin-Resource-Policy")).toBe("same-origin");
   });
