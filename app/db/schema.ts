@@ -254,7 +254,7 @@ export const caseResults = pgTable(
     engineVersion: text("engine_version").notNull(),
     input: jsonb().$type<Record<string, unknown>>().notNull(),
     result: jsonb().$type<Record<string, unknown>>().notNull(),
-    /** What pages read of the result without reading it (method, first case, flagged cases' facts); null for results stored before it was kept. */
+    /** What pages read of the result without reading it (ResultSummary: method, first case, flagged cases counted by reason; their rows are in result_flags). Null, or an older form holding the flagged cases inline, for results stored before: made again on first read. */
     summary: jsonb().$type<Record<string, unknown>>(),
     /**
      * The result document as the API sends it (`spanwright.result/1`, UTF-8 JSON), brotli-compressed
@@ -292,6 +292,27 @@ export const resultCases = pgTable(
     result: jsonb().$type<Record<string, unknown>>().notNull(),
   },
   (t) => [primaryKey({ columns: [t.resultId, t.loadCase] })],
+);
+
+/**
+ * Each flagged case of a stored result (above the critical Mach number, over clmax, or with an
+ * unreliable critical Mach number), in the result's order, with the facts of its flag: the
+ * distribution page reads the rows it shows and counts the open ones here, instead of taking every
+ * flagged case of a 100 000-case result out of one document. Written with its result; goes with it.
+ */
+export const resultFlags = pgTable(
+  "result_flags",
+  {
+    resultId: uuid("result_id").notNull().references(() => caseResults.id, { onDelete: "cascade" }),
+    /** Place among the result's flagged cases, from 0: a page's range of rows is a range of ranks. */
+    rank: integer().notNull(),
+    loadCase: text("load_case").notNull(),
+    /** The reasons (FlagReason), in FLAG_REASONS order. */
+    kinds: text().array().notNull(),
+    /** The flag's facts (FlagFacts). */
+    facts: jsonb().$type<Record<string, unknown>>().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.resultId, t.rank] }), uniqueIndex("result_flags_case_idx").on(t.resultId, t.loadCase)],
 );
 
 /**

@@ -85,16 +85,35 @@ export function flagFacts(c: Pick<ResultCase, "id" | "regime" | "mach" | "machCr
   return supercritical || stall.length || doubt ? { id: c.id, mach: c.mach, machCritical: c.machCritical ?? null, supercritical, stall, doubt } : null;
 }
 
-/** What the distribution page reads of a stored result: its method, its first case and the facts of its flagged cases, in order. */
+/** The reasons a case is flagged for, in FLAG_REASONS order: what the summary counts and a bulk disposition selects. */
+export function flagKinds(f: FlagFacts): FlagReason[] {
+  return FLAG_REASONS.filter((r) => (r === "supercritical" ? f.supercritical : r === "stall" ? f.stall.length > 0 : f.doubt));
+}
+
+/** Flagged cases in all and for each reason (a case may be flagged for several). */
+export type FlagCounts = { all: number } & Record<FlagReason, number>;
+
+/**
+ * What the distribution page reads of a stored result besides its flagged cases' rows (kept one
+ * by one beside it): its method, its first case and how many cases are flagged, for each reason.
+ */
 export interface ResultSummary {
   method: ResultMethod;
   first: string;
-  flagged: FlagFacts[];
+  flagCounts: FlagCounts;
 }
 
-/** The summary of a result, kept beside it as it is stored. */
-export function resultSummary(result: Pick<CaseResult, "method" | "cases">): ResultSummary {
-  return { method: result.method, first: result.cases[0]?.id ?? "", flagged: result.cases.map(flagFacts).filter((f): f is FlagFacts => f !== null) };
+/** A result's flagged cases in order, and its summary: both kept beside it as it is stored. */
+export function resultFlagIndex(result: Pick<CaseResult, "method" | "cases">): { summary: ResultSummary; flagged: FlagFacts[] } {
+  const flagged = result.cases.map(flagFacts).filter((f): f is FlagFacts => f !== null);
+  return { summary: summaryOfFlags(result.method, result.cases[0]?.id ?? "", flagged), flagged };
+}
+
+/** The summary of a result with these flagged cases. */
+export function summaryOfFlags(method: ResultMethod, first: string, flagged: readonly FlagFacts[]): ResultSummary {
+  const flagCounts: FlagCounts = { all: flagged.length, supercritical: 0, stall: 0, "critical-mach-basis": 0 };
+  for (const f of flagged) for (const k of flagKinds(f)) flagCounts[k]++;
+  return { method, first, flagCounts };
 }
 
 /** Root-load rows the loads page gets at most: every case of a small file, the most critical of a large one. */

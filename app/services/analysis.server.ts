@@ -5,7 +5,7 @@ import { LRUCache } from "lru-cache";
 import type { BasisData, EnvelopeData, LoadsData, MassesData, PlanformData, SectionsData, DistributionData } from "~/domain/step-data";
 import { canonicalJson, sha256Hex } from "~/db/audit.server";
 import { db, type Db, type Tx } from "~/db/client.server";
-import { caseResults, cases, resultCases, resultInputs, resultProgress } from "~/db/schema";
+import { caseResults, cases, resultCases, resultFlags, resultInputs, resultProgress } from "~/db/schema";
 import type { StepKey } from "~/domain/vocabulary";
 import { ENGINE_VERSION } from "~/engine";
 import { analyzeDocument, CASE_SCHEMA_ID, parseCase, parseSections, runCase, runCaseAsync, SECTIONS_SCHEMA_ID, type RunProgress, type CaseFile, type CaseFileInput, type CaseResult, type SectionsFile } from "~/exchange";
@@ -13,7 +13,7 @@ import { boss, QUEUES } from "~/jobs/boss.server";
 import { getCaseSteps, getCaseStepsDigest, getCaseStepsDigested, stepData, type StepState } from "./case-steps.server";
 import { runEngine, runEngineAsync } from "./engine.server";
 import { DomainError, problemsMessage } from "~/domain/errors";
-import { rankedRootLoads, resultSummary } from "~/domain/results";
+import { flagKinds, rankedRootLoads, resultFlagIndex, type FlagFacts } from "~/domain/results";
 import { checkMassCaseNames, effectiveMasses, exchangeMasses, withTailLoads } from "./masses.server";
 import { envelopeCaseCount, queueCaseResults, SWEEP_THRESHOLD, type InputScope } from "./results-queue.server";
 
@@ -256,12 +256,14 @@ export async function resultsFor(
   const inputHead = { head, sections: sections ?? null };
   // The row and its rows by load case together or not at all: a row marked as kept by case (input_head)
   // without them would answer "no such load case" for the cases it holds.
+  const { summary, flagged } = resultFlagIndex(result);
   const row = await database.transaction(async (tx) => {
     const [stored] = await tx
       .insert(caseResults)
-      .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: resultSummary(result) as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, inputHead, documentBr, computedBy: actorId })
+      .values({ caseId, inputHash, engineVersion: ENGINE_VERSION, input, result: result as unknown as Record<string, unknown>, summary: summary as unknown as Record<string, unknown>, rootLoads: rankedRootLoads(result) as unknown as Record<string, unknown>, inputHead, documentBr, computedBy: actorId })
       .returning({ id: caseResults.id, computedAt: caseResults.computedAt });
     await storeResultCases(stored!.id, tx);
+    await storeResultFlags(stored!.id, flagged, tx);
     return stored;
   });
   if (opts.recordProgress) await recordProgress(caseId, inputHash, { phase: "done", casesDone: parsed.cases.length, casesTotal: parsed.cases.length });
@@ -284,6 +286,21 @@ async function storeResultCases(resultId: string, database: Db | Tx = db): Promi
     o as (select e ->> 'id' as id, e from r, jsonb_array_elements(r.results) as t(e))
     insert into ${resultCases} (result_id, load_case, ordinal, input, result)
     select ${resultId}, i.id, i.n, i.e, o.e from i join o on o.id = i.id`);
+}
+
+/**
+ * The flagged cases of the stored result `resultId`, in order, as rows of result_flags: one
+ * parameter (a JSON array) however many there are. Rows already there are left as they are, so two
+ * processes making the rows of an older result at once both succeed.
+ */
+export async function storeResultFlags(resultId: string, flagged: readonly FlagFacts[], database: Db | Tx = db): Promise<void> {
+  if (flagged.length === 0) return;
+  const rows = JSON.stringify(flagged.map((f) => ({ facts: f, kinds: flagKinds(f) })));
+  await database.execute(sql`
+    insert into ${resultFlags} (result_id, rank, load_case, kinds, facts)
+    select ${resultId}, (t.n - 1)::integer, t.e -> 'facts' ->> 'id', array(select jsonb_array_elements_text(t.e -> 'kinds')), t.e -> 'facts'
+    from jsonb_array_elements(${rows}::jsonb) with ordinality as t(e, n)
+    on conflict do nothing`);
 }
 
 /**

@@ -1,16 +1,15 @@
-import { and, desc, eq, sql } from "drizzle-orm";
-import { LRUCache } from "lru-cache";
+import { and, asc, desc, eq, gte, lt, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
-import { caseResults, caseSteps } from "~/db/schema";
-import { FLAG_REASON_LABELS, FLAG_REASONS, flagFacts, stallHits, type FlagFacts, type FlagReason, type ResultSummary, type StallHit } from "~/domain/results";
+import { caseResults, caseSteps, resultFlags } from "~/db/schema";
+import { FLAG_REASON_LABELS, FLAG_REASONS, flagFacts, flagKinds, stallHits, summaryOfFlags, type FlagCounts, type FlagFacts, type FlagReason, type ResultSummary, type StallHit } from "~/domain/results";
 import { DistributionSchema, type DistributionData } from "~/domain/step-data";
-import { ENGINE_VERSION, evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
+import { evaluateCase, schrenkDistribution, solveMach, type CompressibilityRule } from "~/engine";
 import { caseWingModel, type CaseFile, type CaseFileInput, type CaseResult, type ResultCase, type ResultMethod, type SectionsFile } from "~/exchange";
 import { DomainError } from "~/domain/errors";
 import { fromSI, messageInUnits, unitSymbol, type UnitSystem } from "~/domain/units";
 import type { StepKey } from "~/domain/vocabulary";
 import { fieldErrorsOf, type FieldErrors } from "~/utils/form-data";
-import { currentDistributionInput, currentInputKey, currentInputWith, inputInPreparation, parseOrThrow, queueResults, resultsFor, storedInputIds, storedInputWith, storedResultOf } from "./analysis.server";
+import { currentDistributionInput, currentInputKey, currentInputWith, inputInPreparation, parseOrThrow, queueResults, resultsFor, storedInputIds, storedInputWith, storedResultOf, storeResultFlags } from "./analysis.server";
 import { SWEEP_THRESHOLD } from "./results-queue.server";
 import { getCase } from "./programmes.server";
 import { runEngine } from "./engine.server";
@@ -27,8 +26,7 @@ function flagOf(f: FlagFacts, units: UnitSystem): CaseFlag {
   const supercritical = f.supercritical ? [`Mach ${f.mach.toFixed(3)} is at or above the critical Mach number ${f.machCritical?.toFixed(3)}: the subsonic compressibility rules are outside their validity`] : [];
   const stall = summariseHits(f.stall, units);
   const doubt = f.doubt ? ["the critical Mach number is not reliable at this case's lift: it rests on one Cp,min per section taken at another lift"] : [];
-  const kinds: FlagReason[] = [...(supercritical.length ? (["supercritical"] as const) : []), ...(stall.length ? (["stall"] as const) : []), ...(doubt.length ? (["critical-mach-basis"] as const) : [])];
-  return { id: f.id, reasons: [...supercritical, ...stall, ...doubt], kinds };
+  return { id: f.id, reasons: [...supercritical, ...stall, ...doubt], kinds: flagKinds(f) };
 }
 
 /**
@@ -146,38 +144,20 @@ export interface FlagRow extends CaseFlag {
   disposition: Disposition | null;
 }
 
+/** The stored result for an input: its row, method, first case and flagged cases counted; the flagged cases themselves are rows of result_flags. */
 interface StoredFlags {
+  resultId: string;
   method: ResultMethod;
-  flags: CaseFlag[];
   /** The id of the result's first case: the one shown when none is flagged. */
   first: string;
-}
-
-// Flags of a stored result by case, input hash, engine version and units: a function of exactly those,
-// so never stale; PostgreSQL reads them out of the stored result once per process.
-const flagsCache = new LRUCache<string, StoredFlags>({ max: 16 });
-
-/**
- * The method and flagged cases of the stored result for this input, or null while none is stored.
- * PostgreSQL hands over only the flagged cases' id, regime, Mach numbers and warnings, not the result.
- */
-export async function storedFlags(caseId: string, inputHash: string, units: UnitSystem): Promise<StoredFlags | null> {
-  const key = `${caseId}\n${inputHash}\n${ENGINE_VERSION}\n${units}`;
-  const hit = flagsCache.get(key);
-  if (hit) return hit;
-  const summary = await storedSummary(caseId, inputHash);
-  if (!summary) return null;
-  const value = { method: summary.method, flags: summary.flagged.map((f) => flagOf(f, units)), first: summary.first };
-  flagsCache.set(key, value);
-  return value;
+  counts: FlagCounts;
 }
 
 /**
- * The summary kept beside the stored result (resultSummary), not the result. A result stored before
- * summaries were kept has it made once here: PostgreSQL hands over the method, the first id and the
- * flagged cases' few fields, and the summary is kept for every later read.
+ * The stored result for this input with its summary, or null while none is stored. Read on every
+ * request (one indexed row, a few hundred bytes), so a page is always as current as the database.
  */
-async function storedSummary(caseId: string, inputHash: string): Promise<ResultSummary | null> {
+export async function storedFlags(caseId: string, inputHash: string): Promise<StoredFlags | null> {
   const [row] = await db
     .select({ id: caseResults.id, summary: caseResults.summary })
     .from(caseResults)
@@ -185,16 +165,52 @@ async function storedSummary(caseId: string, inputHash: string): Promise<ResultS
     .orderBy(desc(caseResults.computedAt))
     .limit(1);
   if (!row) return null;
-  if (row.summary) return row.summary as unknown as ResultSummary;
-  const [head] = await db.select({ method: sql<ResultMethod>`${caseResults.result} -> 'method'`, first: sql<string>`${caseResults.result} -> 'cases' -> 0 ->> 'id'` }).from(caseResults).where(eq(caseResults.id, row.id));
+  const kept = row.summary as Partial<ResultSummary> | null;
+  const summary = kept?.flagCounts ? (kept as ResultSummary) : await keepFlagIndex(row.id, row.summary);
+  return { resultId: row.id, method: summary.method, first: summary.first, counts: summary.flagCounts };
+}
+
+/** The summary an older result was stored with: its flagged cases inline, or none at all. */
+interface OlderSummary {
+  method: ResultMethod;
+  first: string;
+  flagged: FlagFacts[];
+}
+
+/**
+ * The flagged-case rows and summary of a result stored before they were kept, made once and kept:
+ * from its older summary's inline list, else from the result (PostgreSQL hands over the method, the
+ * first id and the flagged cases' few fields, not the result).
+ */
+async function keepFlagIndex(resultId: string, older: Record<string, unknown> | null): Promise<ResultSummary> {
+  const inline = older && Array.isArray(older.flagged) ? (older as unknown as OlderSummary) : null;
+  const { method, first, flagged } = inline ?? (await flagsFromResult(resultId));
+  const summary = summaryOfFlags(method, first, flagged);
+  await db.transaction(async (tx) => {
+    await storeResultFlags(resultId, flagged, tx);
+    await tx.update(caseResults).set({ summary: summary as unknown as Record<string, unknown> }).where(eq(caseResults.id, resultId));
+  });
+  return summary;
+}
+
+async function flagsFromResult(resultId: string): Promise<OlderSummary> {
+  const [head] = await db.select({ method: sql<ResultMethod>`${caseResults.result} -> 'method'`, first: sql<string>`${caseResults.result} -> 'cases' -> 0 ->> 'id'` }).from(caseResults).where(eq(caseResults.id, resultId));
   const found = await db.execute<{ c: Pick<ResultCase, "id" | "regime" | "mach" | "machCritical" | "warnings"> }>(sql`
     select jsonb_build_object('id', e -> 'id', 'regime', e -> 'regime', 'mach', e -> 'mach', 'machCritical', e -> 'machCritical', 'warnings', e -> 'warnings') as c
     from case_results r, jsonb_array_elements(r.result -> 'cases') with ordinality as t(e, n)
-    where r.id = ${row.id} and (e ->> 'regime' = 'supercritical' or jsonb_array_length(e -> 'warnings') > 0)
+    where r.id = ${resultId} and (e ->> 'regime' = 'supercritical' or jsonb_array_length(e -> 'warnings') > 0)
     order by n`);
-  const summary: ResultSummary = { method: head!.method, first: head!.first, flagged: found.rows.map((r) => flagFacts(r.c)).filter((f): f is FlagFacts => f !== null) };
-  await db.update(caseResults).set({ summary: summary as unknown as Record<string, unknown> }).where(eq(caseResults.id, row.id));
-  return summary;
+  return { method: head!.method, first: head!.first, flagged: found.rows.map((r) => flagFacts(r.c)).filter((f): f is FlagFacts => f !== null) };
+}
+
+/** Flagged cases offset … offset + limit − 1 of a stored result, their reasons in the units shown. */
+async function flagRows(stored: StoredFlags, offset: number, limit: number, units: UnitSystem): Promise<CaseFlag[]> {
+  const rows = await db
+    .select({ facts: resultFlags.facts })
+    .from(resultFlags)
+    .where(and(eq(resultFlags.resultId, stored.resultId), gte(resultFlags.rank, offset), lt(resultFlags.rank, offset + limit)))
+    .orderBy(asc(resultFlags.rank));
+  return rows.map((r) => flagOf(r.facts as unknown as FlagFacts, units));
 }
 
 /** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
@@ -206,18 +222,33 @@ async function storedDistribution(caseId: string): Promise<{ revision: number; d
 
 const rowsOf = (flags: CaseFlag[], dispositions: DistributionData["dispositions"]): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
 
-/** How many flagged cases, and of them without a disposition, for each reason. */
-function summaryOf(flags: CaseFlag[], dispositions: DistributionData["dispositions"]) {
-  const open = flags.filter((f) => !dispositions[f.id]);
+/**
+ * How many flagged cases, and of them without a disposition, for each reason, and the first few
+ * without one: counted by PostgreSQL over the disposed cases' rows, not over every flagged case.
+ */
+async function summaryOf(stored: StoredFlags, dispositions: DistributionData["dispositions"]) {
+  const disposed = sql`unnest(${sql.param(Object.keys(dispositions))}::text[]) as d(id)`;
+  const closedRows = await db.execute<{ kinds: FlagReason[]; n: number }>(sql`
+    select f.kinds, count(*)::integer as n from ${resultFlags} f join ${disposed} on d.id = f.load_case
+    where f.result_id = ${stored.resultId} group by f.kinds`);
+  const openRows = await db.execute<{ id: string }>(sql`
+    select f.load_case as id from ${resultFlags} f left join ${disposed} on d.id = f.load_case
+    where f.result_id = ${stored.resultId} and d.id is null order by f.rank limit ${OPEN_IDS_SHOWN}`);
+  const closed: FlagCounts = { all: 0, supercritical: 0, stall: 0, "critical-mach-basis": 0 };
+  for (const r of closedRows.rows) {
+    closed.all += r.n;
+    for (const k of r.kinds) closed[k] += r.n;
+  }
+  const { counts } = stored;
   return {
-    flagged: flags.length,
-    open: open.length,
-    openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id),
-    byReason: FLAG_REASONS.map((reason) => ({ reason, label: FLAG_REASON_LABELS[reason], count: flags.filter((f) => f.kinds.includes(reason)).length, open: open.filter((f) => f.kinds.includes(reason)).length })).filter((r) => r.count > 0),
+    flagged: counts.all,
+    open: counts.all - closed.all,
+    openIds: openRows.rows.map((r) => r.id),
+    byReason: FLAG_REASONS.map((reason) => ({ reason, label: FLAG_REASON_LABELS[reason], count: counts[reason], open: counts[reason] - closed[reason] })).filter((r) => r.count > 0),
   };
 }
 
-export type DistributionSummary = ReturnType<typeof summaryOf>;
+export type DistributionSummary = Awaited<ReturnType<typeof summaryOf>>;
 
 /**
  * What the distribution page carries: the summary of the flagged cases (by reason, and those still
@@ -232,7 +263,7 @@ export async function distributionPage(input: { caseId: string; title: string; u
     const key = await currentInputKey(input.caseId, input.title, "envelope");
     // A large case's input is being built by the job worker: nothing to read yet.
     if (key.inputHash === null) return { state: "pending" as const, cases: key.caseCount, progress: null };
-    const stored = await storedFlags(input.caseId, key.inputHash, input.units);
+    const stored = await storedFlags(input.caseId, key.inputHash);
     if (!stored) {
       const progress = await queueResults(input.caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
@@ -240,20 +271,21 @@ export async function distributionPage(input: { caseId: string; title: string; u
     }
     const { dispositions } = await storedDistribution(input.caseId);
     const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.file.cases.length : 0;
-    const shown = input.requested && known ? input.requested : (stored.flags[0]?.id ?? stored.first);
-    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: summaryOf(stored.flags, dispositions), first: rowsOf(stored.flags.slice(0, FIRST_FLAG_ROWS), dispositions) };
+    const first = await flagRows(stored, 0, FIRST_FLAG_ROWS, input.units);
+    const shown = input.requested && known ? input.requested : (first[0]?.id ?? stored.first);
+    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: await summaryOf(stored, dispositions), first: rowsOf(first, dispositions) };
   } catch (error) {
     if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
     throw error;
   }
 }
 
-/** The flagged cases of the stored result, or a refusal that says they are still being computed. */
-async function currentFlags(caseId: string, title: string, units: UnitSystem): Promise<CaseFlag[]> {
+/** The stored result with its flagged cases, or a refusal that says they are still being computed. */
+async function currentFlags(caseId: string, title: string): Promise<StoredFlags> {
   const { inputHash } = await currentInputKey(caseId, title, "envelope");
-  const stored = inputHash === null ? null : await storedFlags(caseId, inputHash, units);
+  const stored = inputHash === null ? null : await storedFlags(caseId, inputHash);
   if (!stored) throw new DomainError("The results of this case file are still being computed: the flagged cases are known once they are stored.", { field: "results", kind: "conflict" });
-  return stored.flags;
+  return stored;
 }
 
 /**
@@ -263,9 +295,9 @@ async function currentFlags(caseId: string, title: string, units: UnitSystem): P
 export async function flagWindow(input: { caseId: string; title: string; units: UnitSystem; offset: number; limit: number }) {
   if (!Number.isInteger(input.offset) || input.offset < 0) throw new DomainError("offset must be a whole number ≥ 0", { field: "offset" });
   if (!Number.isInteger(input.limit) || input.limit < 1 || input.limit > MAX_FLAG_ROWS) throw new DomainError(`limit must be a whole number from 1 to ${MAX_FLAG_ROWS}`, { field: "limit" });
-  const flags = await currentFlags(input.caseId, input.title, input.units);
+  const stored = await currentFlags(input.caseId, input.title);
   const { revision, dispositions } = await storedDistribution(input.caseId);
-  return { revision, total: flags.length, offset: input.offset, rows: rowsOf(flags.slice(input.offset, input.offset + input.limit), dispositions) };
+  return { revision, total: stored.counts.all, offset: input.offset, rows: rowsOf(await flagRows(stored, input.offset, input.limit, input.units), dispositions) };
 }
 
 export type FlagWindow = Awaited<ReturnType<typeof flagWindow>>;
@@ -280,8 +312,7 @@ export async function searchLoadCases(input: { caseId: string; title: string; un
   if (inputHash === null) throw inputInPreparation();
   // The ids of the stored result's input (read once per input); a small case not yet solved builds its input.
   const ids = (await storedInputIds(input.caseId, inputHash)) ?? (await currentDistributionInput(input.caseId, input.title)).parsed.cases.map((c) => c.id);
-  const stored = await storedFlags(input.caseId, inputHash, input.units);
-  const flagged = new Set(stored?.flags.map((f) => f.id));
+  const stored = await storedFlags(input.caseId, inputHash);
   const starts: string[] = [];
   const contains: string[] = [];
   for (const id of ids) {
@@ -292,7 +323,9 @@ export async function searchLoadCases(input: { caseId: string; title: string; un
     if (starts.length > MAX_SUGGESTIONS) break;
   }
   const all = [...starts, ...contains];
-  return { matches: all.slice(0, MAX_SUGGESTIONS).map((id) => ({ id, flagged: flagged.has(id) })), more: all.length > MAX_SUGGESTIONS };
+  const shown = all.slice(0, MAX_SUGGESTIONS);
+  const flagged = new Set(stored && shown.length ? (await db.select({ id: resultFlags.loadCase }).from(resultFlags).where(and(eq(resultFlags.resultId, stored.resultId), sql`${resultFlags.loadCase} = any(${sql.param(shown)}::text[])`))).map((r) => r.id) : []);
+  return { matches: shown.map((id) => ({ id, flagged: flagged.has(id) })), more: all.length > MAX_SUGGESTIONS };
 }
 
 /** A change of dispositions: some rows (action "none" takes a disposition away), or every case flagged for one reason. */
@@ -319,8 +352,8 @@ export async function mergedDispositions(input: { caseId: string; title: string;
   } else {
     const one = DistributionSchema.shape.dispositions.valueType.safeParse({ action: change.action, comment: change.comment });
     if (!one.success) return { ok: false, fieldErrors: fieldErrorsOf(one.error) };
-    const flags = await currentFlags(input.caseId, input.title, input.units);
-    const chosen = flags.filter((f) => f.kinds.includes(change.reason));
+    const stored = await currentFlags(input.caseId, input.title);
+    const chosen = await db.select({ id: resultFlags.loadCase }).from(resultFlags).where(and(eq(resultFlags.resultId, stored.resultId), sql`${change.reason} = any(${resultFlags.kinds})`)).orderBy(asc(resultFlags.rank));
     if (chosen.length === 0) throw new DomainError(`No case is flagged for this reason (${FLAG_REASON_LABELS[change.reason]}).`, { field: "reason" });
     for (const f of chosen) next[f.id] = one.data;
   }
@@ -350,18 +383,18 @@ export async function dispositionBlockers(caseId: string, title: string): Promis
     // The input's key from the steps' digest: a large case's file is neither built nor checked here.
     const key = await currentInputKey(caseId, title, "envelope");
     if (key.inputHash === null) return [STILL_COMPUTING];
-    let stored = await storedFlags(caseId, key.inputHash, "SI");
+    let stored = await storedFlags(caseId, key.inputHash);
     if (!stored && key.caseCount <= SWEEP_THRESHOLD) {
       const analysis = await currentDistributionInput(caseId, title);
       await resultsFor(caseId, analysis.file, null, analysis.sections);
-      stored = await storedFlags(caseId, key.inputHash, "SI");
+      stored = await storedFlags(caseId, key.inputHash);
     }
     if (!stored) {
       const progress = await queueResults(caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       return [progress?.phase === "failed" && progress.problem ? progress.problem : STILL_COMPUTING];
     }
     const { dispositions } = await storedDistribution(caseId);
-    const { open, openIds } = summaryOf(stored.flags, dispositions);
+    const { open, openIds } = await summaryOf(stored, dispositions);
     return open ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open} without a disposition (${openIds.join(", ")}${open > openIds.length ? ", …" : ""}).`] : [];
   } catch (error) {
     if (error instanceof DomainError) return [error.message];

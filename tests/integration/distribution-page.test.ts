@@ -223,5 +223,13 @@ describe("the distribution page of a large case file", () => {
     const after = await pageOf(largeId);
     if (after.page.state !== "ready") throw new Error("results not stored");
     expect(after.page.summary.byReason.find((r) => r.reason === reason.reason)!.open).toBe(0);
+    // Every count, and the first ids still open, against the whole result's flags and the stored dispositions.
+    const all = flaggedCases(await storedResult(largeId, "Distribution at scale"));
+    const open = all.filter((f) => !dispositions[f.id]);
+    expect(open.length).toBeGreaterThan(0);
+    expect(after.page.summary).toMatchObject({ flagged: all.length, open: open.length, openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
+    expect(after.page.summary.byReason.map(({ reason: r, count, open: o }) => ({ r, count, o }))).toEqual(
+      (["supercritical", "stall", "critical-mach-basis"] as const).map((r) => ({ r, count: all.filter((f) => f.kinds.includes(r)).length, o: open.filter((f) => f.kinds.includes(r)).length })).filter((x) => x.count > 0),
+    );
   });
 });
