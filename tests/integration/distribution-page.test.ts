@@ -232,4 +232,25 @@ describe("the distribution page of a large case file", () => {
       (["supercritical", "stall", "critical-mach-basis"] as const).map((r) => ({ r, count: all.filter((f) => f.kinds.includes(r)).length, o: open.filter((f) => f.kinds.includes(r)).length })).filter((x) => x.count > 0),
     );
   });
+
+  it("names the first cases still without a disposition however far down the table they are", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const all = flaggedCases(await storedResult(largeId, "Distribution at scale"));
+    const before = (await distributionRow(largeId))!.data as DistributionData;
+    // Every flagged case but the last few excluded: the open ones are the table's last rows.
+    const left = 7;
+    const changed = all.slice(0, -left).filter((f) => !before.dispositions[f.id]).map((f) => ({ id: f.id, action: "exclude", comment: "" }));
+    expect((await post(largeId, { intent: "rows", revision: body.revision, changed })).status).toBe(200);
+    const dispositions = ((await distributionRow(largeId))!.data as DistributionData).dispositions;
+    const open = all.filter((f) => !dispositions[f.id]);
+    // Some of the last few may have one already (the reason disposed of above): at least one is open.
+    expect(open.length).toBeGreaterThan(0);
+    expect(all.slice(-left).map((f) => f.id)).toEqual(expect.arrayContaining(open.map((f) => f.id)));
+    // Far past the first rows: the table has more flagged cases than one range of its ids holds.
+    expect(all.length).toBeGreaterThan(1000 + left);
+    const after = await pageOf(largeId);
+    if (after.page.state !== "ready") throw new Error("results not stored");
+    expect(after.page.summary).toMatchObject({ flagged: all.length, open: open.length, openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
+  });
 });
