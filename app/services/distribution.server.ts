@@ -1,4 +1,5 @@
 import { and, asc, desc, eq, gte, lt, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { db } from "~/db/client.server";
 import { caseResults, caseSteps, resultFlags } from "~/db/schema";
 import { FLAG_REASON_LABELS, FLAG_REASONS, flagFacts, flagKinds, stallHits, summaryOfFlags, type FlagCounts, type FlagFacts, type FlagReason, type ResultSummary, type StallHit } from "~/domain/results";
@@ -213,14 +214,36 @@ async function flagRows(stored: StoredFlags, offset: number, limit: number, unit
   return rows.map((r) => flagOf(r.facts as unknown as FlagFacts, units));
 }
 
-/** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
-async function storedDistribution(caseId: string): Promise<{ revision: number; dispositions: DistributionData["dispositions"] }> {
-  const [row] = await db.select({ revision: caseSteps.revision, data: caseSteps.data }).from(caseSteps).where(and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution")));
-  const parsed = row?.data ? DistributionSchema.safeParse(row.data) : null;
-  return { revision: row?.revision ?? 0, dispositions: parsed?.success ? parsed.data.dispositions : {} };
+type Dispositions = DistributionData["dispositions"];
+
+/** The distribution step's revision, dispositions and the digest PostgreSQL keeps of its data (null while it has none). */
+interface StoredDistribution {
+  revision: number;
+  digest: string | null;
+  dispositions: Readonly<Dispositions>;
 }
 
-const rowsOf = (flags: CaseFlag[], dispositions: DistributionData["dispositions"]): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
+// The dispositions of a step's data by case and the data's digest (kept by PostgreSQL on every
+// write): a function of exactly those, so never stale. A case whose 21 000 flagged cases all have
+// one is a megabyte of JSON, read and checked once per process and save instead of on every page.
+const dispositionsCache = new LRUCache<string, Readonly<Dispositions>>({ max: 16 });
+
+/** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
+async function storedDistribution(caseId: string): Promise<StoredDistribution> {
+  const ofStep = and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution"));
+  const [head] = await db.select({ revision: caseSteps.revision, digest: caseSteps.dataDigest }).from(caseSteps).where(ofStep);
+  if (!head?.digest) return { revision: head?.revision ?? 0, digest: null, dispositions: {} };
+  const hit = dispositionsCache.get(`${caseId}\n${head.digest}`);
+  if (hit) return { revision: head.revision, digest: head.digest, dispositions: hit };
+  // Read again with the data: a save since the first read gives this row's revision and digest together.
+  const [row] = await db.select({ revision: caseSteps.revision, digest: caseSteps.dataDigest, data: caseSteps.data }).from(caseSteps).where(ofStep);
+  const parsed = row?.data ? DistributionSchema.safeParse(row.data) : null;
+  const dispositions = Object.freeze(parsed?.success ? parsed.data.dispositions : {});
+  if (row?.digest) dispositionsCache.set(`${caseId}\n${row.digest}`, dispositions);
+  return { revision: row?.revision ?? 0, digest: row?.digest ?? null, dispositions };
+}
+
+const rowsOf = (flags: CaseFlag[], dispositions: Readonly<Dispositions>): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
 
 /**
  * The first few flagged cases without a disposition, in order: their ids read by rank a range at a
@@ -228,7 +251,7 @@ const rowsOf = (flags: CaseFlag[], dispositions: DistributionData["dispositions"
  * at hand rather than by an anti-join in PostgreSQL, whose plan for "the first five" walks every
  * disposition for every flagged case (minutes for 100 000 of each).
  */
-async function firstOpenIds(stored: StoredFlags, dispositions: DistributionData["dispositions"], open: number): Promise<string[]> {
+async function firstOpenIds(stored: StoredFlags, dispositions: Readonly<Dispositions>, open: number): Promise<string[]> {
   const found: string[] = [];
   const wanted = Math.min(OPEN_IDS_SHOWN, open);
   for (let from = 0, size = 1000; found.length < wanted && from < stored.counts.all; from += size, size *= 4) {
@@ -242,11 +265,24 @@ async function firstOpenIds(stored: StoredFlags, dispositions: DistributionData[
   return found;
 }
 
+// Summaries by stored result and the step data's digest: a function of exactly those, so never stale.
+const summaryCache = new LRUCache<string, DistributionSummary>({ max: 64 });
+
 /**
  * How many flagged cases, and of them without a disposition, for each reason, and the first few
- * without one: counted by PostgreSQL over the disposed cases' rows, not over every flagged case.
+ * without one: counted by PostgreSQL over the disposed cases' rows, not over every flagged case;
+ * kept for the same result and dispositions.
  */
-async function summaryOf(stored: StoredFlags, dispositions: DistributionData["dispositions"]) {
+async function summaryOf(stored: StoredFlags, distribution: StoredDistribution): Promise<DistributionSummary> {
+  const key = `${stored.resultId}\n${distribution.digest ?? ""}`;
+  const hit = summaryCache.get(key);
+  if (hit) return hit;
+  const summary = await countOpen(stored, distribution.dispositions);
+  summaryCache.set(key, summary);
+  return summary;
+}
+
+async function countOpen(stored: StoredFlags, dispositions: Readonly<Dispositions>) {
   const closedRows = await db.execute<{ kinds: FlagReason[]; n: number }>(sql`
     select f.kinds, count(*)::integer as n from ${resultFlags} f join unnest(${sql.param(Object.keys(dispositions))}::text[]) as d(id) on d.id = f.load_case
     where f.result_id = ${stored.resultId} group by f.kinds`);
@@ -264,7 +300,7 @@ async function summaryOf(stored: StoredFlags, dispositions: DistributionData["di
   };
 }
 
-export type DistributionSummary = Awaited<ReturnType<typeof summaryOf>>;
+export type DistributionSummary = Awaited<ReturnType<typeof countOpen>>;
 
 /**
  * What the distribution page carries: the summary of the flagged cases (by reason, and those still
@@ -285,11 +321,12 @@ export async function distributionPage(input: { caseId: string; title: string; u
       if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
       return { state: "pending" as const, cases: key.caseCount, progress };
     }
-    const { dispositions } = await storedDistribution(input.caseId);
+    const distribution = await storedDistribution(input.caseId);
+    const { dispositions } = distribution;
     const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.file.cases.length : 0;
     const first = await flagRows(stored, 0, FIRST_FLAG_ROWS, input.units);
     const shown = input.requested && known ? input.requested : (first[0]?.id ?? stored.first);
-    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: await summaryOf(stored, dispositions), first: rowsOf(first, dispositions) };
+    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: await summaryOf(stored, distribution), first: rowsOf(first, dispositions) };
   } catch (error) {
     if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
     throw error;
@@ -409,8 +446,7 @@ export async function dispositionBlockers(caseId: string, title: string): Promis
       const progress = await queueResults(caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       return [progress?.phase === "failed" && progress.problem ? progress.problem : STILL_COMPUTING];
     }
-    const { dispositions } = await storedDistribution(caseId);
-    const { open, openIds } = await summaryOf(stored, dispositions);
+    const { open, openIds } = await summaryOf(stored, await storedDistribution(caseId));
     return open ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open} without a disposition (${openIds.join(", ")}${open > openIds.length ? ", …" : ""}).`] : [];
   } catch (error) {
     if (error instanceof DomainError) return [error.message];

@@ -563,6 +563,31 @@ async function waitForResults(context: BrowserContext, caseId: string) {
   }
 }
 
+/** The row of the large case's table measured once every flagged case has a disposition. */
+const DISPOSITIONED = "distribution, every flagged case with a disposition";
+
+/**
+ * The large case's distribution page as at the end of a check: every flagged case justified (one bulk
+ * save for each reason a case is flagged for), measured like the other pages. Not on an app this run
+ * did not start, whose case would keep the dispositions.
+ */
+async function measureDispositioned(browser: Browser, storageState: Awaited<ReturnType<BrowserContext["storageState"]>>, caseId: string): Promise<PageFigures[]> {
+  const context = await browser.newContext({ storageState });
+  const url = `${ORIGIN}/cases/${caseId}/distribution`;
+  try {
+    for (const reason of ["supercritical", "stall", "critical-mach-basis"]) {
+      const { revision } = (await (await context.request.get(`${ORIGIN}/api/cases/${caseId}/flagged-cases?offset=0&limit=1`)).json()) as { revision: number };
+      const res = await context.request.post(url, { data: { intent: "bulk", revision, reason, action: "justify", comment: "Benchmark: every case flagged for this reason justified at once." }, headers: { Origin: ORIGIN }, timeout: 300_000 });
+      await res.body();
+      // 400 where no case is flagged for the reason.
+      if (res.status() !== 200 && res.status() !== 400) throw new Error(`the bulk disposition (${reason}) answered ${res.status()}`);
+    }
+  } finally {
+    await context.close();
+  }
+  return measurePages(browser, storageState, [{ key: DISPOSITIONED, url }], "large");
+}
+
 // ---------------------------------------------------------------------------------------------
 // Report
 
@@ -662,6 +687,12 @@ function writeSection(peerPage: PageFigures | null, demo: PageFigures[], large: 
   visitTable(demo, demoVisits, DEMO_TTI_TARGET_MS, DEMO_TTI_PAGES, peerPage ? { firstMs: peerPage.ttiMs, ...info.peerReturn } : undefined);
   out(`## A case of ${LARGE_CASES.toLocaleString("en")} load cases`);
   out();
+  if (large.some((f) => f.key === DISPOSITIONED)) {
+    out(`The row "${DISPOSITIONED}" is the distribution page again after every other figure, once each reason a case is flagged for`);
+    out("has been justified for all its cases in one save (as at the end of a check): the page then counts the open cases among");
+    out("as many dispositions as there are flagged cases.");
+    out();
+  }
   table(large, (f) => {
     if (!ok(f)) return `**failed** (HTTP ${f.statuses.join(", ")})`;
     const b = f.bytes < LARGE_BYTES_TARGET;
@@ -726,6 +757,7 @@ async function main() {
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
     const demoVisits = ONLY === "large" ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");
     const largeVisits = largeId ? await measureVisits(browser, state, caseTargets(largeId), "large") : [];
+    if (largeId && !RUNNING && (!PAGE_KEYS || PAGE_KEYS.includes("distribution"))) largeFigures.push(...(await measureDispositioned(browser, state, largeId)));
     if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
     else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, demoVisits, largeVisits, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}`, peerReturn });
   } finally {

@@ -253,4 +253,19 @@ describe("the distribution page of a large case file", () => {
     if (after.page.state !== "ready") throw new Error("results not stored");
     expect(after.page.summary).toMatchObject({ flagged: all.length, open: open.length, openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
   });
+
+  it("is as current as the stored step, whoever wrote it: the same revision with other dispositions shows them", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    expect(body.page.summary.open).toBeLessThan(body.page.summary.flagged);
+    const all = flaggedCases(await storedResult(largeId, "Distribution at scale"));
+    // Written past the step service, the revision left as it was: what a process keeps must not answer for it.
+    const kept = { [all[1]!.id]: { action: "exclude", comment: "" } };
+    await db.update(caseSteps).set({ data: { dispositions: kept } }).where(and(eq(caseSteps.caseId, largeId), eq(caseSteps.step, "distribution")));
+    const after = await pageOf(largeId);
+    if (after.page.state !== "ready") throw new Error("results not stored");
+    expect(after.revision).toBe(body.revision);
+    expect(after.page.summary).toMatchObject({ flagged: all.length, open: all.length - 1, openIds: all.filter((f) => !kept[f.id]).slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
+    expect(after.page.first.map((r) => r.disposition)).toEqual(all.slice(0, FIRST_FLAG_ROWS).map((f) => kept[f.id] ?? null));
+  });
 });
