@@ -1,7 +1,7 @@
 import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { caseResults, cases, caseSteps, resultInputs, users } from "~/db/schema";
+import { caseResults, cases, caseSteps, resultFlags, resultInputs, users } from "~/db/schema";
 import type { EnvelopeData } from "~/domain/step-data";
 import { stopBoss } from "~/jobs/boss.server";
 import { buildCaseFile, buildSectionsFile, caseInputs, currentDistributionInput, currentResultsOrQueue, resultsFor } from "~/services/analysis.server";
@@ -96,5 +96,25 @@ describe("stored results of a case", () => {
     }
     // Before: the result row stayed, marked as kept by load case, with none of its cases.
     expect(await stored()).toEqual(before);
+  }, 120_000);
+
+  it("stores a result together with its flagged cases' rows, or not at all", async () => {
+    // Common practice, no source: a stored result without the rows of its flagged cases would show the
+    // distribution page with none to disposition, and let the step be submitted.
+    await saveAltitude(1500);
+    const inputs = caseInputs(await getCaseSteps(caseId));
+    const before = await stored();
+    await db.execute(sql.raw(`create function refuse_result_flags() returns trigger language plpgsql as $$ begin raise exception 'refused by the test'; end $$;
+      create trigger refuse_result_flags before insert on result_flags for each statement execute function refuse_result_flags();`));
+    try {
+      await expect(resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs))).rejects.toThrow(/insert into "result_flags"/);
+    } finally {
+      await db.execute(sql.raw("drop trigger refuse_result_flags on result_flags; drop function refuse_result_flags();"));
+    }
+    expect(await stored()).toEqual(before);
+    // The demo case's envelope has flagged cases: stored now, the result comes with their rows.
+    const ok = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs));
+    const [row] = await db.select({ id: caseResults.id }).from(caseResults).where(and(eq(caseResults.caseId, caseId), eq(caseResults.inputHash, ok.inputHash)));
+    expect((await db.select().from(resultFlags).where(eq(resultFlags.resultId, row!.id))).length).toBeGreaterThan(0);
   }, 120_000);
 });
