@@ -254,8 +254,9 @@ export async function resultsFor(
   const documentBr = Buffer.from(await compressors.br(Buffer.from(JSON.stringify(result))));
   const { cases: _cases, ...head } = parsed;
   const inputHead = { head, sections: sections ?? null };
-  // The row and its rows by load case together or not at all: a row marked as kept by case (input_head)
-  // without them would answer "no such load case" for the cases it holds.
+  // The row, its rows by load case and its flagged cases' rows together or not at all: a row marked as
+  // kept by case (input_head) without them would answer "no such load case" for the cases it holds, and
+  // one without its flagged rows would show no case to disposition.
   const { summary, flagged } = resultFlagIndex(result);
   const row = await database.transaction(async (tx) => {
     const [stored] = await tx

@@ -46,6 +46,17 @@ async function saveAltitude(altitude: number) {
   await saveStep({ caseId, step: "envelope", baseRevision: row!.revision, data: data as unknown as Record<string, unknown>, actor });
 }
 
+/** Runs `work` while PostgreSQL refuses every insert into `table` (a trigger), as a crash or a lost connection mid-write would. */
+async function refusingInserts(table: "result_cases" | "result_flags", work: () => Promise<void>) {
+  await db.execute(sql.raw(`create function refuse_${table}() returns trigger language plpgsql as $$ begin raise exception 'refused by the test'; end $$;
+    create trigger refuse_${table} before insert on ${table} for each statement execute function refuse_${table}();`));
+  try {
+    await work();
+  } finally {
+    await db.execute(sql.raw(`drop trigger refuse_${table} on ${table}; drop function refuse_${table}();`));
+  }
+}
+
 /** What the loads page (final scope) and the distribution page (every case of the envelope) have solved and stored. */
 async function solveBoth(): Promise<{ final: string; envelope: string }> {
   const final = await currentResultsOrQueue(caseId, title, null);
@@ -87,13 +98,7 @@ describe("stored results of a case", () => {
     await saveAltitude(4567);
     const inputs = caseInputs(await getCaseSteps(caseId));
     const before = await stored();
-    await db.execute(sql.raw(`create function refuse_result_cases() returns trigger language plpgsql as $$ begin raise exception 'refused by the test'; end $$;
-      create trigger refuse_result_cases before insert on result_cases for each statement execute function refuse_result_cases();`));
-    try {
-      await expect(resultsFor(caseId, buildCaseFile(title, inputs), null, buildSectionsFile(inputs))).rejects.toThrow();
-    } finally {
-      await db.execute(sql.raw("drop trigger refuse_result_cases on result_cases; drop function refuse_result_cases();"));
-    }
+    await refusingInserts("result_cases", () => expect(resultsFor(caseId, buildCaseFile(title, inputs), null, buildSectionsFile(inputs))).rejects.toThrow());
     // Before: the result row stayed, marked as kept by load case, with none of its cases.
     expect(await stored()).toEqual(before);
   }, 120_000);
@@ -104,13 +109,7 @@ describe("stored results of a case", () => {
     await saveAltitude(1500);
     const inputs = caseInputs(await getCaseSteps(caseId));
     const before = await stored();
-    await db.execute(sql.raw(`create function refuse_result_flags() returns trigger language plpgsql as $$ begin raise exception 'refused by the test'; end $$;
-      create trigger refuse_result_flags before insert on result_flags for each statement execute function refuse_result_flags();`));
-    try {
-      await expect(resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs))).rejects.toThrow(/insert into "result_flags"/);
-    } finally {
-      await db.execute(sql.raw("drop trigger refuse_result_flags on result_flags; drop function refuse_result_flags();"));
-    }
+    await refusingInserts("result_flags", () => expect(resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs))).rejects.toThrow(/insert into "result_flags"/));
     expect(await stored()).toEqual(before);
     // The demo case's envelope has flagged cases: stored now, the result comes with their rows.
     const ok = await resultsFor(caseId, buildCaseFile(title, inputs, "envelope"), null, buildSectionsFile(inputs));
