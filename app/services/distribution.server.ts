@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, gte, lt, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
-import { db } from "~/db/client.server";
+import { db, type Tx } from "~/db/client.server";
 import { caseResults, caseSteps, resultFlags } from "~/db/schema";
 import { FLAG_REASON_LABELS, FLAG_REASONS, flagFacts, flagKinds, stallHits, summaryOfFlags, type FlagCounts, type FlagFacts, type FlagReason, type ResultSummary, type StallHit } from "~/domain/results";
 import { DistributionSchema, type DistributionData } from "~/domain/step-data";
@@ -215,54 +215,83 @@ async function flagRows(stored: StoredFlags, offset: number, limit: number, unit
 }
 
 type Dispositions = DistributionData["dispositions"];
+const DispositionSchema = DistributionSchema.shape.dispositions.valueType;
 
-/** The distribution step's revision, dispositions and the digest PostgreSQL keeps of its data (null while it has none). */
-interface StoredDistribution {
+/** The distribution step's revision and the digest PostgreSQL keeps of its data (null while it has none). */
+interface DistributionHead {
   revision: number;
   digest: string | null;
-  dispositions: Readonly<Dispositions>;
 }
 
-// The dispositions of a step's data by case and the data's digest (kept by PostgreSQL on every
-// write): a function of exactly those, so never stale. A case whose 21 000 flagged cases all have
-// one is a megabyte of JSON, read and checked once per process and save instead of on every page.
-const dispositionsCache = new LRUCache<string, Readonly<Dispositions>>({ max: 16 });
+async function distributionHead(tx: Tx, caseId: string): Promise<DistributionHead> {
+  const [row] = await tx.select({ revision: caseSteps.revision, digest: caseSteps.dataDigest }).from(caseSteps).where(ofDistributionStep(caseId));
+  return { revision: row?.revision ?? 0, digest: row?.digest ?? null };
+}
 
-/** The distribution step's stored dispositions and revision (the step alone, not the case's other steps). */
-async function storedDistribution(caseId: string): Promise<StoredDistribution> {
-  const ofStep = and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution"));
-  const [head] = await db.select({ revision: caseSteps.revision, digest: caseSteps.dataDigest }).from(caseSteps).where(ofStep);
-  if (!head?.digest) return { revision: head?.revision ?? 0, digest: null, dispositions: {} };
-  const hit = dispositionsCache.get(`${caseId}\n${head.digest}`);
-  if (hit) return { revision: head.revision, digest: head.digest, dispositions: hit };
-  // Read again with the data: a save since the first read gives this row's revision and digest together.
-  const [row] = await db.select({ revision: caseSteps.revision, digest: caseSteps.dataDigest, data: caseSteps.data }).from(caseSteps).where(ofStep);
+const ofDistributionStep = (caseId: string) => and(eq(caseSteps.caseId, caseId), eq(caseSteps.step, "distribution"));
+
+// The step's dispositions stay in PostgreSQL: a statement makes `data -> 'dispositions'` once (an
+// empty object while the step has none) and looks each case up in it by key. Written inline in the
+// condition, PostgreSQL reads and decompresses the whole document again for every flagged case (30 s
+// for 21 000); read into the app, a case whose 21 000 flagged cases all have one is two megabytes of
+// JSON to fetch, parse and check (some 350 ms) at every first look after a save.
+const stepDispositions = (caseId: string) =>
+  sql`select coalesce((select ${caseSteps.data} -> 'dispositions' from ${caseSteps} where ${ofDistributionStep(caseId)}), '{}'::jsonb) as d`;
+
+/** The stored dispositions of these cases (those without one are left out). */
+async function dispositionsOf(tx: Tx, caseId: string, ids: string[]): Promise<Record<string, Disposition>> {
+  if (!ids.length) return {};
+  const found = await tx.execute<{ id: string; disposition: unknown }>(sql`
+    with s as materialized (${stepDispositions(caseId)})
+    select i as id, s.d -> i as disposition from s, unnest(${sql.param(ids)}::text[]) as i where s.d ? i`);
+  return Object.fromEntries(
+    found.rows.map((r) => {
+      const parsed = DispositionSchema.safeParse(r.disposition);
+      if (!parsed.success) throw damagedDispositions(r.id);
+      return [r.id, parsed.data];
+    }),
+  );
+}
+
+// The dispositions of the rows a page or range shows, by case, the step data's digest and the rows:
+// a function of exactly those, so never stale. A look that finds them here reads only the digest.
+const rowDispositionsCache = new LRUCache<string, Readonly<Record<string, Disposition>>>({ max: 256 });
+
+/** The stored dispositions of these rows; `head` must come from the same snapshot as `tx`. */
+async function rowDispositions(tx: Tx, caseId: string, head: DistributionHead, ids: string[]): Promise<Readonly<Record<string, Disposition>>> {
+  if (!head.digest) return {};
+  const key = `${caseId}\n${head.digest}\n${ids.join("\n")}`;
+  const hit = rowDispositionsCache.get(key);
+  if (hit) return hit;
+  const found = Object.freeze(await dispositionsOf(tx, caseId, ids));
+  rowDispositionsCache.set(key, found);
+  return found;
+}
+
+// Every write is checked against the step's schema (saveStep, the import): a stored disposition that
+// does not match it was written outside the app. Said as such, never shown or merged into as none.
+const damagedDispositions = (id?: string) =>
+  new DomainError(
+    `The stored dispositions of this case${id ? ` (that of ${id} among them)` : ""} do not match the step's rules: they were changed outside Spanwright. Nothing is shown or saved over them; an administrator must restore the step from its saved revisions.`,
+    { field: "dispositions", kind: "conflict" },
+  );
+
+/** The stored dispositions and revision, whole: what a change is merged into (a damaged row is said, not merged into as none). */
+async function storedDispositions(caseId: string): Promise<{ revision: number; dispositions: Dispositions }> {
+  const [row] = await db.select({ revision: caseSteps.revision, data: caseSteps.data }).from(caseSteps).where(ofDistributionStep(caseId));
   const parsed = row?.data ? DistributionSchema.safeParse(row.data) : null;
-  const dispositions = Object.freeze(parsed?.success ? parsed.data.dispositions : {});
-  if (row?.digest) dispositionsCache.set(`${caseId}\n${row.digest}`, dispositions);
-  return { revision: row?.revision ?? 0, digest: row?.digest ?? null, dispositions };
+  if (parsed && !parsed.success) throw damagedDispositions();
+  return { revision: row?.revision ?? 0, dispositions: parsed?.data.dispositions ?? {} };
 }
 
-const rowsOf = (flags: CaseFlag[], dispositions: Readonly<Dispositions>): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
+const rowsOf = (flags: CaseFlag[], dispositions: Readonly<Record<string, Disposition>>): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
 
 /**
- * The first few flagged cases without a disposition, in order: their ids read by rank a range at a
- * time, each range four times the last, until enough are found. Checked here against the dispositions
- * at hand rather than by an anti-join in PostgreSQL, whose plan for "the first five" walks every
- * disposition for every flagged case (minutes for 100 000 of each).
+ * Flagged-case rows with their dispositions, and the distribution head they belong to, read in one
+ * snapshot: a save between the reads cannot pair one revision's dispositions with another's.
  */
-async function firstOpenIds(stored: StoredFlags, dispositions: Readonly<Dispositions>, open: number): Promise<string[]> {
-  const found: string[] = [];
-  const wanted = Math.min(OPEN_IDS_SHOWN, open);
-  for (let from = 0, size = 1000; found.length < wanted && from < stored.counts.all; from += size, size *= 4) {
-    const ids = await db
-      .select({ id: resultFlags.loadCase })
-      .from(resultFlags)
-      .where(and(eq(resultFlags.resultId, stored.resultId), gte(resultFlags.rank, from), lt(resultFlags.rank, from + size)))
-      .orderBy(asc(resultFlags.rank));
-    for (const { id } of ids) if (!dispositions[id] && found.length < wanted) found.push(id);
-  }
-  return found;
+function inOneSnapshot<T>(work: (tx: Tx) => Promise<T>): Promise<T> {
+  return db.transaction(work, { isolationLevel: "repeatable read", accessMode: "read only" });
 }
 
 // Summaries by stored result and the step data's digest: a function of exactly those, so never stale.
@@ -270,24 +299,32 @@ const summaryCache = new LRUCache<string, DistributionSummary>({ max: 64 });
 
 /**
  * How many flagged cases, and of them without a disposition, for each reason, and the first few
- * without one: counted by PostgreSQL over the disposed cases' rows, not over every flagged case;
- * kept for the same result and dispositions.
+ * without one, in rank order: counted by PostgreSQL; kept for the same result and dispositions.
+ * `head` must come from the same snapshot as `tx`.
  */
-async function summaryOf(stored: StoredFlags, distribution: StoredDistribution): Promise<DistributionSummary> {
-  const key = `${stored.resultId}\n${distribution.digest ?? ""}`;
+async function summaryOf(tx: Tx, stored: StoredFlags, caseId: string, head: DistributionHead): Promise<DistributionSummary> {
+  const key = `${stored.resultId}\n${head.digest ?? ""}`;
   const hit = summaryCache.get(key);
   if (hit) return hit;
-  const summary = await countOpen(stored, distribution.dispositions);
+  const summary = await countOpen(tx, stored, caseId);
   summaryCache.set(key, summary);
   return summary;
 }
 
-async function countOpen(stored: StoredFlags, dispositions: Readonly<Dispositions>) {
-  const closedRows = await db.execute<{ kinds: FlagReason[]; n: number }>(sql`
-    select f.kinds, count(*)::integer as n from ${resultFlags} f join unnest(${sql.param(Object.keys(dispositions))}::text[]) as d(id) on d.id = f.load_case
-    where f.result_id = ${stored.resultId} group by f.kinds`);
+async function countOpen(tx: Tx, stored: StoredFlags, caseId: string) {
+  // One statement, so that PostgreSQL takes the dispositions out of the step's data once for both.
+  const [found] = (
+    await tx.execute<{ closed: { kinds: FlagReason[]; n: number }[]; open_ids: string[] }>(sql`
+    with s as materialized (${stepDispositions(caseId)})
+    select
+      (select coalesce(json_agg(json_build_object('kinds', c.kinds, 'n', c.n)), '[]') from (
+        select f.kinds, count(*)::integer as n from ${resultFlags} f where f.result_id = ${stored.resultId} and s.d ? f.load_case group by f.kinds) c) as closed,
+      (select coalesce(json_agg(o.id order by o.rank), '[]') from (
+        select f.load_case as id, f.rank from ${resultFlags} f where f.result_id = ${stored.resultId} and not s.d ? f.load_case order by f.rank limit ${OPEN_IDS_SHOWN}) o) as open_ids
+    from s`)
+  ).rows;
   const closed: FlagCounts = { all: 0, supercritical: 0, stall: 0, "critical-mach-basis": 0 };
-  for (const r of closedRows.rows) {
+  for (const r of found!.closed) {
     closed.all += r.n;
     for (const k of r.kinds) closed[k] += r.n;
   }
@@ -295,7 +332,7 @@ async function countOpen(stored: StoredFlags, dispositions: Readonly<Disposition
   return {
     flagged: counts.all,
     open: counts.all - closed.all,
-    openIds: await firstOpenIds(stored, dispositions, counts.all - closed.all),
+    openIds: found!.open_ids,
     byReason: FLAG_REASONS.map((reason) => ({ reason, label: FLAG_REASON_LABELS[reason], count: counts[reason], open: counts[reason] - closed[reason] })).filter((r) => r.count > 0),
   };
 }
@@ -321,12 +358,14 @@ export async function distributionPage(input: { caseId: string; title: string; u
       if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
       return { state: "pending" as const, cases: key.caseCount, progress };
     }
-    const distribution = await storedDistribution(input.caseId);
-    const { dispositions } = distribution;
     const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.file.cases.length : 0;
     const first = await flagRows(stored, 0, FIRST_FLAG_ROWS, input.units);
     const shown = input.requested && known ? input.requested : (first[0]?.id ?? stored.first);
-    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary: await summaryOf(stored, distribution), first: rowsOf(first, dispositions) };
+    const { summary, rows } = await inOneSnapshot(async (tx) => {
+      const head = await distributionHead(tx, input.caseId);
+      return { summary: await summaryOf(tx, stored, input.caseId, head), rows: rowsOf(first, await rowDispositions(tx, input.caseId, head, first.map((f) => f.id))) };
+    });
+    return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary, first: rows };
   } catch (error) {
     if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
     throw error;
@@ -349,8 +388,11 @@ export async function flagWindow(input: { caseId: string; title: string; units: 
   if (!Number.isInteger(input.offset) || input.offset < 0) throw new DomainError("offset must be a whole number ≥ 0", { field: "offset" });
   if (!Number.isInteger(input.limit) || input.limit < 1 || input.limit > MAX_FLAG_ROWS) throw new DomainError(`limit must be a whole number from 1 to ${MAX_FLAG_ROWS}`, { field: "limit" });
   const stored = await currentFlags(input.caseId, input.title);
-  const { revision, dispositions } = await storedDistribution(input.caseId);
-  return { revision, total: stored.counts.all, offset: input.offset, rows: rowsOf(await flagRows(stored, input.offset, input.limit, input.units), dispositions) };
+  const flags = await flagRows(stored, input.offset, input.limit, input.units);
+  return inOneSnapshot(async (tx) => {
+    const head = await distributionHead(tx, input.caseId);
+    return { revision: head.revision, total: stored.counts.all, offset: input.offset, rows: rowsOf(flags, await rowDispositions(tx, input.caseId, head, flags.map((f) => f.id))) };
+  });
 }
 
 export type FlagWindow = Awaited<ReturnType<typeof flagWindow>>;
@@ -392,7 +434,7 @@ export type DispositionChange =
  * The change must be made on the stored revision; saveStep checks it again as it writes.
  */
 export async function mergedDispositions(input: { caseId: string; title: string; units: UnitSystem; baseRevision: number; change: DispositionChange }): Promise<{ ok: true; data: DistributionData } | { ok: false; fieldErrors: FieldErrors }> {
-  const current = await storedDistribution(input.caseId);
+  const current = await storedDispositions(input.caseId);
   if (current.revision !== input.baseRevision)
     throw new DomainError(`Not saved: the dispositions were saved again (revision ${current.revision}) after you opened revision ${input.baseRevision}. Reload to see them; your changes were not written.`, { field: "revision", kind: "conflict" });
   const next = { ...current.dispositions };
@@ -446,7 +488,8 @@ export async function dispositionBlockers(caseId: string, title: string): Promis
       const progress = await queueResults(caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       return [progress?.phase === "failed" && progress.problem ? progress.problem : STILL_COMPUTING];
     }
-    const { open, openIds } = await summaryOf(stored, await storedDistribution(caseId));
+    const found = stored;
+    const { open, openIds } = await inOneSnapshot(async (tx) => summaryOf(tx, found, caseId, await distributionHead(tx, caseId)));
     return open ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open} without a disposition (${openIds.join(", ")}${open > openIds.length ? ", …" : ""}).`] : [];
   } catch (error) {
     if (error instanceof DomainError) return [error.message];

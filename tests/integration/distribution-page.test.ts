@@ -1,5 +1,5 @@
 import fs from "node:fs";
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { auditLog, caseSteps, cases, programmes, stepRevisions, users } from "~/db/schema";
@@ -16,7 +16,7 @@ import { action as pageAction, loader as pageLoader } from "~/routes/cases/distr
 import { computeQueuedResults, currentDistributionInput, resultsFor } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
 import { FIRST_FLAG_ROWS, flaggedCases, MAX_FLAG_ROWS, MAX_SUGGESTIONS, OPEN_IDS_SHOWN, type FlagRow, type FlagWindow } from "~/services/distribution.server";
-import { cookieFor, demoUser, request, routeArgs, run, seed } from "./helpers";
+import { cookieFor, demoUser, request, routeArgs, rowFieldsOf, run, seed } from "./helpers";
 
 // Every spanwise solve goes through the engine's solveMach, and every check of a case file through
 // the exchange's parseCase: counted here, so the test sees what the page's loader and its resource
@@ -57,7 +57,7 @@ afterAll(async () => {
   await stopBoss();
 });
 
-type Page = { revision: number; page: { state: "ready"; shown: string; cases: number; method: unknown; summary: { flagged: number; open: number; openIds: string[]; byReason: { reason: string; count: number; open: number }[] }; first: FlagRow[] } | { state: "pending"; cases: number; progress: unknown } };
+type Page = { revision: number; page: { state: "problem"; problem: string } | { state: "ready"; shown: string; cases: number; method: unknown; summary: { flagged: number; open: number; openIds: string[]; byReason: { reason: string; count: number; open: number }[] }; first: FlagRow[] } | { state: "pending"; cases: number; progress: unknown } };
 const pageOf = async (caseId: string, query = "") => (await run(pageLoader, { request: request(`/cases/${caseId}/distribution${query}`, { cookie }), params: { caseId } })).body as Page;
 const get = async (loader: (args: never) => unknown, path: string, caseId: string) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
 const post = (caseId: string, body: unknown) => run(pageAction, { request: request(`/cases/${caseId}/distribution`, { method: "POST", cookie, headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) }), params: { caseId } });
@@ -254,6 +254,37 @@ describe("the distribution page of a large case file", () => {
     expect(after.page.summary).toMatchObject({ flagged: all.length, open: open.length, openIds: open.slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
   });
 
+  it("reads the dispositions of the rows it shows, not the step's whole document, on its first look after a save", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const all = flaggedCases(await storedResult(largeId, "Distribution at scale"));
+    // One more disposition, saved by another process (written here past the step service): this process
+    // has kept nothing of the new data, as the other web processes have not after a save.
+    const before = ((await distributionRow(largeId))!.data as DistributionData).dispositions;
+    const next = all.find((f) => !before[f.id])!;
+    await db
+      .update(caseSteps)
+      .set({ data: sql`jsonb_set(${caseSteps.data}, array['dispositions', ${next.id}], '{"action": "exclude", "comment": ""}'::jsonb)` })
+      .where(and(eq(caseSteps.caseId, largeId), eq(caseSteps.step, "distribution")));
+    const stored = JSON.stringify((await distributionRow(largeId))!.data);
+    const dispositions = ((await distributionRow(largeId))!.data as DistributionData).dispositions;
+    expect(Object.keys(dispositions).length).toBeGreaterThan(1000);
+    let page: Page | undefined;
+    let window: FlagWindow | undefined;
+    const fields = await rowFieldsOf(async () => {
+      page = await pageOf(largeId);
+      window = (await (await get(flagsLoader, `/api/cases/${largeId}/flagged-cases?offset=${FIRST_FLAG_ROWS}&limit=100`, largeId)).json()) as FlagWindow;
+    });
+    // Before: the step's data, every disposition of it, was fetched and parsed at the first read after each save.
+    expect(fields.filter((f) => f.includes('"dispositions"'))).toEqual([]);
+    // All that the two reads receive, the shown rows and their dispositions among it, is less than that document alone.
+    expect(fields.reduce((n, f) => n + f.length, 0)).toBeLessThan(stored.length);
+    if (page?.page.state !== "ready") throw new Error("results not stored");
+    expect(page.page.first.map((r) => r.disposition)).toEqual(all.slice(0, FIRST_FLAG_ROWS).map((f) => dispositions[f.id] ?? null));
+    expect(window!.rows.map((r) => r.disposition)).toEqual(all.slice(FIRST_FLAG_ROWS, FIRST_FLAG_ROWS + 100).map((f) => dispositions[f.id] ?? null));
+    expect(page.page.summary).toMatchObject({ flagged: all.length, open: all.filter((f) => !dispositions[f.id]).length });
+  });
+
   it("is as current as the stored step, whoever wrote it: the same revision with other dispositions shows them", async () => {
     const body = await pageOf(largeId);
     if (body.page.state !== "ready") throw new Error("results not stored");
@@ -267,5 +298,27 @@ describe("the distribution page of a large case file", () => {
     expect(after.revision).toBe(body.revision);
     expect(after.page.summary).toMatchObject({ flagged: all.length, open: all.length - 1, openIds: all.filter((f) => !kept[f.id]).slice(0, OPEN_IDS_SHOWN).map((f) => f.id) });
     expect(after.page.first.map((r) => r.disposition)).toEqual(all.slice(0, FIRST_FLAG_ROWS).map((f) => kept[f.id] ?? null));
+  });
+
+  it("says a stored disposition the step's rules refuse (written outside the app) is damaged, rather than showing it or saving over the step as if it had none", async () => {
+    const body = await pageOf(largeId);
+    if (body.page.state !== "ready") throw new Error("results not stored");
+    const first = body.page.first[0]!.id;
+    const ofStep = and(eq(caseSteps.caseId, largeId), eq(caseSteps.step, "distribution"));
+    const [kept] = await db.select({ data: caseSteps.data }).from(caseSteps).where(ofStep);
+    await db.update(caseSteps).set({ data: sql`jsonb_set(${caseSteps.data}, array['dispositions', ${first}], '{"action": "maybe"}'::jsonb)` }).where(ofStep);
+    const [damaged] = await db.select({ data: caseSteps.data }).from(caseSteps).where(ofStep);
+    const revisions = await revisionCount(largeId);
+    // Before: the whole step read as no dispositions at all, and a save merged into that, dropping the others.
+    const said = /^The stored dispositions of this case .*do not match the step's rules: they were changed outside Spanwright\. Nothing is shown or saved over them/;
+    const page = await pageOf(largeId);
+    expect(page.page).toMatchObject({ state: "problem", problem: expect.stringMatching(said) });
+    expect(page.page).toMatchObject({ problem: expect.stringContaining(`that of ${first}`) });
+    const saved = await post(largeId, { intent: "rows", revision: body.revision, changed: [{ id: body.page.first[1]!.id, action: "exclude", comment: "" }] });
+    expect(saved.status).toBe(409);
+    expect(JSON.stringify(saved.body)).toMatch(/do not match the step's rules/);
+    expect((await distributionRow(largeId))!.data).toEqual(damaged!.data);
+    expect(await revisionCount(largeId)).toBe(revisions);
+    await db.update(caseSteps).set({ data: kept!.data }).where(ofStep);
   });
 });
