@@ -6,7 +6,7 @@
 // The peer page of the load benchmark (tests/bench/peer: the same framework, a table and a 20-row
 // history) is loaded the same way, on the app's database, as the floor of this machine and browser.
 // `npm run bench` runs it after the others; alone: `npx tsx tests/bench/browser.ts [--rounds 3]`;
-// `--only demo` (or `large`) and `--pages envelope,review` measure a part and only print it.
+// `--only demo` (or `large`), `--pages envelope,review` and `--first-only` (no return visits) measure a part and only print it.
 // BROWSER_BENCH_PORT_BASE moves its ports (default 3400) so that it can run beside other checkouts;
 // BROWSER_BENCH_ORIGIN measures an app already running there instead (its large case imported once;
 // the peer page only where BROWSER_BENCH_DATABASE_URL names that app's database).
@@ -26,8 +26,10 @@ const arg = (name: string) => {
 const ROUNDS = Number(arg("--rounds") ?? 3);
 const ONLY = arg("--only") as "demo" | "large" | undefined;
 const PAGE_KEYS = arg("--pages")?.split(",");
+/** First visits only: no return visits, reloads or steps opened from the rail (two builds compared quickly). */
+const FIRST_ONLY = process.argv.includes("--first-only");
 /** A part of the benchmark is printed, not written into docs/benchmarks.md. */
-const PARTIAL = ONLY !== undefined || PAGE_KEYS !== undefined;
+const PARTIAL = ONLY !== undefined || PAGE_KEYS !== undefined || FIRST_ONLY;
 const BASE = Number(process.env.BROWSER_BENCH_PORT_BASE ?? 3400);
 const RUNNING = process.env.BROWSER_BENCH_ORIGIN;
 const ORIGIN = RUNNING ?? `http://127.0.0.1:${BASE}`;
@@ -752,11 +754,11 @@ async function main() {
     const peerTarget: Target = { key: "peer page", url: `${peerOrigin}/cases/${demo.id}`, ready: "react" };
     const peerFigures = peerOrigin ? await measurePages(browser, state, [peerTarget], "floor") : [];
     // The floor of a return visit and a reload too (the peer has no rail).
-    const peerReturn = peerOrigin ? await measurePeerVisits(browser, state, peerTarget) : { returnMs: NaN, againMs: NaN };
+    const peerReturn = peerOrigin && !FIRST_ONLY ? await measurePeerVisits(browser, state, peerTarget) : { returnMs: NaN, againMs: NaN };
     const demoFigures = ONLY === "large" ? [] : await measurePages(browser, state, caseTargets(demo.id), "demo");
     const largeFigures = largeId ? await measurePages(browser, state, caseTargets(largeId), "large") : [];
-    const demoVisits = ONLY === "large" ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");
-    const largeVisits = largeId ? await measureVisits(browser, state, caseTargets(largeId), "large") : [];
+    const demoVisits = ONLY === "large" || FIRST_ONLY ? [] : await measureVisits(browser, state, caseTargets(demo.id), "demo");
+    const largeVisits = largeId && !FIRST_ONLY ? await measureVisits(browser, state, caseTargets(largeId), "large") : [];
     if (largeId && !RUNNING && (!PAGE_KEYS || PAGE_KEYS.includes("distribution"))) largeFigures.push(...(await measureDispositioned(browser, state, largeId)));
     if (PARTIAL) say(`a part of the benchmark (--only, --pages): docs/benchmarks.md is left as it is (load ${loadStart} at the start, ${loadAverage()} at the end)`);
     else writeSection(peerFigures[0] ?? null, demoFigures, largeFigures, demoVisits, largeVisits, { demoCases, startupS, importS, resultsS, loadStart, loadEnd: loadAverage(), chromium: `Chromium ${browser.version()}`, peerReturn });
