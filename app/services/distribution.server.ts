@@ -287,8 +287,8 @@ async function storedDispositions(caseId: string): Promise<{ revision: number; d
 const rowsOf = (flags: CaseFlag[], dispositions: Readonly<Record<string, Disposition>>): FlagRow[] => flags.map((f) => ({ ...f, disposition: dispositions[f.id] ?? null }));
 
 /**
- * Flagged-case rows with their dispositions, and the distribution head they belong to, read in one
- * snapshot: a save between the reads cannot pair one revision's dispositions with another's.
+ * The step's revision and digest, the summary of open cases and the rows' dispositions, read in one
+ * snapshot: a save between the reads cannot pair one revision's dispositions with another's counts.
  */
 function inOneSnapshot<T>(work: (tx: Tx) => Promise<T>): Promise<T> {
   return db.transaction(work, { isolationLevel: "repeatable read", accessMode: "read only" });
@@ -488,8 +488,8 @@ export async function dispositionBlockers(caseId: string, title: string): Promis
       const progress = await queueResults(caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
       return [progress?.phase === "failed" && progress.problem ? progress.problem : STILL_COMPUTING];
     }
-    const found = stored;
-    const { open, openIds } = await inOneSnapshot(async (tx) => summaryOf(tx, found, caseId, await distributionHead(tx, caseId)));
+    const flags: StoredFlags = stored;
+    const { open, openIds } = await inOneSnapshot(async (tx) => summaryOf(tx, flags, caseId, await distributionHead(tx, caseId)));
     return open ? [`Disposition every flagged case first (exclude, or justify with a comment): ${open} without a disposition (${openIds.join(", ")}${open > openIds.length ? ", …" : ""}).`] : [];
   } catch (error) {
     if (error instanceof DomainError) return [error.message];
