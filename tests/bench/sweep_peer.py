@@ -19,6 +19,8 @@ R_AIR = 287.05287
 GAMMA = 1.4
 TERMS = 60  # odd Fourier terms of the lifting line
 GRID = 400  # integration nodes over the semispan (full cosine)
+# The trapezoidal rule: numpy 2 names it trapezoid and has dropped trapz; numpy 1 before 1.25 has trapz alone.
+trapezoid = getattr(np, "trapezoid", None) or np.trapz
 
 
 def isa_pressure(h):
@@ -55,7 +57,7 @@ def main():
     col = lambda k: np.array([s.get(k, np.nan) for s in st], dtype=float)
     chord_s, xle_s, twist_s, a0_s, al0_s, cm_s, cpmin_s = (col(k) for k in ("chord", "xLe", "twist", "a0", "alphaL0", "cmAc", "cpMin"))
     semi = ys[-1]
-    area = 2.0 * np.trapz(chord_s, ys)
+    area = 2.0 * trapezoid(chord_s, ys)
     span = 2.0 * semi
     axis = wing.get("axis", {})
     fr, ft = axis.get("rootChordFraction", 0.25), axis.get("tipChordFraction", 0.25)
@@ -110,7 +112,7 @@ def main():
                      w @ basic, wy @ basic, (w * lever) @ basic + w @ moment,
                      w @ additional, wy @ additional, (w * lever) @ additional))
     # Structural mass spread with chord, on the reference axis: per unit nz.
-    mass_line = mass_kg * chord / np.trapz(chord, y) * G0
+    mass_line = mass_kg * chord / trapezoid(chord, y) * G0
     mass_v, mass_m = w @ mass_line, wy @ mass_line
     mass_t = (w * (xr[:, None] - x_axis(y)[None, :])) @ mass_line
 
