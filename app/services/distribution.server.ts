@@ -340,6 +340,18 @@ async function countOpen(tx: Tx, stored: StoredFlags, caseId: string) {
 export type DistributionSummary = Awaited<ReturnType<typeof countOpen>>;
 
 /**
+ * Why the page has nothing to show, for its heading: a step not saved yet or every case excluded
+ * (the engineer's next step), saved inputs the engine refuses, or stored dispositions that were
+ * changed outside Spanwright (an administrator's matter).
+ */
+export type ProblemCause = "incomplete" | "refused" | "damaged";
+
+function problemCause(error: DomainError): ProblemCause {
+  if (error.field === "dispositions") return "damaged";
+  return error.kind === "conflict" ? "incomplete" : "refused";
+}
+
+/**
  * What the distribution page carries: the summary of the flagged cases (by reason, and those still
  * without a disposition), the first rows of their table, the method and the case to show first (the
  * one asked for, else the first flagged, else the first) — all from the stored result, without any
@@ -355,7 +367,7 @@ export async function distributionPage(input: { caseId: string; title: string; u
     const stored = await storedFlags(input.caseId, key.inputHash);
     if (!stored) {
       const progress = await queueResults(input.caseId, { inputHash: key.inputHash, caseCount: key.caseCount }, "envelope");
-      if (progress?.phase === "failed") return { state: "problem" as const, problem: progress.problem ?? "The engine refused this case file." };
+      if (progress?.phase === "failed") return { state: "problem" as const, cause: "refused" as ProblemCause, problem: progress.problem ?? "The engine refused this case file." };
       return { state: "pending" as const, cases: key.caseCount, progress };
     }
     const known = input.requested ? (await storedInputWith(input.caseId, key.inputHash, [input.requested]))?.file.cases.length : 0;
@@ -367,7 +379,7 @@ export async function distributionPage(input: { caseId: string; title: string; u
     });
     return { state: "ready" as const, cases: key.caseCount, method: stored.method, shown, summary, first: rows };
   } catch (error) {
-    if (error instanceof DomainError) return { state: "problem" as const, problem: error.message };
+    if (error instanceof DomainError) return { state: "problem" as const, cause: problemCause(error), problem: error.message };
     throw error;
   }
 }

@@ -15,6 +15,7 @@ import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
 import { action as pageAction, loader as pageLoader } from "~/routes/cases/distribution";
 import { computeQueuedResults, currentDistributionInput, resultsFor } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
+import { createCase } from "~/services/programmes.server";
 import { FIRST_FLAG_ROWS, flaggedCases, MAX_FLAG_ROWS, MAX_SUGGESTIONS, OPEN_IDS_SHOWN, type FlagRow, type FlagWindow } from "~/services/distribution.server";
 import { cookieFor, demoUser, request, routeArgs, rowFieldsOf, run, seed } from "./helpers";
 
@@ -57,7 +58,7 @@ afterAll(async () => {
   await stopBoss();
 });
 
-type Page = { revision: number; page: { state: "problem"; problem: string } | { state: "ready"; shown: string; cases: number; method: unknown; summary: { flagged: number; open: number; openIds: string[]; byReason: { reason: string; count: number; open: number }[] }; first: FlagRow[] } | { state: "pending"; cases: number; progress: unknown } };
+type Page = { revision: number; page: { state: "problem"; cause: string; problem: string } | { state: "ready"; shown: string; cases: number; method: unknown; summary: { flagged: number; open: number; openIds: string[]; byReason: { reason: string; count: number; open: number }[] }; first: FlagRow[] } | { state: "pending"; cases: number; progress: unknown } };
 const pageOf = async (caseId: string, query = "") => (await run(pageLoader, { request: request(`/cases/${caseId}/distribution${query}`, { cookie }), params: { caseId } })).body as Page;
 const get = async (loader: (args: never) => unknown, path: string, caseId: string) => (await loader((await routeArgs(request(path, { cookie }), { caseId })) as never)) as Response;
 const post = (caseId: string, body: unknown) => run(pageAction, { request: request(`/cases/${caseId}/distribution`, { method: "POST", cookie, headers: { "Content-Type": "application/json" }, body: JSON.stringify(body) }), params: { caseId } });
@@ -312,7 +313,8 @@ describe("the distribution page of a large case file", () => {
     // Before: the whole step read as no dispositions at all, and a save merged into that, dropping the others.
     const said = /^The stored dispositions of this case .*do not match the step's rules: they were changed outside Spanwright\. Nothing is shown or saved over them/;
     const page = await pageOf(largeId);
-    expect(page.page).toMatchObject({ state: "problem", problem: expect.stringMatching(said) });
+    // Said as damaged, so the panel's heading is the administrator's matter, not "nothing to show yet".
+    expect(page.page).toMatchObject({ state: "problem", cause: "damaged", problem: expect.stringMatching(said) });
     expect(page.page).toMatchObject({ problem: expect.stringContaining(`that of ${first}`) });
     const saved = await post(largeId, { intent: "rows", revision: body.revision, changed: [{ id: body.page.first[1]!.id, action: "exclude", comment: "" }] });
     expect(saved.status).toBe(409);
@@ -320,5 +322,13 @@ describe("the distribution page of a large case file", () => {
     expect((await distributionRow(largeId))!.data).toEqual(damaged!.data);
     expect(await revisionCount(largeId)).toBe(revisions);
     await db.update(caseSteps).set({ data: kept!.data }).where(ofStep);
+  });
+
+  it("tells a case whose steps are not saved yet apart from a damaged one: the engineer's next step, not an administrator's matter", async () => {
+    const [p] = await db.select().from(programmes).where(eq(programmes.code, "KF60"));
+    const [erin] = await db.select().from(users).where(eq(users.email, demoUser("engineer").email));
+    const fresh = await createCase({ organisationId: p!.organisationId, programmeId: p!.id, reference: "DIST-EMPTY", title: "Nothing saved yet", description: "", actor: { id: erin!.id, email: erin!.email } });
+    const page = await pageOf(fresh.id);
+    expect(page.page).toMatchObject({ state: "problem", cause: "incomplete", problem: expect.stringMatching(/^Save the .* first\.$/) });
   });
 });

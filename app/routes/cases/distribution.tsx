@@ -10,7 +10,7 @@ import { sweepFraction, sweepProgressText } from "~/domain/results";
 import { formatCount } from "~/domain/units";
 import { getCaseUnits } from "~/services/case-steps.server";
 import type { DistributionDrawings } from "~/charts/drawings.server";
-import { distributionPage, mergedDispositions, type DistributionPageView } from "~/services/distribution.server";
+import { distributionPage, mergedDispositions, type DistributionPageView, type ProblemCause } from "~/services/distribution.server";
 import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
 import { GREEK_TEXT } from "~/utils/page-fonts";
@@ -39,6 +39,13 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   });
 }
 
+// The problem panel's heading says whose move it is: the engineer's, the inputs', or an administrator's.
+const PROBLEM_HEADINGS: Record<ProblemCause, string> = {
+  incomplete: "Nothing to show yet",
+  refused: "These inputs cannot be computed",
+  damaged: "The stored dispositions cannot be used",
+};
+
 export default function DistributionRoute({ loaderData }: Route.ComponentProps) {
   const { page, caseId, units, revision } = loaderData;
   const save: SaveFetcher = useFetcher<typeof action>({ key: "dispositions" });
@@ -66,7 +73,7 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
       <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station; the case by each spanwise method, and the critical cases' root loads under each rule." />
       <ResultsCaution />
       {page.state === "problem" ? (
-        <EmptyState title="Nothing to show yet">{page.problem}</EmptyState>
+        <EmptyState title={PROBLEM_HEADINGS[page.cause]}>{page.problem}</EmptyState>
       ) : page.state === "pending" ? (
         <div className="text-sm" role="status">
           <p className="text-ink-muted">Computing the results of the case file: {sweepProgressText(page.progress, page.cases)} The flagged cases show once they are stored.</p>
