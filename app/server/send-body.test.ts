@@ -1,12 +1,11 @@
 import http from "node:http";
 import type { AddressInfo } from "node:net";
 import zlib from "node:zlib";
-import compression from "compression";
 import express, { type Response } from "express";
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { sendBody } from "./http";
+import { ANSWER_BROTLI_WINDOW_BITS, answerCompression, sendBody } from "./http";
 
-// sendBody behind the same compression middleware as the app (app/server/http.ts), over a socket.
+// sendBody behind the app's compression of answers (app/server/http.ts), over a socket.
 
 let server: http.Server | undefined;
 
@@ -19,7 +18,7 @@ afterEach(async () => {
 
 async function serve(route: (res: Response) => Promise<void>): Promise<string> {
   const app = express();
-  app.use(compression({ threshold: 1024 }));
+  app.use(answerCompression());
   app.get("/", (_req, res) => void route(res));
   server = http.createServer(app);
   await new Promise<void>((resolve) => server!.listen(0, "127.0.0.1", resolve));
@@ -41,6 +40,56 @@ function getBrotli(url: string, onText: (text: string) => void = () => {}): Prom
       .on("error", reject);
   });
 }
+
+/** GET with the given Accept-Encoding; the body as it came over the wire. */
+function getRaw(url: string, acceptEncoding: string): Promise<{ encoding: string | undefined; body: Buffer }> {
+  return new Promise((resolve, reject) => {
+    http
+      .get(url, { headers: { "Accept-Encoding": acceptEncoding } }, (res) => {
+        const out: Buffer[] = [];
+        res.on("data", (b: Buffer) => out.push(b));
+        res.on("end", () => resolve({ encoding: res.headers["content-encoding"], body: Buffer.concat(out) }));
+        res.on("error", reject);
+      })
+      .on("error", reject);
+  });
+}
+
+/** The sliding window's size (WBITS) a brotli stream declares in its first bits, least significant first (RFC 7932, section 9.1). */
+function windowBits(stream: Buffer): number {
+  const bits = stream[0]! | (stream[1]! << 8);
+  if ((bits & 1) === 0) return 16;
+  const n = (bits >> 1) & 7;
+  if (n !== 0) return 17 + n;
+  const m = (bits >> 4) & 7;
+  if (m === 1) return Number.NaN; // reserved in RFC 7932
+  return m === 0 ? 17 : 8 + m;
+}
+
+describe("the compression of answers made per request", () => {
+  const page = `<!DOCTYPE html><table>${Array.from({ length: 2000 }, (_, i) => `<tr><td>C${i}</td><td>${(1 + i / 1000).toFixed(3)}</td></tr>`).join("")}</table>`;
+  const servePage = () =>
+    serve(async (res) => {
+      res.type("text/html").end(page);
+    });
+
+  it("writes brotli with an 18-bit window, not the encoder's 22-bit default (the window the stream's header declares, RFC 7932 section 9.1)", async () => {
+    // Why (app/server/http.ts): each encoder with the default window made V8 run full collections.
+    const answer = await getRaw(await servePage(), "gzip, deflate, br, zstd");
+    expect(answer.encoding).toBe("br");
+    expect(ANSWER_BROTLI_WINDOW_BITS).toBe(18);
+    expect(windowBits(answer.body)).toBe(18);
+    expect(zlib.brotliDecompressSync(answer.body).toString()).toBe(page);
+    // The header reader checked on the encoder's default, which declares 22.
+    expect(windowBits(zlib.brotliCompressSync(Buffer.from(page)))).toBe(22);
+  });
+
+  it("sends gzip to a client that does not accept brotli", async () => {
+    const answer = await getRaw(await servePage(), "gzip");
+    expect(answer.encoding).toBe("gzip");
+    expect(zlib.gunzipSync(answer.body).toString()).toBe(page);
+  });
+});
 
 describe("sending a streamed answer through the compression middleware", () => {
   it("keeps at most one drain listener on the compressor however often it waits for the socket", async () => {

@@ -1,16 +1,15 @@
 /**
  * The peer of the load benchmark: the page in app/routes/case.tsx built by React Router and served
- * by Express (with the same compression middleware as the app), one process per core like the app's
+ * by Express (with the app's compression of answers), one process per core like the app's
  * `npm start`. Started by tests/bench/load.ts with PORT, DATABASE_URL and WEB_PROCESSES.
  */
 import cluster from "node:cluster";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { createRequestHandler } from "@react-router/express";
-import compression from "compression";
 import express from "express";
 import type { ServerBuild } from "react-router";
-import { ISOLATION_HEADERS } from "../../../app/server/http";
+import { answerCompression, ISOLATION_HEADERS } from "../../../app/server/http";
 
 const processes = Number(process.env.WEB_PROCESSES ?? 2);
 if (cluster.isPrimary && processes > 1) {
@@ -23,7 +22,7 @@ if (cluster.isPrimary && processes > 1) {
   const build = (await import(pathToFileURL(path.join(import.meta.dirname, "build/server/index.js")).href)) as ServerBuild;
   const app = express();
   app.disable("x-powered-by");
-  app.use(compression({ threshold: 1024 }));
+  app.use(answerCompression());
   // The app's isolation headers (app/server/http.ts), which change what the browser does: a page with
   // Cross-Origin-Opener-Policy: same-origin is loaded in a browsing context group, and so a renderer
   // process, of its own when it is reached from one without it (a new tab's blank page). Without them
