@@ -48,6 +48,7 @@ export default [
   route("api/cases/:caseId/loads", "routes/api/case-loads.ts"),
   route("api/cases/:caseId/report-comparison", "routes/api/case-report-comparison.ts"),
   route("api/cases/:caseId/case-loads", "routes/api/case-loads-breakdown.ts"),
+  route("api/cases/:caseId/steps/:step/restore", "routes/api/case-step-restore.ts"),
   route("api", "routes/api-docs.tsx"),
   ...prefix("api/v1", [
     route("cases", "routes/api/v1/cases.ts"),

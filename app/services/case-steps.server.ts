@@ -234,6 +234,52 @@ export async function saveStep(input: { caseId: string; step: StepKey; baseRevis
 }
 
 /**
+ * Puts back a step's data as its current revision was saved, where the stored step was changed
+ * since outside Spanwright: the revision's record (step_revisions) is what the app wrote, checked
+ * first against the hash taken when it was written. The revision number, its state and its
+ * signatures stay, since they rest on exactly the data put back; the data found are kept in the
+ * audit entry (step.<step>.restore), as the evidence of what was changed. An administrator's act.
+ */
+export async function restoreSavedRevision(input: { caseId: string; step: StepKey; revision: number; actor: Actor }, database: Db | Tx = db) {
+  const restored = await database.transaction(async (tx) => {
+    const [row] = await tx
+      .select()
+      .from(caseSteps)
+      .where(and(eq(caseSteps.caseId, input.caseId), eq(caseSteps.step, input.step)))
+      .for("update");
+    if (!row || row.revision === 0) throw new DomainError("This step has no saved revision to put back.", { field: "revision", kind: "conflict" });
+    if (row.revision !== input.revision) {
+      throw new DomainError(`The step was saved again (revision ${row.revision}) after you opened revision ${input.revision}: nothing was put back. Reload to see it.`, { field: "revision", kind: "conflict" });
+    }
+    const [saved] = await tx
+      .select({ data: stepRevisions.data, hash: stepRevisions.hash })
+      .from(stepRevisions)
+      .where(and(eq(stepRevisions.caseId, input.caseId), eq(stepRevisions.step, input.step), eq(stepRevisions.revision, row.revision)));
+    if (!saved) throw new DomainError(`Revision ${row.revision} of this step has no saved record: nothing was put back.`, { field: "revision", kind: "conflict" });
+    if (sha256Hex(canonicalJson(saved.data)) !== saved.hash) {
+      throw new DomainError(`The saved record of revision ${row.revision} does not match the hash taken when it was written: it was changed too, and nothing was put back.`, { field: "revision", kind: "conflict" });
+    }
+    if (row.data && sha256Hex(canonicalJson(row.data)) === saved.hash) {
+      throw new DomainError(`The step's data are those of revision ${row.revision} as saved: there is nothing to put back.`, { field: "revision", kind: "conflict" });
+    }
+    await tx.update(caseSteps).set({ data: saved.data }).where(eq(caseSteps.id, row.id));
+    const [caseRow] = await tx.select({ organisationId: cases.organisationId }).from(cases).where(eq(cases.id, input.caseId));
+    await writeAudit(tx, {
+      organisationId: caseRow!.organisationId,
+      actor: input.actor,
+      action: `step.${input.step}.restore`,
+      entityType: "case",
+      entityId: input.caseId,
+      before: { revision: row.revision, data: row.data },
+      after: { revision: row.revision, hash: saved.hash },
+    });
+    return { revision: row.revision };
+  });
+  if (database === db) await queueCaseResults(input.caseId);
+  return restored;
+}
+
+/**
  * Equal step data, numbers within display rounding: a value shown in other units to ten significant
  * figures (or tidied for an input) and posted back differs from the stored one in its last bits only.
  */

@@ -272,7 +272,7 @@ async function rowDispositions(tx: Tx, caseId: string, head: DistributionHead, i
 // does not match it was written outside the app. Said as such, never shown or merged into as none.
 const damagedDispositions = (id?: string) =>
   new DomainError(
-    `The stored dispositions of this case${id ? ` (that of ${id} among them)` : ""} do not match the step's rules: they were changed outside Spanwright. Nothing is shown or saved over them; an administrator must restore the step from its saved revisions.`,
+    `The stored dispositions of this case${id ? ` (that of ${id} among them)` : ""} do not match the step's rules: they were changed outside Spanwright. Nothing is shown or saved over them; an administrator can put back the step's revision as it was saved, from this page.`,
     { field: "dispositions", kind: "conflict" },
   );
 

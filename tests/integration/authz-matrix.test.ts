@@ -97,6 +97,8 @@ const POLICY: Record<string, { loader?: Rule; action?: Rule; intents?: Record<st
   "routes/api/case-loads.ts": { loader: page(ALL, true) },
   "routes/api/case-report-comparison.ts": { loader: page(["engineer", "checker", "quality"], true) },
   "routes/api/case-loads-breakdown.ts": { loader: page(ALL, true), query: "case=:loadCaseId" },
+  // Putting back a step's saved revision over data changed outside the app: an administrator's act.
+  "routes/api/case-step-restore.ts": { action: page(["admin"], true) },
   "routes/api-docs.tsx": { loader: pub },
   "routes/api/v1/cases.ts": { loader: api(ALL), action: notAllowed },
   "routes/api/v1/case-import.ts": { loader: notAllowed, action: api(["engineer"]) },
@@ -163,7 +165,7 @@ beforeAll(async () => {
   const [r] = await db.select().from(reports).where(eq(reports.caseId, c!.id));
   emptyCaseId = empty!.id;
   const loadCaseId = buildCaseFile(c!.title, caseInputs(await getCaseSteps(c!.id)), "envelope").cases[0]!.id;
-  params = { loadCaseId, caseId: c!.id, programmeId: p!.id, reportId: r!.id, token: "no-such-invitation-token-0000000000", jobId: "00000000-0000-4000-8000-000000000000", "*": "no-such-endpoint" };
+  params = { loadCaseId, caseId: c!.id, programmeId: p!.id, reportId: r!.id, step: "distribution", token: "no-such-invitation-token-0000000000", jobId: "00000000-0000-4000-8000-000000000000", "*": "no-such-endpoint" };
   for (const caller of CALLERS) if (caller !== "anonymous") cookies[caller] = await cookieFor(caller);
 }, 120_000);
 

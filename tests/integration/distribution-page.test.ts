@@ -12,6 +12,7 @@ import { loader as viewLoader } from "~/routes/api/case-distribution";
 import { loader as flagsLoader } from "~/routes/api/case-flagged-cases";
 import { loader as searchLoader } from "~/routes/api/case-load-case-search";
 import { loader as spanwiseLoader } from "~/routes/api/case-spanwise-methods";
+import { action as restoreAction } from "~/routes/api/case-step-restore";
 import { action as pageAction, loader as pageLoader } from "~/routes/cases/distribution";
 import { computeQueuedResults, currentDistributionInput, resultsFor } from "~/services/analysis.server";
 import { importCase } from "~/services/case-import.server";
@@ -322,6 +323,58 @@ describe("the distribution page of a large case file", () => {
     expect((await distributionRow(largeId))!.data).toEqual(damaged!.data);
     expect(await revisionCount(largeId)).toBe(revisions);
     await db.update(caseSteps).set({ data: kept!.data }).where(ofStep);
+  });
+
+  it("lets an administrator, and no one else, put back the step's revision as it was saved once its record matches its hash; what was found is kept in the audit log", async () => {
+    const ofStep = and(eq(caseSteps.caseId, largeId), eq(caseSteps.step, "distribution"));
+    const [before] = await db.select({ revision: caseSteps.revision, data: caseSteps.data }).from(caseSteps).where(ofStep);
+    const ofRecord = and(eq(stepRevisions.caseId, largeId), eq(stepRevisions.step, "distribution"), eq(stepRevisions.revision, before!.revision));
+    const [record] = await db.select({ data: stepRevisions.data, hash: stepRevisions.hash }).from(stepRevisions).where(ofRecord);
+    const first = Object.keys((record!.data as DistributionData).dispositions ?? {})[0]!;
+    await db.update(caseSteps).set({ data: sql`jsonb_set(${caseSteps.data}, array['dispositions', ${first}], '{"action": "maybe"}'::jsonb)` }).where(ofStep);
+    const [damaged] = await db.select({ data: caseSteps.data }).from(caseSteps).where(ofStep);
+    const revisions = await revisionCount(largeId);
+    const restore = (who: string, revision: number) =>
+      run(restoreAction, {
+        request: request(`/api/cases/${largeId}/steps/distribution/restore`, { method: "POST", cookie: who, headers: { "Content-Type": "application/json" }, body: JSON.stringify({ revision }) }),
+        params: { caseId: largeId, step: "distribution" },
+      });
+    const restores = async () => (await db.select().from(auditLog).where(and(eq(auditLog.entityId, largeId), eq(auditLog.action, "step.distribution.restore")))).length;
+    const admin = await cookieFor("admin");
+
+    // The engineer may not; an administrator who saw another revision is told so; nothing is written.
+    expect((await restore(cookie, before!.revision)).status).toBe(403);
+    const stale = await restore(admin, before!.revision - 1);
+    expect(stale.status).toBe(409);
+    expect(JSON.stringify(stale.body)).toMatch(/saved again/);
+    expect((await distributionRow(largeId))!.data).toEqual(damaged!.data);
+    expect(await restores()).toBe(0);
+
+    // A revision record changed too is refused: its data no longer give the hash taken when it was written.
+    await db.update(stepRevisions).set({ data: damaged!.data! }).where(ofRecord);
+    const forged = await restore(admin, before!.revision);
+    expect(forged.status).toBe(409);
+    expect(JSON.stringify(forged.body)).toMatch(/does not match the hash/);
+    expect((await distributionRow(largeId))!.data).toEqual(damaged!.data);
+    await db.update(stepRevisions).set({ data: record!.data }).where(ofRecord);
+
+    const done = await restore(admin, before!.revision);
+    expect(done.status).toBe(200);
+    expect(done.body).toMatchObject({ ok: true, revision: before!.revision });
+    const after = (await distributionRow(largeId))!;
+    expect(after.data).toEqual(record!.data);
+    expect(after.revision).toBe(before!.revision);
+    expect(await revisionCount(largeId)).toBe(revisions);
+    const [entry] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, largeId), eq(auditLog.action, "step.distribution.restore")));
+    expect(entry!.before).toMatchObject({ revision: before!.revision, data: damaged!.data });
+    expect(entry!.after).toMatchObject({ revision: before!.revision, hash: record!.hash });
+    expect((await pageOf(largeId)).page.state).toBe("ready");
+
+    // Nothing left to put back.
+    const again = await restore(admin, before!.revision);
+    expect(again.status).toBe(409);
+    expect(JSON.stringify(again.body)).toMatch(/nothing to put back/);
+    expect(await restores()).toBe(1);
   });
 
   it("tells a case whose steps are not saved yet apart from a damaged one: the engineer's next step, not an administrator's matter", async () => {

@@ -555,3 +555,37 @@ function SpanwiseMethods({ units, c, drawing }: { units: UnitSystem; c: Spanwise
     </div>
   );
 }
+
+type RestoreAnswer = { ok: true; message: string | null; revision: number } | { ok: false; message: string | null; fieldErrors: FieldErrors };
+
+/**
+ * Where the stored dispositions were changed outside Spanwright: an administrator puts back the
+ * step's current revision as it was saved (its record is checked against its hash by the server).
+ * The page reloads its data after the answer, and shows the step again once it is put back.
+ */
+export function RestoreRevisionPanel({ caseId, revision }: { caseId: string; revision: number }) {
+  const restore = useFetcher<RestoreAnswer>();
+  const answered = restore.state === "idle" ? restore.data : undefined;
+  const refusal = answered && !answered.ok ? [answered.message, ...Object.values(answered.fieldErrors).flat()].filter(Boolean).join(" ") : null;
+  return (
+    <div className="mt-4">
+      <Panel title="Put back the saved revision">
+        <restore.Form method="post" action={href("/api/cases/:caseId/steps/:step/restore", { caseId, step: "distribution" })}>
+          <input type="hidden" name="revision" value={revision} />
+          <p className="mb-3 text-sm text-ink-muted">
+            As an administrator you can put back revision {revision} of the dispositions as it was saved in Spanwright, once the server has checked its record against the hash taken when it was written. The revision keeps its
+            number and its signatures; what is stored now is kept in the audit log.
+          </p>
+          <Button type="submit" variant="danger" disabled={restore.state !== "idle"}>
+            Put back revision {revision}
+          </Button>
+        </restore.Form>
+        {refusal ? (
+          <div className="mt-3">
+            <Alert>{refusal}</Alert>
+          </div>
+        ) : null}
+      </Panel>
+    </div>
+  );
+}

@@ -14,7 +14,7 @@ import { distributionPage, mergedDispositions, type DistributionPageView, type P
 import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
 import { GREEK_TEXT } from "~/utils/page-fonts";
-import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
+import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RestoreRevisionPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -23,7 +23,15 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const [steps, units] = await Promise.all([readStepStates(), getCaseUnits(c.id)]);
   // From the stored result only: no solve here. The shown case's distribution is fetched after the page shows.
   const page = await distributionPage({ caseId: c.id, title: c.title, units, requested: new URL(request.url).searchParams.get("case") });
-  return { caseId: c.id, units, revision: steps.distribution.revision, status: steps.distribution.status, canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted", page };
+  return {
+    caseId: c.id,
+    units,
+    revision: steps.distribution.revision,
+    status: steps.distribution.status,
+    canEdit: hasPermission(current.roles, "case:edit") && steps.distribution.status !== "submitted",
+    canRestore: hasPermission(current.roles, "org:admin"),
+    page,
+  };
 }
 
 export async function action({ request, params, context }: Route.ActionArgs) {
@@ -73,7 +81,10 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
       <PageHeader title="Distribution" description="Spanwise lift and pitching moment of each case, the solver beside Schrenk's approximation, the three compressibility rules side by side, and the critical Mach number of each station; the case by each spanwise method, and the critical cases' root loads under each rule." />
       <ResultsCaution />
       {page.state === "problem" ? (
-        <EmptyState title={PROBLEM_HEADINGS[page.cause]}>{page.problem}</EmptyState>
+        <>
+          <EmptyState title={PROBLEM_HEADINGS[page.cause]}>{page.problem}</EmptyState>
+          {page.cause === "damaged" && loaderData.canRestore ? <RestoreRevisionPanel caseId={caseId} revision={revision} /> : null}
+        </>
       ) : page.state === "pending" ? (
         <div className="text-sm" role="status">
           <p className="text-ink-muted">Computing the results of the case file: {sweepProgressText(page.progress, page.cases)} The flagged cases show once they are stored.</p>
