@@ -21,7 +21,7 @@ import { action as reviewAction } from "~/routes/cases/review";
 import { loader as casesLoader } from "~/routes/cases/list";
 import { loader as apiCasesLoader } from "~/routes/api/v1/cases";
 import { createReportRow, generateReport, setProgress } from "~/services/reports.server";
-import { HeadObjectCommand } from "@aws-sdk/client-s3";
+import { HeadObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { listKeys, resetS3Client, s3 } from "~/services/storage.server";
 import { resetEnvCache } from "~/utils/env.server";
 import { freePort } from "../setup/global-setup";
@@ -184,16 +184,32 @@ describe("a report through S3 and database faults", () => {
     const uploaded = await listKeys("spanwright-reports", `cases/${caseId}/`);
     expect(uploaded).toHaveLength(1);
     const before = await objectHeads(uploaded);
-    await stopPostgres();
-    const failure = await attempt;
-    expect(failure).toBeInstanceOf(Error);
-    // The object of the report that was not recorded is removed even though the database is away.
-    // (Once in several runs under load it was still listed here: the message tells which write it is.)
-    const left = await listKeys("spanwright-reports", `cases/${caseId}/`);
-    expect(left, left.length ? `uploaded ${before}; still listed ${await objectHeads(left)}` : "").toEqual([]);
-    await locker.end().catch(() => {});
-
-    postgres = await startOwnPostgres();
+    // Every S3 request from here on, with its answer: if the object is still listed below, the
+    // message says whether its removal was sent and what the store answered.
+    const sent: string[] = [];
+    type Sent = { input: { Key?: string }; constructor: { name: string } };
+    const send = S3Client.prototype.send as unknown as (this: S3Client, command: Sent) => Promise<{ $metadata?: { httpStatusCode?: number } }>;
+    const spy = vi.spyOn(S3Client.prototype, "send").mockImplementation(function (this: S3Client, command: Sent) {
+      const name = `${command.constructor.name} ${JSON.stringify(command.input.Key ?? null)} at ${new Date().toISOString()}`;
+      return send.call(this, command).then(
+        (out) => (sent.push(`${name}: ${out.$metadata?.httpStatusCode ?? "?"} at ${new Date().toISOString()}`), out),
+        (error: unknown) => (sent.push(`${name}: ${error instanceof Error ? error.message : String(error)}`), Promise.reject(error)),
+      );
+    } as never);
+    try {
+      await stopPostgres();
+      const failure = await attempt;
+      expect(failure).toBeInstanceOf(Error);
+      // The object of the report that was not recorded is removed even though the database is away.
+      // (Once in several runs under load it was still listed here: the message tells which write it is.)
+      const left = await listKeys("spanwright-reports", `cases/${caseId}/`);
+      expect(left, left.length ? `uploaded ${before}; still listed ${await objectHeads(left)}; S3 requests since: ${sent.join("; ")}` : "").toEqual([]);
+    } finally {
+      spy.mockRestore();
+      await locker.end().catch(() => {});
+      // Whatever failed above, the later tests get their database back.
+      postgres ??= await startOwnPostgres();
+    }
     const [row] = await db.select().from(reports).where(eq(reports.id, report.id));
     expect(row!.status).not.toBe("issued");
     expect(row).toMatchObject({ sha256: null, key: null, issuedAt: null, snapshot: null });
