@@ -74,9 +74,9 @@ export const ANSWER_BROTLI_WINDOW_BITS = 18;
 
 /**
  * The compression of answers made per request (pages, JSON, CSV): brotli at quality 4 where the
- * client accepts it, else gzip. With brotli's default 4 MiB window every encoder reports memory
- * outside the JavaScript heap on which V8 runs a full collection: at 50 connections each web
- * process ran one every 0.4 s on the case overview, and served 30 % fewer requests
+ * client accepts it, else gzip. With brotli's default 4 MiB window, V8 ran a full collection every
+ * 0.4 s in each web process at 50 connections on the case overview (most likely on the encoders'
+ * memory, which Node's zlib reports to it), and the processes served 30 % fewer requests
  * (docs/benchmarks.md). No answer gains from the larger window at this quality: the 2.3 MB results
  * document compresses to 527 KB with 18 bits against 537 KB with 22.
  */
