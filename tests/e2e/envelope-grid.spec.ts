@@ -145,3 +145,45 @@ test("the window on a large case file fills a few rows at a time once the page a
   expect(added.reduce((a, b) => a + b, 0)).toBeGreaterThanOrEqual(16);
   expect(Math.max(...added), `rows added per task: ${added.join(", ")}`).toBeLessThanOrEqual(8);
 });
+
+// "Go to row" pressed as soon as the page answers input, before the browser's first idle moment has
+// drawn the window: the row asked for is shown once the window is drawn (it was lost, and the window
+// stayed at row 1). The page's idle callbacks are held until the jump has been asked for.
+test("a row asked for before the window on a large case file is first drawn is shown once it is", async ({ page }) => {
+  test.setTimeout(180_000);
+  await signIn(page, "engineer");
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  const doc = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] };
+  doc.cases = Array.from({ length: 600 }, (_, i) => ({ id: `J${i + 1}`, mach: 0.3, altitude: 1000 * (i % 5), weight: 30000, nz: 1 + (i % 7) * 0.25 }));
+  const imported = await page.request.post("/api/v1/cases/import", { data: { programmeId: demo.programme.id, reference: "E2E-GRID-JUMP", case: doc }, headers: { Origin: new URL(page.url()).origin } });
+  expect(imported.status(), await imported.text()).toBe(201);
+  const caseId = ((await imported.json()) as { id: string }).id;
+  await page.addInitScript(() => {
+    // requestIdleCallback held: the callbacks asked for wait in a queue until __releaseIdle(), then
+    // go to the browser's own, as does every later one (with a time limit, as the page's own calls
+    // have: headless Chromium, drawing no frames, may have no idle moment to run them in).
+    const w = window as unknown as { requestIdleCallback: typeof requestIdleCallback; cancelIdleCallback: typeof cancelIdleCallback; __releaseIdle: () => void };
+    const own = { request: w.requestIdleCallback.bind(window), cancel: w.cancelIdleCallback.bind(window) };
+    const held = new Map<number, IdleRequestCallback>();
+    let next = 1_000_000;
+    w.requestIdleCallback = (cb) => (held.set(next, cb), next++);
+    w.cancelIdleCallback = (id) => (held.delete(id) ? undefined : own.cancel(id));
+    w.__releaseIdle = () => {
+      w.requestIdleCallback = own.request;
+      w.cancelIdleCallback = own.cancel;
+      for (const cb of held.values()) own.request(cb, { timeout: 100 });
+      held.clear();
+    };
+  });
+  await page.goto(`/cases/${caseId}/envelope`);
+  await hydrated(page);
+  const grid = page.getByTestId("load-case-window");
+  await expect(grid).toHaveAttribute("aria-busy", "true");
+  await expect(grid.locator("tr[aria-rowindex]")).toHaveCount(0);
+  await page.getByLabel("Go to row").fill("550");
+  await page.getByRole("button", { name: "Show", exact: true }).click();
+  await page.evaluate(() => (window as unknown as { __releaseIdle: () => void }).__releaseIdle());
+  await expect(grid.getByLabel("Case, row 550", { exact: true })).toHaveValue("J550");
+  await expect(grid.getByLabel("Case, row 1", { exact: true })).toHaveCount(0);
+});

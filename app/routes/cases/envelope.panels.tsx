@@ -252,7 +252,19 @@ export function CasesWindowPanel({ caseId, first, revision, units, canEdit, stat
   const errorKey = (i: number) => (i >= total ? `added.${i - total}` : `cases.${i}`);
   const cellErrors = (i: number, key: string) => errors[`${errorKey(i)}.${key}`] ?? [];
   const edits = changed.size + removed.size + added.length;
-  const show = (row: number) => virtualizer.scrollToIndex(Math.max(0, Math.min(row, total + added.length - 1)), { align: "start" });
+  // A row asked for before the window is first drawn (the virtualiser is off until then) is shown
+  // once it is: scrolling then would do nothing, and the jump would be lost.
+  const [jumpTo, setJumpTo] = useState<number | null>(null);
+  const show = (row: number) => {
+    const index = Math.max(0, Math.min(row, total + added.length - 1));
+    if (drawn > 0) virtualizer.scrollToIndex(index, { align: "start" });
+    else setJumpTo(index);
+  };
+  useEffect(() => {
+    if (drawn === 0 || jumpTo === null) return;
+    virtualizer.scrollToIndex(jumpTo, { align: "start" });
+    setJumpTo(null);
+  }, [drawn, jumpTo, virtualizer]);
   const onSave = () =>
     save.submit(
       { intent: "rows", revision, changed: [...changed].filter(([i]) => !removed.has(i)).map(([index, row]) => ({ index, row })), removed: [...removed], added },
