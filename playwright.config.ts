@@ -10,6 +10,8 @@ const BASE = Number(process.env.E2E_PORT_BASE ?? 3100);
 const PORT = BASE;
 const ORIGIN = `http://127.0.0.1:${PORT}`;
 process.env.E2E_ORIGIN = ORIGIN;
+// The app's own PostgreSQL, for the tests that change stored data as only someone outside the app could.
+process.env.E2E_DATABASE_URL = `postgres://postgres@127.0.0.1:${BASE + 51239}/spanwright`;
 const PREFIX = "spanwright-e2e-";
 
 function alive(pid: number): boolean {
@@ -81,7 +83,7 @@ export default defineConfig({
     env: {
       SPANWRIGHT_DATA_DIR: e2eDataDir(),
       PORT: String(PORT),
-      PG_PORT: String(BASE + 51239),
+      PG_PORT: new URL(process.env.E2E_DATABASE_URL).port,
       S3_PORT: String(BASE + 1479),
       SMTP_PORT: String(BASE - 565),
       OIDC_PORT: String(BASE + 1490),

@@ -1,12 +1,14 @@
 import { expect, test } from "@playwright/test";
-import { copyOfDemoCase, hydrated, shot, signIn } from "./helpers";
+import pg from "pg";
+import { copyOfDemoCase, hydrated, shot, signedIn, signIn } from "./helpers";
 
 // The distribution page reads the stored results and solves nothing itself: a case file whose results
 // are not stored yet shows the worker's progress, then the flagged cases; the shown case's distribution
 // is fetched after the page shows, the picker asks the server for matching case ids, and a save sends
-// only the rows changed.
+// only the rows changed. Dispositions changed outside the app are refused until an administrator puts
+// back the revision as it was saved.
 
-test("the distribution page waits for the results, finds a case by part of its id, and a disposition saved reaches the stored revision", async ({ page }) => {
+test("the distribution page waits for the results, finds a case by part of its id, and a disposition saved reaches the stored revision", async ({ page, browser }) => {
   await signIn(page, "engineer");
   // A copy of its own: nothing stored for its inputs yet, and no disposition.
   const caseId = await copyOfDemoCase(page, "TN-DIST-E2E");
@@ -68,4 +70,29 @@ test("the distribution page waits for the results, finds a case by part of its i
   expect(tail.rows).toEqual([expect.objectContaining({ id: lastId, disposition: { action: "exclude", comment: "" } })]);
   const head = (await (await page.request.get(`/api/cases/${caseId}/flagged-cases?offset=0&limit=50`)).json()) as typeof rows;
   expect(head.rows.find((r) => r.id === id)?.disposition).toEqual({ action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." });
+
+  // A disposition changed in the database, outside Spanwright, to one its rules refuse: the page says
+  // so, and an administrator puts back revision 2 as it was saved; the page then says what was done
+  // (before, the step came back with no word of it).
+  const sql = new pg.Client({ connectionString: process.env.E2E_DATABASE_URL });
+  await sql.connect();
+  try {
+    const changed = await sql.query(`update case_steps set data = jsonb_set(data, array['dispositions', $2::text], '{"action": "maybe"}'::jsonb) where case_id = $1 and step = 'distribution'`, [caseId, id]);
+    expect(changed.rowCount).toBe(1);
+  } finally {
+    await sql.end();
+  }
+  const admin = await signedIn(browser, "admin");
+  await admin.goto(`/cases/${caseId}/distribution`);
+  await hydrated(admin);
+  await expect(admin.getByText("The stored dispositions cannot be used", { exact: true })).toBeVisible();
+  await admin.getByRole("button", { name: "Put back revision 2" }).click();
+  await expect(admin.getByText("Revision 2 put back as it was saved; what was found instead is kept in the audit log.", { exact: true })).toBeVisible();
+  await expect(admin.getByRole("table", { name: "Flagged cases and their dispositions" })).toBeVisible();
+  await expect(admin.getByText("The stored dispositions cannot be used", { exact: true })).toHaveCount(0);
+  const back = (await (await admin.request.get(`/api/cases/${caseId}/flagged-cases?offset=0&limit=50`)).json()) as typeof rows;
+  expect(back.revision).toBe(2);
+  expect(back.rows.find((r) => r.id === id)?.disposition).toEqual({ action: "justify", comment: "Inside the wind-tunnel data's range; kept in the envelope." });
+  await shot(admin, "distribution-put-back");
+  await admin.context().close();
 });

@@ -17,6 +17,7 @@ import { formatNumber, formatQuantity, fromSI, unitSymbol, type UnitSystem } fro
 import type { DistributionDrawings } from "~/charts/drawings.server";
 import type { DistributionPageView, DistributionSummary, FlagWindow } from "~/services/distribution.server";
 import type { FieldErrors } from "~/utils/form-data";
+import type { action as restoreAction } from "../api/case-step-restore";
 import { methodUsedLines } from "~/domain/method-statement";
 import type { ResultMethod } from "~/exchange";
 
@@ -556,15 +557,16 @@ function SpanwiseMethods({ units, c, drawing }: { units: UnitSystem; c: Spanwise
   );
 }
 
-type RestoreAnswer = { ok: true; message: string | null; revision: number } | { ok: false; message: string | null; fieldErrors: FieldErrors };
+/** The restore's fetcher, shared by key with the page, which shows its answer once the step is back (this panel is then gone). */
+export const RESTORE_FETCHER_KEY = "restore-saved-revision";
 
 /**
  * Where the stored dispositions were changed outside Spanwright: an administrator puts back the
  * step's current revision as it was saved (its record is checked against its hash by the server).
- * The page reloads its data after the answer, and shows the step again once it is put back.
+ * The page reloads its data after the answer, and shows the step again, with the answer, once it is put back.
  */
 export function RestoreRevisionPanel({ caseId, revision }: { caseId: string; revision: number }) {
-  const restore = useFetcher<RestoreAnswer>();
+  const restore = useFetcher<typeof restoreAction>({ key: RESTORE_FETCHER_KEY });
   const answered = restore.state === "idle" ? restore.data : undefined;
   const refusal = answered && !answered.ok ? [answered.message, ...Object.values(answered.fieldErrors).flat()].filter(Boolean).join(" ") : null;
   return (

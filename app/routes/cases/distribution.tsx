@@ -14,7 +14,8 @@ import { distributionPage, mergedDispositions, type DistributionPageView, type P
 import { answer, parseBody, refused } from "~/utils/http.server";
 import type { Route } from "./+types/distribution";
 import { GREEK_TEXT } from "~/utils/page-fonts";
-import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RestoreRevisionPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
+import { CasePicker, DispositionsPanel, DistributionCharts, FlagSummaryPanel, MethodUsedPanel, RESTORE_FETCHER_KEY, RestoreRevisionPanel, RuleSensitivityPanel, SpanwiseMethodsPanel, type SaveFetcher } from "./distribution.panels";
+import type { action as restoreAction } from "../api/case-step-restore";
 import { DispositionFormSchema } from "./distribution.schema";
 import { saveStepAnswer } from "./step-action.server";
 
@@ -75,6 +76,8 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
   const view = picked.data && "y" in picked.data && picked.data.caseId === shownId ? picked.data : null;
   const failed = picked.state === "idle" && picked.data && "error" in picked.data ? picked.data.message : null;
   const answered = save.state === "idle" ? save.data : undefined;
+  const restored = useFetcher<typeof restoreAction>({ key: RESTORE_FETCHER_KEY });
+  const putBack = restored.state === "idle" && restored.data?.ok ? restored.data.message : null;
   const errors = Object.entries(answered && !answered.ok ? answered.fieldErrors : {});
   return (
     <>
@@ -105,6 +108,10 @@ export default function DistributionRoute({ loaderData }: Route.ComponentProps) 
           {answered?.ok ? (
             <div className="mb-3">
               <Alert tone="info">{answered.message}</Alert>
+            </div>
+          ) : putBack ? (
+            <div className="mb-3">
+              <Alert tone="info">{putBack}</Alert>
             </div>
           ) : null}
           {errors.length ? (
