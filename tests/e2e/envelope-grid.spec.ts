@@ -121,13 +121,7 @@ test("the long grid fills its window a few rows at a time, never more than 8 row
 test("the window on a large case file fills a few rows at a time once the page answers input, never more than 8 rows in one task", async ({ page }) => {
   test.setTimeout(180_000);
   await signIn(page, "engineer");
-  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
-  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
-  const doc = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] };
-  doc.cases = Array.from({ length: 600 }, (_, i) => ({ id: `W${i + 1}`, mach: 0.3, altitude: 1000 * (i % 5), weight: 30000, nz: 1 + (i % 7) * 0.25 }));
-  const imported = await page.request.post("/api/v1/cases/import", { data: { programmeId: demo.programme.id, reference: "E2E-GRID-WINDOW", case: doc }, headers: { Origin: new URL(page.url()).origin } });
-  expect(imported.status(), await imported.text()).toBe(201);
-  const caseId = ((await imported.json()) as { id: string }).id;
+  const caseId = await largeCaseFile(page, "E2E-GRID-WINDOW", "W");
   await page.addInitScript(() => {
     const w = window as unknown as { __windowRows: number[] };
     w.__windowRows = [];
@@ -152,13 +146,7 @@ test("the window on a large case file fills a few rows at a time once the page a
 test("a row asked for before the window on a large case file is first drawn is shown once it is", async ({ page }) => {
   test.setTimeout(180_000);
   await signIn(page, "engineer");
-  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
-  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
-  const doc = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] };
-  doc.cases = Array.from({ length: 600 }, (_, i) => ({ id: `J${i + 1}`, mach: 0.3, altitude: 1000 * (i % 5), weight: 30000, nz: 1 + (i % 7) * 0.25 }));
-  const imported = await page.request.post("/api/v1/cases/import", { data: { programmeId: demo.programme.id, reference: "E2E-GRID-JUMP", case: doc }, headers: { Origin: new URL(page.url()).origin } });
-  expect(imported.status(), await imported.text()).toBe(201);
-  const caseId = ((await imported.json()) as { id: string }).id;
+  const caseId = await largeCaseFile(page, "E2E-GRID-JUMP", "J");
   await page.addInitScript(() => {
     // requestIdleCallback held: the callbacks asked for wait in a queue until __releaseIdle(), then
     // go to the browser's own, as does every later one (with a time limit, as the page's own calls
@@ -187,3 +175,14 @@ test("a row asked for before the window on a large case file is first drawn is s
   await expect(grid.getByLabel("Case, row 550", { exact: true })).toHaveValue("J550");
   await expect(grid.getByLabel("Case, row 1", { exact: true })).toHaveCount(0);
 });
+
+/** A copy of the demo case with 600 load cases (over the whole grid's 500: the page shows a window on them), ids `${prefix}1`… */
+async function largeCaseFile(page: Page, reference: string, prefix: string): Promise<string> {
+  const list = (await (await page.request.get("/api/v1/cases")).json()) as { cases: { id: string; reference: string; programme: { id: string } }[] };
+  const demo = list.cases.find((c) => c.reference === "TN-WL-001")!;
+  const doc = (await (await page.request.get(`/api/v1/cases/${demo.id}/export`)).json()) as { cases: unknown[] };
+  doc.cases = Array.from({ length: 600 }, (_, i) => ({ id: `${prefix}${i + 1}`, mach: 0.3, altitude: 1000 * (i % 5), weight: 30000, nz: 1 + (i % 7) * 0.25 }));
+  const imported = await page.request.post("/api/v1/cases/import", { data: { programmeId: demo.programme.id, reference, case: doc }, headers: { Origin: new URL(page.url()).origin } });
+  expect(imported.status(), await imported.text()).toBe(201);
+  return ((await imported.json()) as { id: string }).id;
+}
